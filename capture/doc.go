@@ -1,0 +1,9 @@
+// Package capture is the edge where sound enters fifthline: WAV files read
+// as a stream, live input from PortAudio devices, and a paced synthetic
+// performance for the demo. Every one of them is a Source that yields mono
+// float32 blocks in [-1, 1] the way io.Reader yields bytes.
+//
+// It is not where pitch is found or notes are named (see pitchdetect and
+// target): capture only delivers samples, counts what it lost, and reports
+// bad files and vanished devices as one-line errors.
+package capture
