@@ -1,0 +1,222 @@
+package pitchdetect
+
+import (
+	"errors"
+	"fmt"
+	"math"
+
+	"gonum.org/v1/gonum/dsp/fourier"
+)
+
+// Estimate is the detector's reading for one analysis frame.
+type Estimate struct {
+	Time       float64 // seconds from the first sample fed; centre of the analysis window
+	Hz         float64 // 0 when unvoiced
+	Confidence float64 // 0..1
+	Voiced     bool
+	Level      float64 // RMS of the window in dBFS (1.0 = full scale; a full-scale sine reads -3.01)
+}
+
+// Range of fundamentals searched: a little beyond A0 (27.5 Hz) and C8
+// (4186 Hz), the piano's range (common practice).
+const (
+	MinHz = 26.0
+	MaxHz = 4400.0
+)
+
+// Voicing thresholds.
+const (
+	silenceDBFS   = -65.0 // below this the frame is silent and skips the FFTs
+	minClarity    = 0.75  // NSDF peak value
+	minShare      = 0.6   // share of spectral power in the harmonic comb
+	residualScale = 4.0   // cents of partial disagreement that halve confidence
+	minConfidence = 0.5
+	floorDB       = -80.0 // partials this far below the strongest are ignored
+)
+
+// Detector estimates the pitch of a monophonic stream, one Estimate per hop.
+// It is not safe for concurrent use.
+type Detector struct {
+	fs           float64
+	window, hop  int
+	lag          int // samples between the two spectral frames
+	span         int // window + lag: samples one estimate looks at
+	minHz, maxHz float64
+	ceilHz       float64 // highest partial frequency used
+	binHz        float64
+	minLag       int
+
+	ring       []float64
+	w          int // next write position in ring
+	fed        int // samples fed since Reset
+	untilFrame int
+
+	lin       []float64 // the span, oldest first
+	win       []float64 // Blackman–Harris window
+	wx        []float64 // windowed frame scratch
+	fftWin    *fourier.FFT
+	specA     []complex128
+	specB     []complex128
+	power     []float64
+	fftPad    *fourier.FFT
+	padBuf    []float64
+	padSpec   []complex128
+	nsdfOut   []float64
+	floor     float64 // absolute power floor for partial peaks in this frame
+	specTotal float64
+}
+
+// New returns a Detector for the sample rate with the given window and hop
+// in samples. window 0 picks about 85 ms rounded up to a power of two (4096
+// at 44.1 and 48 kHz, 8192 at 96 kHz), long enough for two periods of A0;
+// hop 0 picks window/8.
+func New(sampleRate float64, window, hop int) (*Detector, error) {
+	switch {
+	case !(sampleRate >= 8000 && sampleRate <= 384000):
+		return nil, fmt.Errorf("pitchdetect: sample rate %g Hz outside 8000..384000", sampleRate)
+	case window < 0 || hop < 0:
+		return nil, errors.New("pitchdetect: window and hop must not be negative")
+	}
+	if window == 0 {
+		window = 1
+		for float64(window) < 0.085*sampleRate {
+			window *= 2
+		}
+	}
+	if window < 256 || window > 1<<18 {
+		return nil, fmt.Errorf("pitchdetect: window %d outside 256..262144 samples", window)
+	}
+	if hop == 0 {
+		hop = window / 8
+	}
+	if hop > window {
+		return nil, fmt.Errorf("pitchdetect: hop %d longer than window %d", hop, window)
+	}
+	d := &Detector{fs: sampleRate, window: window, hop: hop, lag: window / 8}
+	d.span = window + d.lag
+	d.binHz = sampleRate / float64(window)
+	d.minHz = math.Max(MinHz, 2*sampleRate/float64(window))
+	d.maxHz = math.Min(MaxHz, 0.45*sampleRate)
+	d.ceilHz = math.Min(0.45*sampleRate, 16000)
+	d.minLag = int(math.Floor(sampleRate / d.maxHz))
+	maxLag := min(int(math.Ceil(sampleRate/d.minHz))+2, window/2)
+
+	d.ring = make([]float64, d.span)
+	d.lin = make([]float64, d.span)
+	d.win = make([]float64, window)
+	blackmanHarris(d.win)
+	d.wx = make([]float64, window)
+	d.fftWin = fourier.NewFFT(window)
+	d.specA = make([]complex128, window/2+1)
+	d.specB = make([]complex128, window/2+1)
+	d.power = make([]float64, window/2+1)
+	d.fftPad = fourier.NewFFT(2 * window)
+	d.padBuf = make([]float64, 2*window)
+	d.padSpec = make([]complex128, window+1)
+	d.nsdfOut = make([]float64, maxLag+1)
+	d.Reset()
+	return d, nil
+}
+
+// Reset forgets all samples fed so far; times restart at zero.
+func (d *Detector) Reset() {
+	clear(d.ring)
+	d.w, d.fed = 0, 0
+	d.untilFrame = d.span
+}
+
+// SampleRate, Window and Hop report the detector's configuration.
+func (d *Detector) SampleRate() float64 { return d.fs }
+func (d *Detector) Window() int         { return d.window }
+func (d *Detector) Hop() int            { return d.hop }
+
+// Span is the number of samples behind each estimate (window plus the lag
+// between the two spectral frames); the first estimate comes after Span
+// samples, then one per hop.
+func (d *Detector) Span() int { return d.span }
+
+// Feed consumes a block of samples and appends one Estimate per completed
+// hop to out, returning it. Blocks may have any length. It does not allocate
+// when out has room.
+func (d *Detector) Feed(block []float32, out []Estimate) []Estimate {
+	for len(block) > 0 {
+		k := min(d.untilFrame, len(block))
+		for _, s := range block[:k] {
+			d.ring[d.w] = float64(s)
+			d.w++
+			if d.w == len(d.ring) {
+				d.w = 0
+			}
+		}
+		block = block[k:]
+		d.fed += k
+		d.untilFrame -= k
+		if d.untilFrame == 0 {
+			d.untilFrame = d.hop
+			out = append(out, d.frame())
+		}
+	}
+	return out
+}
+
+// frame analyses the span now in the ring.
+func (d *Detector) frame() Estimate {
+	n := copy(d.lin, d.ring[d.w:])
+	copy(d.lin[n:], d.ring[:d.w])
+	e := Estimate{Time: (float64(d.fed) - 0.5*float64(d.span)) / d.fs}
+	frameA, frameB := d.lin[:d.window], d.lin[d.lag:]
+
+	ss := 0.0
+	for _, v := range frameB {
+		ss += v * v
+	}
+	e.Level = 10 * math.Log10(ss/float64(d.window)+1e-30)
+	if e.Level < silenceDBFS {
+		return e
+	}
+
+	period, clarity, ok := pickPeriod(d.nsdf(frameB), d.minLag)
+	if !ok || clarity < minClarity/2 {
+		e.Confidence = math.Max(clarity, 0)
+		return e
+	}
+	d.spectrum(frameA, d.specA)
+	d.spectrum(frameB, d.specB)
+	d.powerSpectrum()
+
+	f, period := d.guard(period)
+	ft := d.fitComb(f)
+	if f < resolvedBins*d.binHz {
+		// Partials closer than the window resolves: the comb fit would
+		// follow leakage, while the long period makes the NSDF lag precise.
+		ft.hz, ft.residual = d.fs/period, 0
+	}
+	conf := clarity * ft.share / (1 + (ft.residual/residualScale)*(ft.residual/residualScale))
+	e.Confidence = math.Max(0, math.Min(conf, 1))
+	if ft.hz >= d.minHz && ft.hz <= d.maxHz && clarity >= minClarity && ft.share >= minShare &&
+		e.Confidence >= minConfidence && ft.partials > 0 {
+		e.Hz, e.Voiced = ft.hz, true
+	}
+	return e
+}
+
+// spectrum windows x and transforms it into dst.
+func (d *Detector) spectrum(x []float64, dst []complex128) {
+	for i, v := range x {
+		d.wx[i] = v * d.win[i]
+	}
+	d.fftWin.Coefficients(dst, d.wx)
+}
+
+// powerSpectrum fills d.power from frame B and sets the partial floor.
+func (d *Detector) powerSpectrum() {
+	peak, total := 0.0, 0.0
+	for i, z := range d.specB {
+		p := real(z)*real(z) + imag(z)*imag(z)
+		d.power[i] = p
+		total += p
+		peak = math.Max(peak, p)
+	}
+	d.specTotal = total
+	d.floor = peak * math.Pow(10, floorDB/10)
+}

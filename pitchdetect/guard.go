@@ -1,0 +1,150 @@
+package pitchdetect
+
+// The octave and fifth guard. A period pick can land on a multiple or a
+// fraction of the true period when the fundamental is weak (bassoon, low
+// brass, cello C string), when even partials dominate, or when a strong
+// third partial makes 2/3 of the period look periodic. The guard asks the
+// spectrum two questions about a candidate F:
+//
+//   - down: does a lower G = F·p/q (1/2, 1/3, 2/3) have real partials that
+//     F does not explain (peaks at odd multiples of F/2, etc.)? Then G is the
+//     fundamental.
+//   - up: are F's odd partials missing while its even ones are present?
+//     Then F is an octave low (an odd-only spectrum such as a clarinet's is
+//     the opposite case and keeps F).
+
+// guardExtraRatio is the share of F's harmonic power that unexplained
+// partials of a lower candidate must reach before the pitch moves down.
+const guardExtraRatio = 0.05
+
+// guardOddRatio: below this share of even-partial power, odd partials count
+// as missing and the pitch moves an octave up.
+const guardOddRatio = 0.01
+
+var guardDown = [...]struct{ p, q int }{{1, 2}, {1, 3}, {2, 3}}
+
+// peakNear returns the power of a spectral peak within a bin of f, or 0 if
+// the spectrum has no local maximum there above the floor.
+func (d *Detector) peakNear(f float64) float64 {
+	p := d.power
+	c := int(f/d.binHz + 0.5)
+	best := 0.0
+	for b := max(c-1, 1); b <= c+1 && b < len(p)-1; b++ {
+		if p[b] >= p[b-1] && p[b] >= p[b+1] && p[b] > best {
+			best = p[b]
+		}
+	}
+	if best < d.floor {
+		return 0
+	}
+	return best
+}
+
+// combPower sums peak power at multiples j·g (j ≥ 1) below the analysis
+// ceiling; skip, if non-zero, leaves out every multiple j with j%skip == 0.
+func (d *Detector) combPower(g float64, skip int) float64 {
+	sum := 0.0
+	for j := 1; float64(j)*g < d.ceilHz && j <= maxPartials; j++ {
+		if skip > 0 && j%skip == 0 {
+			continue
+		}
+		sum += d.peakNear(float64(j) * g)
+	}
+	return sum
+}
+
+// resolvedBins is the partial spacing, in bins, from which the spectrum
+// separates neighbouring partials: the Blackman–Harris main lobe (±4 bins)
+// plus a bin of search. Closer partials are judged in the time domain.
+const resolvedBins = 5.5
+
+// NSDF margins for the unresolved (low) case: the lag of a lower candidate
+// must be clearly more periodic than the pick, the lag of a higher one about
+// as periodic.
+const (
+	nsdfDownMargin = 0.04
+	nsdfUpMargin   = 0.01
+)
+
+// guard returns the corrected fundamental and its period in samples for a
+// coarse period pick.
+func (d *Detector) guard(period float64) (float64, float64) {
+	f := d.fs / period
+	resolved := resolvedBins * d.binHz
+	for range 3 { // a few moves at most: F/4 is two octave moves
+		moved := false
+		if 2*f <= d.maxHz && d.missingOdd(f, period, resolved) {
+			f, period = 2*f, d.refineLag(period/2)
+			moved = true
+		}
+		for _, c := range guardDown {
+			g := f * float64(c.p) / float64(c.q)
+			if g < d.minHz {
+				continue
+			}
+			lower := period * float64(c.q) / float64(c.p)
+			var down bool
+			if f/float64(c.q) >= resolved {
+				// Multiples of g that are also multiples of f are those
+				// with j·p/q integral, i.e. j % q == 0 (p, q coprime).
+				down = d.combPower(g, c.q) > guardExtraRatio*d.combPower(f, 0)
+			} else {
+				down = d.nsdfAt(lower) > d.nsdfAt(period)+nsdfDownMargin
+			}
+			if down {
+				f, period = g, d.refineLag(lower)
+				moved = true
+				break
+			}
+		}
+		if !moved {
+			break
+		}
+	}
+	return f, period
+}
+
+// missingOdd reports whether f's odd partials are absent while its even ones
+// are present, so that f is an octave low.
+func (d *Detector) missingOdd(f, period, resolved float64) bool {
+	if f < resolved {
+		return d.nsdfAt(period/2) >= d.nsdfAt(period)-nsdfUpMargin
+	}
+	odd, even := d.oddEven(f)
+	return even > 0 && odd < guardOddRatio*even
+}
+
+// nsdfAt is the NSDF's highest value within a sample of a fractional lag,
+// or -1 outside the computed range.
+func (d *Detector) nsdfAt(lag float64) float64 {
+	c := int(lag + 0.5)
+	if c < 1 || c+1 >= len(d.nsdfOut) {
+		return -1
+	}
+	return max(d.nsdfOut[c-1], d.nsdfOut[c], d.nsdfOut[c+1])
+}
+
+// refineLag moves a fractional lag to the parabolic top of the NSDF peak
+// within two samples of it.
+func (d *Detector) refineLag(lag float64) float64 {
+	n := d.nsdfOut
+	c := int(lag + 0.5)
+	if c < 2 || c+2 >= len(n) {
+		return lag
+	}
+	k := c
+	for j := c - 2; j <= c+2; j++ {
+		if n[j] > n[k] {
+			k = j
+		}
+	}
+	p, _ := parabolicPeak(n, k)
+	return p
+}
+
+// oddEven sums peak power over the odd and the even multiples of f.
+func (d *Detector) oddEven(f float64) (odd, even float64) {
+	all := d.combPower(f, 0)
+	odd = d.combPower(f, 2)
+	return odd, all - odd
+}
