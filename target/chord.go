@@ -1,0 +1,118 @@
+package target
+
+import (
+	"fmt"
+	"strings"
+)
+
+// Quality is a chord quality: the spelled intervals of its members above the
+// root and the just ratio each member sits at.
+type Quality struct {
+	Name    string
+	members []chordTone
+}
+
+type chordTone struct {
+	fifths   int // place above the root on the line of fifths
+	ratio    float64
+	fraction string
+}
+
+// Chord members above the root, with the just ratio each is tuned to: pure
+// thirds 5/4 and 6/5 and the pure fifth 3/2 (common practice); the minor
+// seventh as 9/5, a pure minor third above the fifth; the harmonic seventh 7/4
+// on request; diminished and augmented fifths as two stacked thirds.
+var (
+	majThird = chordTone{4, 5.0 / 4, "5/4"}
+	minThird = chordTone{-3, 6.0 / 5, "6/5"}
+	fifth    = chordTone{1, 3.0 / 2, "3/2"}
+	dimFifth = chordTone{-6, 36.0 / 25, "36/25"}
+	augFifth = chordTone{8, 25.0 / 16, "25/16"}
+	minSev   = chordTone{-2, 9.0 / 5, "9/5"}
+	harmSev  = chordTone{-2, 7.0 / 4, "7/4"}
+	majSev   = chordTone{5, 15.0 / 8, "15/8"}
+)
+
+var qualities = map[string]Quality{
+	"major":      {"major", []chordTone{majThird, fifth}},
+	"minor":      {"minor", []chordTone{minThird, fifth}},
+	"diminished": {"diminished", []chordTone{minThird, dimFifth}},
+	"augmented":  {"augmented", []chordTone{majThird, augFifth}},
+	"7":          {"7", []chordTone{majThird, fifth, minSev}},
+	"harmonic7":  {"harmonic7", []chordTone{majThird, fifth, harmSev}},
+	"m7":         {"m7", []chordTone{minThird, fifth, minSev}},
+	"maj7":       {"maj7", []chordTone{majThird, fifth, majSev}},
+}
+
+var qualityAliases = map[string]string{
+	"": "major", "maj": "major", "m": "minor", "min": "minor", "dim": "diminished",
+	"aug": "augmented", "+": "augmented", "dom7": "7", "dominant7": "7",
+	"7h": "harmonic7", "h7": "harmonic7", "min7": "m7", "minor7": "m7", "major7": "maj7",
+}
+
+// Chord is a declared chord: while it sounds, its members are tuned to just
+// ratios above the root's tempered target, the way an ensemble tunes a held
+// chord.
+type Chord struct {
+	Root    Note
+	Quality Quality
+}
+
+// ChordMember is one note of a chord with the ratio it sits at above the root.
+type ChordMember struct {
+	Note     Note
+	Ratio    float64
+	Fraction string
+}
+
+// ParseChord reads a chord: a root and a quality, as "D major", "D", "F#m",
+// "G7", "G harmonic7", "Bb maj7", "B dim", "C aug". Qualities: major, minor,
+// diminished, augmented, 7 (minor seventh 9/5), harmonic7 (7/4), m7, maj7.
+func ParseChord(s string) (*Chord, error) {
+	root, rest, err := parseName(s)
+	if err != nil {
+		return nil, fmt.Errorf("chord %q: %v", s, err)
+	}
+	q := strings.ToLower(strings.TrimSpace(rest))
+	if a, ok := qualityAliases[q]; ok {
+		q = a
+	}
+	qual, ok := qualities[q]
+	if !ok {
+		return nil, fmt.Errorf("chord %q: unknown quality %q (major, minor, diminished, augmented, 7, harmonic7, m7, maj7)", s, rest)
+	}
+	return &Chord{Root: root, Quality: qual}, nil
+}
+
+// String formats the chord as "D major".
+func (c Chord) String() string { return c.Root.Name() + " " + c.Quality.Name }
+
+// Members lists the chord's notes from the root, spelled (octave 4).
+func (c Chord) Members() []ChordMember {
+	r := c.Root
+	r.Octave = 4
+	out := []ChordMember{{Note: r, Ratio: 1, Fraction: "1/1"}}
+	for _, t := range c.Quality.members {
+		out = append(out, ChordMember{Note: noteAt(r.Fifths()+t.fifths, 4), Ratio: t.ratio, Fraction: t.fraction})
+	}
+	return out
+}
+
+// target is the chord's target for n in cents above C4, if n is a member.
+func (c Chord) target(t Tuning, n Note) (float64, bool) {
+	for _, m := range c.Members() {
+		if m.Note.Letter != n.Letter || m.Note.Accidental != n.Accidental {
+			continue
+		}
+		root := c.Root
+		root.Octave = n.Octave
+		for root.Semitones() > n.Semitones() {
+			root.Octave--
+		}
+		for n.Semitones()-root.Semitones() >= 12 {
+			root.Octave++
+		}
+		return t.TemperedCents(root) + Cents(m.Ratio), true
+	}
+	return 0, false
+}

@@ -1,0 +1,110 @@
+package target
+
+import (
+	"fmt"
+	"math"
+)
+
+// Reading is what a measured frequency means in a tuning: the window note
+// whose target is nearest, how far from that target it is, and the same
+// against the note's other spelling twelve fifths away.
+type Reading struct {
+	Hz       float64 // the measured frequency
+	Note     Note    // the window note whose target is nearest (concert pitch)
+	TargetHz float64
+	Cents    float64 // 1200·log2(Hz / TargetHz)
+
+	Alt      Note // Note respelled twelve fifths away (F♯ ↔ G♭), per the contract
+	AltHz    float64
+	AltCents float64 // the measured frequency against Alt's target
+
+	// SamePitch is true where the temperament gives Note and Alt one pitch
+	// (equal temperament, the well temperaments): then there is no other
+	// spelling to be on, and AltCents equals Cents.
+	SamePitch bool
+
+	// Written and AltWritten are Note and Alt as a transposing instrument's
+	// part shows them; equal to Note and Alt at concert pitch.
+	Written, AltWritten Note
+}
+
+// samePitchCents is how close two targets must be to count as one pitch.
+const samePitchCents = 1e-6
+
+// Classify reads a measured frequency (hertz, > 0) in the tuning. A
+// non-positive or non-finite frequency gives the zero Reading.
+func (t Tuning) Classify(hz float64) Reading {
+	if !(hz > 0) || math.IsInf(hz, 0) {
+		return Reading{}
+	}
+	h := Cents(hz / t.c4())
+	var best Note
+	bestTarget, bestDist := 0.0, math.Inf(1)
+	for _, n := range t.Window() {
+		c := t.TargetCents(n)
+		k := math.Round((h - c) / 1200)
+		n.Octave += int(k)
+		c = t.TargetCents(n)
+		if d := math.Abs(h - c); d < bestDist {
+			best, bestTarget, bestDist = n, c, d
+		}
+	}
+	r := Reading{Hz: hz, Note: best, TargetHz: t.hz(bestTarget), Cents: h - bestTarget}
+	r.Alt = t.alternative(best, h)
+	altTarget := t.TargetCents(r.Alt)
+	r.AltHz, r.AltCents = t.hz(altTarget), h-altTarget
+	r.SamePitch = math.Abs(altTarget-bestTarget) < samePitchCents
+	r.Written, r.AltWritten = t.Transpose.Written(r.Note), t.Transpose.Written(r.Alt)
+	return r
+}
+
+// alternative is n respelled twelve fifths away: of the two respellings the
+// one with fewer accidentals; on a tie, the one whose target is nearer the
+// held pitch h (interface contract, "Alternative spelling").
+func (t Tuning) alternative(n Note, h float64) Note {
+	up, down := n.respell(12), n.respell(-12)
+	au, ad := abs(up.Accidental), abs(down.Accidental)
+	switch {
+	case au < ad:
+		return up
+	case ad < au:
+		return down
+	}
+	if math.Abs(h-t.TargetCents(up)) <= math.Abs(h-t.TargetCents(down)) {
+		return up
+	}
+	return down
+}
+
+// NearerAlt reports whether the held pitch sits nearer the other spelling's
+// target than the one it was read as.
+func (r Reading) NearerAlt() bool {
+	return !r.SamePitch && math.Abs(r.AltCents) < math.Abs(r.Cents)
+}
+
+// Margin is how much nearer, in cents, the held pitch is to the spelling it was
+// read as than to the other one; negative when it sits nearer the other.
+func (r Reading) Margin() float64 { return math.Abs(r.AltCents) - math.Abs(r.Cents) }
+
+// Verdict says in words where the held pitch sits, for screens and logs:
+// "F#4 -3.2¢", "F#4 +38.1¢, sits on Gb4 (-2.9¢)", "G#4 +0.4¢ (Ab4 is the same pitch)".
+func (r Reading) Verdict() string {
+	if r.Hz == 0 {
+		return "no pitch"
+	}
+	base := fmt.Sprintf("%s %+.1f¢", r.Written, r.Cents)
+	switch {
+	case r.SamePitch:
+		return fmt.Sprintf("%s (%s is the same pitch)", base, r.AltWritten)
+	case r.NearerAlt():
+		return fmt.Sprintf("%s, sits on %s (%+.1f¢)", base, r.AltWritten, r.AltCents)
+	}
+	return fmt.Sprintf("%s (%s would be %+.1f¢)", base, r.AltWritten, r.AltCents)
+}
+
+func abs(x int) int {
+	if x < 0 {
+		return -x
+	}
+	return x
+}

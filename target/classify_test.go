@@ -1,0 +1,191 @@
+package target
+
+import (
+	"math"
+	"testing"
+)
+
+func note(t *testing.T, s string) Note {
+	t.Helper()
+	n, err := ParseNote(s)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return n
+}
+
+// The issue's scene: ¼-comma meantone at A4 = 415 Hz, C major. A player who
+// puts G♭4 where F♯4 is wanted is read as F♯4 about 41 ¢ sharp, and seen to
+// sit on G♭4 (the lesser diesis 128/125 = 41.059 ¢, Barbour 1951).
+func TestClassifySeesTheOtherSpelling(t *testing.T) {
+	tu := tuning(t, "C major", "meantone:1/4", 415)
+	gb := tu.Target(note(t, "Gb4"))
+	r := tu.Classify(gb)
+	if r.Note.String() != "F#4" || r.Alt.String() != "Gb4" {
+		t.Fatalf("Classify(Gb4 target) read %s / alt %s, want F#4 / Gb4", r.Note, r.Alt)
+	}
+	near(t, "cents from F#4", r.Cents, 41.059, 0.001)
+	near(t, "cents from Gb4", r.AltCents, 0, 1e-9)
+	if !r.NearerAlt() || r.SamePitch || r.Margin() > -41 {
+		t.Errorf("NearerAlt %v SamePitch %v Margin %.3f: want the other spelling, 41 ¢ nearer", r.NearerAlt(), r.SamePitch, r.Margin())
+	}
+	r = tu.Classify(tu.Target(note(t, "F#4")) * math.Exp2(-3.0/1200))
+	near(t, "F#4 3 ¢ flat", r.Cents, -3, 1e-9)
+	near(t, "against Gb4", r.AltCents, -44.059, 0.001)
+	if r.NearerAlt() {
+		t.Error("a slightly flat F#4 is not on Gb4")
+	}
+}
+
+// In equal temperament and the well temperaments both spellings are one pitch,
+// and the reading says so rather than invent a difference.
+func TestClassifySaysWhenSpellingsShareAPitch(t *testing.T) {
+	for _, spec := range []string{"equal", "werckmeister3", "vallotti", "edo:12"} {
+		tu := tuning(t, "C major", spec, 440)
+		r := tu.Classify(370)
+		if r.Note.String() != "F#4" || !r.SamePitch || r.NearerAlt() || r.AltCents != r.Cents {
+			t.Errorf("%s: %+v, want F#4 sharing its pitch with Gb4", spec, r)
+		}
+	}
+}
+
+// Readings across the range (A0 to C8) in equal temperament at ISO 16's
+// 440 Hz, against standard frequency tables: 27.5 Hz is A0, 4186.009 Hz C8.
+func TestClassifyAcrossTheRange(t *testing.T) {
+	tu := Default()
+	for _, tc := range []struct {
+		hz    float64
+		note  string
+		cents float64
+	}{
+		{27.5, "A0", 0}, {4186.009, "C8", 0}, {261.626, "C4", 0}, {440 * math.Exp2(10.0/1200), "A4", 10},
+		{311.127, "Eb4", 0}, {415.305, "G#4", 0}, {466.164, "Bb4", 0},
+	} {
+		r := tu.Classify(tc.hz)
+		if r.Note.String() != tc.note {
+			t.Errorf("Classify(%g) = %s, want %s", tc.hz, r.Note, tc.note)
+		}
+		near(t, "cents", r.Cents, tc.cents, 0.01) // tables give Hz to 0.001
+	}
+	for _, bad := range []float64{0, -440, math.NaN(), math.Inf(1)} {
+		if r := tu.Classify(bad); r.Hz != 0 {
+			t.Errorf("Classify(%g) = %+v, want the zero Reading", bad, r)
+		}
+	}
+}
+
+// The alternative spelling (contract): twelve fifths away, fewer accidentals,
+// ties broken by the nearer target.
+func TestAlternativeSpelling(t *testing.T) {
+	tu := tuning(t, "C major", "meantone:1/4", 440)
+	for _, tc := range []struct{ key, held, note, alt string }{
+		{"C major", "F#4", "F#4", "Gb4"},
+		{"C major", "Bb4", "Bb4", "A#4"},
+		{"C major", "E4", "E4", "Fb4"},
+		{"C major", "C4", "C4", "B#3"},
+		{"C major", "B3", "B3", "Cb4"},
+		{"G major", "D#4", "D#4", "Eb4"},
+		{"D minor", "Ab4", "Ab4", "G#4"},
+	} {
+		tk := tu
+		tk.Key, _ = ParseKey(tc.key)
+		r := tk.Classify(tk.Target(note(t, tc.held)))
+		if r.Note.String() != tc.note || r.Alt.String() != tc.alt {
+			t.Errorf("%s, %s: read %s alt %s, want %s alt %s", tc.key, tc.held, r.Note, r.Alt, tc.note, tc.alt)
+		}
+	}
+	// D's respellings C## and Ebb both carry two accidentals; in ¼-comma
+	// C## lies 41 ¢ below D and Ebb 41 ¢ above, so a sharp D points to Ebb.
+	d := tu.Target(note(t, "D4"))
+	if r := tu.Classify(d * math.Exp2(5.0/1200)); r.Alt.String() != "Ebb4" {
+		t.Errorf("sharp D4: alt %s, want Ebb4", r.Alt)
+	}
+	if r := tu.Classify(d * math.Exp2(-5.0/1200)); r.Alt.String() != "C##4" {
+		t.Errorf("flat D4: alt %s, want C##4", r.Alt)
+	}
+}
+
+// --anchor tonic keeps the tonic where equal temperament puts it (ISO 16
+// C4 = 261.626 Hz) while A4 moves with the temperament.
+func TestAnchorTonic(t *testing.T) {
+	tu := tuning(t, "C major", "meantone:1/4", 440)
+	tu.Anchor = AnchorTonic
+	near(t, "C4 Hz", tu.Target(note(t, "C4")), 261.626, 0.0005)
+	// A lies three fifths above C less an octave: 3·696.578 − 1200 = 889.735 ¢.
+	near(t, "C4→A4", interval(tu, "C4", "A4"), 889.735, 0.001)
+	tu.Anchor = AnchorA4
+	near(t, "A4 Hz", tu.Target(note(t, "A4")), 440, 1e-9)
+}
+
+// Chord-relative targets: members at just ratios above the root's tempered
+// target (pure thirds and fifths, common practice). The harmonic seventh 7/4
+// lies 31.174 ¢ below the equal minor seventh (common practice).
+func TestChordTargets(t *testing.T) {
+	tu := tuning(t, "C major", "meantone:1/4", 415)
+	tu.Chord, _ = ParseChord("D major")
+	d := tu.TemperedCents(note(t, "D4"))
+	near(t, "D→F#", tu.TargetCents(note(t, "F#4"))-d, 386.314, tol)
+	near(t, "D→A", tu.TargetCents(note(t, "A4"))-d, 701.955, tol)
+	near(t, "D→A5", tu.TargetCents(note(t, "A5"))-d, 1901.955, tol)
+	near(t, "B unchanged", tu.TargetCents(note(t, "B4")), tu.TemperedCents(note(t, "B4")), 0)
+
+	eq := tuning(t, "C major", "equal", 440)
+	eq.Chord, _ = ParseChord("G harmonic7")
+	near(t, "G harmonic seventh vs equal", eq.CentsFromEqual(note(t, "F5")), -31.174, tol)
+
+	// A chord member's spelling takes the window place of its pitch class:
+	// with an A♭ major chord in C major the meter reads A♭, not G♯.
+	tu.Chord, _ = ParseChord("Ab major")
+	if r := tu.Classify(tu.Target(note(t, "Ab4"))); r.Note.String() != "Ab4" {
+		t.Errorf("with chord Ab major, read %s, want Ab4", r.Note)
+	}
+	for _, bad := range []string{"H major", "D foo", "", "D#b"} {
+		if _, err := ParseChord(bad); err == nil {
+			t.Errorf("ParseChord(%q) accepted", bad)
+		}
+	}
+}
+
+// Transposing instruments read in written pitch, spelled by interval (the
+// issue: a B♭ clarinet's concert B♭4 reads as written C5; common practice for
+// the others).
+func TestTransposingInstruments(t *testing.T) {
+	for _, tc := range []struct{ spec, concert, written string }{
+		{"Bb", "Bb4", "C5"}, {"A", "A4", "C5"}, {"F", "F4", "C5"}, {"Eb", "Eb4", "C5"},
+		{"Eb4", "Eb5", "C5"}, {"Bb2", "Bb3", "C5"}, {"Bb", "F#4", "G#4"}, {"concert", "F#4", "F#4"},
+	} {
+		tr, err := ParseTransposition(tc.spec)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if got := tr.Written(note(t, tc.concert)); got.String() != tc.written {
+			t.Errorf("%s instrument: concert %s written %s, want %s", tc.spec, tc.concert, got, tc.written)
+		}
+		if back := tr.Concert(tr.Written(note(t, tc.concert))); back.String() != tc.concert {
+			t.Errorf("%s instrument: round trip gave %s", tc.spec, back)
+		}
+	}
+	tu := tuning(t, "C major", "meantone:1/4", 415)
+	tu.Transpose, _ = ParseTransposition("Bb")
+	r := tu.Classify(tu.Target(note(t, "Bb4")))
+	if r.Note.String() != "Bb4" || r.Written.String() != "C5" || r.AltWritten.String() != "B#4" {
+		t.Errorf("Bb clarinet reading: %s written %s alt %s", r.Note, r.Written, r.AltWritten)
+	}
+	if _, err := ParseTransposition("H"); err == nil {
+		t.Error("--transpose H accepted")
+	}
+}
+
+func TestParseA4(t *testing.T) {
+	for _, ok := range []string{"440", "415", "392", "466.0", "380", "480"} {
+		if _, err := ParseA4(ok); err != nil {
+			t.Errorf("ParseA4(%q): %v", ok, err)
+		}
+	}
+	// "--a4 -440" and "--a4 abc" are the contract's and the issue's examples.
+	for _, bad := range []string{"-440", "abc", "0", "NaN", "Inf", "379.9", "1e9", ""} {
+		if _, err := ParseA4(bad); err == nil {
+			t.Errorf("ParseA4(%q) accepted", bad)
+		}
+	}
+}

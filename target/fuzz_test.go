@@ -1,0 +1,87 @@
+package target
+
+import (
+	"math"
+	"strings"
+	"testing"
+)
+
+// The parsers must never panic, and what they accept must behave.
+
+func FuzzParseNote(f *testing.F) {
+	for _, s := range []string{"F#4", "Bb3", "C𝄪5", "E𝄫-1", "B#3", "x", "H4"} {
+		f.Add(s)
+	}
+	f.Fuzz(func(t *testing.T, s string) {
+		n, err := ParseNote(s)
+		if err != nil {
+			return
+		}
+		back, err := ParseNote(n.String())
+		if err != nil || back != n {
+			t.Fatalf("%q → %v → %q → %v, %v", s, n, n.String(), back, err)
+		}
+	})
+}
+
+func FuzzParseKey(f *testing.F) {
+	for _, s := range []string{"G major", "f# minor", "Bb", "E♭ dorian", "H"} {
+		f.Add(s)
+	}
+	f.Fuzz(func(t *testing.T, s string) {
+		k, err := ParseKey(s)
+		if err != nil {
+			return
+		}
+		if w := k.Window(); len(w) != 12 {
+			t.Fatalf("%q: window of %d", s, len(w))
+		}
+		if _, err := ParseKey(k.String()); err != nil {
+			t.Fatalf("%q → %q does not parse: %v", s, k, err)
+		}
+	})
+}
+
+func FuzzParseTemperament(f *testing.F) {
+	for _, s := range append(Builtin, "meantone:1/0", "fifth:2000", "edo:0", "fifth:1e308") {
+		f.Add(s)
+	}
+	f.Fuzz(func(t *testing.T, s string) {
+		tm, err := ParseTemperament(s)
+		if err != nil {
+			return
+		}
+		checkTemperament(t, tm)
+	})
+}
+
+func FuzzParseCustom(f *testing.F) {
+	f.Add(werckmeisterFile)
+	f.Add("fifth = 696.578\n")
+	f.Add("C# = 1/0\n")
+	f.Fuzz(func(t *testing.T, s string) {
+		c, err := ParseCustom("fuzz", []byte(s))
+		if err != nil {
+			if strings.Contains(err.Error(), "\n") {
+				t.Fatalf("multi-line error %q", err)
+			}
+			return
+		}
+		checkTemperament(t, c)
+	})
+}
+
+// checkTemperament: every window note of every key gets a finite target and
+// classifying that target finds the note again.
+func checkTemperament(t *testing.T, tm Temperament) {
+	tu := Tuning{Key: Key{Tonic: Note{Letter: D}, Mode: Minor}, Temperament: tm, A4: 415}
+	for _, n := range tu.Window() {
+		hz := tu.Target(n)
+		if math.IsNaN(hz) || hz <= 0 || math.IsInf(hz, 0) {
+			t.Fatalf("%s: %s target %g", tm.Spec(), n, hz)
+		}
+		if r := tu.Classify(hz); r.Note.Name() != n.Name() && math.Abs(r.Cents) > 1e-6 {
+			t.Fatalf("%s: %s's own target reads as %s %+.3f¢", tm.Spec(), n, r.Note, r.Cents)
+		}
+	}
+}

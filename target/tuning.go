@@ -1,0 +1,153 @@
+package target
+
+import (
+	"fmt"
+	"math"
+	"strconv"
+	"strings"
+)
+
+// Anchor says which note sits exactly where the reference puts it.
+type Anchor int
+
+const (
+	// AnchorA4 keeps A4 exactly at the reference frequency.
+	AnchorA4 Anchor = iota
+	// AnchorTonic keeps the key's tonic (in octave 4) where equal
+	// temperament at the reference would put it.
+	AnchorTonic
+)
+
+// ParseAnchor reads an --anchor value: "a4" or "tonic".
+func ParseAnchor(s string) (Anchor, error) {
+	switch strings.ToLower(strings.TrimSpace(s)) {
+	case "a4", "a":
+		return AnchorA4, nil
+	case "tonic":
+		return AnchorTonic, nil
+	}
+	return 0, fmt.Errorf("anchor %q: use a4 or tonic", s)
+}
+
+// String is the flag value.
+func (a Anchor) String() string {
+	if a == AnchorTonic {
+		return "tonic"
+	}
+	return "a4"
+}
+
+// Reference-pitch bounds for A4: wide enough for low Baroque (392, 415) and
+// high modern orchestras (446), narrow enough to catch a mistyped value.
+const (
+	MinA4 = 380.0
+	MaxA4 = 480.0
+)
+
+// ParseA4 reads an --a4 value in hertz.
+func ParseA4(s string) (float64, error) {
+	f, err := strconv.ParseFloat(strings.TrimSpace(s), 64)
+	if err != nil {
+		return 0, fmt.Errorf("--a4 %q is not a number of hertz", s)
+	}
+	if !(f >= MinA4 && f <= MaxA4) {
+		return 0, fmt.Errorf("--a4 %s is outside %g to %g Hz", s, MinA4, MaxA4)
+	}
+	return f, nil
+}
+
+// Tuning is everything a reading depends on: key, temperament, reference
+// pitch, and optionally a chord and a transposition. The zero Transposition
+// means concert pitch; a nil Chord means the temperament's targets.
+type Tuning struct {
+	Key         Key
+	Temperament Temperament
+	A4          float64
+	Anchor      Anchor
+	Chord       *Chord
+	Transpose   Transposition
+}
+
+// Default is C major, equal temperament, A4 = 440 Hz (ISO 16).
+func Default() Tuning {
+	return Tuning{Key: Key{Tonic: Note{Letter: C, Octave: 4}, Mode: Major}, Temperament: Equal, A4: 440}
+}
+
+var a4 = Note{Letter: A, Octave: 4}
+
+// tempered is the note's pitch in cents above the reference's C4 (before
+// anchoring) from the temperament alone.
+func (t Tuning) tempered(n Note) float64 {
+	return 100*float64(n.Semitones()) + t.Temperament.Offset(n.Fifths(), t.Key.Tonic.Fifths())
+}
+
+// shift is what anchoring adds to every tempered pitch.
+func (t Tuning) shift() float64 {
+	if t.Anchor == AnchorTonic {
+		tonic := t.Key.Tonic
+		tonic.Octave = 4
+		return 100*float64(tonic.Semitones()) - t.tempered(tonic)
+	}
+	return 900 - t.tempered(a4)
+}
+
+// TemperedCents is the note's target in cents above the equal-tempered C4 at
+// the reference (C4 = A4 · 2^(-9/12)), ignoring any chord.
+func (t Tuning) TemperedCents(n Note) float64 { return t.tempered(n) + t.shift() }
+
+// TargetCents is the note's target in cents above the equal-tempered C4 at
+// the reference, with the chord's just intervals if one is declared.
+func (t Tuning) TargetCents(n Note) float64 {
+	if t.Chord != nil {
+		if c, ok := t.Chord.target(t, n); ok {
+			return c
+		}
+	}
+	return t.TemperedCents(n)
+}
+
+// Target is the note's target frequency in hertz (concert pitch).
+func (t Tuning) Target(n Note) float64 { return t.hz(t.TargetCents(n)) }
+
+// CentsFromEqual is how far the note's target lies from the same note in
+// equal temperament at the same reference.
+func (t Tuning) CentsFromEqual(n Note) float64 {
+	return t.TargetCents(n) - 100*float64(n.Semitones())
+}
+
+// c4 is the equal-tempered C4 at the reference.
+func (t Tuning) c4() float64 { return t.A4 * math.Exp2(-9.0/12) }
+
+func (t Tuning) hz(centsAboveC4 float64) float64 { return t.c4() * math.Exp2(centsAboveC4/1200) }
+
+// Window is the key's twelve spellings in line-of-fifths order, with the
+// chord's members in place of the window notes they share a pitch class with.
+func (t Tuning) Window() []Note {
+	w := t.Key.Window()
+	if t.Chord == nil {
+		return w
+	}
+	for _, m := range t.Chord.Members() {
+		for i, n := range w {
+			if n.PitchClass() == m.Note.PitchClass() {
+				w[i] = Note{Letter: m.Note.Letter, Accidental: m.Note.Accidental, Octave: 4}
+			}
+		}
+	}
+	return w
+}
+
+// String describes the tuning in one line: "C major · 1/4-comma meantone · A4 = 415 Hz".
+func (t Tuning) String() string {
+	s := fmt.Sprintf("%s · %s · A4 = %s Hz", t.Key, t.Temperament.Name(), strconv.FormatFloat(t.A4, 'f', -1, 64))
+	if t.Anchor == AnchorTonic {
+		s += " (tonic anchored)"
+	}
+	if t.Chord != nil {
+		s += " · chord " + t.Chord.String()
+	}
+	if !t.Transpose.IsConcert() {
+		s += " · in " + t.Transpose.Name
+	}
+	return s
+}
