@@ -28,10 +28,13 @@ const (
 const (
 	silenceDBFS   = -65.0 // below this the frame is silent and skips the FFTs
 	minClarity    = 0.75  // NSDF peak value
+	minClarityLow = 0.85  // the same when partials are too close to check their spread
 	minShare      = 0.6   // share of spectral power in the harmonic comb
 	residualScale = 4.0   // cents of partial disagreement that halve confidence
 	minConfidence = 0.5
 	floorDB       = -80.0 // partials this far below the strongest are ignored
+	floorMedian   = 20.0  // and partials less than this times the median bin power
+	agreeCents    = 8.0   // coarse and fine estimates agree within this (plus lag resolution)
 )
 
 // Detector estimates the pitch of a monophonic stream, one Estimate per hop.
@@ -58,6 +61,7 @@ type Detector struct {
 	specA     []complex128
 	specB     []complex128
 	power     []float64
+	scratch   []float64
 	fftPad    *fourier.FFT
 	padBuf    []float64
 	padSpec   []complex128
@@ -110,6 +114,7 @@ func New(sampleRate float64, window, hop int) (*Detector, error) {
 	d.specA = make([]complex128, window/2+1)
 	d.specB = make([]complex128, window/2+1)
 	d.power = make([]float64, window/2+1)
+	d.scratch = make([]float64, window/2+1)
 	d.fftPad = fourier.NewFFT(2 * window)
 	d.padBuf = make([]float64, 2*window)
 	d.padSpec = make([]complex128, window+1)
@@ -186,15 +191,21 @@ func (d *Detector) frame() Estimate {
 
 	f, period := d.guard(period)
 	ft := d.fitComb(f)
+	needClarity := minClarity
 	if f < resolvedBins*d.binHz {
+		needClarity = minClarityLow
 		// Partials closer than the window resolves: the comb fit would
 		// follow leakage, while the long period makes the NSDF lag precise.
 		ft.hz, ft.residual = d.fs/period, 0
 	}
-	conf := clarity * ft.share / (1 + (ft.residual/residualScale)*(ft.residual/residualScale))
+	// A tone's comb fit lands within the NSDF's lag resolution of the coarse
+	// pick; narrow-band noise drifts between the two analyses.
+	tol := agreeCents + 1200/math.Ln2*0.1/period
+	dis := math.Abs(1200*math.Log2(ft.hz*period/d.fs)) / tol
+	conf := clarity * ft.share / (1 + (ft.residual/residualScale)*(ft.residual/residualScale)) / (1 + dis*dis)
 	e.Confidence = math.Max(0, math.Min(conf, 1))
-	if ft.hz >= d.minHz && ft.hz <= d.maxHz && clarity >= minClarity && ft.share >= minShare &&
-		e.Confidence >= minConfidence && ft.partials > 0 {
+	if ft.hz >= d.minHz && ft.hz <= d.maxHz && clarity >= needClarity && ft.share >= minShare &&
+		e.Confidence >= minConfidence && ft.partials > 0 && dis < 1.5 {
 		e.Hz, e.Voiced = ft.hz, true
 	}
 	return e
@@ -218,5 +229,38 @@ func (d *Detector) powerSpectrum() {
 		peak = math.Max(peak, p)
 	}
 	d.specTotal = total
-	d.floor = peak * math.Pow(10, floorDB/10)
+	copy(d.scratch, d.power)
+	d.floor = max(peak*math.Pow(10, floorDB/10), floorMedian*median(d.scratch))
+}
+
+// median returns the median of x, reordering x (Hoare's quickselect).
+func median(x []float64) float64 {
+	k := len(x) / 2
+	lo, hi := 0, len(x)-1
+	for lo < hi {
+		p := x[(lo+hi)/2]
+		i, j := lo, hi
+		for i <= j {
+			for x[i] < p {
+				i++
+			}
+			for x[j] > p {
+				j--
+			}
+			if i <= j {
+				x[i], x[j] = x[j], x[i]
+				i++
+				j--
+			}
+		}
+		switch {
+		case k <= j:
+			hi = j
+		case k >= i:
+			lo = i
+		default:
+			return x[k]
+		}
+	}
+	return x[k]
 }

@@ -64,6 +64,8 @@ const resolvedBins = 5.5
 const (
 	nsdfDownMargin = 0.04
 	nsdfUpMargin   = 0.01
+	// and the lower candidate's lag must itself be clearly periodic.
+	nsdfDownClarity = 0.9
 )
 
 // guard returns the corrected fundamental and its period in samples for a
@@ -89,7 +91,8 @@ func (d *Detector) guard(period float64) (float64, float64) {
 				// with j·p/q integral, i.e. j % q == 0 (p, q coprime).
 				down = d.combPower(g, c.q) > guardExtraRatio*d.combPower(f, 0)
 			} else {
-				down = d.nsdfAt(lower) > d.nsdfAt(period)+nsdfDownMargin
+				nl := d.nsdfAt(lower)
+				down = nl > d.nsdfAt(period)+nsdfDownMargin && nl >= nsdfDownClarity
 			}
 			if down {
 				f, period = g, d.refineLag(lower)
@@ -136,6 +139,13 @@ func (d *Detector) refineLag(lag float64) float64 {
 	for j := c - 2; j <= c+2; j++ {
 		if n[j] > n[k] {
 			k = j
+		}
+	}
+	for k > 0 && k+1 < len(n) && (n[k-1] > n[k] || n[k+1] > n[k]) && k > c-4 && k < c+4 {
+		if n[k-1] > n[k+1] { // climb to the local maximum
+			k--
+		} else {
+			k++
 		}
 	}
 	p, _ := parabolicPeak(n, k)

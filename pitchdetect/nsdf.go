@@ -104,6 +104,9 @@ func parabolicPeak(y []float64, k int) (pos, val float64) {
 		return pos, val
 	}
 	a, b, c := y[k-1], y[k], y[k+1]
+	if b < a || b < c {
+		return pos, val // not a peak: leave it on the sample
+	}
 	if den := a - 2*b + c; den < 0 {
 		delta := 0.5 * (a - c) / den
 		pos += delta
