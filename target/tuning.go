@@ -147,7 +147,7 @@ func (t Tuning) String() string {
 		s += " · chord " + t.Chord.String()
 	}
 	if !t.Transpose.IsConcert() {
-		s += " · in " + t.Transpose.Name
+		s += " · written for " + t.Transpose.Name + " instrument"
 	}
 	return s
 }

@@ -1,0 +1,69 @@
+package main
+
+import (
+	"flag"
+	"os"
+
+	"fifthline/target"
+)
+
+// musicalFlags are the contract's flags for every command that reads or plays
+// notes, plus our extensions.
+type musicalFlags struct {
+	key, temperament, a4, anchor, chord, transpose string
+}
+
+func addMusicalFlags(fs *flag.FlagSet) *musicalFlags {
+	m := &musicalFlags{}
+	fs.StringVar(&m.key, "key", "C major", "tonic and mode, e.g. \"G major\", \"f# minor\", \"D dorian\"")
+	fs.StringVar(&m.temperament, "temperament", "equal", "equal, pythagorean, meantone:P/Q, fifth:CENTS, edo:N, werckmeister3, kirnberger3, vallotti, young, just, or a temperament file")
+	fs.StringVar(&m.a4, "a4", "440", "reference pitch in Hz: A4 sits exactly here (380-480)")
+	fs.StringVar(&m.anchor, "anchor", "a4", "which note the reference fixes: a4, or tonic (kept where equal temperament puts it)")
+	fs.StringVar(&m.chord, "chord", "", "a held chord whose members are tuned just above its root, e.g. \"D major\", \"G harmonic7\"")
+	fs.StringVar(&m.transpose, "transpose", "", "show written pitch for a transposing instrument: the note a written C4 sounds, e.g. Bb, A, F, Eb, Eb4, Bb2")
+	return m
+}
+
+// tuning turns the flags into a Tuning; every problem is a usage error.
+func (m *musicalFlags) tuning() (target.Tuning, error) {
+	var t target.Tuning
+	var err error
+	if t.Key, err = target.ParseKey(m.key); err != nil {
+		return t, usageError{"--key: " + err.Error()}
+	}
+	if t.Temperament, err = parseTemperament(m.temperament); err != nil {
+		return t, usageError{"--temperament: " + err.Error()}
+	}
+	if t.A4, err = target.ParseA4(m.a4); err != nil {
+		return t, usageError{err.Error()}
+	}
+	if t.Anchor, err = target.ParseAnchor(m.anchor); err != nil {
+		return t, usageError{"--anchor: " + err.Error()}
+	}
+	if m.chord != "" {
+		if t.Chord, err = target.ParseChord(m.chord); err != nil {
+			return t, usageError{"--chord: " + err.Error()}
+		}
+	}
+	if t.Transpose, err = target.ParseTransposition(m.transpose); err != nil {
+		return t, usageError{err.Error()}
+	}
+	return t, nil
+}
+
+// parseTemperament reads a named temperament, or a temperament file when the
+// spec names an existing file.
+func parseTemperament(spec string) (target.Temperament, error) {
+	tm, err := target.ParseTemperament(spec)
+	if err == nil {
+		return tm, nil
+	}
+	if info, statErr := os.Stat(spec); statErr == nil && info.Mode().IsRegular() {
+		data, readErr := os.ReadFile(spec)
+		if readErr != nil {
+			return nil, readErr
+		}
+		return target.ParseCustom(spec, data)
+	}
+	return nil, err
+}

@@ -1,0 +1,142 @@
+package main
+
+import (
+	"encoding/csv"
+	"fmt"
+	"math"
+	"strconv"
+	"text/tabwriter"
+
+	"fifthline/target"
+)
+
+func init() {
+	register("targets", "the key's twelve spelled notes and where each should sound", runTargets)
+}
+
+func runTargets(e *env, args []string) error {
+	fs := newFlags("targets")
+	mf := addMusicalFlags(fs)
+	format := fs.String("format", "table", "table or csv")
+	octave := fs.Int("octave", 4, "octave (scientific pitch notation) of the listed notes")
+	pos, err := parseFlags(e, fs, args)
+	if err != nil {
+		return err
+	}
+	if len(pos) > 0 {
+		return usagef("targets takes no file arguments (got %q)", pos[0])
+	}
+	if *octave < 0 || *octave > 8 {
+		return usagef("--octave %d is outside 0 to 8", *octave)
+	}
+	tu, err := mf.tuning()
+	if err != nil {
+		return err
+	}
+	rows := targetRows(tu, *octave)
+	switch *format {
+	case "csv":
+		return writeTargetsCSV(e, tu, rows)
+	case "table":
+		return writeTargetsTable(e, tu, rows)
+	}
+	return usagef("--format %q: use table or csv", *format)
+}
+
+type targetRow struct {
+	note, alt  target.Note
+	hz, equal  float64
+	fifths     int
+	altGap     float64 // alt's target minus note's, cents
+	written    target.Note
+	samePitch  bool
+	chordRatio string
+}
+
+func targetRows(tu target.Tuning, octave int) []targetRow {
+	var rows []targetRow
+	for _, n := range tu.Window() {
+		n.Octave = octave
+		r := tu.Classify(tu.Target(n))
+		rows = append(rows, targetRow{
+			note: n, alt: r.Alt, hz: tu.Target(n), equal: tu.CentsFromEqual(n), fifths: n.Fifths(),
+			altGap: -r.AltCents, written: r.Written, samePitch: r.SamePitch, chordRatio: chordRatio(tu, n),
+		})
+	}
+	return rows
+}
+
+func chordRatio(tu target.Tuning, n target.Note) string {
+	if tu.Chord == nil {
+		return ""
+	}
+	for _, m := range tu.Chord.Members() {
+		if m.Note.Name() == n.Name() {
+			return m.Fraction
+		}
+	}
+	return ""
+}
+
+func writeTargetsCSV(e *env, tu target.Tuning, rows []targetRow) error {
+	w := csv.NewWriter(e.stdout)
+	header := []string{"note", "hz", "cents_from_equal", "fifths", "alt_note", "alt_cents"}
+	if !tu.Transpose.IsConcert() {
+		header = append(header, "written")
+	}
+	if tu.Chord != nil {
+		header = append(header, "chord_ratio")
+	}
+	w.Write(header)
+	for _, r := range rows {
+		rec := []string{r.note.String(), fmtFloat(r.hz, 4), fmtFloat(r.equal, 3), strconv.Itoa(r.fifths), r.alt.String(), fmtFloat(r.altGap, 3)}
+		if !tu.Transpose.IsConcert() {
+			rec = append(rec, r.written.String())
+		}
+		if tu.Chord != nil {
+			rec = append(rec, r.chordRatio)
+		}
+		w.Write(rec)
+	}
+	w.Flush()
+	return w.Error()
+}
+
+func writeTargetsTable(e *env, tu target.Tuning, rows []targetRow) error {
+	fmt.Fprintln(e.stdout, tu)
+	tw := tabwriter.NewWriter(e.stdout, 0, 0, 2, ' ', tabwriter.AlignRight)
+	head := "note\tHz\tfrom equal\tfifths\tother spelling\t"
+	if !tu.Transpose.IsConcert() {
+		head += "written\t"
+	}
+	if tu.Chord != nil {
+		head += "chord\t"
+	}
+	fmt.Fprintln(tw, head)
+	for _, r := range rows {
+		other := fmt.Sprintf("%s %+.1f¢", r.alt, r.altGap)
+		if r.samePitch {
+			other = r.alt.String() + " same"
+		}
+		line := fmt.Sprintf("%s\t%.3f\t%+.2f¢\t%+d\t%s\t", r.note, r.hz, r.equal, r.fifths, other)
+		if !tu.Transpose.IsConcert() {
+			line += r.written.String() + "\t"
+		}
+		if tu.Chord != nil {
+			line += r.chordRatio + "\t"
+		}
+		fmt.Fprintln(tw, line)
+	}
+	return tw.Flush()
+}
+
+// fmtFloat prints a number with at most the given decimals, no trailing zeros
+// noise for whole numbers, and never "-0".
+func fmtFloat(x float64, decimals int) string {
+	p := math.Pow(10, float64(decimals))
+	x = math.Round(x*p) / p
+	if x == 0 {
+		x = 0
+	}
+	return strconv.FormatFloat(x, 'f', decimals, 64)
+}
