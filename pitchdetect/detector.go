@@ -35,6 +35,7 @@ const (
 	floorDB       = -80.0 // partials this far below the strongest are ignored
 	floorMedian   = 20.0  // and partials less than this times the median bin power
 	agreeCents    = 8.0   // coarse and fine estimates agree within this (plus lag resolution)
+	coarseCents   = 6.0   // trust in the coarse estimate beyond lag resolution
 )
 
 // Detector estimates the pitch of a monophonic stream, one Estimate per hop.
@@ -68,6 +69,7 @@ type Detector struct {
 	nsdfOut   []float64
 	floor     float64 // absolute power floor for partial peaks in this frame
 	specTotal float64
+	peak      float64 // strongest bin's power in this frame
 }
 
 // New returns a Detector for the sample rate with the given window and hop
@@ -190,17 +192,22 @@ func (d *Detector) frame() Estimate {
 	d.powerSpectrum()
 
 	f, period := d.guard(period)
-	ft := d.fitComb(f)
+	lagCents := centsPerUnit * 0.15 / period // parabolic-lag resolution
 	needClarity := minClarity
-	if f < resolvedBins*d.binHz {
-		needClarity = minClarityLow
+	var ft fit
+	if f >= resolvedBins*d.binHz {
+		ft = d.fitComb(f, coarseCents+lagCents)
+	} else {
 		// Partials closer than the window resolves: the comb fit would
-		// follow leakage, while the long period makes the NSDF lag precise.
+		// follow leakage, while the long period makes the NSDF lag
+		// precise. The comb (accepting every peak) only gives the share.
+		needClarity = minClarityLow
+		ft = d.fitComb(f, math.Inf(1))
 		ft.hz, ft.residual = d.fs/period, 0
 	}
 	// A tone's comb fit lands within the NSDF's lag resolution of the coarse
 	// pick; narrow-band noise drifts between the two analyses.
-	tol := agreeCents + 1200/math.Ln2*0.1/period
+	tol := agreeCents + lagCents
 	dis := math.Abs(1200*math.Log2(ft.hz*period/d.fs)) / tol
 	conf := clarity * ft.share / (1 + (ft.residual/residualScale)*(ft.residual/residualScale)) / (1 + dis*dis)
 	e.Confidence = math.Max(0, math.Min(conf, 1))
@@ -228,7 +235,7 @@ func (d *Detector) powerSpectrum() {
 		total += p
 		peak = math.Max(peak, p)
 	}
-	d.specTotal = total
+	d.specTotal, d.peak = total, peak
 	copy(d.scratch, d.power)
 	d.floor = max(peak*math.Pow(10, floorDB/10), floorMedian*median(d.scratch))
 }

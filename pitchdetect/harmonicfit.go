@@ -17,6 +17,13 @@ import "math"
 // but real instruments grow noisy and slightly inharmonic up there.
 const maxPartials = 48
 
+// priorShare is the coarse estimate's weight in the comb's predictions, as
+// a share of the strongest partial's power.
+const priorShare = 0.05
+
+// centsPerUnit converts a small relative frequency deviation to cents.
+const centsPerUnit = 1200 / math.Ln2
+
 // fit is the outcome of the harmonic-comb fit.
 type fit struct {
 	hz       float64 // fitted fundamental
@@ -25,8 +32,13 @@ type fit struct {
 	partials int     // partials used
 }
 
-func (d *Detector) fitComb(f0 float64) fit {
+// fitComb fits the comb starting from f0, which is trusted to tolCents:
+// a partial whose phase-advance frequency strays further from its place on
+// the comb (a noise peak, a neighbour's leakage) is left out rather than
+// allowed to drag the comb.
+func (d *Detector) fitComb(f0, tolCents float64) fit {
 	f := f0
+	prior := priorShare * d.peak
 	var swk2, swkf, sw float64
 	// Residuals are accumulated as (f_k - k·F)/k in Hz about the final F by
 	// keeping first and second moments of f_k/k.
@@ -50,9 +62,6 @@ func (d *Detector) fitComb(f0 float64) fit {
 		if b < 0 || pb < d.floor {
 			continue
 		}
-		for j := max(b-mainLobeBins, 1); j <= b+mainLobeBins && j < len(d.power); j++ {
-			comb += d.power[j]
-		}
 		za, zb := d.specA[b], d.specB[b]
 		re := real(zb)*real(za) + imag(zb)*imag(za)
 		im := imag(zb)*real(za) - real(zb)*imag(za)
@@ -60,6 +69,9 @@ func (d *Detector) fitComb(f0 float64) fit {
 		exp := 2 * math.Pi * pred * float64(d.lag) / d.fs
 		dev := math.Remainder(adv-exp, 2*math.Pi)
 		fk := pred + dev*d.fs/(2*math.Pi*float64(d.lag))
+		if math.Abs(fk-pred) > pred*tolCents/centsPerUnit {
+			continue
+		}
 		kk := float64(k)
 		w := pb
 		swk2 += w * kk * kk
@@ -69,6 +81,14 @@ func (d *Detector) fitComb(f0 float64) fit {
 		swr += w * r
 		swr2 += w * r * r
 		used++
+		for j := max(b-mainLobeBins, 1); j <= b+mainLobeBins && j < len(d.power); j++ {
+			comb += d.power[j]
+		}
+		// Predict with the coarse estimate as a weak prior so that one
+		// weak, noisy partial cannot steer the comb; report without it.
+		f = (swkf + prior*f0) / (swk2 + prior)
+	}
+	if swk2 > 0 {
 		f = swkf / swk2
 	}
 	if used == 0 || sw == 0 {
@@ -78,7 +98,7 @@ func (d *Detector) fitComb(f0 float64) fit {
 	// Spread of the per-partial fundamentals about their weighted mean,
 	// relative to F, in cents (1200/ln 2 per unit relative deviation).
 	v := math.Max(swr2/sw-mean*mean, 0)
-	res := 1200 / math.Ln2 * math.Sqrt(v) / f
+	res := centsPerUnit * math.Sqrt(v) / f
 	share := 0.0
 	if d.specTotal > 0 {
 		share = math.Min(comb/d.specTotal, 1)

@@ -1,0 +1,165 @@
+package pitchdetect
+
+import "math"
+
+// Held is one held note found in the frame track.
+type Held struct {
+	Start, End   float64 // seconds: the first and last voiced frame of the note
+	Hz           float64 // centre pitch (vibrato centre = mean over whole cycles if vibrato)
+	Spread       float64 // cents, standard deviation over the steady part
+	VibratoWidth float64 // cents, peak-to-peak; 0 if no vibrato
+	VibratoRate  float64 // Hz; 0 if none
+	Frames       int
+}
+
+// Segmenter groups a stream of Estimates into held notes. A note starts on
+// a voiced frame, continues while frames stay voiced and within JumpCents of
+// the note's recent pitch, and ends after more than MaxGap unvoiced frames or
+// on a sustained jump. Its steady part leaves out the frames whose analysis
+// window reaches past the onset or the offset. Set the exported fields before
+// the first Push.
+type Segmenter struct {
+	Hop       float64 // seconds between estimates
+	Window    float64 // seconds of the detector's window (Detector.Window / rate)
+	JumpCents float64 // a sustained step larger than this starts a new note
+	MaxGap    int     // unvoiced frames bridged inside a note
+	MinFrames int     // shorter notes are dropped as blips
+
+	frames  []Estimate
+	gap     int
+	outlier Estimate // a single off-pitch frame awaiting confirmation
+	hasOut  bool
+	t, c    []float64 // scratch for summaries
+}
+
+// NewSegmenter returns a Segmenter for estimates hopSeconds apart, with
+// defaults suited to the Detector's default window at 44.1 or 48 kHz.
+func NewSegmenter(hopSeconds float64) *Segmenter {
+	return &Segmenter{
+		Hop:       hopSeconds,
+		Window:    8 * hopSeconds, // the default hop is window/8
+		JumpCents: 50,
+		MaxGap:    2,
+		MinFrames: 4,
+	}
+}
+
+// Push adds the next estimate and returns a note that has just ended.
+func (s *Segmenter) Push(e Estimate) (Held, bool) {
+	if !e.Voiced || e.Hz <= 0 {
+		if len(s.frames) == 0 {
+			return Held{}, false
+		}
+		s.gap++
+		if s.hasOut { // an outlier followed by silence was noise
+			s.hasOut = false
+		}
+		if s.gap > s.MaxGap {
+			return s.finish()
+		}
+		return Held{}, false
+	}
+	if len(s.frames) == 0 {
+		s.start(e)
+		return Held{}, false
+	}
+	s.gap = 0
+	if math.Abs(1200*math.Log2(e.Hz/s.recentHz())) <= s.JumpCents {
+		s.hasOut = false
+		s.frames = append(s.frames, e)
+		return Held{}, false
+	}
+	if !s.hasOut || math.Abs(1200*math.Log2(e.Hz/s.outlier.Hz)) > s.JumpCents {
+		s.outlier, s.hasOut = e, true // wait for a second frame
+		return Held{}, false
+	}
+	// Two frames agree on a new pitch: the old note ends, a new one starts.
+	first := s.outlier
+	h, ok := s.finish()
+	s.start(first)
+	s.frames = append(s.frames, e)
+	return h, ok
+}
+
+func (s *Segmenter) start(e Estimate) {
+	s.frames = append(s.frames[:0], e)
+	s.gap, s.hasOut = 0, false
+}
+
+// recentHz is the median-of-three of the note's last frames, so a single
+// stray frame does not drag the reference.
+func (s *Segmenter) recentHz() float64 {
+	n := len(s.frames)
+	if n < 3 {
+		return s.frames[n-1].Hz
+	}
+	a, b, c := s.frames[n-3].Hz, s.frames[n-2].Hz, s.frames[n-1].Hz
+	return max(min(a, b), min(max(a, b), c))
+}
+
+func (s *Segmenter) finish() (Held, bool) {
+	h := s.summary()
+	ok := len(s.frames) >= s.MinFrames
+	s.frames = s.frames[:0]
+	s.gap, s.hasOut = 0, false
+	return h, ok
+}
+
+// Current returns the note being held now (its summary so far), or false
+// if no note is sounding. The first reading comes with the first voiced frame.
+func (s *Segmenter) Current() (Held, bool) {
+	if len(s.frames) == 0 || s.gap > 0 {
+		return Held{}, false
+	}
+	return s.summary(), true
+}
+
+// Flush ends the stream, returning the note still open, if long enough.
+func (s *Segmenter) Flush() (Held, bool) {
+	if len(s.frames) == 0 {
+		return Held{}, false
+	}
+	return s.finish()
+}
+
+// summary describes the frames of the open note.
+func (s *Segmenter) summary() Held {
+	fr := s.frames
+	h := Held{Start: fr[0].Time, End: fr[len(fr)-1].Time, Frames: len(fr)}
+	ref := fr[len(fr)/2].Hz
+	// Steady part: frames whose whole window lies inside the note.
+	lo, hi := h.Start+s.Window/2, h.End-s.Window/2
+	s.t, s.c = s.t[:0], s.c[:0]
+	for _, e := range fr {
+		if e.Time >= lo && e.Time <= hi {
+			s.t = append(s.t, e.Time)
+			s.c = append(s.c, 1200*math.Log2(e.Hz/ref))
+		}
+	}
+	if len(s.t) < 3 { // a short note: use everything
+		s.t, s.c = s.t[:0], s.c[:0]
+		for _, e := range fr {
+			s.t = append(s.t, e.Time)
+			s.c = append(s.c, 1200*math.Log2(e.Hz/ref))
+		}
+	}
+	mean, sd := meanStd(s.c)
+	h.Spread = sd
+	centre := mean
+	if v := findVibrato(s.t, s.c, s.Window); v.ok {
+		centre, h.VibratoWidth, h.VibratoRate = v.centre, v.width, v.rate
+	}
+	h.Hz = ref * math.Pow(2, centre/1200)
+	return h
+}
+
+func meanStd(x []float64) (mean, sd float64) {
+	for _, v := range x {
+		mean += v
+	}
+	mean /= float64(len(x))
+	for _, v := range x {
+		sd += (v - mean) * (v - mean)
+	}
+	return mean, math.Sqrt(sd / float64(len(x)))
+}
