@@ -1,0 +1,323 @@
+package capture
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"os"
+	"strconv"
+	"strings"
+	"sync"
+	"sync/atomic"
+	"time"
+
+	"github.com/gordonklaus/portaudio"
+)
+
+// ErrDeviceLost means the input stopped delivering audio: unplugged,
+// taken by the system, or its sound server gone. What was read before it
+// is good; callers should stop cleanly and keep it.
+var ErrDeviceLost = errors.New("input device lost")
+
+// PreferredRate is the rate OpenInput asks for when the caller names none.
+const PreferredRate = 48000
+
+// ClipLevel is the magnitude counted as clipping: within 0.01 dB of full scale.
+const ClipLevel = 0.999
+
+// startGrace is how long a device may take to deliver its first block: a
+// sound server may be waking an idle device (PulseAudio's null sink takes
+// up to 2 s).
+const startGrace = 5 * time.Second
+
+// framesPerBlock is the PortAudio callback size: about 10 ms at 48 kHz.
+const framesPerBlock = 512
+
+// InputOptions choose the device and how it is read. The zero value reads
+// the first channel of the default input device at 48 kHz if it can.
+type InputOptions struct {
+	// Device is "" for the default input, a PortAudio device index as
+	// listed by Devices, or part of a device name (case does not matter).
+	Device string
+	// Channel is the interface channel to read, counted from 1 as printed
+	// on the interface and as the CLI's --channel takes it; 0 means 1.
+	Channel int
+	// SampleRate is the rate to ask for; 0 means PreferredRate, falling
+	// back to the device's default rate.
+	SampleRate float64
+	// Buffer is how much audio waits for a slow reader before blocks are
+	// dropped; 0 means 2 s.
+	Buffer time.Duration
+	// StallTimeout is how long Read waits for audio before it reports
+	// ErrDeviceLost; 0 means 2 s. The first block may take up to 5 s.
+	StallTimeout time.Duration
+}
+
+// InputStats counts what happened to the audio since the stream opened.
+type InputStats struct {
+	Blocks         uint64  // blocks the device delivered
+	Overflows      uint64  // blocks PortAudio flagged: the driver lost input before we saw it
+	DroppedBlocks  uint64  // blocks thrown away because the reader fell Buffer behind
+	DroppedSamples uint64  // samples in those blocks
+	Peak           float32 // largest magnitude of the channel read, 0..1
+	Clipped        uint64  // samples at or above ClipLevel
+}
+
+// PeakDBFS is Peak in decibels relative to full scale (-Inf for silence).
+func (s InputStats) PeakDBFS() float64 { return 20 * math.Log10(float64(s.Peak)) }
+
+// Input is a live PortAudio input stream read as a Source. One goroutine
+// reads; Stats and Close may be called from any.
+type Input struct {
+	device   DeviceInfo
+	rate     float64
+	channel  int // 1-based
+	channels int // opened on the stream
+	stall    time.Duration
+	stream   *portaudio.Stream
+	release  func()
+	ring     *ring
+	block    []float32 // the callback's scratch, one channel
+	done     chan struct{}
+	closing  sync.Once
+	closeErr error
+	timer    *time.Timer
+
+	lastBlock                           atomic.Int64 // unix nanoseconds of the last callback
+	blocks, overflows, dropped, dropSmp atomic.Uint64
+	peakBits                            atomic.Uint32
+	clipped                             atomic.Uint64
+}
+
+// OpenInput opens and starts an input stream.
+func OpenInput(opts InputOptions) (*Input, error) {
+	release, err := InitPortAudio()
+	if err != nil {
+		return nil, err
+	}
+	in, err := openInput(opts)
+	if err != nil {
+		release()
+		return nil, err
+	}
+	in.release = release
+	return in, nil
+}
+
+func openInput(opts InputOptions) (*Input, error) {
+	dev, err := pickDevice(opts.Device)
+	if err != nil {
+		return nil, err
+	}
+	channel := max(opts.Channel, 1)
+	if opts.Channel < 0 || channel > dev.MaxInputChannels {
+		return nil, fmt.Errorf("input %q has %d channel(s); channel %d requested", dev.Name, dev.MaxInputChannels, opts.Channel)
+	}
+	in := &Input{
+		device:   deviceInfo(dev, nil, nil),
+		channel:  channel,
+		channels: channel,
+		stall:    orDefault(opts.StallTimeout, 2*time.Second),
+		block:    make([]float32, framesPerBlock),
+		done:     make(chan struct{}),
+	}
+	p := portaudio.HighLatencyParameters(dev, nil)
+	p.Input.Channels = channel
+	p.FramesPerBuffer = framesPerBlock
+	rates := []float64{opts.SampleRate}
+	if opts.SampleRate == 0 {
+		rates = []float64{PreferredRate, dev.DefaultSampleRate}
+	}
+	err = QuietStderr(func() error {
+		for _, r := range rates {
+			p.SampleRate = r
+			if err = portaudio.IsFormatSupported(p, in.callback); err == nil {
+				break
+			}
+		}
+		if err != nil {
+			return fmt.Errorf("input %q cannot record at %v Hz: %w", dev.Name, rates[len(rates)-1], err)
+		}
+		in.rate = p.SampleRate
+		in.ring = newRing(int(in.rate * orDefault(opts.Buffer, 2*time.Second).Seconds()))
+		if in.stream, err = portaudio.OpenStream(p, in.callback); err != nil {
+			return fmt.Errorf("input %q: %w", dev.Name, err)
+		}
+		in.lastBlock.Store(time.Now().UnixNano())
+		if err := in.stream.Start(); err != nil {
+			in.stream.Close()
+			return fmt.Errorf("input %q: start: %w", dev.Name, err)
+		}
+		return nil
+	})
+	if err != nil {
+		return nil, err
+	}
+	in.timer = time.NewTimer(in.stall)
+	return in, nil
+}
+
+// orDefault is v, or def when v is zero.
+func orDefault[T comparable](v, def T) T {
+	var zero T
+	if v == zero {
+		return def
+	}
+	return v
+}
+
+// pickDevice resolves InputOptions.Device to an input-capable device.
+func pickDevice(want string) (*portaudio.DeviceInfo, error) {
+	var found *portaudio.DeviceInfo
+	err := QuietStderr(func() error {
+		if want == "" {
+			d, err := portaudio.DefaultInputDevice()
+			if err != nil || d == nil {
+				return fmt.Errorf("%w: no default input device (%v)", ErrNoDevice, err)
+			}
+			found = d
+			return nil
+		}
+		devs, err := portaudio.Devices()
+		if err != nil {
+			return fmt.Errorf("portaudio: listing devices: %w", err)
+		}
+		found, err = matchDevice(devs, want)
+		return err
+	})
+	return found, err
+}
+
+// matchDevice finds an input by index, exact name or a unique part of one.
+func matchDevice(devs []*portaudio.DeviceInfo, want string) (*portaudio.DeviceInfo, error) {
+	var parts []*portaudio.DeviceInfo
+	idx, isIndex := strconv.Atoi(want)
+	for _, d := range devs {
+		switch {
+		case d.MaxInputChannels < 1:
+			continue
+		case isIndex == nil && d.Index == idx, strings.EqualFold(d.Name, want):
+			return d, nil
+		case strings.Contains(strings.ToLower(d.Name), strings.ToLower(want)):
+			parts = append(parts, d)
+		}
+	}
+	switch len(parts) {
+	case 1:
+		return parts[0], nil
+	case 0:
+		return nil, fmt.Errorf("%w %q (fifthline devices lists them)", ErrNoDevice, want)
+	}
+	names := make([]string, len(parts))
+	for i, d := range parts {
+		names[i] = strconv.Quote(d.Name)
+	}
+	return nil, fmt.Errorf("input device %q is ambiguous: it matches %s", want, strings.Join(names, ", "))
+}
+
+// callback runs on PortAudio's thread for every block. It must never
+// block: it copies one channel into the ring or, if the ring is full,
+// counts the block as dropped.
+func (in *Input) callback(buf []float32, _ portaudio.StreamCallbackTimeInfo, flags portaudio.StreamCallbackFlags) {
+	in.lastBlock.Store(time.Now().UnixNano())
+	in.blocks.Add(1)
+	if flags&portaudio.InputOverflow != 0 {
+		in.overflows.Add(1)
+	}
+	frames := len(buf) / in.channels
+	for start := 0; start < frames; start += len(in.block) {
+		n := min(len(in.block), frames-start)
+		peak, clipped := float32(0), uint64(0)
+		for i := range n {
+			v := buf[(start+i)*in.channels+in.channel-1]
+			in.block[i] = v
+			a := float32(math.Abs(float64(v)))
+			peak = max(peak, a)
+			if a >= ClipLevel {
+				clipped++
+			}
+		}
+		if !in.ring.write(in.block[:n]) {
+			in.dropped.Add(1)
+			in.dropSmp.Add(uint64(n))
+		}
+		in.clipped.Add(clipped)
+		if peak > math.Float32frombits(in.peakBits.Load()) {
+			in.peakBits.Store(math.Float32bits(peak)) // only this thread writes
+		}
+	}
+}
+
+// Read waits for audio and fills p with what has arrived. After
+// StallTimeout without a block from the device it returns ErrDeviceLost.
+func (in *Input) Read(p []float32) (int, error) {
+	for {
+		select {
+		case <-in.done:
+			return 0, fmt.Errorf("input %q: read after close: %w", in.device.Name, os.ErrClosed)
+		default:
+		}
+		if len(p) == 0 {
+			return 0, nil
+		}
+		if n := in.ring.read(p); n > 0 {
+			return n, nil
+		}
+		limit := in.stall
+		if in.blocks.Load() == 0 {
+			limit = max(limit, startGrace)
+		}
+		wait := time.Until(time.Unix(0, in.lastBlock.Load()).Add(limit))
+		if wait <= 0 {
+			return 0, fmt.Errorf("%w: %q delivered no audio for %v", ErrDeviceLost, in.device.Name, limit)
+		}
+		in.timer.Reset(wait)
+		select {
+		case <-in.ring.notify:
+		case <-in.timer.C:
+		case <-in.done:
+		}
+		in.timer.Stop()
+	}
+}
+
+// Close stops the stream and releases PortAudio; a Read waiting in another
+// goroutine returns. Closing twice is harmless.
+func (in *Input) Close() error {
+	in.closing.Do(func() {
+		close(in.done)
+		in.closeErr = QuietStderr(func() error {
+			err := in.stream.Abort()
+			if cerr := in.stream.Close(); err == nil {
+				err = cerr
+			}
+			return err
+		})
+		if in.closeErr != nil {
+			in.closeErr = fmt.Errorf("input %q: close: %w", in.device.Name, in.closeErr)
+		}
+		in.release()
+	})
+	return in.closeErr
+}
+
+// SampleRate is the rate the device delivers, in Hz.
+func (in *Input) SampleRate() float64 { return in.rate }
+
+// Device describes the device being read.
+func (in *Input) Device() DeviceInfo { return in.device }
+
+// Channel is the channel being read, counted from 1.
+func (in *Input) Channel() int { return in.channel }
+
+// Stats reports what happened to the audio so far.
+func (in *Input) Stats() InputStats {
+	return InputStats{
+		Blocks:         in.blocks.Load(),
+		Overflows:      in.overflows.Load(),
+		DroppedBlocks:  in.dropped.Load(),
+		DroppedSamples: in.dropSmp.Load(),
+		Peak:           math.Float32frombits(in.peakBits.Load()),
+		Clipped:        in.clipped.Load(),
+	}
+}
