@@ -1,0 +1,49 @@
+# fifthline — `make demo` and `make test` do all the set-up on a fresh Debian
+# machine: they install the missing Debian packages first.
+
+GO     ?= $(shell command -v go || echo /usr/local/go/bin/go)
+BIN    := bin/fifthline
+export PATH := $(PATH):/usr/local/go/bin
+
+.PHONY: all deps build demo test vet fuzz bench clean
+
+all: build
+
+deps:
+	@scripts/install-deps
+
+build: deps
+	$(GO) build -o $(BIN) ./cmd/fifthline
+
+# The meter on the embedded demo performance; q quits.
+demo: build
+	@$(BIN) demo
+
+# Everything CI checks: formatting, vet, the virtual microphone, the race-
+# enabled test suite (with its real PortAudio, PulseAudio, sox, aubio and
+# tmux paths).
+test: deps vet
+	@scripts/vmic-start
+	$(GO) test -race -count=1 -timeout 20m ./...
+
+vet:
+	@out=$$(gofmt -l $$(git ls-files '*.go' 2>/dev/null || find . -name '*.go')); \
+		if [ -n "$$out" ]; then echo "gofmt would change: $$out"; exit 1; fi
+	$(GO) vet ./...
+
+# Short runs of every fuzz target (FUZZTIME each).
+FUZZTIME ?= 20s
+fuzz:
+	@for pkg in $$($(GO) list ./...); do \
+		for f in $$($(GO) test -list '^Fuzz' $$pkg | grep '^Fuzz'); do \
+			echo "fuzz $$pkg $$f"; $(GO) test -run XXX -fuzz "^$$f$$" -fuzztime $(FUZZTIME) $$pkg || exit 1; \
+		done; \
+	done
+
+# Speed, memory and accuracy, side by side with aubio on the same files.
+bench: deps
+	$(GO) test -run XXX -bench . -benchmem ./pitchdetect/
+	$(GO) run ./cmd/fifthbench
+
+clean:
+	rm -rf bin
