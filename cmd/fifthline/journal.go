@@ -1,0 +1,87 @@
+package main
+
+// The rehearsal journal for the commands that hear notes (listen, demo,
+// analyze). Wiring, in three steps:
+//
+//	jf := addJournalFlags(fs)             // registers --log FILE and --player NAME
+//	...parseFlags...
+//	j, err := jf.open(e)                  // never nil; a no-op without --log
+//	if err != nil { return err }          // e.g. the file is not a journal
+//	defer ... j.close() ...               // return its error: notes not logged
+//	opt.OnNote = func(ev session.Event) error { j.note(ev); return otherSink(ev) }
+//
+// j.note never stops the session: if the disk refuses, the first failure is
+// printed once to stderr (set j.quiet = true under a full-screen meter) and
+// j.status() says so in one line for the screen; j.close() returns it so the
+// command ends with exit 1 after the meter is gone.
+
+import (
+	"flag"
+	"fmt"
+	"sync"
+
+	"fifthline/journal"
+	"fifthline/session"
+)
+
+type journalFlags struct{ log, player string }
+
+func addJournalFlags(fs *flag.FlagSet) *journalFlags {
+	jf := &journalFlags{}
+	fs.StringVar(&jf.log, "log", "", "append each held note to this rehearsal journal (CSV; created with its header if missing)")
+	fs.StringVar(&jf.player, "player", "", "who is playing, written into the journal")
+	return jf
+}
+
+// journalSink is an open journal, or nothing when --log was not given.
+type journalSink struct {
+	w      *journal.Writer
+	e      *env
+	quiet  bool // do not print the first failure (a screen shows status)
+	warned sync.Once
+}
+
+func (jf *journalFlags) open(e *env) (*journalSink, error) {
+	j := &journalSink{e: e}
+	if jf.log == "" {
+		return j, nil
+	}
+	w, err := journal.Open(jf.log, journal.Meta{Player: jf.player})
+	if err != nil {
+		return nil, err
+	}
+	j.w = w
+	j.warnIfFailed()
+	return j, nil
+}
+
+// note logs one held note; it never fails the session.
+func (j *journalSink) note(ev session.Event) {
+	if j.w == nil {
+		return
+	}
+	j.w.Write(ev)
+	j.warnIfFailed()
+}
+
+func (j *journalSink) warnIfFailed() {
+	if err := j.w.Err(); err != nil && !j.quiet {
+		j.warned.Do(func() { fmt.Fprintf(j.e.stderr, "fifthline: journal: %v — going on without it\n", err) })
+	}
+}
+
+// status is one line for a screen; empty without --log.
+func (j *journalSink) status() string {
+	if j.w == nil {
+		return ""
+	}
+	return j.w.Status()
+}
+
+// close saves the journal and reports any notes it could not log.
+func (j *journalSink) close() error {
+	if j.w == nil {
+		return nil
+	}
+	return j.w.Close()
+}

@@ -1,0 +1,16 @@
+package journal
+
+import (
+	"fifthline/session"
+)
+
+// Leading are the journal's own columns, before the held-note columns of
+// session.Columns.
+var Leading = []string{"time", "session", "source", "player", "key", "temperament", "a4", "transpose", "chord"}
+
+// Header is the journal's full header: Leading then session.Columns.
+func Header() []string { return append(append([]string(nil), Leading...), session.Header(false)...) }
+
+// TimeLayout is how the time column is written: RFC 3339 (ISO 8601) with
+// milliseconds and the zone offset, which spreadsheets read as a date-time.
+const TimeLayout = "2006-01-02T15:04:05.000Z07:00"

@@ -1,0 +1,309 @@
+package journal
+
+import (
+	"bytes"
+	"crypto/rand"
+	"encoding/csv"
+	"encoding/hex"
+	"errors"
+	"fmt"
+	"io"
+	"io/fs"
+	"os"
+	"strconv"
+	"strings"
+	"sync"
+	"syscall"
+	"time"
+
+	"fifthline/session"
+)
+
+// Sync policy: a line is written (handed to the kernel) as each note ends,
+// so killing the process loses nothing already written; fsync after this
+// many notes or this long, and on Close, bounds what a power cut can take.
+const (
+	syncEvery = 8
+	syncAfter = 5 * time.Second
+)
+
+// Meta is what a session says about itself in every line.
+type Meta struct {
+	Player  string
+	Session string           // empty: a fresh id from the opening time
+	Now     func() time.Time // empty: time.Now; tests pin the clock
+}
+
+// Writer appends held notes to a journal file. It is safe for one writer
+// goroutine and any number of Status callers. A disk that refuses (full,
+// read-only, gone) does not stop the session: the failure is kept, shown by
+// Status, counted, and returned by Close.
+type Writer struct {
+	path    string
+	meta    Meta
+	opened  time.Time
+	regular bool
+
+	mu       sync.Mutex
+	f        *os.File
+	run      runClock
+	written  int
+	lost     int
+	err      error // first failure
+	torn     bool  // the last write stopped mid-line
+	unsynced int
+	lastSync time.Time
+}
+
+// Open opens the journal at path for appending, creating it with its header
+// if missing. It refuses (returns an error) a folder, a missing folder, or a
+// file whose first line is not the journal header. A file that cannot be
+// written for want of permission or space gives a Writer that logs nothing
+// and says why in Status and Close, so the session can go on.
+func Open(path string, m Meta) (*Writer, error) {
+	if m.Now == nil {
+		m.Now = time.Now
+	}
+	w := &Writer{path: path, meta: m, opened: m.Now()}
+	if w.meta.Session == "" {
+		w.meta.Session = newSessionID(w.opened)
+	}
+	w.lastSync = w.opened
+	if info, err := os.Stat(path); err == nil && info.IsDir() {
+		return nil, fmt.Errorf("journal %s is a folder, not a file", path)
+	}
+	f, err := os.OpenFile(path, os.O_RDWR|os.O_APPEND|os.O_CREATE, 0o644)
+	if err != nil && errors.Is(err, fs.ErrPermission) {
+		// A write-only file (no read permission) is still appendable.
+		f, err = os.OpenFile(path, os.O_WRONLY|os.O_APPEND|os.O_CREATE, 0o644)
+	}
+	if err != nil {
+		if degradable(err) {
+			w.fail(fmt.Errorf("cannot open %s: %w", path, unwrapPath(err)))
+			return w, nil
+		}
+		return nil, fmt.Errorf("journal %s: %v", path, unwrapPath(err))
+	}
+	w.f = f
+	if err := w.prepare(); err != nil {
+		f.Close()
+		if degradable(err) {
+			w.f = nil
+			w.fail(fmt.Errorf("cannot write %s: %w", path, unwrapPath(err)))
+			return w, nil
+		}
+		return nil, err
+	}
+	return w, nil
+}
+
+// headerLine is the header as written, newline included.
+func headerLine() string { return strings.Join(Header(), ",") + "\n" }
+
+// prepare checks an existing journal's header and mends a torn last line, or
+// writes the header into a new (or non-regular, like a pipe) file.
+func (w *Writer) prepare() error {
+	info, err := w.f.Stat()
+	if err != nil {
+		return err
+	}
+	w.regular = info.Mode().IsRegular()
+	head := headerLine()
+	if !w.regular || info.Size() == 0 {
+		return w.writeAll([]byte(head))
+	}
+	first := make([]byte, len(head))
+	n, err := w.f.ReadAt(first, 0)
+	if err != nil && !errors.Is(err, io.EOF) {
+		if errors.Is(err, syscall.EBADF) { // opened write-only: trust it
+			return nil
+		}
+		return err
+	}
+	first = first[:n]
+	switch {
+	case string(first) == head:
+	case info.Size() < int64(len(head)) && strings.HasPrefix(head, string(first)):
+		// A header torn while the file was being created: start it afresh.
+		if err := w.f.Truncate(0); err != nil {
+			return err
+		}
+		return w.writeAll([]byte(head))
+	default:
+		line, _, _ := strings.Cut(string(first), "\n")
+		return fmt.Errorf("journal %s has other columns than a fifthline journal (its first line starts %.40q); give another file", w.path, line)
+	}
+	last := make([]byte, 1)
+	if _, err := w.f.ReadAt(last, info.Size()-1); err != nil {
+		return err
+	}
+	if last[0] != '\n' { // a line torn by a crash: end it so ours starts clean
+		return w.writeAll([]byte("\n"))
+	}
+	return nil
+}
+
+// Write appends one held note, handed to the kernel before it returns. On a
+// disk failure the note is counted as lost and the error is returned (and
+// kept for Status and Close); later notes are still tried, so the journal
+// resumes if the disk comes back.
+func (w *Writer) Write(ev session.Event) error {
+	w.mu.Lock()
+	defer w.mu.Unlock()
+	if w.f == nil {
+		w.lost++
+		return w.err
+	}
+	line := w.line(ev)
+	if w.torn {
+		line = append([]byte("\n"), line...)
+	}
+	if err := w.writeAll(line); err != nil {
+		w.lost++
+		w.fail(fmt.Errorf("cannot write %s: %w", w.path, unwrapPath(err)))
+		return w.err
+	}
+	w.written++
+	w.unsynced++
+	if now := w.meta.Now(); w.unsynced >= syncEvery || now.Sub(w.lastSync) >= syncAfter {
+		w.sync(now)
+	}
+	return nil
+}
+
+// writeAll writes b in one call (O_APPEND keeps lines whole between
+// processes) and remembers whether a failure left a partial line.
+func (w *Writer) writeAll(b []byte) error {
+	n, err := w.f.Write(b)
+	w.torn = err != nil && n > 0 && b[n-1] != '\n'
+	if err == nil {
+		w.torn = false
+	}
+	return err
+}
+
+func (w *Writer) sync(now time.Time) {
+	w.unsynced, w.lastSync = 0, now
+	if err := w.f.Sync(); err != nil && w.regular {
+		w.fail(fmt.Errorf("cannot save %s to disk: %w", w.path, unwrapPath(err)))
+	}
+}
+
+// fail keeps the first failure.
+func (w *Writer) fail(err error) {
+	if w.err == nil {
+		w.err = err
+	}
+}
+
+// line formats the event as one CSV line of Header().
+func (w *Writer) line(ev session.Event) []byte {
+	tu := ev.Tuning
+	chord, temperament := "", ""
+	if tu.Chord != nil {
+		chord = tu.Chord.String()
+	}
+	if tu.Temperament != nil {
+		temperament = tu.Temperament.Spec()
+	}
+	at := w.opened.Add(time.Duration((w.run.offset(ev, w.meta.Now().Sub(w.opened).Seconds()) + ev.Start) * float64(time.Second)))
+	rec := append([]string{
+		at.Format(TimeLayout), w.meta.Session, ev.Source, w.meta.Player, tu.Key.String(), temperament,
+		strconv.FormatFloat(tu.A4, 'f', -1, 64), tu.Transpose.Name, chord,
+	}, ev.Record(false)...)
+	for i, f := range rec { // one physical line per note, whatever a name holds
+		rec[i] = oneLine.Replace(f)
+	}
+	var b bytes.Buffer
+	cw := csv.NewWriter(&b)
+	cw.Write(rec)
+	cw.Flush()
+	return b.Bytes()
+}
+
+// Status is one line for a meter: where the notes go, or why they do not.
+func (w *Writer) Status() string {
+	w.mu.Lock()
+	defer w.mu.Unlock()
+	if w.err != nil {
+		return fmt.Sprintf("journal: %v — %d not logged", w.err, w.lost)
+	}
+	return fmt.Sprintf("journal: %d notes → %s", w.written, w.path)
+}
+
+// Err is the first failure, or nil.
+func (w *Writer) Err() error {
+	w.mu.Lock()
+	defer w.mu.Unlock()
+	return w.err
+}
+
+// Close syncs and closes the file. It reports any failure during the
+// session, with how many notes were not logged.
+func (w *Writer) Close() error {
+	w.mu.Lock()
+	defer w.mu.Unlock()
+	if w.f != nil {
+		w.sync(w.meta.Now())
+		if err := w.f.Close(); err != nil {
+			w.fail(fmt.Errorf("cannot close %s: %w", w.path, unwrapPath(err)))
+		}
+		w.f = nil
+	}
+	if w.err != nil {
+		return fmt.Errorf("journal: %v (%d of %d notes not logged)", w.err, w.lost, w.lost+w.written)
+	}
+	return nil
+}
+
+// runClock places each run of start_s (one file, one capture) on the
+// journal's wall clock. A new run begins when the source changes or start_s
+// goes back; it starts where the last run ended, or at the wall time it
+// really began if that is later (live capture), so files analysed in a row
+// lie end to end and live notes keep their real time.
+type runClock struct {
+	started      bool
+	source       string
+	base, maxEnd float64
+}
+
+func (c *runClock) offset(ev session.Event, wallElapsed float64) float64 {
+	if !c.started || ev.Source != c.source || ev.Start < c.maxEnd-1 {
+		next := c.base + c.maxEnd
+		if !c.started {
+			next = 0
+		}
+		c.base = max(next, wallElapsed-ev.End)
+		c.started, c.source, c.maxEnd = true, ev.Source, 0
+	}
+	c.maxEnd = max(c.maxEnd, ev.End)
+	return c.base
+}
+
+var oneLine = strings.NewReplacer("\r", " ", "\n", " ")
+
+func newSessionID(t time.Time) string {
+	var b [3]byte
+	rand.Read(b[:])
+	return t.UTC().Format("20060102T150405Z") + "-" + hex.EncodeToString(b[:])
+}
+
+// degradable errors are the disk's, not the user's: the session goes on.
+func degradable(err error) bool {
+	for _, e := range []error{fs.ErrPermission, syscall.EROFS, syscall.ENOSPC, syscall.EDQUOT, syscall.EIO, syscall.EFBIG} {
+		if errors.Is(err, e) {
+			return true
+		}
+	}
+	return false
+}
+
+// unwrapPath drops the *PathError's "open /x:" prefix when we name the path
+// ourselves.
+func unwrapPath(err error) error {
+	var pe *fs.PathError
+	if errors.As(err, &pe) {
+		return pe.Err
+	}
+	return err
+}
