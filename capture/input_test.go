@@ -4,7 +4,6 @@ import (
 	"errors"
 	"math"
 	"os"
-	"os/exec"
 	"strings"
 	"testing"
 	"time"
@@ -13,7 +12,9 @@ import (
 )
 
 // These tests use the real stack: PortAudio -> ALSA pulse plugin ->
-// PulseAudio null sink (internal/vmic). Nothing they play is audible.
+// PulseAudio null sink (internal/vmic), a private sink per test so that
+// other packages' tests playing at the same time are not heard. Nothing
+// they play is audible.
 
 // risingCrossingHz measures the frequency of a clean tone from the times of
 // its upward zero crossings, interpolated between samples.
@@ -67,7 +68,7 @@ func soxTone(t *testing.T, seconds string, synth ...string) string {
 }
 
 func TestInputHearsToneFromVirtualMicrophone(t *testing.T) {
-	vmic.Ensure(t)
+	vmic.Isolate(t)
 	cases := []struct {
 		name    string
 		channel int
@@ -116,7 +117,7 @@ func TestInputHearsToneFromVirtualMicrophone(t *testing.T) {
 }
 
 func TestDevicesMarkDefaults(t *testing.T) {
-	vmic.Ensure(t)
+	vmic.Isolate(t)
 	devs, err := Devices()
 	if err != nil {
 		t.Fatal(err)
@@ -143,7 +144,7 @@ func TestDevicesMarkDefaults(t *testing.T) {
 }
 
 func TestInputChoosesDeviceByNameOrIndex(t *testing.T) {
-	vmic.Ensure(t)
+	vmic.Isolate(t)
 	devs, err := Devices()
 	if err != nil {
 		t.Fatal(err)
@@ -188,7 +189,7 @@ func waitForBlocks(t *testing.T, in *Input) {
 
 // A reader that stalls loses whole blocks, and they are counted.
 func TestInputCountsDroppedBlocksWhenReaderStalls(t *testing.T) {
-	vmic.Ensure(t)
+	vmic.Isolate(t)
 	in, err := OpenInput(InputOptions{Buffer: 50 * time.Millisecond})
 	if err != nil {
 		t.Fatal(err)
@@ -208,7 +209,7 @@ func TestInputCountsDroppedBlocksWhenReaderStalls(t *testing.T) {
 
 // Close wakes a waiting reader, and later Reads and Closes are harmless.
 func TestInputCloseIsClean(t *testing.T) {
-	vmic.Ensure(t)
+	vmic.Isolate(t)
 	in, err := OpenInput(InputOptions{})
 	if err != nil {
 		t.Fatal(err)
@@ -240,29 +241,26 @@ func TestInputCloseIsClean(t *testing.T) {
 	}
 }
 
-// A source that vanishes mid-session ends Read with ErrDeviceLost. The test
-// records from a private null sink (PULSE_SOURCE steers the ALSA pulse
-// plugin to it) and unloads it while reading.
+// A source that vanishes mid-session ends Read with ErrDeviceLost: the
+// test's private null sink is suspended while the input reads its monitor.
 func TestInputReportsLostDevice(t *testing.T) {
-	vmic.Ensure(t)
-	const sink = "fifthline_vmic_lost"
-	module := strings.TrimSpace(string(pactl(t, "load-module", "module-null-sink", "sink_name="+sink, "rate=48000")))
-	unloaded := false
-	t.Cleanup(func() {
-		if !unloaded {
-			pactl(t, "unload-module", module)
-		}
-	})
-	t.Setenv("PULSE_SOURCE", sink+".monitor")
+	mic := vmic.Isolate(t)
 	in, err := OpenInput(InputOptions{StallTimeout: 500 * time.Millisecond})
 	if err != nil {
 		t.Fatal(err)
 	}
 	defer in.Close()
 	waitForBlocks(t, in)
-	pactl(t, "unload-module", module)
-	unloaded = true
 	buf := make([]float32, 1024)
+	// Control: while the sink runs, a second of reading never stalls.
+	for got := 0; got < int(in.SampleRate()); {
+		n, err := in.Read(buf)
+		if err != nil {
+			t.Fatalf("Read before the suspend: %v", err)
+		}
+		got += n
+	}
+	mic.Suspend()
 	deadline := time.Now().Add(5 * time.Second)
 	for {
 		_, err := in.Read(buf)
@@ -280,13 +278,4 @@ func TestInputReportsLostDevice(t *testing.T) {
 	if err := in.Close(); err != nil {
 		t.Logf("Close after loss: %v", err) // an error is allowed, a hang or panic is not
 	}
-}
-
-func pactl(t *testing.T, args ...string) []byte {
-	t.Helper()
-	out, err := exec.Command("pactl", args...).CombinedOutput()
-	if err != nil {
-		t.Fatalf("pactl %s: %v: %s", strings.Join(args, " "), err, out)
-	}
-	return out
 }

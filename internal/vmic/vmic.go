@@ -12,11 +12,13 @@ import (
 	"bytes"
 	"errors"
 	"fmt"
+	"os"
 	"os/exec"
 	"path/filepath"
 	"runtime"
 	"strings"
 	"sync"
+	"sync/atomic"
 	"syscall"
 	"testing"
 )
@@ -59,20 +61,84 @@ func Ensure(t testing.TB) string {
 	return started.line
 }
 
-// Play plays a sound file into the null sink in the background, where
-// nothing can hear it; wait blocks until playback ends. The player is
-// killed if the test ends first.
+// Private is a null sink of one test's own, so test binaries running at
+// the same time do not hear each other.
+type Private struct {
+	Sink, Source string
+	t            testing.TB
+	module       string
+	removed      bool
+}
+
+var privateCount atomic.Int64
+
+// Isolate gives the test a null sink of its own and makes it this
+// process's default sink and source (PULSE_SINK and PULSE_SOURCE, which
+// libpulse and so the ALSA pulse plugin honour) until the test ends; Play
+// and Record follow it. Not for parallel tests: it sets the environment.
+func Isolate(t testing.TB) *Private {
+	t.Helper()
+	Ensure(t)
+	p := &Private{t: t, Sink: fmt.Sprintf("%s_%d_%d", Sink, os.Getpid(), privateCount.Add(1))}
+	p.Source = p.Sink + ".monitor"
+	p.module = strings.TrimSpace(pactl(t, "load-module", "module-null-sink", "sink_name="+p.Sink, "rate=48000"))
+	t.Cleanup(p.Remove)
+	t.Setenv("PULSE_SINK", p.Sink)
+	t.Setenv("PULSE_SOURCE", p.Source)
+	return p
+}
+
+// Remove unloads the sink now. Removing twice is harmless. (Streams
+// reading its monitor are moved to the default source by PulseAudio; to
+// take a device away from a reader, use Disconnect.)
+func (p *Private) Remove() {
+	if !p.removed {
+		p.removed = true
+		pactl(p.t, "unload-module", p.module)
+	}
+}
+
+// Suspend stops the private sink and so its monitor: a stream reading it
+// gets no more audio, as from a device that has gone away.
+func (p *Private) Suspend() {
+	p.t.Helper()
+	pactl(p.t, "suspend-sink", p.Sink, "1")
+}
+
+func pactl(t testing.TB, args ...string) string {
+	t.Helper()
+	out, err := exec.Command("pactl", args...).CombinedOutput()
+	if err != nil {
+		t.Fatalf("virtual microphone: pactl %s: %v: %s", strings.Join(args, " "), err, out)
+	}
+	return string(out)
+}
+
+// current is the sink in use: the test's private one, else the shared one.
+func current() (sink, source string) {
+	if s := os.Getenv("PULSE_SINK"); strings.HasPrefix(s, Sink) {
+		return s, s + ".monitor"
+	}
+	return Sink, Source
+}
+
+// Play plays a sound file into the current null sink in the background,
+// where nothing can hear it; wait blocks until playback ends. The player
+// is killed if the test ends first.
 func Play(t testing.TB, path string) (wait func() error) {
 	t.Helper()
-	_, wait = background(t, "paplay", "--device="+Sink, path)
+	sink, _ := current()
+	_, wait = background(t, "paplay", "--device="+sink, path)
 	return wait
 }
 
-// Record records the null sink's monitor (what is played into it, or what
-// a drone sends to the default output) into a WAV file until stop is called.
+// Record records the current null sink's monitor (what is played into it,
+// or what a drone sends to the default output) into a WAV file until stop
+// is called.
 func Record(t testing.TB, path string) (stop func() error) {
 	t.Helper()
-	cmd, wait := background(t, "parecord", "--device="+Source, "--file-format=wav", path)
+	_, source := current()
+	cmd, wait := background(t, "parecord", "--device="+source, "--file-format=wav", path)
 	return func() error {
 		// An interrupt lets parecord finish the WAV header, as Ctrl-C does.
 		_ = cmd.Process.Signal(syscall.SIGINT)
