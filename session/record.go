@@ -27,13 +27,13 @@ func (ev Event) Record(withFile bool) []string {
 		rec = append(rec, ev.Source)
 	}
 	return append(rec,
-		num(ev.Start, 3), num(ev.End, 3), r.Written.String(), num(r.Hz, 4), num(r.TargetHz, 4),
-		num(r.Cents, 2), r.AltWritten.String(), num(r.AltCents, 2), strconv.FormatBool(r.SamePitch),
-		num(ev.Spread, 2), num(ev.VibratoWidth, 1), num(ev.VibratoRate, 2))
+		Decimal(ev.Start, 3), Decimal(ev.End, 3), r.Written.String(), Decimal(r.Hz, 4), Decimal(r.TargetHz, 4),
+		Decimal(r.Cents, 2), r.AltWritten.String(), Decimal(r.AltCents, 2), strconv.FormatBool(r.SamePitch),
+		Decimal(ev.Spread, 2), Decimal(ev.VibratoWidth, 1), Decimal(ev.VibratoRate, 2))
 }
 
-// num formats x with the given decimals, never as "-0.00".
-func num(x float64, decimals int) string {
+// Decimal formats x with the given decimals, never as "-0.00".
+func Decimal(x float64, decimals int) string {
 	s := strconv.FormatFloat(x, 'f', decimals, 64)
 	if s[0] == '-' {
 		if z, err := strconv.ParseFloat(s, 64); err == nil && z == 0 {

@@ -3,6 +3,7 @@ package target
 import (
 	"fmt"
 	"math"
+	"strconv"
 )
 
 // Reading is what a measured frequency means in a tuning: the window note
@@ -92,14 +93,14 @@ func (r Reading) Verdict() string {
 	if r.Hz == 0 {
 		return "no pitch"
 	}
-	base := fmt.Sprintf("%s %+.1f¢", r.Written, r.Cents)
+	base := r.Written.String() + " " + FormatCents(r.Cents, 1)
 	switch {
 	case r.SamePitch:
 		return fmt.Sprintf("%s (%s is the same pitch)", base, r.AltWritten)
 	case r.NearerAlt():
-		return fmt.Sprintf("%s, sits on %s (%+.1f¢)", base, r.AltWritten, r.AltCents)
+		return fmt.Sprintf("%s, sits on %s (%s)", base, r.AltWritten, FormatCents(r.AltCents, 1))
 	}
-	return fmt.Sprintf("%s (%s would be %+.1f¢)", base, r.AltWritten, r.AltCents)
+	return fmt.Sprintf("%s (%s would be %s)", base, r.AltWritten, FormatCents(r.AltCents, 1))
 }
 
 func abs(x int) int {
@@ -107,4 +108,17 @@ func abs(x int) int {
 		return -x
 	}
 	return x
+}
+
+// FormatCents writes a signed number of cents with the given decimals and the
+// cent sign ("+3.2¢", "-0.4¢"), never "-0.0¢".
+func FormatCents(c float64, decimals int) string {
+	s := strconv.FormatFloat(c, 'f', decimals, 64)
+	if z, err := strconv.ParseFloat(s, 64); err == nil && z == 0 {
+		s = strconv.FormatFloat(0, 'f', decimals, 64)
+	}
+	if s[0] != '-' {
+		s = "+" + s
+	}
+	return s + "¢"
 }

@@ -189,3 +189,15 @@ func TestParseA4(t *testing.T) {
 		}
 	}
 }
+
+func TestFormatCents(t *testing.T) {
+	for _, tc := range []struct {
+		c    float64
+		d    int
+		want string
+	}{{3.24, 1, "+3.2¢"}, {-0.04, 1, "+0.0¢"}, {-0.4, 1, "-0.4¢"}, {0, 2, "+0.00¢"}, {41.059, 0, "+41¢"}} {
+		if got := FormatCents(tc.c, tc.d); got != tc.want {
+			t.Errorf("FormatCents(%g, %d) = %q, want %q", tc.c, tc.d, got, tc.want)
+		}
+	}
+}

@@ -147,7 +147,7 @@ func (nw *noteWriter) Note(ev session.Event) error {
 		nw.started = true
 	}
 	r := ev.Reading
-	line := fmt.Sprintf("%7.2f\t%7.2f\t%s\t%.2f\t%+.1f¢\t%s\t", ev.Start, ev.End, r.Written, r.Hz, r.Cents, verdictTail(r))
+	line := fmt.Sprintf("%7.2f\t%7.2f\t%s\t%.2f\t%s\t%s\t", ev.Start, ev.End, r.Written, r.Hz, target.FormatCents(r.Cents, 1), verdictTail(r))
 	if nw.withFile {
 		line = ev.Source + "\t" + line
 	}
@@ -169,9 +169,9 @@ func verdictTail(r target.Reading) string {
 	case r.SamePitch:
 		return r.AltWritten.String() + " is the same pitch"
 	case r.NearerAlt():
-		return fmt.Sprintf("sits on %s (%+.1f¢)", r.AltWritten, r.AltCents)
+		return fmt.Sprintf("sits on %s (%s)", r.AltWritten, target.FormatCents(r.AltCents, 1))
 	}
-	return fmt.Sprintf("%s would be %+.1f¢", r.AltWritten, r.AltCents)
+	return fmt.Sprintf("%s would be %s", r.AltWritten, target.FormatCents(r.AltCents, 1))
 }
 
 func (nw *noteWriter) Close() error {

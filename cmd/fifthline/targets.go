@@ -3,10 +3,10 @@ package main
 import (
 	"encoding/csv"
 	"fmt"
-	"math"
 	"strconv"
 	"text/tabwriter"
 
+	"fifthline/session"
 	"fifthline/target"
 )
 
@@ -89,7 +89,7 @@ func writeTargetsCSV(e *env, tu target.Tuning, rows []targetRow) error {
 	}
 	w.Write(header)
 	for _, r := range rows {
-		rec := []string{r.note.String(), fmtFloat(r.hz, 4), fmtFloat(r.equal, 3), strconv.Itoa(r.fifths), r.alt.String(), fmtFloat(r.altGap, 3)}
+		rec := []string{r.note.String(), session.Decimal(r.hz, 4), session.Decimal(r.equal, 3), strconv.Itoa(r.fifths), r.alt.String(), session.Decimal(r.altGap, 3)}
 		if !tu.Transpose.IsConcert() {
 			rec = append(rec, r.written.String())
 		}
@@ -114,11 +114,11 @@ func writeTargetsTable(e *env, tu target.Tuning, rows []targetRow) error {
 	}
 	fmt.Fprintln(tw, head)
 	for _, r := range rows {
-		other := fmt.Sprintf("%s %+.1f¢", r.alt, r.altGap)
+		other := r.alt.String() + " " + target.FormatCents(r.altGap, 1)
 		if r.samePitch {
 			other = r.alt.String() + " same"
 		}
-		line := fmt.Sprintf("%s\t%.3f\t%+.2f¢\t%+d\t%s\t", r.note, r.hz, r.equal, r.fifths, other)
+		line := fmt.Sprintf("%s\t%.3f\t%s\t%+d\t%s\t", r.note, r.hz, target.FormatCents(r.equal, 2), r.fifths, other)
 		if !tu.Transpose.IsConcert() {
 			line += r.written.String() + "\t"
 		}
@@ -128,15 +128,4 @@ func writeTargetsTable(e *env, tu target.Tuning, rows []targetRow) error {
 		fmt.Fprintln(tw, line)
 	}
 	return tw.Flush()
-}
-
-// fmtFloat prints a number with at most the given decimals, no trailing zeros
-// noise for whole numbers, and never "-0".
-func fmtFloat(x float64, decimals int) string {
-	p := math.Pow(10, float64(decimals))
-	x = math.Round(x*p) / p
-	if x == 0 {
-		x = 0
-	}
-	return strconv.FormatFloat(x, 'f', decimals, 64)
 }
