@@ -3,6 +3,7 @@ package main
 import (
 	"encoding/csv"
 	"encoding/json"
+	"errors"
 	"fmt"
 	"io"
 	"strconv"
@@ -30,6 +31,7 @@ func runAnalyze(e *env, args []string) error {
 	fs.StringVar(&opt.format, "format", "csv", "table, csv or json")
 	fs.BoolVar(&opt.frames, "frames", false, "print the frame track (time_s,hz,confidence…) instead of held notes")
 	fs.IntVar(&opt.channel, "channel", 1, "channel to read, counted from 1")
+	jf := addJournalFlags(fs)
 	files, err := parseFlags(e, fs, args)
 	if err != nil {
 		return err
@@ -53,16 +55,20 @@ func runAnalyze(e *env, args []string) error {
 	} else {
 		out = newNoteWriter(e.stdout, opt.format, len(files) > 1)
 	}
+	j, err := jf.open(e)
+	if err != nil {
+		return err
+	}
 	for _, path := range files {
-		if err := analyzeFile(e, path, tu, opt, out); err != nil {
+		if err := analyzeFile(e, path, tu, opt, out, j); err != nil {
 			out.Close()
-			return err
+			return errors.Join(err, j.close())
 		}
 	}
-	return out.Close()
+	return errors.Join(out.Close(), j.close())
 }
 
-func analyzeFile(e *env, path string, tu target.Tuning, opt analyzeOptions, out eventWriter) error {
+func analyzeFile(e *env, path string, tu target.Tuning, opt analyzeOptions, out eventWriter, j *journalSink) error {
 	w, err := capture.OpenWAVChannel(path, opt.channel)
 	if err != nil {
 		return err
@@ -75,7 +81,10 @@ func analyzeFile(e *env, path string, tu target.Tuning, opt analyzeOptions, out 
 		Name:    path,
 		Tunings: session.NewTunings(tu),
 		OnFrame: func(f session.Frame) { out.Frame(path, f) },
-		OnNote:  out.Note,
+		OnNote: func(ev session.Event) error {
+			j.note(ev)
+			return out.Note(ev)
+		},
 	})
 	if err != nil {
 		return fmt.Errorf("%s: %w", path, err)
