@@ -29,13 +29,15 @@ const (
 	silenceDBFS   = -65.0 // below this the frame is silent and skips the FFTs
 	minClarity    = 0.75  // NSDF peak value
 	minClarityLow = 0.85  // the same when partials are too close to check their spread
-	minShare      = 0.6   // share of spectral power in the harmonic comb
+	minShare      = 0.3   // share of spectral power in the harmonic comb
 	residualScale = 4.0   // cents of partial disagreement that halve confidence
 	minConfidence = 0.5
 	floorDB       = -80.0 // partials this far below the strongest are ignored
 	floorMedian   = 20.0  // and partials less than this times the median bin power
 	agreeCents    = 8.0   // coarse and fine estimates agree within this (plus lag resolution)
 	coarseCents   = 6.0   // trust in the coarse estimate beyond lag resolution
+	onsetCents    = 30.0  // the same while a note starts inside the span
+	onsetShare    = 0.1   // and the comb's share then
 )
 
 // Detector estimates the pitch of a monophonic stream, one Estimate per hop.
@@ -70,6 +72,7 @@ type Detector struct {
 	floor     float64 // absolute power floor for partial peaks in this frame
 	specTotal float64
 	peak      float64 // strongest bin's power in this frame
+	last      analysis
 }
 
 // New returns a Detector for the sample rate with the given window and hop
@@ -193,25 +196,42 @@ func (d *Detector) frame() Estimate {
 
 	f, period := d.guard(period)
 	lagCents := centsPerUnit * 0.15 / period // parabolic-lag resolution
-	needClarity := minClarity
+	needClarity, needShare := minClarity, minShare
+	onset := false
 	var ft fit
 	if f >= resolvedBins*d.binHz {
-		ft = d.fitComb(f, coarseCents+lagCents)
+		tol, lobe := coarseCents+lagCents, mainLobeBins
+		if onset = d.onsetInSpan(); onset {
+			// A note starting inside the span truncates the two frames
+			// at different places under their windows, which bends each
+			// partial's phase advance, and fills only part of the
+			// window, which widens its peaks: accept a rougher comb for
+			// the first readings (the segmenter leaves them out of the
+			// steady part).
+			tol, lobe = onsetCents, max(mainLobeBins, int(f/(2*d.binHz)))
+			needShare = onsetShare
+		}
+		ft = d.fitComb(f, tol, lobe)
 	} else {
 		// Partials closer than the window resolves: the comb fit would
 		// follow leakage, while the long period makes the NSDF lag
 		// precise. The comb (accepting every peak) only gives the share.
 		needClarity = minClarityLow
-		ft = d.fitComb(f, math.Inf(1))
+		ft = d.fitComb(f, math.Inf(1), mainLobeBins)
 		ft.hz, ft.residual = d.fs/period, 0
 	}
 	// A tone's comb fit lands within the NSDF's lag resolution of the coarse
 	// pick; narrow-band noise drifts between the two analyses.
 	tol := agreeCents + lagCents
 	dis := math.Abs(1200*math.Log2(ft.hz*period/d.fs)) / tol
-	conf := clarity * ft.share / (1 + (ft.residual/residualScale)*(ft.residual/residualScale)) / (1 + dis*dis)
+	conf := clarity / (1 + dis*dis)
+	if !onset {
+		r := ft.residual / residualScale
+		conf *= math.Sqrt(ft.share) / (1 + r*r)
+	}
 	e.Confidence = math.Max(0, math.Min(conf, 1))
-	if ft.hz >= d.minHz && ft.hz <= d.maxHz && clarity >= needClarity && ft.share >= minShare &&
+	d.last = analysis{clarity: clarity, fit: ft, disagree: dis, coarseHz: f}
+	if ft.hz >= d.minHz && ft.hz <= d.maxHz && clarity >= needClarity && ft.share >= needShare &&
 		e.Confidence >= minConfidence && ft.partials > 0 && dis < 1.5 {
 		e.Hz, e.Voiced = ft.hz, true
 	}
@@ -270,4 +290,23 @@ func median(x []float64) float64 {
 		}
 	}
 	return x[k]
+}
+
+// onsetInSpan reports whether the span's oldest eighth is more than 20 dB
+// quieter than its newest: a note has started inside it.
+func (d *Detector) onsetInSpan() bool {
+	n := len(d.lin) / 8
+	var first, last float64
+	for i, v := range d.lin[:n] {
+		w := d.lin[len(d.lin)-n+i]
+		first += v * v
+		last += w * w
+	}
+	return first < 0.01*last
+}
+
+// analysis keeps the last voiced-candidate frame's evidence, for tests.
+type analysis struct {
+	clarity, disagree, coarseHz float64
+	fit                         fit
 }

@@ -35,8 +35,9 @@ type fit struct {
 // fitComb fits the comb starting from f0, which is trusted to tolCents:
 // a partial whose phase-advance frequency strays further from its place on
 // the comb (a noise peak, a neighbour's leakage) is left out rather than
-// allowed to drag the comb.
-func (d *Detector) fitComb(f0, tolCents float64) fit {
+// allowed to drag the comb. lobe is the half-width in bins of the spectral
+// peak counted into the comb's share.
+func (d *Detector) fitComb(f0, tolCents float64, lobe int) fit {
 	f := f0
 	prior := priorShare * d.peak
 	var swk2, swkf, sw float64
@@ -81,7 +82,7 @@ func (d *Detector) fitComb(f0, tolCents float64) fit {
 		swr += w * r
 		swr2 += w * r * r
 		used++
-		for j := max(b-mainLobeBins, 1); j <= b+mainLobeBins && j < len(d.power); j++ {
+		for j := max(b-lobe, 1); j <= b+lobe && j < len(d.power); j++ {
 			comb += d.power[j]
 		}
 		// Predict with the coarse estimate as a weak prior so that one

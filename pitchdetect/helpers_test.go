@@ -54,7 +54,7 @@ func measure(est []Estimate, hz float64) errorStats {
 func segment(est []Estimate, rate float64) []Held {
 	d, _ := New(rate, 0, 0)
 	s := NewSegmenter(float64(d.Hop()) / rate)
-	s.Window = float64(d.Window()) / rate
+	s.Window = float64(d.Span()) / rate
 	var notes []Held
 	for _, e := range est {
 		if h, ok := s.Push(e); ok {

@@ -16,11 +16,13 @@ type Held struct {
 // a voiced frame, continues while frames stay voiced and within JumpCents of
 // the note's recent pitch, and ends after more than MaxGap unvoiced frames or
 // on a sustained jump. Its steady part leaves out the frames whose analysis
-// window reaches past the onset or the offset. Set the exported fields before
+// window may reach past the onset or the offset: a detector voices a frame
+// once part of its window holds the note, so the first and last Window
+// seconds of voiced frames are set aside. Set the exported fields before
 // the first Push.
 type Segmenter struct {
 	Hop       float64 // seconds between estimates
-	Window    float64 // seconds of the detector's window (Detector.Window / rate)
+	Window    float64 // seconds of signal behind each estimate (Detector.Span / rate)
 	JumpCents float64 // a sustained step larger than this starts a new note
 	MaxGap    int     // unvoiced frames bridged inside a note
 	MinFrames int     // shorter notes are dropped as blips
@@ -37,7 +39,7 @@ type Segmenter struct {
 func NewSegmenter(hopSeconds float64) *Segmenter {
 	return &Segmenter{
 		Hop:       hopSeconds,
-		Window:    8 * hopSeconds, // the default hop is window/8
+		Window:    9 * hopSeconds, // the default span is 9 hops
 		JumpCents: 50,
 		MaxGap:    2,
 		MinFrames: 4,
@@ -128,7 +130,7 @@ func (s *Segmenter) summary() Held {
 	h := Held{Start: fr[0].Time, End: fr[len(fr)-1].Time, Frames: len(fr)}
 	ref := fr[len(fr)/2].Hz
 	// Steady part: frames whose whole window lies inside the note.
-	lo, hi := h.Start+s.Window/2, h.End-s.Window/2
+	lo, hi := h.Start+s.Window, h.End-s.Window
 	s.t, s.c = s.t[:0], s.c[:0]
 	for _, e := range fr {
 		if e.Time >= lo && e.Time <= hi {

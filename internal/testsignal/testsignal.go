@@ -200,3 +200,13 @@ func CramerRaoHz(rate float64, n int, amps []float64, f0, sigma float64) float64
 
 // Cents is 1200·log2(a/b).
 func Cents(a, b float64) float64 { return 1200 * math.Log2(a/b) }
+
+// FadeIn shapes the first seconds of x with a raised-cosine attack, as any
+// bowed, blown or sung onset has; a hard step would add a click no
+// instrument makes.
+func FadeIn(x []float64, rate, seconds float64) {
+	n := min(int(rate*seconds), len(x))
+	for i := range n {
+		x[i] *= 0.5 - 0.5*math.Cos(math.Pi*float64(i)/float64(n))
+	}
+}

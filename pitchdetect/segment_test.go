@@ -1,0 +1,126 @@
+package pitchdetect
+
+import (
+	"math"
+	"testing"
+
+	"fifthline/internal/testsignal"
+)
+
+// Vibrato of 5–25 cents peak to peak at 4.5–6.5 Hz: the range of sung and
+// bowed vibrato (common practice). The signal's log-frequency is a sine about
+// the centre, so the mean over whole cycles is exactly the centre.
+func TestVibratoCentreWidthAndRate(t *testing.T) {
+	rate := 44100.0
+	for _, s := range []testsignal.Spectrum{testsignal.Saw, testsignal.OddOnly, testsignal.WeakFund} {
+		for _, width := range []float64{5, 15, 25} {
+			for _, vr := range []float64{4.5, 5.5, 6.5} {
+				hz := 392.0 // G4
+				x := testsignal.Tone(rate, int(rate*1.6), s, 0.5, testsignal.Vibrato(hz, width, vr))
+				notes := segment(run(t, rate, x), rate)
+				if len(notes) != 1 {
+					t.Errorf("%s %g ¢ at %g Hz: %d notes, want 1", s.Name, width, vr, len(notes))
+					continue
+				}
+				n := notes[0]
+				if c := testsignal.Cents(n.Hz, hz); math.Abs(c) > 0.5 ||
+					math.Abs(n.VibratoRate-vr) > 0.15 || math.Abs(n.VibratoWidth-width) > 0.15*width {
+					t.Errorf("%s %g ¢ at %g Hz: centre %+.3f ¢, width %.2f ¢, rate %.2f Hz",
+						s.Name, width, vr, c, n.VibratoWidth, n.VibratoRate)
+				}
+			}
+		}
+	}
+}
+
+// A phrase of held notes separated by short rests and one slur: onsets and
+// offsets within two hops of the truth, centre within a hundredth of a cent,
+// no vibrato reported on steady tones.
+func TestHeldNotesInAPhrase(t *testing.T) {
+	rate := 48000.0
+	type note struct{ hz, start, end float64 }
+	// D4, F#4 (5-limit major third above D, 386.31 ¢), A4 slurred from F#4, then D5.
+	phrase := []note{{293.6648, 0.2, 0.9}, {293.6648 * 5 / 4, 1.0, 1.6}, {440, 1.6, 2.2}, {587.3295, 2.4, 3.0}}
+	x := make([]float64, int(rate*3.3))
+	for _, n := range phrase {
+		tone := testsignal.Tone(rate, int(rate*(n.end-n.start)), testsignal.Saw, 0.3, testsignal.Steady(n.hz))
+		for i, v := range tone {
+			x[int(rate*n.start)+i] += v
+		}
+	}
+	notes := segment(run(t, rate, x), rate)
+	if len(notes) != len(phrase) {
+		t.Fatalf("%d notes, want %d: %+v", len(notes), len(phrase), notes)
+	}
+	hop := 512 / rate
+	for i, n := range notes {
+		want := phrase[i]
+		if c := testsignal.Cents(n.Hz, want.hz); math.Abs(c) > 0.01 || n.VibratoWidth != 0 || n.Spread > 0.01 {
+			t.Errorf("note %d: %.4f Hz (%+.4f ¢), spread %.4f ¢, vibrato %.2f ¢", i, n.Hz, c, n.Spread, n.VibratoWidth)
+		}
+		// The first voiced frame's window is centred a little before the
+		// onset (it needs only part of its window filled).
+		if math.Abs(n.Start-want.start) > 0.06 || math.Abs(n.End-want.end) > 0.06 {
+			t.Errorf("note %d: %.3f..%.3f s, want %.3f..%.3f (hop %.4f s)", i, n.Start, n.End, want.start, want.end, hop)
+		}
+	}
+}
+
+// The live meter needs a first reading within 60 ms of the onset for notes
+// above 80 Hz: time is counted in samples fed when Current first reports.
+// The tones start with a 5 ms attack (testsignal.FadeIn).
+func TestFirstReadingWithin60ms(t *testing.T) {
+	for _, rate := range []float64{44100, 48000, 96000} {
+		for _, hz := range []float64{82.4069, 110, 220, 440, 1318.51} {
+			for _, s := range []testsignal.Spectrum{testsignal.Saw, testsignal.WeakFund} {
+				if got := firstReading(t, rate, hz, s); got > 0.060 {
+					t.Errorf("%g Hz rate, %s %.1f Hz: first reading %.1f ms after onset", rate, s.Name, hz, got*1000)
+				}
+			}
+		}
+	}
+}
+
+// firstReading returns seconds from onset to the first Current reading
+// within 50 cents of the truth, feeding one hop at a time.
+func firstReading(t *testing.T, rate, hz float64, s testsignal.Spectrum) float64 {
+	onset := 0.3
+	x := make([]float64, int(rate*(onset+0.5)))
+	tone := testsignal.Tone(rate, len(x)-int(rate*onset), s, 0.3, testsignal.Steady(hz))
+	testsignal.FadeIn(tone, rate, 0.005)
+	copy(x[int(rate*onset):], tone)
+	in := testsignal.Float32(x)
+	d, _ := New(rate, 0, 0)
+	seg := NewSegmenter(float64(d.Hop()) / rate)
+	var out []Estimate
+	for i := 0; i < len(in); i += d.Hop() {
+		out = d.Feed(in[i:min(i+d.Hop(), len(in))], out[:0])
+		for _, e := range out {
+			seg.Push(e)
+			if h, ok := seg.Current(); ok && math.Abs(testsignal.Cents(h.Hz, hz)) < 50 {
+				return float64(i+d.Hop())/rate - float64(int(rate*onset))/rate
+			}
+		}
+	}
+	return math.Inf(1)
+}
+
+func TestSegmenterIgnoresASingleStrayFrame(t *testing.T) {
+	s := NewSegmenter(0.01)
+	var got []Held
+	for i := range 40 {
+		e := Estimate{Time: float64(i) * 0.01, Hz: 440, Voiced: true, Confidence: 1}
+		if i == 20 {
+			e.Hz = 880 // one octave-error frame
+		}
+		if h, ok := s.Push(e); ok {
+			got = append(got, h)
+		}
+	}
+	if h, ok := s.Flush(); ok {
+		got = append(got, h)
+	}
+	if len(got) != 1 || got[0].Hz != 440 || got[0].Frames != 39 {
+		t.Errorf("got %+v, want one 440 Hz note of 39 frames", got)
+	}
+}
