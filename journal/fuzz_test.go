@@ -1,0 +1,38 @@
+package journal
+
+import (
+	"math"
+	"strings"
+	"testing"
+)
+
+// The reader takes files from disks and spreadsheets: it must never panic,
+// and what it accepts must be usable numbers.
+func FuzzRead(f *testing.F) {
+	f.Add(headerLine() + sampleLine + "\n")
+	f.Add(headerLine() + sampleLine[:50])
+	f.Add("time,session\n1,2\n")
+	f.Add("\"\n\"")
+	f.Add("")
+	f.Fuzz(func(t *testing.T, body string) {
+		entries, warns, err := Read(strings.NewReader(body), "fuzz")
+		if err != nil && (entries != nil || strings.Contains(err.Error(), "\n")) {
+			t.Fatalf("error %q with %d entries", err, len(entries))
+		}
+		if len(warns) > maxWarnings+1 {
+			t.Fatalf("%d warnings", len(warns))
+		}
+		for _, w := range warns {
+			if strings.ContainsAny(w, "\r\n") {
+				t.Fatalf("warning on several lines: %q", w)
+			}
+		}
+		for _, e := range entries {
+			for _, x := range []float64{e.Cents, e.AltCents, e.Hz, e.Start, e.A4} {
+				if math.IsNaN(x) || math.IsInf(x, 0) {
+					t.Fatalf("non-finite value in %+v", e)
+				}
+			}
+		}
+	})
+}

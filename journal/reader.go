@@ -1,0 +1,212 @@
+package journal
+
+import (
+	"bytes"
+	"encoding/csv"
+	"errors"
+	"fmt"
+	"io"
+	"io/fs"
+	"math"
+	"os"
+	"strconv"
+	"strings"
+	"time"
+
+	"fifthline/target"
+)
+
+// Entry is one held note read back from a journal. Note and Alt are as the
+// player read them (written pitch for a transposing instrument).
+type Entry struct {
+	Time                              time.Time
+	Session, Source, Player           string
+	Key, Temperament                  string // as given to --key and --temperament (spec)
+	A4                                float64
+	Transpose, Chord                  string
+	Start, End                        float64 // seconds within the session's run
+	Note, Alt                         target.Note
+	Hz, TargetHz, Cents, AltCents     float64
+	SamePitch                         bool
+	Spread, VibratoWidth, VibratoRate float64
+}
+
+// NearerAlt reports whether the note sat nearer its other spelling's target
+// (never where both spellings share one pitch).
+func (e Entry) NearerAlt() bool { return !e.SamePitch && math.Abs(e.AltCents) < math.Abs(e.Cents) }
+
+// maxWarnings bounds the warnings one journal gives; the rest are counted.
+const maxWarnings = 10
+
+// ReadFile reads the journal at path; see Read. Errors name the path.
+func ReadFile(path string) ([]Entry, []string, error) {
+	info, err := os.Stat(path)
+	switch {
+	case errors.Is(err, fs.ErrNotExist):
+		return nil, nil, fmt.Errorf("journal %s: no such file", path)
+	case err != nil:
+		return nil, nil, fmt.Errorf("journal %s: %v", path, unwrapPath(err))
+	case info.IsDir():
+		return nil, nil, fmt.Errorf("journal %s is a folder, not a file", path)
+	}
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, nil, fmt.Errorf("journal %s: %v", path, unwrapPath(err))
+	}
+	defer f.Close()
+	return Read(f, path)
+}
+
+// Read parses a journal; name is used in messages. A first line that is not
+// a journal header is an error. A line that cannot be read — a torn last line
+// left by a crash, or one damaged by hand — is skipped with a warning, so one
+// bad line never costs the rest. Repeated header lines (journals joined with
+// cat) and blank lines are passed over quietly.
+func Read(r io.Reader, name string) ([]Entry, []string, error) {
+	data, err := io.ReadAll(r)
+	if err != nil {
+		return nil, nil, fmt.Errorf("journal %s: %v", name, unwrapPath(err))
+	}
+	data = bytes.TrimPrefix(data, []byte("\uFEFF")) // a spreadsheet may add a byte-order mark
+	if len(bytes.TrimSpace(data)) == 0 {
+		return nil, nil, fmt.Errorf("journal %s is empty (no header line)", name)
+	}
+	lines := strings.Split(string(data), "\n")
+	cols, err := columnIndex(strings.TrimSuffix(lines[0], "\r"))
+	if err != nil {
+		return nil, nil, fmt.Errorf("journal %s is not a fifthline journal: %v", name, err)
+	}
+	var entries []Entry
+	var warns []string
+	skipped := 0
+	for i, line := range lines[1:] {
+		line = strings.TrimSuffix(line, "\r")
+		if strings.TrimSpace(line) == "" || line == lines[0] {
+			continue
+		}
+		e, err := cols.parse(line)
+		if err == nil {
+			entries = append(entries, e)
+			continue
+		}
+		if skipped++; skipped > maxWarnings {
+			continue
+		}
+		what := err.Error()
+		if i == len(lines)-2 { // the file ends without a newline after it
+			what = "incomplete last line (a session cut short?)"
+		}
+		warns = append(warns, fmt.Sprintf("journal %s line %d: %s; skipped", name, i+2, what))
+	}
+	if skipped > maxWarnings {
+		warns = append(warns, fmt.Sprintf("journal %s: %d more unreadable lines skipped", name, skipped-maxWarnings))
+	}
+	return entries, warns, nil
+}
+
+// columns maps each journal column to its place in the file's header.
+type columns struct {
+	at    map[string]int
+	count int
+}
+
+func columnIndex(header string) (columns, error) {
+	fields, err := splitLine(header)
+	if err != nil {
+		return columns{}, fmt.Errorf("its first line is not a header (%v)", err)
+	}
+	c := columns{at: map[string]int{}, count: len(fields)}
+	for i, f := range fields {
+		c.at[strings.TrimSpace(f)] = i
+	}
+	var missing []string
+	for _, h := range Header() {
+		if _, ok := c.at[h]; !ok {
+			missing = append(missing, h)
+		}
+	}
+	if len(missing) == len(Header()) {
+		return columns{}, fmt.Errorf("its first line %.40q is not the journal header", header)
+	}
+	if len(missing) > 0 {
+		return columns{}, fmt.Errorf("columns missing: %s", strings.Join(missing, ", "))
+	}
+	return c, nil
+}
+
+func splitLine(line string) ([]string, error) {
+	cr := csv.NewReader(strings.NewReader(line))
+	cr.FieldsPerRecord = -1
+	rec, err := cr.Read()
+	if err != nil {
+		var pe *csv.ParseError
+		if errors.As(err, &pe) {
+			err = pe.Err
+		}
+		return nil, err
+	}
+	return rec, nil
+}
+
+// fieldReader reads typed fields of one line, keeping the first problem.
+type fieldReader struct {
+	c   columns
+	rec []string
+	err error
+}
+
+func (f *fieldReader) str(col string) string { return f.rec[f.c.at[col]] }
+
+func (f *fieldReader) num(col string) float64 {
+	s := strings.TrimSpace(f.str(col))
+	x, err := strconv.ParseFloat(s, 64)
+	if f.err == nil && (err != nil || math.IsNaN(x) || math.IsInf(x, 0)) {
+		f.err = fmt.Errorf("%s %q is not a number", col, s)
+	}
+	return x
+}
+
+func (f *fieldReader) note(col string) target.Note {
+	n, err := target.ParseNote(strings.TrimSpace(f.str(col)))
+	if f.err == nil && err != nil {
+		f.err = fmt.Errorf("%s: %v", col, err)
+	}
+	return n
+}
+
+func (f *fieldReader) when(col string) time.Time {
+	t, err := time.Parse(time.RFC3339, strings.TrimSpace(f.str(col)))
+	if f.err == nil && err != nil {
+		f.err = fmt.Errorf("%s %q is not an ISO 8601 time", col, f.str(col))
+	}
+	return t
+}
+
+func (f *fieldReader) flag(col string) bool {
+	b, err := strconv.ParseBool(strings.TrimSpace(f.str(col)))
+	if f.err == nil && err != nil {
+		f.err = fmt.Errorf("%s %q is not true or false", col, f.str(col))
+	}
+	return b
+}
+
+func (c columns) parse(line string) (Entry, error) {
+	rec, err := splitLine(line)
+	if err != nil {
+		return Entry{}, err
+	}
+	if len(rec) != c.count {
+		return Entry{}, fmt.Errorf("%d fields where the header has %d", len(rec), c.count)
+	}
+	f := &fieldReader{c: c, rec: rec}
+	e := Entry{
+		Time: f.when("time"), Session: f.str("session"), Source: f.str("source"), Player: f.str("player"),
+		Key: f.str("key"), Temperament: f.str("temperament"), A4: f.num("a4"),
+		Transpose: f.str("transpose"), Chord: f.str("chord"),
+		Start: f.num("start_s"), End: f.num("end_s"), Note: f.note("note"), Hz: f.num("hz"),
+		TargetHz: f.num("target_hz"), Cents: f.num("cents"), Alt: f.note("alt_note"),
+		AltCents: f.num("alt_cents"), SamePitch: f.flag("same_pitch"), Spread: f.num("spread_cents"),
+		VibratoWidth: f.num("vibrato_cents"), VibratoRate: f.num("vibrato_hz"),
+	}
+	return e, f.err
+}
