@@ -4,6 +4,7 @@ import (
 	"errors"
 	"math"
 	"os"
+	"strconv"
 	"strings"
 	"testing"
 	"time"
@@ -155,7 +156,7 @@ func TestInputChoosesDeviceByNameOrIndex(t *testing.T) {
 			def = d
 		}
 	}
-	for _, want := range []string{def.Name, string(rune('0' + def.Index))} {
+	for _, want := range []string{def.Name, strconv.Itoa(def.Index)} {
 		in, err := OpenInput(InputOptions{Device: want})
 		if err != nil {
 			t.Errorf("OpenInput(%q): %v", want, err)

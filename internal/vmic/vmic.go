@@ -138,7 +138,7 @@ func Play(t testing.TB, path string) (wait func() error) {
 func Record(t testing.TB, path string) (stop func() error) {
 	t.Helper()
 	_, source := current()
-	cmd, wait := background(t, "parecord", "--device="+source, "--file-format=wav", path)
+	cmd, wait := background(t, "parecord", "--device="+source, "--latency-msec=20", "--file-format=wav", path)
 	return func() error {
 		// An interrupt lets parecord finish the WAV header, as Ctrl-C does.
 		_ = cmd.Process.Signal(syscall.SIGINT)
