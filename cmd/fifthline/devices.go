@@ -1,0 +1,51 @@
+package main
+
+import (
+	"fmt"
+	"strings"
+	"text/tabwriter"
+
+	"fifthline/capture"
+)
+
+func init() {
+	register("devices", "the audio devices PortAudio sees, defaults marked", runDevices)
+}
+
+func runDevices(e *env, args []string) error {
+	fs := newFlags("devices")
+	pos, err := parseFlags(e, fs, args)
+	if err != nil {
+		return err
+	}
+	if len(pos) > 0 {
+		return usagef("devices takes no arguments (got %q)", pos[0])
+	}
+	devs, err := capture.Devices()
+	if err != nil {
+		return err
+	}
+	if len(devs) == 0 {
+		fmt.Fprintln(e.stdout, "no audio devices")
+		return nil
+	}
+	tw := tabwriter.NewWriter(e.stdout, 0, 0, 2, ' ', 0)
+	fmt.Fprintln(tw, "index\tname\thost API\tin\tout\trate\tdefault")
+	for _, d := range devs {
+		fmt.Fprintf(tw, "%d\t%s\t%s\t%d\t%d\t%g\t%s\n", d.Index, d.Name, d.HostAPI,
+			d.InputChannels, d.OutputChannels, d.DefaultRate, defaultMarks(d))
+	}
+	return tw.Flush()
+}
+
+// defaultMarks says in words which system defaults a device is.
+func defaultMarks(d capture.DeviceInfo) string {
+	var m []string
+	if d.DefaultInput {
+		m = append(m, "default input")
+	}
+	if d.DefaultOutput {
+		m = append(m, "default output")
+	}
+	return strings.Join(m, ", ")
+}

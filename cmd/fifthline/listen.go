@@ -1,0 +1,212 @@
+package main
+
+import (
+	"context"
+	"encoding/csv"
+	"errors"
+	"fmt"
+	"os"
+	"strconv"
+	"time"
+
+	"golang.org/x/sys/unix"
+
+	"fifthline/capture"
+	"fifthline/session"
+	"fifthline/ui"
+)
+
+func init() {
+	register("listen", "the live meter on an input device (--plain: one CSV line per held note)", runListen)
+}
+
+func runListen(e *env, args []string) error {
+	fs := newFlags("listen")
+	mf := addMusicalFlags(fs)
+	jf := addJournalFlags(fs)
+	device := fs.String("device", "", "input device: index or part of the name as 'fifthline devices' lists it (default: the system's default input)")
+	channel := fs.Int("channel", 1, "input channel to read, counted from 1")
+	plain := fs.Bool("plain", false, "no screen: a CSV header, then one line per held note as it ends")
+	duration := fs.Duration("duration", 0, "stop cleanly after this long (e.g. 12s, 2m); 0 listens until interrupted")
+	pos, err := parseFlags(e, fs, args)
+	if err != nil {
+		return err
+	}
+	switch {
+	case len(pos) > 0:
+		return usagef("listen takes no file arguments (got %q); analyze reads files", pos[0])
+	case *channel < 1:
+		return usagef("--channel %d: channels are counted from 1", *channel)
+	case *duration < 0:
+		return usagef("--duration %v is negative", *duration)
+	}
+	tu, err := mf.tuning()
+	if err != nil {
+		return err
+	}
+	ctx := e.ctx
+	if *duration > 0 {
+		var cancel context.CancelFunc
+		ctx, cancel = context.WithTimeout(ctx, *duration)
+		defer cancel()
+	}
+	e, restore, err := muteLibraries(e)
+	if err != nil {
+		return err
+	}
+	defer restore()
+	j, err := jf.open(e)
+	if err != nil {
+		return err
+	}
+	in, err := capture.OpenInput(capture.InputOptions{Device: *device, Channel: *channel})
+	if err != nil {
+		return errors.Join(err, j.close())
+	}
+	opts := session.Options{Name: in.Device().Name, Tunings: session.NewTunings(tu)}
+	if *plain {
+		err = listenPlain(ctx, e, in, opts, j)
+	} else {
+		err = runMeter(ctx, in, opts, j, meterSource{name: in.Device().Name, stats: in.Stats})
+	}
+	// Close before reporting: the journal and the device keep what was heard.
+	return errors.Join(stopped(err), in.Close(), j.close())
+}
+
+// listenPlain writes the contract's CSV: a header, then each held note as it
+// ends, flushed at once so a reader sees it live and an interruption keeps it.
+func listenPlain(ctx context.Context, e *env, src capture.Source, opts session.Options, j *journalSink) error {
+	w := csv.NewWriter(e.stdout)
+	w.Write(session.Header(false))
+	w.Flush()
+	if err := w.Error(); err != nil {
+		return err
+	}
+	timing, err := openTiming(src.SampleRate())
+	if err != nil {
+		return err
+	}
+	defer timing.close()
+	opts.OnFrame = timing.frame
+	opts.OnNote = func(ev session.Event) error {
+		j.note(ev)
+		w.Write(ev.Record(false))
+		w.Flush()
+		return w.Error()
+	}
+	return session.Run(ctx, src, opts)
+}
+
+// meterSource is what the meter says about the sound it is fed.
+type meterSource struct {
+	name  string
+	stats func() capture.InputStats // nil without a device
+}
+
+// runMeter shows the meter fed by src until q, the end of ctx, or a failing
+// source. A source that simply ends (the demo) leaves the meter up.
+func runMeter(ctx context.Context, src capture.Source, opts session.Options, j *journalSink, ms meterSource) error {
+	j.quiet = true // the screen shows the journal's state instead
+	m := ui.New(ui.Options{Tunings: opts.Tunings, Source: ms.name, Stats: ms.stats, Journal: func() string {
+		if s := j.status(); s != "" {
+			return s
+		}
+		return "journal: off"
+	}})
+	opts.OnFrame = m.OnFrame
+	opts.OnNote = func(ev session.Event) error {
+		j.note(ev)
+		return m.OnNote(ev)
+	}
+	ctx, cancel := context.WithCancel(ctx)
+	defer cancel()
+	done := make(chan error, 1)
+	go func() {
+		err := session.Run(ctx, src, opts)
+		if err == nil {
+			m.Ended()
+		} else {
+			m.Stop()
+		}
+		done <- err
+	}()
+	uerr := m.Run(ctx)
+	cancel()
+	return errors.Join(uerr, <-done)
+}
+
+// stopped treats a deliberate stop (Ctrl-C, SIGTERM, --duration, q) as
+// success: what was heard has been written.
+func stopped(err error) error {
+	if errors.Is(err, context.Canceled) || errors.Is(err, context.DeadlineExceeded) {
+		return nil
+	}
+	return err
+}
+
+// muteLibraries silences file descriptor 2 for the whole session, so that
+// PortAudio's and ALSA's chatter reaches neither the screen nor a terminal
+// shared with --plain output, and returns an env whose stderr still reaches
+// the user for our own messages. restore undoes it.
+func muteLibraries(e *env) (*env, func(), error) {
+	quiet := *e
+	var keep *os.File
+	if e.stderr == os.Stderr {
+		fd, err := unix.Dup(2)
+		if err != nil {
+			return nil, nil, err
+		}
+		keep = os.NewFile(uintptr(fd), "stderr")
+		quiet.stderr = keep
+	}
+	restore, err := capture.MuteStderr()
+	if err != nil {
+		keep.Close() // nil-safe
+		return nil, nil, err
+	}
+	return &quiet, func() {
+		restore()
+		keep.Close()
+	}, nil
+}
+
+// timingLog is a debugging aid for measuring latency: with FIFTHLINE_TIMING
+// set to a file name, listen --plain writes one CSV line per analysis frame
+// with the wall-clock time it left the pipeline, so a test can compare it
+// with the moment a sound was played into the virtual microphone.
+type timingLog struct {
+	f *os.File
+	w *csv.Writer
+}
+
+func openTiming(rate float64) (*timingLog, error) {
+	path := os.Getenv("FIFTHLINE_TIMING")
+	if path == "" {
+		return &timingLog{}, nil
+	}
+	f, err := os.Create(path)
+	if err != nil {
+		return nil, fmt.Errorf("FIFTHLINE_TIMING: %w", err)
+	}
+	t := &timingLog{f: f, w: csv.NewWriter(f)}
+	t.w.Write([]string{"wall_unix_ns", "time_s", "hz", "level_dbfs", "voiced", "holding", "rate"})
+	t.w.Write([]string{strconv.FormatInt(time.Now().UnixNano(), 10), "", "", "", "", "", strconv.FormatFloat(rate, 'f', -1, 64)})
+	return t, nil
+}
+
+func (t *timingLog) frame(f session.Frame) {
+	if t.f == nil {
+		return
+	}
+	t.w.Write([]string{strconv.FormatInt(time.Now().UnixNano(), 10), strconv.FormatFloat(f.Time, 'f', 4, 64),
+		strconv.FormatFloat(f.Hz, 'f', 2, 64), strconv.FormatFloat(f.Level, 'f', 1, 64),
+		strconv.FormatBool(f.Voiced), strconv.FormatBool(f.Holding), ""})
+	t.w.Flush()
+}
+
+func (t *timingLog) close() {
+	if t.f != nil {
+		t.w.Flush()
+		t.f.Close()
+	}
+}

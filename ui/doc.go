@@ -1,0 +1,14 @@
+// Package ui is fifthline's live meter: a terminal screen built around the
+// line of fifths. The key's twelve spellings lie along one row in fifths
+// order, the held note is lit at its place, and its other spelling (twelve
+// fifths away, off the window's end) is written beside the row with its own
+// cents. Above it the spelled note and its cents stand in large block
+// glyphs, readable from a music stand; below it runs a ±50 ¢ trace of the
+// last seconds and a status line.
+//
+// The screen is a thin edge: Model holds what the meter knows, the region
+// functions (Headline, Words, FifthsRows, Trace, …) turn it into plain text
+// lines with roles, and only Meter touches tview and tcell. Tuning logic
+// stays in package target; sound and pitch stay in session. It plays
+// nothing and writes no files.
+package ui

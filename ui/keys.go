@@ -1,0 +1,147 @@
+package ui
+
+import (
+	"fmt"
+	"math"
+	"strings"
+
+	"fifthline/target"
+)
+
+// Action changes the tuning for a key press and says what it did; start is
+// the tuning the meter began with.
+type Action func(cur, start target.Tuning) (target.Tuning, string)
+
+// Binding is one key of the meter: the keys that trigger it (tcell key
+// names such as "Right", or single characters), how the help shows them,
+// and what it does.
+type Binding struct {
+	Keys  []string
+	Label string
+	What  string
+	Act   Action
+}
+
+// Bindings are the meter's tuning keys, in the order the help lists them.
+// Help and quit are the meter's own (?, h, Esc, q).
+var Bindings = []Binding{
+	{[]string{"Right", "l"}, "→", "tonic one fifth up the line (C → G)", func(t, _ target.Tuning) (target.Tuning, string) { return MoveTonic(t, 1) }},
+	{[]string{"Left", "j"}, "←", "tonic one fifth down the line (C → F)", func(t, _ target.Tuning) (target.Tuning, string) { return MoveTonic(t, -1) }},
+	{[]string{"m"}, "m M", "next / previous mode", func(t, _ target.Tuning) (target.Tuning, string) { return CycleMode(t, 1) }},
+	{[]string{"M"}, "", "", func(t, _ target.Tuning) (target.Tuning, string) { return CycleMode(t, -1) }},
+	{[]string{"t"}, "t T", "next / previous temperament", func(t, _ target.Tuning) (target.Tuning, string) { return CycleTemperament(t, 1) }},
+	{[]string{"T"}, "", "", func(t, _ target.Tuning) (target.Tuning, string) { return CycleTemperament(t, -1) }},
+	{[]string{"Up", "+"}, "↑ ↓", "A4 up / down 1 Hz", func(t, _ target.Tuning) (target.Tuning, string) { return NudgeA4(t, 1) }},
+	{[]string{"Down", "-"}, "", "", func(t, _ target.Tuning) (target.Tuning, string) { return NudgeA4(t, -1) }},
+	{[]string{"]"}, "] [", "A4 up / down 0.1 Hz", func(t, _ target.Tuning) (target.Tuning, string) { return NudgeA4(t, 0.1) }},
+	{[]string{"["}, "", "", func(t, _ target.Tuning) (target.Tuning, string) { return NudgeA4(t, -0.1) }},
+	{[]string{"r"}, "r", "back to the tuning the meter started with", func(_, s target.Tuning) (target.Tuning, string) { return s, "back to " + tuningWords(s) }},
+}
+
+// maxSignature is where key signatures stop (seven sharps or flats).
+const maxSignature = 7
+
+// MoveTonic moves the key's tonic steps places along the line of fifths,
+// keeping the mode. It refuses to go past seven sharps or flats and says so.
+func MoveTonic(tu target.Tuning, steps int) (target.Tuning, string) {
+	k := tu.Key
+	k.Tonic = k.Tonic.Transpose(target.Interval{Fifths: steps})
+	k.Tonic.Octave = 4
+	if sig := k.Signature(); sig > maxSignature || sig < -maxSignature {
+		return tu, fmt.Sprintf("%s would need %s; the keys stop at seven", k.Pretty(), signatureWords(sig))
+	}
+	tu.Key = k
+	return tu, "key " + k.Pretty() + " (" + signatureWords(k.Signature()) + ")"
+}
+
+func signatureWords(sig int) string {
+	switch {
+	case sig == 0:
+		return "no sharps or flats"
+	case sig == 1:
+		return "1 sharp"
+	case sig == -1:
+		return "1 flat"
+	case sig > 0:
+		return fmt.Sprintf("%d sharps", sig)
+	}
+	return fmt.Sprintf("%d flats", -sig)
+}
+
+// CycleMode steps through target.Modes on the same tonic. A mode whose
+// signature would pass seven sharps or flats is skipped.
+func CycleMode(tu target.Tuning, step int) (target.Tuning, string) {
+	i := 0
+	for j, m := range target.Modes {
+		if m == tu.Key.Mode {
+			i = j
+		}
+	}
+	n := len(target.Modes)
+	for range n {
+		i = ((i+step)%n + n) % n
+		k := target.Key{Tonic: tu.Key.Tonic, Mode: target.Modes[i]}
+		if s := k.Signature(); s <= maxSignature && s >= -maxSignature {
+			tu.Key = k
+			return tu, "key " + k.Pretty()
+		}
+	}
+	return tu, "no other mode on " + tu.Key.Tonic.PrettyName()
+}
+
+// CycleTemperament steps through target.Builtin. From a temperament not in
+// the list (a custom file, fifth:CENTS) it starts at the list's first.
+func CycleTemperament(tu target.Tuning, step int) (target.Tuning, string) {
+	i := -1
+	for j, s := range target.Builtin {
+		if tu.Temperament != nil && strings.EqualFold(s, tu.Temperament.Spec()) {
+			i = j
+		}
+	}
+	n := len(target.Builtin)
+	if i < 0 {
+		i = map[bool]int{true: -1, false: 0}[step > 0]
+	}
+	i = ((i+step)%n + n) % n
+	tm, err := target.ParseTemperament(target.Builtin[i])
+	if err != nil { // a built-in spec always parses; keep the old one if not
+		return tu, "temperament " + target.Builtin[i] + ": " + err.Error()
+	}
+	tu.Temperament = tm
+	return tu, "temperament " + tm.Name()
+}
+
+// NudgeA4 moves the reference by delta hertz, kept to a tenth of a hertz and
+// within target.MinA4 … target.MaxA4.
+func NudgeA4(tu target.Tuning, delta float64) (target.Tuning, string) {
+	a := math.Round((tu.A4+delta)*10) / 10
+	a = math.Max(target.MinA4, math.Min(target.MaxA4, a))
+	tu.A4 = a
+	return tu, fmt.Sprintf("A4 = %.1f Hz", a)
+}
+
+// tuningWords is the tuning in the status line's words.
+func tuningWords(tu target.Tuning) string {
+	s := fmt.Sprintf("%s · %s · A4 = %.1f Hz", tu.Key.Pretty(), tu.Temperament.Name(), tu.A4)
+	if tu.Anchor == target.AnchorTonic {
+		s += " (tonic anchored)"
+	}
+	if tu.Chord != nil {
+		s += " · chord " + tu.Chord.String()
+	}
+	if tu.Transpose.IsConcert() {
+		return s + " · concert pitch"
+	}
+	return s + " · written for " + prettyAccidentals(tu.Transpose.Name) + " instrument"
+}
+
+// prettyAccidentals writes a user's note text ("Bb", "F#") with signs.
+func prettyAccidentals(s string) string {
+	if n, err := target.ParseName(s); err == nil {
+		return n.PrettyName()
+	}
+	if n, err := target.ParseNote(s); err == nil {
+		return n.Pretty()
+	}
+	return s
+}

@@ -1,0 +1,112 @@
+package ui
+
+import (
+	"sort"
+	"strings"
+)
+
+// Trace heights: the least worth drawing and the most worth giving.
+const (
+	minTraceRows = 3
+	maxTraceRows = 9
+)
+
+// maxBody is the widest the meter's body grows; wider screens centre it.
+const maxBody = 96
+
+type section struct {
+	lines []Line
+	keep  int  // higher is dropped later when the screen is short
+	grow  bool // the trace: takes the rows left over
+}
+
+// Layout is the whole screen for w × h cells: exactly h lines, each at most w
+// wide once clipped. On short screens the least needed parts go first
+// (spacing, the "from ET" row, the keys hint, the large glyphs), so the
+// spelled note, its cents and the status stay.
+func Layout(m *Model, w, h int) []Line {
+	if w <= 0 || h <= 0 {
+		return nil
+	}
+	bw := min(w, maxBody)
+	if m.Help {
+		return frame(HelpLines(), w, bw, h)
+	}
+	fifths := FifthsRows(m, bw)
+	gap := section{[]Line{nil}, 1, false}
+	parts := []section{
+		{[]Line{TuningLine(m)}, 10, false},
+		gap,
+		{BigLines(m, bw), 5, false},
+		{[]Line{Words(m)}, 9, false},
+		gap,
+		{fifths[:2], 8, false},
+		{fifths[2:], 3, false},
+		gap,
+		{Trace(m, bw, minTraceRows), 6, true},
+		{[]Line{HeldLine(m)}, 7, false},
+		gap,
+		{[]Line{InputLine(m)}, 9, false},
+		{[]Line{HintLine(m)}, 4, false},
+	}
+	parts = fit(parts, h)
+	total := 0
+	for _, p := range parts {
+		total += len(p.lines)
+	}
+	var out []Line
+	for _, p := range parts {
+		if p.grow && total < h {
+			p.lines = Trace(m, bw, min(minTraceRows+h-total, maxTraceRows))
+		}
+		out = append(out, p.lines...)
+	}
+	return frame(out, w, bw, h)
+}
+
+// fit drops the lowest-kept sections, last first among equals, until the
+// rest fit in h lines.
+func fit(parts []section, h int) []section {
+	total := 0
+	for _, p := range parts {
+		total += len(p.lines)
+	}
+	order := make([]int, len(parts))
+	for i := range order {
+		order[i] = i
+	}
+	sort.SliceStable(order, func(a, b int) bool { return parts[order[a]].keep < parts[order[b]].keep })
+	drop := map[int]bool{}
+	for _, i := range order {
+		if total <= h {
+			break
+		}
+		drop[i] = true
+		total -= len(parts[i].lines)
+	}
+	var kept []section
+	for i, p := range parts {
+		if !drop[i] {
+			kept = append(kept, p)
+		}
+	}
+	return kept
+}
+
+// frame centres the body bw wide in w columns and pads it to h lines.
+func frame(body []Line, w, bw, h int) []Line {
+	left := (w - bw) / 2
+	out := make([]Line, h)
+	for i := range out {
+		if i < len(body) && body[i] != nil {
+			if left > 0 {
+				out[i] = append(Line{text(strings.Repeat(" ", left), Plain)}, body[i]...)
+			} else {
+				out[i] = body[i]
+			}
+		} else {
+			out[i] = Line{}
+		}
+	}
+	return out
+}

@@ -1,0 +1,207 @@
+package ui
+
+import (
+	"context"
+	"sync"
+	"sync/atomic"
+	"time"
+
+	"github.com/gdamore/tcell/v2"
+	"github.com/mattn/go-runewidth"
+	"github.com/rivo/tview"
+
+	"fifthline/capture"
+	"fifthline/session"
+	"fifthline/target"
+)
+
+// FrameRate caps how often the meter redraws.
+const FrameRate = 30
+
+// frameBuffer is how many analysis frames may wait for the screen (about
+// three seconds at the detector's default hop); beyond it frames are
+// dropped and counted, so the listening loop never waits for the screen.
+const frameBuffer = 256
+
+// Options configure a Meter.
+type Options struct {
+	Tunings *session.Tunings // the keys change it; the session reads it
+	Source  string           // what is heard, for the screen: a device name
+	// Stats reports the input's health; nil for sources without a device.
+	Stats func() capture.InputStats
+	// Journal reports the journal's state ("journal: FILE, N notes"); nil
+	// shows "journal: off".
+	Journal func() string
+	// Screen is where to draw; nil means the terminal.
+	Screen tcell.Screen
+}
+
+// Meter is the live screen. Feed it from session.Run with OnFrame and
+// OnNote (both return at once, from any goroutine) and run it with Run.
+type Meter struct {
+	opt     Options
+	start   target.Tuning
+	frames  chan session.Frame
+	notes   chan session.Event
+	dropped atomic.Uint64
+	ended   atomic.Bool
+	quit    chan struct{}
+	once    sync.Once
+	model   *Model // touched only on tview's goroutine once Run starts
+}
+
+// New makes a meter for the tuning opt.Tunings holds.
+func New(opt Options) *Meter {
+	tu := opt.Tunings.Get()
+	return &Meter{
+		opt: opt, start: tu,
+		frames: make(chan session.Frame, frameBuffer),
+		notes:  make(chan session.Event, frameBuffer),
+		quit:   make(chan struct{}),
+		model:  NewModel(tu, opt.Source),
+	}
+}
+
+// OnFrame hands the meter one analysis frame without waiting: if the screen
+// has fallen behind, the frame is dropped and counted.
+func (m *Meter) OnFrame(f session.Frame) {
+	select {
+	case m.frames <- f:
+	default:
+		m.dropped.Add(1)
+	}
+}
+
+// OnNote hands the meter a finished note without waiting. It never fails.
+func (m *Meter) OnNote(ev session.Event) error {
+	select {
+	case m.notes <- ev:
+	default:
+		m.dropped.Add(1)
+	}
+	return nil
+}
+
+// Ended tells the meter its source has finished; it stays up until quit.
+func (m *Meter) Ended() { m.ended.Store(true) }
+
+// Stop closes the meter from any goroutine; Run returns.
+func (m *Meter) Stop() { m.once.Do(func() { close(m.quit) }) }
+
+// Run shows the meter until q (or Ctrl-C) is pressed, Stop is called or ctx
+// ends.
+func (m *Meter) Run(ctx context.Context) error {
+	app := tview.NewApplication()
+	if m.opt.Screen != nil {
+		app.SetScreen(m.opt.Screen)
+	}
+	view := tview.NewBox()
+	view.SetDrawFunc(func(s tcell.Screen, x, y, w, h int) (int, int, int, int) {
+		draw(s, Layout(m.model, w, h), x, y, w)
+		return x, y, w, h
+	})
+	app.SetRoot(view, true)
+	app.SetInputCapture(func(ev *tcell.EventKey) *tcell.EventKey { return m.key(app, ev) })
+
+	done := make(chan struct{})
+	defer close(done)
+	go func() {
+		tick := time.NewTicker(time.Second / FrameRate)
+		defer tick.Stop()
+		for {
+			select {
+			case <-done:
+				return
+			case <-ctx.Done():
+				app.Stop()
+				return
+			case <-m.quit:
+				app.Stop()
+				return
+			case <-tick.C:
+				app.QueueUpdateDraw(m.drain)
+			}
+		}
+	}()
+	return app.Run()
+}
+
+// drain moves waiting frames and notes into the model; it runs on tview's
+// goroutine.
+func (m *Meter) drain() {
+	for more := true; more; {
+		select {
+		case f := <-m.frames:
+			m.model.AddFrame(f)
+		case ev := <-m.notes:
+			m.model.AddNote(ev)
+		default:
+			more = false
+		}
+	}
+	if m.opt.Stats != nil {
+		m.model.SetInput(m.opt.Stats())
+	}
+	if m.opt.Journal != nil {
+		m.model.Journal = m.opt.Journal()
+	}
+	m.model.Dropped = m.dropped.Load()
+	m.model.Finished = m.ended.Load()
+}
+
+// key handles one key press on tview's goroutine.
+func (m *Meter) key(app *tview.Application, ev *tcell.EventKey) *tcell.EventKey {
+	name := tcell.KeyNames[ev.Key()]
+	if ev.Key() == tcell.KeyRune {
+		name = string(ev.Rune())
+	}
+	switch name {
+	case "q", "Q":
+		app.Stop()
+		return nil
+	case "?", "h":
+		m.model.Help = !m.model.Help
+		return nil
+	case "Esc":
+		m.model.Help = false
+		return nil
+	}
+	for _, b := range Bindings {
+		for _, k := range b.Keys {
+			if k == name {
+				tu, msg := b.Act(m.model.Tuning, m.start)
+				m.opt.Tunings.Set(tu)
+				m.model.Tuning, m.model.Message = tu, msg
+				return nil
+			}
+		}
+	}
+	return ev // Ctrl-C and the rest: tview's defaults
+}
+
+// styles give each role its emphasis; the text already says everything.
+var styles = map[Role]tcell.Style{
+	Plain: tcell.StyleDefault,
+	Dim:   tcell.StyleDefault.Dim(true),
+	Lit:   tcell.StyleDefault.Bold(true),
+	Other: tcell.StyleDefault.Underline(true),
+	Warn:  tcell.StyleDefault.Bold(true).Reverse(true),
+}
+
+// draw puts the lines on the screen from (x, y), clipped to w columns.
+func draw(s tcell.Screen, lines []Line, x, y, w int) {
+	for row, l := range lines {
+		col := 0
+		for _, sp := range l {
+			st := styles[sp.Role]
+			for _, r := range sp.Text {
+				rw := runewidth.RuneWidth(r)
+				if col+rw > w {
+					break
+				}
+				s.SetContent(x+col, y+row, r, nil, st)
+				col += rw
+			}
+		}
+	}
+}

@@ -1,0 +1,128 @@
+package ui
+
+import (
+	"math"
+
+	"fifthline/capture"
+	"fifthline/pitchdetect"
+	"fifthline/session"
+	"fifthline/target"
+)
+
+// TraceSeconds is how much of the player's recent pitch the trace shows.
+const TraceSeconds = 4.0
+
+// clipHold is how long a clipping warning stays up after the last clipped
+// sample, so that a single loud attack is still seen.
+const clipHold = 2.0
+
+// Model is what the meter knows at one moment. It holds raw pitches, not
+// readings: every reading is made at render time in the current Tuning, so
+// the screen never mixes two tunings after a key press.
+type Model struct {
+	Tuning target.Tuning
+	Source string // what is being heard: a device name, "demo performance"
+
+	Now     float64 // stream time of the latest frame, seconds
+	Voiced  bool    // the latest frame has a pitch
+	FrameHz float64
+	Level   float64 // latest frame's RMS level, dBFS
+
+	Holding  bool
+	Held     Held // the note being held, or the last one held
+	HasHeld  bool
+	Notes    int // held notes finished so far
+	Finished bool
+
+	Input   InputState
+	Journal string // "journal: off", "journal: FILE, N notes"
+	Message string // the last key's effect, or a problem
+	Help    bool
+	Dropped uint64 // frames the screen could not keep up with
+
+	trace    []tracePoint
+	clipped  uint64  // clipped samples counted at the last poll
+	lastClip float64 // stream time more were first seen
+}
+
+// Held is a held note as the meter shows it: its centre pitch and shape.
+type Held struct {
+	Hz                        float64
+	Start, End                float64 // stream seconds
+	Spread                    float64 // cents
+	VibratoWidth, VibratoRate float64 // cents peak to peak, Hz
+}
+
+// InputState is the input's health as the status line reports it.
+type InputState struct {
+	Known              bool // false for sources without device statistics
+	PeakDBFS           float64
+	Clipping           bool
+	Overflows, Dropped uint64
+}
+
+type tracePoint struct {
+	t, hz float64
+	ref   float64 // the held note's centre when the frame came, or 0
+}
+
+// NewModel starts a model for the tuning, with nothing heard yet.
+func NewModel(tu target.Tuning, source string) *Model {
+	return &Model{Tuning: tu, Source: source, Level: math.Inf(-1), Journal: "journal: off"}
+}
+
+// AddFrame takes one analysis frame from the session.
+func (m *Model) AddFrame(f session.Frame) {
+	m.Now, m.Voiced, m.Level = f.Time, f.Voiced, f.Level
+	m.FrameHz = 0
+	if f.Voiced {
+		m.FrameHz = f.Hz
+	}
+	m.Holding = f.Holding
+	p := tracePoint{t: f.Time, hz: m.FrameHz}
+	if f.Holding && f.Held.Hz > 0 {
+		m.Held, m.HasHeld = heldOf(f.Held), true
+		p.ref = f.Held.Hz
+	}
+	m.trace = append(m.trace, p)
+	// Forget what has scrolled off; reuse the slice's memory.
+	cut := 0
+	for cut < len(m.trace) && m.trace[cut].t < m.Now-TraceSeconds {
+		cut++
+	}
+	if cut > 0 {
+		m.trace = append(m.trace[:0], m.trace[cut:]...)
+	}
+}
+
+// AddNote takes a finished held note: its summary replaces the running one.
+func (m *Model) AddNote(ev session.Event) {
+	m.Held, m.HasHeld = heldOf(ev.Held), true
+	m.Notes++
+}
+
+func heldOf(h pitchdetect.Held) Held {
+	return Held{Hz: h.Hz, Start: h.Start, End: h.End, Spread: h.Spread, VibratoWidth: h.VibratoWidth, VibratoRate: h.VibratoRate}
+}
+
+// SetInput updates the input health from the capture's running statistics.
+// Clipping shows while clipped samples keep arriving and for clipHold
+// seconds after the last.
+func (m *Model) SetInput(s capture.InputStats) {
+	m.Input.Known = true
+	m.Input.PeakDBFS = s.PeakDBFS()
+	m.Input.Overflows, m.Input.Dropped = s.Overflows, s.DroppedBlocks
+	if s.Clipped > m.clipped {
+		m.clipped, m.lastClip = s.Clipped, m.Now
+	}
+	m.Input.Clipping = m.clipped > 0 && m.Now-m.lastClip < clipHold
+}
+
+// Reading is the held (or last held) note read in the current tuning; ok is
+// false before any note.
+func (m *Model) Reading() (target.Reading, bool) {
+	if !m.HasHeld {
+		return target.Reading{}, false
+	}
+	return m.Tuning.Classify(m.Held.Hz), true
+}

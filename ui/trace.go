@@ -1,0 +1,109 @@
+package ui
+
+import (
+	"math"
+	"strings"
+)
+
+// TraceRange is the trace's reach either side of the target, in cents.
+const TraceRange = 50.0
+
+// traceAxis is the width of the cents labels left of the trace, and
+// traceWords that of the "sharp"/"flat" words right of it.
+const (
+	traceAxis  = 6
+	traceWords = 6
+)
+
+// Braille cells give each screen cell two time columns and four pitch rows
+// of dots. dotBits[row][col] is the bit of that dot (Unicode braille
+// patterns, U+2800 block: dots 1-2-3-7 down the left, 4-5-6-8 the right).
+var dotBits = [4][2]rune{{0x01, 0x08}, {0x02, 0x10}, {0x04, 0x20}, {0x40, 0x80}}
+
+// Trace draws the last TraceSeconds of pitch as dots, rows lines high and w
+// columns wide: time runs left to right to now, sharp is up, flat down,
+// ±TraceRange cents from the held note's target (or, between notes, from the
+// nearest window note's). Points beyond the range sit on its edge.
+func Trace(m *Model, w, rows int) []Line {
+	plot := w - traceAxis - traceWords
+	if rows < 1 || plot < 4 {
+		return nil
+	}
+	bins := 2 * plot
+	dots := 4 * rows
+	level := m.traceLevels(bins, dots)
+	grid := make([][]rune, rows)
+	for y := range grid {
+		grid[y] = make([]rune, plot)
+	}
+	for b, d := range level {
+		if d >= 0 {
+			grid[d/4][b/2] |= dotBits[d%4][b%2]
+		}
+	}
+	zero := dots / 2 / 4 // the row holding the 0 ¢ line
+	out := make([]Line, rows)
+	for y := range rows {
+		var b strings.Builder
+		for _, c := range grid[y] {
+			switch {
+			case c != 0:
+				b.WriteRune(0x2800 + c)
+			case y == zero:
+				b.WriteRune('·')
+			default:
+				b.WriteByte(' ')
+			}
+		}
+		axis, words := "     │", ""
+		switch y {
+		case 0:
+			axis, words = " +50 ┤", " sharp"
+		case zero:
+			axis = "   0 ┼"
+		case rows - 1:
+			axis, words = " −50 ┤", " flat"
+		}
+		out[y] = Line{text(axis, Dim), text(b.String(), Lit), text(words, Dim)}
+	}
+	return out
+}
+
+// traceLevels averages the trace into bins time columns and returns each
+// bin's dot row (0 at +TraceRange), or -1 where nothing was voiced.
+func (m *Model) traceLevels(bins, dots int) []int {
+	level := make([]int, bins)
+	sum := make([]float64, bins)
+	n := make([]int, bins)
+	ref := make([]float64, bins)
+	t0 := m.Now - TraceSeconds
+	for _, p := range m.trace {
+		if p.hz <= 0 {
+			continue
+		}
+		b := int((p.t - t0) / TraceSeconds * float64(bins))
+		if b < 0 || b >= bins {
+			b = min(max(b, 0), bins-1)
+		}
+		sum[b] += math.Log2(p.hz)
+		n[b]++
+		if p.ref > 0 {
+			ref[b] = p.ref
+		}
+	}
+	for b := range level {
+		level[b] = -1
+		if n[b] == 0 {
+			continue
+		}
+		hz := math.Exp2(sum[b] / float64(n[b]))
+		toward := hz
+		if ref[b] > 0 {
+			toward = ref[b] // keep a note's trace continuous past ±50 ¢
+		}
+		c := 1200 * math.Log2(hz/m.Tuning.Classify(toward).TargetHz)
+		d := int(math.Floor((TraceRange - c) / (2 * TraceRange) * float64(dots)))
+		level[b] = min(max(d, 0), dots-1)
+	}
+	return level
+}

@@ -1,0 +1,305 @@
+package ui
+
+import (
+	"fmt"
+	"math"
+	"strings"
+
+	"github.com/mattn/go-runewidth"
+)
+
+// Role says what a piece of text is, so the screen can style it. The text
+// alone always carries the meaning; styles only add emphasis.
+type Role uint8
+
+// Roles, from plain to urgent.
+const (
+	Plain Role = iota
+	Dim        // scales, labels, the last note after it ended
+	Lit        // the held note and its cents
+	Other      // the other spelling
+	Warn       // clipping, lost audio
+)
+
+// Span is a run of text in one role.
+type Span struct {
+	Text string
+	Role Role
+}
+
+// Line is one screen row.
+type Line []Span
+
+// Text is the line without roles.
+func (l Line) Text() string {
+	var b strings.Builder
+	for _, s := range l {
+		b.WriteString(s.Text)
+	}
+	return b.String()
+}
+
+// Width is the line's width in screen columns.
+func (l Line) Width() int { return runewidth.StringWidth(l.Text()) }
+
+func plain(s string) Line        { return Line{{s, Plain}} }
+func dimLine(s string) Line      { return Line{{s, Dim}} }
+func text(s string, r Role) Span { return Span{s, r} }
+
+// centre pads s with spaces to width w, centred (truncated if wider).
+func centre(s string, w int) string {
+	sw := runewidth.StringWidth(s)
+	if sw >= w {
+		return runewidth.Truncate(s, w, "")
+	}
+	left := (w - sw) / 2
+	return strings.Repeat(" ", left) + s + strings.Repeat(" ", w-sw-left)
+}
+
+// padRight pads or truncates s to width w.
+func padRight(s string, w int) string {
+	if sw := runewidth.StringWidth(s); sw < w {
+		return s + strings.Repeat(" ", w-sw)
+	}
+	return runewidth.Truncate(s, w, "")
+}
+
+// Cents formats a signed cents value with one decimal and a true minus
+// sign, never "−0.0".
+func Cents(c float64) string {
+	s := fmt.Sprintf("%+.1f", c)
+	if s == "+0.0" || s == "-0.0" {
+		return "0.0"
+	}
+	return minus(s)
+}
+
+// minus writes a true minus sign for a leading hyphen; "-0" and "+0" read as "0".
+func minus(s string) string {
+	if s == "-0" || s == "+0" {
+		return "0"
+	}
+	return strings.Replace(s, "-", "−", 1)
+}
+
+// TuningLine is the status line's first part: key, temperament, A4 and
+// transposition.
+func TuningLine(m *Model) Line { return plain(tuningWords(m.Tuning)) }
+
+// BigLines are the held note and its cents in large glyphs, centred in w
+// columns: "F♯4 +41.1¢". When the whole does not fit, the cents go and
+// Words carries them. Before the first note they are blank.
+func BigLines(m *Model, w int) []Line {
+	out := make([]Line, GlyphRows)
+	r, ok := m.Reading()
+	if !ok {
+		for i := range out {
+			out[i] = plain("")
+		}
+		return out
+	}
+	s := r.Written.Pretty() + " " + Cents(r.Cents) + "¢"
+	if BigWidth(s) > w {
+		s = r.Written.Pretty()
+	}
+	role := Lit
+	if !m.Holding {
+		role = Dim
+	}
+	rows := Big(s)
+	if BigWidth(s) > w {
+		rows = [GlyphRows]string{}
+	}
+	for i, row := range rows {
+		out[i] = Line{text(centre(row, w), role)}
+	}
+	return out
+}
+
+// Words is the reading in words: which spelled note, how far and which way,
+// and where the other spelling stands.
+func Words(m *Model) Line {
+	r, ok := m.Reading()
+	if !ok {
+		return dimLine("listening to " + m.Source + " — hold a note")
+	}
+	var l Line
+	if !m.Holding {
+		l = append(l, text("last note: ", Dim))
+	}
+	role := Lit
+	if !m.Holding {
+		role = Dim
+	}
+	note := r.Written.Pretty()
+	switch c := math.Round(r.Cents*10) / 10; {
+	case c > 0:
+		l = append(l, text(fmt.Sprintf("%s is %.1f ¢ sharp ▲", note, c), role))
+	case c < 0:
+		l = append(l, text(fmt.Sprintf("%s is %.1f ¢ flat ▼", note, -c), role))
+	default:
+		l = append(l, text(note+" is on its target", role))
+	}
+	alt := r.AltWritten.Pretty()
+	switch {
+	case r.SamePitch:
+		l = append(l, text(" · "+alt+" is the same pitch here", Dim))
+	case r.NearerAlt():
+		l = append(l, text(" · sits on "+alt+" ("+Cents(r.AltCents)+" ¢)", Other))
+	default:
+		l = append(l, text(" · "+alt+" would read "+Cents(r.AltCents)+" ¢", Dim))
+	}
+	return l
+}
+
+// fifthsLayout sizes the line-of-fifths rows for w columns: a side zone on
+// each end for the other spelling, and twelve cells between.
+func fifthsLayout(w int) (side, cell int) {
+	side = 9
+	cell = (w - 2*side) / 12
+	if cell < 3 {
+		side, cell = max(0, (w-36)/2), 3
+	}
+	return side, min(cell, 7)
+}
+
+// FifthsRows draws the key's window along the line of fifths: three rows of
+// names, marks, and each note's offset from equal temperament. The held
+// note is bracketed with its cents beneath; the other spelling stands in the
+// side zone on the end of the line where it lies, with its own cents.
+func FifthsRows(m *Model, w int) [3]Line {
+	side, cell := fifthsLayout(w)
+	tu := m.Tuning
+	win := tu.Window()
+	r, ok := m.Reading()
+	lit := -1
+	if ok {
+		for i, n := range win {
+			if n.Letter == r.Note.Letter && n.Accidental == r.Note.Accidental {
+				lit = i
+			}
+		}
+	}
+	var names, marks, equal Line
+	leftName, leftMark, rightName, rightMark := "", "", "", ""
+	altRole := Dim
+	if ok {
+		alt, altCents := r.AltWritten.Pretty(), Cents(r.AltCents)+"¢"
+		if r.SamePitch {
+			altCents = "same"
+		}
+		if r.NearerAlt() {
+			alt, altRole = "["+alt+"]", Other
+		}
+		if r.Alt.Fifths() < win[0].Fifths() {
+			leftName, leftMark = "◂ "+alt, altCents
+		} else {
+			rightName, rightMark = alt+" ▸", altCents
+		}
+	}
+	names = append(names, text(padRight(leftName, side), altRole))
+	marks = append(marks, text(padRight(leftMark, side), altRole))
+	equal = append(equal, text(padRight("from ET", side), Dim))
+	for i, n := range win {
+		name := tu.Transpose.Written(n).PrettyName()
+		role, mark := Plain, ""
+		if i == lit {
+			name, mark = "["+name+"]", Cents(r.Cents)
+			role = Lit
+			if !m.Holding {
+				role = Dim
+			}
+		}
+		names = append(names, text(centre(name, cell), role))
+		marks = append(marks, text(centre(mark, cell), role))
+		equal = append(equal, text(centre(minus(fmt.Sprintf("%+.0f", tu.CentsFromEqual(n))), cell), Dim))
+	}
+	names = append(names, text(padRight(rightName, side), altRole))
+	marks = append(marks, text(padRight(rightMark, side), altRole))
+	return [3]Line{names, marks, equal}
+}
+
+// HeldLine describes the held note's shape once a note is held: how long,
+// how steady, and its vibrato.
+func HeldLine(m *Model) Line {
+	if !m.HasHeld {
+		return dimLine("")
+	}
+	h := m.Held
+	s := fmt.Sprintf("%.1f s at %.2f Hz · spread %.1f ¢", h.End-h.Start, h.Hz, h.Spread)
+	if h.VibratoWidth > 0 {
+		s += fmt.Sprintf(" · vibrato %.0f ¢ wide at %.1f Hz", h.VibratoWidth, h.VibratoRate)
+	} else {
+		s += " · no vibrato"
+	}
+	if !m.Holding {
+		return dimLine("last note held " + s)
+	}
+	return plain("held " + s)
+}
+
+// levelBar draws a level from -60 to 0 dBFS in ten cells.
+func levelBar(db float64) string {
+	n := 0
+	if db > -60 {
+		n = int(math.Ceil((db + 60) / 6))
+	}
+	n = max(0, min(10, n))
+	return strings.Repeat("▮", n) + strings.Repeat("▯", 10-n)
+}
+
+// InputLine is the status line's second part: input level with a clipping
+// warning, the capture's lost-audio counts, and the journal.
+func InputLine(m *Model) Line {
+	lvl := "input silent " + levelBar(math.Inf(-1))
+	if !math.IsInf(m.Level, -1) && !math.IsNaN(m.Level) {
+		lvl = fmt.Sprintf("input %s dBFS %s", minus(fmt.Sprintf("%.0f", m.Level)), levelBar(m.Level))
+	}
+	l := Line{text(lvl, Plain)}
+	if m.Input.Clipping {
+		l = append(l, text(" CLIPPING — turn the input down", Warn))
+	}
+	if m.Input.Known {
+		role := Dim
+		if m.Input.Overflows+m.Input.Dropped > 0 {
+			role = Warn
+		}
+		l = append(l, text(fmt.Sprintf(" · lost: %d overflows, %d dropped", m.Input.Overflows, m.Input.Dropped), role))
+	}
+	if m.Dropped > 0 {
+		l = append(l, text(fmt.Sprintf(" · screen skipped %d frames", m.Dropped), Dim))
+	}
+	return append(l, text(" · "+m.Journal, Plain))
+}
+
+// HintLine is the last key's effect, or the keys.
+func HintLine(m *Model) Line {
+	if m.Message != "" {
+		return plain(m.Message)
+	}
+	if m.Finished {
+		return plain("the performance has ended · q quits")
+	}
+	return dimLine("← → tonic · m mode · t temperament · ↑ ↓ A4 · ? help · q quit")
+}
+
+// HelpLines is the help overlay.
+func HelpLines() []Line {
+	out := []Line{plain("fifthline meter — keys"), plain("")}
+	for _, b := range Bindings {
+		if b.Label != "" {
+			out = append(out, plain(fmt.Sprintf("  %-5s %s", b.Label, b.What)))
+		}
+	}
+	out = append(out,
+		plain("  ? h   this help (Esc closes it)"),
+		plain("  q     quit"),
+		plain(""),
+		dimLine("The middle row is the key's twelve spellings along the line of fifths."),
+		dimLine("[brackets] mark the held note, its cents beneath; the other spelling,"),
+		dimLine("twelve fifths away, stands past the end of the row with its own cents."),
+		dimLine("\"from ET\": each note's target against equal temperament, in cents."),
+		dimLine("The trace: the last 4 s, time left to right, sharp up, flat down."),
+	)
+	return out
+}
