@@ -28,10 +28,17 @@ type Sample struct {
 	Type               uint16
 }
 
-// Instrument is an instrument name with the samples its zones play.
+// Instrument is an instrument name with the zones that play samples.
 type Instrument struct {
-	Name    string
-	Samples []int // indices into Font.Samples
+	Name  string
+	Zones []Zone
+}
+
+// Zone is one instrument zone's sample and the generators that say what
+// pitch the sample has (spec section 8.1.2).
+type Zone struct {
+	Sample  int // index into Font.Samples
+	RootKey int // overridingRootKey (generator 58), or -1 when absent
 }
 
 // Font is an opened SoundFont; sample data is read on demand.
@@ -135,7 +142,10 @@ func (f *Font) parseHydra(p []byte) error {
 		f.Samples = f.Samples[:len(f.Samples)-1]
 	}
 	inst, ibag, igen := sub["inst"], sub["ibag"], sub["igen"]
-	const sampleID = 53 // generator "sampleID" (spec section 8.1.2)
+	const (
+		sampleID = 53 // generator numbers, spec section 8.1.2
+		rootKey  = 58
+	)
 	for i := 0; i+22+22 <= len(inst); i += 22 {
 		in := Instrument{Name: name(inst[i : i+20])}
 		b0 := int(binary.LittleEndian.Uint16(inst[i+20:]))
@@ -143,12 +153,22 @@ func (f *Font) parseHydra(p []byte) error {
 		for b := b0; b < b1 && 4*b+8 <= len(ibag); b++ {
 			g0 := int(binary.LittleEndian.Uint16(ibag[4*b:]))
 			g1 := int(binary.LittleEndian.Uint16(ibag[4*b+4:]))
+			z := Zone{Sample: -1, RootKey: -1}
 			for g := g0; g < g1 && 4*g+4 <= len(igen); g++ {
-				if binary.LittleEndian.Uint16(igen[4*g:]) == sampleID {
-					if id := int(binary.LittleEndian.Uint16(igen[4*g+2:])); id < len(f.Samples) {
-						in.Samples = append(in.Samples, id)
+				amount := binary.LittleEndian.Uint16(igen[4*g+2:])
+				switch binary.LittleEndian.Uint16(igen[4*g:]) {
+				case sampleID:
+					if int(amount) < len(f.Samples) {
+						z.Sample = int(amount)
+					}
+				case rootKey:
+					if amount < 128 {
+						z.RootKey = int(amount)
 					}
 				}
+			}
+			if z.Sample >= 0 { // zones without a sample are global zones
+				in.Zones = append(in.Zones, z)
 			}
 		}
 		f.Instruments = append(f.Instruments, in)
@@ -180,24 +200,32 @@ func (f *Font) Frames(from, to uint32) ([]float64, error) {
 	return x, nil
 }
 
-// NominalHz is the pitch the header says the sample has: its MIDI key and
-// cents correction in equal temperament from A4 = 440 Hz (key 69; MIDI 1.0
-// and ISO 16).
-func (s Sample) NominalHz() float64 {
-	return 440 * math.Pow(2, (float64(s.OriginalPitch)+float64(s.Correction)/100-69)/12)
+// NominalHz is the pitch a zone says its sample has: the zone's overriding
+// root key, else the sample's original key, less the sample's pitch
+// correction (which is "applied on playback" to put it in tune, spec section
+// 7.10), in equal temperament from A4 = 440 Hz at key 69 (MIDI 1.0, ISO 16).
+func (f *Font) NominalHz(z Zone) float64 {
+	s := f.Samples[z.Sample]
+	key := float64(s.OriginalPitch)
+	if z.RootKey >= 0 {
+		key = float64(z.RootKey)
+	}
+	return 440 * math.Pow(2, (key-float64(s.Correction)/100-69)/12)
 }
 
-// LoopTruth is the exact fundamental of the loop played over and over: a
-// loop of L frames at rate R holding k whole cycles repeats with period L/k,
-// so its fundamental is k·R/L, with k the whole number of cycles nearest the
-// header's nominal pitch. ok is false when the loop is missing or too short.
-func (s Sample) LoopTruth() (hz float64, cycles int, ok bool) {
-	if s.LoopEnd <= s.LoopStart+8 || s.Rate == 0 {
+// LoopTruth is the exact fundamental of a loop played over and over: a loop
+// of L frames at rate R holding k whole cycles repeats with period L/k, so
+// its fundamental is k·R/L, with k the whole number of cycles nearest the
+// nominal pitch. ok is false when the loop is missing, or when L·nominal/R
+// is not within a tenth of a cycle of a whole number (k would be a guess).
+func (s Sample) LoopTruth(nominal float64) (hz float64, cycles int, ok bool) {
+	if s.LoopEnd <= s.LoopStart+8 || s.Rate == 0 || !(nominal > 0) {
 		return 0, 0, false
 	}
 	l := float64(s.LoopEnd - s.LoopStart)
-	k := math.Round(l * s.NominalHz() / float64(s.Rate))
-	if k < 1 {
+	exact := l * nominal / float64(s.Rate)
+	k := math.Round(exact)
+	if k < 1 || math.Abs(exact-k) > 0.1 {
 		return 0, 0, false
 	}
 	return k * float64(s.Rate) / l, int(k), true

@@ -33,23 +33,26 @@ func TestFluidR3HeadersAreSane(t *testing.T) {
 	if len(f.Samples) < 100 || len(f.Instruments) < 100 {
 		t.Fatalf("%d samples, %d instruments: too few for a General MIDI font", len(f.Samples), len(f.Instruments))
 	}
-	loops := 0
 	for _, s := range f.Samples {
 		if s.Start > s.End || (s.LoopEnd > 0 && (s.LoopStart < s.Start || s.LoopEnd > s.End)) {
 			t.Errorf("sample %q: loop %d..%d outside %d..%d", s.Name, s.LoopStart, s.LoopEnd, s.Start, s.End)
 		}
-		if _, _, ok := s.LoopTruth(); ok {
-			loops++
-		}
 	}
-	if loops < len(f.Samples)/2 {
-		t.Errorf("only %d of %d samples have usable loops", loops, len(f.Samples))
-	}
+	zones, loops := 0, 0
 	found := false
 	for _, in := range f.Instruments {
-		if strings.Contains(strings.ToLower(in.Name), "clarinet") && len(in.Samples) > 0 {
+		for _, z := range in.Zones {
+			zones++
+			if _, _, ok := f.Samples[z.Sample].LoopTruth(f.NominalHz(z)); ok {
+				loops++
+			}
+		}
+		if strings.Contains(strings.ToLower(in.Name), "clarinet") && len(in.Zones) > 0 {
 			found = true
 		}
+	}
+	if loops < zones/3 {
+		t.Errorf("only %d of %d zones have loops of whole cycles", loops, zones)
 	}
 	if !found {
 		t.Error("no clarinet instrument with samples")
@@ -64,9 +67,16 @@ func TestLoopTruthIsWholeCyclesPerLoop(t *testing.T) {
 	// A 441-frame loop at 44100 Hz whose header says A4 (440 Hz nominal):
 	// k = round(441·440/44100) = 4.4 → 4, truth 4·44100/441 = 400 Hz.
 	s := Sample{LoopStart: 1000, LoopEnd: 1441, Rate: 44100, OriginalPitch: 69}
-	hz, k, ok := s.LoopTruth()
-	if !ok || k != 4 || hz != 400 {
-		t.Errorf("LoopTruth = %v, %d, %v; want 400, 4, true", hz, k, ok)
+	f := &Font{Samples: []Sample{s}}
+	if _, _, ok := s.LoopTruth(f.NominalHz(Zone{RootKey: -1})); ok {
+		t.Error("4.4 cycles accepted as a whole number")
+	}
+	// 4.4 cycles is no whole number; at A4 = 440 Hz and a 451-frame loop,
+	// 451·440/44100 = 4.4998: also refused. At 501 frames: 4.999 → 5.
+	s.LoopEnd = 1501
+	hz, k, ok := s.LoopTruth(440)
+	if !ok || k != 5 || hz != 5*44100.0/501 {
+		t.Errorf("LoopTruth = %v, %d, %v; want %v, 5, true", hz, k, ok, 5*44100.0/501)
 	}
 }
 
@@ -78,9 +88,12 @@ func FuzzOpen(f *testing.F) {
 		if err != nil {
 			return
 		}
-		for _, s := range font.Samples {
-			font.Frames(s.Start, s.End)
-			s.LoopTruth()
+		for _, in := range font.Instruments {
+			for _, z := range in.Zones {
+				s := font.Samples[z.Sample]
+				font.Frames(s.Start, s.End)
+				s.LoopTruth(font.NominalHz(z))
+			}
 		}
 	})
 }
