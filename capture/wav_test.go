@@ -122,6 +122,25 @@ func TestWAVTruncatedData(t *testing.T) {
 	}
 }
 
+// sox writing to a pipe cannot go back to fill in the sizes, so it leaves
+// a placeholder (0x7ffff000 bytes); the file is read to its end.
+func TestWAVWithPlaceholderSizeFromPipe(t *testing.T) {
+	dir := t.TempDir()
+	path := filepath.Join(dir, "piped.wav")
+	if err := os.WriteFile(path, sox(t, "-n", "-r", "8000", "-b", "16", "-t", "wav", "-", "synth", "0.1", "sine", "440"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	w, err := OpenWAV(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer w.Close()
+	got, want := readAll(t, w, 256), soxSamples(t, path, 1)
+	if len(got) != 800 || len(want) != 800 || maxDiff(got, want) > 0 {
+		t.Errorf("read %d samples, sox %d, want 800 equal ones (0.1 s at 8 kHz)", len(got), len(want))
+	}
+}
+
 // Bad input is one line naming the file and the problem, never a panic.
 func TestOpenWAVErrors(t *testing.T) {
 	dir := t.TempDir()
@@ -144,6 +163,7 @@ func TestOpenWAVErrors(t *testing.T) {
 		"no-data.wav":        good[:36],
 		"zero-channels.wav":  patched(22, u16(0)...),
 		"zero-rate.wav":      patched(24, 0, 0, 0, 0),
+		"rate-4GHz.wav":      patched(24, 0xff, 0xff, 0xff, 0xff),
 		"bad-align.wav":      patched(32, u16(3)...),
 		"fmt-too-short.wav":  patched(16, 4, 0, 0, 0),
 		"huge-fmt.wav":       patched(16, 0xff, 0xff, 0xff, 0x7f),
@@ -175,6 +195,7 @@ func TestOpenWAVErrors(t *testing.T) {
 		{filepath.Join(dir, "no-data.wav"), 1, ErrCorruptWAV, "no data chunk"},
 		{filepath.Join(dir, "zero-channels.wav"), 1, ErrCorruptWAV, "zero channels"},
 		{filepath.Join(dir, "zero-rate.wav"), 1, ErrCorruptWAV, "zero sample rate"},
+		{filepath.Join(dir, "rate-4GHz.wav"), 1, ErrUnsupportedWAV, "sample rate 4294967295 Hz is outside"},
 		{filepath.Join(dir, "bad-align.wav"), 1, ErrCorruptWAV, "block align 3"},
 		{filepath.Join(dir, "fmt-too-short.wav"), 1, ErrCorruptWAV, "corrupt format chunk (4 bytes)"},
 		{filepath.Join(dir, "huge-fmt.wav"), 1, ErrCorruptWAV, "corrupt format chunk"},

@@ -53,6 +53,13 @@ var extensibleGUIDTail = []byte{0x00, 0x00, 0x00, 0x00, 0x10, 0x00, 0x80, 0x00, 
 // bytes, and a hostile size must not become a huge allocation.
 const maxFmtChunk = 1024
 
+// The rates accepted: from below telephone quality to well above the
+// highest studio rates (768 kHz).
+const (
+	minRate = 1000
+	maxRate = 1_000_000
+)
+
 // wavLayout is where a WAV file keeps its samples and how they are encoded.
 type wavLayout struct {
 	tag        uint16 // tagPCM or tagFloat, extensible resolved
@@ -151,6 +158,10 @@ func (l *wavLayout) parseFormat(path string, fmtChunk []byte) error {
 		return wavErr(path, ErrCorruptWAV, "zero channels in format chunk")
 	case rate == 0:
 		return wavErr(path, ErrCorruptWAV, "zero sample rate in format chunk")
+	case rate < minRate || rate > maxRate:
+		// Buffers downstream are sized by the rate: a hostile one must not
+		// become a huge allocation.
+		return wavErr(path, ErrUnsupportedWAV, "sample rate %d Hz is outside %d Hz to %d Hz", rate, minRate, maxRate)
 	case tag != tagPCM && tag != tagFloat:
 		name := tagNames[tag]
 		if name == "" {
