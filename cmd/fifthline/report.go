@@ -1,0 +1,93 @@
+package main
+
+import (
+	"fmt"
+	"path/filepath"
+	"strings"
+	"time"
+
+	"fifthline/journal"
+	"fifthline/report"
+)
+
+func init() {
+	register("report", "how each spelled note sat over rehearsals, from journals written with --log", runReport)
+}
+
+func runReport(e *env, args []string) error {
+	fs := newFlags("report")
+	plotPath := fs.String("plot", "", "also draw the report into FILE.png or FILE.svg")
+	format := fs.String("format", "table", "table, csv or json")
+	tolerance := fs.Float64("tolerance", 5, "cents either side of the target that count as in tune")
+	var f report.Filter
+	fs.StringVar(&f.Player, "player", "", "only this player's notes")
+	fs.StringVar(&f.Key, "key", "", "only notes played in this key, e.g. \"G major\"")
+	since := fs.String("since", "", "only notes from this date (2026-03-14) or RFC 3339 time on")
+	paths, err := parseFlags(e, fs, args)
+	if err != nil {
+		return err
+	}
+	if len(paths) == 0 {
+		return usagef("report needs one or more journal files (written with --log)")
+	}
+	if *format != "table" && *format != "csv" && *format != "json" {
+		return usagef("--format %q: use table, csv or json", *format)
+	}
+	if !(*tolerance > 0 && *tolerance <= 100) {
+		return usagef("--tolerance %g: give cents above 0, at most 100", *tolerance)
+	}
+	if ext := strings.ToLower(filepath.Ext(*plotPath)); *plotPath != "" && ext != ".png" && ext != ".svg" {
+		return usagef("--plot %q: the file must end in .png or .svg", *plotPath)
+	}
+	if *since != "" {
+		if f.Since, err = report.ParseSince(*since, time.Local); err != nil {
+			return usagef("%v", err)
+		}
+	}
+	var entries []journal.Entry
+	for _, p := range paths {
+		es, warns, err := journal.ReadFile(p)
+		if err != nil {
+			return err
+		}
+		for _, w := range warns {
+			fmt.Fprintf(e.stderr, "fifthline: %s\n", w)
+		}
+		entries = append(entries, es...)
+	}
+	entries = f.Apply(entries)
+	if len(entries) == 0 {
+		return fmt.Errorf("no held notes in %s%s", strings.Join(paths, ", "), filterWords(f, *since))
+	}
+	opt := report.Options{Tolerance: *tolerance}
+	groups := report.Summarize(entries, opt)
+	switch *format {
+	case "csv":
+		err = report.WriteCSV(e.stdout, groups)
+	case "json":
+		err = report.WriteJSON(e.stdout, groups, opt)
+	default:
+		err = report.WriteText(e.stdout, groups, opt)
+	}
+	if err != nil || *plotPath == "" {
+		return err
+	}
+	return report.PlotFile(*plotPath, entries, groups, opt)
+}
+
+func filterWords(f report.Filter, since string) string {
+	var w []string
+	if f.Player != "" {
+		w = append(w, "player "+f.Player)
+	}
+	if f.Key != "" {
+		w = append(w, "key "+f.Key)
+	}
+	if since != "" {
+		w = append(w, "since "+since)
+	}
+	if len(w) == 0 {
+		return ""
+	}
+	return " for " + strings.Join(w, ", ")
+}
