@@ -48,6 +48,7 @@ type Meter struct {
 	quit    chan struct{}
 	once    sync.Once
 	model   *Model // touched only on tview's goroutine once Run starts
+	drawn   func(tcell.Screen) // tests: called on tview's goroutine after each draw
 }
 
 // New makes a meter for the tuning opt.Tunings holds.
@@ -98,6 +99,9 @@ func (m *Meter) Run(ctx context.Context) error {
 	view := tview.NewBox()
 	view.SetDrawFunc(func(s tcell.Screen, x, y, w, h int) (int, int, int, int) {
 		draw(s, Layout(m.model, w, h), x, y, w)
+		if m.drawn != nil {
+			m.drawn(s)
+		}
 		return x, y, w, h
 	})
 	app.SetRoot(view, true)

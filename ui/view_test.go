@@ -1,0 +1,209 @@
+package ui
+
+import (
+	"math"
+	"strings"
+	"testing"
+
+	"fifthline/pitchdetect"
+	"fifthline/session"
+	"fifthline/target"
+)
+
+// quarterComma is C major in ¼-comma meantone at A4 = 415 Hz, the tuning the
+// tests read tones in.
+func quarterComma(t *testing.T) target.Tuning {
+	t.Helper()
+	tm, err := target.ParseTemperament("meantone:1/4")
+	if err != nil {
+		t.Fatal(err)
+	}
+	tu := target.Default()
+	tu.Temperament, tu.A4 = tm, 415
+	return tu
+}
+
+// Reference pitches in ¼-comma meantone, from its definition: every fifth
+// is 5^(1/4) (four fifths make a pure 5/4 third two octaves up; published
+// definition of quarter-comma meantone). F♯4 is three fifths above A4,
+// G♭4 nine fifths below; they lie a lesser diesis, 128/125 = 41.06 ¢, apart
+// (handbook value).
+var (
+	fifthQC = math.Pow(5, 0.25)
+	fSharp4 = 415 * math.Pow(fifthQC, 3) / 4
+	gFlat4  = 415 / math.Pow(fifthQC, 9) * 32
+)
+
+// holding is a model in which the note at hz has been held for a second.
+func holding(tu target.Tuning, hz float64) *Model {
+	m := NewModel(tu, "test tones")
+	for i := range 100 {
+		t := float64(i) * 0.01
+		m.AddFrame(session.Frame{
+			Estimate: pitchdetect.Estimate{Time: t, Hz: hz, Confidence: 1, Voiced: true, Level: -20},
+			Holding:  true,
+			Held:     pitchdetect.Held{Start: 0, End: t, Hz: hz, Spread: 0.5, VibratoWidth: 18, VibratoRate: 5.5},
+		})
+	}
+	return m
+}
+
+func TestWordsNameTheNoteItsCentsAndTheOtherSpelling(t *testing.T) {
+	qc := quarterComma(t)
+	equal := target.Default()
+	for _, c := range []struct {
+		name string
+		tu   target.Tuning
+		hz   float64
+		want string
+	}{
+		{"on the F♯ target", qc, fSharp4, "F♯4 is on its target · G♭4 would read −41.1 ¢"},
+		{"a G♭ read in C major sits on G♭", qc, gFlat4, "F♯4 is 41.1 ¢ sharp ▲ · sits on G♭4 (0.0 ¢)"},
+		// 10 ¢ below equal-tempered A4 = 440 Hz (ISO 16).
+		{"flat in equal temperament", equal, 440 * math.Exp2(-10.0/1200), "A4 is 10.0 ¢ flat ▼ · G𝄪4 is the same pitch here"},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			if got := Words(holding(c.tu, c.hz)).Text(); got != c.want {
+				t.Errorf("got  %q\nwant %q", got, c.want)
+			}
+		})
+	}
+}
+
+func TestBeforeAnyNoteTheMeterSaysItIsListening(t *testing.T) {
+	m := NewModel(target.Default(), "the demo performance")
+	if got := Words(m).Text(); !strings.Contains(got, "listening to the demo performance") {
+		t.Errorf("Words = %q", got)
+	}
+	for _, l := range BigLines(m, 80) {
+		if strings.TrimSpace(l.Text()) != "" {
+			t.Errorf("large glyphs before any note: %q", l.Text())
+		}
+	}
+}
+
+func TestFifthsRowsLayTheWindowAlongTheLineOfFifths(t *testing.T) {
+	rows := FifthsRows(holding(quarterComma(t), gFlat4), 80)
+	// C major's window (interface contract, "Spelling window").
+	names := strings.Fields(rows[0].Text())
+	want := []string{"◂", "[G♭4]", "E♭", "B♭", "F", "C", "G", "D", "A", "E", "B", "[F♯]", "C♯", "G♯"}
+	if strings.Join(names, " ") != strings.Join(want, " ") {
+		t.Errorf("names row %q, want fields %q", rows[0].Text(), want)
+	}
+	// G♭ lies below E♭ on the line, so it stands at the left end; the held
+	// pitch is nearer it, so it is bracketed.
+	if got := rows[0].Text(); !strings.HasPrefix(got, "◂ [G♭4]") {
+		t.Errorf("the other spelling does not open the row: %q", got)
+	}
+	if got := strings.Fields(rows[1].Text()); strings.Join(got, " ") != "0.0¢ +41.1" {
+		t.Errorf("marks row %q", rows[1].Text())
+	}
+	// ¼-comma meantone's offsets from equal: each fifth is 3.42 ¢ narrow, so
+	// C (A4 fixed) sits 3 × 3.42 = +10.3 ¢ above equal and E♭ +20.5 (from
+	// the definition: 21.506/4 per fifth, handbook syntonic comma).
+	if got := strings.Fields(rows[2].Text()); got[2] != "+21" || got[5] != "+10" || got[8] != "0" {
+		t.Errorf("from-equal row %q", rows[2].Text())
+	}
+}
+
+func TestHeldLineGivesSpreadAndVibratoOnceANoteIsHeld(t *testing.T) {
+	if got := HeldLine(NewModel(target.Default(), "x")).Text(); got != "" {
+		t.Errorf("before a note: %q", got)
+	}
+	got := HeldLine(holding(quarterComma(t), fSharp4)).Text()
+	for _, want := range []string{"held 1.0 s", "spread 0.5 ¢", "vibrato 18 ¢ wide at 5.5 Hz"} {
+		if !strings.Contains(got, want) {
+			t.Errorf("%q lacks %q", got, want)
+		}
+	}
+}
+
+func TestInputLineWarnsOfClippingAndLostAudioInWords(t *testing.T) {
+	m := holding(target.Default(), 440)
+	m.Journal = "journal: 3 notes → rehearsal.csv"
+	m.Input = InputState{Known: true, Clipping: true, Overflows: 2, Dropped: 1}
+	got := InputLine(m).Text()
+	for _, want := range []string{"input −20 dBFS ▮▮▮▮▮▮▮▯▯▯", "CLIPPING", "2 overflows, 1 dropped", "journal: 3 notes → rehearsal.csv"} {
+		if !strings.Contains(got, want) {
+			t.Errorf("%q lacks %q", got, want)
+		}
+	}
+}
+
+func TestTracePlacesCentsOnItsScale(t *testing.T) {
+	// Held 20 ¢ sharp of equal-tempered A4 (ISO 16): with 4 rows there are 16
+	// dot rows over 100 ¢ (6.25 ¢ each), so +20 ¢ is dot row 4, the top of
+	// screen row 1.
+	m := holding(target.Default(), 440*math.Exp2(20.0/1200))
+	lines := Trace(m, 80, 4)
+	if len(lines) != 4 {
+		t.Fatalf("%d lines", len(lines))
+	}
+	for y, l := range lines {
+		hasDots := strings.ContainsFunc(l[1].Text, func(r rune) bool { return r > 0x2800 && r <= 0x28ff })
+		if hasDots != (y == 1) {
+			t.Errorf("row %d dots=%v: %q", y, hasDots, l.Text())
+		}
+	}
+	if !strings.HasPrefix(lines[0].Text(), " +50 ┤") || !strings.HasSuffix(lines[0].Text(), "sharp") || !strings.HasSuffix(lines[3].Text(), "flat") {
+		t.Errorf("scale labels: %q … %q", lines[0].Text(), lines[3].Text())
+	}
+}
+
+func TestLayoutFillsAnyScreenAndKeepsTheEssentials(t *testing.T) {
+	m := holding(quarterComma(t), gFlat4)
+	for _, size := range [][2]int{{80, 24}, {120, 40}, {60, 16}, {40, 10}, {20, 5}, {1, 1}, {0, 0}} {
+		w, h := size[0], size[1]
+		lines := Layout(m, w, h)
+		if len(lines) != max(h, 0) {
+			t.Errorf("%dx%d: %d lines", w, h, len(lines))
+		}
+		if w < 40 {
+			continue
+		}
+		screen := ""
+		for _, l := range lines {
+			screen += l.Text() + "\n"
+		}
+		for _, want := range []string{"F♯4 is 41.1 ¢ sharp", "C major", "1/4-comma meantone", "A4 = 415.0 Hz", "journal: off"} {
+			if !strings.Contains(screen, want) {
+				t.Errorf("%dx%d lacks %q:\n%s", w, h, want, screen)
+			}
+		}
+	}
+	// At 80 × 24 everything is there: the large glyphs and the trace too.
+	var screen strings.Builder
+	for _, l := range Layout(m, 80, 24) {
+		if l.Width() > 80 {
+			t.Errorf("line wider than 80: %q", l.Text())
+		}
+		screen.WriteString(l.Text() + "\n")
+	}
+	for _, want := range []string{Big("F♯4 +41.1¢")[0], "from ET", " +50 ┤", "vibrato", "q quit"} {
+		if !strings.Contains(screen.String(), strings.TrimRight(want, " ")) {
+			t.Errorf("80x24 lacks %q:\n%s", want, screen.String())
+		}
+	}
+}
+
+func TestBigGlyphsAreOurBlockFont(t *testing.T) {
+	for r, g := range font {
+		for _, row := range g {
+			if len(row) != len(g[0]) {
+				t.Errorf("glyph %q rows differ in width", r)
+			}
+		}
+	}
+	rows := Big("A4")
+	if rows[0] != " ██  █  █" || BigWidth("A4") != 9 {
+		t.Errorf("Big(A4) top row %q", rows[0])
+	}
+}
+
+func TestCentsUseATrueMinusAndNeverMinusZero(t *testing.T) {
+	for c, want := range map[float64]string{-3.25: "−3.2", 41.06: "+41.1", -0.04: "0.0", 0: "0.0"} {
+		if got := Cents(c); got != want {
+			t.Errorf("Cents(%g) = %q, want %q", c, got, want)
+		}
+	}
+}
