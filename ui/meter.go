@@ -47,7 +47,7 @@ type Meter struct {
 	ended   atomic.Bool
 	quit    chan struct{}
 	once    sync.Once
-	model   *Model // touched only on tview's goroutine once Run starts
+	model   *Model             // touched only on tview's goroutine once Run starts
 	drawn   func(tcell.Screen) // tests: called on tview's goroutine after each draw
 }
 
