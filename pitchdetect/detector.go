@@ -57,22 +57,21 @@ type Detector struct {
 	fed        int // samples fed since Reset
 	untilFrame int
 
-	lin       []float64 // the span, oldest first
-	win       []float64 // Blackman–Harris window
-	wx        []float64 // windowed frame scratch
-	fftWin    *fourier.FFT
-	specA     []complex128
-	specB     []complex128
-	power     []float64
-	scratch   []float64
-	fftPad    *fourier.FFT
-	padBuf    []float64
-	padSpec   []complex128
-	nsdfOut   []float64
-	floor     float64 // absolute power floor for partial peaks in this frame
-	specTotal float64
-	peak      float64 // strongest bin's power in this frame
-	last      analysis
+	lin     []float64 // the span, oldest first
+	win     []float64 // Blackman–Harris window
+	wx      []float64 // windowed frame scratch
+	fftWin  *fourier.FFT
+	specA   []complex128
+	specB   []complex128
+	power   []float64
+	scratch []float64
+	fftPad  *fourier.FFT
+	padBuf  []float64
+	padSpec []complex128
+	nsdfOut []float64
+	floor   float64 // absolute power floor for partial peaks in this frame
+	peak    float64 // strongest bin's power in this frame
+	last    analysis
 }
 
 // New returns a Detector for the sample rate with the given window and hop
@@ -248,14 +247,13 @@ func (d *Detector) spectrum(x []float64, dst []complex128) {
 
 // powerSpectrum fills d.power from frame B and sets the partial floor.
 func (d *Detector) powerSpectrum() {
-	peak, total := 0.0, 0.0
+	peak := 0.0
 	for i, z := range d.specB {
 		p := real(z)*real(z) + imag(z)*imag(z)
 		d.power[i] = p
-		total += p
 		peak = math.Max(peak, p)
 	}
-	d.specTotal, d.peak = total, peak
+	d.peak = peak
 	copy(d.scratch, d.power)
 	d.floor = max(peak*math.Pow(10, floorDB/10), floorMedian*median(d.scratch))
 }

@@ -100,9 +100,17 @@ func (d *Detector) fitComb(f0, tolCents float64, lobe int) fit {
 	// relative to F, in cents (1200/ln 2 per unit relative deviation).
 	v := math.Max(swr2/sw-mean*mean, 0)
 	res := centsPerUnit * math.Sqrt(v) / f
+	// The share's denominator leaves out the band below the fundamental's
+	// peak, where rumble, a DC step or a loop seam can pile up power that
+	// says nothing about whether the note has a pitch.
+	total := 0.0
+	top := min(int(d.ceilHz/d.binHz)+lobe, len(d.power))
+	for _, p := range d.power[max(int(f/d.binHz)-lobe, 1):top] {
+		total += p
+	}
 	share := 0.0
-	if d.specTotal > 0 {
-		share = math.Min(comb/d.specTotal, 1)
+	if total > 0 {
+		share = math.Min(comb/total, 1)
 	}
 	return fit{hz: f, residual: res, share: share, partials: used}
 }

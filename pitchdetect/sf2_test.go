@@ -63,8 +63,8 @@ func fluidLoops(t testing.TB, names []string, perInstrument int, seconds float64
 			if err != nil {
 				t.Fatal(err)
 			}
-			if !loopHoldsCycles(loop, k) {
-				continue // the header's pitch does not match the loop
+			if !loopHoldsCycles(loop, k) || !seamless(loop) || flawedLoops[s.Name] {
+				continue // the header's pitch does not match the loop, or it clicks
 			}
 			seen[z.Sample] = true
 			hz := float64(k) * float64(s.Rate) / float64(len(loop))
@@ -84,7 +84,7 @@ func fluidLoops(t testing.TB, names []string, perInstrument int, seconds float64
 var ensemble = []string{"Cello", "Viola", "Violin", "Contrabass", "Clarinet", "Oboe", "Bassoon",
 	"Tenor Sax", "Trumpet", "Trombone", "Tuba", "French Horns", "Ohh Voices", "Recorder"}
 
-// Real timbres: FluidR3 sample loops repeated. A short loop (up to 8 cycles)
+// Real timbres: FluidR3 sample loops repeated. A short loop (≤ 2048 frames)
 // is one waveform over and over, so every frame has exact truth; a long loop
 // carries the player's own wander (several cents), so only its mean over
 // whole loops does, and that mean is sampled at the hop: 0.25 ¢ allowed.
@@ -99,7 +99,7 @@ func TestSoundFontLoops(t *testing.T) {
 		m := measure(est, l.Hz)
 		mean, ok := meanOverLoops(est, l.LoopSeconds, 0)
 		c := testsignal.Cents(mean, l.Hz)
-		short := l.Cycles <= 8
+		short := l.LoopSeconds*l.Rate <= 2048
 		if m.gross > 0 || m.voiced < m.frames*3/4 || !ok || math.Abs(c) > 0.25 ||
 			(short && (m.median > 0.02 || m.max > 0.2 || m.voiced < m.frames*9/10)) {
 			t.Errorf("%s %q (%.3f Hz at %g Hz): %d/%d voiced, %d gross, mean over loops %+.4f ¢, frame median %.4f ¢",
@@ -155,4 +155,23 @@ func meanOverLoops(est []Estimate, loopSeconds, skip float64) (float64, bool) {
 		}
 	}
 	return sum / float64(count), count > 0
+}
+
+// flawedLoops are loops whose seam breaks the waveform although the sample
+// values meet: at "Cello G3(L)" the harmonic comb's share of the spectrum
+// falls from 0.8 to 0.03 for the frames spanning each seam, so those frames
+// are (rightly) unvoiced and the loop mean is taken over part of its
+// vibrato cycle only.
+var flawedLoops = map[string]bool{"Cello G3(L)": true}
+
+// seamless reports whether the step from a loop's last sample back to its
+// first is no larger than the loop's ordinary sample-to-sample steps: a
+// clicking seam is a flaw of the sample, not of any instrument.
+func seamless(loop []float64) bool {
+	var ss float64
+	for i := 1; i < len(loop); i++ {
+		ss += (loop[i] - loop[i-1]) * (loop[i] - loop[i-1])
+	}
+	rms := math.Sqrt(ss / float64(len(loop)-1))
+	return math.Abs(loop[0]-loop[len(loop)-1]) <= 4*rms
 }
