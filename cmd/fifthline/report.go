@@ -51,7 +51,7 @@ func runReport(e *env, args []string) error {
 			return err
 		}
 		for _, w := range warns {
-			fmt.Fprintf(e.stderr, "fifthline: %s\n", w)
+			fmt.Fprintf(e.stderr, "fifthline: warning: %s\n", w)
 		}
 		entries = append(entries, es...)
 	}
