@@ -1,0 +1,94 @@
+package main
+
+import (
+	"fmt"
+	"strings"
+	"time"
+
+	"fifthline/drone"
+	"fifthline/playback"
+	"fifthline/target"
+)
+
+func init() {
+	register("drone", "sound the given notes at their targets as a drone (quietly; Ctrl-C stops)", runDrone)
+}
+
+func runDrone(e *env, args []string) error {
+	fs := newFlags("drone")
+	mf := addMusicalFlags(fs)
+	notes := fs.String("notes", "", "spelled notes to sound, comma-separated, e.g. G3,D4")
+	duration := fs.Duration("duration", 0, "stop after this long, e.g. 30s (default: until Ctrl-C)")
+	level := fs.Float64("level", playback.DefaultLevel, fmt.Sprintf("peak of all notes together in dBFS, at most %g", playback.MaxLevel))
+	timbre := fs.String("timbre", "reed", "pure, reed or string")
+	device := fs.String("device", "", "output device: index or part of the name (fifthline devices lists them)")
+	pos, err := parseFlags(e, fs, args)
+	if err != nil {
+		return err
+	}
+	if len(pos) > 0 {
+		return usagef("drone takes no arguments (got %q); give the notes with --notes", pos[0])
+	}
+	if err := playback.CheckLevel(*level); err != nil {
+		return usagef("--level %g dBFS is above the %g dBFS limit (hearing safety)", *level, playback.MaxLevel)
+	}
+	if *duration < 0 {
+		return usagef("--duration %v is negative", *duration)
+	}
+	tb, err := drone.ParseTimbre(*timbre)
+	if err != nil {
+		return usagef("--timbre: %v", err)
+	}
+	tu, err := mf.tuning()
+	if err != nil {
+		return err
+	}
+	hz, names, err := droneTargets(tu, *notes)
+	if err != nil {
+		return err
+	}
+	fmt.Fprintf(e.stderr, "fifthline: caution: keep your headphone or speaker volume low and stop at once if it hurts; peak level %g dBFS, fading in\n", *level)
+	p, err := playback.NewPlayer(playback.Options{Device: *device, Level: *level, Timbre: tb})
+	if err != nil {
+		return err
+	}
+	fmt.Fprintf(e.stderr, "fifthline: drone %s (%s) on %q · %s; Ctrl-C stops\n", names, hzList(hz), p.Device().Name, tu)
+	p.SetDrone(hz)
+	var timeout <-chan time.Time
+	if *duration > 0 {
+		timeout = time.After(*duration)
+	}
+	select {
+	case <-e.ctx.Done():
+	case <-timeout:
+	}
+	return p.Close() // fades out before it stops
+}
+
+// droneTargets reads --notes and finds each note's target in the tuning.
+func droneTargets(tu target.Tuning, list string) (hz []float64, names string, err error) {
+	var spelled []string
+	for _, s := range strings.Split(list, ",") {
+		if s = strings.TrimSpace(s); s == "" {
+			continue
+		}
+		n, err := target.ParseNote(s)
+		if err != nil {
+			return nil, "", usagef("--notes: %v", err)
+		}
+		hz = append(hz, tu.Target(n))
+		spelled = append(spelled, n.String())
+	}
+	if len(hz) == 0 {
+		return nil, "", usagef("--notes: give the spelled notes to sound, e.g. --notes G3,D4")
+	}
+	return hz, strings.Join(spelled, " "), nil
+}
+
+func hzList(hz []float64) string {
+	s := make([]string, len(hz))
+	for i, f := range hz {
+		s[i] = fmt.Sprintf("%.3f Hz", f)
+	}
+	return strings.Join(s, ", ")
+}

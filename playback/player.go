@@ -1,0 +1,312 @@
+package playback
+
+import (
+	"errors"
+	"fmt"
+	"slices"
+	"strconv"
+	"strings"
+	"sync"
+	"sync/atomic"
+	"time"
+
+	"github.com/gordonklaus/portaudio"
+
+	"fifthline/capture"
+	"fifthline/drone"
+)
+
+// Hearing safety (team rule 4): sound starts quietly and is capped.
+const (
+	// DefaultLevel is the peak of everything sounding together, in dBFS,
+	// when Options.Level is 0.
+	DefaultLevel = -18.0
+	// MaxLevel is the loudest level a Player accepts, in dBFS.
+	MaxLevel = -6.0
+	// DefaultFade is the raised-cosine fade in and out of a drone.
+	DefaultFade = 500 * time.Millisecond
+	// referenceFade is the fade of a reference tone: short enough for a
+	// brief tone, long enough to be click-free.
+	referenceFade = 40 * time.Millisecond
+)
+
+// ErrTooLoud means a level above MaxLevel was asked for.
+var ErrTooLoud = fmt.Errorf("level above the %g dBFS limit", MaxLevel)
+
+// Options choose the device, level and sound. The zero value plays pure
+// tones at DefaultLevel on the default output.
+type Options struct {
+	// Device is "" for the default output, a PortAudio device index as
+	// fifthline devices lists it, or part of a device name.
+	Device string
+	// Level is the peak of all notes together, in dBFS (≤ MaxLevel); 0
+	// means DefaultLevel. A limiter holds the output to it whatever plays.
+	Level float64
+	// Timbre of drones and reference tones; the zero value is drone.Pure.
+	Timbre drone.Timbre
+	// Fade is the drone's fade in and out; 0 means DefaultFade.
+	Fade time.Duration
+	// ShareWithReference gives drones and reference tones half the level's
+	// amplitude each, so that the two together reach it and the limiter
+	// never has to act; otherwise a drone alone reaches the level.
+	ShareWithReference bool
+	// SampleRate to ask for; 0 means 48 kHz, else the device's default.
+	SampleRate float64
+}
+
+// CheckLevel reports whether a level in dBFS may be played.
+func CheckLevel(dbfs float64) error {
+	if !(dbfs <= MaxLevel) {
+		return fmt.Errorf("%w: %g dBFS", ErrTooLoud, dbfs)
+	}
+	return nil
+}
+
+// Player sounds drones and reference tones on one output stream. Its
+// methods may be called from any goroutine.
+type Player struct {
+	opt      Options
+	peak     float64 // linear level of one drone or reference
+	rate     float64
+	channels int
+	device   capture.DeviceInfo
+	stream   *portaudio.Stream
+	release  func()
+
+	// Hand-offs to the callback: the next drone voice (or silence), the
+	// next reference tone, and the request to fade everything out.
+	droneIn, refIn atomic.Pointer[drone.Voice]
+	stopping       atomic.Bool
+	silent         atomic.Bool
+
+	// Callback-only state.
+	mix        *drone.Mixer
+	drone, ref *drone.Voice
+	stopped    bool
+
+	mu       sync.Mutex
+	dronePs  []drone.Partial
+	refPs    []drone.Partial
+	refUntil time.Time
+	closing  sync.Once
+	closeErr error
+}
+
+// NewPlayer opens and starts an output stream; it is silent until SetDrone
+// or Reference.
+func NewPlayer(opt Options) (*Player, error) {
+	if opt.Level == 0 {
+		opt.Level = DefaultLevel
+	}
+	if err := CheckLevel(opt.Level); err != nil {
+		return nil, err
+	}
+	if opt.Timbre.Amps == nil {
+		opt.Timbre = drone.Pure
+	}
+	if opt.Fade <= 0 {
+		opt.Fade = DefaultFade
+	}
+	release, err := capture.InitPortAudio()
+	if err != nil {
+		return nil, err
+	}
+	p := &Player{opt: opt, release: release, peak: drone.Linear(opt.Level)}
+	if opt.ShareWithReference {
+		p.peak /= 2
+	}
+	if err := capture.QuietStderr(p.open); err != nil {
+		release()
+		return nil, err
+	}
+	return p, nil
+}
+
+// framesPerBlock is the callback size: about 10 ms at 48 kHz.
+const framesPerBlock = 512
+
+func (p *Player) open() error {
+	dev, err := pickOutput(p.opt.Device)
+	if err != nil {
+		return err
+	}
+	p.device = capture.DeviceInfo{Index: dev.Index, Name: dev.Name, OutputChannels: dev.MaxOutputChannels, DefaultRate: dev.DefaultSampleRate}
+	p.channels = min(dev.MaxOutputChannels, 2)
+	params := portaudio.HighLatencyParameters(nil, dev)
+	params.Output.Channels = p.channels
+	params.FramesPerBuffer = framesPerBlock
+	rates := []float64{p.opt.SampleRate}
+	if p.opt.SampleRate == 0 {
+		rates = []float64{capture.PreferredRate, dev.DefaultSampleRate}
+	}
+	for _, r := range rates {
+		params.SampleRate = r
+		if err = portaudio.IsFormatSupported(params, p.callback); err == nil {
+			break
+		}
+	}
+	if err != nil {
+		return fmt.Errorf("output %q cannot play at %v Hz: %w", dev.Name, rates[len(rates)-1], err)
+	}
+	p.rate = params.SampleRate
+	p.mix = drone.NewMixer(p.rate, drone.Linear(p.opt.Level))
+	if p.stream, err = portaudio.OpenStream(params, p.callback); err != nil {
+		return fmt.Errorf("output %q: %w", dev.Name, err)
+	}
+	if err := p.stream.Start(); err != nil {
+		p.stream.Close()
+		return fmt.Errorf("output %q: start: %w", dev.Name, err)
+	}
+	return nil
+}
+
+// callback runs on PortAudio's thread: it takes what the methods handed
+// over, mixes, and never blocks or allocates.
+func (p *Player) callback(out []float32) {
+	if v := p.droneIn.Swap(nil); v != nil && !p.stopped {
+		if p.drone != nil {
+			p.drone.Release()
+		}
+		p.drone = v
+		p.mix.Add(v)
+	}
+	if v := p.refIn.Swap(nil); v != nil && !p.stopped {
+		if p.ref != nil {
+			p.ref.Release()
+		}
+		p.ref = v
+		p.mix.Add(v)
+	}
+	if p.stopping.Load() && !p.stopped {
+		p.stopped = true
+		p.mix.ReleaseAll()
+	}
+	p.mix.Render(out, p.channels)
+	if p.stopped && p.mix.Silent() {
+		p.silent.Store(true)
+	}
+}
+
+// SetDrone fades the present drone out and a drone on the given
+// fundamentals (hertz: a tonic, and perhaps its fifth) in; none fades the
+// drone out.
+func (p *Player) SetDrone(hz []float64) {
+	ps := p.partials(hz)
+	p.mu.Lock()
+	p.dronePs = ps
+	p.mu.Unlock()
+	fade := int(p.opt.Fade.Seconds() * p.rate)
+	p.droneIn.Store(drone.NewVoice(p.rate, ps, fade, fade, 0))
+}
+
+// Reference sounds a tone at hz for about dur (fades included), over the
+// drone, for a player to hear the note's target; a new one replaces it.
+func (p *Player) Reference(hz float64, dur time.Duration) {
+	ps := p.partials([]float64{hz})
+	fade := int(referenceFade.Seconds() * p.rate)
+	hold := max(int(dur.Seconds()*p.rate)-fade, fade)
+	p.mu.Lock()
+	p.refPs, p.refUntil = ps, time.Now().Add(dur)
+	p.mu.Unlock()
+	p.refIn.Store(drone.NewVoice(p.rate, ps, fade, fade, hold))
+}
+
+func (p *Player) partials(hz []float64) []drone.Partial {
+	hz = slices.DeleteFunc(slices.Clone(hz), func(f float64) bool { return !(f > 0) })
+	if len(hz) == 0 {
+		return nil
+	}
+	return drone.Partials(hz, p.opt.Timbre, p.peak, p.rate)
+}
+
+// Partials are the frequencies sounding now: the drone's partials and,
+// while it lasts, the reference tone's. Hand them to drone.Cancel (or its
+// Follow) so the meter does not hear the player's own drone.
+func (p *Player) Partials() []float64 {
+	p.mu.Lock()
+	defer p.mu.Unlock()
+	hz := drone.Frequencies(p.dronePs)
+	if time.Now().Before(p.refUntil) {
+		for _, f := range drone.Frequencies(p.refPs) {
+			if !slices.Contains(hz, f) {
+				hz = append(hz, f)
+			}
+		}
+	}
+	slices.Sort(hz)
+	return hz
+}
+
+// Level is the output's peak ceiling in dBFS.
+func (p *Player) Level() float64 { return p.opt.Level }
+
+// SampleRate is the stream's rate in Hz.
+func (p *Player) SampleRate() float64 { return p.rate }
+
+// Device describes the output device.
+func (p *Player) Device() capture.DeviceInfo { return p.device }
+
+// Close fades everything out (waiting for the fade, at most a second more
+// than it should take), then stops the stream and releases PortAudio.
+// Closing twice is harmless.
+func (p *Player) Close() error {
+	p.closing.Do(func() {
+		p.stopping.Store(true)
+		deadline := time.Now().Add(p.opt.Fade + time.Second)
+		for !p.silent.Load() && time.Now().Before(deadline) {
+			time.Sleep(5 * time.Millisecond)
+		}
+		p.closeErr = capture.QuietStderr(func() error {
+			err := p.stream.Stop() // plays what is buffered: the end of the fade
+			if cerr := p.stream.Close(); err == nil {
+				err = cerr
+			}
+			return err
+		})
+		if p.closeErr != nil {
+			p.closeErr = fmt.Errorf("output %q: close: %w", p.device.Name, p.closeErr)
+		}
+		p.release()
+	})
+	return p.closeErr
+}
+
+// ErrNoDevice means no output device matched the request.
+var ErrNoDevice = errors.New("no such output device")
+
+// pickOutput resolves Options.Device to an output-capable device.
+func pickOutput(want string) (*portaudio.DeviceInfo, error) {
+	if want == "" {
+		d, err := portaudio.DefaultOutputDevice()
+		if err != nil || d == nil {
+			return nil, fmt.Errorf("%w: no default output device (%v)", ErrNoDevice, err)
+		}
+		return d, nil
+	}
+	devs, err := portaudio.Devices()
+	if err != nil {
+		return nil, fmt.Errorf("portaudio: listing devices: %w", err)
+	}
+	var parts []*portaudio.DeviceInfo
+	idx, isIndex := strconv.Atoi(want)
+	for _, d := range devs {
+		switch {
+		case d.MaxOutputChannels < 1:
+		case isIndex == nil && d.Index == idx, strings.EqualFold(d.Name, want):
+			return d, nil
+		case strings.Contains(strings.ToLower(d.Name), strings.ToLower(want)):
+			parts = append(parts, d)
+		}
+	}
+	if len(parts) == 1 {
+		return parts[0], nil
+	}
+	if len(parts) == 0 {
+		return nil, fmt.Errorf("%w %q (fifthline devices lists them)", ErrNoDevice, want)
+	}
+	names := make([]string, len(parts))
+	for i, d := range parts {
+		names[i] = strconv.Quote(d.Name)
+	}
+	return nil, fmt.Errorf("output device %q is ambiguous: it matches %s", want, strings.Join(names, ", "))
+}
