@@ -1,6 +1,7 @@
 package report
 
 import (
+	"cmp"
 	"fmt"
 	"image/color"
 	"io"
@@ -20,6 +21,7 @@ import (
 	"gonum.org/v1/plot/vg/vgsvg"
 
 	"fifthline/journal"
+	"fifthline/target"
 )
 
 // The picture: 12 × 8 inches, a sheet to pin up; PNG at PlotDPI.
@@ -228,10 +230,7 @@ func noteAxis(groups []Group) []string {
 		}
 	}
 	slices.SortStableFunc(all, func(a, b Stats) int {
-		if a.Fifths != b.Fifths {
-			return a.Fifths - b.Fifths
-		}
-		return strings.Compare(octaveOf(a.Label), octaveOf(b.Label))
+		return cmp.Or(cmp.Compare(a.Fifths, b.Fifths), cmp.Compare(octaveOf(a.Label), octaveOf(b.Label)))
 	})
 	labels := make([]string, len(all))
 	for i, s := range all {
@@ -240,7 +239,10 @@ func noteAxis(groups []Group) []string {
 	return labels
 }
 
-func octaveOf(label string) string { return strings.TrimLeft(label, "ABCDEFG#b") }
+func octaveOf(label string) int {
+	n, _ := target.ParseNote(label)
+	return n.Octave
+}
 
 func timePanel(entries []journal.Entry, groups []Group, opt Options) (*plot.Plot, error) {
 	t0 := entries[0].Time
@@ -264,7 +266,7 @@ func timePanel(entries []journal.Entry, groups []Group, opt Options) (*plot.Plot
 		pts.GlyphStyle.Radius = vg.Points(3)
 		p.Add(pts)
 		if tr := g.All.Trend; tr.Known {
-			x0 := slices.MinFunc(xys, func(a, b plotter.XY) int { return cmpFloat(a.X, b.X) }).X
+			x0 := slices.MinFunc(xys, func(a, b plotter.XY) int { return cmp.Compare(a.X, b.X) }).X
 			my := g.All.Mean
 			mx := 0.0
 			for _, xy := range xys {
@@ -307,16 +309,6 @@ func histogramPanel(entries []journal.Entry, opt Options) (*plot.Plot, error) {
 	p.Add(h)
 	band(p, opt.Tolerance, true, tallest)
 	return p, nil
-}
-
-func cmpFloat(a, b float64) int {
-	switch {
-	case a < b:
-		return -1
-	case a > b:
-		return 1
-	}
-	return 0
 }
 
 func minTime(a, b time.Time) time.Time {

@@ -265,4 +265,10 @@ func TestKilledRehearsal(t *testing.T) {
 	if rows[len(rows)-1]["level"] != "all" || n < logged {
 		t.Errorf("report counts %d notes after %d were logged", n, logged)
 	}
+	entries, _, _ := journal.ReadFile(path)
+	for i, e := range entries { // whole, and in the order they ended
+		if e.Start != float64(i) || e.Player != "Dana" {
+			t.Errorf("entry %d: start %v player %q", i, e.Start, e.Player)
+		}
+	}
 }
