@@ -280,3 +280,51 @@ func TestInputReportsLostDevice(t *testing.T) {
 		t.Logf("Close after loss: %v", err) // an error is allowed, a hang or panic is not
 	}
 }
+
+// A sound server that dies mid-session ends Read with ErrDeviceLost, and
+// Close still returns promptly. The test's own PulseAudio daemon is killed.
+// PortAudio complains on descriptor 2 when that happens; a session holding
+// MuteStderr, as listen does, shows none of it.
+func TestInputReportsVanishedSoundServer(t *testing.T) {
+	server := vmic.StartServer(t)
+	t.Setenv("FIFTHLINE_AUDIO_DEBUG", "")
+	collect := stderrTo(t)
+	restore, err := MuteStderr()
+	if err != nil {
+		collect()
+		t.Fatal(err)
+	}
+	defer func() {
+		restore()
+		if got := collect(); got != "" {
+			t.Errorf("a muted session still wrote to descriptor 2: %q", got)
+		}
+	}()
+	in, err := OpenInput(InputOptions{StallTimeout: 500 * time.Millisecond})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer in.Close()
+	waitForBlocks(t, in)
+	server.Kill()
+	buf := make([]float32, 1024)
+	for deadline := time.Now().Add(5 * time.Second); ; {
+		if _, err := in.Read(buf); err != nil {
+			if !errors.Is(err, ErrDeviceLost) {
+				t.Errorf("Read after the server died: %v; want ErrDeviceLost", err)
+			}
+			break
+		}
+		if time.Now().After(deadline) {
+			t.Fatal("Read still delivering 5 s after the server died")
+		}
+	}
+	done := make(chan error, 1)
+	go func() { done <- in.Close() }()
+	select {
+	case err := <-done:
+		t.Logf("Close after the server died: %v", err)
+	case <-time.After(5 * time.Second):
+		t.Fatal("Close hangs after the server died")
+	}
+}
