@@ -9,6 +9,8 @@ package testsignal
 import (
 	"math"
 	"math/rand/v2"
+
+	"gonum.org/v1/gonum/dsp/fourier"
 )
 
 // Spectrum is a named list of partial amplitudes, partial 1 first.
@@ -209,4 +211,33 @@ func FadeIn(x []float64, rate, seconds float64) {
 	for i := range n {
 		x[i] *= 0.5 - 0.5*math.Cos(math.Pi*float64(i)/float64(n))
 	}
+}
+
+// Repeat plays one period over and over for n samples.
+func Repeat(period []float64, n int) []float64 {
+	x := make([]float64, n)
+	for i := range x {
+		x[i] = period[i%len(period)]
+	}
+	return x
+}
+
+// Reperiod resamples one period of a periodic signal to newLen samples by
+// moving its DFT coefficients to a transform of the new length (partials
+// above the new Nyquist frequency dropped): played at the same rate, the
+// pitch moves by exactly len(period)/newLen, 1200·log2(len/newLen) cents.
+func Reperiod(period []float64, newLen int) []float64 {
+	n := len(period)
+	c := fourier.NewFFT(n).Coefficients(nil, period)
+	d := make([]complex128, newLen/2+1)
+	top := min(len(c), len(d))
+	if 2*(top-1) == min(n, newLen) {
+		top-- // a Nyquist bin does not carry over between lengths
+	}
+	copy(d, c[:top])
+	y := fourier.NewFFT(newLen).Sequence(nil, d)
+	for i := range y {
+		y[i] /= float64(n)
+	}
+	return y
 }

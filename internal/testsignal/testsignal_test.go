@@ -1,0 +1,36 @@
+package testsignal
+
+import (
+	"math"
+	"testing"
+)
+
+func TestReperiodMovesPitchExactly(t *testing.T) {
+	// Three cycles of a two-partial wave in 300 samples, reperiodised to
+	// 200 samples, must equal the same wave computed directly at 200.
+	wave := func(n int) []float64 {
+		x := make([]float64, n)
+		for i := range x {
+			p := 2 * math.Pi * 3 * float64(i) / float64(n)
+			x[i] = math.Sin(p+0.3) + 0.5*math.Cos(2*p)
+		}
+		return x
+	}
+	got, want := Reperiod(wave(300), 200), wave(200)
+	for i := range want {
+		if math.Abs(got[i]-want[i]) > 1e-12 {
+			t.Fatalf("sample %d: %v, want %v", i, got[i], want[i])
+		}
+	}
+}
+
+func TestCramerRaoMatchesKaySingleSinusoid(t *testing.T) {
+	// Kay (1993) eq. 3.41: var(f) ≥ 12/((2π)² η N(N²−1)), η = A²/(2σ²),
+	// f in cycles per sample. A = 1, σ = 0.1, N = 1000, rate 1 Hz.
+	n := 1000.0
+	eta := 1 / (2 * 0.01)
+	want := math.Sqrt(12 / (4 * math.Pi * math.Pi * eta * n * (n*n - 1)))
+	if got := CramerRaoHz(1, 1000, []float64{1}, 0.1, 0.1); math.Abs(got/want-1) > 1e-9 {
+		t.Errorf("CramerRaoHz = %g, want %g", got, want)
+	}
+}
