@@ -33,17 +33,15 @@ func NewVoice(rate float64, ps []Partial, fadeIn, fadeOut, hold int) *Voice {
 // AddTo adds the voice's next len(buf) samples to buf.
 func (v *Voice) AddTo(buf []float64) {
 	for i := range buf {
-		g := v.env.next()
-		if g == 0 {
-			continue // silent: the oscillators need not turn
+		if g := v.env.next(); g != 0 {
+			s := 0.0
+			for k := range v.osc {
+				o := &v.osc[k]
+				s += o.amp * math.Sin(2*math.Pi*o.phase)
+			}
+			buf[i] += g * s
 		}
-		s := 0.0
-		for k := range v.osc {
-			o := &v.osc[k]
-			s += o.amp * math.Sin(2*math.Pi*o.phase)
-		}
-		buf[i] += g * s
-		v.advance()
+		v.advance() // even in silence, so that time runs on evenly
 	}
 }
 
