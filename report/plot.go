@@ -254,7 +254,7 @@ func timePanel(entries []journal.Entry, groups []Group, opt Options) (*plot.Plot
 	for gi, g := range groups {
 		var xys plotter.XYs
 		for _, e := range entries {
-			if e.Player == g.Player && e.Key == g.Key && e.Temperament == g.Temperament {
+			if g.Holds(e) {
 				xys = append(xys, plotter.XY{X: e.Time.Sub(t0).Minutes(), Y: e.Cents})
 			}
 		}

@@ -21,7 +21,11 @@ func (g Group) Title() string {
 	for _, f := range g.A4 {
 		a4 = append(a4, strconv.FormatFloat(f, 'f', -1, 64))
 	}
-	return fmt.Sprintf("%s · %s · %s · A4 = %s Hz", player, g.Key, g.Name, strings.Join(a4, ", "))
+	t := fmt.Sprintf("%s · %s · %s · A4 = %s Hz", player, g.Key, g.Name, strings.Join(a4, ", "))
+	if g.Transpose != "" {
+		t += " · written for " + g.Transpose + " instrument"
+	}
+	return t
 }
 
 // WriteText writes one table per group, for people.
@@ -59,7 +63,7 @@ func textRow(w io.Writer, s Stats) {
 }
 
 // csvHeader is the CSV report's header; level is note, pitch_class or all.
-var csvHeader = []string{"player", "key", "temperament", "level", "note", "fifths", "count", "mean_cents",
+var csvHeader = []string{"player", "key", "temperament", "transpose", "level", "note", "fifths", "count", "mean_cents",
 	"median_cents", "spread_cents", "within", "share_within", "tendency", "nearer_alt", "alt_note",
 	"slope_cents_per_min", "drift_cents", "span_min", "trend"}
 
@@ -69,7 +73,7 @@ func WriteCSV(w io.Writer, groups []Group) error {
 	cw.Write(csvHeader)
 	for _, g := range groups {
 		row := func(level string, s Stats) {
-			cw.Write([]string{g.Player, g.Key, g.Temperament, level, s.Label, strconv.Itoa(s.Fifths),
+			cw.Write([]string{g.Player, g.Key, g.Temperament, g.Transpose, level, s.Label, strconv.Itoa(s.Fifths),
 				strconv.Itoa(s.Count), fixed(s.Mean, 2), fixed(s.Median, 2), fixed(s.Spread, 2),
 				strconv.Itoa(s.Within), fixed(s.Share, 3), s.Tendency, strconv.Itoa(s.NearerAlt), s.AltLabel,
 				fixed(s.Trend.SlopePerMinute, 4), fixed(s.Trend.Drift, 2), fixed(s.Trend.Minutes, 2), s.Trend.Words})

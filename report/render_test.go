@@ -52,7 +52,7 @@ func TestCSV(t *testing.T) {
 	if strings.Join(recs[0], ",") != strings.Join(csvHeader, ",") {
 		t.Errorf("header %v", recs[0])
 	}
-	want := "Ann,G major,meantone:1/4,note,F#4,6,3,6.00,6.00,2.00,1,0.333,sits 6 ¢ high,0,,0.2000,4.00,20.00,drifted 4 ¢ sharp over 20 min"
+	want := "Ann,G major,meantone:1/4,,note,F#4,6,3,6.00,6.00,2.00,1,0.333,sits 6 ¢ high,0,,0.2000,4.00,20.00,drifted 4 ¢ sharp over 20 min"
 	found := false
 	for _, r := range recs {
 		found = found || strings.Join(r, ",") == want

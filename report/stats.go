@@ -19,11 +19,13 @@ type Options struct {
 	Tolerance float64
 }
 
-// Group is one player in one key and temperament.
+// Group is one player in one key and temperament (and transposition: a
+// B♭ part's written notes are not a concert part's).
 type Group struct {
 	Player      string    `json:"player"`
 	Key         string    `json:"key"`
-	Temperament string    `json:"temperament"` // the spec, e.g. meantone:1/4
+	Temperament string    `json:"temperament"`         // the spec, e.g. meantone:1/4
+	Transpose   string    `json:"transpose,omitempty"` // the instrument's --transpose; notes are then written pitch
 	Name        string    `json:"temperament_name"`
 	A4          []float64 `json:"a4"`            // the reference pitches used, in order of first use
 	Notes       []Stats   `json:"notes"`         // per spelled note with octave, along the line of fifths
@@ -56,15 +58,16 @@ type Trend struct {
 	Words          string  `json:"words"`
 }
 
-// Summarize groups the entries by player, key and temperament (in order of
+// Summarize groups the entries by player, key, temperament and
+// transposition (in order of
 // first appearance) and describes each group per note, per pitch class and
 // as a whole.
 func Summarize(entries []journal.Entry, opt Options) []Group {
-	type groupKey struct{ player, key, temperament string }
+	type groupKey struct{ player, key, temperament, transpose string }
 	var order []groupKey
 	members := map[groupKey][]journal.Entry{}
 	for _, e := range entries {
-		k := groupKey{e.Player, e.Key, e.Temperament}
+		k := groupKey{e.Player, e.Key, e.Temperament, e.Transpose}
 		if _, ok := members[k]; !ok {
 			order = append(order, k)
 		}
@@ -73,7 +76,7 @@ func Summarize(entries []journal.Entry, opt Options) []Group {
 	groups := make([]Group, 0, len(order))
 	for _, k := range order {
 		es := members[k]
-		g := Group{Player: k.player, Key: k.key, Temperament: k.temperament, Name: temperamentName(k.temperament)}
+		g := Group{Player: k.player, Key: k.key, Temperament: k.temperament, Transpose: k.transpose, Name: temperamentName(k.temperament)}
 		for _, e := range es {
 			if !slices.Contains(g.A4, e.A4) {
 				g.A4 = append(g.A4, e.A4)
@@ -85,6 +88,11 @@ func Summarize(entries []journal.Entry, opt Options) []Group {
 		groups = append(groups, g)
 	}
 	return groups
+}
+
+// Holds reports whether the entry belongs to the group.
+func (g Group) Holds(e journal.Entry) bool {
+	return e.Player == g.Player && e.Key == g.Key && e.Temperament == g.Temperament && e.Transpose == g.Transpose
 }
 
 // byLabel describes the entries per label of their note, ordered along the

@@ -194,3 +194,12 @@ func TestParseSince(t *testing.T) {
 		}
 	}
 }
+
+func TestATransposingPartIsItsOwnGroup(t *testing.T) {
+	concert, clarinet := entry("Ann", "D4", 0, 1, 1, "C##4"), entry("Ann", "E4", 1, 2, 2, "Fb4")
+	clarinet.Transpose = "Bb" // written E4 sounds D4 on a B♭ clarinet
+	groups := Summarize([]journal.Entry{concert, clarinet}, Options{Tolerance: 5})
+	if len(groups) != 2 || groups[1].Title() != "Ann · G major · 1/4-comma meantone · A4 = 415 Hz · written for Bb instrument" {
+		t.Errorf("groups %d, second titled %q", len(groups), groups[len(groups)-1].Title())
+	}
+}
