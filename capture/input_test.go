@@ -99,7 +99,9 @@ func TestInputHearsToneFromVirtualMicrophone(t *testing.T) {
 			}
 			vmic.Play(t, tone)
 			x := readHeard(t, in, int(in.SampleRate())) // one second of tone
-			if hz := risingCrossingHz(x, in.SampleRate()); math.Abs(hz-c.hz) > 0.5 {
+			hz := risingCrossingHz(x, in.SampleRate())
+			t.Logf("heard %.3f Hz, peak %.2f dBFS, stats %+v", hz, in.Stats().PeakDBFS(), in.Stats())
+			if math.Abs(hz-c.hz) > 0.5 {
 				t.Errorf("heard %.2f Hz, want %v Hz", hz, c.hz)
 			}
 			st := in.Stats()
