@@ -102,7 +102,7 @@ func plotTitle(entries []journal.Entry, groups []Group, opt Options) [2]string {
 	if last.YearDay() != first.YearDay() || last.Year() != first.Year() {
 		when = first.Format("2 Jan 2006") + " – " + last.Format("2 Jan 2006")
 	}
-	sub := fmt.Sprintf("%d held notes · %s · tolerance ±%g ¢", len(entries), when, opt.Tolerance)
+	sub := fmt.Sprintf("%s · %s · tolerance ±%g ¢", plural(len(entries), "held note"), when, opt.Tolerance)
 	if len(groups) == 1 {
 		return [2]string{groups[0].Title(), sub}
 	}
@@ -160,9 +160,11 @@ func band(p *plot.Plot, tol float64, vertical bool, height float64) {
 	}
 }
 
-// roomForLegend raises the top of the y axis so that a legend of n lines,
-// top right, does not cover the data.
-func roomForLegend(p *plot.Plot, n int) {
+// fitBand makes the y axis show the tolerance band with some room beyond,
+// and raises its top so that a legend of n lines, top right, does not cover
+// the data.
+func fitBand(p *plot.Plot, tol float64, n int) {
+	p.Y.Min, p.Y.Max = math.Min(p.Y.Min, -1.6*tol), math.Max(p.Y.Max, 1.6*tol)
 	if n > 1 {
 		p.Y.Max += (p.Y.Max - p.Y.Min) * 0.07 * float64(n)
 	}
@@ -215,7 +217,7 @@ func notesPanel(groups []Group, opt Options) (*plot.Plot, error) {
 			p.Legend.Add(g.Title(), pts)
 		}
 	}
-	roomForLegend(p, len(groups))
+	fitBand(p, opt.Tolerance, len(groups))
 	return p, nil
 }
 
@@ -284,7 +286,7 @@ func timePanel(entries []journal.Entry, groups []Group, opt Options) (*plot.Plot
 			}
 		}
 	}
-	roomForLegend(p, 2)
+	fitBand(p, opt.Tolerance, 2)
 	return p, nil
 }
 
@@ -308,6 +310,7 @@ func histogramPanel(entries []journal.Entry, opt Options) (*plot.Plot, error) {
 	}
 	p.Add(h)
 	band(p, opt.Tolerance, true, tallest)
+	p.X.Min, p.X.Max = math.Min(p.X.Min, -1.6*opt.Tolerance), math.Max(p.X.Max, 1.6*opt.Tolerance)
 	return p, nil
 }
 

@@ -35,7 +35,7 @@ func WriteText(w io.Writer, groups []Group, opt Options) error {
 		if i > 0 {
 			fmt.Fprintln(w)
 		}
-		fmt.Fprintf(w, "%s — %d notes, %s\n", g.Title(), g.All.Count, g.All.Trend.Words)
+		fmt.Fprintf(w, "%s — %s, %s\n", g.Title(), plural(g.All.Count, "note"), g.All.Trend.Words)
 		tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 		fmt.Fprintf(tw, "note\tcount\tmean ¢\tmedian ¢\tspread ¢\twithin ±%s ¢\ttendency\tnearer other spelling\ttrend\n", tol)
 		for _, s := range g.Notes {
@@ -98,6 +98,14 @@ func WriteJSON(w io.Writer, groups []Group, opt Options) error {
 		Tolerance float64 `json:"tolerance_cents"`
 		Groups    []Group `json:"groups"`
 	}{opt.Tolerance, groups})
+}
+
+// plural counts things in words: "1 note", "4 notes".
+func plural(n int, thing string) string {
+	if n == 1 {
+		return "1 " + thing
+	}
+	return strconv.Itoa(n) + " " + thing + "s"
 }
 
 // fixed formats x with the given decimals, never as "-0.0".
