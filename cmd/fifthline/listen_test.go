@@ -1,0 +1,257 @@
+package main
+
+import (
+	"bufio"
+	"bytes"
+	"fmt"
+	"math"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"strconv"
+	"strings"
+	"sync"
+	"testing"
+	"time"
+
+	"fifthline/internal/vmic"
+)
+
+// The built command, for tests that run it as a user would (in tmux, on the
+// virtual microphone). It is built once per test binary, on first use.
+var built struct {
+	once sync.Once
+	dir  string
+	path string
+	err  error
+}
+
+func TestMain(m *testing.M) {
+	code := m.Run()
+	if built.dir != "" {
+		os.RemoveAll(built.dir)
+	}
+	os.Exit(code)
+}
+
+// fifthlineBinary builds the command once and returns its path.
+func fifthlineBinary(t testing.TB) string {
+	t.Helper()
+	built.once.Do(func() {
+		if built.dir, built.err = os.MkdirTemp("", "fifthline-bin-"); built.err != nil {
+			return
+		}
+		built.path = filepath.Join(built.dir, "fifthline")
+		out, err := exec.Command("go", "build", "-o", built.path, ".").CombinedOutput()
+		if err != nil {
+			built.err = fmt.Errorf("go build: %v\n%s", err, out)
+		}
+	})
+	if built.err != nil {
+		t.Fatal(built.err)
+	}
+	return built.path
+}
+
+// Reference pitches in ¼-comma meantone at A4 = 415 Hz, from its
+// definition: every fifth is 5^(1/4) (four fifths make a pure 5/4 third two
+// octaves up; the published definition of quarter-comma meantone). F♯4 is
+// three fifths above A4, G♭4 nine fifths below; they lie a lesser diesis,
+// 128/125 = 41.06 ¢, apart (handbook value).
+var (
+	qcFifth   = math.Pow(5, 0.25)
+	qcFSharp4 = 415 * math.Pow(qcFifth, 3) / 4 // 346.909 Hz
+	qcGFlat4  = 415 / math.Pow(qcFifth, 9) * 32 // 355.235 Hz
+	diesis    = 1200 * math.Log2(128.0/125)     // 41.059 ¢
+)
+
+// toneWAV writes tones with sox, the reference signal generator (Debian
+// sox; its synth frequency is the reference pitch): half a second of
+// silence, then each tone for two seconds with a second of silence after,
+// at -12 dBFS.
+func toneWAV(t *testing.T, hz ...float64) string {
+	t.Helper()
+	dir := t.TempDir()
+	var parts []string
+	for i, f := range hz {
+		p := filepath.Join(dir, fmt.Sprintf("tone%d.wav", i))
+		pad := "0"
+		if i == 0 {
+			pad = "0.5"
+		}
+		out, err := exec.Command("sox", "-n", "-r", "48000", "-c", "1", "-b", "16", p,
+			"synth", "2", "sine", strconv.FormatFloat(f, 'f', 4, 64), "gain", "-12", "pad", pad, "1").CombinedOutput()
+		if err != nil {
+			t.Fatalf("sox: %v\n%s", err, out)
+		}
+		parts = append(parts, p)
+	}
+	all := filepath.Join(dir, "tones.wav")
+	if out, err := exec.Command("sox", append(parts, all)...).CombinedOutput(); err != nil {
+		t.Fatalf("sox: %v\n%s", err, out)
+	}
+	return all
+}
+
+// startPlain starts `listen --plain` and returns once its CSV header is out
+// (the input stream is running), with a func that waits for the rest.
+func startPlain(t *testing.T, env []string, args ...string) (wait func() (code int, csv, stderr string)) {
+	t.Helper()
+	cmd := exec.Command(fifthlineBinary(t), append([]string{"listen", "--plain"}, args...)...)
+	cmd.Env = append(os.Environ(), env...)
+	var stderr bytes.Buffer
+	cmd.Stderr = &stderr
+	out, err := cmd.StdoutPipe()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := cmd.Start(); err != nil {
+		t.Fatal(err)
+	}
+	t.Cleanup(func() { _ = cmd.Process.Kill() })
+	r := bufio.NewReader(out)
+	header, err := r.ReadString('\n')
+	if err != nil {
+		_ = cmd.Wait()
+		t.Fatalf("listen --plain gave no header: %v; stderr %q", err, stderr.String())
+	}
+	return func() (int, string, string) {
+		rest, _ := r.ReadString(0)
+		_ = cmd.Wait()
+		return cmd.ProcessState.ExitCode(), header + rest, stderr.String()
+	}
+}
+
+func near(t *testing.T, what, got string, want, tol float64) {
+	t.Helper()
+	v, err := strconv.ParseFloat(got, 64)
+	if err != nil || math.Abs(v-want) > tol {
+		t.Errorf("%s = %s, want %.2f ± %g", what, got, want, tol)
+	}
+}
+
+// privateMic is a virtual microphone of the test's own: a PulseAudio null
+// sink (on the daemon vmic.Ensure runs) whose monitor the command records
+// through PortAudio and the ALSA pulse plugin, chosen with PULSE_SOURCE.
+// Other tests playing into the shared virtual microphone at the same time
+// cannot leak into it. play plays a file into it and waits.
+func privateMic(t *testing.T) (sink string, env []string, play func(wav string)) {
+	t.Helper()
+	vmic.Ensure(t)
+	sink = fmt.Sprintf("fifthline_test_%d_%d", os.Getpid(), time.Now().UnixNano()%1e6)
+	mod, err := exec.Command("pactl", "load-module", "module-null-sink", "sink_name="+sink, "rate=48000").Output()
+	if err != nil {
+		t.Fatalf("pactl load-module: %v", err)
+	}
+	t.Cleanup(func() { _ = exec.Command("pactl", "unload-module", strings.TrimSpace(string(mod))).Run() })
+	return sink, []string{"PULSE_SOURCE=" + sink + ".monitor"}, func(wav string) {
+		t.Helper()
+		if out, err := exec.Command("paplay", "--device="+sink, wav).CombinedOutput(); err != nil {
+			t.Fatalf("paplay: %v %s", err, out)
+		}
+	}
+}
+
+func TestListenPlainHearsSpelledTonesThroughTheVirtualMicrophone(t *testing.T) {
+	t.Parallel()
+	_, env, play := privateMic(t)
+	wav := toneWAV(t, qcFSharp4, qcGFlat4)
+	journal := filepath.Join(t.TempDir(), "rehearsal.csv")
+	wait := startPlain(t, env, "--duration", "9s", "--key", "C major", "--temperament", "meantone:1/4", "--a4", "415", "--log", journal)
+	play(wav)
+	code, out, stderr := wait()
+	if code != 0 || stderr != "" {
+		t.Errorf("exit %d, stderr %q", code, stderr)
+	}
+	_, rows := readCSV(t, out)
+	if len(rows) != 2 {
+		t.Fatalf("want 2 held notes, got:\n%s", out)
+	}
+	// The F♯ tone reads as F♯4 on its target, G♭4 a diesis above it.
+	if r := rows[0]; r["note"] != "F#4" || r["alt_note"] != "Gb4" {
+		t.Errorf("first tone read as %s (alt %s)", r["note"], r["alt_note"])
+	}
+	near(t, "F♯ tone cents", rows[0]["cents"], 0, 1)
+	near(t, "F♯ tone alt_cents", rows[0]["alt_cents"], -diesis, 1)
+	// The G♭ tone lies outside C major's window: it reads as F♯4 a diesis
+	// sharp, sitting on G♭4.
+	if r := rows[1]; r["note"] != "F#4" || r["alt_note"] != "Gb4" {
+		t.Errorf("second tone read as %s (alt %s)", r["note"], r["alt_note"])
+	}
+	near(t, "G♭ tone cents", rows[1]["cents"], diesis, 1)
+	near(t, "G♭ tone alt_cents", rows[1]["alt_cents"], 0, 1)
+	// Seconds from the start of capture: the tones are 3 s apart in the file.
+	s0, _ := strconv.ParseFloat(rows[0]["start_s"], 64)
+	s1, _ := strconv.ParseFloat(rows[1]["start_s"], 64)
+	near(t, "gap between onsets", strconv.FormatFloat(s1-s0, 'f', 3, 64), 3, 0.1)
+	if data, err := os.ReadFile(journal); err != nil || strings.Count(string(data), "F#4") != 2 {
+		t.Errorf("--log journal has not both notes (%v):\n%s", err, data)
+	}
+}
+
+func TestListenDurationStopsCleanlyWithTheHeaderWritten(t *testing.T) {
+	t.Parallel()
+	_, env, _ := privateMic(t)
+	start := time.Now()
+	code, out, stderr := startPlain(t, env, "--duration", "1s")()
+	if code != 0 || stderr != "" || !strings.HasPrefix(out, "start_s,end_s,note,hz,target_hz,cents,alt_note,alt_cents") {
+		t.Errorf("exit %d, stderr %q, stdout %q", code, stderr, out)
+	}
+	if d := time.Since(start); d > 8*time.Second {
+		t.Errorf("--duration 1s took %v", d)
+	}
+}
+
+// A vanished input: the private microphone's sink is suspended mid-session,
+// so its monitor stops delivering. The note already heard
+// is kept; the error is one line; the exit status 1.
+func TestListenKeepsWhatItHeardWhenTheDeviceVanishes(t *testing.T) {
+	t.Parallel()
+	sink, env, play := privateMic(t)
+	wait := startPlain(t, env, "--duration", "20s", "--key", "C major", "--temperament", "meantone:1/4", "--a4", "415")
+	play(toneWAV(t, qcFSharp4))
+	if out, err := exec.Command("pactl", "suspend-sink", sink, "1").CombinedOutput(); err != nil {
+		t.Fatalf("pactl suspend-sink: %v %s", err, out)
+	}
+	code, out, stderr := wait()
+	checkError(t, code, 1, stderr)
+	if !strings.Contains(stderr, "input device lost") {
+		t.Errorf("stderr %q does not say the device was lost", stderr)
+	}
+	if _, rows := readCSV(t, out); len(rows) != 1 || rows[0]["note"] != "F#4" {
+		t.Errorf("the note heard before the loss is not kept:\n%s", out)
+	}
+}
+
+func TestListenUsageErrors(t *testing.T) {
+	for _, args := range [][]string{
+		{"listen", "--channel", "0"},
+		{"listen", "--duration", "-1s"},
+		{"listen", "--duration", "soon"},
+		{"listen", "take.wav"},
+		{"listen", "--key", "H"},
+		{"demo", "--temperament", "edo:0"},
+		{"demo", "extra"},
+		{"devices", "extra"},
+	} {
+		code, _, stderr := runCLI(t, args...)
+		checkError(t, code, 2, stderr)
+	}
+}
+
+func TestListenOnAMissingDeviceIsAOneLineError(t *testing.T) {
+	vmic.Ensure(t)
+	code, out, stderr := runCLI(t, "listen", "--plain", "--device", "no-such-interface")
+	checkError(t, code, 1, stderr)
+	if out != "" {
+		t.Errorf("stdout %q", out)
+	}
+}
+
+func TestDevicesMarksTheDefaultInput(t *testing.T) {
+	vmic.Ensure(t)
+	code, out, stderr := runCLI(t, "devices")
+	if code != 0 || !strings.Contains(out, "default input") || !strings.HasPrefix(out, "index") {
+		t.Errorf("exit %d, stderr %q:\n%s", code, stderr, out)
+	}
+}
