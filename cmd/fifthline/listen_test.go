@@ -60,7 +60,7 @@ func fifthlineBinary(t testing.TB) string {
 // 128/125 = 41.06 ¢, apart (handbook value).
 var (
 	qcFifth   = math.Pow(5, 0.25)
-	qcFSharp4 = 415 * math.Pow(qcFifth, 3) / 4 // 346.909 Hz
+	qcFSharp4 = 415 * math.Pow(qcFifth, 3) / 4  // 346.909 Hz
 	qcGFlat4  = 415 / math.Pow(qcFifth, 9) * 32 // 355.235 Hz
 	diesis    = 1200 * math.Log2(128.0/125)     // 41.059 ¢
 )
