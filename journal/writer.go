@@ -2,6 +2,7 @@ package journal
 
 import (
 	"bytes"
+	"cmp"
 	"crypto/rand"
 	"encoding/csv"
 	"encoding/hex"
@@ -27,6 +28,10 @@ const (
 	syncAfter = 5 * time.Second
 )
 
+// errNotOpen stands in when the journal could not be opened: the opening
+// failure is already kept and is the one reported.
+var errNotOpen = errors.New("journal not open")
+
 // Meta is what a session says about itself in every line.
 type Meta struct {
 	Player  string
@@ -44,15 +49,48 @@ type Writer struct {
 	opened  time.Time
 	regular bool
 
-	mu       sync.Mutex
+	mu       sync.Mutex // the file: held through a write or an fsync
 	f        *os.File
 	run      runClock
-	written  int
-	lost     int
-	err      error // first failure
-	torn     bool  // the last write stopped mid-line
+	torn     bool // the last write stopped mid-line
 	unsynced int
 	lastSync time.Time
+
+	tally tally // what Status shows, never waiting on the disk
+}
+
+// tally counts notes and keeps the first failure.
+type tally struct {
+	sync.Mutex
+	written, lost int
+	err           error
+}
+
+// count records one note written (err nil) or lost, and returns the first
+// failure so far.
+func (t *tally) count(err error) error {
+	t.Lock()
+	defer t.Unlock()
+	if err != nil {
+		t.lost++
+		t.err = cmp.Or(t.err, err)
+	} else {
+		t.written++
+	}
+	return t.err
+}
+
+// fail keeps the first failure without counting a note.
+func (t *tally) fail(err error) {
+	t.Lock()
+	defer t.Unlock()
+	t.err = cmp.Or(t.err, err)
+}
+
+func (t *tally) get() (written, lost int, err error) {
+	t.Lock()
+	defer t.Unlock()
+	return t.written, t.lost, t.err
 }
 
 // Open opens the journal at path for appending, creating it with its header
@@ -79,7 +117,7 @@ func Open(path string, m Meta) (*Writer, error) {
 	}
 	if err != nil {
 		if degradable(err) {
-			w.fail(fmt.Errorf("cannot open %s: %w", path, unwrapPath(err)))
+			w.tally.fail(fmt.Errorf("cannot open %s: %w", path, unwrapPath(err)))
 			return w, nil
 		}
 		return nil, fmt.Errorf("journal %s: %v", path, unwrapPath(err))
@@ -89,7 +127,7 @@ func Open(path string, m Meta) (*Writer, error) {
 		f.Close()
 		if degradable(err) {
 			w.f = nil
-			w.fail(fmt.Errorf("cannot write %s: %w", path, unwrapPath(err)))
+			w.tally.fail(fmt.Errorf("cannot write %s: %w", path, unwrapPath(err)))
 			return w, nil
 		}
 		return nil, err
@@ -151,19 +189,16 @@ func (w *Writer) Write(ev session.Event) error {
 	w.mu.Lock()
 	defer w.mu.Unlock()
 	if w.f == nil {
-		w.lost++
-		return w.err
+		return w.tally.count(errNotOpen)
 	}
 	line := w.line(ev)
 	if w.torn {
 		line = append([]byte("\n"), line...)
 	}
 	if err := w.writeAll(line); err != nil {
-		w.lost++
-		w.fail(fmt.Errorf("cannot write %s: %w", w.path, unwrapPath(err)))
-		return w.err
+		return w.tally.count(fmt.Errorf("cannot write %s: %w", w.path, unwrapPath(err)))
 	}
-	w.written++
+	w.tally.count(nil)
 	w.unsynced++
 	if now := w.meta.Now(); w.unsynced >= syncEvery || now.Sub(w.lastSync) >= syncAfter {
 		w.sync(now)
@@ -185,14 +220,7 @@ func (w *Writer) writeAll(b []byte) error {
 func (w *Writer) sync(now time.Time) {
 	w.unsynced, w.lastSync = 0, now
 	if err := w.f.Sync(); err != nil && w.regular {
-		w.fail(fmt.Errorf("cannot save %s to disk: %w", w.path, unwrapPath(err)))
-	}
-}
-
-// fail keeps the first failure.
-func (w *Writer) fail(err error) {
-	if w.err == nil {
-		w.err = err
+		w.tally.fail(fmt.Errorf("cannot save %s to disk: %w", w.path, unwrapPath(err)))
 	}
 }
 
@@ -222,20 +250,19 @@ func (w *Writer) line(ev session.Event) []byte {
 }
 
 // Status is one line for a meter: where the notes go, or why they do not.
+// It never waits for the disk.
 func (w *Writer) Status() string {
-	w.mu.Lock()
-	defer w.mu.Unlock()
-	if w.err != nil {
-		return fmt.Sprintf("journal: %v — %d not logged", w.err, w.lost)
+	written, lost, err := w.tally.get()
+	if err != nil {
+		return fmt.Sprintf("journal: %v — %d not logged", err, lost)
 	}
-	return fmt.Sprintf("journal: %d notes → %s", w.written, w.path)
+	return fmt.Sprintf("journal: %d notes → %s", written, w.path)
 }
 
 // Err is the first failure, or nil.
 func (w *Writer) Err() error {
-	w.mu.Lock()
-	defer w.mu.Unlock()
-	return w.err
+	_, _, err := w.tally.get()
+	return err
 }
 
 // Close syncs and closes the file. It reports any failure during the
@@ -246,12 +273,12 @@ func (w *Writer) Close() error {
 	if w.f != nil {
 		w.sync(w.meta.Now())
 		if err := w.f.Close(); err != nil {
-			w.fail(fmt.Errorf("cannot close %s: %w", w.path, unwrapPath(err)))
+			w.tally.fail(fmt.Errorf("cannot close %s: %w", w.path, unwrapPath(err)))
 		}
 		w.f = nil
 	}
-	if w.err != nil {
-		return fmt.Errorf("journal: %v (%d of %d notes not logged)", w.err, w.lost, w.lost+w.written)
+	if written, lost, err := w.tally.get(); err != nil {
+		return fmt.Errorf("journal: %v (%d of %d notes not logged)", err, lost, lost+written)
 	}
 	return nil
 }
