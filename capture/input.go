@@ -105,7 +105,7 @@ func OpenInput(opts InputOptions) (*Input, error) {
 }
 
 func openInput(opts InputOptions) (*Input, error) {
-	dev, err := pickDevice(opts.Device)
+	dev, defIn, err := pickDevice(opts.Device)
 	if err != nil {
 		return nil, err
 	}
@@ -114,7 +114,7 @@ func openInput(opts InputOptions) (*Input, error) {
 		return nil, fmt.Errorf("input %q has %d channel(s); channel %d requested", dev.Name, dev.MaxInputChannels, opts.Channel)
 	}
 	in := &Input{
-		device:   deviceInfo(dev, nil, nil),
+		device:   deviceInfo(dev, defIn, nil),
 		channel:  channel,
 		channels: channel,
 		stall:    orDefault(opts.StallTimeout, 2*time.Second),
@@ -139,7 +139,7 @@ func openInput(opts InputOptions) (*Input, error) {
 			return fmt.Errorf("input %q cannot record at %v Hz: %w", dev.Name, rates[len(rates)-1], err)
 		}
 		in.rate = p.SampleRate
-		in.ring = newRing(int(in.rate * orDefault(opts.Buffer, 2*time.Second).Seconds()))
+		in.ring = newRing(max(2*framesPerBlock, int(in.rate*orDefault(opts.Buffer, 2*time.Second).Seconds())))
 		if in.stream, err = portaudio.OpenStream(p, in.callback); err != nil {
 			return fmt.Errorf("input %q: %w", dev.Name, err)
 		}
@@ -166,16 +166,17 @@ func orDefault[T comparable](v, def T) T {
 	return v
 }
 
-// pickDevice resolves InputOptions.Device to an input-capable device.
-func pickDevice(want string) (*portaudio.DeviceInfo, error) {
-	var found *portaudio.DeviceInfo
-	err := QuietStderr(func() error {
+// pickDevice resolves InputOptions.Device to an input-capable device; it
+// also says which device is the default input, if any.
+func pickDevice(want string) (found, defIn *portaudio.DeviceInfo, err error) {
+	err = QuietStderr(func() error {
+		var err error
+		defIn, err = portaudio.DefaultInputDevice()
 		if want == "" {
-			d, err := portaudio.DefaultInputDevice()
-			if err != nil || d == nil {
+			if err != nil || defIn == nil {
 				return fmt.Errorf("%w: no default input device (%v)", ErrNoDevice, err)
 			}
-			found = d
+			found = defIn
 			return nil
 		}
 		devs, err := portaudio.Devices()
@@ -185,7 +186,7 @@ func pickDevice(want string) (*portaudio.DeviceInfo, error) {
 		found, err = matchDevice(devs, want)
 		return err
 	})
-	return found, err
+	return found, defIn, err
 }
 
 // matchDevice finds an input by index, exact name or a unique part of one.

@@ -8,7 +8,7 @@ import (
 
 // Tone is one note (or rest) of a synthetic performance.
 type Tone struct {
-	Hz           float64 // fundamental frequency; with vibrato, its centre
+	Hz           float64 // fundamental frequency; with vibrato, its centre; not positive: silence
 	Seconds      float64 // length, including the soft attack and release
 	Gain         float64 // 0..1 of the voice's full level (peaks stay under -6 dBFS); 0 means 1
 	VibratoCents float64 // vibrato depth either side of Hz, in cents
@@ -130,28 +130,36 @@ func (p *Performance) sample() float32 {
 		depth := t.VibratoCents * min(1, sec/vibratoOnset)
 		f *= math.Exp2(depth * math.Sin(2*math.Pi*t.VibratoHz*sec) / 1200)
 	}
-	p.phase += f / p.rate
-	p.phase -= math.Floor(p.phase)
 	p.breath += 0.25 * (p.whiteNoise() - p.breath)
 
 	var v float64
-	if !t.Rest {
+	if !t.Rest && f > 0 && f < p.rate { // a bad frequency (NaN too) is a rest, not noise
+		p.phase += f / p.rate
+		p.phase -= math.Floor(p.phase)
 		for k, a := range voiceHarmonics {
 			if float64(k+1)*f >= p.rate/2 {
 				break // above Nyquist it would alias
 			}
 			v += a * math.Sin(2*math.Pi*float64(k+1)*p.phase)
 		}
-		gain := t.Gain
-		if gain == 0 {
-			gain = 1
-		}
-		v = (v + breathLevel*p.breath) * voiceScale * min(1, max(0, gain)) * p.envelope()
+		v = (v + breathLevel*p.breath) * voiceScale * toneGain(t.Gain) * p.envelope()
 	}
 	if p.at++; p.at >= p.length {
 		p.nextTone()
 	}
 	return float32(v)
+}
+
+// toneGain reads Tone.Gain: 0 is full level, and anything else is held
+// to 0..1 (NaN to silence), so no score can go above the ceiling.
+func toneGain(g float64) float64 {
+	switch {
+	case g == 0:
+		return 1
+	case g > 0:
+		return min(1, g)
+	}
+	return 0
 }
 
 // envelope fades each tone in and out with raised-cosine ramps, each at

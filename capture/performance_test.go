@@ -110,9 +110,14 @@ func TestPerformanceStaysUnderMinus6dBFS(t *testing.T) {
 		Tone{Hz: 2093, Seconds: 0.3, Gain: 1, VibratoCents: 50, VibratoHz: 6},
 		Tone{Hz: 4186, Seconds: 0.2, Gain: 5}, // gain above 1 is held at 1
 		Tone{Hz: 110, Seconds: 0.3, Gain: 1, VibratoCents: 30, VibratoHz: 5},
+		Tone{Hz: 220, Seconds: 0.1, Gain: math.NaN()},
+		Tone{Hz: 220, Seconds: 0.1, Gain: math.Inf(1)},
 	)
 	peak := 0.0
 	for _, v := range x {
+		if math.IsNaN(float64(v)) {
+			t.Fatal("NaN sample")
+		}
 		peak = max(peak, math.Abs(float64(v)))
 	}
 	t.Logf("peak %.4f (%.2f dBFS)", peak, 20*math.Log10(peak))
@@ -152,10 +157,13 @@ func TestPerformanceJoinsNotesWithoutClicks(t *testing.T) {
 	}
 }
 
-// Lengths are exact, rests are silent, and the same score always gives
-// the same samples.
+// Lengths are exact, rests (and tones of no usable frequency) are silent,
+// and the same score always gives the same samples.
 func TestPerformanceLengthsRestsAndRepeatability(t *testing.T) {
-	score := []Tone{{Hz: 440, Seconds: 0.1}, {Rest: true, Seconds: 0.05}, {Hz: 660, Seconds: 0.1}, {Hz: 1, Seconds: 0}}
+	score := []Tone{
+		{Hz: 440, Seconds: 0.1}, {Rest: true, Seconds: 0.02}, {Hz: math.NaN(), Seconds: 0.01},
+		{Hz: -5, Seconds: 0.01}, {Hz: 1e9, Seconds: 0.01}, {Hz: 660, Seconds: 0.1}, {Hz: 1, Seconds: 0},
+	}
 	x := render(t, 48000, score...)
 	if len(x) != 12000 {
 		t.Errorf("rendered %d samples, want 12000 (0.25 s at 48 kHz)", len(x))
