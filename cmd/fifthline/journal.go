@@ -66,7 +66,7 @@ func (j *journalSink) note(ev session.Event) {
 
 func (j *journalSink) warnIfFailed() {
 	if err := j.w.Err(); err != nil && !j.quiet {
-		j.warned.Do(func() { fmt.Fprintf(j.e.stderr, "fifthline: journal: %v — going on without it\n", err) })
+		j.warned.Do(func() { fmt.Fprintf(j.e.stderr, "fifthline: warning: journal: %v — going on without it\n", err) })
 	}
 }
 
