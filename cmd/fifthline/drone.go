@@ -47,11 +47,13 @@ func runDrone(e *env, args []string) error {
 	if err != nil {
 		return err
 	}
-	fmt.Fprintf(e.stderr, "fifthline: caution: keep your headphone or speaker volume low and stop at once if it hurts; peak level %g dBFS, fading in\n", *level)
 	p, err := playback.NewPlayer(playback.Options{Device: *device, Level: *level, Timbre: tb})
 	if err != nil {
 		return err
 	}
+	// Said before any sound, after the device has opened (silently), so a
+	// device error stays the only line.
+	fmt.Fprintf(e.stderr, "fifthline: caution: keep your headphone or speaker volume low and stop at once if it hurts; peak level %g dBFS, fading in\n", *level)
 	fmt.Fprintf(e.stderr, "fifthline: drone %s (%s) on %q · %s; Ctrl-C stops\n", names, hzList(hz), p.Device().Name, tu)
 	p.SetDrone(hz)
 	var timeout <-chan time.Time
