@@ -63,6 +63,7 @@ type Detector struct {
 	fftWin  *fourier.FFT
 	specA   []complex128
 	specB   []complex128
+	haveB   bool // specB holds the previous frame's B spectrum
 	power   []float64
 	scratch []float64
 	fftPad  *fourier.FFT
@@ -119,9 +120,12 @@ func New(sampleRate float64, window, hop int) (*Detector, error) {
 	d.specB = make([]complex128, window/2+1)
 	d.power = make([]float64, window/2+1)
 	d.scratch = make([]float64, window/2+1)
-	d.fftPad = fourier.NewFFT(2 * window)
-	d.padBuf = make([]float64, 2*window)
-	d.padSpec = make([]complex128, window+1)
+	// Linear (not circular) correlation up to maxLag needs window+maxLag
+	// points; FFTPACK is quick for lengths of small factors.
+	pad := fftLength(window + maxLag)
+	d.fftPad = fourier.NewFFT(pad)
+	d.padBuf = make([]float64, pad)
+	d.padSpec = make([]complex128, pad/2+1)
 	d.nsdfOut = make([]float64, maxLag+1)
 	d.Reset()
 	return d, nil
@@ -131,6 +135,7 @@ func New(sampleRate float64, window, hop int) (*Detector, error) {
 func (d *Detector) Reset() {
 	clear(d.ring)
 	d.w, d.fed = 0, 0
+	d.haveB = false
 	d.untilFrame = d.span
 }
 
@@ -181,16 +186,24 @@ func (d *Detector) frame() Estimate {
 	}
 	e.Level = 10 * math.Log10(ss/float64(d.window)+1e-30)
 	if e.Level < silenceDBFS {
+		d.haveB = false
 		return e
 	}
 
 	period, clarity, ok := pickPeriod(d.nsdf(frameB), d.minLag)
 	if !ok || clarity < minClarity/2 {
 		e.Confidence = math.Max(clarity, 0)
+		d.haveB = false
 		return e
 	}
-	d.spectrum(frameA, d.specA)
+	if d.haveB && d.hop == d.lag {
+		// This frame's A is the previous frame's B: reuse its spectrum.
+		d.specA, d.specB = d.specB, d.specA
+	} else {
+		d.spectrum(frameA, d.specA)
+	}
 	d.spectrum(frameB, d.specB)
+	d.haveB = true
 	d.powerSpectrum()
 
 	f, period := d.guard(period)
@@ -307,4 +320,21 @@ func (d *Detector) onsetInSpan() bool {
 type analysis struct {
 	clarity, disagree, coarseHz float64
 	fit                         fit
+}
+
+// fftLength is the smallest length of the form 2^a·3^b·5^c (b, c ≤ 1) not
+// below n.
+func fftLength(n int) int {
+	best := 1
+	for best < n {
+		best *= 2
+	}
+	for _, f := range []int{3, 5, 15} {
+		m := f
+		for m < n {
+			m *= 2
+		}
+		best = min(best, m)
+	}
+	return best
 }
