@@ -164,8 +164,8 @@ func TestInputChoosesDeviceByNameOrIndex(t *testing.T) {
 			t.Errorf("OpenInput(%q): %v", want, err)
 			continue
 		}
-		if in.Device().Name != def.Name {
-			t.Errorf("OpenInput(%q) opened %q, want %q", want, in.Device().Name, def.Name)
+		if in.Device().Name != def.Name || !in.Device().DefaultInput {
+			t.Errorf("OpenInput(%q) opened %+v, want the default input %q", want, in.Device(), def.Name)
 		}
 		in.Close()
 	}
