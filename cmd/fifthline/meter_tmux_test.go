@@ -1,0 +1,153 @@
+package main
+
+import (
+	"fmt"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"regexp"
+	"strings"
+	"testing"
+	"time"
+
+	"github.com/mattn/go-runewidth"
+)
+
+// tmuxMeter is the built command running in a detached tmux session of its
+// own (a private server socket), the way a player's terminal runs it.
+type tmuxMeter struct {
+	t              *testing.T
+	socket, rcFile string
+}
+
+// startTmux runs `fifthline args…` in a w × h tmux window, with env added
+// to its environment; the wrapper writes the command's exit status to a
+// file when it ends.
+func startTmux(t *testing.T, w, h int, env []string, args ...string) *tmuxMeter {
+	t.Helper()
+	if _, err := exec.LookPath("tmux"); err != nil {
+		t.Fatalf("tmux not found (apt-get install tmux): %v", err)
+	}
+	m := &tmuxMeter{t: t, socket: fmt.Sprintf("fifthline-test-%d-%d", os.Getpid(), time.Now().UnixNano()%1e6),
+		rcFile: filepath.Join(t.TempDir(), "exit-status")}
+	quoted := []string{fifthlineBinary(t)}
+	for _, a := range args {
+		quoted = append(quoted, "'"+a+"'")
+	}
+	script := strings.Join(quoted, " ") + "; echo $? > " + m.rcFile
+	session := []string{"new-session", "-d", "-s", "meter", "-x", fmt.Sprint(w), "-y", fmt.Sprint(h)}
+	for _, e := range env {
+		session = append(session, "-e", e)
+	}
+	m.tmux(append(session, script)...)
+	t.Cleanup(func() { _ = exec.Command("tmux", "-L", m.socket, "kill-server").Run() })
+	return m
+}
+
+func (m *tmuxMeter) tmux(args ...string) string {
+	m.t.Helper()
+	out, err := exec.Command("tmux", append([]string{"-L", m.socket}, args...)...).CombinedOutput()
+	if err != nil {
+		m.t.Fatalf("tmux %v: %v\n%s", args, err, out)
+	}
+	return string(out)
+}
+
+func (m *tmuxMeter) screen() string { return m.tmux("capture-pane", "-p", "-t", "meter") }
+
+// waitFor polls the screen until every pattern matches, and returns it.
+func (m *tmuxMeter) waitFor(patterns ...string) string {
+	m.t.Helper()
+	deadline := time.Now().Add(8 * time.Second)
+	for {
+		s := m.screen()
+		missing := ""
+		for _, p := range patterns {
+			if !regexp.MustCompile(p).MatchString(s) {
+				missing = p
+				break
+			}
+		}
+		if missing == "" {
+			return s
+		}
+		if time.Now().After(deadline) {
+			m.t.Fatalf("screen never showed %q:\n%s", missing, s)
+		}
+		time.Sleep(100 * time.Millisecond)
+	}
+}
+
+// exitStatus waits for the command to end and returns its exit status.
+func (m *tmuxMeter) exitStatus() string {
+	m.t.Helper()
+	deadline := time.Now().Add(5 * time.Second)
+	for time.Now().Before(deadline) {
+		if data, err := os.ReadFile(m.rcFile); err == nil && len(data) > 0 {
+			return strings.TrimSpace(string(data))
+		}
+		time.Sleep(50 * time.Millisecond)
+	}
+	m.t.Fatalf("the command did not end:\n%s", m.screen())
+	return ""
+}
+
+// The spelled note and its cents, as the words under the large glyphs say them.
+const heldWords = `[A-G][♯♭𝄪𝄫]?[0-9] is (on its target|[0-9]+\.[0-9] ¢ (sharp ▲|flat ▼))`
+
+func TestDemoMeterInTmux(t *testing.T) {
+	t.Parallel()
+	m := startTmux(t, 80, 24, nil, "demo")
+	// The score's own tuning (G minor, ¼-comma meantone, A4 = 415 Hz).
+	s := m.waitFor(heldWords, `G minor · 1/4-comma meantone · A4 = 415\.0 Hz · concert pitch`, `journal: off`, `\[[A-G][♯♭]?\]`)
+	if !strings.Contains(s, "███") {
+		t.Errorf("no large glyphs:\n%s", s)
+	}
+	m.tmux("send-keys", "-t", "meter", "Right")
+	m.waitFor(`D minor · 1/4-comma meantone`, `key D minor \(1 flat\)`)
+	m.tmux("send-keys", "-t", "meter", "t")
+	m.waitFor(`D minor · 1/6-comma meantone`)
+	m.tmux("send-keys", "-t", "meter", "Up")
+	m.waitFor(`A4 = 416\.0 Hz`)
+	m.tmux("send-keys", "-t", "meter", "?")
+	m.waitFor(`fifthline meter — keys`, `tonic one fifth up the line`)
+	m.tmux("send-keys", "-t", "meter", "Escape")
+	m.waitFor(`from ET`, heldWords)
+
+	for _, size := range [][2]int{{100, 30}, {60, 18}, {80, 24}} {
+		m.tmux("resize-window", "-t", "meter", "-x", fmt.Sprint(size[0]), "-y", fmt.Sprint(size[1]))
+		s := m.waitFor(`D minor · 1/6-comma`, heldWords)
+		lines := strings.Split(strings.TrimRight(s, "\n"), "\n")
+		if len(lines) > size[1] {
+			t.Errorf("%dx%d: %d lines", size[0], size[1], len(lines))
+		}
+		for _, l := range lines {
+			if runewidth.StringWidth(l) > size[0] {
+				t.Errorf("%dx%d: line wider than the window: %q", size[0], size[1], l)
+			}
+		}
+	}
+
+	m.tmux("send-keys", "-t", "meter", "q")
+	if rc := m.exitStatus(); rc != "0" {
+		t.Errorf("q: exit status %s, want 0", rc)
+	}
+}
+
+func TestListenMeterInTmuxShowsTheOtherSpellingAndTheInput(t *testing.T) {
+	t.Parallel()
+	_, env, play := privateMic(t)
+	m := startTmux(t, 80, 24, env, "listen", "--key", "C major", "--temperament", "meantone:1/4", "--a4", "415")
+	m.waitFor(`listening to default`, `lost: 0 overflows, 0 dropped`)
+	play(toneWAV(t, qcGFlat4))
+	// The G♭ tone, read in C major: F♯4 a diesis sharp, sitting on G♭4,
+	// which stands at the left end of the line (it lies below E♭).
+	s := m.waitFor(`last note: F♯4 is 41\.[01] ¢ sharp ▲ · sits on G♭4 \((−0\.1|0\.0|\+0\.1) ¢\)`, `◂ \[G♭4\]`, `input +(silent|−[0-9]+ dBFS)`)
+	if strings.Contains(s, "CLIPPING") {
+		t.Errorf("a −12 dBFS tone reported as clipping:\n%s", s)
+	}
+	m.tmux("send-keys", "-t", "meter", "q")
+	if rc := m.exitStatus(); rc != "0" {
+		t.Errorf("q: exit status %s, want 0", rc)
+	}
+}
