@@ -130,6 +130,10 @@ func Open(path string, m Meta) (*Writer, error) {
 			w.tally.fail(fmt.Errorf("cannot write %s: %w", path, unwrapPath(err)))
 			return w, nil
 		}
+		var pe *fs.PathError
+		if errors.As(err, &pe) {
+			err = fmt.Errorf("journal %s: %v", path, pe.Err)
+		}
 		return nil, err
 	}
 	return w, nil

@@ -75,13 +75,14 @@ func runReport(e *env, args []string) error {
 	return report.PlotFile(*plotPath, entries, groups, opt)
 }
 
+// filterWords says which filters left nothing: " by Ann, in G major, since 2026-03-14".
 func filterWords(f report.Filter, since string) string {
 	var w []string
 	if f.Player != "" {
-		w = append(w, "player "+f.Player)
+		w = append(w, "by "+f.Player)
 	}
 	if f.Key != "" {
-		w = append(w, "key "+f.Key)
+		w = append(w, "in "+f.Key)
 	}
 	if since != "" {
 		w = append(w, "since "+since)
@@ -89,5 +90,5 @@ func filterWords(f report.Filter, since string) string {
 	if len(w) == 0 {
 		return ""
 	}
-	return " for " + strings.Join(w, ", ")
+	return " " + strings.Join(w, ", ")
 }
