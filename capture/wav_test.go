@@ -1,6 +1,7 @@
 package capture
 
 import (
+	"bytes"
 	"encoding/binary"
 	"errors"
 	"io"
@@ -243,6 +244,34 @@ func TestWAVEndsWithEOF(t *testing.T) {
 	for range 2 {
 		if n, err := s.Read(buf); n != 0 || err != io.EOF {
 			t.Fatalf("Read at end = %d, %v; want 0, io.EOF", n, err)
+		}
+	}
+}
+
+// sox writes float as plain WAVE_FORMAT_IEEE_FLOAT; the same samples behind
+// an extensible header (sub-format IEEE float) must read the same, and sox
+// reads the rebuilt file to the same samples too.
+func TestWAVExtensibleFloat(t *testing.T) {
+	dir := t.TempDir()
+	plain, err := os.ReadFile(soxFile(t, dir, "plain.wav", []string{"-r", "44100", "-e", "floating-point", "-b", "32", "-c", "2"}, "0.1", "sine", "440", "sine", "550"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	at := bytes.Index(plain, []byte("data"))
+	ext := filepath.Join(dir, "extensible.wav")
+	if err := os.WriteFile(ext, wavBytes(tagExtensible, 2, 44100, 32, tagFloat, nil, plain[at+8:]), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	for ch := 1; ch <= 2; ch++ {
+		w, err := OpenWAVChannel(ext, ch)
+		if err != nil {
+			t.Fatal(err)
+		}
+		got := readAll(t, w, 1000)
+		w.Close()
+		want := soxSamples(t, filepath.Join(dir, "plain.wav"), ch)
+		if w.Encoding() != "32-bit float" || len(got) != 4410 || maxDiff(got, want) != 0 || maxDiff(soxSamples(t, ext, ch), want) != 0 {
+			t.Errorf("channel %d: %s, %d samples; want 32-bit float, 4410 samples equal to sox's", ch, w.Encoding(), len(got))
 		}
 	}
 }
