@@ -29,7 +29,7 @@ type Source interface {
 // solved by recursive least squares instead of LMS).
 //
 // The memory starts short, so the canceller locks on within a fraction of a
-// second and follows the drone's fade, and lengthens with age to Memory
+// second (the first 0.15 s it delivers as silence) and follows the drone's fade, and lengthens with age to Memory
 // (2 s by default). With memory τ the removal acts as a notch about
 // 1/(2πτ) Hz wide on each side of each partial (0.08 Hz at 2 s): a player's
 // note a few cents away from a drone partial, or moving through it, is left
@@ -52,6 +52,7 @@ type Canceller struct {
 	follow  func() []float64
 	current []float64
 	fit     lsq
+	quiet   int // samples still to be silenced while the first fit locks on
 }
 
 // partial is one tracked sinusoid: it is Re(a·ph), ph the unit phasor.
@@ -76,12 +77,16 @@ const (
 	leaveTime = 1.5
 	// chunk is the most samples between two solutions of the fit.
 	chunk = 256
+	// lockTime is how long the output is silent at the start: the first
+	// fits are rough, and their leftovers would be read as a note.
+	lockTime = 0.15
 )
 
 // Cancel removes the partials (hertz) from src. Partials at or above 0.45
 // of src's sample rate are ignored.
 func Cancel(src Source, partials []float64) *Canceller {
 	c := &Canceller{src: src, rate: src.SampleRate(), memory: DefaultMemory * src.SampleRate()}
+	c.quiet = int(lockTime * c.rate)
 	c.apply(partials)
 	return c
 }
@@ -178,6 +183,9 @@ func (c *Canceller) process(p []float32) {
 			t.ph *= t.rot
 		}
 		p[i] = float32(x - y)
+		if c.quiet > 0 {
+			p[i], c.quiet = 0, c.quiet-1
+		}
 	}
 	c.age += float64(len(p))
 	for k := range c.parts {

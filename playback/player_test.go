@@ -1,0 +1,126 @@
+package playback_test
+
+import (
+	"context"
+	"errors"
+	"math"
+	"os/exec"
+	"path/filepath"
+	"sync"
+	"testing"
+	"time"
+
+	"fifthline/capture"
+	"fifthline/drone"
+	"fifthline/internal/vmic"
+	"fifthline/playback"
+	"fifthline/session"
+	"fifthline/target"
+)
+
+// The meter's situation on the real audio stack: the Player sounds a drone
+// (G3 and D4, reed timbre) into the virtual microphone's sink while paplay
+// plays a note made by sox (a sawtooth at 246.94 Hz, sox's stated
+// frequency) into the same sink at the same peak level, −18 dBFS. The
+// monitor is read through capture.OpenInput, drone.Cancel following the
+// Player's partials, and the session pipeline. The note is read within 1 ¢
+// of sox's frequency and nothing else is reported: no drone-only notes.
+func TestPlayerDroneIsCancelledFromTheMicrophone(t *testing.T) {
+	vmic.Isolate(t)
+	const noteHz = 246.94 // B3 in equal temperament at A4 = 440 Hz (ISO 16), to 0.01 Hz
+	wav := filepath.Join(t.TempDir(), "note.wav")
+	// sox synth: 2.5 s sawtooth, 50 ms fade in and out, peak −18 dBFS.
+	if out, err := exec.Command("sox", "-n", "-r", "48000", "-c", "1", "-b", "16", wav,
+		"synth", "2.5", "sawtooth", "246.94", "fade", "h", "0.05", "2.5", "0.05", "gain", "-18").CombinedOutput(); err != nil {
+		t.Fatalf("sox: %v\n%s", err, out)
+	}
+
+	p, err := playback.NewPlayer(playback.Options{Timbre: drone.Reed})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer p.Close()
+	in, err := capture.OpenInput(capture.InputOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer in.Close()
+
+	// Equal temperament at A4 = 440 Hz: G3 = 196.00, D4 = 293.66 Hz (ISO 16).
+	p.SetDrone([]float64{440 * math.Exp2(-14.0/12), 440 * math.Exp2(-7.0/12)})
+	// The drone sounds (and settles in the canceller) before the note starts.
+	src := drone.Cancel(in, nil).Follow(p.Partials)
+
+	ctx, cancel := context.WithCancel(context.Background())
+	var mu sync.Mutex
+	var evs []session.Event
+	done := make(chan error, 1)
+	go func() {
+		done <- session.Run(ctx, src, session.Options{
+			Tunings: session.NewTunings(target.Default()),
+			OnNote: func(ev session.Event) error {
+				mu.Lock()
+				evs = append(evs, ev)
+				mu.Unlock()
+				return nil
+			},
+		})
+	}()
+	time.Sleep(2 * time.Second)
+	if err := vmic.Play(t, wav)(); err != nil {
+		t.Fatal(err)
+	}
+	time.Sleep(1500 * time.Millisecond)
+	cancel()
+	if err := <-done; err != nil && !errors.Is(err, context.Canceled) {
+		t.Fatal(err)
+	}
+	mu.Lock()
+	defer mu.Unlock()
+	onNote := 0
+	for _, ev := range evs {
+		c := 1200 * math.Log2(ev.Hz/noteHz)
+		t.Logf("%.2f–%.2f s %s %.3f Hz (%+.3f ¢ from sox's %.2f Hz)", ev.Start, ev.End, ev.Reading.Note, ev.Hz, c, noteHz)
+		if math.Abs(c) <= 1 {
+			onNote++
+		} else {
+			t.Errorf("reported %s at %.3f Hz: not the played note", ev.Reading.Note, ev.Hz)
+		}
+	}
+	if onNote != 1 {
+		t.Errorf("the played note was read %d times within 1 ¢, want once", onNote)
+	}
+}
+
+// What the meter hands the canceller: the drone's partials, and a
+// reference tone's while it lasts.
+func TestPlayerReportsWhatIsSounding(t *testing.T) {
+	vmic.Isolate(t)
+	p, err := playback.NewPlayer(playback.Options{Timbre: drone.Pure, Level: -24, ShareWithReference: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer p.Close()
+	if got := p.Partials(); len(got) != 0 {
+		t.Errorf("silent player reports %v", got)
+	}
+	p.SetDrone([]float64{196, 294})
+	p.Reference(392, 300*time.Millisecond)
+	if got := p.Partials(); len(got) != 3 || got[0] != 196 || got[1] != 294 || got[2] != 392 {
+		t.Errorf("drone and reference: %v, want [196 294 392]", got)
+	}
+	time.Sleep(400 * time.Millisecond)
+	if got := p.Partials(); len(got) != 2 {
+		t.Errorf("after the reference: %v, want [196 294]", got)
+	}
+	p.SetDrone(nil)
+	if got := p.Partials(); len(got) != 0 {
+		t.Errorf("drone off: %v", got)
+	}
+}
+
+func TestPlayerRefusesTooLoud(t *testing.T) {
+	if _, err := playback.NewPlayer(playback.Options{Level: -3}); !errors.Is(err, playback.ErrTooLoud) {
+		t.Errorf("level -3 dBFS: %v, want ErrTooLoud", err)
+	}
+}
