@@ -51,6 +51,12 @@ func Ensure(t testing.TB) string {
 	if started.line == "" {
 		var stderr bytes.Buffer
 		cmd := exec.Command(Script("vmic-start"))
+		// The machine's daemon, even if a test has pointed this process elsewhere.
+		for _, kv := range os.Environ() {
+			if !strings.HasPrefix(kv, "PULSE_SERVER=") && !strings.HasPrefix(kv, "PULSE_SINK=") && !strings.HasPrefix(kv, "PULSE_SOURCE=") {
+				cmd.Env = append(cmd.Env, kv)
+			}
+		}
 		cmd.Stderr = &stderr
 		out, err := cmd.Output()
 		if err != nil {
