@@ -165,6 +165,8 @@ func band(p *plot.Plot, tol float64, vertical bool, height float64) {
 // the data.
 func fitBand(p *plot.Plot, tol float64, n int) {
 	p.Y.Min, p.Y.Max = math.Min(p.Y.Min, -1.6*tol), math.Max(p.Y.Max, 1.6*tol)
+	pad := 0.06 * (p.Y.Max - p.Y.Min) // markers at the extremes stay whole
+	p.Y.Min, p.Y.Max = p.Y.Min-pad, p.Y.Max+pad
 	if n > 1 {
 		p.Y.Max += (p.Y.Max - p.Y.Min) * 0.07 * float64(n)
 	}
@@ -197,7 +199,7 @@ func notesPanel(groups []Group, opt Options) (*plot.Plot, error) {
 			m.XYs = append(m.XYs, plotter.XY{X: x, Y: s.Mean})
 			m.err = append(m.err, s.Spread)
 			counts.XYs = append(counts.XYs, plotter.XY{X: x, Y: s.Mean + s.Spread})
-			counts.Labels = append(counts.Labels, fmt.Sprintf("n %d", s.Count))
+			counts.Labels = append(counts.Labels, countLabel(s))
 		}
 		bars, err := plotter.NewYErrorBars(m)
 		if err != nil {
@@ -218,7 +220,17 @@ func notesPanel(groups []Group, opt Options) (*plot.Plot, error) {
 		}
 	}
 	fitBand(p, opt.Tolerance, len(groups))
+	p.X.Min, p.X.Max = -0.6, float64(len(labels))-0.4
 	return p, nil
+}
+
+// countLabel is the note's count, and how many sat on the other spelling:
+// "n 12", "n 5, 2 on Gb4".
+func countLabel(s Stats) string {
+	if s.NearerAlt > 0 {
+		return fmt.Sprintf("n %d, %d on %s", s.Count, s.NearerAlt, s.AltLabel)
+	}
+	return fmt.Sprintf("n %d", s.Count)
 }
 
 // noteAxis is every spelled note in the groups, along the line of fifths.
@@ -247,19 +259,24 @@ func octaveOf(label string) int {
 }
 
 func timePanel(entries []journal.Entry, groups []Group, opt Options) (*plot.Plot, error) {
-	t0 := entries[0].Time
+	t0, t1 := entries[0].Time, entries[0].Time
 	for _, e := range entries {
-		t0 = minTime(t0, e.Time)
+		t0, t1 = minTime(t0, e.Time), maxTime(t1, e.Time)
 	}
-	p := newPanel("Deviation over the rehearsal, with each trend line", "minutes since the first note", "cents from target")
+	unit, perUnit := timeUnit(t1.Sub(t0))
+	p := newPanel("Deviation over the rehearsal, with each trend line", unit+" since the first note", "cents from target")
 	band(p, opt.Tolerance, false, 0)
 	for gi, g := range groups {
 		var xys plotter.XYs
+		mx := 0.0 // mean time, minutes: the trend line passes through (mx, mean)
 		for _, e := range entries {
 			if g.Holds(e) {
-				xys = append(xys, plotter.XY{X: e.Time.Sub(t0).Minutes(), Y: e.Cents})
+				m := e.Time.Sub(t0).Minutes()
+				xys = append(xys, plotter.XY{X: m / perUnit, Y: e.Cents})
+				mx += m
 			}
 		}
+		mx /= float64(len(xys))
 		pts, err := plotter.NewScatter(xys)
 		if err != nil {
 			return nil, err
@@ -268,16 +285,11 @@ func timePanel(entries []journal.Entry, groups []Group, opt Options) (*plot.Plot
 		pts.GlyphStyle.Radius = vg.Points(3)
 		p.Add(pts)
 		if tr := g.All.Trend; tr.Known {
-			x0 := slices.MinFunc(xys, func(a, b plotter.XY) int { return cmp.Compare(a.X, b.X) }).X
-			my := g.All.Mean
-			mx := 0.0
-			for _, xy := range xys {
-				mx += xy.X / float64(len(xys))
+			first := slices.MinFunc(xys, func(a, b plotter.XY) int { return cmp.Compare(a.X, b.X) }).X * perUnit
+			at := func(m float64) plotter.XY {
+				return plotter.XY{X: m / perUnit, Y: g.All.Mean + tr.SlopePerMinute*(m-mx)}
 			}
-			line, _ := plotter.NewLine(plotter.XYs{
-				{X: x0, Y: my + tr.SlopePerMinute*(x0-mx)},
-				{X: x0 + tr.Minutes, Y: my + tr.SlopePerMinute*(x0+tr.Minutes-mx)},
-			})
+			line, _ := plotter.NewLine(plotter.XYs{at(first), at(first + tr.Minutes)})
 			line.LineStyle.Color, line.LineStyle.Width = plotutil.Color(gi), vg.Points(2)
 			line.LineStyle.Dashes = plotutil.Dashes(gi)
 			p.Add(line)
@@ -288,6 +300,18 @@ func timePanel(entries []journal.Entry, groups []Group, opt Options) (*plot.Plot
 	}
 	fitBand(p, opt.Tolerance, 2)
 	return p, nil
+}
+
+// timeUnit picks the time axis's unit for a span: its name and its length
+// in minutes.
+func timeUnit(span time.Duration) (string, float64) {
+	switch {
+	case span < 2*time.Minute:
+		return "seconds", 1.0 / 60
+	case span < 3*time.Hour:
+		return "minutes", 1
+	}
+	return "hours", 60
 }
 
 func histogramPanel(entries []journal.Entry, opt Options) (*plot.Plot, error) {
