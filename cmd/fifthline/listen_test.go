@@ -135,7 +135,7 @@ func near(t *testing.T, what, got string, want, tol float64) {
 // through PortAudio and the ALSA pulse plugin, chosen with PULSE_SOURCE.
 // Other tests playing into the shared virtual microphone at the same time
 // cannot leak into it. play plays a file into it and waits.
-func privateMic(t *testing.T) (sink string, env []string, play func(wav string)) {
+func privateMic(t testing.TB) (sink string, env []string, play func(wav string)) {
 	t.Helper()
 	vmic.Ensure(t)
 	sink = fmt.Sprintf("fifthline_test_%d_%d", os.Getpid(), time.Now().UnixNano()%1e6)
