@@ -22,7 +22,8 @@ import (
 
 // Sync policy: a line is written (handed to the kernel) as each note ends,
 // so killing the process loses nothing already written; fsync after this
-// many notes or this long, and on Close, bounds what a power cut can take.
+// many notes, or within this long of a note (a background tick), and on
+// Close, bounds what a power cut can take.
 const (
 	syncEvery = 8
 	syncAfter = 5 * time.Second
@@ -57,6 +58,8 @@ type Writer struct {
 	lastSync time.Time
 
 	tally tally // what Status shows, never waiting on the disk
+
+	stop, stopped chan struct{} // the background sync's
 }
 
 // tally counts notes and keeps the first failure.
@@ -124,9 +127,9 @@ func Open(path string, m Meta) (*Writer, error) {
 	}
 	w.f = f
 	if err := w.prepare(); err != nil {
+		w.f = nil
 		f.Close()
 		if degradable(err) {
-			w.f = nil
 			w.tally.fail(fmt.Errorf("cannot write %s: %w", path, unwrapPath(err)))
 			return w, nil
 		}
@@ -136,7 +139,28 @@ func Open(path string, m Meta) (*Writer, error) {
 		}
 		return nil, err
 	}
+	w.stop, w.stopped = make(chan struct{}), make(chan struct{})
+	go w.syncLoop()
 	return w, nil
+}
+
+// syncLoop saves written lines to disk when notes stop coming for a while.
+func (w *Writer) syncLoop() {
+	defer close(w.stopped)
+	tick := time.NewTicker(syncAfter)
+	defer tick.Stop()
+	for {
+		select {
+		case <-w.stop:
+			return
+		case <-tick.C:
+			w.mu.Lock()
+			if w.f != nil && w.unsynced > 0 {
+				w.sync(w.meta.Now())
+			}
+			w.mu.Unlock()
+		}
+	}
 }
 
 // headerLine is the header as written, newline included.
@@ -272,6 +296,11 @@ func (w *Writer) Err() error {
 // Close syncs and closes the file. It reports any failure during the
 // session, with how many notes were not logged.
 func (w *Writer) Close() error {
+	if w.stop != nil {
+		close(w.stop)
+		<-w.stopped
+		w.stop = nil
+	}
 	w.mu.Lock()
 	defer w.mu.Unlock()
 	if w.f != nil {
@@ -285,30 +314,6 @@ func (w *Writer) Close() error {
 		return fmt.Errorf("journal: %v (%d of %d notes not logged)", err, lost, lost+written)
 	}
 	return nil
-}
-
-// runClock places each run of start_s (one file, one capture) on the
-// journal's wall clock. A new run begins when the source changes or start_s
-// goes back; it starts where the last run ended, or at the wall time it
-// really began if that is later (live capture), so files analysed in a row
-// lie end to end and live notes keep their real time.
-type runClock struct {
-	started      bool
-	source       string
-	base, maxEnd float64
-}
-
-func (c *runClock) offset(ev session.Event, wallElapsed float64) float64 {
-	if !c.started || ev.Source != c.source || ev.Start < c.maxEnd-1 {
-		next := c.base + c.maxEnd
-		if !c.started {
-			next = 0
-		}
-		c.base = max(next, wallElapsed-ev.End)
-		c.started, c.source, c.maxEnd = true, ev.Source, 0
-	}
-	c.maxEnd = max(c.maxEnd, ev.End)
-	return c.base
 }
 
 var oneLine = strings.NewReplacer("\r", " ", "\n", " ")

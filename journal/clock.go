@@ -1,0 +1,27 @@
+package journal
+
+import "fifthline/session"
+
+// runClock places each run of start_s (one file, one capture) on the
+// journal's wall clock. A new run begins when the source changes or start_s
+// goes back; it starts where the last run ended, or at the wall time it
+// really began if that is later (live capture), so files analysed in a row
+// lie end to end and live notes keep their real time.
+type runClock struct {
+	started      bool
+	source       string
+	base, maxEnd float64
+}
+
+func (c *runClock) offset(ev session.Event, wallElapsed float64) float64 {
+	if !c.started || ev.Source != c.source || ev.Start < c.maxEnd-1 {
+		next := c.base + c.maxEnd
+		if !c.started {
+			next = 0
+		}
+		c.base = max(next, wallElapsed-ev.End)
+		c.started, c.source, c.maxEnd = true, ev.Source, 0
+	}
+	c.maxEnd = max(c.maxEnd, ev.End)
+	return c.base
+}
