@@ -33,20 +33,21 @@ func Layout(m *Model, w, h int) []Line {
 		return frame(HelpLines(), w, bw, h)
 	}
 	fifths := FifthsRows(m, bw)
-	gap := section{[]Line{nil}, 1, false}
+	gap := func(keep int) section { return section{[]Line{nil}, keep, false} }
 	parts := []section{
 		{[]Line{TuningLine(m)}, 10, false},
-		gap,
+		gap(2),
 		{BigLines(m, bw), 5, false},
 		{[]Line{Words(m)}, 9, false},
-		gap,
+		gap(2),
 		{fifths[:2], 8, false},
 		{fifths[2:], 3, false},
-		gap,
+		gap(2),
 		{Trace(m, bw, minTraceRows), 6, true},
 		{[]Line{HeldLine(m)}, 7, false},
-		gap,
+		gap(1),
 		{[]Line{InputLine(m)}, 9, false},
+		{[]Line{JournalLine(m)}, 8, false},
 		{[]Line{HintLine(m)}, 4, false},
 	}
 	parts = fit(parts, h)

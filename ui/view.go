@@ -249,7 +249,7 @@ func levelBar(db float64) string {
 }
 
 // InputLine is the status line's second part: input level with a clipping
-// warning, the capture's lost-audio counts, and the journal.
+// warning and the capture's lost-audio counts.
 func InputLine(m *Model) Line {
 	lvl := "input silent " + levelBar(math.Inf(-1))
 	if !math.IsInf(m.Level, -1) && !math.IsNaN(m.Level) {
@@ -269,8 +269,12 @@ func InputLine(m *Model) Line {
 	if m.Dropped > 0 {
 		l = append(l, text(fmt.Sprintf(" · screen skipped %d frames", m.Dropped), Dim))
 	}
-	return append(l, text(" · "+m.Journal, Plain))
+	return l
 }
+
+// JournalLine is the journal's state: "journal: off", or how many notes it
+// holds and where.
+func JournalLine(m *Model) Line { return plain(m.Journal) }
 
 // HintLine is the last key's effect, or the keys.
 func HintLine(m *Model) Line {

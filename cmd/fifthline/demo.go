@@ -42,18 +42,14 @@ func runDemo(e *env, args []string) error {
 	if err != nil {
 		return err
 	}
-	e, restore, err := muteLibraries(e)
+	e, j, restore, err := startHearing(e, jf)
 	if err != nil {
 		return err
 	}
 	defer restore()
-	j, err := jf.open(e)
-	if err != nil {
-		return err
-	}
 	src := capture.NewPerformance(demoRate, demoScoreTones(score), true)
 	opts := session.Options{Name: "demo", Tunings: session.NewTunings(tu)}
-	err = runMeter(e.ctx, src, opts, j, meterSource{name: "the demo performance"})
+	err = runMeter(e.ctx, src, opts, j, meterSource{name: "the demo performance", journal: jf.log})
 	return errors.Join(stopped(err), j.close())
 }
 

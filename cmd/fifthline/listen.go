@@ -6,7 +6,9 @@ import (
 	"errors"
 	"fmt"
 	"os"
+	"path/filepath"
 	"strconv"
+	"strings"
 	"time"
 
 	"golang.org/x/sys/unix"
@@ -50,15 +52,11 @@ func runListen(e *env, args []string) error {
 		ctx, cancel = context.WithTimeout(ctx, *duration)
 		defer cancel()
 	}
-	e, restore, err := muteLibraries(e)
+	e, j, restore, err := startHearing(e, jf)
 	if err != nil {
 		return err
 	}
 	defer restore()
-	j, err := jf.open(e)
-	if err != nil {
-		return err
-	}
 	in, err := capture.OpenInput(capture.InputOptions{Device: *device, Channel: *channel})
 	if err != nil {
 		return errors.Join(err, j.close())
@@ -67,7 +65,7 @@ func runListen(e *env, args []string) error {
 	if *plain {
 		err = listenPlain(ctx, e, in, opts, j)
 	} else {
-		err = runMeter(ctx, in, opts, j, meterSource{name: in.Device().Name, stats: in.Stats})
+		err = runMeter(ctx, in, opts, j, meterSource{name: in.Device().Name, stats: in.Stats, journal: jf.log})
 	}
 	// Close before reporting: the journal and the device keep what was heard.
 	return errors.Join(stopped(err), in.Close(), j.close())
@@ -99,8 +97,9 @@ func listenPlain(ctx context.Context, e *env, src capture.Source, opts session.O
 
 // meterSource is what the meter says about the sound it is fed.
 type meterSource struct {
-	name  string
-	stats func() capture.InputStats // nil without a device
+	name    string
+	stats   func() capture.InputStats // nil without a device
+	journal string                    // the --log path, if any
 }
 
 // runMeter shows the meter fed by src until q, the end of ctx, or a failing
@@ -109,7 +108,7 @@ func runMeter(ctx context.Context, src capture.Source, opts session.Options, j *
 	j.quiet = true // the screen shows the journal's state instead
 	m := ui.New(ui.Options{Tunings: opts.Tunings, Source: ms.name, Stats: ms.stats, Journal: func() string {
 		if s := j.status(); s != "" {
-			return s
+			return strings.Replace(s, ms.journal, filepath.Base(ms.journal), 1) // the screen is narrow
 		}
 		return "journal: off"
 	}})
@@ -142,6 +141,21 @@ func stopped(err error) error {
 		return nil
 	}
 	return err
+}
+
+// startHearing readies a command that hears notes: the audio libraries
+// muted (see muteLibraries) and the journal open. restore unmutes.
+func startHearing(e *env, jf *journalFlags) (*env, *journalSink, func(), error) {
+	quiet, restore, err := muteLibraries(e)
+	if err != nil {
+		return nil, nil, nil, err
+	}
+	j, err := jf.open(quiet)
+	if err != nil {
+		restore()
+		return nil, nil, nil, err
+	}
+	return quiet, j, restore, nil
 }
 
 // muteLibraries silences file descriptor 2 for the whole session, so that

@@ -97,9 +97,9 @@ const heldWords = `[A-G][♯♭𝄪𝄫]?[0-9] is (on its target|[0-9]+\.[0-9] �
 
 func TestDemoMeterInTmux(t *testing.T) {
 	t.Parallel()
-	m := startTmux(t, 80, 24, nil, "demo")
+	m := startTmux(t, 80, 24, nil, "demo", "--log", filepath.Join(t.TempDir(), "rehearsal.csv"))
 	// The score's own tuning (G minor, ¼-comma meantone, A4 = 415 Hz).
-	s := m.waitFor(heldWords, `G minor · 1/4-comma meantone · A4 = 415\.0 Hz · concert pitch`, `journal: off`, `\[[A-G][♯♭]?\]`)
+	s := m.waitFor(heldWords, `G minor · 1/4-comma meantone · A4 = 415\.0 Hz · concert pitch`, `\[[A-G][♯♭]?\]`)
 	if !strings.Contains(s, "███") {
 		t.Errorf("no large glyphs:\n%s", s)
 	}
@@ -128,6 +128,7 @@ func TestDemoMeterInTmux(t *testing.T) {
 		}
 	}
 
+	m.waitFor(`journal: [1-9][0-9]* notes → .*rehearsal\.csv`)
 	m.tmux("send-keys", "-t", "meter", "q")
 	if rc := m.exitStatus(); rc != "0" {
 		t.Errorf("q: exit status %s, want 0", rc)
@@ -138,7 +139,7 @@ func TestListenMeterInTmuxShowsTheOtherSpellingAndTheInput(t *testing.T) {
 	t.Parallel()
 	_, env, play := privateMic(t)
 	m := startTmux(t, 80, 24, env, "listen", "--key", "C major", "--temperament", "meantone:1/4", "--a4", "415")
-	m.waitFor(`listening to default`, `lost: 0 overflows, 0 dropped`)
+	m.waitFor(`listening to default`, `lost: 0 overflows, 0 dropped`, `journal: off`)
 	play(toneWAV(t, qcGFlat4))
 	// The G♭ tone, read in C major: F♯4 a diesis sharp, sitting on G♭4,
 	// which stands at the left end of the line (it lies below E♭).
@@ -146,6 +147,14 @@ func TestListenMeterInTmuxShowsTheOtherSpellingAndTheInput(t *testing.T) {
 	if strings.Contains(s, "CLIPPING") {
 		t.Errorf("a −12 dBFS tone reported as clipping:\n%s", s)
 	}
+	// A tone driven 3 dB past full scale (sox clips it) raises the warning,
+	// in words. Nothing is audible: the sink is a null sink.
+	loud := filepath.Join(t.TempDir(), "loud.wav")
+	if out, err := exec.Command("sox", "-n", "-r", "48000", "-c", "1", "-b", "16", loud, "synth", "1", "sine", "440", "gain", "3").CombinedOutput(); err != nil {
+		t.Fatalf("sox: %v\n%s", err, out)
+	}
+	play(loud)
+	m.waitFor(`CLIPPING — turn the input down`)
 	m.tmux("send-keys", "-t", "meter", "q")
 	if rc := m.exitStatus(); rc != "0" {
 		t.Errorf("q: exit status %s, want 0", rc)
