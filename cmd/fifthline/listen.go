@@ -130,6 +130,9 @@ func runMeter(ctx context.Context, src capture.Source, opts session.Options, j *
 		done <- err
 	}()
 	uerr := m.Run(ctx)
+	if uerr != nil {
+		uerr = fmt.Errorf("the meter needs a terminal (%v); --plain writes lines instead", uerr)
+	}
 	cancel()
 	return errors.Join(uerr, <-done)
 }

@@ -6,6 +6,7 @@ import (
 	"os/exec"
 	"path/filepath"
 	"regexp"
+	"strconv"
 	"strings"
 	"testing"
 	"time"
@@ -16,14 +17,14 @@ import (
 // tmuxMeter is the built command running in a detached tmux session of its
 // own (a private server socket), the way a player's terminal runs it.
 type tmuxMeter struct {
-	t              *testing.T
+	t              testing.TB
 	socket, rcFile string
 }
 
 // startTmux runs `fifthline args…` in a w × h tmux window, with env added
 // to its environment; the wrapper writes the command's exit status to a
 // file when it ends.
-func startTmux(t *testing.T, w, h int, env []string, args ...string) *tmuxMeter {
+func startTmux(t testing.TB, w, h int, env []string, args ...string) *tmuxMeter {
 	t.Helper()
 	if _, err := exec.LookPath("tmux"); err != nil {
 		t.Fatalf("tmux not found (apt-get install tmux): %v", err)
@@ -81,7 +82,7 @@ func (m *tmuxMeter) waitFor(patterns ...string) string {
 // exitStatus waits for the command to end and returns its exit status.
 func (m *tmuxMeter) exitStatus() string {
 	m.t.Helper()
-	deadline := time.Now().Add(5 * time.Second)
+	deadline := time.Now().Add(8 * time.Second)
 	for time.Now().Before(deadline) {
 		if data, err := os.ReadFile(m.rcFile); err == nil && len(data) > 0 {
 			return strings.TrimSpace(string(data))
@@ -135,9 +136,9 @@ func TestDemoMeterInTmux(t *testing.T) {
 	}
 }
 
-func TestListenMeterInTmuxShowsTheOtherSpellingAndTheInput(t *testing.T) {
+func TestListenMeterInTmuxShowsTheOtherSpellingTheInputAndALostDevice(t *testing.T) {
 	t.Parallel()
-	_, env, play := privateMic(t)
+	sink, env, play := privateMic(t)
 	m := startTmux(t, 80, 24, env, "listen", "--key", "C major", "--temperament", "meantone:1/4", "--a4", "415")
 	m.waitFor(`listening to default`, `lost: 0 overflows, 0 dropped`, `journal: off`)
 	play(toneWAV(t, qcGFlat4))
@@ -155,8 +156,47 @@ func TestListenMeterInTmuxShowsTheOtherSpellingAndTheInput(t *testing.T) {
 	}
 	play(loud)
 	m.waitFor(`CLIPPING — turn the input down`)
-	m.tmux("send-keys", "-t", "meter", "q")
-	if rc := m.exitStatus(); rc != "0" {
-		t.Errorf("q: exit status %s, want 0", rc)
+	// The input vanishes (its sink suspended): the meter closes, exit 1.
+	if out, err := exec.Command("pactl", "suspend-sink", sink, "1").CombinedOutput(); err != nil {
+		t.Fatalf("pactl suspend-sink: %v %s", err, out)
 	}
+	if rc := m.exitStatus(); rc != "1" {
+		t.Errorf("lost device: exit status %s, want 1", rc)
+	}
+}
+
+// The meter's own cost: `demo` drawing at 80 × 24 in tmux, CPU share of one
+// core over 10 s and the largest VmRSS (as in BenchmarkListenPlainLive).
+//
+//	go test -run XXX -bench DemoMeterInTmux ./cmd/fifthline/
+func BenchmarkDemoMeterInTmux(b *testing.B) {
+	for range b.N {
+		m := startTmux(b, 80, 24, nil, "demo")
+		m.waitFor(heldWords)
+		pid := meterPid(b, m)
+		cpu0, wall0 := cpuSeconds(b, pid), time.Now()
+		rss := 0.0
+		for range 40 {
+			time.Sleep(250 * time.Millisecond)
+			rss = max(rss, rssMB(b, pid))
+		}
+		b.ReportMetric(100*(cpuSeconds(b, pid)-cpu0)/time.Since(wall0).Seconds(), "cpu_%core")
+		b.ReportMetric(rss, "rss_MB")
+		m.tmux("send-keys", "-t", "meter", "q")
+		m.exitStatus()
+	}
+}
+
+// meterPid is the command's process: the child of the pane's shell.
+func meterPid(b *testing.B, m *tmuxMeter) int {
+	shell := strings.TrimSpace(m.tmux("display-message", "-p", "-t", "meter", "#{pane_pid}"))
+	out, err := exec.Command("pgrep", "-P", shell).Output()
+	if err != nil {
+		b.Fatalf("pgrep -P %s: %v", shell, err)
+	}
+	pid, err := strconv.Atoi(strings.Fields(string(out))[0])
+	if err != nil {
+		b.Fatal(err)
+	}
+	return pid
 }
