@@ -11,6 +11,15 @@ const (
 	maxTraceRows = 9
 )
 
+// bigScale is how large the glyphs may be drawn on a screen h rows high:
+// double once there is room for their ten rows and all the rest.
+func bigScale(h int) int {
+	if h >= 34 {
+		return 2
+	}
+	return 1
+}
+
 // maxBody is the widest the meter's body grows; wider screens centre it.
 const maxBody = 96
 
@@ -37,7 +46,7 @@ func Layout(m *Model, w, h int) []Line {
 	parts := []section{
 		{[]Line{TuningLine(m)}, 10, false},
 		gap(2),
-		{BigLines(m, bw), 5, false},
+		{BigLines(m, bw, bigScale(h)), 5, false},
 		{[]Line{Words(m)}, 9, false},
 		gap(2),
 		{fifths[:2], 8, false},

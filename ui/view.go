@@ -87,31 +87,36 @@ func minus(s string) string {
 func TuningLine(m *Model) Line { return plain(tuningWords(m.Tuning)) }
 
 // BigLines are the held note and its cents in large glyphs, centred in w
-// columns: "F♯4 +41.1¢". When the whole does not fit, the cents go and
-// Words carries them. Before the first note they are blank.
-func BigLines(m *Model, w int) []Line {
-	out := make([]Line, GlyphRows)
+// columns: "F♯4 +41.1¢", drawn at the largest scale up to maxScale that fits
+// (each glyph cell scale × scale screen cells). When even scale 1 is too
+// wide the cents go, and Words carries them. Before the first note they are
+// blank.
+func BigLines(m *Model, w, maxScale int) []Line {
 	r, ok := m.Reading()
-	if !ok {
-		for i := range out {
-			out[i] = plain("")
+	s := ""
+	if ok {
+		s = r.Written.Pretty() + " " + Cents(r.Cents) + "¢"
+		if BigWidth(s) > w {
+			s = r.Written.Pretty()
 		}
-		return out
+		if BigWidth(s) > w {
+			s = ""
+		}
 	}
-	s := r.Written.Pretty() + " " + Cents(r.Cents) + "¢"
-	if BigWidth(s) > w {
-		s = r.Written.Pretty()
-	}
-	role := Lit
-	if !m.Holding {
-		role = Dim
+	scale := max(1, maxScale)
+	for scale > 1 && BigWidth(s)*scale > w {
+		scale--
 	}
 	rows := Big(s)
-	if BigWidth(s) > w {
-		rows = [GlyphRows]string{}
-	}
-	for i, row := range rows {
-		out[i] = Line{text(centre(row, w), role)}
+	out := make([]Line, 0, GlyphRows*scale)
+	for _, row := range rows {
+		var b strings.Builder
+		for _, c := range row {
+			b.WriteString(strings.Repeat(string(c), scale))
+		}
+		for range scale {
+			out = append(out, Line{text(centre(b.String(), w), litRole(m))})
+		}
 	}
 	return out
 }
@@ -127,10 +132,7 @@ func Words(m *Model) Line {
 	if !m.Holding {
 		l = append(l, text("last note: ", Dim))
 	}
-	role := Lit
-	if !m.Holding {
-		role = Dim
-	}
+	role := litRole(m)
 	note := r.Written.Pretty()
 	switch c := math.Round(r.Cents*10) / 10; {
 	case c > 0:
@@ -200,23 +202,40 @@ func FifthsRows(m *Model, w int) [3]Line {
 	names = append(names, text(padRight(leftName, side), altRole))
 	marks = append(marks, text(padRight(leftMark, side), altRole))
 	equal = append(equal, text(padRight("from ET", side), Dim))
+	offset := "%+.0f"
+	if cell < 4 {
+		offset = "%.0f" // no room for a plus sign between neighbours
+	}
 	for i, n := range win {
-		name := tu.Transpose.Written(n).PrettyName()
-		role, mark := Plain, ""
+		name, role := tu.Transpose.Written(n).PrettyName(), Plain
 		if i == lit {
-			name, mark = "["+name+"]", Cents(r.Cents)
-			role = Lit
-			if !m.Holding {
-				role = Dim
-			}
+			name, role = "["+name+"]", litRole(m)
 		}
 		names = append(names, text(centre(name, cell), role))
-		marks = append(marks, text(centre(mark, cell), role))
-		equal = append(equal, text(centre(minus(fmt.Sprintf("%+.0f", tu.CentsFromEqual(n))), cell), Dim))
+		equal = append(equal, text(centre(minus(fmt.Sprintf(offset, tu.CentsFromEqual(n))), cell), Dim))
+	}
+	// The held note's cents sit under it, spilling into the empty
+	// neighbouring cells when the cells are narrow.
+	row := 12 * cell
+	if lit >= 0 {
+		c := Cents(r.Cents)
+		cw := runewidth.StringWidth(c)
+		at := min(max(lit*cell+cell/2-cw/2, 0), max(row-cw, 0))
+		marks = append(marks, text(strings.Repeat(" ", at), Plain), text(c, litRole(m)), text(strings.Repeat(" ", max(row-at-cw, 0)), Plain))
+	} else {
+		marks = append(marks, text(strings.Repeat(" ", row), Plain))
 	}
 	names = append(names, text(padRight(rightName, side), altRole))
 	marks = append(marks, text(padRight(rightMark, side), altRole))
 	return [3]Line{names, marks, equal}
+}
+
+// litRole is how the held note shows: lit while held, dim once it ended.
+func litRole(m *Model) Role {
+	if m.Holding {
+		return Lit
+	}
+	return Dim
 }
 
 // HeldLine describes the held note's shape once a note is held: how long,
@@ -284,7 +303,7 @@ func HintLine(m *Model) Line {
 	if m.Finished {
 		return plain("the performance has ended · q quits")
 	}
-	return dimLine("← → tonic · m mode · t temperament · ↑ ↓ A4 · ? help · q quit")
+	return dimLine("←→ tonic · m mode · t temperament · ↑↓ A4 · ? help · q quit")
 }
 
 // HelpLines is the help overlay.

@@ -75,7 +75,7 @@ func TestBeforeAnyNoteTheMeterSaysItIsListening(t *testing.T) {
 	if got := Words(m).Text(); !strings.Contains(got, "listening to the demo performance") {
 		t.Errorf("Words = %q", got)
 	}
-	for _, l := range BigLines(m, 80) {
+	for _, l := range BigLines(m, 80, 1) {
 		if strings.TrimSpace(l.Text()) != "" {
 			t.Errorf("large glyphs before any note: %q", l.Text())
 		}
@@ -208,5 +208,24 @@ func TestCentsUseATrueMinusAndNeverMinusZero(t *testing.T) {
 		if got := Cents(c); got != want {
 			t.Errorf("Cents(%g) = %q, want %q", c, got, want)
 		}
+	}
+}
+
+func TestBigGlyphsDoubleWhenTheScreenIsLarge(t *testing.T) {
+	m := holding(quarterComma(t), fSharp4)
+	small, large := BigLines(m, 96, 1), BigLines(m, 96, 2)
+	if len(small) != GlyphRows || len(large) != 2*GlyphRows {
+		t.Fatalf("%d and %d rows", len(small), len(large))
+	}
+	var doubled strings.Builder
+	for _, c := range strings.TrimSpace(small[0].Text()) {
+		doubled.WriteString(string(c) + string(c))
+	}
+	if got := strings.TrimSpace(large[0].Text()); got != doubled.String() || large[1].Text() != large[0].Text() {
+		t.Errorf("doubled top row %q, want %q", got, doubled.String())
+	}
+	// Too narrow for double: single size.
+	if got := BigLines(m, 60, 2); len(got) != GlyphRows {
+		t.Errorf("60 columns: %d rows", len(got))
 	}
 }
