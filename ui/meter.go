@@ -175,7 +175,8 @@ func (m *Meter) key(app *tview.Application, ev *tcell.EventKey) *tcell.EventKey 
 			if k == name {
 				tu, msg := b.Act(m.model.Tuning, m.start)
 				m.opt.Tunings.Set(tu)
-				m.model.Tuning, m.model.Message = tu, msg
+				m.model.Tuning = tu
+				m.model.Say(msg)
 				return nil
 			}
 		}

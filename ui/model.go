@@ -36,13 +36,14 @@ type Model struct {
 
 	Input   InputState
 	Journal string // "journal: off", "journal: FILE, N notes"
-	Message string // the last key's effect, or a problem
+	Message string // the last key's effect, shown for messageSeconds
 	Help    bool
 	Dropped uint64 // frames the screen could not keep up with
 
-	trace    []tracePoint
-	clipped  uint64  // clipped samples counted at the last poll
-	lastClip float64 // stream time more were first seen
+	messageAt float64 // stream time Message was set
+	trace     []tracePoint
+	clipped   uint64  // clipped samples counted at the last poll
+	lastClip  float64 // stream time more were first seen
 }
 
 // Held is a held note as the meter shows it: its centre pitch and shape.
@@ -70,6 +71,12 @@ type tracePoint struct {
 func NewModel(tu target.Tuning, source string) *Model {
 	return &Model{Tuning: tu, Source: source, Level: math.Inf(-1), Journal: "journal: off"}
 }
+
+// messageSeconds is how long a key's message replaces the keys hint.
+const messageSeconds = 4.0
+
+// Say shows a message in place of the keys hint for a few seconds.
+func (m *Model) Say(msg string) { m.Message, m.messageAt = msg, m.Now }
 
 // AddFrame takes one analysis frame from the session.
 func (m *Model) AddFrame(f session.Frame) {

@@ -297,7 +297,7 @@ func JournalLine(m *Model) Line { return plain(m.Journal) }
 
 // HintLine is the last key's effect, or the keys.
 func HintLine(m *Model) Line {
-	if m.Message != "" {
+	if m.Message != "" && m.Now-m.messageAt < messageSeconds {
 		return plain(m.Message)
 	}
 	if m.Finished {

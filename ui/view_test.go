@@ -229,3 +229,15 @@ func TestBigGlyphsDoubleWhenTheScreenIsLarge(t *testing.T) {
 		t.Errorf("60 columns: %d rows", len(got))
 	}
 }
+
+func TestAKeysMessageGivesWayToTheHintAfterAFewSeconds(t *testing.T) {
+	m := holding(target.Default(), 440)
+	m.Say("key G major (1 sharp)")
+	if got := HintLine(m).Text(); got != "key G major (1 sharp)" {
+		t.Errorf("right after: %q", got)
+	}
+	m.AddFrame(session.Frame{Estimate: pitchdetect.Estimate{Time: m.Now + messageSeconds}})
+	if got := HintLine(m).Text(); !strings.Contains(got, "q quit") {
+		t.Errorf("later: %q", got)
+	}
+}

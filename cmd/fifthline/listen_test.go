@@ -96,6 +96,11 @@ func toneWAV(t *testing.T, hz ...float64) string {
 // startPlain starts `listen --plain` and returns once its CSV header is out
 // (the input stream is running), with a func that waits for the rest.
 func startPlain(t *testing.T, env []string, args ...string) (wait func() (code int, csv, stderr string)) {
+	wait, _ = startPlainProcess(t, env, args...)
+	return wait
+}
+
+func startPlainProcess(t *testing.T, env []string, args ...string) (wait func() (code int, csv, stderr string), proc *os.Process) {
 	t.Helper()
 	cmd := exec.Command(fifthlineBinary(t), append([]string{"listen", "--plain"}, args...)...)
 	cmd.Env = append(os.Environ(), env...)
@@ -119,7 +124,7 @@ func startPlain(t *testing.T, env []string, args ...string) (wait func() (code i
 		rest, _ := r.ReadString(0)
 		_ = cmd.Wait()
 		return cmd.ProcessState.ExitCode(), header + rest, stderr.String()
-	}
+	}, cmd.Process
 }
 
 func near(t *testing.T, what, got string, want, tol float64) {
@@ -220,6 +225,30 @@ func TestListenKeepsWhatItHeardWhenTheDeviceVanishes(t *testing.T) {
 	}
 	if _, rows := readCSV(t, out); len(rows) != 1 || rows[0]["note"] != "F#4" {
 		t.Errorf("the note heard before the loss is not kept:\n%s", out)
+	}
+}
+
+// Ctrl-C (SIGINT) in the middle of a held note: the note is finished and
+// written, and the command ends cleanly.
+func TestListenInterruptKeepsTheNoteBeingHeld(t *testing.T) {
+	t.Parallel()
+	sink, env, _ := privateMic(t)
+	wait, proc := startPlainProcess(t, env, "--key", "C major", "--temperament", "meantone:1/4", "--a4", "415")
+	player := exec.Command("paplay", "--device="+sink, toneWAV(t, qcFSharp4))
+	if err := player.Start(); err != nil {
+		t.Fatal(err)
+	}
+	defer func() { _ = player.Process.Kill(); _ = player.Wait() }()
+	time.Sleep(1500 * time.Millisecond) // half a second of silence, then a second into the tone
+	if err := proc.Signal(os.Interrupt); err != nil {
+		t.Fatal(err)
+	}
+	code, out, stderr := wait()
+	if code != 0 || stderr != "" {
+		t.Errorf("exit %d, stderr %q", code, stderr)
+	}
+	if _, rows := readCSV(t, out); len(rows) != 1 || rows[0]["note"] != "F#4" {
+		t.Errorf("the note held at the interrupt is not written:\n%s", out)
 	}
 }
 
