@@ -193,7 +193,7 @@ func FifthsRows(m *Model, w int) [3]Line {
 		if r.NearerAlt() {
 			alt, altRole = "["+alt+"]", Other
 		}
-		if r.Alt.Fifths() < win[0].Fifths() {
+		if lo, _ := tu.Key.WindowSpan(); r.Alt.Fifths() < lo {
 			leftName, leftMark = "◂ "+alt, altCents
 		} else {
 			rightName, rightMark = alt+" ▸", altCents

@@ -241,3 +241,44 @@ func TestAKeysMessageGivesWayToTheHintAfterAFewSeconds(t *testing.T) {
 		t.Errorf("later: %q", got)
 	}
 }
+
+func TestTuningLineSaysKeyTemperamentA4AndTransposition(t *testing.T) {
+	bb, err := target.ParseTransposition("Bb")
+	if err != nil {
+		t.Fatal(err)
+	}
+	qc := quarterComma(t)
+	transposed := qc
+	transposed.Transpose = bb
+	for _, c := range []struct {
+		tu   target.Tuning
+		want string
+	}{
+		{target.Default(), "C major · equal temperament · A4 = 440.0 Hz · concert pitch"},
+		{transposed, "C major · 1/4-comma meantone · A4 = 415.0 Hz · written for B♭ instrument"},
+	} {
+		if got := TuningLine(NewModel(c.tu, "x")).Text(); got != c.want {
+			t.Errorf("got  %q\nwant %q", got, c.want)
+		}
+	}
+	// A B♭ instrument reads concert F♯4 as G♯4 (a major second up; common
+	// practice), on the screen as in the CSV.
+	m := holding(transposed, fSharp4)
+	if got := Words(m).Text(); !strings.HasPrefix(got, "G♯4 is on its target") {
+		t.Errorf("transposed words %q", got)
+	}
+}
+
+func TestAfterTheNoteEndsTheMeterShowsItAsTheLastNote(t *testing.T) {
+	m := holding(quarterComma(t), fSharp4)
+	m.AddFrame(session.Frame{Estimate: pitchdetect.Estimate{Time: 1.1, Level: -90}})
+	if got := Words(m).Text(); !strings.HasPrefix(got, "last note: F♯4 is on its target") {
+		t.Errorf("words %q", got)
+	}
+	if got := HeldLine(m).Text(); !strings.HasPrefix(got, "last note held 1.0 s") {
+		t.Errorf("held line %q", got)
+	}
+	if got := InputLine(m).Text(); !strings.HasPrefix(got, "input −90 dBFS ▯▯▯▯▯▯▯▯▯▯") {
+		t.Errorf("input line %q", got)
+	}
+}
