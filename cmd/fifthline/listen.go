@@ -130,11 +130,14 @@ func runMeter(ctx context.Context, src capture.Source, opts session.Options, j *
 		done <- err
 	}()
 	uerr := m.Run(ctx)
-	if uerr != nil {
-		uerr = fmt.Errorf("the meter needs a terminal (%v); --plain writes lines instead", uerr)
-	}
 	cancel()
-	return errors.Join(uerr, <-done)
+	serr := <-done
+	if uerr != nil {
+		// Not joined with serr: the cancellation it carries would read as
+		// a deliberate stop.
+		return fmt.Errorf("the meter needs a terminal (%v); --plain writes lines instead", uerr)
+	}
+	return serr
 }
 
 // stopped treats a deliberate stop (Ctrl-C, SIGTERM, --duration, q) as

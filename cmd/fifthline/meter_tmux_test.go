@@ -200,3 +200,17 @@ func meterPid(b *testing.B, m *tmuxMeter) int {
 	}
 	return pid
 }
+
+// Without a terminal (setsid: no controlling tty) the meter cannot start:
+// one line pointing to --plain, exit 1.
+func TestMeterWithoutATerminalIsAOneLineError(t *testing.T) {
+	t.Parallel()
+	cmd := exec.Command("setsid", "-w", fifthlineBinary(t), "demo")
+	var stderr strings.Builder
+	cmd.Stderr = &stderr
+	_ = cmd.Run()
+	checkError(t, cmd.ProcessState.ExitCode(), 1, stderr.String())
+	if !strings.Contains(stderr.String(), "--plain") {
+		t.Errorf("stderr %q does not point to --plain", stderr.String())
+	}
+}
