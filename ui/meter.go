@@ -2,6 +2,7 @@ package ui
 
 import (
 	"context"
+	"os"
 	"sync"
 	"sync/atomic"
 	"time"
@@ -95,6 +96,8 @@ func (m *Meter) Run(ctx context.Context) error {
 	app := tview.NewApplication()
 	if m.opt.Screen != nil {
 		app.SetScreen(m.opt.Screen)
+	} else if err := terminalPresent(); err != nil {
+		return err
 	}
 	view := tview.NewBox()
 	view.SetDrawFunc(func(s tcell.Screen, x, y, w, h int) (int, int, int, int) {
@@ -107,8 +110,18 @@ func (m *Meter) Run(ctx context.Context) error {
 	app.SetRoot(view, true)
 	app.SetInputCapture(func(ev *tcell.EventKey) *tcell.EventKey { return m.key(app, ev) })
 
+	// tview must not be stopped once Run has returned: a screen that
+	// failed to start cannot be finalised.
+	var mu sync.Mutex
+	running := true
+	stop := func() {
+		mu.Lock()
+		defer mu.Unlock()
+		if running {
+			app.Stop()
+		}
+	}
 	done := make(chan struct{})
-	defer close(done)
 	go func() {
 		tick := time.NewTicker(time.Second / FrameRate)
 		defer tick.Stop()
@@ -117,17 +130,32 @@ func (m *Meter) Run(ctx context.Context) error {
 			case <-done:
 				return
 			case <-ctx.Done():
-				app.Stop()
+				stop()
 				return
 			case <-m.quit:
-				app.Stop()
+				stop()
 				return
 			case <-tick.C:
 				app.QueueUpdateDraw(m.drain)
 			}
 		}
 	}()
-	return app.Run()
+	err := app.Run()
+	mu.Lock()
+	running = false
+	mu.Unlock()
+	close(done)
+	return err
+}
+
+// terminalPresent checks for the terminal tcell draws on, so that a meter
+// started without one fails before tview starts.
+func terminalPresent() error {
+	f, err := os.OpenFile("/dev/tty", os.O_RDWR, 0)
+	if err != nil {
+		return err
+	}
+	return f.Close()
 }
 
 // drain moves waiting frames and notes into the model; it runs on tview's
