@@ -121,6 +121,13 @@ func runMeter(ctx context.Context, src capture.Source, opts session.Options, j *
 	defer cancel()
 	done := make(chan error, 1)
 	go func() {
+		defer func() {
+			// As run does for the main goroutine: a bug ends in one line.
+			if r := recover(); r != nil {
+				m.Stop()
+				done <- fmt.Errorf("internal error: %v", r)
+			}
+		}()
 		err := session.Run(ctx, src, opts)
 		if err == nil {
 			m.Ended()
