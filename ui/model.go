@@ -41,6 +41,7 @@ type Model struct {
 	Dropped uint64 // frames the screen could not keep up with
 
 	messageAt float64 // stream time Message was set
+	heldAt    float64 // stream time of the last frame holding a note
 	trace     []tracePoint
 	clipped   uint64  // clipped samples counted at the last poll
 	lastClip  float64 // stream time more were first seen
@@ -72,6 +73,9 @@ func NewModel(tu target.Tuning, source string) *Model {
 	return &Model{Tuning: tu, Source: source, Level: math.Inf(-1), Journal: "journal: off"}
 }
 
+// holdBridge is how long after its last frame a note still shows as held.
+const holdBridge = 0.05
+
 // messageSeconds is how long a key's message replaces the keys hint.
 const messageSeconds = 4.0
 
@@ -85,12 +89,15 @@ func (m *Model) AddFrame(f session.Frame) {
 	if f.Voiced {
 		m.FrameHz = f.Hz
 	}
-	m.Holding = f.Holding
 	p := tracePoint{t: f.Time, hz: m.FrameHz}
 	if f.Holding && f.Held.Hz > 0 {
 		m.Held, m.HasHeld = heldOf(f.Held), true
+		m.heldAt = f.Time
 		p.ref = f.Held.Hz
 	}
+	// A frame or two of gap inside a note (which the segmenter bridges)
+	// should not flicker the screen to "last note".
+	m.Holding = f.Holding || (m.HasHeld && f.Time-m.heldAt < holdBridge)
 	m.trace = append(m.trace, p)
 	// Forget what has scrolled off; reuse the slice's memory.
 	cut := 0

@@ -271,6 +271,11 @@ func TestTuningLineSaysKeyTemperamentA4AndTransposition(t *testing.T) {
 
 func TestAfterTheNoteEndsTheMeterShowsItAsTheLastNote(t *testing.T) {
 	m := holding(quarterComma(t), fSharp4)
+	// A one-frame gap (20 ms) inside the note is bridged.
+	m.AddFrame(session.Frame{Estimate: pitchdetect.Estimate{Time: 1.01, Level: -90}})
+	if got := Words(m).Text(); !strings.HasPrefix(got, "F♯4 is on its target") {
+		t.Errorf("during a one-frame gap: %q", got)
+	}
 	m.AddFrame(session.Frame{Estimate: pitchdetect.Estimate{Time: 1.1, Level: -90}})
 	if got := Words(m).Text(); !strings.HasPrefix(got, "last note: F♯4 is on its target") {
 		t.Errorf("words %q", got)
