@@ -52,7 +52,9 @@ type Canceller struct {
 	follow  func() []float64
 	current []float64
 	fit     lsq
-	quiet   int // samples still to be silenced while the first fit locks on
+	quiet   int     // samples still to be silenced while the first fit locks on
+	level   float64 // Σ|a|² at the last fit
+	trend   float64 // its relative change per chunk, smoothed
 }
 
 // partial is one tracked sinusoid: it is Re(a·ph), ph the unit phasor.
@@ -75,8 +77,18 @@ const (
 	// leaveTime is how long a removed partial is still fitted (and so
 	// removed) while the drone fades it out, in seconds.
 	leaveTime = 1.5
+	// fadeRate is the relative change of the drone's amplitude per second
+	// above which it counts as fading: a 0.5 s raised-cosine fade changes
+	// by up to π per second, and by more than 1 for most of its length.
+	fadeRate = 1.0
+	// trendWeight smooths the level's change over about eight chunks.
+	trendWeight = 1.0 / 8
 	// chunk is the most samples between two solutions of the fit.
 	chunk = 256
+	// shortChunk is the chunk while the memory is below shortMemory samples
+	// (in a fade): holding a fit for a whole chunk is a lag of its own.
+	shortChunk  = 64
+	shortMemory = 2048.0
 	// lockTime is how long the output is silent at the start: the first
 	// fits are rough, and their leftovers would be read as a note.
 	lockTime = 0.15
@@ -131,6 +143,9 @@ func (c *Canceller) Read(p []float32) (int, error) {
 	n, err := c.src.Read(p)
 	for q := p[:n]; len(q) > 0; {
 		k := min(len(q), chunk)
+		if c.age/growth < shortMemory {
+			k = min(k, shortChunk) // a short memory must be refitted often
+		}
 		c.process(q[:k])
 		q = q[k:]
 	}
@@ -172,7 +187,8 @@ func (c *Canceller) process(p []float32) {
 	if len(c.parts) == 0 {
 		return
 	}
-	lambda := 1 - 1/math.Min(math.Max(c.age/growth, minMemory), c.memory)
+	memory := math.Min(math.Max(c.age/growth, minMemory), c.memory)
+	lambda := 1 - 1/memory
 	for i, s := range p {
 		x := float64(s)
 		y := 0.0
@@ -193,10 +209,30 @@ func (c *Canceller) process(p []float32) {
 		t.ph /= complex(cmplx.Abs(t.ph), 0) // rounding would slowly change its length
 	}
 	c.fit.update(c.parts, lambda, len(p))
-	c.fit.solve(c.parts)
+	c.fit.solve(c.parts, memory)
+	c.watchLevel(len(p))
 	if c.dropLeft(len(p)) {
 		c.restart()
 	}
+}
+
+// watchLevel keeps the memory short while the drone's level is changing:
+// in a fade (the drone's, or an input stream's own start) a long memory
+// would lag behind and leave part of the drone in. A steady drone, with a
+// player's note beside it, keeps its level and lets the memory grow.
+func (c *Canceller) watchLevel(n int) {
+	level := 0.0
+	for _, t := range c.parts {
+		level += real(t.a)*real(t.a) + imag(t.a)*imag(t.a)
+	}
+	// A fade moves the level the same way chunk after chunk; a player's
+	// note leaking into the fit jostles it both ways, and is averaged out.
+	change := (level - c.level) / math.Max(math.Max(level, c.level), 1e-30)
+	c.trend += (change - c.trend) * trendWeight
+	if math.Abs(c.trend) > 2*fadeRate*float64(n)/c.rate { // level is amplitude squared
+		c.age = 0
+	}
+	c.level = level
 }
 
 // dropLeft forgets removed partials whose time is up and says if any went.

@@ -4,6 +4,7 @@ import (
 	"context"
 	"io"
 	"math"
+	"slices"
 	"testing"
 
 	"fifthline/drone"
@@ -57,7 +58,7 @@ func heard(t *testing.T, src drone.Source) []session.Event {
 
 // A drone (G3 and D4, reed timbre) and a played note (B3, a sawtooth) at the
 // same peak level, mixed in memory. With the canceller the pipeline reads the
-// note within 1 ¢ and reports nothing else once the drone has settled; without
+// note within 1 ¢ and reports nothing else, even while the drone fades in; without
 // it the detector hears a common fundamental of the drone and misses the note,
 // which is what makes the canceller necessary.
 func TestCancellerLetsTheDetectorHearThePlayer(t *testing.T) {
@@ -68,11 +69,13 @@ func TestCancellerLetsTheDetectorHearThePlayer(t *testing.T) {
 	mix, ps := droneSignal([]float64{g3, d4}, drone.Reed, peak, n)
 	start, end := int(1.5*rate), int(4.5*rate)
 	note := testsignal.Tone(rate, end-start, testsignal.Saw, peak, testsignal.Steady(b3))
+	testsignal.FadeIn(note, rate, 0.05) // a played note starts and ends softly
+	slices.Reverse(note)
 	testsignal.FadeIn(note, rate, 0.05)
 	for i, v := range note {
 		mix[start+i] += float32(v)
 	}
-	settled := 1.0 // seconds: the drone's fade in and the canceller's lock
+	settled := 0.0 // seconds allowed for the canceller to lock on: none
 	check := func(cancel bool) (onNote int, others []string) {
 		var src drone.Source = &memSource{x: mix}
 		if cancel {
@@ -96,4 +99,32 @@ func TestCancellerLetsTheDetectorHearThePlayer(t *testing.T) {
 	if on, other := check(false); on == 1 && len(other) == 0 {
 		t.Errorf("without the canceller the detector read the note cleanly: the test has no teeth")
 	}
+}
+
+// The canceller's cost per second of 48 kHz audio with a two-note reed
+// drone (14 partials), settled.
+func BenchmarkCancellerSecond(b *testing.B) {
+	mix, ps := droneSignal([]float64{196, 293.665}, drone.Reed, drone.Linear(-18), int(rate))
+	c := drone.Cancel(&loopSource{x: mix}, drone.Frequencies(ps))
+	buf := make([]float32, 512)
+	for b.Loop() {
+		for range int(rate) / len(buf) {
+			c.Read(buf)
+		}
+	}
+}
+
+// loopSource plays a slice over and over.
+type loopSource struct {
+	x []float32
+	i int
+}
+
+func (l *loopSource) SampleRate() float64 { return rate }
+func (l *loopSource) Read(p []float32) (int, error) {
+	for k := range p {
+		p[k] = l.x[l.i]
+		l.i = (l.i + 1) % len(l.x)
+	}
+	return len(p), nil
 }

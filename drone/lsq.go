@@ -18,9 +18,12 @@ type lsq struct {
 	b      []float64    // right-hand side, then the solution
 }
 
-// ridge is the weight (in samples) pulling each solution towards the last
-// one: it carries the estimates over a restart and is soon negligible.
-const ridge = 32.0
+// ridge is the weight pulling each solution towards the last one, as a
+// share of the data's weight (about memory/2 per parameter): it carries the
+// estimates over a restart, and holds two partials closer than the memory
+// resolves to their shares instead of letting them trade large opposite
+// amplitudes. Elsewhere it is a lag of a few per cent of one chunk.
+const ridge = 0.05
 
 func (f *lsq) reset(n int) {
 	f.n = n
@@ -57,7 +60,8 @@ func series(lambda, w float64, b int) complex128 {
 }
 
 // solve fits the amplitudes (a = c − i·s for the model c·Re ph + s·Im ph).
-func (f *lsq) solve(ps []partial) {
+func (f *lsq) solve(ps []partial, memory float64) {
+	ridge := ridge * memory
 	n2 := 2 * f.n
 	for k := range f.n {
 		for l := range f.n {

@@ -40,15 +40,16 @@ func TestPlayerDroneIsCancelledFromTheMicrophone(t *testing.T) {
 		t.Fatal(err)
 	}
 	defer p.Close()
+	// Equal temperament at A4 = 440 Hz: G3 = 196.00, D4 = 293.66 Hz (ISO 16).
+	p.SetDrone([]float64{440 * math.Exp2(-14.0/12), 440 * math.Exp2(-7.0/12)})
+	// Listening starts while the drone fades in: the canceller must follow
+	// the fade (and the input stream's own half-second fade in).
+	time.Sleep(200 * time.Millisecond)
 	in, err := capture.OpenInput(capture.InputOptions{})
 	if err != nil {
 		t.Fatal(err)
 	}
 	defer in.Close()
-
-	// Equal temperament at A4 = 440 Hz: G3 = 196.00, D4 = 293.66 Hz (ISO 16).
-	p.SetDrone([]float64{440 * math.Exp2(-14.0/12), 440 * math.Exp2(-7.0/12)})
-	// The drone sounds (and settles in the canceller) before the note starts.
 	src := drone.Cancel(in, nil).Follow(p.Partials)
 
 	ctx, cancel := context.WithCancel(context.Background())
