@@ -29,17 +29,22 @@ type Source interface {
 // solved by recursive least squares instead of LMS).
 //
 // The memory starts short, so the canceller locks on within a fraction of a
-// second (the first 0.15 s it delivers as silence) and follows the drone's fade, and lengthens with age to Memory
-// (2 s by default). With memory τ the removal acts as a notch about
-// 1/(2πτ) Hz wide on each side of each partial (0.08 Hz at 2 s): a player's
-// note a few cents away from a drone partial, or moving through it, is left
-// alone. What the player sounds within that notch and holds for longer than
-// τ is taken for the drone and removed with it. So a player holding the
-// drone's own pitch loses the partials that coincide with the drone's:
-// against a pure drone the fundamental, and the note is read from its upper
-// partials; a pure sine on the drone's pitch disappears, and no note is read
-// rather than a wrong one. The meter can recognise that case from the
-// partials: the player is on the drone.
+// second (it delivers the first 0.15 s as silence), and lengthens with age
+// to Memory (2 s by default); while the drone's fitted level keeps moving
+// one way (a fade in or out, an input stream's own start) the memory is
+// held short and the fit renewed every 64 samples, so the fade is followed
+// without lag. With memory τ the removal acts as a notch about 1/(2πτ) Hz
+// wide on each side of each partial (0.08 Hz at 2 s): a player's note a few
+// cents away from a drone partial, or moving through it, is left alone.
+// What the player sounds within that notch and holds for longer than τ is
+// taken for the drone and removed with it. So a player holding the drone's
+// own pitch loses the partials that coincide with the drone's: against a
+// pure drone the fundamental, and the note is still read from its upper
+// partials; a pure sine on the drone's pitch is absorbed within about 2 s.
+// Either way no wrong pitch is read, but when such a note stops the
+// canceller must unlearn it, and for about a second the drone's own pitch
+// is read (TestPlayerOnTheDronesOwnPitch). The meter can recognise that
+// case from the partials: the player is on the drone.
 //
 // Read it from one goroutine; SetPartials may be called from any.
 type Canceller struct {

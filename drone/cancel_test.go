@@ -128,3 +128,49 @@ func (l *loopSource) Read(p []float32) (int, error) {
 	}
 	return len(p), nil
 }
+
+// A player holding exactly the drone's pitch (G3 on a pure G3 drone): the
+// shared fundamental cannot be told apart from the drone's, and the
+// canceller slowly takes the sum for the drone. What is read is never a
+// wrong pitch: a sawtooth is read throughout from its upper partials; a
+// pure sine is read at first and then absorbed, within about 2 s. When the
+// note stops, the canceller has to unlearn it (about a second at this
+// memory), and the drone's own pitch is read meanwhile: a known limitation
+// of the on-the-drone case, which the meter can recognise from Partials.
+func TestPlayerOnTheDronesOwnPitch(t *testing.T) {
+	g3 := 440 * math.Exp2(-14.0/12) // equal temperament, A4 = 440 Hz (ISO 16)
+	peak := drone.Linear(-18)
+	for _, tc := range []struct {
+		name       string
+		sp         testsignal.Spectrum
+		minS, maxS float64 // how long the note (held from 2 to 5 s) is read
+	}{
+		{"sawtooth: read from its upper partials", testsignal.Saw, 2.8, 3.2},
+		{"sine: absorbed into the drone", testsignal.Sine, 0, 2},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			n := int(6 * rate)
+			mix, ps := droneSignal([]float64{g3}, drone.Pure, peak, n)
+			start, end := int(2*rate), int(5*rate)
+			note := testsignal.Tone(rate, end-start, tc.sp, peak, testsignal.Steady(g3))
+			testsignal.FadeIn(note, rate, 0.05)
+			slices.Reverse(note)
+			testsignal.FadeIn(note, rate, 0.05)
+			for i, v := range note {
+				mix[start+i] += float32(v)
+			}
+			held := 0.0
+			for _, ev := range heard(t, drone.Cancel(&memSource{x: mix}, drone.Frequencies(ps))) {
+				c := 1200 * math.Log2(ev.Hz/g3)
+				t.Logf("%.2f–%.2f s %s %.3f Hz (%+.3f ¢)", ev.Start, ev.End, ev.Reading.Note, ev.Hz, c)
+				if math.Abs(c) > 1 {
+					t.Errorf("a wrong pitch: %s at %.3f Hz", ev.Reading.Note, ev.Hz)
+				}
+				held += max(0, min(ev.End, 5)-max(ev.Start, 1.9)) // while the note sounds
+			}
+			if held < tc.minS || held > tc.maxS {
+				t.Errorf("the note was read for %.2f s, want %g to %g s", held, tc.minS, tc.maxS)
+			}
+		})
+	}
+}
