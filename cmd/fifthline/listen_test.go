@@ -162,8 +162,11 @@ func TestListenPlainHearsSpelledTonesThroughTheVirtualMicrophone(t *testing.T) {
 	_, env, play := privateMic(t)
 	wav := toneWAV(t, qcFSharp4, qcGFlat4)
 	journal := filepath.Join(t.TempDir(), "rehearsal.csv")
-	wait := startPlain(t, env, "--duration", "9s", "--key", "C major", "--temperament", "meantone:1/4", "--a4", "415", "--log", journal)
-	play(wav)
+	wait, proc := startPlainProcess(t, env, "--duration", "60s", "--key", "C major", "--temperament", "meantone:1/4", "--a4", "415", "--log", journal)
+	play(wav) // returns when the file, a second of silence last, has played
+	if err := proc.Signal(os.Interrupt); err != nil {
+		t.Fatal(err)
+	}
 	code, out, stderr := wait()
 	if code != 0 || stderr != "" {
 		t.Errorf("exit %d, stderr %q", code, stderr)
@@ -233,13 +236,23 @@ func TestListenKeepsWhatItHeardWhenTheDeviceVanishes(t *testing.T) {
 func TestListenInterruptKeepsTheNoteBeingHeld(t *testing.T) {
 	t.Parallel()
 	sink, env, _ := privateMic(t)
-	wait, proc := startPlainProcess(t, env, "--key", "C major", "--temperament", "meantone:1/4", "--a4", "415")
+	timing := filepath.Join(t.TempDir(), "timing.csv")
+	wait, proc := startPlainProcess(t, append(env, "FIFTHLINE_TIMING="+timing), "--key", "C major", "--temperament", "meantone:1/4", "--a4", "415")
 	player := exec.Command("paplay", "--device="+sink, toneWAV(t, qcFSharp4))
 	if err := player.Start(); err != nil {
 		t.Fatal(err)
 	}
 	defer func() { _ = player.Process.Kill(); _ = player.Wait() }()
-	time.Sleep(1500 * time.Millisecond) // half a second of silence, then a second into the tone
+	// Interrupt once the note has been held a while (the frame log says
+	// voiced and holding), well before the tone ends.
+	for deadline := time.Now().Add(10 * time.Second); ; time.Sleep(20 * time.Millisecond) {
+		if data, _ := os.ReadFile(timing); strings.Count(string(data), ",true,true,") > 30 {
+			break
+		}
+		if time.Now().After(deadline) {
+			t.Fatal("the tone was never heard")
+		}
+	}
 	if err := proc.Signal(os.Interrupt); err != nil {
 		t.Fatal(err)
 	}
