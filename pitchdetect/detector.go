@@ -38,6 +38,8 @@ const (
 	coarseCents   = 6.0   // trust in the coarse estimate beyond lag resolution
 	onsetCents    = 30.0  // the same while a note starts inside the span
 	onsetShare    = 0.1   // and the comb's share then
+	trackCents    = 6.0   // pitch movement allowed between hops while tracking
+	nsdfEvery     = 8     // hops between NSDF runs while a note holds
 )
 
 // Detector estimates the pitch of a monophonic stream, one Estimate per hop.
@@ -57,22 +59,27 @@ type Detector struct {
 	fed        int // samples fed since Reset
 	untilFrame int
 
-	lin     []float64 // the span, oldest first
-	win     []float64 // Blackman–Harris window
-	wx      []float64 // windowed frame scratch
-	fftWin  *fourier.FFT
-	specA   []complex128
-	specB   []complex128
-	haveB   bool // specB holds the previous frame's B spectrum
-	power   []float64
-	scratch []float64
-	fftPad  *fourier.FFT
-	padBuf  []float64
-	padSpec []complex128
-	nsdfOut []float64
-	floor   float64 // absolute power floor for partial peaks in this frame
-	peak    float64 // strongest bin's power in this frame
-	last    analysis
+	lin    []float64 // the span, oldest first
+	win    []float64 // Blackman–Harris window
+	wx     []float64 // windowed frame scratch
+	fftWin *fourier.FFT
+	specA  []complex128
+	specB  []complex128
+	haveB  bool // specB holds the previous frame's B spectrum
+
+	prevHz    float64 // last frame's pitch, 0 if unvoiced
+	sinceNSDF int     // hops since the NSDF last ran
+	clarity   float64 // its clarity then
+	nsdfFresh bool    // nsdfOut belongs to this frame
+	power     []float64
+	scratch   []float64
+	fftPad    *fourier.FFT
+	padBuf    []float64
+	padSpec   []complex128
+	nsdfOut   []float64
+	floor     float64 // absolute power floor for partial peaks in this frame
+	peak      float64 // strongest bin's power in this frame
+	last      analysis
 }
 
 // New returns a Detector for the sample rate with the given window and hop
@@ -135,7 +142,7 @@ func New(sampleRate float64, window, hop int) (*Detector, error) {
 func (d *Detector) Reset() {
 	clear(d.ring)
 	d.w, d.fed = 0, 0
-	d.haveB = false
+	d.haveB, d.prevHz = false, 0
 	d.untilFrame = d.span
 }
 
@@ -186,15 +193,28 @@ func (d *Detector) frame() Estimate {
 	}
 	e.Level = 10 * math.Log10(ss/float64(d.window)+1e-30)
 	if e.Level < silenceDBFS {
-		d.haveB = false
+		d.haveB, d.prevHz = false, 0
 		return e
 	}
 
-	period, clarity, ok := pickPeriod(d.nsdf(frameB), d.minLag)
-	if !ok || clarity < minClarity/2 {
-		e.Confidence = math.Max(clarity, 0)
-		d.haveB = false
-		return e
+	// While a note holds, the last pitch seeds the comb and the NSDF is
+	// refreshed only every few hops; it always runs after an unvoiced
+	// frame and for low notes, whose final estimate it is.
+	tracking := d.prevHz >= resolvedBins*d.binHz && d.sinceNSDF < nsdfEvery
+	var period, clarity float64
+	if tracking {
+		period, clarity = d.fs/d.prevHz, d.clarity
+		d.sinceNSDF++
+		d.nsdfFresh = false
+	} else {
+		var ok bool
+		period, clarity, ok = pickPeriod(d.nsdf(frameB), d.minLag)
+		d.sinceNSDF, d.clarity, d.nsdfFresh = 0, clarity, true
+		if !ok || clarity < minClarity/2 {
+			e.Confidence = math.Max(clarity, 0)
+			d.haveB, d.prevHz = false, 0
+			return e
+		}
 	}
 	if d.haveB && d.hop == d.lag {
 		// This frame's A is the previous frame's B: reuse its spectrum.
@@ -208,6 +228,11 @@ func (d *Detector) frame() Estimate {
 
 	f, period := d.guard(period)
 	lagCents := centsPerUnit * 0.15 / period // parabolic-lag resolution
+	if tracking {
+		// The seed is the last fine estimate; allow for the pitch moving
+		// between hops (a 25 ¢ vibrato at 6.5 Hz moves 6 ¢ a hop).
+		lagCents = trackCents
+	}
 	needClarity, needShare := minClarity, minShare
 	onset := false
 	var ft fit
@@ -243,9 +268,11 @@ func (d *Detector) frame() Estimate {
 	}
 	e.Confidence = math.Max(0, math.Min(conf, 1))
 	d.last = analysis{clarity: clarity, fit: ft, disagree: dis, coarseHz: f}
+	d.prevHz = 0
 	if ft.hz >= d.minHz && ft.hz <= d.maxHz && clarity >= needClarity && ft.share >= needShare &&
 		e.Confidence >= minConfidence && ft.partials > 0 && dis < 1.5 {
 		e.Hz, e.Voiced = ft.hz, true
+		d.prevHz = ft.hz
 	}
 	return e
 }
@@ -264,7 +291,9 @@ func (d *Detector) powerSpectrum() {
 	for i, z := range d.specB {
 		p := real(z)*real(z) + imag(z)*imag(z)
 		d.power[i] = p
-		peak = math.Max(peak, p)
+		if p > peak {
+			peak = p
+		}
 	}
 	d.peak = peak
 	copy(d.scratch, d.power)

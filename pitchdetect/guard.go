@@ -111,7 +111,7 @@ func (d *Detector) guard(period float64) (float64, float64) {
 // are present, so that f is an octave low.
 func (d *Detector) missingOdd(f, period, resolved float64) bool {
 	if f < resolved {
-		return d.nsdfAt(period/2) >= d.nsdfAt(period)-nsdfUpMargin
+		return d.nsdfFresh && d.nsdfAt(period/2) >= d.nsdfAt(period)-nsdfUpMargin
 	}
 	odd, even := d.oddEven(f)
 	return even > 0 && odd < guardOddRatio*even
@@ -121,7 +121,7 @@ func (d *Detector) missingOdd(f, period, resolved float64) bool {
 // or -1 outside the computed range.
 func (d *Detector) nsdfAt(lag float64) float64 {
 	c := int(lag + 0.5)
-	if c < 1 || c+1 >= len(d.nsdfOut) {
+	if !d.nsdfFresh || c < 1 || c+1 >= len(d.nsdfOut) {
 		return -1
 	}
 	return max(d.nsdfOut[c-1], d.nsdfOut[c], d.nsdfOut[c+1])
@@ -132,7 +132,7 @@ func (d *Detector) nsdfAt(lag float64) float64 {
 func (d *Detector) refineLag(lag float64) float64 {
 	n := d.nsdfOut
 	c := int(lag + 0.5)
-	if c < 2 || c+2 >= len(n) {
+	if !d.nsdfFresh || c < 2 || c+2 >= len(n) {
 		return lag
 	}
 	k := c

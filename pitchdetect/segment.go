@@ -32,6 +32,9 @@ type Segmenter struct {
 	outlier Estimate // a single off-pitch frame awaiting confirmation
 	hasOut  bool
 	t, c    []float64 // scratch for summaries
+	vib     vibrato   // the last vibrato fit, made at vibAt frames
+	vibAt   int
+	vibHz   float64
 }
 
 // NewSegmenter returns a Segmenter for estimates hopSeconds apart, with
@@ -86,6 +89,7 @@ func (s *Segmenter) Push(e Estimate) (Held, bool) {
 func (s *Segmenter) start(e Estimate) {
 	s.frames = append(s.frames[:0], e)
 	s.gap, s.hasOut = 0, false
+	s.vib, s.vibAt = vibrato{}, 0
 }
 
 // recentHz is the median-of-three of the note's last frames, so a single
@@ -100,7 +104,7 @@ func (s *Segmenter) recentHz() float64 {
 }
 
 func (s *Segmenter) finish() (Held, bool) {
-	h := s.summary()
+	h := s.summarise(false)
 	ok := len(s.frames) >= s.MinFrames
 	s.frames = s.frames[:0]
 	s.gap, s.hasOut = 0, false
@@ -108,12 +112,14 @@ func (s *Segmenter) finish() (Held, bool) {
 }
 
 // Current returns the note being held now (its summary so far), or false
-// if no note is sounding. The first reading comes with the first voiced frame.
+// if no note is sounding. The first reading comes with the first voiced
+// frame. Its vibrato fit is refreshed every few frames only, so calling it
+// on every frame stays cheap.
 func (s *Segmenter) Current() (Held, bool) {
 	if len(s.frames) == 0 || s.gap > 0 {
 		return Held{}, false
 	}
-	return s.summary(), true
+	return s.summarise(true), true
 }
 
 // Flush ends the stream, returning the note still open, if long enough.
@@ -124,8 +130,12 @@ func (s *Segmenter) Flush() (Held, bool) {
 	return s.finish()
 }
 
-// summary describes the frames of the open note.
-func (s *Segmenter) summary() Held {
+// vibratoRefresh is how many new frames Current waits before refitting.
+const vibratoRefresh = 8
+
+// summarise describes the frames of the open note; live reuses a recent
+// vibrato fit.
+func (s *Segmenter) summarise(live bool) Held {
 	fr := s.frames
 	h := Held{Start: fr[0].Time, End: fr[len(fr)-1].Time, Frames: len(fr)}
 	ref := fr[len(fr)/2].Hz
@@ -147,11 +157,14 @@ func (s *Segmenter) summary() Held {
 	}
 	mean, sd := meanStd(s.c)
 	h.Spread = sd
-	centre := mean
-	if v := findVibrato(s.t, s.c, s.Window); v.ok {
-		centre, h.VibratoWidth, h.VibratoRate = v.centre, v.width, v.rate
+	h.Hz = ref * math.Pow(2, mean/1200)
+	if !live || len(fr) >= s.vibAt+vibratoRefresh || len(fr) < s.vibAt {
+		s.vib, s.vibAt = findVibrato(s.t, s.c, s.Window), len(fr)
+		s.vibHz = ref * math.Pow(2, s.vib.centre/1200)
 	}
-	h.Hz = ref * math.Pow(2, centre/1200)
+	if s.vib.ok {
+		h.Hz, h.VibratoWidth, h.VibratoRate = s.vibHz, s.vib.width, s.vib.rate
+	}
 	return h
 }
 

@@ -124,3 +124,24 @@ func TestSegmenterIgnoresASingleStrayFrame(t *testing.T) {
 		t.Errorf("got %+v, want one 440 Hz note of 39 frames", got)
 	}
 }
+
+// Slurred leaps of an octave and a fifth: while a note holds the detector
+// seeds each frame with the last pitch, so a leap must still be heard as a
+// new note at its own pitch (octave and fifth guards, then a fresh NSDF).
+func TestSlurredOctaveAndFifthLeaps(t *testing.T) {
+	rate := 44100.0
+	pitches := []float64{220, 440, 293.6648, 587.3295, 195.9977} // A3 A4 D4 D5 G3
+	var x []float64
+	for _, hz := range pitches {
+		x = append(x, testsignal.Tone(rate, int(rate*0.5), testsignal.Saw, 0.3, testsignal.Steady(hz))...)
+	}
+	notes := segment(run(t, rate, x), rate)
+	if len(notes) != len(pitches) {
+		t.Fatalf("%d notes, want %d: %+v", len(notes), len(pitches), notes)
+	}
+	for i, n := range notes {
+		if c := testsignal.Cents(n.Hz, pitches[i]); math.Abs(c) > 0.01 {
+			t.Errorf("note %d: %.4f Hz (%+.4f ¢), want %.4f", i, n.Hz, c, pitches[i])
+		}
+	}
+}

@@ -12,10 +12,11 @@ import "math"
 const (
 	vibratoMinRate  = 3.0
 	vibratoMaxRate  = 9.0
-	vibratoStep     = 0.05
-	vibratoMinWidth = 3.0 // cents peak to peak; smaller swings count as steady
-	vibratoMinFit   = 0.5 // share of the track's variance the sinusoid explains
-	vibratoMinCycle = 2.0 // whole cycles needed
+	vibratoCoarse   = 0.25 // Hz steps of the first periodogram scan
+	vibratoStep     = 0.02 // and of the second
+	vibratoMinWidth = 3.0  // cents peak to peak; smaller swings count as steady
+	vibratoMinFit   = 0.5  // share of the track's variance the sinusoid explains
+	vibratoMinCycle = 2.0  // whole cycles needed
 )
 
 type vibrato struct {
@@ -44,13 +45,20 @@ func findVibrato(t, c []float64, window float64) vibrato {
 		}
 		return re*re + im*im
 	}
-	best, bestP, prevP, nextP := 0.0, -1.0, 0.0, 0.0
-	for r := vibratoMinRate; r <= vibratoMaxRate+1e-9; r += vibratoStep {
+	// A coarse scan, then a fine one around its best, then a parabola.
+	best, bestP := 0.0, -1.0
+	for r := vibratoMinRate; r <= vibratoMaxRate+1e-9; r += vibratoCoarse {
 		if p := power(r); p > bestP {
 			best, bestP = r, p
 		}
 	}
-	prevP, nextP = power(best-vibratoStep), power(best+vibratoStep)
+	lo := best - vibratoCoarse
+	for r := lo; r <= lo+2*vibratoCoarse+1e-9; r += vibratoStep {
+		if p := power(r); p > bestP {
+			best, bestP = r, p
+		}
+	}
+	prevP, nextP := power(best-vibratoStep), power(best+vibratoStep)
 	if den := prevP - 2*bestP + nextP; den < 0 {
 		best += vibratoStep * 0.5 * (prevP - nextP) / den
 	}

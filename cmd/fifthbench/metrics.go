@@ -20,6 +20,7 @@ type tally struct {
 	missedOnsets    int
 	cpu             time.Duration
 	audio           float64            // seconds
+	longCPU         float64            // CPU seconds per second on the long clip
 	pending         map[int][2]float64 // interval pair → first clip's measured and true Hz
 }
 
@@ -31,6 +32,10 @@ func settled(t, dur float64) bool { return t >= 0.1 && t <= dur-0.05 }
 
 func (ta *tally) add(c clip, r result, ours bool) {
 	dur := float64(len(c.x)) / c.rate
+	if c.kind == long {
+		ta.longCPU = r.cpu.Seconds() / dur
+		return
+	}
 	ta.cpu += r.cpu
 	ta.audio += dur
 	switch c.kind {

@@ -30,7 +30,7 @@ type result struct {
 }
 
 // runFifthline feeds a clip hop by hop, as the live meter does, and times
-// the detector's own thread.
+// the detector (not the Segmenter) on its own thread.
 func runFifthline(c clip) (result, error) {
 	d, err := pitchdetect.New(c.rate, 0, 0)
 	if err != nil {
@@ -44,9 +44,10 @@ func runFifthline(c clip) (result, error) {
 	out := make([]pitchdetect.Estimate, 0, 4)
 	runtime.LockOSThread()
 	defer runtime.UnlockOSThread()
-	t0 := threadCPU()
 	for i := 0; i < len(c.x); i += d.Hop() {
+		t0 := threadCPU()
 		out = d.Feed(c.x[i:min(i+d.Hop(), len(c.x))], out[:0])
+		res.cpu += threadCPU() - t0
 		for _, e := range out {
 			res.t = append(res.t, e.Time)
 			res.hz = append(res.hz, e.Hz)
@@ -62,7 +63,6 @@ func runFifthline(c clip) (result, error) {
 	if h, ok := seg.Flush(); ok {
 		res.held = append(res.held, h)
 	}
-	res.cpu = threadCPU() - t0
 	return res, nil
 }
 

@@ -25,6 +25,7 @@ const (
 	noise                // no pitch anywhere
 	onset                // a note after silence: time to first reading
 	crb                  // tone in white noise with a known Cramér–Rao bound
+	long                 // one long clip: throughput without per-file start-up
 )
 
 // clip is one test signal with its truth.
@@ -151,6 +152,10 @@ func buildClips(soxPath, fluidPath, tmp string) ([]clip, error) {
 				crbHz: testsignal.CramerRaoHz(44100, 4608, amps, hz, sigma)})
 		}
 	}
+	// One long clip, so aubio's process start-up and file opening weigh
+	// little in its CPU time.
+	x := testsignal.Tone(44100, 44100*20, testsignal.Saw, 0.5, testsignal.Vibrato(220, 10, 5))
+	add(clip{name: "long saw 220 Hz", kind: long, rate: 44100, x: testsignal.Float32(x), hz: 220, vibRate: 5})
 	// fluidsynth renders of low, weak-fundamental and odd-spectrum notes.
 	rend, err := fluidRenders(fluidPath, tmp)
 	if err != nil {
