@@ -30,7 +30,7 @@ const (
 	minClarity    = 0.75  // NSDF peak value
 	minClarityLow = 0.85  // the same when partials are too close to check their spread
 	minShare      = 0.3   // share of spectral power in the harmonic comb
-	residualScale = 4.0   // cents of partial disagreement that halve confidence
+	residualScale = 6.0   // cents of partial disagreement that halve confidence
 	minConfidence = 0.5
 	floorDB       = -80.0 // partials this far below the strongest are ignored
 	floorMedian   = 20.0  // and partials less than this times the median bin power

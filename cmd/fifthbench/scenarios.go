@@ -218,7 +218,8 @@ func fluidRenders(fluid, tmp string) ([]clip, error) {
 		if err := os.WriteFile(mid, smf(n.program, n.key, 1.2), 0o644); err != nil {
 			return nil, err
 		}
-		cmd := exec.Command(fluid, "-ni", "-q", "-g", "0.5", "-r", "44100", "-T", "raw", "-O", "float", "-F", raw, fluidR3, mid)
+		// No chorus or reverb: their modulated copies would blur the pitch.
+		cmd := exec.Command(fluid, "-ni", "-q", "-C0", "-R0", "-g", "0.5", "-r", "44100", "-T", "raw", "-O", "float", "-F", raw, fluidR3, mid)
 		if out, err := cmd.CombinedOutput(); err != nil {
 			return nil, fmt.Errorf("fluidsynth %s: %v: %s", n.name, err, out)
 		}
