@@ -170,3 +170,19 @@ func BenchmarkFeed(b *testing.B) {
 	}
 	b.ReportMetric(float64(hop)/rate, "audio-s/op")
 }
+
+// A hop other than the default (which equals the lag between the two
+// spectral frames) takes the path that transforms both frames.
+func TestNonDefaultWindowAndHop(t *testing.T) {
+	for _, c := range []struct{ window, hop int }{{4096, 256}, {8192, 1024}, {2048, 512}} {
+		d, err := New(48000, c.window, c.hop)
+		if err != nil {
+			t.Fatal(err)
+		}
+		x := testsignal.Tone(48000, 48000/2, testsignal.Saw, 0.5, testsignal.Steady(440))
+		m := measure(d.Feed(testsignal.Float32(x), nil), 440)
+		if m.voiced < m.frames*9/10 || m.median > 0.02 || m.max > 0.2 {
+			t.Errorf("window %d hop %d: %d/%d voiced, median %.4f ¢, max %.4f ¢", c.window, c.hop, m.voiced, m.frames, m.median, m.max)
+		}
+	}
+}

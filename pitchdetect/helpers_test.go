@@ -53,8 +53,7 @@ func measure(est []Estimate, hz float64) errorStats {
 // segment runs the estimates through a Segmenter matched to the detector.
 func segment(est []Estimate, rate float64) []Held {
 	d, _ := New(rate, 0, 0)
-	s := NewSegmenter(float64(d.Hop()) / rate)
-	s.Window = float64(d.Span()) / rate
+	s := d.NewSegmenter()
 	var notes []Held
 	for _, e := range est {
 		if h, ok := s.Push(e); ok {

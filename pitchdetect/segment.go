@@ -49,6 +49,13 @@ func NewSegmenter(hopSeconds float64) *Segmenter {
 	}
 }
 
+// NewSegmenter returns a Segmenter matched to the detector's hop and span.
+func (d *Detector) NewSegmenter() *Segmenter {
+	s := NewSegmenter(float64(d.hop) / d.fs)
+	s.Window = float64(d.span) / d.fs
+	return s
+}
+
 // Push adds the next estimate and returns a note that has just ended.
 func (s *Segmenter) Push(e Estimate) (Held, bool) {
 	if !e.Voiced || e.Hz <= 0 {

@@ -36,8 +36,7 @@ func runFifthline(c clip) (result, error) {
 	if err != nil {
 		return result{}, err
 	}
-	seg := pitchdetect.NewSegmenter(float64(d.Hop()) / c.rate)
-	seg.Window = float64(d.Span()) / c.rate
+	seg := d.NewSegmenter()
 	res := result{firstRead: math.NaN()}
 	res.t = make([]float64, 0, len(c.x)/d.Hop()+1)
 	res.hz = make([]float64, 0, len(c.x)/d.Hop()+1)
