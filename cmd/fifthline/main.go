@@ -90,6 +90,10 @@ func run(e *env, args []string) (code int) {
 	}
 }
 
+// doubleDash spells flag names in the flag package's messages the way this
+// program documents them, with two dashes.
+var doubleDash = strings.NewReplacer("flag -", "flag --", "argument: -", "argument: --", "defined: -", "defined: --")
+
 func oneLine(s string) string { return strings.Join(strings.Fields(s), " ") }
 
 func commandNames() []string {
@@ -132,7 +136,7 @@ func parseFlags(e *env, fs *flag.FlagSet, args []string) ([]string, error) {
 				fs.PrintDefaults()
 				return nil, errHelp
 			}
-			return nil, usagef("%s: %v", fs.Name(), err)
+			return nil, usagef("%s: %s", fs.Name(), doubleDash.Replace(err.Error()))
 		}
 		args = fs.Args()
 		if len(args) == 0 {
