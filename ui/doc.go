@@ -10,5 +10,6 @@
 // functions (Headline, Words, FifthsRows, Trace, …) turn it into plain text
 // lines with roles, and only Meter touches tview and tcell. Tuning logic
 // stays in package target; sound and pitch stay in session. It plays
-// nothing and writes no files.
+// nothing itself (its drone and reference keys ask a Sound, which the
+// command provides) and writes no files.
 package ui

@@ -57,6 +57,8 @@ func Layout(m *Model, w, h int) []Line {
 		gap(1),
 		{[]Line{InputLine(m)}, 9, false},
 		{[]Line{JournalLine(m)}, 8, false},
+		{lines(SoundLine(m)), 8, false},
+		{CautionLines(m, bw), 9, false},
 		{[]Line{HintLine(m)}, 4, false},
 	}
 	parts = fit(parts, h)
@@ -72,6 +74,14 @@ func Layout(m *Model, w, h int) []Line {
 		out = append(out, p.lines...)
 	}
 	return frame(out, w, bw, h)
+}
+
+// lines is l as a section's lines: none for an empty line.
+func lines(l Line) []Line {
+	if l == nil {
+		return nil
+	}
+	return []Line{l}
 }
 
 // fit drops the lowest-kept sections, last first among equals, until the

@@ -35,6 +35,12 @@ type Options struct {
 	Journal func() string
 	// Screen is where to draw; nil means the terminal.
 	Screen tcell.Screen
+	// Sound plays the drone and reference keys' sound; nil: no sound keys.
+	Sound Sound
+	// SoundLevel is Sound's peak ceiling in dBFS, for the status line.
+	SoundLevel float64
+	// Caution is the hearing caution shown while Sound plays.
+	Caution string
 }
 
 // Meter is the live screen. Feed it from session.Run with OnFrame and
@@ -55,12 +61,14 @@ type Meter struct {
 // New makes a meter for the tuning opt.Tunings holds.
 func New(opt Options) *Meter {
 	tu := opt.Tunings.Get()
+	model := NewModel(tu, opt.Source)
+	model.HasSound, model.Level, model.Caution = opt.Sound != nil, opt.SoundLevel, opt.Caution
 	return &Meter{
 		opt: opt, start: tu,
 		frames: make(chan session.Frame, frameBuffer),
 		notes:  make(chan session.Event, frameBuffer),
 		quit:   make(chan struct{}),
-		model:  NewModel(tu, opt.Source),
+		model:  model,
 	}
 }
 
@@ -177,6 +185,9 @@ func (m *Meter) drain() {
 	if m.opt.Journal != nil {
 		m.model.Journal = m.opt.Journal()
 	}
+	if m.opt.Sound != nil {
+		m.model.Sounding = m.opt.Sound.Partials()
+	}
 	m.model.Dropped = m.dropped.Load()
 	m.model.Finished = m.ended.Load()
 }
@@ -197,6 +208,12 @@ func (m *Meter) key(app *tview.Application, ev *tcell.EventKey) *tcell.EventKey 
 	case "Esc":
 		m.model.Help = false
 		return nil
+	case "d":
+		m.model.CycleDrone(m.opt.Sound)
+		return nil
+	case "s", " ":
+		m.model.SoundReference(m.opt.Sound)
+		return nil
 	}
 	for _, b := range Bindings {
 		for _, k := range b.Keys {
@@ -205,6 +222,7 @@ func (m *Meter) key(app *tview.Application, ev *tcell.EventKey) *tcell.EventKey 
 				m.opt.Tunings.Set(tu)
 				m.model.Tuning = tu
 				m.model.Say(msg)
+				m.model.Retune(m.opt.Sound)
 				return nil
 			}
 		}

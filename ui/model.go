@@ -39,6 +39,7 @@ type Model struct {
 	Message string // the last key's effect, shown for messageSeconds
 	Help    bool
 	Dropped uint64 // frames the screen could not keep up with
+	soundState
 
 	messageAt float64 // stream time Message was set
 	heldAt    float64 // stream time of the last frame holding a note

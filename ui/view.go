@@ -151,6 +151,11 @@ func Words(m *Model) Line {
 	default:
 		l = append(l, text(" · "+alt+" would read "+Cents(r.AltCents)+" ¢", Dim))
 	}
+	if m.OnDrone() {
+		// The canceller took the drone's partials out here, so the note
+		// was read from its other partials.
+		l = append(l, text(" · on the drone", Other))
+	}
 	return l
 }
 
@@ -303,6 +308,9 @@ func HintLine(m *Model) Line {
 	if m.Finished {
 		return plain("the performance has ended · q quits")
 	}
+	if m.HasSound {
+		return dimLine("←→ tonic · m mode · t temperament · ↑↓ A4 · d drone · s target · ? help · q quit")
+	}
 	return dimLine("←→ tonic · m mode · t temperament · ↑↓ A4 · ? help · q quit")
 }
 
@@ -315,6 +323,8 @@ func HelpLines() []Line {
 		}
 	}
 	out = append(out,
+		plain("  d     drone: off → tonic → tonic and fifth → off"),
+		plain("  s ␣   sound the held (or last) note's target briefly"),
 		plain("  ? h   this help (Esc closes it)"),
 		plain("  q     quit"),
 		plain(""),

@@ -27,12 +27,16 @@ func runDemo(e *env, args []string) error {
 		fs.Lookup(name).DefValue = def
 	}
 	jf := addJournalFlags(fs)
+	sf := addSoundFlags(fs)
 	pos, err := parseFlags(e, fs, args)
 	if err != nil {
 		return err
 	}
 	if len(pos) > 0 {
 		return usagef("demo takes no arguments (got %q)", pos[0])
+	}
+	if err := sf.check(); err != nil {
+		return err
 	}
 	tu, err := mf.tuning()
 	if err != nil {
@@ -49,7 +53,7 @@ func runDemo(e *env, args []string) error {
 	defer restore()
 	src := capture.NewPerformance(demoRate, demoScoreTones(score), true)
 	opts := session.Options{Name: "demo", Tunings: session.NewTunings(tu)}
-	err = runMeter(e.ctx, src, opts, j, meterSource{name: "the demo performance", journal: jf.log})
+	err = runMeter(e.ctx, src, opts, j, meterSource{name: "the demo performance", journal: jf.log, sound: newMeterSound(sf)})
 	return errors.Join(stopped(err), j.close())
 }
 

@@ -29,8 +29,8 @@ func runDrone(e *env, args []string) error {
 	if len(pos) > 0 {
 		return usagef("drone takes no arguments (got %q); give the notes with --notes", pos[0])
 	}
-	if err := playback.CheckLevel(*level); err != nil {
-		return usagef("--level %g dBFS is above the %g dBFS limit (hearing safety)", *level, playback.MaxLevel)
+	if err := checkLevelFlag("--level", *level); err != nil {
+		return err
 	}
 	if *duration < 0 {
 		return usagef("--duration %v is negative", *duration)
@@ -53,7 +53,7 @@ func runDrone(e *env, args []string) error {
 	}
 	// Said before any sound, after the device has opened (silently), so a
 	// device error stays the only line.
-	fmt.Fprintf(e.stderr, "fifthline: caution: keep your headphone or speaker volume low and stop at once if it hurts; peak level %g dBFS, fading in\n", *level)
+	fmt.Fprintf(e.stderr, "fifthline: caution: %s; peak level %g dBFS, fading in\n", hearingAdvice, *level)
 	fmt.Fprintf(e.stderr, "fifthline: drone %s (%s) on %q · %s; Ctrl-C stops\n", names, hzList(hz), p.Device().Name, tu)
 	p.SetDrone(hz)
 	var timeout <-chan time.Time

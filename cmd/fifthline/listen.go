@@ -14,6 +14,7 @@ import (
 	"golang.org/x/sys/unix"
 
 	"fifthline/capture"
+	"fifthline/drone"
 	"fifthline/session"
 	"fifthline/ui"
 )
@@ -30,6 +31,7 @@ func runListen(e *env, args []string) error {
 	channel := fs.Int("channel", 1, "input channel to read, counted from 1")
 	plain := fs.Bool("plain", false, "no screen: a CSV header, then one line per held note as it ends")
 	duration := fs.Duration("duration", 0, "stop cleanly after this long (e.g. 12s, 2m); 0 listens until interrupted")
+	sf := addSoundFlags(fs)
 	pos, err := parseFlags(e, fs, args)
 	if err != nil {
 		return err
@@ -41,6 +43,9 @@ func runListen(e *env, args []string) error {
 		return usagef("--channel %d: channels are counted from 1", *channel)
 	case *duration < 0:
 		return usagef("--duration %v is negative", *duration)
+	}
+	if err := sf.check(); err != nil {
+		return err
 	}
 	tu, err := mf.tuning()
 	if err != nil {
@@ -65,7 +70,11 @@ func runListen(e *env, args []string) error {
 	if *plain {
 		err = listenPlain(ctx, e, in, opts, j)
 	} else {
-		err = runMeter(ctx, in, opts, j, meterSource{name: in.Device().Name, stats: in.Stats, journal: jf.log})
+		// The drone leaks into a microphone: the meter hears the input
+		// with the player's partials taken out (nothing while silent).
+		sound := newMeterSound(sf)
+		src := drone.Cancel(in, nil).Follow(sound.Partials)
+		err = runMeter(ctx, src, opts, j, meterSource{name: in.Device().Name, stats: in.Stats, journal: jf.log, sound: sound})
 	}
 	// Close before reporting: the journal and the device keep what was heard.
 	return errors.Join(stopped(err), in.Close(), j.close())
@@ -100,6 +109,7 @@ type meterSource struct {
 	name    string
 	stats   func() capture.InputStats // nil without a device
 	journal string                    // the --log path, if any
+	sound   *meterSound               // the drone and reference keys' sound
 }
 
 // runMeter shows the meter fed by src until q, the end of ctx, or a failing
@@ -111,7 +121,8 @@ func runMeter(ctx context.Context, src capture.Source, opts session.Options, j *
 			return strings.Replace(s, ms.journal, filepath.Base(ms.journal), 1) // the screen is narrow
 		}
 		return "journal: off"
-	}})
+	}, Sound: ms.sound, SoundLevel: ms.sound.opt.Level, Caution: "caution: " + hearingAdvice})
+	defer ms.sound.Close() // fades out; the meter has stopped asking
 	opts.OnFrame = m.OnFrame
 	opts.OnNote = func(ev session.Event) error {
 		j.note(ev)

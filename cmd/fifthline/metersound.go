@@ -1,0 +1,116 @@
+package main
+
+import (
+	"flag"
+	"fmt"
+	"sync"
+	"sync/atomic"
+	"time"
+
+	"fifthline/drone"
+	"fifthline/playback"
+	"fifthline/ui"
+)
+
+// hearingAdvice is the hearing caution (team rule 4) every command that
+// plays sound gives before the sound starts.
+const hearingAdvice = "keep your headphone or speaker volume low and stop at once if it hurts"
+
+// checkLevelFlag refuses a level above playback's limit, as a usage error
+// naming the limit, before anything plays.
+func checkLevelFlag(flag string, dbfs float64) error {
+	if err := playback.CheckLevel(dbfs); err != nil {
+		return usagef("%s %g dBFS is above the %g dBFS limit (hearing safety)", flag, dbfs, playback.MaxLevel)
+	}
+	return nil
+}
+
+// soundFlags choose where and how loud the meter's drone and reference
+// tones play.
+type soundFlags struct {
+	level  float64
+	output string
+}
+
+func addSoundFlags(fs *flag.FlagSet) *soundFlags {
+	f := &soundFlags{}
+	fs.Float64Var(&f.level, "drone-level", playback.DefaultLevel, fmt.Sprintf("peak of the d key's drone and the s key's reference tone together, in dBFS, at most %g", playback.MaxLevel))
+	fs.StringVar(&f.output, "output", "", "output device for the drone and reference tones: index or part of the name (default: the system's default output)")
+	return f
+}
+
+func (f *soundFlags) check() error { return checkLevelFlag("--drone-level", f.level) }
+
+// meterSound is the meter's drone and reference tones on an output device
+// opened at the first key press that asks for sound, so a machine without
+// one still listens. It is the meter's ui.Sound.
+type meterSound struct {
+	opt    playback.Options
+	open   sync.Mutex // held while the device opens, on the screen's goroutine
+	player atomic.Pointer[playback.Player]
+}
+
+func newMeterSound(f *soundFlags) *meterSound {
+	// The drone and the reference share the level, so that both together
+	// reach it and the limiter never has to act.
+	return &meterSound{opt: playback.Options{Device: f.output, Level: f.level, Timbre: drone.Reed, ShareWithReference: true}}
+}
+
+// get opens the player if it is not open yet. A failure is returned and
+// tried again at the next press (a device may have been plugged in).
+func (s *meterSound) get() (*playback.Player, error) {
+	s.open.Lock()
+	defer s.open.Unlock()
+	if p := s.player.Load(); p != nil {
+		return p, nil
+	}
+	p, err := playback.NewPlayer(s.opt)
+	if err != nil {
+		return nil, err
+	}
+	s.player.Store(p)
+	return p, nil
+}
+
+// SetDrone sounds a drone on the fundamentals; nil fades it out (and opens
+// nothing).
+func (s *meterSound) SetDrone(hz []float64) error {
+	if hz == nil && s.player.Load() == nil {
+		return nil
+	}
+	p, err := s.get()
+	if err == nil {
+		p.SetDrone(hz)
+	}
+	return err
+}
+
+// Reference sounds hz for the meter's reference time.
+func (s *meterSound) Reference(hz float64) error {
+	p, err := s.get()
+	if err == nil {
+		p.Reference(hz, referenceTime)
+	}
+	return err
+}
+
+const referenceTime = time.Duration(ui.ReferenceSeconds * float64(time.Second))
+
+// Partials are what sounds now; nil before the device opens. It never
+// waits for the device to open: the listening goroutine calls it.
+func (s *meterSound) Partials() []float64 {
+	if p := s.player.Load(); p != nil {
+		return p.Partials()
+	}
+	return nil
+}
+
+// Close fades out whatever sounds and closes the device, if it opened.
+func (s *meterSound) Close() error {
+	s.open.Lock()
+	defer s.open.Unlock()
+	if p := s.player.Swap(nil); p != nil {
+		return p.Close()
+	}
+	return nil
+}

@@ -1,0 +1,171 @@
+package ui
+
+import (
+	"errors"
+	"math"
+	"slices"
+	"strings"
+	"testing"
+	"time"
+
+	"fifthline/drone"
+	"fifthline/internal/vmic"
+	"fifthline/playback"
+	"fifthline/target"
+)
+
+// playerSound is a real Player as the meter's Sound, playing into a null
+// sink of the test's own (nothing is audible).
+type playerSound struct{ *playback.Player }
+
+func (p playerSound) SetDrone(hz []float64) error { p.Player.SetDrone(hz); return nil }
+func (p playerSound) Reference(hz float64) error {
+	p.Player.Reference(hz, time.Duration(ReferenceSeconds*float64(time.Second)))
+	return nil
+}
+
+func openSound(t *testing.T) playerSound {
+	t.Helper()
+	vmic.Isolate(t)
+	p, err := playback.NewPlayer(playback.Options{Timbre: drone.Reed, ShareWithReference: true, Fade: 10 * time.Millisecond})
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Cleanup(func() { p.Close() })
+	return playerSound{p}
+}
+
+// noOutput is the Sound of a machine whose output cannot be opened: every
+// request fails with the error a real Player gave for a missing device.
+type noOutput struct{ err error }
+
+func missingOutput(t *testing.T) noOutput {
+	t.Helper()
+	vmic.Ensure(t)
+	_, err := playback.NewPlayer(playback.Options{Device: "no-such-output-xyz"})
+	if !errors.Is(err, playback.ErrNoDevice) {
+		t.Fatalf("opening a missing output: %v", err)
+	}
+	return noOutput{err}
+}
+
+func (s noOutput) SetDrone([]float64) error { return s.err }
+func (s noOutput) Reference(float64) error  { return s.err }
+func (noOutput) Partials() []float64        { return nil }
+
+// The sound keys, pressed in turn on C major in ¼-comma meantone at
+// A4 = 415 Hz, with a real Player. From the definition (each fifth 5^(1/4),
+// A4 three fifths above C4 less an octave): C3 = 415 / 5^(3/4),
+// G3 = C3 · 5^(1/4), and after → (G major) G3 and D4 = G3 · 5^(1/4).
+func TestSoundKeysDriveTheDroneAndTheReference(t *testing.T) {
+	s := openSound(t)
+	c3 := 415 / math.Pow(fifthQC, 3)
+	g3, d4 := c3*fifthQC, c3*fifthQC*fifthQC
+	m := holding(quarterComma(t), fSharp4)
+	m.HasSound, m.Level, m.Caution = true, -18, "caution: keep the volume low"
+	m.Holding = false // the note has ended: the reference sounds the last one
+	for _, step := range []struct {
+		name    string
+		press   func()
+		say     string    // the hint line after the press
+		status  string    // the sound line
+		drone   []float64 // fundamentals the player sounds (each its first partial)
+		caution bool
+	}{
+		{"at first", func() {}, "", "drone: off", nil, false},
+		{"d: the tonic", func() { m.CycleDrone(s) }, "drone C3", "drone: C3 at −18 dBFS", []float64{c3}, true},
+		{"d: tonic and fifth", func() { m.CycleDrone(s) }, "drone C3+G3", "drone: C3+G3 at −18 dBFS", []float64{c3, g3}, true},
+		{"→ moves the drone with the tonic", func() {
+			m.Tuning, _ = MoveTonic(m.Tuning, 1)
+			m.Retune(s)
+		}, "", "drone: G3+D4 at −18 dBFS", []float64{g3, d4}, true},
+		{"d: off", func() { m.CycleDrone(s) }, "drone off", "drone: off", nil, false},
+		{"s: the last note's target", func() { m.SoundReference(s) }, "reference: F♯4 at 346.91 Hz", "drone: off", []float64{fSharp4}, true},
+	} {
+		step.press()
+		m.Sounding = s.Partials()
+		if got := HintLine(m).Text(); step.say != "" && got != step.say {
+			t.Errorf("%s: hint %q, want %q", step.name, got, step.say)
+		}
+		if got := SoundLine(m).Text(); got != step.status {
+			t.Errorf("%s: sound line %q, want %q", step.name, got, step.status)
+		}
+		for _, f := range step.drone {
+			if !slices.ContainsFunc(m.Sounding, func(p float64) bool { return math.Abs(p-f) < 1e-9 }) {
+				t.Errorf("%s: %.4f Hz not among the player's partials %.4f", step.name, f, m.Sounding)
+			}
+		}
+		if step.drone == nil && len(m.Sounding) > 0 {
+			t.Errorf("%s: still sounding %.2f", step.name, m.Sounding)
+		}
+		if got := len(CautionLines(m, 80)) > 0; got != step.caution {
+			t.Errorf("%s: caution shown %v, want %v", step.name, got, step.caution)
+		}
+	}
+}
+
+func TestSoundKeysSayWhyNothingPlays(t *testing.T) {
+	none := missingOutput(t)
+	m := NewModel(quarterComma(t), "x")
+	m.HasSound = true
+	m.SoundReference(none)
+	if got := HintLine(m).Text(); !strings.HasPrefix(got, "no note yet") {
+		t.Errorf("reference before any note: %q", got)
+	}
+	m.CycleDrone(none)
+	if m.Drone != DroneOff || SoundLine(m).Text() != "no sound: "+none.err.Error() || SoundLine(m)[0].Role != Warn {
+		t.Errorf("failed drone: state %d, line %q", m.Drone, SoundLine(m).Text())
+	}
+	if got := HintLine(m).Text(); !strings.HasPrefix(got, "no sound: ") {
+		t.Errorf("hint %q", got)
+	}
+	if SoundLine(NewModel(target.Default(), "x")) != nil {
+		t.Error("a meter without sound shows a sound line")
+	}
+}
+
+// The held pitch on one of the sounding partials is marked: the canceller
+// took that partial out, so the note was read from its others. 0.1 Hz away
+// counts; 0.2 Hz does not.
+func TestAPitchOnTheDroneIsMarked(t *testing.T) {
+	for _, c := range []struct {
+		off  float64
+		want bool
+	}{{0, true}, {0.09, true}, {-0.09, true}, {0.2, false}} {
+		m := holding(quarterComma(t), fSharp4+c.off)
+		m.HasSound, m.Sounding = true, []float64{fSharp4 / 2, fSharp4, 2 * fSharp4}
+		if got := strings.HasSuffix(Words(m).Text(), " · on the drone"); got != c.want {
+			t.Errorf("%+.2f Hz from a partial: marked %v (%q)", c.off, got, Words(m).Text())
+		}
+	}
+}
+
+func TestTheCautionWrapsToTheScreen(t *testing.T) {
+	m := NewModel(target.Default(), "x")
+	m.HasSound, m.Drone = true, DroneTonic
+	m.Caution = "caution: keep your headphone or speaker volume low and stop at once if it hurts"
+	for _, w := range []int{80, 40, 20} {
+		var words []string
+		for _, l := range CautionLines(m, w) {
+			if l.Width() > w {
+				t.Errorf("%d columns: %q", w, l.Text())
+			}
+			words = append(words, l.Text())
+		}
+		if strings.Join(words, " ") != m.Caution {
+			t.Errorf("%d columns: %q", w, words)
+		}
+	}
+}
+
+func TestEverySoundKeyIsInTheHelp(t *testing.T) {
+	help := ""
+	for _, l := range HelpLines() {
+		help += l.Text() + "\n"
+	}
+	for _, want := range []string{"  d     drone", "  s ␣   sound the held (or last) note's target"} {
+		if !strings.Contains(help, want) {
+			t.Errorf("help lacks %q", want)
+		}
+	}
+}
