@@ -67,6 +67,10 @@ type Detector struct {
 	specB  []complex128
 	haveB  bool // specB holds the previous frame's B spectrum
 
+	known      []float64 // partials of tones playing alongside (SetKnownTones)
+	spanWin    []float64 // Blackman–Harris over the span, for removing them
+	spanWinSum float64
+
 	prevHz    float64 // last frame's pitch, 0 if unvoiced
 	sinceNSDF int     // hops since the NSDF last ran
 	clarity   float64 // its clarity then
@@ -186,13 +190,15 @@ func (d *Detector) frame() Estimate {
 	copy(d.lin[n:], d.ring[:d.w])
 	e := Estimate{Time: (float64(d.fed) - 0.5*float64(d.span)) / d.fs}
 	frameA, frameB := d.lin[:d.window], d.lin[d.lag:]
-
-	ss := 0.0
-	for _, v := range frameB {
-		ss += v * v
+	e.Level = d.levelDB(frameB)
+	gate := e.Level
+	if len(d.known) > 0 {
+		// The meter shows what the microphone hears; the gate and the
+		// analysis see the player without the known tones.
+		d.removeKnown()
+		gate = d.levelDB(frameB)
 	}
-	e.Level = 10 * math.Log10(ss/float64(d.window)+1e-30)
-	if e.Level < silenceDBFS {
+	if gate < silenceDBFS {
 		d.haveB, d.prevHz = false, 0
 		return e
 	}
@@ -275,6 +281,15 @@ func (d *Detector) frame() Estimate {
 		d.prevHz = ft.hz
 	}
 	return e
+}
+
+// levelDB is the RMS of x in dB relative to full scale 1.0.
+func (d *Detector) levelDB(x []float64) float64 {
+	ss := 0.0
+	for _, v := range x {
+		ss += v * v
+	}
+	return 10 * math.Log10(ss/float64(len(x))+1e-30)
 }
 
 // spectrum windows x and transforms it into dst.
