@@ -67,10 +67,6 @@ type Detector struct {
 	specB  []complex128
 	haveB  bool // specB holds the previous frame's B spectrum
 
-	known      []float64 // partials of tones playing alongside (SetKnownTones)
-	spanWin    []float64 // Blackman–Harris over the span, for removing them
-	spanWinSum float64
-
 	prevHz    float64 // last frame's pitch, 0 if unvoiced
 	sinceNSDF int     // hops since the NSDF last ran
 	clarity   float64 // its clarity then
@@ -191,14 +187,7 @@ func (d *Detector) frame() Estimate {
 	e := Estimate{Time: (float64(d.fed) - 0.5*float64(d.span)) / d.fs}
 	frameA, frameB := d.lin[:d.window], d.lin[d.lag:]
 	e.Level = d.levelDB(frameB)
-	gate := e.Level
-	if len(d.known) > 0 {
-		// The meter shows what the microphone hears; the gate and the
-		// analysis see the player without the known tones.
-		d.removeKnown()
-		gate = d.levelDB(frameB)
-	}
-	if gate < silenceDBFS {
+	if e.Level < silenceDBFS {
 		d.haveB, d.prevHz = false, 0
 		return e
 	}
