@@ -255,7 +255,15 @@ func (d *Detector) frame() Estimate {
 	// A tone's comb fit lands within the NSDF's lag resolution of the coarse
 	// pick; narrow-band noise drifts between the two analyses.
 	tol := agreeCents + lagCents
-	dis := math.Abs(1200*math.Log2(ft.hz*period/d.fs)) / tol
+	hz := ft.hz
+	apart := math.Abs(1200 * math.Log2(ft.hz*period/d.fs))
+	if onset && (apart > tol || lagCents < coarseCents) {
+		// The truncated frames bend the comb (by up to its onset search);
+		// the NSDF's interpolated lag is the better first reading unless
+		// its resolution is coarser still (very high notes).
+		hz, tol = d.fs/period, onsetCents+lagCents
+	}
+	dis := apart / tol
 	conf := clarity / (1 + dis*dis)
 	if !onset {
 		r := ft.residual / residualScale
@@ -264,10 +272,10 @@ func (d *Detector) frame() Estimate {
 	e.Confidence = math.Max(0, math.Min(conf, 1))
 	d.last = analysis{clarity: clarity, fit: ft, disagree: dis, coarseHz: f}
 	d.prevHz = 0
-	if ft.hz >= d.minHz && ft.hz <= d.maxHz && clarity >= needClarity && ft.share >= needShare &&
+	if hz >= d.minHz && hz <= d.maxHz && clarity >= needClarity && ft.share >= needShare &&
 		e.Confidence >= minConfidence && ft.partials > 0 && dis < 1.5 {
-		e.Hz, e.Voiced = ft.hz, true
-		d.prevHz = ft.hz
+		e.Hz, e.Voiced = hz, true
+		d.prevHz = hz
 	}
 	return e
 }

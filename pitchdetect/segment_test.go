@@ -81,13 +81,37 @@ func TestFirstReadingWithin60ms(t *testing.T) {
 	}
 }
 
+// An abrupt sine (as sox's synth makes one) at the equal-tempered notes C4 to
+// D5 (ISO 16, A4 = 440 Hz): the first reading comes within 60 ms and is
+// already within 10 ¢ — far inside half the smallest enharmonic gap the
+// temperaments here have (31-EDO's 38.7 ¢), so the meter never flashes a
+// wrong spelling; later frames refine it.
+func TestFirstReadingOfAnAbruptSine(t *testing.T) {
+	for i := range 10 {
+		hz := 440 * math.Exp2(float64(2*i-9)/12)
+		at, err := firstReadingError(t, 48000, hz, testsignal.Sine, 0)
+		if at > 0.060 || math.Abs(err) > 10 {
+			t.Errorf("%.3f Hz: first reading %.1f ms after onset, %+.2f ¢ off", hz, at*1000, err)
+		}
+	}
+}
+
 // firstReading returns seconds from onset to the first Current reading
 // within 50 cents of the truth, feeding one hop at a time.
 func firstReading(t *testing.T, rate, hz float64, s testsignal.Spectrum) float64 {
+	at, _ := firstReadingError(t, rate, hz, s, 0.005)
+	return at
+}
+
+// firstReadingError is firstReading with the reading's error in cents, for
+// a tone with the given attack.
+func firstReadingError(t *testing.T, rate, hz float64, s testsignal.Spectrum, attack float64) (float64, float64) {
 	onset := 0.3
 	x := make([]float64, int(rate*(onset+0.5)))
 	tone := testsignal.Tone(rate, len(x)-int(rate*onset), s, 0.3, testsignal.Steady(hz))
-	testsignal.FadeIn(tone, rate, 0.005)
+	if attack > 0 {
+		testsignal.FadeIn(tone, rate, attack)
+	}
 	copy(x[int(rate*onset):], tone)
 	in := testsignal.Float32(x)
 	d, _ := New(rate, 0, 0)
@@ -98,11 +122,11 @@ func firstReading(t *testing.T, rate, hz float64, s testsignal.Spectrum) float64
 		for _, e := range out {
 			seg.Push(e)
 			if h, ok := seg.Current(); ok && math.Abs(testsignal.Cents(h.Hz, hz)) < 50 {
-				return float64(i+d.Hop())/rate - float64(int(rate*onset))/rate
+				return float64(i+d.Hop())/rate - float64(int(rate*onset))/rate, testsignal.Cents(h.Hz, hz)
 			}
 		}
 	}
-	return math.Inf(1)
+	return math.Inf(1), math.NaN()
 }
 
 func TestSegmenterIgnoresASingleStrayFrame(t *testing.T) {

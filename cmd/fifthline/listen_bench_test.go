@@ -90,10 +90,12 @@ func measureListen(b *testing.B) {
 	b.ReportMetric(rss, "rss_MB")
 	transport, detection, total := onsetLatencies(b, timing, started)
 	b.Logf("onset→reading per tone, ms: %.0f", total)
+	b.Logf("of which detection (first loud frame → first held frame), ms: %.0f", detection)
 	b.ReportMetric(median(total), "onset→reading_ms")
 	b.ReportMetric(slices.Max(total), "onset→reading_max_ms")
 	b.ReportMetric(median(transport), "transport_ms")
 	b.ReportMetric(median(detection), "detection_ms")
+	b.ReportMetric(slices.Max(detection), "detection_max_ms")
 }
 
 // onsetLatencies reads the timing log and finds, for each tone, the first
