@@ -40,10 +40,14 @@ fuzz:
 		done; \
 	done
 
-# Speed, memory and accuracy, side by side with aubio on the same files.
+# Speed, memory and accuracy, side by side with aubio on the same files; then
+# the live path's CPU, memory and onset-to-reading time through the virtual
+# microphone, and the meter's cost on screen.
 bench: deps
 	$(GO) test -run XXX -bench . -benchmem ./pitchdetect/
 	$(GO) run ./cmd/fifthbench
+	@scripts/vmic-start
+	$(GO) test -run XXX -bench 'ListenPlainLive|DemoMeterInTmux' -benchtime 1x ./cmd/fifthline/
 
 clean:
 	rm -rf bin
