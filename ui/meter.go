@@ -62,7 +62,7 @@ type Meter struct {
 func New(opt Options) *Meter {
 	tu := opt.Tunings.Get()
 	model := NewModel(tu, opt.Source)
-	model.HasSound, model.Level, model.Caution = opt.Sound != nil, opt.SoundLevel, opt.Caution
+	model.HasSound, model.SoundLevel, model.Caution = opt.Sound != nil, opt.SoundLevel, opt.Caution
 	return &Meter{
 		opt: opt, start: tu,
 		frames: make(chan session.Frame, frameBuffer),

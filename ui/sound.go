@@ -83,10 +83,10 @@ func DroneWords(tu target.Tuning, d Drone) string {
 
 // soundState is what the model knows of the meter's sound.
 type soundState struct {
-	HasSound bool    // the meter can ask for sound (Options.Sound is set)
-	Drone    Drone   // the drone chosen
-	Level    float64 // the output's peak ceiling, dBFS
-	Caution  string  // the hearing caution shown while anything sounds
+	HasSound   bool    // the meter can ask for sound (Options.Sound is set)
+	Drone      Drone   // the drone chosen
+	SoundLevel float64 // the output's peak ceiling, dBFS
+	Caution    string  // the hearing caution shown while anything sounds
 	// SoundError is the last failure to play ("" once sound plays again).
 	SoundError string
 	Sounding   []float64 // partials sounding now, polled from Sound
@@ -164,7 +164,7 @@ func SoundLine(m *Model) Line {
 	case m.Drone == DroneOff:
 		return dimLine("drone: off")
 	}
-	return plain(fmt.Sprintf("drone: %s at %s dBFS", DroneWords(m.Tuning, m.Drone), minus(fmt.Sprintf("%g", m.Level))))
+	return plain(fmt.Sprintf("drone: %s at %s dBFS", DroneWords(m.Tuning, m.Drone), minus(fmt.Sprintf("%g", m.SoundLevel))))
 }
 
 // CautionLines are the hearing caution, wrapped to w columns, while

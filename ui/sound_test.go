@@ -62,7 +62,7 @@ func TestSoundKeysDriveTheDroneAndTheReference(t *testing.T) {
 	c3 := 415 / math.Pow(fifthQC, 3)
 	g3, d4 := c3*fifthQC, c3*fifthQC*fifthQC
 	m := holding(quarterComma(t), fSharp4)
-	m.HasSound, m.Level, m.Caution = true, -18, "caution: keep the volume low"
+	m.HasSound, m.SoundLevel, m.Caution = true, -18, "caution: keep the volume low"
 	m.Holding = false // the note has ended: the reference sounds the last one
 	for _, step := range []struct {
 		name    string

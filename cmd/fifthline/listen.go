@@ -74,7 +74,7 @@ func runListen(e *env, args []string) error {
 		// with the player's partials taken out (nothing while silent).
 		sound := newMeterSound(sf)
 		src := drone.Cancel(in, nil).Follow(sound.Partials)
-		err = runMeter(ctx, src, opts, j, meterSource{name: in.Device().Name, stats: in.Stats, journal: jf.log, sound: sound})
+		err = runMeter(ctx, src, opts, j, meterSource{name: in.Device().Name, stats: in.Stats, journal: jf.log, sound: sound, hearsSound: true})
 	}
 	// Close before reporting: the journal and the device keep what was heard.
 	return errors.Join(stopped(err), in.Close(), j.close())
@@ -110,6 +110,8 @@ type meterSource struct {
 	stats   func() capture.InputStats // nil without a device
 	journal string                    // the --log path, if any
 	sound   *meterSound               // the drone and reference keys' sound
+	// hearsSound: the source is a microphone that may hear the sound.
+	hearsSound bool
 }
 
 // runMeter shows the meter fed by src until q, the end of ctx, or a failing
@@ -123,8 +125,16 @@ func runMeter(ctx context.Context, src capture.Source, opts session.Options, j *
 		return "journal: off"
 	}, Sound: ms.sound, SoundLevel: ms.sound.opt.Level, Caution: "caution: " + hearingAdvice})
 	defer ms.sound.Close() // fades out; the meter has stopped asking
-	opts.OnFrame = m.OnFrame
+	opts.OnFrame = func(f session.Frame) {
+		if ms.hearsSound && f.Holding && ms.sound.ownNote(heldFor(f.Time-f.Held.Start)) {
+			f.Holding = false
+		}
+		m.OnFrame(f)
+	}
 	opts.OnNote = func(ev session.Event) error {
+		if ms.hearsSound && ms.sound.ownNote(heldFor(ev.Held.End-ev.Held.Start)) {
+			return nil
+		}
 		j.note(ev)
 		return m.OnNote(ev)
 	}
@@ -157,6 +167,8 @@ func runMeter(ctx context.Context, src capture.Source, opts session.Options, j *
 	}
 	return serr
 }
+
+func heldFor(seconds float64) time.Duration { return time.Duration(seconds * float64(time.Second)) }
 
 // stopped treats a deliberate stop (Ctrl-C, SIGTERM, --duration, q) as
 // success: what was heard has been written.

@@ -48,6 +48,9 @@ type meterSound struct {
 	opt    playback.Options
 	open   sync.Mutex // held while the device opens, on the screen's goroutine
 	player atomic.Pointer[playback.Player]
+	// The last reference tone's time, wall clock in Unix nanoseconds, with
+	// referenceSettle after it.
+	refFrom, refTo atomic.Int64
 }
 
 func newMeterSound(f *soundFlags) *meterSound {
@@ -89,12 +92,30 @@ func (s *meterSound) SetDrone(hz []float64) error {
 func (s *meterSound) Reference(hz float64) error {
 	p, err := s.get()
 	if err == nil {
+		now := time.Now()
+		s.refFrom.Store(now.UnixNano())
+		s.refTo.Store(now.Add(referenceTime + referenceSettle).UnixNano())
 		p.Reference(hz, referenceTime)
 	}
 	return err
 }
 
 const referenceTime = time.Duration(ui.ReferenceSeconds * float64(time.Second))
+
+// referenceSettle covers the output's latency and the canceller's settling
+// after a reference tone: a brief tone's edges are harder to take out than
+// a drone's slow fades.
+const referenceSettle = 500 * time.Millisecond
+
+// ownNote tells whether a note that began `since` ago and lasts until now
+// lies within a reference tone's time. Such a note is the meter hearing its
+// own tone's edges (or the player humming along while listening), not a
+// note played: the meter shows and keeps the notes before it instead. A
+// note held from before the tone, or on past it, is the player's.
+func (s *meterSound) ownNote(since time.Duration) bool {
+	now := time.Now()
+	return now.Add(-since).UnixNano() >= s.refFrom.Load() && now.UnixNano() <= s.refTo.Load()
+}
 
 // Partials are what sounds now; nil before the device opens. It never
 // waits for the device to open: the listening goroutine calls it.

@@ -1,0 +1,127 @@
+package main
+
+import (
+	"math"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"strconv"
+	"strings"
+	"testing"
+	"time"
+
+	"fifthline/internal/vmic"
+)
+
+// The drone inside the live meter, on the real audio stack: `listen` in
+// tmux, its output and its microphone one private null sink, so the drone
+// leaks into the input at full strength. In G major, ¼-comma meantone,
+// A4 = 440 Hz (ISO 16), from the temperament's definition (every fifth
+// 5^(1/4)): D4 = 440 / 5^(1/4), G3 = 440 / 5^(1/2), and B3 = 440 · 5^(1/2) / 4,
+// a pure major third (5/4) above G3.
+func TestListenDroneKeySoundsTheTargetsAndTheMeterStillReadsTheNote(t *testing.T) {
+	p := vmic.Isolate(t)
+	g3, d4, b3 := 440/math.Sqrt(5), 440/qcFifth, 440*math.Sqrt(5)/4
+	journal := filepath.Join(t.TempDir(), "rehearsal.csv")
+	m := startTmux(t, 80, 24, []string{"PULSE_SINK=" + p.Sink, "PULSE_SOURCE=" + p.Source},
+		"listen", "--key", "G major", "--temperament", "meantone:1/4", "--log", journal)
+	m.waitFor(`listening to default`, `drone: off`, `d drone`)
+	if s := m.screen(); strings.Contains(s, "caution") {
+		t.Errorf("a caution before any sound:\n%s", s)
+	}
+	m.tmux("send-keys", "-t", "meter", "d")
+	m.waitFor(`drone: G3 at −18 dBFS`, `caution: keep your headphone or speaker volume low and stop at once if it hurts`)
+	m.tmux("send-keys", "-t", "meter", "d")
+	m.waitFor(`drone: G3\+D4 at −18 dBFS`, `caution: keep your headphone`)
+
+	// The drone as the sink carries it, measured apart from the detector
+	// (peakHz), past the fades (the drone's 0.5 s, the recording's own).
+	time.Sleep(600 * time.Millisecond)
+	rate, stop := recording(t)
+	time.Sleep(2600 * time.Millisecond)
+	x := stop()
+	if len(x) < int(2.4*rate) {
+		t.Fatalf("recorded %d samples", len(x))
+	}
+	x = x[int(0.5*rate):]
+	for _, f := range []float64{g3, d4} {
+		if c := 1200 * math.Log2(peakHz(x, rate, f)/f); math.Abs(c) > 0.1 {
+			t.Errorf("drone partial %.4f Hz sounds %+.3f ¢ away", f, c)
+		} else {
+			t.Logf("drone partial %.4f Hz: %+.4f ¢", f, c)
+		}
+	}
+
+	// A note played into the same sink while the drone sounds (sox's sine
+	// at B3, as loud as the drone: −24 dBFS, each of the drone and the
+	// reference having half the −18 dBFS level) is read on its target, and
+	// only it.
+	vmic.Play(t, fadedTone(t, b3, -24))()
+	m.waitFor(`last note: B3 is (on its target|0\.[0-9] ¢)`)
+
+	// s sounds the last note's target over the drone.
+	rate, stop = recording(t)
+	m.tmux("send-keys", "-t", "meter", "s")
+	m.waitFor(`reference: B3 at 245\.97 Hz`)
+	time.Sleep(1800 * time.Millisecond)
+	if f, c := b3, 1200*math.Log2(peakHz(stop(), rate, b3)/b3); math.Abs(c) > 0.1 {
+		t.Errorf("reference %.4f Hz sounds %+.3f ¢ away", f, c)
+	} else {
+		t.Logf("reference %.4f Hz: %+.4f ¢", f, c)
+	}
+
+	// The drone follows the tonic.
+	m.tmux("send-keys", "-t", "meter", "Right")
+	m.waitFor(`drone: D3\+A3 at −18 dBFS`)
+	m.tmux("send-keys", "-t", "meter", "q")
+	if rc := m.exitStatus(); rc != "0" {
+		t.Errorf("q: exit status %s, want 0", rc)
+	}
+	data, err := os.ReadFile(journal)
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, rows := readCSV(t, string(data))
+	if len(rows) != 1 || rows[0]["note"] != "B3" {
+		t.Fatalf("want the one note played, B3; the journal holds:\n%s", data)
+	}
+	near(t, "B3 cents with the drone sounding", rows[0]["cents"], 0, 1)
+}
+
+// fadedTone writes a 2 s sine with sox (its synth frequency is the
+// reference pitch), 50 ms fades as a played note has, at gain dBFS, after
+// half a second of silence and with a second after.
+func fadedTone(t *testing.T, hz, gain float64) string {
+	t.Helper()
+	wav := filepath.Join(t.TempDir(), "note.wav")
+	if out, err := exec.Command("sox", "-n", "-r", "48000", "-c", "1", "-b", "16", wav, "synth", "2", "sine", strconv.FormatFloat(hz, 'f', 4, 64),
+		"fade", "h", "0.05", "2", "0.05", "gain", strconv.FormatFloat(gain, 'f', -1, 64), "pad", "0.5", "1").CombinedOutput(); err != nil {
+		t.Fatalf("sox: %v\n%s", err, out)
+	}
+	return wav
+}
+
+// Without an output device the meter still runs and says so; too loud a
+// drone is refused before anything starts.
+func TestMeterSoundWithoutAnOutputAndAboveTheLimit(t *testing.T) {
+	t.Parallel()
+	m := startTmux(t, 80, 24, nil, "demo", "--output", "no-such-output-xyz")
+	m.waitFor(heldWords)
+	m.tmux("send-keys", "-t", "meter", "d")
+	m.waitFor(`no sound: no such output device "no-such-output-xyz"`, heldWords)
+	m.tmux("send-keys", "-t", "meter", "q")
+	if rc := m.exitStatus(); rc != "0" {
+		t.Errorf("q: exit status %s, want 0", rc)
+	}
+	for _, args := range [][]string{
+		{"listen", "--drone-level", "-3"},
+		{"demo", "--drone-level", "0"},
+		{"listen", "--drone-level", "loud"},
+	} {
+		code, _, stderr := runCLI(t, args...)
+		checkError(t, code, 2, stderr)
+		if args[2] != "loud" && !strings.Contains(stderr, "-6 dBFS limit") {
+			t.Errorf("%v: the message does not name the -6 dBFS limit: %q", args, stderr)
+		}
+	}
+}
