@@ -81,7 +81,8 @@ func TestFeedingTheMeterNeverWaitsForTheScreen(t *testing.T) {
 func TestMeterOnATerminalShowsTheNoteAndAnswersKeys(t *testing.T) {
 	scr := &simTerminal{SimulationScreen: tcell.NewSimulationScreen("UTF-8")}
 	tunings := session.NewTunings(quarterComma(t))
-	m := New(Options{Tunings: tunings, Source: "test tones", Screen: scr.SimulationScreen})
+	m := New(Options{Tunings: tunings, Source: "test tones", Screen: scr.SimulationScreen,
+		Sound: openSound(t), SoundLevel: -18, Caution: "caution: keep it low"})
 	m.drawn = scr.copy
 	done := make(chan error, 1)
 	go func() { done <- m.Run(context.Background()) }()
@@ -99,6 +100,11 @@ func TestMeterOnATerminalShowsTheNoteAndAnswersKeys(t *testing.T) {
 	if got := tunings.Get().Key.Pretty(); got != "G major" {
 		t.Errorf("the session's tuning is %s after →", got)
 	}
+	scr.InjectKey(tcell.KeyRune, 'd', tcell.ModNone)
+	waitFor(t, scr, "drone: G3 at −18 dBFS")
+	waitFor(t, scr, "caution: keep it low")
+	scr.InjectKey(tcell.KeyRune, ' ', tcell.ModNone)
+	waitFor(t, scr, "reference: F♯4 at 346.91 Hz")
 	scr.InjectKey(tcell.KeyRune, 't', tcell.ModNone)
 	waitFor(t, scr, "1/6-comma meantone")
 	scr.InjectKey(tcell.KeyRune, '?', tcell.ModNone)
