@@ -169,3 +169,27 @@ func TestEverySoundKeyIsInTheHelp(t *testing.T) {
 		}
 	}
 }
+
+// While the drone sounds the screen keeps its state and the caution, on
+// every size, neither wider than the screen (the others are clipped when
+// drawn).
+func TestLayoutKeepsTheDroneAndTheCaution(t *testing.T) {
+	m := holding(quarterComma(t), fSharp4)
+	m.HasSound, m.Drone, m.SoundLevel = true, DroneTonicFifth, -18
+	m.Caution = "caution: keep your headphone or speaker volume low and stop at once if it hurts"
+	for _, size := range [][2]int{{80, 24}, {120, 40}, {60, 16}, {40, 10}} {
+		w, h := size[0], size[1]
+		var screen strings.Builder
+		for _, l := range Layout(m, w, h) {
+			if text := l.Text(); (strings.Contains(text, "drone:") || strings.Contains(text, "caution")) && l.Width() > w {
+				t.Errorf("%dx%d: line wider than the screen: %q", w, h, text)
+			}
+			screen.WriteString(l.Text() + "\n")
+		}
+		for _, want := range []string{"drone: C3+G3 at −18 dBFS", "caution: keep your", "F♯4 is on its target"} {
+			if !strings.Contains(screen.String(), want) {
+				t.Errorf("%dx%d lacks %q:\n%s", w, h, want, screen.String())
+			}
+		}
+	}
+}
