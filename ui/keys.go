@@ -23,7 +23,8 @@ type Binding struct {
 }
 
 // Bindings are the meter's tuning keys, in the order the help lists them.
-// Help and quit are the meter's own (?, h, Esc, q).
+// Help, quit and the sound keys are the meter's own (?, h, Esc, q; d, s,
+// space: see Sound).
 var Bindings = []Binding{
 	{[]string{"Right", "l"}, "→", "tonic one fifth up the line (C → G)", func(t, _ target.Tuning) (target.Tuning, string) { return MoveTonic(t, 1) }},
 	{[]string{"Left", "j"}, "←", "tonic one fifth down the line (C → F)", func(t, _ target.Tuning) (target.Tuning, string) { return MoveTonic(t, -1) }},
