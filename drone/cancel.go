@@ -30,10 +30,11 @@ type Source interface {
 //
 // The memory starts short, so the canceller locks on within a fraction of a
 // second (it delivers the first 0.15 s as silence), and lengthens with age
-// to Memory (2 s by default); while the drone's fitted level keeps moving
-// one way (a fade in or out, an input stream's own start) the memory is
+// to Memory (2 s by default). While the drone fades in or out the memory is
 // held short and the fit renewed every 64 samples, so the fade is followed
-// without lag. With memory τ the removal acts as a notch about 1/(2πτ) Hz
+// without lag. Only the player knows when it fades (Sounder.Fading): a
+// guess from the fitted level would take a loud note's onset, leaking into
+// the fit, for a fade, shorten the memory, and let the fit swallow the note. With memory τ the removal acts as a notch about 1/(2πτ) Hz
 // wide on each side of each partial (0.08 Hz at 2 s): a player's note a few
 // cents away from a drone partial, or moving through it, is left alone.
 // What the player sounds within that notch and holds for longer than τ is
@@ -54,12 +55,22 @@ type Canceller struct {
 	age     float64 // samples since the set of partials last changed
 	parts   []partial
 	pending atomic.Pointer[[]float64]
-	follow  func() []float64
+	follow  Sounder
 	current []float64
 	fit     lsq
-	quiet   int     // samples still to be silenced while the first fit locks on
-	level   float64 // Σ|a|² at the last fit
-	trend   float64 // its relative change per chunk, smoothed
+	quiet   int // samples still to be silenced while the first fit locks on
+	read    int // samples read so far
+	// Residual power (what is left for the detector), over about one chunk
+	// and over about a quarter second: a sharp fall is a player's note
+	// ending.
+	fast, slow float64
+}
+
+// Sounder is what plays the drone, as the canceller follows it: the
+// partials sounding now (hertz), and whether any is fading in or out.
+type Sounder interface {
+	Partials() []float64
+	Fading() bool
 }
 
 // partial is one tracked sinusoid: it is Re(a·ph), ph the unit phasor.
@@ -82,18 +93,25 @@ const (
 	// leaveTime is how long a removed partial is still fitted (and so
 	// removed) while the drone fades it out, in seconds.
 	leaveTime = 1.5
-	// fadeRate is the relative change of the drone's amplitude per second
-	// above which it counts as fading: a 0.5 s raised-cosine fade changes
-	// by up to π per second, and by more than 1 for most of its length.
-	fadeRate = 1.0
-	// trendWeight smooths the level's change over about eight chunks.
-	trendWeight = 1.0 / 8
 	// chunk is the most samples between two solutions of the fit.
 	chunk = 256
 	// shortChunk is the chunk while the memory is below shortMemory samples
 	// (in a fade): holding a fit for a whole chunk is a lag of its own.
 	shortChunk  = 64
 	shortMemory = 2048.0
+	// noteEnded is the fall of the residual power, against its last
+	// quarter second, that counts as a note ending (−10 dB); relockMemory
+	// is the memory the fit restarts from then, and relockTime how long the
+	// output stays silent meanwhile, in seconds.
+	noteEnded    = 0.1
+	relockMemory = 0.02
+	relockTime   = 0.06
+	// noteFloor is the residual power (−70 dBFS) below which there is no
+	// note to end: the drone's own leftovers, a quiet room.
+	noteFloor = 1e-7
+	// streamRamp is how long the start of the input is followed as a fade,
+	// in seconds.
+	streamRamp = 0.6
 	// lockTime is how long the output is silent at the start: the first
 	// fits are rough, and their leftovers would be read as a note.
 	lockTime = 0.15
@@ -122,10 +140,11 @@ func (c *Canceller) SetPartials(hz []float64) {
 	c.pending.Store(&cp)
 }
 
-// Follow makes the canceller ask f for the partials before each Read (f
-// runs on the reading goroutine); for a player whose drone changes.
-func (c *Canceller) Follow(f func() []float64) *Canceller {
-	c.follow = f
+// Follow makes the canceller ask s for the partials before each Read, and
+// whether they fade, for a player whose drone changes. s is called on the
+// reading goroutine.
+func (c *Canceller) Follow(s Sounder) *Canceller {
+	c.follow = s
 	return c
 }
 
@@ -140,16 +159,28 @@ func (c *Canceller) Read(p []float32) (int, error) {
 	if hz := c.pending.Swap(nil); hz != nil {
 		c.apply(*hz)
 	}
+	fading := false
 	if c.follow != nil {
-		if hz := c.follow(); !slices.Equal(hz, c.current) {
+		if hz := c.follow.Partials(); !slices.Equal(hz, c.current) {
 			c.apply(hz)
 		}
+		fading = c.follow.Fading()
 	}
+	// A new input stream is faded in by the sound server (PulseAudio ramps
+	// it over about half a second): the drone's level moves as in a fade.
+	fading = fading || c.read < int(streamRamp*c.rate)
+	c.read += len(p)
 	n, err := c.src.Read(p)
 	for q := p[:n]; len(q) > 0; {
 		k := min(len(q), chunk)
 		if c.age/growth < shortMemory {
 			k = min(k, shortChunk) // a short memory must be refitted often
+		}
+		if fading {
+			// Keep the memory short while the level moves: the fit
+			// follows the fade exactly, at the price of a wide notch
+			// for the fade's fraction of a second.
+			c.age = 0
 		}
 		c.process(q[:k])
 		q = q[k:]
@@ -194,6 +225,7 @@ func (c *Canceller) process(p []float32) {
 	}
 	memory := math.Min(math.Max(c.age/growth, minMemory), c.memory)
 	lambda := 1 - 1/memory
+	residual := 0.0
 	for i, s := range p {
 		x := float64(s)
 		y := 0.0
@@ -204,40 +236,41 @@ func (c *Canceller) process(p []float32) {
 			t.ph *= t.rot
 		}
 		p[i] = float32(x - y)
+		residual += (x - y) * (x - y)
 		if c.quiet > 0 {
 			p[i], c.quiet = 0, c.quiet-1
 		}
 	}
 	c.age += float64(len(p))
+	c.watchResidual(residual/float64(len(p)), len(p))
 	for k := range c.parts {
 		t := &c.parts[k]
 		t.ph /= complex(cmplx.Abs(t.ph), 0) // rounding would slowly change its length
 	}
 	c.fit.update(c.parts, lambda, len(p))
 	c.fit.solve(c.parts, memory)
-	c.watchLevel(len(p))
 	if c.dropLeft(len(p)) {
 		c.restart()
 	}
 }
 
-// watchLevel keeps the memory short while the drone's level is changing:
-// in a fade (the drone's, or an input stream's own start) a long memory
-// would lag behind and leave part of the drone in. A steady drone, with a
-// player's note beside it, keeps its level and lets the memory grow.
-func (c *Canceller) watchLevel(n int) {
-	level := 0.0
-	for _, t := range c.parts {
-		level += real(t.a)*real(t.a) + imag(t.a)*imag(t.a)
+// watchResidual relocks the fit quickly when a player's note ends. While a
+// loud note sounds, a little of each of its partials leaks into the fit of
+// any drone partial a few hertz away (about 1/(2π·Δf·memory) of it); the
+// leak decays with the memory once the note stops, and meanwhile its
+// leftovers at the drone's frequencies would be read as a note of their
+// own. A short memory after the note cannot take a note that has ended for
+// the drone, so the fit may follow the drone alone at once; while it
+// relocks (relockTime) the output is silent, as at the start, so the tail of
+// the leak is not read either. A note played straight after pays that in its
+// first reading.
+func (c *Canceller) watchResidual(e float64, n int) {
+	c.fast += (e - c.fast) * 0.5
+	c.slow += (e - c.slow) * float64(n) / (0.25 * c.rate)
+	if c.fast < c.slow*noteEnded && c.slow > noteFloor {
+		c.age = min(c.age, relockMemory*c.rate*growth)
+		c.quiet = max(c.quiet, int(relockTime*c.rate))
 	}
-	// A fade moves the level the same way chunk after chunk; a player's
-	// note leaking into the fit jostles it both ways, and is averaged out.
-	change := (level - c.level) / math.Max(math.Max(level, c.level), 1e-30)
-	c.trend += (change - c.trend) * trendWeight
-	if math.Abs(c.trend) > 2*fadeRate*float64(n)/c.rate { // level is amplitude squared
-		c.age = 0
-	}
-	c.level = level
 }
 
 // dropLeft forgets removed partials whose time is up and says if any went.

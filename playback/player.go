@@ -88,6 +88,7 @@ type Player struct {
 	dronePs  []drone.Partial
 	refPs    []drone.Partial
 	refUntil time.Time
+	fades    [3]fadeSpan // the drone's latest fade, the reference's two
 	closing  sync.Once
 	closeErr error
 }
@@ -196,6 +197,10 @@ func (p *Player) SetDrone(hz []float64) {
 	p.dronePs = ps
 	p.mu.Unlock()
 	fade := int(p.opt.Fade.Seconds() * p.rate)
+	now := time.Now()
+	p.mu.Lock()
+	p.fades[0] = span(now, p.opt.Fade)
+	p.mu.Unlock()
 	p.droneIn.Store(drone.NewVoice(p.rate, ps, fade, fade, 0))
 }
 
@@ -205,8 +210,10 @@ func (p *Player) Reference(hz float64, dur time.Duration) {
 	ps := p.partials([]float64{hz})
 	fade := int(referenceFade.Seconds() * p.rate)
 	hold := max(int(dur.Seconds()*p.rate)-fade, fade)
+	now := time.Now()
 	p.mu.Lock()
-	p.refPs, p.refUntil = ps, time.Now().Add(dur)
+	p.refPs, p.refUntil = ps, now.Add(dur)
+	p.fades[1], p.fades[2] = span(now, referenceFade), span(now.Add(dur-referenceFade), referenceFade)
 	p.mu.Unlock()
 	p.refIn.Store(drone.NewVoice(p.rate, ps, fade, fade, hold))
 }
@@ -235,6 +242,34 @@ func (p *Player) Partials() []float64 {
 	}
 	slices.Sort(hz)
 	return hz
+}
+
+// fadeSpan is when a fade is heard: from its start to its end plus
+// fadeLatency, for the way from the output to the microphone.
+type fadeSpan struct{ from, to time.Time }
+
+// fadeLatency allows for output and input buffering between a fade leaving
+// the player and reaching the canceller.
+const fadeLatency = 250 * time.Millisecond
+
+func span(start time.Time, fade time.Duration) fadeSpan {
+	return fadeSpan{start, start.Add(fade + fadeLatency)}
+}
+
+// Fading reports whether a drone or reference tone is fading in or out at
+// the microphone now, so that drone.Cancel follows its level closely
+// meanwhile (and only meanwhile: at other times a loud note must not be
+// taken for a fade).
+func (p *Player) Fading() bool {
+	now := time.Now()
+	p.mu.Lock()
+	defer p.mu.Unlock()
+	for _, f := range p.fades {
+		if !now.Before(f.from) && now.Before(f.to) {
+			return true
+		}
+	}
+	return false
 }
 
 // Level is the output's peak ceiling in dBFS.

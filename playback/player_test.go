@@ -50,7 +50,7 @@ func TestPlayerDroneIsCancelledFromTheMicrophone(t *testing.T) {
 		t.Fatal(err)
 	}
 	defer in.Close()
-	src := drone.Cancel(in, nil).Follow(p.Partials)
+	src := drone.Cancel(in, nil).Follow(p)
 
 	ctx, cancel := context.WithCancel(context.Background())
 	var mu sync.Mutex

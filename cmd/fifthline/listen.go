@@ -73,7 +73,7 @@ func runListen(e *env, args []string) error {
 		// The drone leaks into a microphone: the meter hears the input
 		// with the player's partials taken out (nothing while silent).
 		sound := newMeterSound(sf)
-		src := drone.Cancel(in, nil).Follow(sound.Partials)
+		src := drone.Cancel(in, nil).Follow(sound)
 		err = runMeter(ctx, src, opts, j, meterSource{name: in.Device().Name, stats: in.Stats, journal: jf.log, sound: sound, hearsSound: true})
 	}
 	// Close before reporting: the journal and the device keep what was heard.

@@ -126,6 +126,12 @@ func (s *meterSound) Partials() []float64 {
 	return nil
 }
 
+// Fading reports whether the drone or reference is fading (drone.Sounder).
+func (s *meterSound) Fading() bool {
+	p := s.player.Load()
+	return p != nil && p.Fading()
+}
+
 // Close fades out whatever sounds and closes the device, if it opened.
 func (s *meterSound) Close() error {
 	s.open.Lock()
