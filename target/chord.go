@@ -2,6 +2,7 @@ package target
 
 import (
 	"fmt"
+	"slices"
 	"strings"
 )
 
@@ -98,21 +99,24 @@ func (c Chord) Members() []ChordMember {
 	return out
 }
 
-// target is the chord's target for n in cents above C4, if n is a member.
-func (c Chord) target(t Tuning, n Note) (float64, bool) {
-	for _, m := range c.Members() {
-		if m.Note.Letter != n.Letter || m.Note.Accidental != n.Accidental {
-			continue
+// rootOf finds, for a member n of the chord, the root in the octave at or
+// below it and the ratio n sits at above that root.
+func (c Chord) rootOf(n Note) (root Note, ratio float64, ok bool) {
+	ratio = 1
+	if rf := c.Root.Fifths(); n.Fifths() != rf {
+		i := slices.IndexFunc(c.Quality.members, func(t chordTone) bool { return rf+t.fifths == n.Fifths() })
+		if i < 0 {
+			return Note{}, 0, false
 		}
-		root := c.Root
-		root.Octave = n.Octave
-		for root.Semitones() > n.Semitones() {
-			root.Octave--
-		}
-		for n.Semitones()-root.Semitones() >= 12 {
-			root.Octave++
-		}
-		return t.TemperedCents(root) + Cents(m.Ratio), true
+		ratio = c.Quality.members[i].ratio
 	}
-	return 0, false
+	root = c.Root
+	root.Octave = n.Octave
+	for root.Semitones() > n.Semitones() {
+		root.Octave--
+	}
+	for n.Semitones()-root.Semitones() >= 12 {
+		root.Octave++
+	}
+	return root, ratio, true
 }

@@ -39,20 +39,24 @@ func (t Tuning) Classify(hz float64) Reading {
 		return Reading{}
 	}
 	h := Cents(hz / t.c4())
+	shift := t.shift()
 	var best Note
 	bestTarget, bestDist := 0.0, math.Inf(1)
-	for _, n := range t.Window() {
-		c := t.TargetCents(n)
+	var buf [12]Note
+	for _, n := range t.window(buf[:0]) {
+		c := t.targetCents(n, shift)
+		// Targets repeat by octaves, so the nearest octave of this
+		// spelling is a shift away.
 		k := math.Round((h - c) / 1200)
 		n.Octave += int(k)
-		c = t.TargetCents(n)
+		c += 1200 * k
 		if d := math.Abs(h - c); d < bestDist {
 			best, bestTarget, bestDist = n, c, d
 		}
 	}
 	r := Reading{Hz: hz, Note: best, TargetHz: t.hz(bestTarget), Cents: h - bestTarget}
-	r.Alt = t.alternative(best, h)
-	altTarget := t.TargetCents(r.Alt)
+	r.Alt = t.alternative(best, h, shift)
+	altTarget := t.targetCents(r.Alt, shift)
 	r.AltHz, r.AltCents = t.hz(altTarget), h-altTarget
 	r.SamePitch = math.Abs(altTarget-bestTarget) < samePitchCents
 	r.Written, r.AltWritten = t.Transpose.Written(r.Note), t.Transpose.Written(r.Alt)
@@ -62,7 +66,7 @@ func (t Tuning) Classify(hz float64) Reading {
 // alternative is n respelled twelve fifths away: of the two respellings the
 // one with fewer accidentals; on a tie, the one whose target is nearer the
 // held pitch h (interface contract, "Alternative spelling").
-func (t Tuning) alternative(n Note, h float64) Note {
+func (t Tuning) alternative(n Note, h, shift float64) Note {
 	up, down := n.respell(12), n.respell(-12)
 	au, ad := abs(up.Accidental), abs(down.Accidental)
 	switch {
@@ -71,7 +75,7 @@ func (t Tuning) alternative(n Note, h float64) Note {
 	case ad < au:
 		return down
 	}
-	if math.Abs(h-t.TargetCents(up)) <= math.Abs(h-t.TargetCents(down)) {
+	if math.Abs(h-t.targetCents(up, shift)) <= math.Abs(h-t.targetCents(down, shift)) {
 		return up
 	}
 	return down

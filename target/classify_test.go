@@ -201,3 +201,13 @@ func TestFormatCents(t *testing.T) {
 		}
 	}
 }
+
+// Classify runs for every frame and every column of the meter's trace.
+func BenchmarkClassify(b *testing.B) {
+	k, _ := ParseKey("G minor")
+	tm, _ := ParseTemperament("meantone:1/4")
+	tu := Tuning{Key: k, Temperament: tm, A4: 415}
+	for b.Loop() {
+		tu.Classify(351.2)
+	}
+}

@@ -111,9 +111,10 @@ func (k Key) WindowSpan() (lo, hi int) {
 
 // Window is the key's twelve chromatic spellings in line-of-fifths order, in
 // octave 4.
-func (k Key) Window() []Note {
+func (k Key) Window() []Note { return k.window(make([]Note, 0, 12)) }
+
+func (k Key) window(out []Note) []Note {
 	lo, hi := k.WindowSpan()
-	out := make([]Note, 0, 12)
 	for p := lo; p <= hi; p++ {
 		out = append(out, noteAt(p, 4))
 	}

@@ -97,13 +97,16 @@ func (t Tuning) TemperedCents(n Note) float64 { return t.tempered(n) + t.shift()
 
 // TargetCents is the note's target in cents above the equal-tempered C4 at
 // the reference, with the chord's just intervals if one is declared.
-func (t Tuning) TargetCents(n Note) float64 {
+func (t Tuning) TargetCents(n Note) float64 { return t.targetCents(n, t.shift()) }
+
+// targetCents is TargetCents with the anchoring shift already worked out.
+func (t Tuning) targetCents(n Note, shift float64) float64 {
 	if t.Chord != nil {
-		if c, ok := t.Chord.target(t, n); ok {
-			return c
+		if root, ratio, ok := t.Chord.rootOf(n); ok {
+			return t.tempered(root) + shift + Cents(ratio)
 		}
 	}
-	return t.TemperedCents(n)
+	return t.tempered(n) + shift
 }
 
 // Target is the note's target frequency in hertz (concert pitch).
@@ -122,8 +125,11 @@ func (t Tuning) hz(centsAboveC4 float64) float64 { return t.c4() * math.Exp2(cen
 
 // Window is the key's twelve spellings in line-of-fifths order, with the
 // chord's members in place of the window notes they share a pitch class with.
-func (t Tuning) Window() []Note {
-	w := t.Key.Window()
+func (t Tuning) Window() []Note { return t.window(make([]Note, 0, 12)) }
+
+// window appends the window to w (Classify passes an array on its stack).
+func (t Tuning) window(w []Note) []Note {
+	w = t.Key.window(w)
 	if t.Chord == nil {
 		return w
 	}

@@ -11,6 +11,7 @@ import (
 	"io"
 	"os"
 	"os/signal"
+	"runtime/pprof"
 	"sort"
 	"strings"
 	"syscall"
@@ -49,9 +50,28 @@ var errHelp = errors.New("help")
 
 func main() {
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
+	stopProfile := startProfile(os.Getenv("FIFTHLINE_CPUPROFILE"))
 	code := run(&env{ctx: ctx, stdin: os.Stdin, stdout: os.Stdout, stderr: os.Stderr}, os.Args[1:])
+	stopProfile()
 	stop()
 	os.Exit(code)
+}
+
+// startProfile writes a CPU profile to path (for contributors measuring the
+// live path: FIFTHLINE_CPUPROFILE=cpu.out fifthline demo); "" does nothing.
+func startProfile(path string) (stop func()) {
+	if path == "" {
+		return func() {}
+	}
+	f, err := os.Create(path)
+	if err == nil {
+		err = pprof.StartCPUProfile(f)
+	}
+	if err != nil {
+		fmt.Fprintf(os.Stderr, "fifthline: warning: no CPU profile: %v\n", err)
+		return func() {}
+	}
+	return func() { pprof.StopCPUProfile(); f.Close() }
 }
 
 // run dispatches and turns errors into the contract's exit codes: 0 success,
