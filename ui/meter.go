@@ -17,7 +17,7 @@ import (
 )
 
 // FrameRate caps how often the meter redraws.
-const FrameRate = 30
+const FrameRate = 20
 
 // frameBuffer is how many analysis frames may wait for the screen (about
 // three seconds at the detector's default hop); beyond it frames are
