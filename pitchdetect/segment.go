@@ -26,15 +26,17 @@ type Segmenter struct {
 	JumpCents float64 // a sustained step larger than this starts a new note
 	MaxGap    int     // unvoiced frames bridged inside a note
 	MinFrames int     // shorter notes are dropped as blips
+	OnsetBlip float64 // seconds: a note's attack read this briefly a subharmonic low is merged into it
 
-	frames  []Estimate
-	gap     int
-	outlier Estimate // a single off-pitch frame awaiting confirmation
-	hasOut  bool
-	t, c    []float64 // scratch for summaries
-	vib     vibrato   // the last vibrato fit, made at vibAt frames
-	vibAt   int
-	vibHz   float64
+	frames      []Estimate
+	gap         int
+	outlier     Estimate // a single off-pitch frame awaiting confirmation
+	fromSilence bool     // the open note began after silence, not from a leap
+	hasOut      bool
+	t, c        []float64 // scratch for summaries
+	vib         vibrato   // the last vibrato fit, made at vibAt frames
+	vibAt       int
+	vibHz       float64
 }
 
 // NewSegmenter returns a Segmenter for estimates hopSeconds apart, with
@@ -46,6 +48,7 @@ func NewSegmenter(hopSeconds float64) *Segmenter {
 		JumpCents: 50,
 		MaxGap:    2,
 		MinFrames: 4,
+		OnsetBlip: 0.12,
 	}
 }
 
@@ -86,14 +89,34 @@ func (s *Segmenter) Push(e Estimate) (Held, bool) {
 		return Held{}, false
 	}
 	// Two frames agree on a new pitch: the old note ends, a new one starts.
-	first := s.outlier
+	first, onset, began := s.outlier, s.fromSilence, s.frames[0]
 	h, ok := s.finish()
 	s.start(first)
+	s.fromSilence = false // it follows the old note without a gap
 	s.frames = append(s.frames, e)
+	if onset && h.End-h.Start < s.OnsetBlip && subharmonic(h.Hz, first.Hz) {
+		// The attack was heard an octave or a twelfth low (a sharp attack
+		// can fool the periodicity pick for a few frames): it was this note
+		// starting, not a note of its own.
+		s.frames[0].Time = began.Time
+		return Held{}, false
+	}
 	return h, ok
 }
 
+// subharmonic reports whether low is the second, third or fourth
+// subharmonic of high, within the segmenter's notion of one pitch.
+func subharmonic(low, high float64) bool {
+	for k := 2.0; k <= 4; k++ {
+		if math.Abs(1200*math.Log2(high/(k*low))) < 50 {
+			return true
+		}
+	}
+	return false
+}
+
 func (s *Segmenter) start(e Estimate) {
+	s.fromSilence = true
 	s.frames = append(s.frames[:0], e)
 	s.gap, s.hasOut = 0, false
 	s.vib, s.vibAt = vibrato{}, 0

@@ -169,3 +169,29 @@ func TestSlurredOctaveAndFifthLeaps(t *testing.T) {
 		}
 	}
 }
+
+// A note whose attack was heard a twelfth or an octave low for a few frames
+// (seen on the real microphone path with a sharp sawtooth attack) is one
+// note, starting where the misreading started; a slurred leap from a held
+// note to its twelfth stays two notes (TestSlurredOctaveAndFifthLeaps).
+func TestAttackReadASubharmonicLowIsPartOfTheNote(t *testing.T) {
+	for _, low := range []float64{246.94 / 3, 246.94 / 2} {
+		s := NewSegmenter(0.01)
+		var got []Held
+		for i := range 60 {
+			e := Estimate{Time: 1 + float64(i)*0.01, Hz: 246.94, Voiced: true, Confidence: 1}
+			if i < 8 {
+				e.Hz = low // the first 80 ms misread
+			}
+			if h, ok := s.Push(e); ok {
+				got = append(got, h)
+			}
+		}
+		if h, ok := s.Flush(); ok {
+			got = append(got, h)
+		}
+		if len(got) != 1 || got[0].Hz != 246.94 || got[0].Start != 1 {
+			t.Errorf("attack at %.2f Hz: got %+v, want one 246.94 Hz note from 1 s", low, got)
+		}
+	}
+}
