@@ -287,17 +287,7 @@ func (in *Input) Read(p []float32) (int, error) {
 func (in *Input) Close() error {
 	in.closing.Do(func() {
 		close(in.done)
-		in.closeErr = QuietStderr(func() error {
-			err := in.stream.Abort()
-			if cerr := in.stream.Close(); err == nil {
-				err = cerr
-			}
-			return err
-		})
-		if in.closeErr != nil {
-			in.closeErr = fmt.Errorf("input %q: close: %w", in.device.Name, in.closeErr)
-		}
-		in.release()
+		in.closeErr = CloseStream(in.stream, true, in.release, fmt.Sprintf("input %q", in.device.Name))
 	})
 	return in.closeErr
 }

@@ -87,6 +87,29 @@ func QuietStderr(f func() error) error {
 	return f()
 }
 
+// CloseStream ends a stream quietly and releases this user's share of
+// PortAudio: abort drops what is buffered (an input), otherwise the stream
+// plays it out first (an output's last fade). what names the stream in the
+// error ("input \"name\"").
+func CloseStream(s *portaudio.Stream, abort bool, release func(), what string) error {
+	err := QuietStderr(func() error {
+		end := s.Stop
+		if abort {
+			end = s.Abort
+		}
+		err := end()
+		if cerr := s.Close(); err == nil {
+			err = cerr
+		}
+		return err
+	})
+	release()
+	if err != nil {
+		return fmt.Errorf("%s: close: %w", what, err)
+	}
+	return nil
+}
+
 var (
 	portAudio       shared
 	streamNumbering sync.Once

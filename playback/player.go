@@ -291,17 +291,8 @@ func (p *Player) Close() error {
 		for !p.silent.Load() && time.Now().Before(deadline) {
 			time.Sleep(5 * time.Millisecond)
 		}
-		p.closeErr = capture.QuietStderr(func() error {
-			err := p.stream.Stop() // plays what is buffered: the end of the fade
-			if cerr := p.stream.Close(); err == nil {
-				err = cerr
-			}
-			return err
-		})
-		if p.closeErr != nil {
-			p.closeErr = fmt.Errorf("output %q: close: %w", p.device.Name, p.closeErr)
-		}
-		p.release()
+		// Stop, not abort: what is buffered is the end of the fade.
+		p.closeErr = capture.CloseStream(p.stream, false, p.release, fmt.Sprintf("output %q", p.device.Name))
 	})
 	return p.closeErr
 }
