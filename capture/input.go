@@ -124,19 +124,9 @@ func openInput(opts InputOptions) (*Input, error) {
 	p := portaudio.HighLatencyParameters(dev, nil)
 	p.Input.Channels = channel
 	p.FramesPerBuffer = framesPerBlock
-	rates := []float64{opts.SampleRate}
-	if opts.SampleRate == 0 {
-		rates = []float64{PreferredRate, dev.DefaultSampleRate}
-	}
 	err = QuietStderr(func() error {
-		for _, r := range rates {
-			p.SampleRate = r
-			if err = portaudio.IsFormatSupported(p, in.callback); err == nil {
-				break
-			}
-		}
-		if err != nil {
-			return fmt.Errorf("input %q cannot record at %v Hz: %w", dev.Name, rates[len(rates)-1], err)
+		if err := NegotiateRate(&p, opts.SampleRate, dev.DefaultSampleRate, in.callback, fmt.Sprintf("input %q", dev.Name)); err != nil {
+			return err
 		}
 		in.rate = p.SampleRate
 		in.ring = newRing(max(2*framesPerBlock, int(in.rate*orDefault(opts.Buffer, 2*time.Second).Seconds())))

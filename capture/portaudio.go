@@ -87,6 +87,24 @@ func QuietStderr(f func() error) error {
 	return f()
 }
 
+// NegotiateRate sets p.SampleRate to the first rate the device supports for
+// this stream: want if given, else PreferredRate, else the device's own
+// default. The error names the last rate tried; what names the stream.
+func NegotiateRate(p *portaudio.StreamParameters, want, deviceDefault float64, callback any, what string) error {
+	rates := []float64{want}
+	if want == 0 {
+		rates = []float64{PreferredRate, deviceDefault}
+	}
+	var err error
+	for _, r := range rates {
+		p.SampleRate = r
+		if err = portaudio.IsFormatSupported(*p, callback); err == nil {
+			return nil
+		}
+	}
+	return fmt.Errorf("%s cannot run at %v Hz: %w", what, rates[len(rates)-1], err)
+}
+
 // CloseStream ends a stream quietly and releases this user's share of
 // PortAudio: abort drops what is buffered (an input), otherwise the stream
 // plays it out first (an output's last fade). what names the stream in the

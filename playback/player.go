@@ -136,18 +136,8 @@ func (p *Player) open() error {
 	params := portaudio.HighLatencyParameters(nil, dev)
 	params.Output.Channels = p.channels
 	params.FramesPerBuffer = framesPerBlock
-	rates := []float64{p.opt.SampleRate}
-	if p.opt.SampleRate == 0 {
-		rates = []float64{capture.PreferredRate, dev.DefaultSampleRate}
-	}
-	for _, r := range rates {
-		params.SampleRate = r
-		if err = portaudio.IsFormatSupported(params, p.callback); err == nil {
-			break
-		}
-	}
-	if err != nil {
-		return fmt.Errorf("output %q cannot play at %v Hz: %w", dev.Name, rates[len(rates)-1], err)
+	if err := capture.NegotiateRate(&params, p.opt.SampleRate, dev.DefaultSampleRate, p.callback, fmt.Sprintf("output %q", dev.Name)); err != nil {
+		return err
 	}
 	p.rate = params.SampleRate
 	p.mix = drone.NewMixer(p.rate, drone.Linear(p.opt.Level))
