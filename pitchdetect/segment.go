@@ -14,22 +14,31 @@ type Held struct {
 
 // Segmenter groups a stream of Estimates into held notes. A note starts on
 // a voiced frame, continues while frames stay voiced and within JumpCents of
-// the note's recent pitch, and ends after more than MaxGap unvoiced frames or
-// on a sustained jump. Its steady part leaves out the frames whose analysis
+// the note's recent pitch, and ends after more than MaxGap unvoiced frames
+// whose level has fallen (or more than MaxDropout at the note's level: the
+// detector losing a frame or two to a wobble is not the player stopping), or
+// on a sustained jump. Notes shorter than MinSeconds have no steady part and
+// are not held notes; a quiet, attackless echo of the last note at its own
+// pitch (a room's reverberation after the player stopped) is not a note. Its steady part leaves out the frames whose analysis
 // window may reach past the onset or the offset: a detector voices a frame
 // once part of its window holds the note, so the first and last Window
 // seconds of voiced frames are set aside. Set the exported fields before
 // the first Push.
 type Segmenter struct {
-	Hop       float64 // seconds between estimates
-	Window    float64 // seconds of signal behind each estimate (Detector.Span / rate)
-	JumpCents float64 // a sustained step larger than this starts a new note
-	MaxGap    int     // unvoiced frames bridged inside a note
-	MinFrames int     // shorter notes are dropped as blips
-	OnsetBlip float64 // seconds: a note's attack read this briefly a subharmonic low is merged into it
+	Hop        float64 // seconds between estimates
+	Window     float64 // seconds of signal behind each estimate (Detector.Span / rate)
+	JumpCents  float64 // a sustained step larger than this starts a new note
+	MaxGap     int     // unvoiced frames with a falling level bridged inside a note
+	MaxDropout int     // unvoiced frames at the note's level bridged inside a note
+	MinFrames  int     // shorter notes are dropped as blips
+	MinSeconds float64 // and so are notes shorter than this
+	OnsetBlip  float64 // seconds: a note's attack read this briefly a subharmonic low is merged into it
 
 	frames      []Estimate
-	gap         int
+	gap         int      // unvoiced frames since the last voiced one
+	dips        int      // of which with the level fallen
+	level       float64  // the note's recent level, dBFS
+	prev        echoRef  // the last note given out, to know its echo
 	outlier     Estimate // a single off-pitch frame awaiting confirmation
 	fromSilence bool     // the open note began after silence, not from a leap
 	hasOut      bool
@@ -43,12 +52,14 @@ type Segmenter struct {
 // defaults suited to the Detector's default window at 44.1 or 48 kHz.
 func NewSegmenter(hopSeconds float64) *Segmenter {
 	return &Segmenter{
-		Hop:       hopSeconds,
-		Window:    9 * hopSeconds, // the default span is 9 hops
-		JumpCents: 50,
-		MaxGap:    2,
-		MinFrames: 4,
-		OnsetBlip: 0.12,
+		Hop:        hopSeconds,
+		Window:     9 * hopSeconds, // the default span is 9 hops
+		JumpCents:  50,
+		MaxGap:     2,
+		MaxDropout: 12,
+		MinFrames:  4,
+		MinSeconds: 0.1,
+		OnsetBlip:  0.12,
 	}
 }
 
@@ -66,10 +77,13 @@ func (s *Segmenter) Push(e Estimate) (Held, bool) {
 			return Held{}, false
 		}
 		s.gap++
+		if e.Level < s.level-dropoutDB {
+			s.dips++
+		}
 		if s.hasOut { // an outlier followed by silence was noise
 			s.hasOut = false
 		}
-		if s.gap > s.MaxGap {
+		if s.dips > s.MaxGap || s.gap > s.MaxDropout {
 			return s.finish()
 		}
 		return Held{}, false
@@ -78,10 +92,10 @@ func (s *Segmenter) Push(e Estimate) (Held, bool) {
 		s.start(e)
 		return Held{}, false
 	}
-	s.gap = 0
+	s.gap, s.dips = 0, 0
 	if math.Abs(1200*math.Log2(e.Hz/s.recentHz())) <= s.JumpCents {
 		s.hasOut = false
-		s.frames = append(s.frames, e)
+		s.add(e)
 		return Held{}, false
 	}
 	if !s.hasOut || math.Abs(1200*math.Log2(e.Hz/s.outlier.Hz)) > s.JumpCents {
@@ -93,7 +107,7 @@ func (s *Segmenter) Push(e Estimate) (Held, bool) {
 	h, ok := s.finish()
 	s.start(first)
 	s.fromSilence = false // it follows the old note without a gap
-	s.frames = append(s.frames, e)
+	s.add(e)
 	if onset && h.End-h.Start < s.OnsetBlip && subharmonic(h.Hz, first.Hz) {
 		// The attack was heard an octave or a twelfth low (a sharp attack
 		// can fool the periodicity pick for a few frames): it was this note
@@ -118,7 +132,8 @@ func subharmonic(low, high float64) bool {
 func (s *Segmenter) start(e Estimate) {
 	s.fromSilence = true
 	s.frames = append(s.frames[:0], e)
-	s.gap, s.hasOut = 0, false
+	s.level = e.Level
+	s.gap, s.dips, s.hasOut = 0, 0, false
 	s.vib, s.vibAt = vibrato{}, 0
 }
 
@@ -133,11 +148,44 @@ func (s *Segmenter) recentHz() float64 {
 	return max(min(a, b), min(max(a, b), c))
 }
 
+// add extends the open note by a voiced frame.
+func (s *Segmenter) add(e Estimate) {
+	s.frames = append(s.frames, e)
+	s.level += (e.Level - s.level) * 0.25 // about the last four frames
+}
+
+// dropoutDB: an unvoiced frame this far below the note's level is the note
+// fading, not the detector missing a frame.
+const dropoutDB = 6
+
+// echoRef is what an echo of a note is told by.
+type echoRef struct {
+	hz, end, level float64
+}
+
+// Echoes: within echoGap seconds of a note's end, at its pitch, starting
+// echoDB below its level and never rising.
+const (
+	echoGap = 0.25
+	echoDB  = 6
+)
+
 func (s *Segmenter) finish() (Held, bool) {
 	h := s.summarise(false)
-	ok := len(s.frames) >= s.MinFrames
+	ok := len(s.frames) >= s.MinFrames && h.End-h.Start >= s.MinSeconds
+	first, peak := s.frames[0].Level, s.frames[0].Level
+	for _, e := range s.frames {
+		peak = max(peak, e.Level)
+	}
+	if ok && s.fromSilence && h.Start-s.prev.end < echoGap && math.Abs(1200*math.Log2(h.Hz/s.prev.hz)) < s.JumpCents &&
+		first < s.prev.level-echoDB && peak <= first+1 {
+		ok = false
+	}
+	if ok {
+		s.prev = echoRef{hz: h.Hz, end: h.End, level: peak}
+	}
 	s.frames = s.frames[:0]
-	s.gap, s.hasOut = 0, false
+	s.gap, s.dips, s.hasOut = 0, 0, false
 	return h, ok
 }
 

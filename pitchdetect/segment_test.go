@@ -195,3 +195,62 @@ func TestAttackReadASubharmonicLowIsPartOfTheNote(t *testing.T) {
 		}
 	}
 }
+
+// pushAll feeds estimates (hz 0 = unvoiced) at 10 ms hops with the given
+// levels and returns the held notes.
+func pushAll(hz, level []float64) []Held {
+	s := NewSegmenter(0.01)
+	var got []Held
+	for i := range hz {
+		e := Estimate{Time: float64(i) * 0.01, Hz: hz[i], Voiced: hz[i] > 0, Confidence: 1, Level: level[i]}
+		if h, ok := s.Push(e); ok {
+			got = append(got, h)
+		}
+	}
+	if h, ok := s.Flush(); ok {
+		got = append(got, h)
+	}
+	return got
+}
+
+// track builds a frame track from segments of (frames, hz, level dBFS).
+func track(parts ...[3]float64) (hz, level []float64) {
+	for _, p := range parts {
+		for range int(p[0]) {
+			hz, level = append(hz, p[1]), append(level, p[2])
+		}
+	}
+	return hz, level
+}
+
+// What is and is not a held note, on synthetic frame tracks (the shapes are
+// those seen on fluidsynth renders with reverberation; see
+// cmd/fifthline's TestAnalyzeHearsEachNoteOfRenderedScales).
+func TestWhatIsAHeldNote(t *testing.T) {
+	for _, tc := range []struct {
+		name  string
+		parts [][3]float64
+		want  []float64 // the notes' pitches
+	}{
+		{"the detector missing frames at the note's level is not the note ending",
+			[][3]float64{{20, 440, -20}, {8, 0, -21}, {20, 440, -20}}, []float64{440}},
+		{"a fall in level with no pitch ends the note",
+			[][3]float64{{20, 440, -20}, {8, 0, -40}, {20, 440, -20}}, []float64{440, 440}},
+		{"a quiet attackless echo of the note after it ends is not a note",
+			[][3]float64{{30, 440, -20}, {4, 0, -40}, {12, 440, -32}, {20, 0, -60}}, []float64{440}},
+		{"a note repeated softer, with an attack, is a note",
+			[][3]float64{{30, 440, -20}, {4, 0, -40}, {3, 440, -34}, {12, 440, -28}, {20, 0, -60}}, []float64{440, 440}},
+		{"a blip shorter than 0.1 s between two notes is not a note",
+			[][3]float64{{30, 349.23, -20}, {7, 987.77, -22}, {30, 392, -20}}, []float64{349.23, 392}},
+	} {
+		hz, level := track(tc.parts...)
+		got := pushAll(hz, level)
+		var pitches []float64
+		for _, h := range got {
+			pitches = append(pitches, math.Round(h.Hz*100)/100)
+		}
+		if len(pitches) != len(tc.want) || (len(pitches) > 0 && pitches[0] != tc.want[0]) || (len(pitches) > 1 && pitches[1] != tc.want[1]) {
+			t.Errorf("%s: notes %v, want %v", tc.name, pitches, tc.want)
+		}
+	}
+}

@@ -215,7 +215,7 @@ func fluidRenders(fluid, tmp string) ([]clip, error) {
 		{"oboe", 68, 62}, {"trumpet", 56, 58}, {"french horn", 60, 41}, {"choir aahs", 52, 48}, {"violin", 40, 55}} {
 		mid := filepath.Join(tmp, fmt.Sprintf("note-%d-%d.mid", n.program, n.key))
 		raw := mid + ".raw"
-		if err := os.WriteFile(mid, smf(n.program, n.key, 1.2), 0o644); err != nil {
+		if err := os.WriteFile(mid, testsignal.MIDI(n.program, []testsignal.MIDINote{{Key: n.key, Seconds: 1.2}}), 0o644); err != nil {
 			return nil, err
 		}
 		// No chorus or reverb: their modulated copies would blur the pitch.

@@ -46,26 +46,3 @@ func writeWAV(path string, rate int, x []float32) error {
 	}
 	return f.Close()
 }
-
-// smf builds a one-track Standard MIDI File (format 0, 480 ticks per
-// quarter at the default 120 bpm: 960 ticks a second) that selects program
-// (0-based General MIDI number) and holds one note for seconds.
-func smf(program, key int, seconds float64) []byte {
-	vlq := func(v int) []byte {
-		b := []byte{byte(v & 0x7f)}
-		for v >>= 7; v > 0; v >>= 7 {
-			b = append([]byte{byte(v&0x7f | 0x80)}, b...)
-		}
-		return b
-	}
-	var trk []byte
-	trk = append(trk, 0, 0xC0, byte(program))
-	trk = append(trk, 0, 0x90, byte(key), 96)
-	trk = append(trk, vlq(int(seconds*960))...)
-	trk = append(trk, 0x80, byte(key), 0)
-	trk = append(trk, vlq(480)...) // let the release ring out
-	trk = append(trk, 0xFF, 0x2F, 0)
-	out := []byte("MThd\x00\x00\x00\x06\x00\x00\x00\x01\x01\xe0MTrk")
-	out = binary.BigEndian.AppendUint32(out, uint32(len(trk)))
-	return append(out, trk...)
-}
