@@ -1,6 +1,10 @@
 package pitchdetect
 
-import "math"
+import (
+	"cmp"
+	"math"
+	"slices"
+)
 
 // Held is one held note found in the frame track.
 type Held struct {
@@ -189,10 +193,12 @@ func (s *Segmenter) finish() (Held, bool) {
 	return h, ok
 }
 
-// Current returns the note being held now (its summary so far), or false
-// if no note is sounding. The first reading comes with the first voiced
-// frame. Its vibrato fit is refreshed every few frames only, so calling it
-// on every frame stays cheap.
+// Current returns the note being held now, or false if no note is sounding:
+// its start and length, and its pitch, spread and vibrato over the last few
+// seconds (liveSeconds) — what the player is doing now. The first reading
+// comes with the first voiced frame. Its vibrato fit is refreshed every few
+// frames only, so calling it on every frame stays cheap however long the
+// note.
 func (s *Segmenter) Current() (Held, bool) {
 	if len(s.frames) == 0 || s.gap > 0 {
 		return Held{}, false
@@ -208,14 +214,26 @@ func (s *Segmenter) Flush() (Held, bool) {
 	return s.finish()
 }
 
-// vibratoRefresh is how many new frames Current waits before refitting.
-const vibratoRefresh = 8
+// vibratoRefresh is how many new frames Current waits before refitting;
+// liveSeconds is how much of the held note's end it describes.
+const (
+	vibratoRefresh = 8
+	liveSeconds    = 4.0
+)
 
 // summarise describes the frames of the open note; live reuses a recent
 // vibrato fit.
 func (s *Segmenter) summarise(live bool) Held {
 	fr := s.frames
 	h := Held{Start: fr[0].Time, End: fr[len(fr)-1].Time, Frames: len(fr)}
+	if live {
+		// While the note is held, its last few seconds: what the player is
+		// doing now, at a cost that does not grow with a long note (a drone
+		// exercise may hold one for minutes). A finished note is
+		// summarised whole, once.
+		i, _ := slices.BinarySearchFunc(fr, h.End-liveSeconds, func(e Estimate, t float64) int { return cmp.Compare(e.Time, t) })
+		fr = fr[i:]
+	}
 	ref := fr[len(fr)/2].Hz
 	// Steady part: frames whose whole window lies inside the note.
 	lo, hi := h.Start+s.Window, h.End-s.Window
@@ -236,8 +254,8 @@ func (s *Segmenter) summarise(live bool) Held {
 	mean, sd := meanStd(s.c)
 	h.Spread = sd
 	h.Hz = ref * math.Pow(2, mean/1200)
-	if !live || len(fr) >= s.vibAt+vibratoRefresh || len(fr) < s.vibAt {
-		s.vib, s.vibAt = findVibrato(s.t, s.c, s.Window), len(fr)
+	if n := len(s.frames); !live || n >= s.vibAt+vibratoRefresh || n < s.vibAt {
+		s.vib, s.vibAt = findVibrato(s.t, s.c, s.Window), len(s.frames)
 		s.vibHz = ref * math.Pow(2, s.vib.centre/1200)
 	}
 	if s.vib.ok {

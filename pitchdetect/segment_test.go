@@ -254,3 +254,38 @@ func TestWhatIsAHeldNote(t *testing.T) {
 		}
 	}
 }
+
+// While a note is held the meter shows what the player does now: a note
+// held 10 s at 20 ¢ flat and then brought up to 440 Hz reads 440 Hz live
+// after 5 s on pitch, while the finished note is summarised whole.
+func TestCurrentDescribesTheLastSeconds(t *testing.T) {
+	s := NewSegmenter(0.01)
+	flat := 440 * math.Exp2(-20.0/1200)
+	for i := range 1500 {
+		hz := flat
+		if i >= 1000 {
+			hz = 440
+		}
+		s.Push(Estimate{Time: float64(i) * 0.01, Hz: hz, Voiced: true, Confidence: 1, Level: -20})
+	}
+	live, ok := s.Current()
+	if !ok || math.Abs(testsignal.Cents(live.Hz, 440)) > 0.01 || live.Start != 0 || live.Frames != 1500 {
+		t.Errorf("live: %+v, want 440 Hz over the last seconds of a note from 0 s, 1500 frames", live)
+	}
+	done, _ := s.Flush()
+	if c := testsignal.Cents(done.Hz, 440); c > -12 || c < -14 { // two thirds of it at −20 ¢
+		t.Errorf("finished note at %+.2f ¢, want about −13.3", c)
+	}
+}
+
+// Current's cost on a note held for five minutes (a drone exercise); it
+// must not grow with the note's length.
+func BenchmarkCurrentOnALongNote(b *testing.B) {
+	s := NewSegmenter(0.01)
+	for i := range 30000 {
+		s.Push(Estimate{Time: float64(i) * 0.01, Hz: 440 * math.Exp2(10*math.Sin(float64(i)*0.35)/1200), Voiced: true, Confidence: 1, Level: -20})
+	}
+	for b.Loop() {
+		s.Current()
+	}
+}
