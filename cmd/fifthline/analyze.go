@@ -59,9 +59,11 @@ func runAnalyze(e *env, args []string) error {
 	if err != nil {
 		return err
 	}
-	for _, path := range files {
+	for i, path := range files {
 		if err := analyzeFile(e, path, tu, opt, out, j); err != nil {
-			out.Close()
+			if i > 0 {
+				out.Close() // what the earlier files gave still reaches stdout
+			}
 			return errors.Join(err, j.close())
 		}
 	}

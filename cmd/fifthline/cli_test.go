@@ -174,7 +174,10 @@ func TestAnalyzeBadFilesAreOneLineErrors(t *testing.T) {
 	text := filepath.Join(dir, "notes.wav")
 	os.WriteFile(text, []byte("this is not a WAV file at all, just words\n"), 0o644)
 	for _, path := range []string{filepath.Join(dir, "missing.wav"), dir, empty, text} {
-		code, _, stderr := runCLI(t, "analyze", path)
+		code, stdout, stderr := runCLI(t, "analyze", path)
 		checkError(t, code, 1, stderr)
+		if stdout != "" {
+			t.Errorf("analyze %s failed but printed %q", path, stdout)
+		}
 	}
 }
