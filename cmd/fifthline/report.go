@@ -61,6 +61,13 @@ func runReport(e *env, args []string) error {
 	}
 	opt := report.Options{Tolerance: *tolerance}
 	groups := report.Summarize(entries, opt)
+	// The picture first: a plot that cannot be written fails the command
+	// before the table is printed, so stdout is all or nothing.
+	if *plotPath != "" {
+		if err := report.PlotFile(*plotPath, entries, groups, opt); err != nil {
+			return err
+		}
+	}
 	switch *format {
 	case "csv":
 		err = report.WriteCSV(e.stdout, groups)
@@ -69,10 +76,7 @@ func runReport(e *env, args []string) error {
 	default:
 		err = report.WriteText(e.stdout, groups, opt)
 	}
-	if err != nil || *plotPath == "" {
-		return err
-	}
-	return report.PlotFile(*plotPath, entries, groups, opt)
+	return err
 }
 
 // filterWords says which filters left nothing: " by Ann, in G major, since 2026-03-14".
