@@ -12,6 +12,7 @@ import (
 	"time"
 
 	"github.com/gordonklaus/portaudio"
+	"golang.org/x/sys/unix"
 )
 
 // ErrDeviceLost means the input stopped delivering audio: unplugged,
@@ -74,19 +75,15 @@ type Input struct {
 	channel  int // 1-based
 	channels int // opened on the stream
 	stall    time.Duration
-	stream   *portaudio.Stream
+	stream   *cStream
 	release  func()
 	ring     *ring
-	block    []float32 // the callback's scratch, one channel
+	wake     *os.File // the ring's wake-up pipe, read end
+	wakeW    int      // its write end, the audio thread's
+	tokens   []byte
 	done     chan struct{}
 	closing  sync.Once
 	closeErr error
-	timer    *time.Timer
-
-	lastBlock                           atomic.Int64 // unix nanoseconds of the last callback
-	blocks, overflows, dropped, dropSmp atomic.Uint64
-	peakBits                            atomic.Uint32
-	clipped                             atomic.Uint64
 }
 
 // OpenInput opens and starts an input stream.
@@ -118,24 +115,28 @@ func openInput(opts InputOptions) (*Input, error) {
 		channel:  channel,
 		channels: channel,
 		stall:    orDefault(opts.StallTimeout, 2*time.Second),
-		block:    make([]float32, framesPerBlock),
+		tokens:   make([]byte, 64),
 		done:     make(chan struct{}),
 	}
 	p := portaudio.HighLatencyParameters(dev, nil)
 	p.Input.Channels = channel
 	p.FramesPerBuffer = framesPerBlock
 	err = QuietStderr(func() error {
-		if err := NegotiateRate(&p, opts.SampleRate, dev.DefaultSampleRate, in.callback, fmt.Sprintf("input %q", dev.Name)); err != nil {
+		// The format is what matters here: the callback itself is C's.
+		if err := NegotiateRate(&p, opts.SampleRate, dev.DefaultSampleRate, func([]float32) {}, fmt.Sprintf("input %q", dev.Name)); err != nil {
 			return err
 		}
 		in.rate = p.SampleRate
-		in.ring = newRing(max(2*framesPerBlock, int(in.rate*orDefault(opts.Buffer, 2*time.Second).Seconds())))
-		if in.stream, err = portaudio.OpenStream(p, in.callback); err != nil {
+		if err := in.openRing(max(2*framesPerBlock, int(in.rate*orDefault(opts.Buffer, 2*time.Second).Seconds()))); err != nil {
 			return fmt.Errorf("input %q: %w", dev.Name, err)
 		}
-		in.lastBlock.Store(time.Now().UnixNano())
+		if in.stream, err = openCStream(p, in.ring); err != nil {
+			in.closePipe()
+			return fmt.Errorf("input %q: %w", dev.Name, err)
+		}
 		if err := in.stream.Start(); err != nil {
 			in.stream.Close()
+			in.closePipe()
 			return fmt.Errorf("input %q: start: %w", dev.Name, err)
 		}
 		return nil
@@ -143,8 +144,35 @@ func openInput(opts InputOptions) (*Input, error) {
 	if err != nil {
 		return nil, err
 	}
-	in.timer = time.NewTimer(in.stall)
 	return in, nil
+}
+
+// openRing makes the ring and the pipe through which the audio thread
+// wakes a waiting Read. The read end is non-blocking so that it waits in
+// Go's poller, with a deadline, and never holds a thread.
+func (in *Input) openRing(capacity int) error {
+	var fds [2]int
+	if err := unix.Pipe2(fds[:], unix.O_NONBLOCK|unix.O_CLOEXEC); err != nil {
+		return fmt.Errorf("wake-up pipe: %w", err)
+	}
+	q, err := newRing(capacity, in.channels, in.channel-1, fds[1])
+	if err != nil {
+		unix.Close(fds[0])
+		unix.Close(fds[1])
+		return err
+	}
+	in.ring, in.wakeW = q, fds[1]
+	in.wake = os.NewFile(uintptr(fds[0]), "input wake-up")
+	// The start-up grace runs from here.
+	q.markDelivery(time.Now().UnixNano())
+	return nil
+}
+
+// closePipe closes both ends of the wake-up pipe; only once the stream is
+// closed, so the audio thread cannot write to a reused descriptor.
+func (in *Input) closePipe() {
+	in.wake.Close()
+	unix.Close(in.wakeW)
 }
 
 // orDefault is v, or def when v is zero.
@@ -206,39 +234,6 @@ func matchDevice(devs []*portaudio.DeviceInfo, want string) (*portaudio.DeviceIn
 	return nil, fmt.Errorf("input device %q is ambiguous: it matches %s", want, strings.Join(names, ", "))
 }
 
-// callback runs on PortAudio's thread for every block. It must never
-// block: it copies one channel into the ring or, if the ring is full,
-// counts the block as dropped.
-func (in *Input) callback(buf []float32, _ portaudio.StreamCallbackTimeInfo, flags portaudio.StreamCallbackFlags) {
-	in.lastBlock.Store(time.Now().UnixNano())
-	in.blocks.Add(1)
-	if flags&portaudio.InputOverflow != 0 {
-		in.overflows.Add(1)
-	}
-	frames := len(buf) / in.channels
-	for start := 0; start < frames; start += len(in.block) {
-		n := min(len(in.block), frames-start)
-		peak, clipped := float32(0), uint64(0)
-		for i := range n {
-			v := buf[(start+i)*in.channels+in.channel-1]
-			in.block[i] = v
-			a := float32(math.Abs(float64(v)))
-			peak = max(peak, a)
-			if a >= ClipLevel {
-				clipped++
-			}
-		}
-		if !in.ring.write(in.block[:n]) {
-			in.dropped.Add(1)
-			in.dropSmp.Add(uint64(n))
-		}
-		in.clipped.Add(clipped)
-		if peak > math.Float32frombits(in.peakBits.Load()) {
-			in.peakBits.Store(math.Float32bits(peak)) // only this thread writes
-		}
-	}
-}
-
 // Read waits for audio and fills p with what has arrived. After
 // StallTimeout without a block from the device it returns ErrDeviceLost.
 func (in *Input) Read(p []float32) (int, error) {
@@ -255,20 +250,29 @@ func (in *Input) Read(p []float32) (int, error) {
 			return n, nil
 		}
 		limit := in.stall
-		if in.blocks.Load() == 0 {
+		if in.ring.stats().Blocks == 0 {
 			limit = max(limit, startGrace)
 		}
-		wait := time.Until(time.Unix(0, in.lastBlock.Load()).Add(limit))
-		if wait <= 0 {
+		deadline := time.Unix(0, in.ring.lastBlock()).Add(limit)
+		if time.Until(deadline) <= 0 {
 			return 0, fmt.Errorf("%w: %q delivered no audio for %v", ErrDeviceLost, in.device.Name, limit)
 		}
-		in.timer.Reset(wait)
-		select {
-		case <-in.ring.notify:
-		case <-in.timer.C:
-		case <-in.done:
+		// Say we are about to sleep, then look once more: a block that
+		// lands in between either is seen here or sends a wake-up.
+		in.ring.waiting(true)
+		if n := in.ring.read(p); n > 0 {
+			in.ring.waiting(false)
+			return n, nil
 		}
-		in.timer.Stop()
+		_ = in.wake.SetReadDeadline(deadline)
+		_, err := in.wake.Read(in.tokens)
+		if err != nil && !errors.Is(err, os.ErrDeadlineExceeded) {
+			select {
+			case <-in.done:
+			default:
+				return 0, fmt.Errorf("input %q: wake-up pipe: %w", in.device.Name, err)
+			}
+		}
 	}
 }
 
@@ -278,9 +282,20 @@ func (in *Input) Close() error {
 	in.closing.Do(func() {
 		close(in.done)
 		in.closeErr = CloseStream(in.stream, true, in.release, fmt.Sprintf("input %q", in.device.Name))
+		if in.closeErr == nil {
+			in.closePipe()
+		} else {
+			// The audio thread may still write to the ring and pipe:
+			// keep both for the life of the process.
+			leaked.Store(in.ring)
+			_ = in.wake.SetReadDeadline(time.Now()) // wakes a waiting Read
+		}
 	})
 	return in.closeErr
 }
+
+// leaked holds the ring of a stream that would not close.
+var leaked atomic.Pointer[ring]
 
 // SampleRate is the rate the device delivers, in Hz.
 func (in *Input) SampleRate() float64 { return in.rate }
@@ -292,13 +307,4 @@ func (in *Input) Device() DeviceInfo { return in.device }
 func (in *Input) Channel() int { return in.channel }
 
 // Stats reports what happened to the audio so far.
-func (in *Input) Stats() InputStats {
-	return InputStats{
-		Blocks:         in.blocks.Load(),
-		Overflows:      in.overflows.Load(),
-		DroppedBlocks:  in.dropped.Load(),
-		DroppedSamples: in.dropSmp.Load(),
-		Peak:           math.Float32frombits(in.peakBits.Load()),
-		Clipped:        in.clipped.Load(),
-	}
-}
+func (in *Input) Stats() InputStats { return in.ring.stats() }

@@ -105,11 +105,18 @@ func NegotiateRate(p *portaudio.StreamParameters, want, deviceDefault float64, c
 	return fmt.Errorf("%s cannot run at %v Hz: %w", what, rates[len(rates)-1], err)
 }
 
+// Stream is what CloseStream ends: a binding's stream or the input's own.
+type Stream interface {
+	Stop() error
+	Abort() error
+	Close() error
+}
+
 // CloseStream ends a stream quietly and releases this user's share of
 // PortAudio: abort drops what is buffered (an input), otherwise the stream
 // plays it out first (an output's last fade). what names the stream in the
 // error ("input \"name\"").
-func CloseStream(s *portaudio.Stream, abort bool, release func(), what string) error {
+func CloseStream(s Stream, abort bool, release func(), what string) error {
 	err := QuietStderr(func() error {
 		end := s.Stop
 		if abort {

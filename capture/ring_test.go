@@ -3,12 +3,14 @@ package capture
 import (
 	"sync"
 	"testing"
+
+	"golang.org/x/sys/unix"
 )
 
 // The ring delivers every block whole and in order, or refuses it whole;
 // a plain slice is the model it must agree with.
 func TestRingKeepsOrderAndRefusesWholeBlocks(t *testing.T) {
-	q := newRing(10)
+	q := testRing(t, 10)
 	var model []float32
 	next := float32(0)
 	steps := []struct {
@@ -50,7 +52,7 @@ func TestRingKeepsOrderAndRefusesWholeBlocks(t *testing.T) {
 // One writer and one reader at once (run with -race): nothing lost or
 // reordered when the reader keeps up.
 func TestRingConcurrentWriterAndReader(t *testing.T) {
-	q := newRing(4096)
+	q := testRing(t, 4096)
 	const total = 200000
 	var wg sync.WaitGroup
 	wg.Go(func() {
@@ -75,4 +77,78 @@ func TestRingConcurrentWriterAndReader(t *testing.T) {
 		}
 	}
 	wg.Wait()
+}
+
+func testRing(t *testing.T, capacity int) *ring {
+	t.Helper()
+	q, err := newRing(capacity, 1, 0, -1)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return q
+}
+
+// The audio thread's work on one callback: the chosen channel of
+// interleaved frames goes into the ring in whole 512-frame blocks, and
+// peak, clipping, blocks and drops are counted.
+func TestRingDeliverKeepsOneChannelAndCounts(t *testing.T) {
+	q, err := newRing(1000, 3, 1, -1) // room for one 512-frame block, not two
+	if err != nil {
+		t.Fatal(err)
+	}
+	const frames = 1024
+	buf := make([]float32, 3*frames)
+	for i := range frames {
+		buf[3*i], buf[3*i+1], buf[3*i+2] = 0.9, float32(i)/2048, -1 // only the middle one is kept
+	}
+	buf[3*700+1] = -1 // a full-scale sample in the second block, which will not fit
+	q.deliver(buf, frames)
+	st := q.stats()
+	want := InputStats{Blocks: 1, DroppedBlocks: 1, DroppedSamples: 512, Peak: 1, Clipped: 1}
+	if st != want {
+		t.Errorf("stats %+v, want %+v", st, want)
+	}
+	out := make([]float32, 2000)
+	n := q.read(out)
+	if n != 512 {
+		t.Fatalf("read %d samples, want the first block's 512", n)
+	}
+	for i, v := range out[:n] {
+		if v != float32(i)/2048 {
+			t.Fatalf("sample %d = %v, want %v (channel 2 of 3)", i, v, float32(i)/2048)
+		}
+	}
+	if q.lastBlock() == 0 {
+		t.Error("the delivery time was not recorded")
+	}
+}
+
+// A reader that said it is waiting gets one wake-up byte per delivery
+// after it said so, and none when it did not.
+func TestRingWakesOnlyAWaitingReader(t *testing.T) {
+	var fds [2]int
+	if err := unix.Pipe2(fds[:], unix.O_NONBLOCK); err != nil {
+		t.Fatal(err)
+	}
+	defer unix.Close(fds[0])
+	defer unix.Close(fds[1])
+	q, err := newRing(4096, 1, 0, fds[1])
+	if err != nil {
+		t.Fatal(err)
+	}
+	pending := func() int {
+		b := make([]byte, 16)
+		n, _ := unix.Read(fds[0], b)
+		return max(n, 0)
+	}
+	q.write(make([]float32, 10))
+	if n := pending(); n != 0 {
+		t.Errorf("%d wake-ups with nobody waiting", n)
+	}
+	q.waiting(true)
+	q.write(make([]float32, 10))
+	q.write(make([]float32, 10))
+	if n := pending(); n != 1 {
+		t.Errorf("%d wake-ups for a waiting reader and two writes, want 1", n)
+	}
 }

@@ -41,19 +41,8 @@ const (
 
 func measureListen(b *testing.B) {
 	_, env, play := privateMic(b)
-	// Equal-tempered C4 … E5 at A4 = 440 Hz (ISO 16).
-	var parts []string
-	dir := b.TempDir()
-	for i := range benchTones {
-		hz := 440 * math.Exp2(float64(i*2-9)/12)
-		p := filepath.Join(dir, fmt.Sprintf("t%d.wav", i))
-		soxTB(b, "-n", "-r", "48000", "-c", "1", "-b", "16", p, "synth", fmt.Sprint(benchTone), "sine", strconv.FormatFloat(hz, 'f', 4, 64), "gain", "-12", "pad", fmt.Sprint(benchGap), "0")
-		parts = append(parts, p)
-	}
-	wav := filepath.Join(dir, "tones.wav")
-	soxTB(b, append(parts, wav)...)
-
-	timing := filepath.Join(dir, "timing.csv")
+	wav := benchTonesWAV(b)
+	timing := filepath.Join(b.TempDir(), "timing.csv")
 	cmd := exec.Command(fifthlineBinary(b), "listen", "--plain", "--duration", "40s")
 	cmd.Env = append(append(os.Environ(), env...), "FIFTHLINE_TIMING="+timing)
 	if err := cmd.Start(); err != nil {
@@ -69,25 +58,10 @@ func measureListen(b *testing.B) {
 			b.Fatal("listen delivered no frames")
 		}
 	}
-	cpu0, wall0 := cpuSeconds(b, cmd.Process.Pid), time.Now()
 	started := time.Now()
-	rss := 0.0
-	done := make(chan struct{})
-	go func() { play(wav); close(done) }()
-	for waiting := true; waiting; {
-		select {
-		case <-done:
-			waiting = false
-		case <-time.After(250 * time.Millisecond):
-		}
-		rss = max(rss, rssMB(b, cmd.Process.Pid))
-	}
-	cpu1, wall1 := cpuSeconds(b, cmd.Process.Pid), time.Now()
+	reportCost(b, cmd.Process.Pid, func() { play(wav) })
 	_ = cmd.Process.Signal(os.Interrupt)
 	_ = cmd.Wait()
-
-	b.ReportMetric(100*(cpu1-cpu0)/wall1.Sub(wall0).Seconds(), "cpu_%core")
-	b.ReportMetric(rss, "rss_MB")
 	transport, detection, total := onsetLatencies(b, timing, started)
 	b.Logf("onset→reading per tone, ms: %.0f", total)
 	b.Logf("of which detection (first loud frame → first held frame), ms: %.0f", detection)
@@ -96,6 +70,38 @@ func measureListen(b *testing.B) {
 	b.ReportMetric(median(transport), "transport_ms")
 	b.ReportMetric(median(detection), "detection_ms")
 	b.ReportMetric(slices.Max(detection), "detection_max_ms")
+}
+
+// benchTonesWAV writes the benchmarks' tones: equal-tempered C4 … E5 at
+// A4 = 440 Hz (ISO 16), each after a gap of silence, 48 kHz mono.
+func benchTonesWAV(b *testing.B) string {
+	var parts []string
+	dir := b.TempDir()
+	for i := range benchTones {
+		hz := 440 * math.Exp2(float64(i*2-9)/12)
+		p := filepath.Join(dir, fmt.Sprintf("t%d.wav", i))
+		soxTB(b, "-n", "-r", "48000", "-c", "1", "-b", "16", p, "synth", fmt.Sprint(benchTone), "sine", strconv.FormatFloat(hz, 'f', 4, 64), "gain", "-12", "pad", fmt.Sprint(benchGap), "0")
+		parts = append(parts, p)
+	}
+	wav := filepath.Join(dir, "tones.wav")
+	soxTB(b, append(parts, wav)...)
+	return wav
+}
+
+// The meter on screen while the same tones play: `listen` in an 80×24 tmux
+// window, the way a player runs it.
+//
+//	go test -run XXX -bench ListenMeterLive ./cmd/fifthline/
+func BenchmarkListenMeterLive(b *testing.B) {
+	for range b.N {
+		_, env, play := privateMic(b)
+		wav := benchTonesWAV(b)
+		m := startTmux(b, 80, 24, env, "listen")
+		m.waitFor(`input .*dB`)
+		reportCost(b, meterPid(b, m), func() { play(wav) })
+		m.tmux("send-keys", "-t", "meter", "q")
+		m.exitStatus()
+	}
 }
 
 // onsetLatencies reads the timing log and finds, for each tone, the first
@@ -157,6 +163,25 @@ func median(x []float64) float64 {
 
 // cpuSeconds is the process's user+system CPU time (/proc/PID/stat fields
 // 14 and 15, in clock ticks of 1/100 s, the Linux USER_HZ).
+// reportCost runs work while sampling process pid, and reports pid's CPU
+// over that span as a share of one core and its largest resident memory.
+func reportCost(b *testing.B, pid int, work func()) {
+	cpu0, wall0 := cpuSeconds(b, pid), time.Now()
+	rss := 0.0
+	done := make(chan struct{})
+	go func() { work(); close(done) }()
+	for waiting := true; waiting; {
+		select {
+		case <-done:
+			waiting = false
+		case <-time.After(250 * time.Millisecond):
+		}
+		rss = max(rss, rssMB(b, pid))
+	}
+	b.ReportMetric(100*(cpuSeconds(b, pid)-cpu0)/time.Since(wall0).Seconds(), "cpu_%core")
+	b.ReportMetric(rss, "rss_MB")
+}
+
 func cpuSeconds(b *testing.B, pid int) float64 {
 	data, err := os.ReadFile(fmt.Sprintf("/proc/%d/stat", pid))
 	if err != nil {

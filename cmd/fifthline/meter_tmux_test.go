@@ -173,15 +173,7 @@ func BenchmarkDemoMeterInTmux(b *testing.B) {
 	for range b.N {
 		m := startTmux(b, 80, 24, nil, "demo")
 		m.waitFor(heldWords)
-		pid := meterPid(b, m)
-		cpu0, wall0 := cpuSeconds(b, pid), time.Now()
-		rss := 0.0
-		for range 40 {
-			time.Sleep(250 * time.Millisecond)
-			rss = max(rss, rssMB(b, pid))
-		}
-		b.ReportMetric(100*(cpuSeconds(b, pid)-cpu0)/time.Since(wall0).Seconds(), "cpu_%core")
-		b.ReportMetric(rss, "rss_MB")
+		reportCost(b, meterPid(b, m), func() { time.Sleep(10 * time.Second) })
 		m.tmux("send-keys", "-t", "meter", "q")
 		m.exitStatus()
 	}

@@ -1,0 +1,107 @@
+#include <stdlib.h>
+#include <string.h>
+#include <time.h>
+#include <unistd.h>
+#include "ring.h"
+
+// Block is the most a callback delivers at once: each block is written
+// whole or dropped whole, never torn.
+enum { block = 512 };
+
+fl_ring *fl_ring_new(int64_t cap, int channels, int channel, int fd, float clip) {
+	fl_ring *q = calloc(1, sizeof *q);
+	if (!q) return NULL;
+	q->buf = calloc((size_t)cap, sizeof(float));
+	if (!q->buf) {
+		free(q);
+		return NULL;
+	}
+	q->cap = cap;
+	q->channels = channels;
+	q->channel = channel;
+	q->fd = fd;
+	q->clip = clip;
+	return q;
+}
+
+void fl_ring_free(fl_ring *q) {
+	if (q) free(q->buf);
+	free(q);
+}
+
+// wake tells a reader that is waiting (and only then) that samples came.
+static void wake(fl_ring *q) {
+	if (q->fd >= 0 && __atomic_exchange_n(&q->waiting, 0, __ATOMIC_SEQ_CST)) {
+		char c = 1;
+		(void)!write(q->fd, &c, 1); // a full pipe already holds a wake-up
+	}
+}
+
+// put stores n frames of channel q->channel from in, or nothing if there
+// is not room for all of them.
+static int put(fl_ring *q, const float *in, int stride, int64_t n) {
+	int64_t w = __atomic_load_n(&q->w, __ATOMIC_RELAXED);
+	int64_t r = __atomic_load_n(&q->r, __ATOMIC_ACQUIRE);
+	if (q->cap - (w - r) < n) return 0;
+	for (int64_t i = 0; i < n; i++) q->buf[(w + i) % q->cap] = in[i * stride];
+	__atomic_store_n(&q->w, w + n, __ATOMIC_SEQ_CST);
+	return 1;
+}
+
+int fl_ring_write(fl_ring *q, const float *p, int64_t n) {
+	int ok = put(q, p, 1, n);
+	if (ok) wake(q);
+	return ok;
+}
+
+void fl_ring_deliver(fl_ring *q, const float *in, unsigned long frames, int overflow) {
+	struct timespec ts;
+	clock_gettime(CLOCK_REALTIME, &ts);
+	__atomic_store_n(&q->last_ns, (int64_t)ts.tv_sec * 1000000000 + ts.tv_nsec, __ATOMIC_RELAXED);
+	__atomic_add_fetch(&q->blocks, 1, __ATOMIC_RELAXED);
+	if (overflow) __atomic_add_fetch(&q->overflows, 1, __ATOMIC_RELAXED);
+	if (!in) return;
+	float peak = 0;
+	uint64_t clipped = 0;
+	for (unsigned long start = 0; start < frames; start += block) {
+		int64_t n = frames - start < block ? frames - start : block;
+		const float *x = in + start * q->channels + q->channel;
+		for (int64_t i = 0; i < n; i++) {
+			float a = x[i * q->channels];
+			a = a < 0 ? -a : a;
+			if (a > peak) peak = a;
+			if (a >= q->clip) clipped++;
+		}
+		if (!put(q, x, q->channels, n)) {
+			__atomic_add_fetch(&q->dropped, 1, __ATOMIC_RELAXED);
+			__atomic_add_fetch(&q->dropped_samples, (uint64_t)n, __ATOMIC_RELAXED);
+		}
+	}
+	if (clipped) __atomic_add_fetch(&q->clipped, clipped, __ATOMIC_RELAXED);
+	uint32_t bits;
+	memcpy(&bits, &peak, sizeof bits);
+	float old;
+	uint32_t oldBits = __atomic_load_n(&q->peak_bits, __ATOMIC_RELAXED);
+	memcpy(&old, &oldBits, sizeof old);
+	if (peak > old) __atomic_store_n(&q->peak_bits, bits, __ATOMIC_RELAXED); // only this thread writes
+	wake(q);
+}
+
+static int callback(const void *in, void *out, unsigned long frames,
+	const PaStreamCallbackTimeInfo *t, PaStreamCallbackFlags flags, void *user) {
+	(void)out;
+	(void)t;
+	fl_ring_deliver(user, in, frames, (flags & paInputOverflow) != 0);
+	return paContinue;
+}
+
+PaError fl_open_input(PaStream **s, fl_ring *q, int device, int channels,
+	double latency, double rate, unsigned long frames, unsigned long flags) {
+	PaStreamParameters p;
+	memset(&p, 0, sizeof p);
+	p.device = device;
+	p.channelCount = channels;
+	p.sampleFormat = paFloat32;
+	p.suggestedLatency = latency;
+	return Pa_OpenStream(s, &p, NULL, rate, frames, flags, callback, q);
+}
