@@ -8,7 +8,6 @@ import (
 	"time"
 
 	"github.com/gdamore/tcell/v2"
-	"github.com/mattn/go-runewidth"
 	"github.com/rivo/tview"
 
 	"fifthline/capture"
@@ -107,15 +106,28 @@ func (m *Meter) Run(ctx context.Context) error {
 	} else if err := terminalPresent(); err != nil {
 		return err
 	}
-	view := tview.NewBox()
-	view.SetDrawFunc(func(s tcell.Screen, x, y, w, h int) (int, int, int, int) {
-		draw(s, Layout(m.model, w, h), x, y, w)
+	var paint painter
+	var screen tcell.Screen
+	root := &view{Box: tview.NewBox(), draw: func(s tcell.Screen, x, y, w, h int) {
+		screen = s
+		paint.paint(s, Layout(m.model, w, h), x, y, w, h, true)
 		if m.drawn != nil {
 			m.drawn(s)
 		}
-		return x, y, w, h
-	})
-	app.SetRoot(view, true)
+	}}
+	// The periodic redraw: new frames in, changed cells out.
+	redraw := func() {
+		m.drain()
+		if screen == nil {
+			return // tview has not drawn yet
+		}
+		paint.paint(screen, Layout(m.model, paint.w, paint.h), paint.x, paint.y, paint.w, paint.h, false)
+		screen.Show()
+		if m.drawn != nil {
+			m.drawn(screen)
+		}
+	}
+	app.SetRoot(root, true)
 	app.SetInputCapture(func(ev *tcell.EventKey) *tcell.EventKey { return m.key(app, ev) })
 
 	// tview must not be stopped once Run has returned: a screen that
@@ -144,7 +156,7 @@ func (m *Meter) Run(ctx context.Context) error {
 				stop()
 				return
 			case <-tick.C:
-				app.QueueUpdateDraw(m.drain)
+				app.QueueUpdate(redraw)
 			}
 		}
 	}()
@@ -237,22 +249,4 @@ var styles = map[Role]tcell.Style{
 	Lit:   tcell.StyleDefault.Bold(true),
 	Other: tcell.StyleDefault.Underline(true),
 	Warn:  tcell.StyleDefault.Bold(true).Reverse(true),
-}
-
-// draw puts the lines on the screen from (x, y), clipped to w columns.
-func draw(s tcell.Screen, lines []Line, x, y, w int) {
-	for row, l := range lines {
-		col := 0
-		for _, sp := range l {
-			st := styles[sp.Role]
-			for _, r := range sp.Text {
-				rw := runewidth.RuneWidth(r)
-				if col+rw > w {
-					break
-				}
-				s.SetContent(x+col, y+row, r, nil, st)
-				col += rw
-			}
-		}
-	}
 }
