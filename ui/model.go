@@ -44,6 +44,7 @@ type Model struct {
 	messageAt float64 // stream time Message was set
 	heldAt    float64 // stream time of the last frame holding a note
 	trace     []tracePoint
+	tracedFor string // the tuning the trace's targets belong to
 	clipped   uint64  // clipped samples counted at the last poll
 	lastClip  float64 // stream time more were first seen
 }
@@ -67,6 +68,9 @@ type InputState struct {
 type tracePoint struct {
 	t, hz float64
 	ref   float64 // the held note's centre when the frame came, or 0
+	// target is the pitch the point is measured from in the tuning whose
+	// fingerprint is the model's tracedFor; 0 until it is classified.
+	target float64
 }
 
 // NewModel starts a model for the tuning, with nothing heard yet.

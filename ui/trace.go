@@ -1,6 +1,7 @@
 package ui
 
 import (
+	"fmt"
 	"math"
 	"strings"
 )
@@ -70,40 +71,61 @@ func Trace(m *Model, w, rows int) []Line {
 }
 
 // traceLevels averages the trace into bins time columns and returns each
-// bin's dot row (0 at +TraceRange), or -1 where nothing was voiced.
+// bin's dot row (0 at +TraceRange), or -1 where nothing was voiced. Each
+// bin is measured from the target of its latest point: the held note's
+// while one was held (keeping a note's trace continuous past ±50 ¢),
+// otherwise the note nearest the point's own pitch.
 func (m *Model) traceLevels(bins, dots int) []int {
+	m.classifyTrace()
 	level := make([]int, bins)
 	sum := make([]float64, bins)
 	n := make([]int, bins)
-	ref := make([]float64, bins)
+	target := make([]float64, bins)
 	t0 := m.Now - TraceSeconds
 	for _, p := range m.trace {
 		if p.hz <= 0 {
 			continue
 		}
-		b := int((p.t - t0) / TraceSeconds * float64(bins))
-		if b < 0 || b >= bins {
-			b = min(max(b, 0), bins-1)
-		}
+		b := min(max(int((p.t-t0)/TraceSeconds*float64(bins)), 0), bins-1)
 		sum[b] += math.Log2(p.hz)
 		n[b]++
-		if p.ref > 0 {
-			ref[b] = p.ref
-		}
+		target[b] = p.target
 	}
 	for b := range level {
 		level[b] = -1
 		if n[b] == 0 {
 			continue
 		}
-		hz := math.Exp2(sum[b] / float64(n[b]))
-		toward := hz
-		if ref[b] > 0 {
-			toward = ref[b] // keep a note's trace continuous past ±50 ¢
-		}
-		c := 1200 * math.Log2(hz/m.Tuning.Classify(toward).TargetHz)
+		c := 1200 * (sum[b]/float64(n[b]) - math.Log2(target[b]))
 		d := int(math.Floor((TraceRange - c) / (2 * TraceRange) * float64(dots)))
 		level[b] = min(max(d, 0), dots-1)
 	}
 	return level
+}
+
+// classifyTrace finds the target of every voiced trace point not yet
+// classified in the current tuning (all of them after a key changes it), so
+// a redraw classifies only the frames that came since the last.
+func (m *Model) classifyTrace() {
+	tu := m.Tuning
+	spec := ""
+	if tu.Temperament != nil {
+		spec = tu.Temperament.Spec()
+	}
+	if fp := fmt.Sprintf("%v|%s|%v|%v|%p|%v", tu.Key, spec, tu.A4, tu.Anchor, tu.Chord, tu.Transpose); fp != m.tracedFor {
+		m.tracedFor = fp
+		for i := range m.trace {
+			m.trace[i].target = 0
+		}
+	}
+	for i, p := range m.trace {
+		if p.hz <= 0 || p.target > 0 {
+			continue
+		}
+		toward := p.hz
+		if p.ref > 0 {
+			toward = p.ref
+		}
+		m.trace[i].target = tu.Classify(toward).TargetHz
+	}
 }

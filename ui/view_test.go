@@ -287,3 +287,25 @@ func TestAfterTheNoteEndsTheMeterShowsItAsTheLastNote(t *testing.T) {
 		t.Errorf("input line %q", got)
 	}
 }
+
+// The trace follows a retuning at once: the same held tone, 20 ¢ sharp of
+// A4 = 440 Hz (ISO 16), sits on the 0 ¢ row once A4 is moved up 20 ¢.
+func TestTraceFollowsANewTuning(t *testing.T) {
+	hz := 440 * math.Exp2(20.0/1200)
+	m := holding(target.Default(), hz)
+	rowWithDots := func() int {
+		for y, l := range Trace(m, 80, 4) {
+			if strings.ContainsFunc(l[1].Text, func(r rune) bool { return r > 0x2800 && r <= 0x28ff }) {
+				return y
+			}
+		}
+		return -1
+	}
+	if y := rowWithDots(); y != 1 {
+		t.Fatalf("at A4 = 440 the dots are on row %d, want 1", y)
+	}
+	m.Tuning.A4 = hz
+	if y := rowWithDots(); y != 2 {
+		t.Errorf("at A4 = %.2f the dots are on row %d, want 2 (the 0 ¢ row)", hz, y)
+	}
+}
