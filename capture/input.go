@@ -10,6 +10,7 @@ import (
 	"sync"
 	"sync/atomic"
 	"time"
+	"unsafe"
 
 	"github.com/gordonklaus/portaudio"
 	"golang.org/x/sys/unix"
@@ -265,8 +266,7 @@ func (in *Input) Read(p []float32) (int, error) {
 			return n, nil
 		}
 		_ = in.wake.SetReadDeadline(deadline)
-		_, err := in.wake.Read(in.tokens)
-		if err != nil && !errors.Is(err, os.ErrDeadlineExceeded) {
+		if err := in.waitWake(); err != nil && !errors.Is(err, os.ErrDeadlineExceeded) {
 			select {
 			case <-in.done:
 			default:
@@ -274,6 +274,23 @@ func (in *Input) Read(p []float32) (int, error) {
 			}
 		}
 	}
+}
+
+// waitWake sleeps in Go's poller until the audio thread's wake-up byte
+// (or the deadline) and takes the bytes waiting. The non-blocking read is
+// a raw system call on purpose: an ordinary one, made while every Go thread
+// was idle, wakes Go's monitor thread, which then polls every 20 µs for as
+// long as the analysis that follows runs (measured: a sixth of listen's CPU).
+func (in *Input) waitWake() error {
+	rc, err := in.wake.SyscallConn()
+	if err != nil {
+		return err
+	}
+	buf := unsafe.Pointer(&in.tokens[0])
+	return rc.Read(func(fd uintptr) bool {
+		_, _, errno := unix.RawSyscall(unix.SYS_READ, fd, uintptr(buf), uintptr(len(in.tokens)))
+		return errno != unix.EAGAIN
+	})
 }
 
 // Close stops the stream and releases PortAudio; a Read waiting in another
