@@ -8,7 +8,7 @@ import (
 
 // painter keeps what the meter last put on the screen, so that a redraw
 // hands tcell only the cells that changed. tview clears the screen and
-// draws every cell on each of its draws; at 20 redraws a second that was
+// draws every cell on each of its draws; at the meter's frame rate that was
 // most of the meter's own cost, so the periodic redraw bypasses it and
 // tview's draw is left for start-up, resizes and key presses.
 type painter struct {
