@@ -44,7 +44,7 @@ type Model struct {
 	messageAt float64 // stream time Message was set
 	heldAt    float64 // stream time of the last frame holding a note
 	trace     []tracePoint
-	tracedFor string // the tuning the trace's targets belong to
+	tracedFor string  // the tuning the trace's targets belong to
 	clipped   uint64  // clipped samples counted at the last poll
 	lastClip  float64 // stream time more were first seen
 }
