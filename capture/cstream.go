@@ -9,36 +9,46 @@ import "C"
 import (
 	"errors"
 	"unsafe"
-
-	"github.com/gordonklaus/portaudio"
 )
 
-// cStream is an input stream whose callback is C (ring.c), opened with
-// the parameters the binding negotiated. It has the binding's Stop, Abort
-// and Close, so CloseStream ends it like any other stream.
-type cStream struct {
-	s unsafe.Pointer // *C.PaStream
+// CStream is a PortAudio stream opened by C code whose callback is C too
+// (the input's ring.c, playback's output ring). It has the binding's Start,
+// Stop, Abort and Close, so CloseStream ends it like any other stream.
+type CStream struct {
+	s unsafe.Pointer // *PaStream
 }
 
-func openCStream(p portaudio.StreamParameters, q *ring) (*cStream, error) {
-	st := &cStream{}
-	err := paErr(C.fl_open_input(&st.s, q.c, C.int(p.Input.Device.Index), C.int(p.Input.Channels),
-		C.double(p.Input.Latency.Seconds()), C.double(p.SampleRate), C.ulong(p.FramesPerBuffer), C.ulong(p.Flags)))
-	if err != nil {
+// WrapCStream takes a PaStream pointer that C code opened, and the
+// PaError it returned (0 for none).
+func WrapCStream(s unsafe.Pointer, paError int) (*CStream, error) {
+	if err := PaError(paError); err != nil {
 		return nil, err
 	}
-	return st, nil
+	return &CStream{s: s}, nil
 }
 
-func (st *cStream) Start() error { return paErr(C.Pa_StartStream(st.s)) }
-func (st *cStream) Stop() error  { return paErr(C.Pa_StopStream(st.s)) }
-func (st *cStream) Abort() error { return paErr(C.Pa_AbortStream(st.s)) }
-func (st *cStream) Close() error { return paErr(C.Pa_CloseStream(st.s)) }
+func (st *CStream) Start() error { return PaError(int(C.Pa_StartStream(st.s))) }
+func (st *CStream) Stop() error  { return PaError(int(C.Pa_StopStream(st.s))) }
+func (st *CStream) Abort() error { return PaError(int(C.Pa_AbortStream(st.s))) }
+func (st *CStream) Close() error { return PaError(int(C.Pa_CloseStream(st.s))) }
 
-// paErr is PortAudio's own text for an error code; nil for paNoError.
-func paErr(e C.PaError) error {
-	if e == C.paNoError {
+// PaError is PortAudio's own text for an error code; nil for paNoError.
+func PaError(code int) error {
+	if code == int(C.paNoError) {
 		return nil
 	}
-	return errors.New(C.GoString(C.Pa_GetErrorText(e)))
+	return errors.New(C.GoString(C.Pa_GetErrorText(C.PaError(code))))
+}
+
+func openInputStream(p inputParams, q *ring) (*CStream, error) {
+	var s unsafe.Pointer
+	e := C.fl_open_input(&s, q.c, C.int(p.device), C.int(p.channels), C.double(p.latency), C.double(p.rate), C.ulong(p.frames), C.ulong(p.flags))
+	return WrapCStream(s, int(e))
+}
+
+// inputParams are the binding's negotiated stream parameters, for C.
+type inputParams struct {
+	device, channels int
+	latency, rate    float64
+	frames, flags    int
 }

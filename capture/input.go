@@ -10,10 +10,8 @@ import (
 	"sync"
 	"sync/atomic"
 	"time"
-	"unsafe"
 
 	"github.com/gordonklaus/portaudio"
-	"golang.org/x/sys/unix"
 )
 
 // ErrDeviceLost means the input stopped delivering audio: unplugged,
@@ -76,12 +74,10 @@ type Input struct {
 	channel  int // 1-based
 	channels int // opened on the stream
 	stall    time.Duration
-	stream   *cStream
+	stream   *CStream
 	release  func()
 	ring     *ring
-	wake     *os.File // the ring's wake-up pipe, read end
-	wakeW    int      // its write end, the audio thread's
-	tokens   []byte
+	wake     *WakePipe // the audio thread wakes a waiting Read through it
 	done     chan struct{}
 	closing  sync.Once
 	closeErr error
@@ -116,7 +112,6 @@ func openInput(opts InputOptions) (*Input, error) {
 		channel:  channel,
 		channels: channel,
 		stall:    orDefault(opts.StallTimeout, 2*time.Second),
-		tokens:   make([]byte, 64),
 		done:     make(chan struct{}),
 	}
 	p := portaudio.HighLatencyParameters(dev, nil)
@@ -131,13 +126,15 @@ func openInput(opts InputOptions) (*Input, error) {
 		if err := in.openRing(max(2*framesPerBlock, int(in.rate*orDefault(opts.Buffer, 2*time.Second).Seconds()))); err != nil {
 			return fmt.Errorf("input %q: %w", dev.Name, err)
 		}
-		if in.stream, err = openCStream(p, in.ring); err != nil {
-			in.closePipe()
+		in.stream, err = openInputStream(inputParams{device: p.Input.Device.Index, channels: p.Input.Channels,
+			latency: p.Input.Latency.Seconds(), rate: p.SampleRate, frames: p.FramesPerBuffer, flags: int(p.Flags)}, in.ring)
+		if err != nil {
+			in.wake.Close()
 			return fmt.Errorf("input %q: %w", dev.Name, err)
 		}
 		if err := in.stream.Start(); err != nil {
 			in.stream.Close()
-			in.closePipe()
+			in.wake.Close()
 			return fmt.Errorf("input %q: start: %w", dev.Name, err)
 		}
 		return nil
@@ -149,31 +146,21 @@ func openInput(opts InputOptions) (*Input, error) {
 }
 
 // openRing makes the ring and the pipe through which the audio thread
-// wakes a waiting Read. The read end is non-blocking so that it waits in
-// Go's poller, with a deadline, and never holds a thread.
+// wakes a waiting Read.
 func (in *Input) openRing(capacity int) error {
-	var fds [2]int
-	if err := unix.Pipe2(fds[:], unix.O_NONBLOCK|unix.O_CLOEXEC); err != nil {
-		return fmt.Errorf("wake-up pipe: %w", err)
-	}
-	q, err := newRing(capacity, in.channels, in.channel-1, fds[1])
+	wake, err := NewWakePipe()
 	if err != nil {
-		unix.Close(fds[0])
-		unix.Close(fds[1])
 		return err
 	}
-	in.ring, in.wakeW = q, fds[1]
-	in.wake = os.NewFile(uintptr(fds[0]), "input wake-up")
+	q, err := newRing(capacity, in.channels, in.channel-1, wake.W)
+	if err != nil {
+		wake.Close()
+		return err
+	}
+	in.ring, in.wake = q, wake
 	// The start-up grace runs from here.
 	q.markDelivery(time.Now().UnixNano())
 	return nil
-}
-
-// closePipe closes both ends of the wake-up pipe; only once the stream is
-// closed, so the audio thread cannot write to a reused descriptor.
-func (in *Input) closePipe() {
-	in.wake.Close()
-	unix.Close(in.wakeW)
 }
 
 // orDefault is v, or def when v is zero.
@@ -265,8 +252,7 @@ func (in *Input) Read(p []float32) (int, error) {
 			in.ring.waiting(false)
 			return n, nil
 		}
-		_ = in.wake.SetReadDeadline(deadline)
-		if err := in.waitWake(); err != nil && !errors.Is(err, os.ErrDeadlineExceeded) {
+		if err := in.wake.Wait(deadline); err != nil && !errors.Is(err, os.ErrDeadlineExceeded) {
 			select {
 			case <-in.done:
 			default:
@@ -276,23 +262,6 @@ func (in *Input) Read(p []float32) (int, error) {
 	}
 }
 
-// waitWake sleeps in Go's poller until the audio thread's wake-up byte
-// (or the deadline) and takes the bytes waiting. The non-blocking read is
-// a raw system call on purpose: an ordinary one, made while every Go thread
-// was idle, wakes Go's monitor thread, which then polls every 20 µs for as
-// long as the analysis that follows runs (measured: a sixth of listen's CPU).
-func (in *Input) waitWake() error {
-	rc, err := in.wake.SyscallConn()
-	if err != nil {
-		return err
-	}
-	buf := unsafe.Pointer(&in.tokens[0])
-	return rc.Read(func(fd uintptr) bool {
-		_, _, errno := unix.RawSyscall(unix.SYS_READ, fd, uintptr(buf), uintptr(len(in.tokens)))
-		return errno != unix.EAGAIN
-	})
-}
-
 // Close stops the stream and releases PortAudio; a Read waiting in another
 // goroutine returns. Closing twice is harmless.
 func (in *Input) Close() error {
@@ -300,12 +269,12 @@ func (in *Input) Close() error {
 		close(in.done)
 		in.closeErr = CloseStream(in.stream, true, in.release, fmt.Sprintf("input %q", in.device.Name))
 		if in.closeErr == nil {
-			in.closePipe()
+			in.wake.Close()
 		} else {
 			// The audio thread may still write to the ring and pipe:
 			// keep both for the life of the process.
 			leaked.Store(in.ring)
-			_ = in.wake.SetReadDeadline(time.Now()) // wakes a waiting Read
+			in.wake.Interrupt() // a waiting Read returns
 		}
 	})
 	return in.closeErr
