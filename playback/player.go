@@ -3,6 +3,7 @@ package playback
 import (
 	"errors"
 	"fmt"
+	"os"
 	"slices"
 	"strconv"
 	"strings"
@@ -70,16 +71,20 @@ type Player struct {
 	rate     float64
 	channels int
 	device   capture.DeviceInfo
-	stream   *portaudio.Stream
+	stream   *capture.CStream
 	release  func()
+	ring     *outRing
+	wake     *capture.WakePipe // the audio thread wakes the renderer through it
+	rendered chan struct{}     // closed when the renderer has stopped
 
-	// Hand-offs to the callback: the next drone voice (or silence), the
+	// Hand-offs to the renderer: the next drone voice (or silence), the
 	// next reference tone, and the request to fade everything out.
 	droneIn, refIn atomic.Pointer[drone.Voice]
 	stopping       atomic.Bool
-	silent         atomic.Bool
+	silent         atomic.Bool // everything has faded out after stopping
+	closed         atomic.Bool // the stream is closed: stop rendering
 
-	// Callback-only state.
+	// Renderer-only state.
 	mix        *drone.Mixer
 	drone, ref *drone.Voice
 	stopped    bool
@@ -123,11 +128,18 @@ func NewPlayer(opt Options) (*Player, error) {
 	return p, nil
 }
 
-// framesPerBlock is the callback size: about 43 ms at 48 kHz. Sound needs
-// no quicker answer than its fades, and each callback from PortAudio's
-// thread into Go costs a burst of Go scheduler wake-ups (measured with the
-// meter and a drone: 11 % of a core at 512 frames, 7-8 % at 2048).
-const framesPerBlock = 2048
+// framesPerBlock is the audio callback's size and the renderer's step:
+// about 10 ms at 48 kHz.
+const framesPerBlock = 512
+
+// The renderer keeps up to aheadBlocks rendered ahead of the speaker and
+// is woken when fewer than lowBlocks wait: PulseAudio asks for 2048 frames
+// at a time, and the renderer must never leave it short. The sound is
+// that much later (about 64–85 ms), well inside fadeLatency.
+const (
+	aheadBlocks = 8
+	lowBlocks   = 6
+)
 
 func (p *Player) open() error {
 	dev, err := pickOutput(p.opt.Device)
@@ -139,24 +151,67 @@ func (p *Player) open() error {
 	params := portaudio.HighLatencyParameters(nil, dev)
 	params.Output.Channels = p.channels
 	params.FramesPerBuffer = framesPerBlock
-	if err := capture.NegotiateRate(&params, p.opt.SampleRate, dev.DefaultSampleRate, p.callback, fmt.Sprintf("output %q", dev.Name)); err != nil {
+	// The format is what matters here: the callback itself is C's.
+	if err := capture.NegotiateRate(&params, p.opt.SampleRate, dev.DefaultSampleRate, func([]float32) {}, fmt.Sprintf("output %q", dev.Name)); err != nil {
 		return err
 	}
 	p.rate = params.SampleRate
 	p.mix = drone.NewMixer(p.rate, drone.Linear(p.opt.Level))
-	if p.stream, err = portaudio.OpenStream(params, p.callback); err != nil {
+	if p.wake, err = capture.NewWakePipe(); err != nil {
+		return fmt.Errorf("output %q: %w", dev.Name, err)
+	}
+	block := framesPerBlock * p.channels
+	if p.ring, err = newOutRing(aheadBlocks*block, lowBlocks*block, p.channels, p.wake.W); err != nil {
+		p.wake.Close()
+		return fmt.Errorf("output %q: %w", dev.Name, err)
+	}
+	p.topUp(make([]float32, block)) // silence, rendered ahead, before the first callback
+	p.ring.started()
+	if p.stream, err = openOutputStream(p.ring, dev.Index, p.channels, params.Output.Latency.Seconds(), p.rate, framesPerBlock, int(params.Flags)); err != nil {
+		p.wake.Close()
 		return fmt.Errorf("output %q: %w", dev.Name, err)
 	}
 	if err := p.stream.Start(); err != nil {
 		p.stream.Close()
+		p.wake.Close()
 		return fmt.Errorf("output %q: start: %w", dev.Name, err)
 	}
+	p.rendered = make(chan struct{})
+	go p.renderAhead(block)
 	return nil
 }
 
-// callback runs on PortAudio's thread: it takes what the methods handed
-// over, mixes, and never blocks or allocates.
-func (p *Player) callback(out []float32) {
+// renderAhead keeps the ring topped up until everything has faded out
+// after Close asked for it, or the pipe is closed.
+func (p *Player) renderAhead(block int) {
+	defer close(p.rendered)
+	buf := make([]float32, block)
+	for !p.silent.Load() && !p.closed.Load() {
+		p.ring.waiting(true)
+		if p.ring.fill()+block <= len(p.ring.buf) {
+			p.ring.waiting(false)
+			p.topUp(buf)
+			continue
+		}
+		// A second's deadline: a device that stopped asking must not
+		// leave the renderer asleep for ever.
+		if err := p.wake.Wait(time.Now().Add(time.Second)); err != nil && !errors.Is(err, os.ErrDeadlineExceeded) {
+			return
+		}
+	}
+}
+
+// topUp renders blocks while the ring has room for them.
+func (p *Player) topUp(buf []float32) {
+	for p.ring.fill()+len(buf) <= len(p.ring.buf) && !p.silent.Load() {
+		p.render(buf)
+		p.ring.write(buf)
+	}
+}
+
+// render mixes the next block: it takes what the methods handed over and
+// never blocks or allocates.
+func (p *Player) render(out []float32) {
 	if v := p.droneIn.Swap(nil); v != nil && !p.stopped {
 		if p.drone != nil {
 			p.drone.Release()
@@ -265,6 +320,10 @@ func (p *Player) Fading() bool {
 	return false
 }
 
+// Underruns counts the audio callbacks that found too little rendered and
+// played silence (a click): zero unless the machine is overloaded.
+func (p *Player) Underruns() uint64 { return p.ring.underruns() }
+
 // Level is the output's peak ceiling in dBFS.
 func (p *Player) Level() float64 { return p.opt.Level }
 
@@ -280,15 +339,28 @@ func (p *Player) Device() capture.DeviceInfo { return p.device }
 func (p *Player) Close() error {
 	p.closing.Do(func() {
 		p.stopping.Store(true)
+		// The fade renders ahead within a block; then the ring, which
+		// holds its end, drains to the speaker.
 		deadline := time.Now().Add(p.opt.Fade + time.Second)
-		for !p.silent.Load() && time.Now().Before(deadline) {
+		for (!p.silent.Load() || p.ring.fill() > 0) && time.Now().Before(deadline) {
 			time.Sleep(5 * time.Millisecond)
 		}
 		// Stop, not abort: what is buffered is the end of the fade.
 		p.closeErr = capture.CloseStream(p.stream, false, p.release, fmt.Sprintf("output %q", p.device.Name))
+		p.closed.Store(true)
+		p.wake.Interrupt()
+		<-p.rendered
+		if p.closeErr == nil {
+			p.wake.Close()
+		} else {
+			leaked.Store(p.ring) // the audio thread may still read it
+		}
 	})
 	return p.closeErr
 }
+
+// leaked holds the ring of a stream that would not close.
+var leaked atomic.Pointer[outRing]
 
 // ErrNoDevice means no output device matched the request.
 var ErrNoDevice = errors.New("no such output device")

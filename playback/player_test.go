@@ -73,6 +73,9 @@ func TestPlayerDroneIsCancelledFromTheMicrophone(t *testing.T) {
 	}
 	time.Sleep(1500 * time.Millisecond)
 	cancel()
+	if u := p.Underruns(); u != 0 {
+		t.Errorf("%d output callbacks played silence for want of rendered sound", u)
+	}
 	if err := <-done; err != nil && !errors.Is(err, context.Canceled) {
 		t.Fatal(err)
 	}
