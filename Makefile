@@ -47,7 +47,7 @@ bench: deps
 	$(GO) test -run XXX -bench . -benchmem ./pitchdetect/
 	$(GO) run ./cmd/fifthbench
 	@scripts/vmic-start
-	$(GO) test -run XXX -bench 'ListenPlainLive|ListenMeterLive|DemoMeterInTmux' -benchtime 1x ./cmd/fifthline/
+	$(GO) test -run XXX -bench 'ListenPlainLive|ListenMeter|DemoMeterInTmux' -benchtime 1x ./cmd/fifthline/
 
 clean:
 	rm -rf bin

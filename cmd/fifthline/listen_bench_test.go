@@ -92,12 +92,26 @@ func benchTonesWAV(b *testing.B) string {
 // window, the way a player runs it.
 //
 //	go test -run XXX -bench ListenMeterLive ./cmd/fifthline/
-func BenchmarkListenMeterLive(b *testing.B) {
+func BenchmarkListenMeterLive(b *testing.B) { measureMeter(b, false) }
+
+// The same with the meter's drone sounding (the d key) into the virtual
+// microphone it listens to, so the canceller works throughout: a player
+// practising against a drone.
+//
+//	go test -run XXX -bench ListenMeterDroneLive ./cmd/fifthline/
+func BenchmarkListenMeterDroneLive(b *testing.B) { measureMeter(b, true) }
+
+func measureMeter(b *testing.B, withDrone bool) {
 	for range b.N {
-		_, env, play := privateMic(b)
+		sink, env, play := privateMic(b)
 		wav := benchTonesWAV(b)
-		m := startTmux(b, 80, 24, env, "listen")
+		m := startTmux(b, 80, 24, append(env, "PULSE_SINK="+sink), "listen")
 		m.waitFor(`input .*dB`)
+		if withDrone {
+			m.tmux("send-keys", "-t", "meter", "d")
+			m.waitFor(`drone: C\d at`)
+			time.Sleep(time.Second) // past its fade in
+		}
 		reportCost(b, meterPid(b, m), func() { play(wav) })
 		m.tmux("send-keys", "-t", "meter", "q")
 		m.exitStatus()
