@@ -1,8 +1,11 @@
 package capture
 
 import (
+	"errors"
+	"os"
 	"sync"
 	"testing"
+	"time"
 
 	"golang.org/x/sys/unix"
 )
@@ -150,5 +153,49 @@ func TestRingWakesOnlyAWaitingReader(t *testing.T) {
 	q.write(make([]float32, 10))
 	if n := pending(); n != 1 {
 		t.Errorf("%d wake-ups for a waiting reader and two writes, want 1", n)
+	}
+}
+
+// Interrupt ends a Wait in progress and every later one at once, whatever
+// deadline they set.
+func TestWakePipeInterruptEndsWaitsForGood(t *testing.T) {
+	p, err := NewWakePipe()
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer p.Close()
+	done := make(chan error)
+	go func() { done <- p.Wait(time.Now().Add(time.Minute)) }()
+	time.Sleep(50 * time.Millisecond)
+	p.Interrupt()
+	select {
+	case err := <-done:
+		if !errors.Is(err, os.ErrDeadlineExceeded) {
+			t.Errorf("interrupted Wait: %v", err)
+		}
+	case <-time.After(5 * time.Second):
+		t.Fatal("Wait went on after Interrupt")
+	}
+	start := time.Now()
+	if err := p.Wait(time.Now().Add(time.Minute)); !errors.Is(err, os.ErrDeadlineExceeded) || time.Since(start) > time.Second {
+		t.Errorf("a Wait after Interrupt: %v after %v", err, time.Since(start))
+	}
+}
+
+// A byte from the C side ends a Wait.
+func TestWakePipeWakesOnAByte(t *testing.T) {
+	p, err := NewWakePipe()
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer p.Close()
+	if _, err := unix.Write(p.W, []byte{1}); err != nil {
+		t.Fatal(err)
+	}
+	if err := p.Wait(time.Now().Add(5 * time.Second)); err != nil {
+		t.Errorf("Wait with a byte waiting: %v", err)
+	}
+	if err := p.Wait(time.Now().Add(20 * time.Millisecond)); !errors.Is(err, os.ErrDeadlineExceeded) {
+		t.Errorf("Wait with nothing waiting: %v, want the deadline", err)
 	}
 }

@@ -3,6 +3,7 @@ package capture
 import (
 	"fmt"
 	"os"
+	"sync/atomic"
 	"time"
 	"unsafe"
 
@@ -14,9 +15,10 @@ import (
 // Wait. Waiting takes no thread: the read end is non-blocking and sits in
 // Go's poller.
 type WakePipe struct {
-	r   *os.File
-	W   int // the write end, for the C side
-	buf []byte
+	r           *os.File
+	W           int // the write end, for the C side
+	buf         []byte
+	interrupted atomic.Bool
 }
 
 // NewWakePipe opens a pipe.
@@ -36,6 +38,9 @@ func NewWakePipe() (*WakePipe, error) {
 // sixth of listen's CPU).
 func (p *WakePipe) Wait(deadline time.Time) error {
 	_ = p.r.SetReadDeadline(deadline)
+	if p.interrupted.Load() { // after the deadline is set: see Interrupt
+		return os.ErrDeadlineExceeded
+	}
 	rc, err := p.r.SyscallConn()
 	if err != nil {
 		return err
@@ -47,8 +52,13 @@ func (p *WakePipe) Wait(deadline time.Time) error {
 	})
 }
 
-// Interrupt makes a Wait in progress (or the next) return at once.
-func (p *WakePipe) Interrupt() { _ = p.r.SetReadDeadline(time.Now()) }
+// Interrupt makes a Wait in progress, and every later one, return at once
+// with os.ErrDeadlineExceeded. A Wait that set its own deadline just after
+// this one's still sees the flag, set first.
+func (p *WakePipe) Interrupt() {
+	p.interrupted.Store(true)
+	_ = p.r.SetReadDeadline(time.Now())
+}
 
 // Close closes both ends; only once the C side can no longer write, so it
 // cannot write to a reused descriptor.
