@@ -83,6 +83,7 @@ type Player struct {
 	stopping       atomic.Bool
 	silent         atomic.Bool // everything has faded out after stopping
 	closed         atomic.Bool // the stream is closed: stop rendering
+	lost           atomic.Pointer[error]
 
 	// Renderer-only state.
 	mix        *drone.Mixer
@@ -181,12 +182,41 @@ func (p *Player) open() error {
 	return nil
 }
 
+// ErrOutputLost means the output stopped taking sound: unplugged, taken by
+// the system, or its sound server gone.
+var ErrOutputLost = errors.New("output device lost")
+
+// Output loss: the device asks for sound every few tens of milliseconds;
+// silence from it for outputStall (outputGrace at the start, while a sound
+// server wakes an idle device) means it has gone.
+const (
+	outputStall = 2 * time.Second
+	outputGrace = 5 * time.Second
+)
+
+// Lost reports ErrOutputLost, naming the device, once the output has
+// stopped asking for sound; nil while it plays.
+func (p *Player) Lost() error {
+	if e := p.lost.Load(); e != nil {
+		return *e
+	}
+	return nil
+}
+
 // renderAhead keeps the ring topped up until everything has faded out
-// after Close asked for it, or the pipe is closed.
+// after Close asked for it, or the pipe is closed; it notices the device
+// going away.
 func (p *Player) renderAhead(block int) {
 	defer close(p.rendered)
 	buf := make([]float32, block)
+	played, since, limit := p.ring.played(), time.Now(), outputGrace
 	for !p.silent.Load() && !p.closed.Load() {
+		if n := p.ring.played(); n != played {
+			played, since, limit = n, time.Now(), outputStall
+		} else if time.Since(since) > limit && p.lost.Load() == nil {
+			err := fmt.Errorf("%w: %q took no sound for %v", ErrOutputLost, p.device.Name, limit)
+			p.lost.Store(&err)
+		}
 		p.ring.waiting(true)
 		if p.ring.fill()+block <= len(p.ring.buf) {
 			p.ring.waiting(false)
@@ -342,11 +372,14 @@ func (p *Player) Close() error {
 		// The fade renders ahead within a block; then the ring, which
 		// holds its end, drains to the speaker.
 		deadline := time.Now().Add(p.opt.Fade + time.Second)
-		for (!p.silent.Load() || p.ring.fill() > 0) && time.Now().Before(deadline) {
+		drained := func() bool { return p.silent.Load() && p.ring.fill() == 0 }
+		for !drained() && p.Lost() == nil && time.Now().Before(deadline) {
 			time.Sleep(5 * time.Millisecond)
 		}
-		// Stop, not abort: what is buffered is the end of the fade.
-		p.closeErr = capture.CloseStream(p.stream, false, p.release, fmt.Sprintf("output %q", p.device.Name))
+		// Stop, not abort, when the fade is out: what the device buffers is
+		// its end. A device that stopped playing would never finish a stop.
+		abort := !drained() || p.Lost() != nil
+		p.closeErr = capture.CloseStream(p.stream, abort, p.release, fmt.Sprintf("output %q", p.device.Name))
 		p.closed.Store(true)
 		p.wake.Interrupt()
 		<-p.rendered

@@ -6,6 +6,7 @@ import (
 	"math"
 	"os/exec"
 	"path/filepath"
+	"strings"
 	"sync"
 	"testing"
 	"time"
@@ -129,5 +130,36 @@ func TestPlayerReportsWhatIsSounding(t *testing.T) {
 func TestPlayerRefusesTooLoud(t *testing.T) {
 	if _, err := playback.NewPlayer(playback.Options{Level: -3}); !errors.Is(err, playback.ErrTooLoud) {
 		t.Errorf("level -3 dBFS: %v, want ErrTooLoud", err)
+	}
+}
+
+// An output that stops taking sound (its sink suspended, as a device that
+// has gone away) is reported by Lost, naming it; Close still returns.
+func TestPlayerReportsLostOutput(t *testing.T) {
+	out := vmic.Isolate(t)
+	p, err := playback.NewPlayer(playback.Options{Timbre: drone.Pure, Level: -30})
+	if err != nil {
+		t.Fatal(err)
+	}
+	p.SetDrone([]float64{220})
+	time.Sleep(2500 * time.Millisecond)
+	if err := p.Lost(); err != nil {
+		t.Fatalf("while playing: %v", err)
+	}
+	out.Suspend()
+	deadline := time.Now().Add(6 * time.Second)
+	for p.Lost() == nil && time.Now().Before(deadline) {
+		time.Sleep(50 * time.Millisecond)
+	}
+	if err := p.Lost(); !errors.Is(err, playback.ErrOutputLost) || !strings.Contains(err.Error(), p.Device().Name) {
+		t.Errorf("after the sink was suspended: %v; want ErrOutputLost naming %q", err, p.Device().Name)
+	}
+	closed := make(chan error, 1)
+	go func() { closed <- p.Close() }()
+	select {
+	case err := <-closed:
+		t.Logf("Close after loss: %v", err) // an error is allowed, a hang is not
+	case <-time.After(10 * time.Second):
+		t.Fatal("Close hung after the output was lost")
 	}
 }

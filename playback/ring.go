@@ -42,6 +42,9 @@ func (q *outRing) fill() int {
 	return int(atomic.LoadInt64(i64(&q.c.w)) - atomic.LoadInt64(i64(&q.c.r)))
 }
 
+// played is how many samples the audio thread has taken so far.
+func (q *outRing) played() int64 { return atomic.LoadInt64(i64(&q.c.r)) }
+
 // write appends p, which must fit (len(p) ≤ capacity − fill).
 func (q *outRing) write(p []float32) {
 	w := atomic.LoadInt64(i64(&q.c.w))

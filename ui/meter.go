@@ -201,6 +201,9 @@ func (m *Meter) drain() {
 	}
 	if m.opt.Sound != nil {
 		m.model.Sounding = m.opt.Sound.Partials()
+		if err := m.opt.Sound.Lost(); err != nil && m.model.SoundError == "" {
+			m.model.SoundFailed(err)
+		}
 	}
 	m.model.Dropped = m.dropped.Load()
 	m.model.Finished = m.ended.Load()

@@ -21,6 +21,9 @@ type Sound interface {
 	Reference(hz float64) error
 	// Partials are the frequencies sounding now, nil while silent.
 	Partials() []float64
+	// Lost is why the output stopped playing (its device went away), or
+	// nil; the next SetDrone or Reference tries the device again.
+	Lost() error
 }
 
 // ReferenceSeconds is how long the reference key sounds a note's target.
@@ -124,7 +127,7 @@ func (m *Model) setDrone(s Sound, d Drone, say bool) {
 	}
 	hz := DroneHz(m.Tuning, d)
 	if err := s.SetDrone(hz); err != nil {
-		m.Drone, m.droneHz, m.SoundError = DroneOff, nil, err.Error()
+		m.SoundFailed(err)
 		m.Say("no sound: " + err.Error())
 		return
 	}
@@ -132,6 +135,12 @@ func (m *Model) setDrone(s Sound, d Drone, say bool) {
 	if say {
 		m.Say("drone " + DroneWords(m.Tuning, d))
 	}
+}
+
+// SoundFailed records that sound could not play, or stopped: the drone is
+// off and the status line says why until sound plays again.
+func (m *Model) SoundFailed(err error) {
+	m.Drone, m.droneHz, m.SoundError = DroneOff, nil, err.Error()
 }
 
 // SoundReference sounds the held (or last) note's target briefly on s.

@@ -52,6 +52,7 @@ func missingOutput(t *testing.T) noOutput {
 func (s noOutput) SetDrone([]float64) error { return s.err }
 func (s noOutput) Reference(float64) error  { return s.err }
 func (noOutput) Partials() []float64        { return nil }
+func (noOutput) Lost() error                { return nil }
 
 // The sound keys, pressed in turn on C major in ¼-comma meantone at
 // A4 = 415 Hz, with a real Player. From the definition (each fifth 5^(1/4),

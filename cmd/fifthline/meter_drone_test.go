@@ -126,3 +126,29 @@ func TestMeterSoundWithoutAnOutputAndAboveTheLimit(t *testing.T) {
 		}
 	}
 }
+
+// An output that goes away while the drone sounds (its private sink
+// suspended; the microphone is another sink and goes on) is reported on
+// the status line, and listening goes on.
+func TestMeterSaysWhenTheDroneOutputIsLost(t *testing.T) {
+	out, mic := vmic.Isolate(t), vmic.Isolate(t) // the later one is where vmic.Play plays
+	m := startTmux(t, 80, 24, []string{"PULSE_SINK=" + out.Sink, "PULSE_SOURCE=" + mic.Source}, "listen")
+	m.waitFor(`listening to default`, `drone: off`)
+	m.tmux("send-keys", "-t", "meter", "d")
+	m.waitFor(`drone: C3 at −18 dBFS`)
+	time.Sleep(time.Second)
+	out.Suspend()
+	deadline := time.Now().Add(8 * time.Second)
+	for !strings.Contains(m.screen(), "no sound: output device lost") {
+		if time.Now().After(deadline) {
+			t.Fatalf("no word of the lost output:\n%s", m.screen())
+		}
+		time.Sleep(100 * time.Millisecond)
+	}
+	vmic.Play(t, fadedTone(t, 440, -12))()
+	m.waitFor(`A4`)
+	m.tmux("send-keys", "-t", "meter", "q")
+	if code := m.exitStatus(); code != "0" {
+		t.Errorf("exit status %s", code)
+	}
+}

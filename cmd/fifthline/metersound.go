@@ -65,7 +65,13 @@ func (s *meterSound) get() (*playback.Player, error) {
 	s.open.Lock()
 	defer s.open.Unlock()
 	if p := s.player.Load(); p != nil {
-		return p, nil
+		if p.Lost() == nil {
+			return p, nil
+		}
+		// Its device went away: let it go (closing a lost stream aborts
+		// it) and try the device afresh.
+		s.player.Store(nil)
+		go func() { _ = p.Close() }()
 	}
 	p, err := playback.NewPlayer(s.opt)
 	if err != nil {
@@ -120,8 +126,16 @@ func (s *meterSound) ownNote(since time.Duration) bool {
 // Partials are what sounds now; nil before the device opens. It never
 // waits for the device to open: the listening goroutine calls it.
 func (s *meterSound) Partials() []float64 {
-	if p := s.player.Load(); p != nil {
+	if p := s.player.Load(); p != nil && p.Lost() == nil {
 		return p.Partials()
+	}
+	return nil
+}
+
+// Lost is why the open player's output stopped, or nil.
+func (s *meterSound) Lost() error {
+	if p := s.player.Load(); p != nil {
+		return p.Lost()
 	}
 	return nil
 }
