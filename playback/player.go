@@ -3,7 +3,6 @@ package playback
 import (
 	"errors"
 	"fmt"
-	"os"
 	"slices"
 	"strconv"
 	"strings"
@@ -182,90 +181,6 @@ func (p *Player) open() error {
 	return nil
 }
 
-// ErrOutputLost means the output stopped taking sound: unplugged, taken by
-// the system, or its sound server gone.
-var ErrOutputLost = errors.New("output device lost")
-
-// Output loss: the device asks for sound every few tens of milliseconds;
-// silence from it for outputStall (outputGrace at the start, while a sound
-// server wakes an idle device) means it has gone.
-const (
-	outputStall = 2 * time.Second
-	outputGrace = 5 * time.Second
-)
-
-// Lost reports ErrOutputLost, naming the device, once the output has
-// stopped asking for sound; nil while it plays.
-func (p *Player) Lost() error {
-	if e := p.lost.Load(); e != nil {
-		return *e
-	}
-	return nil
-}
-
-// renderAhead keeps the ring topped up until everything has faded out
-// after Close asked for it, or the pipe is closed; it notices the device
-// going away.
-func (p *Player) renderAhead(block int) {
-	defer close(p.rendered)
-	buf := make([]float32, block)
-	played, since, limit := p.ring.played(), time.Now(), outputGrace
-	for !p.silent.Load() && !p.closed.Load() {
-		if n := p.ring.played(); n != played {
-			played, since, limit = n, time.Now(), outputStall
-		} else if time.Since(since) > limit && p.lost.Load() == nil {
-			err := fmt.Errorf("%w: %q took no sound for %v", ErrOutputLost, p.device.Name, limit)
-			p.lost.Store(&err)
-		}
-		p.ring.waiting(true)
-		if p.ring.fill()+block <= len(p.ring.buf) {
-			p.ring.waiting(false)
-			p.topUp(buf)
-			continue
-		}
-		// A second's deadline: a device that stopped asking must not
-		// leave the renderer asleep for ever.
-		if err := p.wake.Wait(time.Now().Add(time.Second)); err != nil && !errors.Is(err, os.ErrDeadlineExceeded) {
-			return
-		}
-	}
-}
-
-// topUp renders blocks while the ring has room for them.
-func (p *Player) topUp(buf []float32) {
-	for p.ring.fill()+len(buf) <= len(p.ring.buf) && !p.silent.Load() {
-		p.render(buf)
-		p.ring.write(buf)
-	}
-}
-
-// render mixes the next block: it takes what the methods handed over and
-// never blocks or allocates.
-func (p *Player) render(out []float32) {
-	if v := p.droneIn.Swap(nil); v != nil && !p.stopped {
-		if p.drone != nil {
-			p.drone.Release()
-		}
-		p.drone = v
-		p.mix.Add(v)
-	}
-	if v := p.refIn.Swap(nil); v != nil && !p.stopped {
-		if p.ref != nil {
-			p.ref.Release()
-		}
-		p.ref = v
-		p.mix.Add(v)
-	}
-	if p.stopping.Load() && !p.stopped {
-		p.stopped = true
-		p.mix.ReleaseAll()
-	}
-	p.mix.Render(out, p.channels)
-	if p.stopped && p.mix.Silent() {
-		p.silent.Store(true)
-	}
-}
-
 // SetDrone fades the present drone out and a drone on the given
 // fundamentals (hertz: a tonic, and perhaps its fifth) in; none fades the
 // drone out.
@@ -349,10 +264,6 @@ func (p *Player) Fading() bool {
 	}
 	return false
 }
-
-// Underruns counts the audio callbacks that found too little rendered and
-// played silence (a click): zero unless the machine is overloaded.
-func (p *Player) Underruns() uint64 { return p.ring.underruns() }
 
 // Level is the output's peak ceiling in dBFS.
 func (p *Player) Level() float64 { return p.opt.Level }

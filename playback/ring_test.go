@@ -2,26 +2,22 @@ package playback
 
 import (
 	"testing"
+	"time"
 
-	"golang.org/x/sys/unix"
+	"fifthline/capture"
 )
 
 // The audio thread's work on one callback: the next samples in order,
 // silence (counted once started) when the renderer fell short, and a
 // wake-up for a waiting renderer only once fewer than the low mark wait.
 func TestOutRingPlaysInOrderPadsWithSilenceAndWakesBelowLow(t *testing.T) {
-	var fds [2]int
-	if err := unix.Pipe2(fds[:], unix.O_NONBLOCK); err != nil {
+	wake, err := capture.NewWakePipe()
+	if err != nil {
 		t.Fatal(err)
 	}
-	defer unix.Close(fds[0])
-	defer unix.Close(fds[1])
-	wakeUps := func() int {
-		b := make([]byte, 16)
-		n, _ := unix.Read(fds[0], b)
-		return max(n, 0)
-	}
-	q, err := newOutRing(8, 2, 2, fds[1]) // 4 stereo frames; wake below 1
+	defer wake.Close()
+	woken := func() bool { return wake.Wait(time.Now().Add(20*time.Millisecond)) == nil }
+	q, err := newOutRing(8, 2, 2, wake.W) // 4 stereo frames; wake below 1
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -30,19 +26,19 @@ func TestOutRingPlaysInOrderPadsWithSilenceAndWakesBelowLow(t *testing.T) {
 	q.waiting(true)
 	out := make([]float32, 4)
 	q.take(out, 2)
-	if out[0] != 1 || out[3] != 4 || q.fill() != 4 || wakeUps() != 0 {
+	if out[0] != 1 || out[3] != 4 || q.fill() != 4 || woken() {
 		t.Fatalf("first callback played %v, %d left, or woke the renderer too early", out, q.fill())
 	}
 	q.take(out, 1) // one frame left: not below the low mark yet
-	if wakeUps() != 0 {
+	if woken() {
 		t.Error("woke the renderer with the low mark still waiting")
 	}
 	q.take(out, 2) // the last frame, then short by one
 	if out[0] != 7 || out[1] != 8 || out[2] != 0 || out[3] != 0 {
 		t.Errorf("short callback played %v, want the last frame then silence", out)
 	}
-	if n := wakeUps(); n != 1 {
-		t.Errorf("%d wake-ups below the low mark, want 1", n)
+	if !woken() {
+		t.Error("no wake-up below the low mark")
 	}
 	if u := q.underruns(); u != 1 {
 		t.Errorf("%d underruns, want 1", u)
