@@ -26,7 +26,7 @@ const (
 	releaseTime   = 0.06  // seconds of fade out
 	vibratoOnset  = 0.3   // seconds for vibrato to reach full depth, as players do
 	maxPeak       = 0.5   // -6.02 dBFS: the ceiling on every sample
-	pacedBlockSec = 0.010 // a paced Read returns no less than this much audio, as a device does
+	pacedBlockSec = 0.020 // a paced Read returns no less than this much audio, as a device does (PulseAudio: 21–43 ms)
 )
 
 // voiceScale makes the loudest possible sum (every partial and the noise

@@ -199,8 +199,8 @@ func TestPerformancePacesToTheWallClock(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		if n < 80 && len(got) < 2400 {
-			t.Errorf("paced Read returned %d samples; want at least 10 ms (80)", n)
+		if least := int(pacedBlockSec * 8000); n < least && len(got) < 2400 {
+			t.Errorf("paced Read returned %d samples; want at least %g s (%d)", n, pacedBlockSec, least)
 		}
 		if ahead := float64(len(got))/8000 - time.Since(start).Seconds(); ahead > 0.001 {
 			t.Fatalf("%.3f s of audio delivered ahead of the clock", ahead)
