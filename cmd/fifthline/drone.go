@@ -60,11 +60,22 @@ func runDrone(e *env, args []string) error {
 	if *duration > 0 {
 		timeout = time.After(*duration)
 	}
-	select {
-	case <-e.ctx.Done():
-	case <-timeout:
+	// The device going away ends the drone with a one-line error.
+	check := time.NewTicker(250 * time.Millisecond)
+	defer check.Stop()
+	for {
+		select {
+		case <-e.ctx.Done():
+			return p.Close() // fades out before it stops
+		case <-timeout:
+			return p.Close()
+		case <-check.C:
+			if lost := p.Lost(); lost != nil {
+				_ = p.Close()
+				return lost
+			}
+		}
 	}
-	return p.Close() // fades out before it stops
 }
 
 // droneTargets reads --notes and finds each note's target in the tuning.

@@ -196,3 +196,33 @@ func peakHz(x []float32, rate, guess float64) float64 {
 	}
 	return (lo + hi) / 2
 }
+
+// An output that goes away mid-drone (its private sink suspended) ends the
+// command with one line naming the loss, exit 1, instead of playing on into
+// nothing.
+func TestDroneEndsWhenTheOutputIsLost(t *testing.T) {
+	out := vmic.Isolate(t)
+	cmd := exec.Command(fifthlineBinary(t), "drone", "--duration", "60s", "--notes", "A3")
+	var stderr bytes.Buffer
+	cmd.Stderr = &stderr
+	if err := cmd.Start(); err != nil {
+		t.Fatal(err)
+	}
+	time.Sleep(1500 * time.Millisecond)
+	out.Suspend()
+	suspended := time.Now()
+	done := make(chan error, 1)
+	go func() { done <- cmd.Wait() }()
+	select {
+	case <-done:
+	case <-time.After(15 * time.Second):
+		_ = cmd.Process.Kill()
+		t.Fatalf("the drone played on 15 s after its output went away:\n%s", stderr.String())
+	}
+	t.Logf("ended %v after the suspend: %s", time.Since(suspended).Round(time.Millisecond), stderr.String())
+	lines := strings.Split(strings.TrimRight(stderr.String(), "\n"), "\n")
+	last := lines[len(lines)-1]
+	if code := cmd.ProcessState.ExitCode(); code != 1 || !strings.HasPrefix(last, "fifthline: ") || !strings.Contains(last, "output device lost") {
+		t.Errorf("exit %d, last line %q; want exit 1 and a line naming the lost output", code, last)
+	}
+}
