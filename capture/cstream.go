@@ -9,10 +9,12 @@ import "C"
 import (
 	"errors"
 	"unsafe"
+
+	"github.com/gordonklaus/portaudio"
 )
 
-// CStream is a PortAudio stream opened by C code whose callback is C too
-// (the input's ring.c, playback's output ring). It has the binding's Start,
+// CStream is a PortAudio stream whose callback is C (ring.c), for an Input
+// or an OutputRing. It has the binding's Start,
 // Stop, Abort and Close, so CloseStream ends it like any other stream.
 type CStream struct {
 	s unsafe.Pointer // *PaStream
@@ -40,15 +42,17 @@ func PaError(code int) error {
 	return errors.New(C.GoString(C.Pa_GetErrorText(C.PaError(code))))
 }
 
-func openInputStream(p inputParams, q *ring) (*CStream, error) {
+// openStream opens p's input (or, if it has none, its output) on q with
+// the C callback for that direction.
+func openStream(p portaudio.StreamParameters, q *ring) (*CStream, error) {
 	var s unsafe.Pointer
-	e := C.fl_open_input(&s, q.c, C.int(p.device), C.int(p.channels), C.double(p.latency), C.double(p.rate), C.ulong(p.frames), C.ulong(p.flags))
+	var e C.PaError
+	rate, frames, flags := C.double(p.SampleRate), C.ulong(p.FramesPerBuffer), C.ulong(p.Flags)
+	if d := p.Input; d.Device != nil {
+		e = C.fl_open_input(&s, q.c, C.int(d.Device.Index), C.int(d.Channels), C.double(d.Latency.Seconds()), rate, frames, flags)
+	} else {
+		d := p.Output
+		e = C.fl_open_output(&s, q.c, C.int(d.Device.Index), C.int(d.Channels), C.double(d.Latency.Seconds()), rate, frames, flags)
+	}
 	return WrapCStream(s, int(e))
-}
-
-// inputParams are the binding's negotiated stream parameters, for C.
-type inputParams struct {
-	device, channels int
-	latency, rate    float64
-	frames, flags    int
 }

@@ -126,9 +126,7 @@ func openInput(opts InputOptions) (*Input, error) {
 		if err := in.openRing(max(2*framesPerBlock, int(in.rate*orDefault(opts.Buffer, 2*time.Second).Seconds()))); err != nil {
 			return fmt.Errorf("input %q: %w", dev.Name, err)
 		}
-		in.stream, err = openInputStream(inputParams{device: p.Input.Device.Index, channels: p.Input.Channels,
-			latency: p.Input.Latency.Seconds(), rate: p.SampleRate, frames: p.FramesPerBuffer, flags: int(p.Flags)}, in.ring)
-		if err != nil {
+		if in.stream, err = openStream(p, in.ring); err != nil {
 			in.wake.Close()
 			return fmt.Errorf("input %q: %w", dev.Name, err)
 		}
@@ -238,7 +236,7 @@ func (in *Input) Read(p []float32) (int, error) {
 			return n, nil
 		}
 		limit := in.stall
-		if in.ring.stats().Blocks == 0 {
+		if in.ring.blocks() == 0 {
 			limit = max(limit, startGrace)
 		}
 		deadline := time.Unix(0, in.ring.lastBlock()).Add(limit)

@@ -8,7 +8,7 @@
 // whole or dropped whole, never torn.
 enum { block = 512 };
 
-fl_ring *fl_ring_new(int64_t cap, int channels, int channel, int fd, float clip) {
+fl_ring *fl_ring_new(int64_t cap, int channels, int fd) {
 	fl_ring *q = calloc(1, sizeof *q);
 	if (!q) return NULL;
 	q->buf = calloc((size_t)cap, sizeof(float));
@@ -18,9 +18,7 @@ fl_ring *fl_ring_new(int64_t cap, int channels, int channel, int fd, float clip)
 	}
 	q->cap = cap;
 	q->channels = channels;
-	q->channel = channel;
 	q->fd = fd;
-	q->clip = clip;
 	return q;
 }
 
@@ -29,7 +27,8 @@ void fl_ring_free(fl_ring *q) {
 	free(q);
 }
 
-// wake tells a reader that is waiting (and only then) that samples came.
+// wake tells the goroutine, if it is waiting (and only then), that there
+// are samples to read or room to write.
 static void wake(fl_ring *q) {
 	if (q->fd >= 0 && __atomic_exchange_n(&q->waiting, 0, __ATOMIC_SEQ_CST)) {
 		char c = 1;
@@ -87,7 +86,24 @@ void fl_ring_deliver(fl_ring *q, const float *in, unsigned long frames, int over
 	wake(q);
 }
 
-static int callback(const void *in, void *out, unsigned long frames,
+// fl_ring_take is the output callback's work: the next frames from the
+// ring, and silence for whatever the writer has not rendered yet.
+void fl_ring_take(fl_ring *q, float *out, unsigned long frames) {
+	int64_t need = (int64_t)frames * q->channels;
+	int64_t r = __atomic_load_n(&q->r, __ATOMIC_RELAXED);
+	int64_t w = __atomic_load_n(&q->w, __ATOMIC_ACQUIRE);
+	int64_t n = w - r < need ? w - r : need;
+	for (int64_t i = 0; i < n; i++) out[i] = q->buf[(r + i) % q->cap];
+	if (n < need) {
+		memset(out + n, 0, (size_t)(need - n) * sizeof(float));
+		if (__atomic_load_n(&q->started, __ATOMIC_RELAXED))
+			__atomic_add_fetch(&q->underruns, 1, __ATOMIC_RELAXED);
+	}
+	__atomic_store_n(&q->r, r + n, __ATOMIC_SEQ_CST);
+	if (w - r - n < q->low) wake(q);
+}
+
+static int input_callback(const void *in, void *out, unsigned long frames,
 	const PaStreamCallbackTimeInfo *t, PaStreamCallbackFlags flags, void *user) {
 	(void)out;
 	(void)t;
@@ -95,7 +111,16 @@ static int callback(const void *in, void *out, unsigned long frames,
 	return paContinue;
 }
 
-PaError fl_open_input(PaStream **s, fl_ring *q, int device, int channels,
+static int output_callback(const void *in, void *out, unsigned long frames,
+	const PaStreamCallbackTimeInfo *t, PaStreamCallbackFlags flags, void *user) {
+	(void)in;
+	(void)t;
+	(void)flags;
+	fl_ring_take(user, out, frames);
+	return paContinue;
+}
+
+static PaError open_stream(PaStream **s, fl_ring *q, int input, int device, int channels,
 	double latency, double rate, unsigned long frames, unsigned long flags) {
 	PaStreamParameters p;
 	memset(&p, 0, sizeof p);
@@ -103,5 +128,16 @@ PaError fl_open_input(PaStream **s, fl_ring *q, int device, int channels,
 	p.channelCount = channels;
 	p.sampleFormat = paFloat32;
 	p.suggestedLatency = latency;
-	return Pa_OpenStream(s, &p, NULL, rate, frames, flags, callback, q);
+	if (input) return Pa_OpenStream(s, &p, NULL, rate, frames, flags, input_callback, q);
+	return Pa_OpenStream(s, NULL, &p, rate, frames, flags, output_callback, q);
+}
+
+PaError fl_open_input(PaStream **s, fl_ring *q, int device, int channels,
+	double latency, double rate, unsigned long frames, unsigned long flags) {
+	return open_stream(s, q, 1, device, channels, latency, rate, frames, flags);
+}
+
+PaError fl_open_output(PaStream **s, fl_ring *q, int device, int channels,
+	double latency, double rate, unsigned long frames, unsigned long flags) {
+	return open_stream(s, q, 0, device, channels, latency, rate, frames, flags);
 }

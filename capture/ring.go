@@ -14,9 +14,10 @@ import (
 	"unsafe"
 )
 
-// ring hands samples from PortAudio's audio thread (the only writer, in C:
-// see ring.h for why) to the reading goroutine (the only reader) without
-// locks, so the audio thread never waits. Its memory is C's and is freed
+// ring hands samples between PortAudio's audio thread (in C: see ring.h for
+// why) and one goroutine without locks, so the audio thread never waits:
+// for an input the audio thread writes and the goroutine reads; for an
+// output (OutputRing) the other way round. Its memory is C's and is freed
 // when the ring is no longer reachable, so no reader can outlive it.
 type ring struct {
 	c   *C.fl_ring
@@ -27,9 +28,20 @@ type ring struct {
 // (counted from 0) of callbacks' interleaved frames; a writer wakes a
 // waiting reader through the pipe fd (-1: none).
 func newRing(capacity, channels, channel, fd int) (*ring, error) {
-	c := C.fl_ring_new(C.int64_t(capacity), C.int(channels), C.int(channel), C.int(fd), C.float(ClipLevel))
+	q, err := allocRing(capacity, channels, fd)
+	if err != nil {
+		return nil, err
+	}
+	q.c.channel, q.c.clip = C.int32_t(channel), C.float(ClipLevel)
+	return q, nil
+}
+
+// allocRing makes a ring of capacity samples in C memory, freed once the
+// ring is unreachable, for callbacks of channels interleaved channels.
+func allocRing(capacity, channels, fd int) (*ring, error) {
+	c := C.fl_ring_new(C.int64_t(capacity), C.int(channels), C.int(fd))
 	if c == nil {
-		return nil, errors.New("no memory for the input buffer")
+		return nil, errors.New("no memory for the audio buffer")
 	}
 	q := &ring{c: c, buf: unsafe.Slice((*float32)(unsafe.Pointer(c.buf)), capacity)}
 	runtime.AddCleanup(q, func(c *C.fl_ring) { C.fl_ring_free(c) }, c)
@@ -58,8 +70,9 @@ func (q *ring) read(p []float32) int {
 	return n
 }
 
-// waiting tells writers that the reader will sleep on the pipe unless it
-// finds samples first; a writer clears it when it sends the wake-up.
+// waiting tells the audio thread that the goroutine will sleep on the pipe
+// unless it finds samples (or room) first; the audio thread clears it when
+// it sends the wake-up.
 func (q *ring) waiting(on bool) {
 	v := int32(0)
 	if on {
@@ -82,6 +95,9 @@ func (q *ring) stats() InputStats {
 		Clipped:        u(&q.c.clipped),
 	}
 }
+
+// blocks is how many callbacks have delivered.
+func (q *ring) blocks() uint64 { return atomic.LoadUint64((*uint64)(unsafe.Pointer(&q.c.blocks))) }
 
 // lastBlock is when the writer last delivered, in Unix nanoseconds.
 func (q *ring) lastBlock() int64 { return atomic.LoadInt64(q.counter(&q.c.last_ns)) }

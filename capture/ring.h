@@ -1,7 +1,9 @@
-// The input ring lives in C so that PortAudio's audio thread never enters
+// The audio rings live in C so that PortAudio's audio thread never enters
 // the Go runtime: a Go callback would leave a scheduler slot parked in a
 // system call between blocks, which keeps Go's monitor thread waking every
-// few microseconds (measured: a third of the live path's CPU).
+// few microseconds (measured: a quarter of the live path's CPU). One ring
+// serves both directions: the input's callback writes it and a goroutine
+// reads; the output's callback reads it and a goroutine writes.
 #ifndef FIFTHLINE_RING_H
 #define FIFTHLINE_RING_H
 
@@ -10,23 +12,32 @@
 
 typedef struct {
 	float *buf;
-	int64_t cap;
+	int64_t cap;         // samples
 	int64_t w, r;        // samples written and read; they only grow
-	int32_t waiting;     // the reader is about to sleep on the pipe
-	int32_t channels;    // interleaved channels in a callback's buffer
-	int32_t channel;     // the one kept, from 0
+	int32_t waiting;     // the goroutine is about to sleep on the pipe
 	int32_t fd;          // the pipe's write end (non-blocking), or -1
+	int32_t channels;    // interleaved channels in a callback's buffer
+	// Input: the channel kept (from 0), clipping, and what came.
+	int32_t channel;
 	uint32_t peak_bits;  // largest magnitude so far, as float bits
 	float clip;          // magnitude counted as clipping
 	uint64_t blocks, overflows, dropped, dropped_samples, clipped;
 	int64_t last_ns;     // CLOCK_REALTIME of the last callback
+	// Output: wake the writer when fewer than low samples wait; count
+	// callbacks that found too little once it has filled the ring.
+	int64_t low;
+	int32_t started;
+	uint64_t underruns;
 } fl_ring;
 
-fl_ring *fl_ring_new(int64_t cap, int channels, int channel, int fd, float clip);
+fl_ring *fl_ring_new(int64_t cap, int channels, int fd);
 void fl_ring_free(fl_ring *q);
 int fl_ring_write(fl_ring *q, const float *p, int64_t n);
 void fl_ring_deliver(fl_ring *q, const float *in, unsigned long frames, int overflow);
+void fl_ring_take(fl_ring *q, float *out, unsigned long frames);
 PaError fl_open_input(PaStream **s, fl_ring *q, int device, int channels,
+	double latency, double rate, unsigned long frames, unsigned long flags);
+PaError fl_open_output(PaStream **s, fl_ring *q, int device, int channels,
 	double latency, double rate, unsigned long frames, unsigned long flags);
 
 #endif

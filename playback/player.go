@@ -72,7 +72,7 @@ type Player struct {
 	device   capture.DeviceInfo
 	stream   *capture.CStream
 	release  func()
-	ring     *outRing
+	ring     *capture.OutputRing
 	wake     *capture.WakePipe // the audio thread wakes the renderer through it
 	rendered chan struct{}     // closed when the renderer has stopped
 
@@ -161,13 +161,13 @@ func (p *Player) open() error {
 		return fmt.Errorf("output %q: %w", dev.Name, err)
 	}
 	block := framesPerBlock * p.channels
-	if p.ring, err = newOutRing(aheadBlocks*block, lowBlocks*block, p.channels, p.wake.W); err != nil {
+	if p.ring, err = capture.NewOutputRing(aheadBlocks*block, lowBlocks*block, p.channels, p.wake); err != nil {
 		p.wake.Close()
 		return fmt.Errorf("output %q: %w", dev.Name, err)
 	}
 	p.topUp(make([]float32, block)) // silence, rendered ahead, before the first callback
-	p.ring.started()
-	if p.stream, err = openOutputStream(p.ring, dev.Index, p.channels, params.Output.Latency.Seconds(), p.rate, framesPerBlock, int(params.Flags)); err != nil {
+	p.ring.Started()
+	if p.stream, err = capture.OpenOutputStream(params, p.ring); err != nil {
 		p.wake.Close()
 		return fmt.Errorf("output %q: %w", dev.Name, err)
 	}
@@ -283,7 +283,7 @@ func (p *Player) Close() error {
 		// The fade renders ahead within a block; then the ring, which
 		// holds its end, drains to the speaker.
 		deadline := time.Now().Add(p.opt.Fade + time.Second)
-		drained := func() bool { return p.silent.Load() && p.ring.fill() == 0 }
+		drained := func() bool { return p.silent.Load() && p.ring.Fill() == 0 }
 		for !drained() && p.Lost() == nil && time.Now().Before(deadline) {
 			time.Sleep(5 * time.Millisecond)
 		}
@@ -304,7 +304,7 @@ func (p *Player) Close() error {
 }
 
 // leaked holds the ring of a stream that would not close.
-var leaked atomic.Pointer[outRing]
+var leaked atomic.Pointer[capture.OutputRing]
 
 // ErrNoDevice means no output device matched the request.
 var ErrNoDevice = errors.New("no such output device")

@@ -7,7 +7,7 @@ import (
 	"time"
 )
 
-// The renderer: a goroutine that keeps the output ring (ring.go) topped up
+// The renderer: a goroutine that keeps the output ring (capture.OutputRing) topped up
 // with the mixer's sound, and notices when the device stops taking it.
 
 // ErrOutputLost means the output stopped taking sound: unplugged, taken by
@@ -37,17 +37,17 @@ func (p *Player) Lost() error {
 func (p *Player) renderAhead(block int) {
 	defer close(p.rendered)
 	buf := make([]float32, block)
-	played, since, limit := p.ring.played(), time.Now(), outputGrace
+	played, since, limit := p.ring.Played(), time.Now(), outputGrace
 	for !p.silent.Load() && !p.closed.Load() {
-		if n := p.ring.played(); n != played {
+		if n := p.ring.Played(); n != played {
 			played, since, limit = n, time.Now(), outputStall
 		} else if time.Since(since) > limit && p.lost.Load() == nil {
 			err := fmt.Errorf("%w: %q took no sound for %v", ErrOutputLost, p.device.Name, limit)
 			p.lost.Store(&err)
 		}
-		p.ring.waiting(true)
-		if p.ring.fill()+block <= len(p.ring.buf) {
-			p.ring.waiting(false)
+		p.ring.Waiting(true)
+		if p.ring.Fill()+block <= p.ring.Cap() {
+			p.ring.Waiting(false)
 			p.topUp(buf)
 			continue
 		}
@@ -61,9 +61,9 @@ func (p *Player) renderAhead(block int) {
 
 // topUp renders blocks while the ring has room for them.
 func (p *Player) topUp(buf []float32) {
-	for p.ring.fill()+len(buf) <= len(p.ring.buf) && !p.silent.Load() {
+	for p.ring.Fill()+len(buf) <= p.ring.Cap() && !p.silent.Load() {
 		p.render(buf)
-		p.ring.write(buf)
+		p.ring.Write(buf)
 	}
 }
 
@@ -96,4 +96,4 @@ func (p *Player) render(out []float32) {
 
 // Underruns counts the audio callbacks that found too little rendered and
 // played silence (a click): zero unless the machine is overloaded.
-func (p *Player) Underruns() uint64 { return p.ring.underruns() }
+func (p *Player) Underruns() uint64 { return p.ring.Underruns() }

@@ -49,15 +49,8 @@ func measureListen(b *testing.B) {
 		b.Fatal(err)
 	}
 	defer func() { _ = cmd.Process.Kill(); _ = cmd.Wait() }()
-	// Wait for the stream to deliver: the timing log's first frame.
-	for deadline := time.Now().Add(10 * time.Second); ; time.Sleep(20 * time.Millisecond) {
-		if data, _ := os.ReadFile(timing); strings.Count(string(data), "\n") > 3 {
-			break
-		}
-		if time.Now().After(deadline) {
-			b.Fatal("listen delivered no frames")
-		}
-	}
+	// Wait for the stream to deliver: the timing log's first frames.
+	waitForTiming(b, timing, "\n", 3, "listen delivered no frames")
 	started := time.Now()
 	reportCost(b, cmd.Process.Pid, func() { play(wav) })
 	_ = cmd.Process.Signal(os.Interrupt)

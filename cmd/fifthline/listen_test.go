@@ -245,14 +245,7 @@ func TestListenInterruptKeepsTheNoteBeingHeld(t *testing.T) {
 	defer func() { _ = player.Process.Kill(); _ = player.Wait() }()
 	// Interrupt once the note has been held a while (the frame log says
 	// voiced and holding), well before the tone ends.
-	for deadline := time.Now().Add(10 * time.Second); ; time.Sleep(20 * time.Millisecond) {
-		if data, _ := os.ReadFile(timing); strings.Count(string(data), ",true,true,") > 30 {
-			break
-		}
-		if time.Now().After(deadline) {
-			t.Fatal("the tone was never heard")
-		}
-	}
+	waitForTiming(t, timing, ",true,true,", 30, "the tone was never heard")
 	if err := proc.Signal(os.Interrupt); err != nil {
 		t.Fatal(err)
 	}
@@ -262,6 +255,20 @@ func TestListenInterruptKeepsTheNoteBeingHeld(t *testing.T) {
 	}
 	if _, rows := readCSV(t, out); len(rows) != 1 || rows[0]["note"] != "F#4" {
 		t.Errorf("the note held at the interrupt is not written:\n%s", out)
+	}
+}
+
+// waitForTiming waits (up to 10 s) until the FIFTHLINE_TIMING log at path
+// holds more than n occurrences of what, else fails with why.
+func waitForTiming(t testing.TB, path, what string, n int, why string) {
+	t.Helper()
+	for deadline := time.Now().Add(10 * time.Second); ; time.Sleep(20 * time.Millisecond) {
+		if data, _ := os.ReadFile(path); strings.Count(string(data), what) > n {
+			return
+		}
+		if time.Now().After(deadline) {
+			t.Fatal(why)
+		}
 	}
 }
 

@@ -1,33 +1,31 @@
-package playback
+package capture
 
 import (
 	"testing"
 	"time"
-
-	"fifthline/capture"
 )
 
 // The audio thread's work on one callback: the next samples in order,
 // silence (counted once started) when the renderer fell short, and a
 // wake-up for a waiting renderer only once fewer than the low mark wait.
 func TestOutRingPlaysInOrderPadsWithSilenceAndWakesBelowLow(t *testing.T) {
-	wake, err := capture.NewWakePipe()
+	wake, err := NewWakePipe()
 	if err != nil {
 		t.Fatal(err)
 	}
 	defer wake.Close()
 	woken := func() bool { return wake.Wait(time.Now().Add(20*time.Millisecond)) == nil }
-	q, err := newOutRing(8, 2, 2, wake.W) // 4 stereo frames; wake below 1
+	q, err := NewOutputRing(8, 2, 2, wake) // 4 stereo frames; wake below 1
 	if err != nil {
 		t.Fatal(err)
 	}
-	q.write([]float32{1, 2, 3, 4, 5, 6, 7, 8})
-	q.started()
-	q.waiting(true)
+	q.Write([]float32{1, 2, 3, 4, 5, 6, 7, 8})
+	q.Started()
+	q.Waiting(true)
 	out := make([]float32, 4)
 	q.take(out, 2)
-	if out[0] != 1 || out[3] != 4 || q.fill() != 4 || woken() {
-		t.Fatalf("first callback played %v, %d left, or woke the renderer too early", out, q.fill())
+	if out[0] != 1 || out[3] != 4 || q.Fill() != 4 || woken() {
+		t.Fatalf("first callback played %v, %d left, or woke the renderer too early", out, q.Fill())
 	}
 	q.take(out, 1) // one frame left: not below the low mark yet
 	if woken() {
@@ -40,7 +38,7 @@ func TestOutRingPlaysInOrderPadsWithSilenceAndWakesBelowLow(t *testing.T) {
 	if !woken() {
 		t.Error("no wake-up below the low mark")
 	}
-	if u := q.underruns(); u != 1 {
+	if u := q.Underruns(); u != 1 {
 		t.Errorf("%d underruns, want 1", u)
 	}
 }
