@@ -105,7 +105,7 @@ func TestInputHearsToneFromVirtualMicrophone(t *testing.T) {
 				t.Errorf("heard %.2f Hz, want %v Hz", hz, c.hz)
 			}
 			st := in.Stats()
-			// vol 0.25 is -12.04 dBFS; 16-bit and resampling change it by far less than 0.5 dB.
+			// vol 0.25 is 20·log10(0.25) = -12.04 dBFS (definition of dBFS); 16-bit and resampling change it by far less than 0.5 dB.
 			if math.Abs(st.PeakDBFS()+12.04) > 0.5 || st.Clipped != 0 {
 				t.Errorf("peak %.2f dBFS with %d clipped, want -12.04 and none", st.PeakDBFS(), st.Clipped)
 			}

@@ -37,8 +37,10 @@ func TestClassifySeesTheOtherSpelling(t *testing.T) {
 	}
 }
 
-// In equal temperament and the well temperaments both spellings are one pitch,
-// and the reading says so rather than invent a difference.
+// In equal temperament and the well temperaments both spellings are one pitch
+// (twelve notes to the octave, one per key: their definition, common
+// practice), and the reading says so rather than invent a difference. 370 Hz
+// is a shade above equal-tempered F♯4, 369.994 Hz at A4 = 440 Hz (ISO 16).
 func TestClassifySaysWhenSpellingsShareAPitch(t *testing.T) {
 	for _, spec := range []string{"equal", "werckmeister3", "vallotti", "edo:12"} {
 		tu := tuning(t, "C major", spec, 440)
@@ -111,7 +113,8 @@ func TestAnchorTonic(t *testing.T) {
 	tu := tuning(t, "C major", "meantone:1/4", 440)
 	tu.Anchor = AnchorTonic
 	near(t, "C4 Hz", tu.Target(note(t, "C4")), 261.626, 0.0005)
-	// A lies three fifths above C less an octave: 3·696.578 − 1200 = 889.735 ¢.
+	// A lies three fifths above C less an octave, each ¼-comma fifth
+	// 1200·log2(5)/4 = 696.578 ¢ (definition): 3·696.578 − 1200 = 889.735 ¢.
 	near(t, "C4→A4", interval(tu, "C4", "A4"), 889.735, 0.001)
 	tu.Anchor = AnchorA4
 	near(t, "A4 Hz", tu.Target(note(t, "A4")), 440, 1e-9)

@@ -61,7 +61,7 @@ func TestCustomRegularFifth(t *testing.T) {
 	}
 	tu := tuning(t, "C major", "equal", 440)
 	tu.Temperament = c
-	near(t, "F#→Gb", interval(tu, "F#4", "Gb4"), 41.059, 0.001) // ¼-comma, as above
+	near(t, "F#→Gb", interval(tu, "F#4", "Gb4"), 41.059, 0.001) // ¼-comma: the lesser diesis 128/125 (Barbour 1951)
 }
 
 // Malformed files fail with the line that is wrong.

@@ -14,9 +14,10 @@ func near(t *testing.T, what string, got, want, tol float64) {
 	}
 }
 
-// Handbook values of the commas (e.g. Barbour, Tuning and Temperament, 1951;
-// any acoustics handbook): syntonic 81/80 = 21.506 ¢, Pythagorean
-// 3^12/2^19 = 23.460 ¢, schisma 1.954 ¢.
+// Handbook values of the commas and pure intervals (e.g. Barbour, Tuning and
+// Temperament, 1951; any acoustics handbook): syntonic 81/80 = 21.506 ¢,
+// Pythagorean 3^12/2^19 = 23.460 ¢, schisma 1.954 ¢, pure fifth 3/2 =
+// 701.955 ¢, pure major third 5/4 = 386.314 ¢.
 func TestCommas(t *testing.T) {
 	near(t, "syntonic comma", SyntonicComma, 21.506, 0.0005)
 	near(t, "Pythagorean comma", PythagoreanComma, 23.460, 0.0005)
@@ -102,7 +103,7 @@ func TestEnharmonicGaps(t *testing.T) {
 		{"pythagorean", -23.460},
 		{"edo:31", 1200.0 / 31}, // one step of 31 (common practice: F#, Gb a diesis apart)
 		{"werckmeister3", 0},
-		{"just", Cents(36.0/25) - Cents(45.0/32)}, // Gb 36/25, F# 45/32 by the rule documented on Just
+		{"just", Cents(36.0/25) - Cents(45.0/32)}, // 5-limit: F# a pure third above D, 9/8·5/4 = 45/32; Gb a pure minor third above Eb, 6/5·6/5 = 36/25 (common practice)
 	} {
 		tu := tuning(t, "C major", tc.spec, 440)
 		near(t, tc.spec+" F#4→Gb4", interval(tu, "F#4", "Gb4"), tc.gap, 0.0005)

@@ -93,6 +93,7 @@ func TestMeterOnATerminalShowsTheNoteAndAnswersKeys(t *testing.T) {
 			Holding:  true, Held: pitchdetect.Held{End: tm, Hz: gFlat4},
 		})
 	}
+	// The lesser diesis 128/125 = 41.06 ¢ and F♯4 = 346.91 Hz (fSharp4) below: ¼-comma's definition, see view_test.go.
 	waitFor(t, scr, "F♯4 is 41.1 ¢ sharp ▲ · sits on G♭4")
 
 	scr.InjectKey(tcell.KeyRight, 0, tcell.ModNone)

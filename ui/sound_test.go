@@ -81,7 +81,7 @@ func TestSoundKeysDriveTheDroneAndTheReference(t *testing.T) {
 			m.Retune(s)
 		}, "", "drone: G3+D4 at −18 dBFS", []float64{g3, d4}, true},
 		{"d: off", func() { m.CycleDrone(s) }, "drone off", "drone: off", nil, false},
-		{"s: the last note's target", func() { m.SoundReference(s) }, "reference: F♯4 at 346.91 Hz", "drone: off", []float64{fSharp4}, true},
+		{"s: the last note's target (fSharp4, ¼-comma's definition)", func() { m.SoundReference(s) }, "reference: F♯4 at 346.91 Hz", "drone: off", []float64{fSharp4}, true},
 	} {
 		step.press()
 		m.Sounding = s.Partials()

@@ -65,6 +65,7 @@ func TestAnalyzeHearsEachNoteOfRenderedScales(t *testing.T) {
 				got = append(got, r["note"])
 			}
 			for i, st := range steps {
+				// MIDI key 60 is C4 (MIDI 1.0 with scientific pitch notation; common practice).
 				want = append(want, fmt.Sprintf("%s%d", scale[i], (in.base+st)/12-1))
 			}
 			if strings.Join(got, " ") != strings.Join(want, " ") {

@@ -131,8 +131,8 @@ func TestTargetsTableForEveryTemperament(t *testing.T) {
 // A4 = 415 Hz (C major), the G♭4 target is read as F♯4 41.06 ¢ sharp, sitting
 // on G♭4 (lesser diesis 128/125, Barbour 1951).
 func TestAnalyzeReadsSpelledNotesFromSoxTones(t *testing.T) {
-	// ¼-comma targets at A4 = 415: F#4 = 346.909 Hz, Gb4 = 355.2349 Hz
-	// (computed by `fifthline targets`, checked in package target).
+	// ¼-comma targets at A4 = 415, from the definition (every fifth 5^(1/4)):
+	// F#4 = 415·5^(3/4)/4 = 346.909 Hz, Gb4 = 415·32/5^(9/4) = 355.2349 Hz.
 	a := sox(t, "fsharp.wav", "-r", "48000", "-b", "24", "synth 1.5 sine 346.909 gain -6")
 	b := sox(t, "gflat.wav", "-r", "44100", "-b", "16", "synth 1.5 sine 355.2349 gain -6")
 	code, out, stderr := runCLI(t, "analyze", "--temperament", "meantone:1/4", "--a4", "415", a, b)

@@ -64,7 +64,8 @@ func TestFluidR3HeadersAreSane(t *testing.T) {
 }
 
 func TestLoopTruthIsWholeCyclesPerLoop(t *testing.T) {
-	// A 441-frame loop at 44100 Hz whose header says A4 (440 Hz nominal):
+	// A 441-frame loop at 44100 Hz whose header says key 69, A4 (MIDI 1.0 and
+	// SoundFont 2.01 key numbers), 440 Hz nominal (ISO 16):
 	// k = round(441·440/44100) = 4.4 → 4, truth 4·44100/441 = 400 Hz.
 	s := Sample{LoopStart: 1000, LoopEnd: 1441, Rate: 44100, OriginalPitch: 69}
 	f := &Font{Samples: []Sample{s}}
