@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"os"
 	"sync/atomic"
+	"syscall"
 	"time"
 	"unsafe"
 
@@ -16,7 +17,8 @@ import (
 // Go's poller.
 type WakePipe struct {
 	r           *os.File
-	W           int // the write end, for the C side
+	rc          syscall.RawConn // r's, for the raw read
+	W           int             // the write end, for the C side
 	buf         []byte
 	interrupted atomic.Bool
 }
@@ -27,7 +29,14 @@ func NewWakePipe() (*WakePipe, error) {
 	if err := unix.Pipe2(fds[:], unix.O_NONBLOCK|unix.O_CLOEXEC); err != nil {
 		return nil, fmt.Errorf("wake-up pipe: %w", err)
 	}
-	return &WakePipe{r: os.NewFile(uintptr(fds[0]), "audio wake-up"), W: fds[1], buf: make([]byte, 64)}, nil
+	r := os.NewFile(uintptr(fds[0]), "audio wake-up")
+	rc, err := r.SyscallConn()
+	if err != nil {
+		r.Close()
+		unix.Close(fds[1])
+		return nil, fmt.Errorf("wake-up pipe: %w", err)
+	}
+	return &WakePipe{r: r, rc: rc, W: fds[1], buf: make([]byte, 64)}, nil
 }
 
 // Wait sleeps until a wake-up byte or the deadline (os.ErrDeadlineExceeded;
@@ -41,12 +50,8 @@ func (p *WakePipe) Wait(deadline time.Time) error {
 	if p.interrupted.Load() { // after the deadline is set: see Interrupt
 		return os.ErrDeadlineExceeded
 	}
-	rc, err := p.r.SyscallConn()
-	if err != nil {
-		return err
-	}
 	buf := unsafe.Pointer(&p.buf[0])
-	return rc.Read(func(fd uintptr) bool {
+	return p.rc.Read(func(fd uintptr) bool {
 		_, _, errno := unix.RawSyscall(unix.SYS_READ, fd, uintptr(buf), uintptr(len(p.buf)))
 		return errno != unix.EAGAIN
 	})
