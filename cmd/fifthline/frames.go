@@ -23,6 +23,7 @@ type frameWriter struct {
 	out      io.Writer
 	json     []map[string]any
 	started  bool
+	err      error // the table's first failed write
 }
 
 func newFrameWriter(w io.Writer, format string, withFile bool) *frameWriter {
@@ -52,13 +53,13 @@ func (fw *frameWriter) Frame(path string, f session.Frame) {
 		fw.json = append(fw.json, jsonObject(fw.header(), rec))
 	case "table":
 		if !fw.started {
-			fmt.Fprintf(fw.out, "%8s %10s %5s  %-5s %7s\n", "time", "Hz", "conf", "note", "cents")
+			fw.row("time", "Hz", "conf", "note", "cents")
 			fw.started = true
 		}
 		if fw.withFile {
 			rec = rec[1:]
 		}
-		fmt.Fprintf(fw.out, "%8s %10s %5s  %-5s %7s\n", rec[0], rec[1], rec[2], rec[5], rec[6])
+		fw.row(rec[0], rec[1], rec[2], rec[5], rec[6])
 	default:
 		if !fw.started {
 			fw.csv.Write(fw.header())
@@ -68,7 +69,19 @@ func (fw *frameWriter) Frame(path string, f session.Frame) {
 	}
 }
 
-func (fw *frameWriter) Note(session.Event) error { return fw.csv.Error() }
+// row writes one table row, keeping the first error for Note and Close.
+func (fw *frameWriter) row(cols ...any) {
+	if _, err := fmt.Fprintf(fw.out, "%8s %10s %5s  %-5s %7s\n", cols...); err != nil && fw.err == nil {
+		fw.err = err
+	}
+}
+
+func (fw *frameWriter) Note(session.Event) error {
+	if fw.err != nil {
+		return fw.err
+	}
+	return fw.csv.Error()
+}
 
 func (fw *frameWriter) Close() error {
 	switch fw.format {
@@ -78,7 +91,7 @@ func (fw *frameWriter) Close() error {
 		}
 		return json.NewEncoder(fw.out).Encode(fw.json)
 	case "table":
-		return nil
+		return fw.err
 	}
 	if !fw.started {
 		fw.csv.Write(fw.header())

@@ -1,6 +1,8 @@
 package main
 
 import (
+	"bytes"
+	"context"
 	"os"
 	"os/exec"
 	"path/filepath"
@@ -49,4 +51,21 @@ func TestWithoutLogTheJournalIsSilent(t *testing.T) {
 		t.Errorf("open %v, status %q", err, j.status())
 	}
 	j.note(heldNote(quarterCommaG(t), "A4", 0, 0)) // a no-op, not a panic
+}
+
+// Every output format reports a failed write: stdout on a full disk is one
+// line and exit 1, never a silent exit 0.
+func TestAnalyzeFramesReportAFullDisk(t *testing.T) {
+	full, err := os.OpenFile("/dev/full", os.O_WRONLY, 0)
+	if err != nil {
+		t.Skip("no /dev/full")
+	}
+	defer full.Close()
+	wav := sox(t, "a4.wav", "-r", "48000", "synth 1 sine 440 gain -6") // A4 = 440 Hz (ISO 16)
+	for _, format := range []string{"csv", "json", "table"} {
+		var errb bytes.Buffer
+		code := run(&env{ctx: context.Background(), stdin: strings.NewReader(""), stdout: full, stderr: &errb},
+			[]string{"analyze", "--frames", "--format", format, wav})
+		checkError(t, code, 1, errb.String())
+	}
 }
