@@ -1,7 +1,7 @@
 package journal
 
 import (
-	"bytes"
+	"bufio"
 	"encoding/csv"
 	"errors"
 	"fmt"
@@ -57,25 +57,41 @@ func ReadFile(path string) ([]Entry, []string, error) {
 	return Read(f, path)
 }
 
+// maxHeader is the longest first line Read takes for a header.
+const maxHeader = 64 << 10
+
 // Read parses a journal; name is used in messages. A first line that is not
 // a journal header is an error. A line that cannot be read — a torn last line
 // left by a crash, or one damaged by hand — is skipped with a warning, so one
 // bad line never costs the rest. Repeated header lines (journals joined with
 // cat) and blank lines are passed over quietly.
 func Read(r io.Reader, name string) ([]Entry, []string, error) {
-	data, err := io.ReadAll(r)
-	if err != nil {
+	// The header is checked before the rest is read, so that a file that
+	// is no journal (a recording, /dev/zero) is refused at once rather than
+	// read whole.
+	br := bufio.NewReaderSize(r, maxHeader)
+	head, err := br.ReadSlice('\n')
+	switch {
+	case errors.Is(err, bufio.ErrBufferFull):
+		return nil, nil, fmt.Errorf("journal %s is not a fifthline journal: its first line is longer than %d KiB", name, maxHeader>>10)
+	case err != nil && !errors.Is(err, io.EOF):
 		return nil, nil, fmt.Errorf("journal %s: %v", name, unwrapPath(err))
 	}
-	data = bytes.TrimPrefix(data, []byte("\uFEFF")) // a spreadsheet may add a byte-order mark
-	if len(bytes.TrimSpace(data)) == 0 {
-		return nil, nil, fmt.Errorf("journal %s is empty (no header line)", name)
+	first := strings.TrimSuffix(strings.TrimPrefix(string(head), "\uFEFF"), "\n") // a spreadsheet may add a byte-order mark
+	if strings.TrimSpace(first) == "" {
+		if more, _ := io.ReadAll(io.LimitReader(br, maxHeader)); strings.TrimSpace(string(more)) == "" {
+			return nil, nil, fmt.Errorf("journal %s is empty (no header line)", name)
+		}
 	}
-	lines := strings.Split(string(data), "\n")
-	cols, err := columnIndex(strings.TrimSuffix(lines[0], "\r"))
+	cols, err := columnIndex(strings.TrimSuffix(first, "\r"))
 	if err != nil {
 		return nil, nil, fmt.Errorf("journal %s is not a fifthline journal: %v", name, err)
 	}
+	rest, err := io.ReadAll(br)
+	if err != nil {
+		return nil, nil, fmt.Errorf("journal %s: %v", name, unwrapPath(err))
+	}
+	lines := append([]string{first}, strings.Split(string(rest), "\n")...)
 	var entries []Entry
 	var warns []string
 	skipped := 0

@@ -69,3 +69,13 @@ func TestAnalyzeFramesReportAFullDisk(t *testing.T) {
 		checkError(t, code, 1, errb.String())
 	}
 }
+
+// A file that is no journal is refused from its first line, not read whole:
+// /dev/zero, endless, gives one line and exit 1.
+func TestReportRefusesAnEndlessNonJournal(t *testing.T) {
+	if _, err := os.Stat("/dev/zero"); err != nil {
+		t.Skip("no /dev/zero")
+	}
+	code, _, stderr := runCLI(t, "report", "/dev/zero")
+	checkError(t, code, 1, stderr)
+}
