@@ -76,8 +76,10 @@ func runListen(e *env, args []string) error {
 		src := drone.Cancel(in, nil).Follow(sound)
 		err = runMeter(ctx, src, opts, j, meterSource{name: in.Device().Name, stats: in.Stats, journal: jf.log, sound: sound, hearsSound: true})
 	}
-	// Close before reporting: the journal and the device keep what was heard.
-	return errors.Join(stopped(err), in.Close(), j.close())
+	// Close before reporting, the journal first: it is complete even if a
+	// vanished device will not close.
+	jerr := j.close()
+	return errors.Join(stopped(err), in.Close(), jerr)
 }
 
 // listenPlain writes the contract's CSV: a header, then each held note as it
@@ -125,6 +127,9 @@ func runMeter(ctx context.Context, src capture.Source, opts session.Options, j *
 		return "journal: off"
 	}, Sound: ms.sound, SoundLevel: ms.sound.opt.Level, Caution: "caution: " + hearingAdvice})
 	defer ms.sound.Close() // fades out; the meter has stopped asking
+	// Runs before the sound's close: the journal is complete (closing it
+	// again later is harmless) before any device is stopped.
+	defer j.close()
 	opts.OnFrame = func(f session.Frame) {
 		if ms.hearsSound && f.Holding && ms.sound.ownNote(heldFor(f.Time-f.Held.Start)) {
 			f.Holding = false
@@ -163,7 +168,7 @@ func runMeter(ctx context.Context, src capture.Source, opts session.Options, j *
 	if uerr != nil {
 		// Not joined with serr: the cancellation it carries would read as
 		// a deliberate stop.
-		return fmt.Errorf("the meter needs a terminal (%v); --plain writes lines instead", uerr)
+		return fmt.Errorf("the meter needs a terminal (%v); without one, fifthline listen --plain writes lines instead", uerr)
 	}
 	return serr
 }
