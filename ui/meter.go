@@ -132,17 +132,10 @@ func (m *Meter) Run(ctx context.Context) error {
 	app.SetRoot(root, true)
 	app.SetInputCapture(func(ev *tcell.EventKey) *tcell.EventKey { return m.key(app, ev) })
 
-	// tview must not be stopped once Run has returned: a screen that
-	// failed to start cannot be finalised.
-	var mu sync.Mutex
-	running := true
-	stop := func() {
-		mu.Lock()
-		defer mu.Unlock()
-		if running {
-			app.Stop()
-		}
-	}
+	// Stop from inside tview's loop: called before Run has made its
+	// screen, app.Stop would do nothing and the meter would stay up; and
+	// once Run has returned, nothing is left to stop.
+	stop := func() { app.QueueUpdate(app.Stop) }
 	done := make(chan struct{})
 	go func() {
 		tick := time.NewTicker(time.Second / FrameRate)
@@ -163,9 +156,6 @@ func (m *Meter) Run(ctx context.Context) error {
 		}
 	}()
 	err := app.Run()
-	mu.Lock()
-	running = false
-	mu.Unlock()
 	close(done)
 	return err
 }

@@ -50,6 +50,9 @@ var errHelp = errors.New("help")
 
 func main() {
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
+	// The first signal asks for a clean stop; a second one, if the stop
+	// hangs (a device that will not close), ends the process at once.
+	context.AfterFunc(ctx, stop)
 	stopProfile := startProfile(os.Getenv("FIFTHLINE_CPUPROFILE"))
 	code := run(&env{ctx: ctx, stdin: os.Stdin, stdout: os.Stdout, stderr: os.Stderr}, os.Args[1:])
 	stopProfile()

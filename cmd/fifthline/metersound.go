@@ -48,6 +48,7 @@ type meterSound struct {
 	opt    playback.Options
 	open   sync.Mutex // held while the device opens, on the screen's goroutine
 	player atomic.Pointer[playback.Player]
+	lost   sync.WaitGroup // closing players whose device went away
 	// The last reference tone's time, wall clock in Unix nanoseconds, with
 	// referenceSettle after it.
 	refFrom, refTo atomic.Int64
@@ -71,7 +72,7 @@ func (s *meterSound) get() (*playback.Player, error) {
 		// Its device went away: let it go (closing a lost stream aborts
 		// it) and try the device afresh.
 		s.player.Store(nil)
-		go func() { _ = p.Close() }()
+		s.lost.Go(func() { _ = p.Close() })
 	}
 	p, err := playback.NewPlayer(s.opt)
 	if err != nil {
@@ -150,6 +151,9 @@ func (s *meterSound) Fading() bool {
 func (s *meterSound) Close() error {
 	s.open.Lock()
 	defer s.open.Unlock()
+	// A lost player still closing holds stderr muted: wait for it, so the
+	// command's last word is seen.
+	defer s.lost.Wait()
 	if p := s.player.Swap(nil); p != nil {
 		return p.Close()
 	}
