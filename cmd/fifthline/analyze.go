@@ -1,6 +1,7 @@
 package main
 
 import (
+	"context"
 	"encoding/csv"
 	"encoding/json"
 	"errors"
@@ -88,6 +89,9 @@ func analyzeFile(e *env, path string, tu target.Tuning, opt analyzeOptions, out 
 			return out.Note(ev)
 		},
 	})
+	if errors.Is(err, context.Canceled) {
+		return fmt.Errorf("%s: interrupted; the notes before it are written", path)
+	}
 	if err != nil {
 		return fmt.Errorf("%s: %w", path, err)
 	}
