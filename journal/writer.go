@@ -163,12 +163,20 @@ func (w *Writer) syncLoop() {
 	}
 }
 
+// olderHeader reports whether text starts with the header of a journal
+// written before the Later columns.
+func olderHeader(text string) bool {
+	line, _, ok := strings.Cut(text, "\n")
+	_, err := columnIndex(strings.TrimSuffix(line, "\r"))
+	return ok && err == nil
+}
+
 // headerLine is the header as written, newline included.
 func headerLine() string { return strings.Join(Header(), ",") + "\n" }
 
 // prepare checks an existing journal's header and mends a torn last line, or
 // writes the header into a new (or non-regular, like a pipe) file.
-func (w *Writer) prepare() error {
+func (w *Writer) prepare() (err error) {
 	info, err := w.f.Stat()
 	if err != nil {
 		return err
@@ -195,6 +203,13 @@ func (w *Writer) prepare() error {
 			return err
 		}
 		return w.writeAll([]byte(head))
+	case olderHeader(string(first)):
+		// Rows below a fresh header line carry the newer columns.
+		defer func() {
+			if err == nil {
+				err = w.writeAll([]byte(head))
+			}
+		}()
 	default:
 		line, _, _ := strings.Cut(string(first), "\n")
 		return fmt.Errorf("journal %s has other columns than a fifthline journal (its first line starts %.40q); give another file", w.path, line)

@@ -24,11 +24,12 @@ func TestWriterCreatesWithHeaderAndWritesEachNoteAsItEnds(t *testing.T) {
 	// Handed to the kernel before Write returns: readable before Close.
 	got, _ := os.ReadFile(path)
 	// 440·2^(10/1200) = 442.5489 Hz is A4 +10 ¢ (definition of the cent, common
-	// practice); its other spelling is G𝄪4 (contract: 12 fifths away).
+	// practice); it is offered no other spelling (contract: G𝄪4 and B𝄫4 carry
+	// two accidentals more than A4), so alt_note and alt_cents are empty.
 	// Its start lands 0.5 s later than opening+1.25 s: it ended 2.5 s into the
 	// capture but 3 s after opening, so the capture began 0.5 s after opening.
 	want := headerLine() +
-		`2026-03-14T19:30:01.750+01:00,s1,default input,"Ann, viola",C major,equal,440,,,1.250,2.500,A4,442.5489,440.0000,10.00,G##4,10.00,true,1.50,0.0,0.00` + "\n"
+		`2026-03-14T19:30:01.750+01:00,s1,default input,"Ann, viola",C major,equal,440,,,1.250,2.500,A4,442.5489,440.0000,10.00,,,false,false,1.50,0.0,0.00` + "\n"
 	if string(got) != want {
 		t.Errorf("journal is\n%s\nwant\n%s", got, want)
 	}

@@ -78,7 +78,7 @@ func entry(player, note string, minute, cents, altCents float64, alt string) jou
 	return journal.Entry{
 		Time:   time.Date(2026, 3, 14, 19, 0, 0, 0, time.UTC).Add(time.Duration(minute * float64(time.Minute))),
 		Player: player, Key: "G major", Temperament: "meantone:1/4", A4: 415,
-		Note: n, Alt: a, Cents: cents, AltCents: altCents,
+		Note: n, Alt: a, HasAlt: alt != "", Cents: cents, AltCents: altCents,
 	}
 }
 
@@ -163,7 +163,7 @@ func TestFilter(t *testing.T) {
 	}{
 		{"nothing asked", Filter{}, 2},
 		{"player, any case", Filter{Player: "BEN"}, 1},
-		{"key as --key takes it", Filter{Key: "g"}, 1},
+		{"key as --key takes it", Filter{Key: "G"}, 1},
 		{"key spelled out", Filter{Key: "d minor"}, 1},
 		{"since", Filter{Since: since}, 1},
 		{"nobody", Filter{Player: "Cleo"}, 0},

@@ -162,7 +162,7 @@ func (nw *noteWriter) Note(ev session.Event) error {
 		nw.started = true
 	}
 	r := ev.Reading
-	line := fmt.Sprintf("%7.2f\t%7.2f\t%s\t%.2f\t%s\t%s\t", ev.Start, ev.End, r.Written, r.Hz, target.FormatCents(r.Cents, 1), verdictTail(r))
+	line := fmt.Sprintf("%7.2f\t%7.2f\t%s\t%.2f\t%s\t%s\t", ev.Start, ev.End, r.Written, r.Hz, target.FormatCents(r.Deviation, 1), r.OtherWords())
 	if nw.withFile {
 		line = ev.Source + "\t" + line
 	}
@@ -176,17 +176,6 @@ func tableHead(withFile bool) string {
 		h = "file\t" + h
 	}
 	return h
-}
-
-// verdictTail says in a few words where the note sat against its other spelling.
-func verdictTail(r target.Reading) string {
-	switch {
-	case r.SamePitch:
-		return r.AltWritten.String() + " is the same pitch"
-	case r.NearerAlt():
-		return fmt.Sprintf("sits on %s (%s)", r.AltWritten, target.FormatCents(r.AltCents, 1))
-	}
-	return fmt.Sprintf("%s would be %s", r.AltWritten, target.FormatCents(r.AltCents, 1))
 }
 
 func (nw *noteWriter) Close() error {
