@@ -128,7 +128,7 @@ func tuningWords(tu target.Tuning) string {
 		s += " (tonic anchored)"
 	}
 	if tu.SharesPitches() {
-		s += " · enharmonic spellings share one pitch" // said once, not on every note
+		s += " · F♯ = G♭" // enharmonic spellings share one pitch: said once, not on every note
 	}
 	if tu.Chord != nil {
 		s += " · chord " + tu.Chord.String()

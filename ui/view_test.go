@@ -280,7 +280,7 @@ func TestTuningLineSaysKeyTemperamentA4AndTransposition(t *testing.T) {
 		tu   target.Tuning
 		want string
 	}{
-		{target.Default(), "C major · equal temperament · A4 = 440.0 Hz · enharmonic spellings share one pitch · concert pitch"},
+		{target.Default(), "C major · equal temperament · A4 = 440.0 Hz · F♯ = G♭ · concert pitch"},
 		{transposed, "C major · 1/4-comma meantone · A4 = 415.0 Hz · written for B♭ instrument"},
 	} {
 		if got := TuningLine(NewModel(c.tu, "x")).Text(); got != c.want {
