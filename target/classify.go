@@ -110,10 +110,14 @@ func (r Reading) nearerAlt() bool {
 	return r.HasAlt && !r.SamePitch && math.Abs(r.AltDeviation) < math.Abs(r.Deviation)
 }
 
-// TowardOther reports whether the held pitch has moved nearer the other
-// spelling's target without sitting on it: the words then say "sharp,
-// toward G♭", never "on G♭".
-func (r Reading) TowardOther() bool { return r.nearerAlt() && !r.OnOther }
+// TowardOther reports whether the held pitch lies between the two targets,
+// nearer the other spelling's without sitting on it: the words then say
+// "sharp, toward G♭", never "on G♭". Past the other target it is not toward
+// it, and the words give the distance from it instead.
+func (r Reading) TowardOther() bool {
+	between := r.Deviation*r.AltDeviation < 0
+	return between && r.nearerAlt() && !r.OnOther
+}
 
 // OtherWords says in a few words where the held pitch stands against the
 // other spelling, for screens and logs: "sits on Gb4 (-2.9¢)", "toward Gb4",

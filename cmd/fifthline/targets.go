@@ -108,6 +108,7 @@ func writeTargetsCSV(e *env, tu target.Tuning, rows []targetRow) error {
 
 func writeTargetsTable(e *env, tu target.Tuning, rows []targetRow) error {
 	fmt.Fprintln(e.stdout, tu)
+	shared := tu.SharesPitches()
 	tw := tabwriter.NewWriter(e.stdout, 0, 0, 2, ' ', tabwriter.AlignRight)
 	head := "note\tHz\tfrom equal\tfifths\tother spelling\t"
 	if !tu.Transpose.IsConcert() {
@@ -122,6 +123,8 @@ func writeTargetsTable(e *env, tu target.Tuning, rows []targetRow) error {
 		switch {
 		case !r.hasAlt:
 			other = "none"
+		case r.samePitch && shared:
+			other = r.alt.String() // the first line says so, once
 		case r.samePitch:
 			other = r.alt.String() + " same"
 		}
