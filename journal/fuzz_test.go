@@ -12,6 +12,7 @@ func FuzzRead(f *testing.F) {
 	f.Add(headerLine() + sampleLine + "\n")
 	f.Add(headerLine() + sampleLine[:50])
 	f.Add("time,session\n1,2\n")
+	f.Add(olderHeaderLine() + strings.Replace(sampleLine, ",false,false,", ",false,", 1) + "\n" + headerLine() + sampleLine + "\n")
 	f.Add("\"\n\"")
 	f.Add("")
 	f.Fuzz(func(t *testing.T, body string) {

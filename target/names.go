@@ -28,7 +28,7 @@ var ErrUnknownTemperament = errors.New("unknown temperament")
 func ParseTemperament(spec string) (Temperament, error) {
 	s := strings.ToLower(strings.TrimSpace(spec))
 	if kind, arg, ok := strings.Cut(s, ":"); ok {
-		if tm, err, known := parseKind(spec, kind, strings.TrimSpace(arg)); known {
+		if tm, known, err := parseKind(spec, strings.TrimSpace(kind), strings.TrimSpace(arg)); known {
 			return tm, err
 		}
 	}
@@ -38,7 +38,7 @@ func ParseTemperament(spec string) (Temperament, error) {
 	}
 	for _, a := range aliases {
 		if m := a.re.FindStringSubmatch(f); m != nil {
-			tm, err, _ := parseKind(spec, a.kind, a.arg(m))
+			tm, _, err := parseKind(spec, a.kind, a.arg(m))
 			return tm, err
 		}
 	}
@@ -46,20 +46,20 @@ func ParseTemperament(spec string) (Temperament, error) {
 }
 
 // parseKind reads the kind:argument forms; known is false for another kind.
-func parseKind(spec, kind, arg string) (tm Temperament, err error, known bool) {
+func parseKind(spec, kind, arg string) (tm Temperament, known bool, err error) {
 	switch kind {
 	case "meantone":
 		ns, ds, ok := strings.Cut(arg, "/")
 		num, err1 := strconv.Atoi(strings.TrimSpace(ns))
 		den, err2 := strconv.Atoi(strings.TrimSpace(ds))
 		if !ok || err1 != nil || err2 != nil {
-			return nil, fmt.Errorf("temperament %q: write meantone:P/Q with whole numbers, like meantone:1/4", spec), true
+			return nil, true, fmt.Errorf("temperament %q: write meantone:P/Q with whole numbers, like meantone:1/4", spec)
 		}
 		tm, err = Meantone(num, den)
 	case "fifth":
 		f, perr := strconv.ParseFloat(arg, 64)
 		if perr != nil || math.IsInf(f, 0) {
-			return nil, fmt.Errorf("temperament %q: the fifth must be a number of cents, like fifth:696.5", spec), true
+			return nil, true, fmt.Errorf("temperament %q: the fifth must be a number of cents, like fifth:696.5", spec)
 		}
 		tm, err = NewRegular(f)
 		if err != nil {
@@ -68,16 +68,16 @@ func parseKind(spec, kind, arg string) (tm Temperament, err error, known bool) {
 	case "edo":
 		n, perr := strconv.Atoi(arg)
 		if perr != nil {
-			return nil, fmt.Errorf("temperament %q: write edo:N with a whole number, like edo:31", spec), true
+			return nil, true, fmt.Errorf("temperament %q: write edo:N with a whole number, like edo:31", spec)
 		}
 		tm, err = EDO(n)
 	default:
-		return nil, nil, false
+		return nil, false, nil
 	}
 	if err != nil {
-		return nil, err, true
+		return nil, true, err
 	}
-	return tm, nil, true
+	return tm, true, nil
 }
 
 // fold writes a temperament name one way: lower case (already), no spaces,
@@ -95,7 +95,7 @@ func fold(s string) string {
 var (
 	commaFractions = map[string]string{"quarter": "1/4", "sixth": "1/6", "fifth": "1/5", "third": "1/3",
 		"half": "1/2", "eighth": "1/8", "twosevenths": "2/7", "twoseventh": "2/7"}
-	commaWords = regexp.MustCompile(`^(quarter|sixth|fifth|third|half|eighth|twosevenths?)comma`)
+	commaWords = regexp.MustCompile(`(quarter|sixth|fifth|third|half|eighth|twosevenths?)comma`)
 	romanEnd   = regexp.MustCompile(`(iii|ii)$`)
 )
 
