@@ -12,14 +12,11 @@ import (
 // quarterComma is C major in ¼-comma meantone at A4 = 415 Hz, where F♯ and
 // G♭ lie a lesser diesis apart (128/125 = 41.059 ¢, Barbour 1951).
 func quarterComma(t *testing.T) target.Tuning {
-	t.Helper()
-	tm, err := target.ParseTemperament("meantone:1/4")
+	tm, err := target.Meantone(1, 4)
 	if err != nil {
 		t.Fatal(err)
 	}
-	tu := target.Default()
-	tu.Temperament, tu.A4 = tm, 415
-	return tu
+	return target.Tuning{Key: target.Default().Key, Temperament: tm, A4: 415}
 }
 
 // cents moves a frequency by c cents (the definition of the cent).

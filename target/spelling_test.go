@@ -112,7 +112,7 @@ func TestAlternativeIsTheRespellingWithFewerAccidentals(t *testing.T) {
 		"Bb": "A#", "Eb": "D#", "Ab": "G#", "Db": "C#", "Gb": "F#", "Cb": "B", "Fb": "E",
 		"F##": "G", "C##": "D", "G##": "A", "Bbb": "A", "Ebb": "D", "Abb": "G", "Dbb": "C",
 	} {
-		alt, ok := Alternative(mustName(t, n))
+		alt, ok := Alternative(note(t, n+"4"))
 		if got := map[bool]string{true: alt.Name(), false: ""}[ok]; got != want {
 			t.Errorf("Alternative(%s) = %q, want %q", n, got, want)
 		}
@@ -168,13 +168,4 @@ func TestMinorKeysReadTheirRaisedFourth(t *testing.T) {
 			t.Errorf("%s: in-tune %s reads %q", tc.key, tc.held, r.Verdict())
 		}
 	}
-}
-
-func mustName(t *testing.T, s string) Note {
-	t.Helper()
-	n, err := ParseName(s)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return n
 }
