@@ -62,7 +62,10 @@ func TestUnknownTemperamentSuggestsTheNearest(t *testing.T) {
 // 685.714 ¢ (7-EDO) C♯ lands on C; between them the chromatic semitone
 // (7 fifths − 4 octaves) and the diatonic one (3 octaves − 5 fifths) are
 // both positive, so a window's spellings keep their order (chain-of-fifths
-// arithmetic, common practice).
+// arithmetic, common practice). An EDO's fifth is its step count nearest 3/2
+// times 1200/N (definition): 7-EDO's 4 steps give 685.714 ¢, 25-EDO's 15
+// give 720, 35-EDO's 20 give 685.714; from 37 steps on the nearest step is
+// within 600/N < 16.24 ¢ of 701.955, inside the bounds.
 func TestUnusableFifthsAreRefusedWithTheRangeThatWorks(t *testing.T) {
 	for spec, want := range map[string]string{
 		"fifth:720":    "between 685.714 and 720",
