@@ -25,15 +25,25 @@ type Entry struct {
 	A4                                float64
 	Transpose, Chord                  string
 	Start, End                        float64 // seconds within the session's run
-	Note, Alt                         target.Note
+	Note, Alt                         target.Note // Alt is the zero Note when none was offered
+	HasAlt                            bool
 	Hz, TargetHz, Cents, AltCents     float64
 	SamePitch                         bool
+	OnOther                           bool // sat on the other spelling (see OnOtherSpelling)
 	Spread, VibratoWidth, VibratoRate float64
 }
 
-// NearerAlt reports whether the note sat nearer its other spelling's target
-// (never where both spellings share one pitch).
-func (e Entry) NearerAlt() bool { return !e.SamePitch && math.Abs(e.AltCents) < math.Abs(e.Cents) }
+// OnOtherSpelling is the contract's rule for a reading that sits on the other
+// spelling: the held pitch is nearer the alternative's target and within a
+// quarter of the gap between the two targets; never where both spellings
+// share one pitch or none is offered. The gap comes from the row itself:
+// cents − alt_cents = 1200·log2(alt target / target), since both are
+// measured from the same held pitch. Journals that carry on_other_spelling
+// are read as written; this decides for older ones.
+func OnOtherSpelling(cents, altCents float64) bool {
+	gap := math.Abs(cents - altCents)
+	return gap > 0 && math.Abs(altCents) < math.Abs(cents) && math.Abs(altCents) <= gap/4
+}
 
 // maxWarnings bounds the warnings one journal gives; the rest are counted.
 const maxWarnings = 10
@@ -120,6 +130,10 @@ func Read(r io.Reader, name string) ([]Entry, []string, error) {
 	return entries, warns, nil
 }
 
+// laterColumns are columns that journals written by earlier versions lack;
+// a journal without them is still read.
+var laterColumns = map[string]bool{"on_other_spelling": true}
+
 // columns maps each journal column to its place in the file's header.
 type columns struct {
 	at    map[string]int
@@ -137,7 +151,7 @@ func columnIndex(header string) (columns, error) {
 	}
 	var missing []string
 	for _, h := range Header() {
-		if _, ok := c.at[h]; !ok {
+		if _, ok := c.at[h]; !ok && !laterColumns[h] {
 			missing = append(missing, h)
 		}
 	}
@@ -220,9 +234,21 @@ func (c columns) parse(line string) (Entry, error) {
 		Key: f.str("key"), Temperament: f.str("temperament"), A4: f.num("a4"),
 		Transpose: f.str("transpose"), Chord: f.str("chord"),
 		Start: f.num("start_s"), End: f.num("end_s"), Note: f.note("note"), Hz: f.num("hz"),
-		TargetHz: f.num("target_hz"), Cents: f.num("cents"), Alt: f.note("alt_note"),
-		AltCents: f.num("alt_cents"), SamePitch: f.flag("same_pitch"), Spread: f.num("spread_cents"),
-		VibratoWidth: f.num("vibrato_cents"), VibratoRate: f.num("vibrato_hz"),
+		TargetHz: f.num("target_hz"), Cents: f.num("cents"), SamePitch: f.flag("same_pitch"),
+		Spread: f.num("spread_cents"), VibratoWidth: f.num("vibrato_cents"), VibratoRate: f.num("vibrato_hz"),
+	}
+	// alt_note and alt_cents are both empty when no other spelling is offered.
+	if strings.TrimSpace(f.str("alt_note")) != "" || strings.TrimSpace(f.str("alt_cents")) != "" {
+		e.HasAlt, e.Alt, e.AltCents = true, f.note("alt_note"), f.num("alt_cents")
+	}
+	switch _, written := c.at["on_other_spelling"]; {
+	case written:
+		e.OnOther = f.flag("on_other_spelling")
+	case e.HasAlt && !e.SamePitch:
+		e.OnOther = OnOtherSpelling(e.Cents, e.AltCents)
+	}
+	if e.OnOther && !e.HasAlt && f.err == nil {
+		f.err = fmt.Errorf("on_other_spelling is true but no other spelling is given")
 	}
 	return e, f.err
 }

@@ -87,3 +87,59 @@ func TestReadCapsWarnings(t *testing.T) {
 		t.Errorf("%d warnings (last %q), %v", len(warns), warns[len(warns)-1], err)
 	}
 }
+
+// The contract's rule (interface.md, Alternative spelling): a note sits on
+// the other spelling only when nearer the alternative's target and within a
+// quarter of the gap between the two targets.
+func TestOnOtherSpellingFollowsTheQuarterGapRule(t *testing.T) {
+	cases := []struct {
+		name            string
+		cents, altCents float64
+		want            bool
+	}{
+		// ¼-comma meantone: G♭ lies 41.06 ¢ above F♯ (the lesser diesis
+		// 128/125, handbook value); an F♯5 played 38 ¢ high is 3 ¢ below G♭5.
+		{"quarter-comma F# on Gb", 38, -3.06, true},
+		// ⅙-comma: the fifth is 701.955 − 21.506/6 = 698.371 ¢, and 12 such
+		// fifths fall 19.55 ¢ short of 7 octaves, the gap (hand-computed from
+		// the definition); an F♯ pushed up 11 ¢ is 8.55 ¢ below G♭ — nearer
+		// it, but past a quarter of the gap (4.9 ¢).
+		{"sixth-comma leading tone pushed up", 11, -8.55, false},
+		{"sixth-comma on the Gb", 16, -3.55, true},
+		// Pythagorean: G♭ lies a Pythagorean comma (23.46 ¢) below F♯; an F♯
+		// 12 ¢ low is 11.46 ¢ above G♭ — nearer, not within 5.9 ¢.
+		{"pythagorean F# 12 low", -12, 11.46, false},
+		{"in tune", 2, 43.06, false},
+		{"both spellings share a pitch (equal temperament)", 3, 3, false},
+	}
+	for _, c := range cases {
+		if got := OnOtherSpelling(c.cents, c.altCents); got != c.want {
+			t.Errorf("%s: %v, want %v", c.name, got, c.want)
+		}
+	}
+}
+
+// A journal from before on_other_spelling is judged by the rule from its own
+// cents and alt_cents; one that carries the column is read as written; a
+// note offered no other spelling has empty alt_note and alt_cents.
+func TestReadOnOtherSpellingOldAndNew(t *testing.T) {
+	// An older journal: F♯5 38 ¢ high, 3.06 ¢ below G♭5 (¼-comma, as above).
+	old := strings.Replace(sampleLine, "-1.64,Db5,40.00", "38.00,Gb5,-3.06", 1)
+	entries, warns, err := Read(strings.NewReader(headerLine()+old+"\n"), "old")
+	if err != nil || len(warns) != 0 || len(entries) != 1 || !entries[0].OnOther || !entries[0].HasAlt {
+		t.Fatalf("older journal: %+v %q %v", entries, warns, err)
+	}
+	withCol := strings.TrimSuffix(headerLine(), "\n") + ",on_other_spelling\n"
+	body := withCol + old + ",false\n" + // the writer's verdict stands
+		strings.Replace(sampleLine, "Db5,40.00", ",", 1) + ",false\n" // G-like: no other spelling offered
+	entries, warns, err = Read(strings.NewReader(body), "new")
+	if err != nil || len(warns) != 0 || len(entries) != 2 {
+		t.Fatalf("newer journal: %d entries %q %v", len(entries), warns, err)
+	}
+	if entries[0].OnOther || entries[1].HasAlt || entries[1].OnOther {
+		t.Errorf("entries %+v", entries)
+	}
+	if _, warns, _ := Read(strings.NewReader(withCol+strings.Replace(sampleLine, "Db5,40.00", ",", 1)+",true\n"), "bad"); len(warns) != 1 {
+		t.Errorf("on another spelling that does not exist: warnings %q", warns)
+	}
+}
