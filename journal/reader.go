@@ -24,7 +24,7 @@ type Entry struct {
 	Key, Temperament                  string // as given to --key and --temperament (spec)
 	A4                                float64
 	Transpose, Chord                  string
-	Start, End                        float64 // seconds within the session's run
+	Start, End                        float64     // seconds within the session's run
 	Note, Alt                         target.Note // Alt is the zero Note when none was offered
 	HasAlt                            bool
 	Hz, TargetHz, Cents, AltCents     float64
