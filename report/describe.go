@@ -34,7 +34,7 @@ type Stats struct {
 	Within       int           `json:"within"`       // notes within ±Tolerance
 	Share        float64       `json:"share_within"` // Within / Count
 	Tendency     string        `json:"tendency"`
-	Other        OtherSpelling `json:"on_other_spelling"`
+	Other        OtherSpelling `json:"other_spelling"`
 	Trend        Trend         `json:"trend"`
 }
 
