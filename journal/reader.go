@@ -24,25 +24,21 @@ type Entry struct {
 	Key, Temperament                  string // as given to --key and --temperament (spec)
 	A4                                float64
 	Transpose, Chord                  string
-	Start, End                        float64     // seconds within the session's run
-	Note, Alt                         target.Note // Alt is the zero Note when none was offered
-	HasAlt                            bool
+	Start, End                        float64 // seconds within the session's run
+	Note, Alt                         target.Note
+	HasAlt                            bool // alt_note given: an other spelling was offered
 	Hz, TargetHz, Cents, AltCents     float64
 	SamePitch                         bool
-	OnOther                           bool // sat on the other spelling (see OnOtherSpelling)
 	Spread, VibratoWidth, VibratoRate float64
+	// OnOther is the on_other_spelling column (the contract's quarter-gap
+	// rule); OnOtherKnown is false in journals older than that column.
+	OnOther, OnOtherKnown bool
 }
 
-// OnOtherSpelling is the contract's rule for a reading that sits on the other
-// spelling: the held pitch is nearer the alternative's target and within a
-// quarter of the gap between the two targets; never where both spellings
-// share one pitch or none is offered. The gap comes from the row itself:
-// cents − alt_cents = 1200·log2(alt target / target), since both are
-// measured from the same held pitch. Journals that carry on_other_spelling
-// are read as written; this decides for older ones.
-func OnOtherSpelling(cents, altCents float64) bool {
-	gap := math.Abs(cents - altCents)
-	return gap > 0 && math.Abs(altCents) < math.Abs(cents) && math.Abs(altCents) <= gap/4
+// NearerAlt reports whether the note sat nearer its other spelling's target
+// (never where both spellings share one pitch).
+func (e Entry) NearerAlt() bool {
+	return e.HasAlt && !e.SamePitch && math.Abs(e.AltCents) < math.Abs(e.Cents)
 }
 
 // maxWarnings bounds the warnings one journal gives; the rest are counted.
@@ -110,6 +106,12 @@ func Read(r io.Reader, name string) ([]Entry, []string, error) {
 		if strings.TrimSpace(line) == "" || line == lines[0] {
 			continue
 		}
+		if strings.HasPrefix(line, "time,") { // a journal appended to under a newer header
+			if c, err := columnIndex(line); err == nil {
+				lines[0], cols = line, c
+				continue
+			}
+		}
 		e, err := cols.parse(line)
 		if err == nil {
 			entries = append(entries, e)
@@ -130,10 +132,6 @@ func Read(r io.Reader, name string) ([]Entry, []string, error) {
 	return entries, warns, nil
 }
 
-// laterColumns are columns that journals written by earlier versions lack;
-// a journal without them is still read.
-var laterColumns = map[string]bool{"on_other_spelling": true}
-
 // columns maps each journal column to its place in the file's header.
 type columns struct {
 	at    map[string]int
@@ -150,12 +148,17 @@ func columnIndex(header string) (columns, error) {
 		c.at[strings.TrimSpace(f)] = i
 	}
 	var missing []string
+	needed := 0
 	for _, h := range Header() {
-		if _, ok := c.at[h]; !ok && !laterColumns[h] {
+		if Later[h] {
+			continue
+		}
+		needed++
+		if _, ok := c.at[h]; !ok {
 			missing = append(missing, h)
 		}
 	}
-	if len(missing) == len(Header()) {
+	if len(missing) == needed {
 		return columns{}, fmt.Errorf("its first line %.40q is not the journal header", header)
 	}
 	if len(missing) > 0 {
@@ -234,21 +237,14 @@ func (c columns) parse(line string) (Entry, error) {
 		Key: f.str("key"), Temperament: f.str("temperament"), A4: f.num("a4"),
 		Transpose: f.str("transpose"), Chord: f.str("chord"),
 		Start: f.num("start_s"), End: f.num("end_s"), Note: f.note("note"), Hz: f.num("hz"),
-		TargetHz: f.num("target_hz"), Cents: f.num("cents"), SamePitch: f.flag("same_pitch"),
-		Spread: f.num("spread_cents"), VibratoWidth: f.num("vibrato_cents"), VibratoRate: f.num("vibrato_hz"),
+		TargetHz: f.num("target_hz"), Cents: f.num("cents"), SamePitch: f.flag("same_pitch"), Spread: f.num("spread_cents"),
+		VibratoWidth: f.num("vibrato_cents"), VibratoRate: f.num("vibrato_hz"),
 	}
-	// alt_note and alt_cents are both empty when no other spelling is offered.
-	if strings.TrimSpace(f.str("alt_note")) != "" || strings.TrimSpace(f.str("alt_cents")) != "" {
-		e.HasAlt, e.Alt, e.AltCents = true, f.note("alt_note"), f.num("alt_cents")
+	if e.HasAlt = strings.TrimSpace(f.str("alt_note")) != ""; e.HasAlt {
+		e.Alt, e.AltCents = f.note("alt_note"), f.num("alt_cents")
 	}
-	switch _, written := c.at["on_other_spelling"]; {
-	case written:
+	if _, e.OnOtherKnown = c.at["on_other_spelling"]; e.OnOtherKnown {
 		e.OnOther = f.flag("on_other_spelling")
-	case e.HasAlt && !e.SamePitch:
-		e.OnOther = OnOtherSpelling(e.Cents, e.AltCents)
-	}
-	if e.OnOther && !e.HasAlt && f.err == nil {
-		f.err = fmt.Errorf("on_other_spelling is true but no other spelling is given")
 	}
 	return e, f.err
 }

@@ -54,7 +54,7 @@ func describe(label string, fifths int, rehearsal string, es []journal.Entry, op
 	var on []journal.Entry
 	alts := map[string]int{}
 	for _, e := range es {
-		if e.OnOther {
+		if e.SatOnOther() {
 			other = append(other, e.AltCents)
 			alts[altLabel(e.Alt)]++
 			continue

@@ -128,7 +128,7 @@ func entriesOf(g Group, entries []journal.Entry) []journal.Entry {
 func onSpelling(es []journal.Entry) []journal.Entry {
 	var out []journal.Entry
 	for _, e := range es {
-		if !e.OnOther {
+		if !e.SatOnOther() {
 			out = append(out, e)
 		}
 	}

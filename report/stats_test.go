@@ -101,14 +101,14 @@ func at(minute float64) time.Time {
 }
 
 // entry is a journal line: a note at minute m with given cents and cents
-// against the other spelling; whether it sat on that spelling is decided by
-// the contract's rule, as the journal reader does for older journals.
+// against the other spelling, from a journal older than on_other_spelling,
+// so whether it sat on that spelling is decided by the contract's rule.
 func entry(player, note string, minute, cents, altCents float64, alt string) journal.Entry {
 	n, _ := target.ParseNote(note)
 	a, _ := target.ParseNote(alt)
 	return journal.Entry{
 		Time: at(minute), Player: player, Key: "G major", Temperament: "meantone:1/4", A4: 415,
-		Note: n, Alt: a, HasAlt: true, Cents: cents, AltCents: altCents, OnOther: journal.OnOtherSpelling(cents, altCents),
+		Note: n, Alt: a, HasAlt: true, Cents: cents, AltCents: altCents,
 		Spread: 2,
 	}
 }
@@ -190,7 +190,7 @@ func TestTrendWithinRehearsals(t *testing.T) {
 	for r, base := range []float64{0, 10} {
 		for i := range 3 {
 			e := entry("Ann", "A4", float64(r*7*24*60+i*10), base+float64(i), 0, "G##4")
-			e.OnOther = false
+			e.HasAlt = false // A4 is offered no other spelling
 			es = append(es, e)
 		}
 	}
