@@ -65,7 +65,7 @@ func signedWhole(v float64) string {
 	return "0"
 }
 
-// wholeCounts ticks a count axis at whole numbers.
+// wholeCounts ticks a count (or a time) axis at whole numbers.
 type wholeCounts struct{}
 
 func (wholeCounts) Ticks(lo, hi float64) []plot.Tick {
@@ -192,10 +192,19 @@ func timePanel(g Group, es []journal.Entry, opt Options) (*plot.Plot, error) {
 		p.Add(line)
 		p.Legend.Add("trend: "+tr.Words, line)
 	} else {
-		p.Legend.Add("no trend: "+TooFewForATrend, pts)
+		p.Title.Text = fmt.Sprintf("Cents during the rehearsal (a trend needs %d notes)", TrendNotes)
 	}
 	p.X.Min, p.X.Max = math.Min(p.X.Min, 0), math.Max(p.X.Max, 1)
-	fitBand(p, opt.Tolerance, 1)
+	pad := 0.03 * (p.X.Max - p.X.Min) // markers at the ends stay whole
+	p.X.Min, p.X.Max = p.X.Min-pad, p.X.Max+pad
+	if p.X.Max-p.X.Min >= 2 {
+		p.X.Tick.Marker = wholeCounts{}
+	}
+	legend := 0
+	if g.All.Trend.Known {
+		legend = 1
+	}
+	fitBand(p, opt.Tolerance, legend)
 	band(p, opt.Tolerance, false, 0)
 	return p, nil
 }

@@ -141,7 +141,11 @@ func plotTitle(entries []journal.Entry, groups []Group, opt Options) [2]string {
 	if Rehearsal(journal.Entry{Time: first}) != Rehearsal(journal.Entry{Time: last}) {
 		when = first.Format("2 Jan 2006") + " – " + last.Format("2 Jan 2006")
 	}
-	sub := fmt.Sprintf("%s · %s · tolerance ±%g ¢", plural(len(entries), "held note"), when, opt.Tolerance)
+	held := plural(len(entries), "held note")
+	if len(groups) == 1 {
+		held = groups[0].Held()
+	}
+	sub := fmt.Sprintf("%s · %s · tolerance ±%g ¢", held, when, opt.Tolerance)
 	if len(groups) > PlotRows {
 		sub += fmt.Sprintf(" · the first %d of %d rows shown (use --player or --key)", PlotRows, len(groups))
 	}
@@ -151,7 +155,7 @@ func plotTitle(entries []journal.Entry, groups []Group, opt Options) [2]string {
 	players, tunings := map[string]bool{}, map[tuningOf]bool{}
 	for _, g := range groups {
 		players[g.Player] = true
-		tunings[tuningOf{key: g.Key, temperament: g.Temperament, transpose: g.Transpose, chord: g.Chord}] = true
+		tunings[tuningOf{key: g.Key, temperament: g.Temperament, a4: g.A4, transpose: g.Transpose, chord: g.Chord}] = true
 	}
 	return [2]string{fmt.Sprintf("Rehearsal report: %s, %s (a row for each player in each tuning)",
 		plural(len(players), "player"), plural(len(tunings), "tuning")), sub}

@@ -18,11 +18,7 @@ func (g Group) Title() string {
 	if player == "" {
 		player = "(no player named)"
 	}
-	var a4 []string
-	for _, f := range g.A4 {
-		a4 = append(a4, strconv.FormatFloat(f, 'f', -1, 64))
-	}
-	t := fmt.Sprintf("%s · %s · %s · A4 = %s Hz", player, g.Key, g.Name, strings.Join(a4, ", "))
+	t := fmt.Sprintf("%s · %s · %s · A4 = %s Hz", player, g.Key, g.Name, strconv.FormatFloat(g.A4, 'f', -1, 64))
 	if g.Transpose != "" {
 		t += " · written for " + g.Transpose + " instrument"
 	}

@@ -18,9 +18,10 @@ type Options struct {
 	ByRehearsal bool
 }
 
-// Group is one player in one tuning: key, temperament, transposition (a
-// B♭ part's written notes are not a concert part's) and declared chord
-// (readings against a chord's just targets are not pooled with plain ones).
+// Group is one player in one tuning: key, temperament, reference pitch,
+// transposition (a B♭ part's written notes are not a concert part's) and
+// declared chord (readings against a chord's just targets are not pooled
+// with plain ones).
 type Group struct {
 	Player      string    `json:"player"`
 	Key         string    `json:"key"`
@@ -28,7 +29,7 @@ type Group struct {
 	Transpose   string    `json:"transpose,omitempty"` // the instrument's --transpose; notes are then written pitch
 	Chord       string    `json:"chord,omitempty"`     // the declared --chord, if any
 	Name        string    `json:"temperament_name"`
-	A4          []float64 `json:"a4"`            // the reference pitches used, in order of first use
+	A4          float64   `json:"a4"`
 	Notes       []Stats   `json:"notes"`         // per spelled note with octave, along the line of fifths
 	Classes     []Stats   `json:"pitch_classes"` // per spelled note in all octaves together
 	All         Stats     `json:"all"`
@@ -37,10 +38,14 @@ type Group struct {
 }
 
 // tuningOf is what keeps groups apart.
-type tuningOf struct{ player, key, temperament, transpose, chord string }
+type tuningOf struct {
+	player, key, temperament string
+	a4                       float64
+	transpose, chord         string
+}
 
 func groupKey(e journal.Entry) tuningOf {
-	return tuningOf{e.Player, e.Key, e.Temperament, e.Transpose, e.Chord}
+	return tuningOf{e.Player, e.Key, e.Temperament, e.A4, e.Transpose, e.Chord}
 }
 
 // Summarize groups the entries by player and tuning (in order of first
@@ -59,13 +64,8 @@ func Summarize(entries []journal.Entry, opt Options) []Group {
 	groups := make([]Group, 0, len(order))
 	for _, k := range order {
 		es := members[k]
-		g := Group{Player: k.player, Key: k.key, Temperament: k.temperament, Transpose: k.transpose, Chord: k.chord,
+		g := Group{Player: k.player, Key: k.key, Temperament: k.temperament, A4: k.a4, Transpose: k.transpose, Chord: k.chord,
 			Name: temperamentName(k.temperament)}
-		for _, e := range es {
-			if !slices.Contains(g.A4, e.A4) {
-				g.A4 = append(g.A4, e.A4)
-			}
-		}
 		g.Notes = byLabel(es, opt, target.Note.String, target.Note.String)
 		g.Classes = byLabel(es, opt, target.Note.Name, target.Note.Name)
 		g.All = describe("all", 0, "", es, opt, target.Note.Name)
@@ -82,7 +82,7 @@ func Summarize(entries []journal.Entry, opt Options) []Group {
 
 // Holds reports whether the entry belongs to the group.
 func (g Group) Holds(e journal.Entry) bool {
-	return groupKey(e) == tuningOf{g.Player, g.Key, g.Temperament, g.Transpose, g.Chord}
+	return groupKey(e) == tuningOf{g.Player, g.Key, g.Temperament, g.A4, g.Transpose, g.Chord}
 }
 
 // Rehearsal is the day a note was played, YYYY-MM-DD, in the time zone it

@@ -137,7 +137,7 @@ func TestSummarize(t *testing.T) {
 		t.Fatalf("groups %+v", groups)
 	}
 	ann := groups[0]
-	if ann.Name != "1/4-comma meantone" || len(ann.A4) != 1 || ann.A4[0] != 415 {
+	if ann.Name != "1/4-comma meantone" || ann.A4 != 415 {
 		t.Errorf("tuning %q %v", ann.Name, ann.A4)
 	}
 	var order []string
@@ -204,18 +204,22 @@ func TestTrendWithinRehearsals(t *testing.T) {
 }
 
 // A chord declared with --chord tunes its members just: those readings are
-// their own group, as is a transposing part's.
-func TestChordAndTranspositionAreTheirOwnGroups(t *testing.T) {
+// their own group, as are a transposing part's and another reference
+// pitch's.
+func TestChordTranspositionAndReferenceAreTheirOwnGroups(t *testing.T) {
 	plain, chord, clarinet := entry("Ann", "D4", 0, 1, 1, "C##4"), entry("Ann", "D4", 1, 3, 3, "C##4"), entry("Ann", "E4", 2, 2, 2, "Fb4")
 	chord.Chord = "D major"
 	clarinet.Transpose = "Bb" // written E4 sounds D4 on a B♭ clarinet
-	groups := Summarize([]journal.Entry{plain, chord, clarinet}, Options{Tolerance: 5})
+	at440 := entry("Ann", "D4", 3, 0, 0, "C##4")
+	at440.A4 = 440
+	groups := Summarize([]journal.Entry{plain, chord, clarinet, at440}, Options{Tolerance: 5})
 	want := []string{
 		"Ann · G major · 1/4-comma meantone · A4 = 415 Hz",
 		"Ann · G major · 1/4-comma meantone · A4 = 415 Hz · tuned to the chord D major",
 		"Ann · G major · 1/4-comma meantone · A4 = 415 Hz · written for Bb instrument",
+		"Ann · G major · 1/4-comma meantone · A4 = 440 Hz",
 	}
-	if len(groups) != 3 {
+	if len(groups) != len(want) {
 		t.Fatalf("%d groups", len(groups))
 	}
 	for i, g := range groups {
