@@ -23,16 +23,16 @@ type Options struct {
 // declared chord (readings against a chord's just targets are not pooled
 // with plain ones).
 type Group struct {
-	Player      string    `json:"player"`
-	Key         string    `json:"key"`
-	Temperament string    `json:"temperament"`         // the spec, e.g. meantone:1/4
-	Transpose   string    `json:"transpose,omitempty"` // the instrument's --transpose; notes are then written pitch
-	Chord       string    `json:"chord,omitempty"`     // the declared --chord, if any
-	Name        string    `json:"temperament_name"`
-	A4          float64   `json:"a4"`
-	Notes       []Stats   `json:"notes"`         // per spelled note with octave, along the line of fifths
-	Classes     []Stats   `json:"pitch_classes"` // per spelled note in all octaves together
-	All         Stats     `json:"all"`
+	Player      string  `json:"player"`
+	Key         string  `json:"key"`
+	Temperament string  `json:"temperament"`         // the spec, e.g. meantone:1/4
+	Transpose   string  `json:"transpose,omitempty"` // the instrument's --transpose; notes are then written pitch
+	Chord       string  `json:"chord,omitempty"`     // the declared --chord, if any
+	Name        string  `json:"temperament_name"`
+	A4          float64 `json:"a4"`
+	Notes       []Stats `json:"notes"`         // per spelled note with octave, along the line of fifths
+	Classes     []Stats `json:"pitch_classes"` // per spelled note in all octaves together
+	All         Stats   `json:"all"`
 	// Rehearsals is all the group's notes per rehearsal, with ByRehearsal.
 	Rehearsals []Stats `json:"rehearsals,omitempty"`
 }
