@@ -141,7 +141,7 @@ func textRow(w io.Writer, s Stats, opt Options) {
 // csvHeader is the CSV report's header; level is note, pitch_class (all
 // octaves together) or all. With ByRehearsal a rehearsal column follows
 // chord.
-var csvHeader = []string{"player", "key", "temperament", "transpose", "chord", "level", "note", "fifths", "count",
+var csvHeader = []string{"player", "key", "temperament", "a4", "transpose", "chord", "level", "note", "fifths", "count",
 	"mean_cents", "median_cents", "scatter_cents", "spread_cents", "vibrato_cents", "vibrato_notes", "within",
 	"share_within", "tendency", "on_other_spelling", "other_spelling", "other_spelling_mean_cents",
 	"slope_cents_per_min", "drift_cents", "span_min", "trend"}
@@ -151,7 +151,7 @@ func CSVHeader(opt Options) []string {
 	if !opt.ByRehearsal {
 		return csvHeader
 	}
-	return append(append(append([]string(nil), csvHeader[:5]...), "rehearsal"), csvHeader[5:]...)
+	return append(append(append([]string(nil), csvHeader[:6]...), "rehearsal"), csvHeader[6:]...)
 }
 
 // WriteCSV writes one row per note, pitch class and group (with
@@ -162,11 +162,9 @@ func WriteCSV(w io.Writer, groups []Group, opt Options) error {
 	cw.Write(CSVHeader(opt))
 	for _, g := range groups {
 		row := func(level string, s Stats) {
-			var r []string
+			r := []string{g.Player, g.Key, g.Temperament, strconv.FormatFloat(g.A4, 'f', -1, 64), g.Transpose, g.Chord}
 			if opt.ByRehearsal {
-				r = []string{g.Player, g.Key, g.Temperament, g.Transpose, g.Chord, s.Rehearsal}
-			} else {
-				r = []string{g.Player, g.Key, g.Temperament, g.Transpose, g.Chord}
+				r = append(r, s.Rehearsal)
 			}
 			r = append(r, level, s.Label, strconv.Itoa(s.Fifths), strconv.Itoa(s.Count))
 			r = append(r, ifAny(s.Count, fixed(s.Mean, 2), fixed(s.Median, 2))...)

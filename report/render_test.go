@@ -84,8 +84,8 @@ func TestCSV(t *testing.T) {
 	}
 	// F♯4 as in TestSummarize; no vibrato, no trend: empty, not 0.
 	want := []string{
-		"Ann,G major,meantone:1/4,,,note,F#4,6,3,6.00,6.00,1.63,2.00,,0,1,0.333,sits 6 ¢ high,0,,,,,20.00,",
-		"Ann,G major,meantone:1/4,,,note,F#5,6,1,2.00,2.00,,2.00,,0,1,1.000,in tune,1,Gb5,-0.06,,,0.00,",
+		"Ann,G major,meantone:1/4,415,,,note,F#4,6,3,6.00,6.00,1.63,2.00,,0,1,0.333,sits 6 ¢ high,0,,,,,20.00,",
+		"Ann,G major,meantone:1/4,415,,,note,F#5,6,1,2.00,2.00,,2.00,,0,1,1.000,in tune,1,Gb5,-0.06,,,0.00,",
 	}
 	for _, w := range want {
 		found := false
@@ -111,13 +111,13 @@ func TestCSVByRehearsal(t *testing.T) {
 		t.Fatal(err)
 	}
 	recs, _ := csv.NewReader(&b).ReadAll()
-	if got := strings.Join(recs[0][:7], ","); got != "player,key,temperament,transpose,chord,rehearsal,level" {
+	if got := strings.Join(recs[0][:8], ","); got != "player,key,temperament,a4,transpose,chord,rehearsal,level" {
 		t.Errorf("header starts %q", got)
 	}
 	var f4 []string
 	for _, r := range recs {
-		if r[6] == "note" && r[7] == "F#4" {
-			f4 = append(f4, r[5]+" "+r[9]+" "+r[10])
+		if r[7] == "note" && r[8] == "F#4" {
+			f4 = append(f4, r[6]+" "+r[10]+" "+r[11])
 		}
 	}
 	// 14 March: 6 and 8 ¢ → mean 7; 21 March: 4 ¢ (hand-computed).
