@@ -38,6 +38,23 @@ func (g Group) Held() string {
 	return s
 }
 
+// Summary is the line under a group's title: its notes, its rehearsals if
+// several, and its trend if known.
+func (g Group) Summary() string {
+	s := g.Held()
+	n := len(g.Dates)
+	if n > 1 {
+		s += fmt.Sprintf(" in %d rehearsals, %s to %s", n, g.Dates[0], g.Dates[n-1])
+	}
+	switch {
+	case g.All.Trend.Known && n > 1:
+		s += "; within a rehearsal, " + g.All.Trend.Words
+	case g.All.Trend.Known:
+		s += "; " + g.All.Trend.Words
+	}
+	return s
+}
+
 // Legend says once what the table's words and columns mean.
 func Legend() []string {
 	return []string{
@@ -54,11 +71,7 @@ func WriteText(out io.Writer, groups []Group, opt Options) error {
 	w := &trimmed{w: out}
 	tol := strconv.FormatFloat(opt.Tolerance, 'f', -1, 64)
 	for _, g := range groups {
-		fmt.Fprintf(w, "%s\n%s", g.Title(), g.Held())
-		if g.All.Trend.Known {
-			fmt.Fprintf(w, "; %s", g.All.Trend.Words)
-		}
-		fmt.Fprintln(w)
+		fmt.Fprintf(w, "%s\n%s\n", g.Title(), g.Summary())
 		tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 		head := []string{"note", "notes", "mean ¢", "median ¢", "scatter ¢", "spread ¢", "vibrato ¢", "within ±" + tol + " ¢",
 			"tendency", "on the other spelling", "trend"}

@@ -106,8 +106,12 @@ func TestCSVByRehearsal(t *testing.T) {
 	opt := Options{Tolerance: 5, ByRehearsal: true}
 	es := sampleEntries()
 	es[0].Time = es[0].Time.AddDate(0, 0, 7) // one F♯4 a week later
+	groups := Summarize(es, opt)
+	if got, want := groups[0].Summary(), "6 held notes (1 on the other spelling) in 2 rehearsals, 2026-03-14 to 2026-03-21"; got != want {
+		t.Errorf("summary %q, want %q", got, want)
+	}
 	var b bytes.Buffer
-	if err := WriteCSV(&b, Summarize(es, opt), opt); err != nil {
+	if err := WriteCSV(&b, groups, opt); err != nil {
 		t.Fatal(err)
 	}
 	recs, _ := csv.NewReader(&b).ReadAll()

@@ -23,16 +23,17 @@ type Options struct {
 // declared chord (readings against a chord's just targets are not pooled
 // with plain ones).
 type Group struct {
-	Player      string  `json:"player"`
-	Key         string  `json:"key"`
-	Temperament string  `json:"temperament"`         // the spec, e.g. meantone:1/4
-	Transpose   string  `json:"transpose,omitempty"` // the instrument's --transpose; notes are then written pitch
-	Chord       string  `json:"chord,omitempty"`     // the declared --chord, if any
-	Name        string  `json:"temperament_name"`
-	A4          float64 `json:"a4"`
-	Notes       []Stats `json:"notes"`         // per spelled note with octave, along the line of fifths
-	Classes     []Stats `json:"pitch_classes"` // per spelled note in all octaves together
-	All         Stats   `json:"all"`
+	Player      string   `json:"player"`
+	Key         string   `json:"key"`
+	Temperament string   `json:"temperament"`         // the spec, e.g. meantone:1/4
+	Transpose   string   `json:"transpose,omitempty"` // the instrument's --transpose; notes are then written pitch
+	Chord       string   `json:"chord,omitempty"`     // the declared --chord, if any
+	Name        string   `json:"temperament_name"`
+	A4          float64  `json:"a4"`
+	Dates       []string `json:"rehearsal_dates"` // the days its notes were played, YYYY-MM-DD, in order
+	Notes       []Stats  `json:"notes"`           // per spelled note with octave, along the line of fifths
+	Classes     []Stats  `json:"pitch_classes"`   // per spelled note in all octaves together
+	All         Stats    `json:"all"`
 	// Rehearsals is all the group's notes per rehearsal, with ByRehearsal.
 	Rehearsals []Stats `json:"rehearsals,omitempty"`
 }
@@ -66,6 +67,11 @@ func Summarize(entries []journal.Entry, opt Options) []Group {
 		es := members[k]
 		g := Group{Player: k.player, Key: k.key, Temperament: k.temperament, A4: k.a4, Transpose: k.transpose, Chord: k.chord,
 			Name: temperamentName(k.temperament)}
+		for _, e := range es {
+			g.Dates = append(g.Dates, Rehearsal(e))
+		}
+		slices.Sort(g.Dates)
+		g.Dates = slices.Compact(g.Dates)
 		g.Notes = byLabel(es, opt, target.Note.String, target.Note.String)
 		g.Classes = byLabel(es, opt, target.Note.Name, target.Note.Name)
 		g.All = describe("all", 0, "", es, opt, target.Note.Name)
