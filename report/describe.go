@@ -133,7 +133,8 @@ func Median(xs []float64) float64 {
 // share within it, so the two never contradict each other:
 //
 //	mean within ±tol, more than half the notes within:  "in tune"
-//	mean within ±tol, half or fewer within:             "scattered about the target"
+//	mean within ±tol, half or fewer within:             "scattered about the target",
+//	                                                    or "scattered, 4 ¢ high on average" past ±tol/2
 //	mean beyond, half or fewer within:                  "sits 7 ¢ high" / "sits 7 ¢ low"
 //	mean beyond, more than half within:                 "mostly in tune, a few far high"
 //
@@ -149,8 +150,10 @@ func Tendency(mean, share float64, count int, tol float64) string {
 		return ""
 	case math.Abs(mean) <= tol && most:
 		return "in tune"
-	case math.Abs(mean) <= tol:
+	case math.Abs(mean) < tol/2:
 		return "scattered about the target"
+	case math.Abs(mean) <= tol:
+		return fmt.Sprintf("scattered, %.0f ¢ %s on average", math.Abs(math.Round(mean)), way)
 	case most:
 		return "mostly in tune, a few far " + way
 	}

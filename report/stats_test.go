@@ -67,6 +67,7 @@ func TestTendencyAgreesWithTheShareWithin(t *testing.T) {
 		{-5, 0.6, 5, "in tune"},
 		{0.5, 0.4, 5, "scattered about the target"},
 		{1, 0.5, 2, "scattered about the target"}, // half is not most
+		{-4.2, 0.2, 5, "scattered, 4 ¢ low on average"},
 		{6.2, 0.2, 5, "sits 6 ¢ high"},
 		{-7.5, 0, 2, "sits 8 ¢ low"},
 		{9.2, 0.8, 5, "mostly in tune, a few far high"}, // 3, 3, 3, 3, 34: one far note pulls the mean
