@@ -300,7 +300,7 @@ func TestFilter(t *testing.T) {
 	}{
 		{"nothing asked", Filter{}, 2},
 		{"player, any case", Filter{Player: "BEN"}, 1},
-		{"key as --key takes it", Filter{Key: "g"}, 1},
+		{"key as --key takes it", Filter{Key: "G"}, 1},
 		{"key spelled out", Filter{Key: "d minor"}, 1},
 		{"since", Filter{Since: since}, 1},
 		{"nobody", Filter{Player: "Cleo"}, 0},
