@@ -148,12 +148,17 @@ func columnIndex(header string) (columns, error) {
 		c.at[strings.TrimSpace(f)] = i
 	}
 	var missing []string
+	needed := 0
 	for _, h := range Header() {
-		if _, ok := c.at[h]; !ok && !Later[h] {
+		if Later[h] {
+			continue
+		}
+		needed++
+		if _, ok := c.at[h]; !ok {
 			missing = append(missing, h)
 		}
 	}
-	if len(missing) == len(Header())-len(Later) {
+	if len(missing) == needed {
 		return columns{}, fmt.Errorf("its first line %.40q is not the journal header", header)
 	}
 	if len(missing) > 0 {

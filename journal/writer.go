@@ -299,7 +299,11 @@ func (w *Writer) Status() string {
 	if err != nil {
 		return fmt.Sprintf("journal: %v — %d not logged", err, lost)
 	}
-	return fmt.Sprintf("journal: %d notes → %s", written, w.path)
+	noun := "notes"
+	if written == 1 {
+		noun = "note"
+	}
+	return fmt.Sprintf("journal: %d %s → %s", written, noun, w.path)
 }
 
 // Err is the first failure, or nil.

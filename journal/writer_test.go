@@ -188,7 +188,7 @@ func TestStatusCountsNotes(t *testing.T) {
 	path := filepath.Join(t.TempDir(), "j.csv")
 	w, _ := Open(path, Meta{})
 	w.Write(heldAt(0, 0, 1, "mic"))
-	if s := w.Status(); s != "journal: 1 notes → "+path {
+	if s := w.Status(); s != "journal: 1 note → "+path {
 		t.Errorf("Status %q", s)
 	}
 	w.Close()

@@ -33,11 +33,14 @@ type section struct {
 // wide once clipped. On short screens the least needed parts go first
 // (spacing, the "from ET" row, the keys hint, the large glyphs), so the
 // spelled note, its cents and the status stay.
-func Layout(m *Model, w, h int) []Line {
+func Layout(m *Model, w, h int) (out []Line) {
 	if w <= 0 || h <= 0 {
 		return nil
 	}
 	bw := min(w, maxBody)
+	if m.ASCII {
+		defer func() { asciiLines(out) }()
+	}
 	if m.Help {
 		return frame(HelpLines(), w, bw, h)
 	}
@@ -57,8 +60,8 @@ func Layout(m *Model, w, h int) []Line {
 		gap(1),
 		{[]Line{InputLine(m)}, 9, false},
 		{[]Line{JournalLine(m)}, 8, false},
-		{lines(SoundLine(m)), 8, false},
-		{CautionLines(m, bw), 9, false},
+		// The caution stands with the drone line it is about: both stay or go together.
+		{append(lines(SoundLine(m)), CautionLines(m, bw)...), 9, false},
 		{[]Line{HintLine(m)}, 4, false},
 	}
 	parts = fit(parts, h)
@@ -66,14 +69,14 @@ func Layout(m *Model, w, h int) []Line {
 	for _, p := range parts {
 		total += len(p.lines)
 	}
-	var out []Line
+	var body []Line
 	for _, p := range parts {
 		if p.grow && total < h {
 			p.lines = Trace(m, bw, min(minTraceRows+h-total, maxTraceRows))
 		}
-		out = append(out, p.lines...)
+		body = append(body, p.lines...)
 	}
-	return frame(out, w, bw, h)
+	return frame(body, w, bw, h)
 }
 
 // lines is l as a section's lines: none for an empty line.

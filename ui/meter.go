@@ -42,6 +42,9 @@ type Options struct {
 	SoundLevel float64
 	// Caution is the hearing caution shown while Sound plays.
 	Caution string
+	// ASCII writes ## and bb for accidentals and ASCII marks, for
+	// terminals whose locale is not UTF-8 (ASCIILocale) or on request.
+	ASCII bool
 }
 
 // Meter is the live screen. Feed it from session.Run with OnFrame and
@@ -64,6 +67,7 @@ func New(opt Options) *Meter {
 	tu := opt.Tunings.Get()
 	model := NewModel(tu, opt.Source)
 	model.HasSound, model.SoundLevel, model.Caution = opt.Sound != nil, opt.SoundLevel, opt.Caution
+	model.ASCII = opt.ASCII
 	return &Meter{
 		opt: opt, start: tu,
 		frames: make(chan session.Frame, frameBuffer),

@@ -38,6 +38,7 @@ type Model struct {
 	Journal string // "journal: off", "journal: FILE, N notes"
 	Message string // the last key's effect, shown for messageSeconds
 	Help    bool
+	ASCII   bool   // write the screen in ASCII (## and bb for accidentals)
 	Dropped uint64 // frames the screen could not keep up with
 	soundState
 

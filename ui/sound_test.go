@@ -135,7 +135,7 @@ func TestAPitchOnTheDroneIsMarked(t *testing.T) {
 	}{{0, true}, {0.09, true}, {-0.09, true}, {0.2, false}} {
 		m := holding(quarterComma(t), fSharp4+c.off)
 		m.HasSound, m.Sounding = true, []float64{fSharp4 / 2, fSharp4, 2 * fSharp4}
-		if got := strings.HasSuffix(Words(m).Text(), " · on the drone"); got != c.want {
+		if got := strings.HasSuffix(Words(m).Text(), " · at a pitch the drone sounds (read with the drone taken out)"); got != c.want {
 			t.Errorf("%+.2f Hz from a partial: marked %v (%q)", c.off, got, Words(m).Text())
 		}
 	}

@@ -74,6 +74,10 @@ func Cents(c float64) string {
 	return minus(s)
 }
 
+// WholeCents formats signed cents rounded to a whole cent, "+41", "−3",
+// and "0" for anything that rounds to nothing.
+func WholeCents(c float64) string { return minus(fmt.Sprintf("%+.0f", c)) }
+
 // minus writes a true minus sign for a leading hyphen; "-0" and "+0" read as "0".
 func minus(s string) string {
 	if s == "-0" || s == "+0" {
@@ -87,15 +91,15 @@ func minus(s string) string {
 func TuningLine(m *Model) Line { return plain(tuningWords(m.Tuning)) }
 
 // BigLines are the held note and its cents in large glyphs, centred in w
-// columns: "F♯4 +41.1¢", drawn at the largest scale up to maxScale that fits
-// (each glyph cell scale × scale screen cells). When even scale 1 is too
-// wide the cents go, and Words carries them. Before the first note they are
-// blank.
+// columns: "F♯4 +41¢", in whole cents (the tenths are on the words line),
+// drawn at the largest scale up to maxScale that fits (each glyph cell
+// scale × scale screen cells). When even scale 1 is too wide the cents go,
+// and Words carries them. Before the first note they are blank.
 func BigLines(m *Model, w, maxScale int) []Line {
 	r, ok := m.Reading()
 	s := ""
 	if ok {
-		s = r.Written.Pretty() + " " + Cents(r.Deviation) + "¢"
+		s = r.Written.Pretty() + " " + WholeCents(r.Deviation) + "¢"
 		if BigWidth(s) > w {
 			s = r.Written.Pretty()
 		}
@@ -156,8 +160,8 @@ func Words(m *Model) Line {
 	}
 	if m.OnDrone() {
 		// The canceller took the drone's partials out here, so the note
-		// was read from its other partials.
-		l = append(l, text(" · on the drone", Other))
+		// was read from its other partials: say so, it is a weaker reading.
+		l = append(l, text(" · at a pitch the drone sounds (read with the drone taken out)", Other))
 	}
 	return l
 }
@@ -262,6 +266,11 @@ func HeldLine(m *Model) Line {
 	return plain("held " + s)
 }
 
+// silentDBFS is the level below which the input is called silent rather
+// than given a number: digital silence measures about −300 dBFS, which no
+// musician needs to read.
+const silentDBFS = -100
+
 // levelBar draws a level from -60 to 0 dBFS in ten cells.
 func levelBar(db float64) string {
 	n := 0
@@ -276,7 +285,10 @@ func levelBar(db float64) string {
 // warning and the capture's lost-audio counts.
 func InputLine(m *Model) Line {
 	lvl := "input silent " + levelBar(math.Inf(-1))
-	if !math.IsInf(m.Level, -1) && !math.IsNaN(m.Level) {
+	switch {
+	case m.Finished:
+		lvl = "no input: the input has ended"
+	case m.Level > silentDBFS:
 		lvl = fmt.Sprintf("input %s dBFS %s", minus(fmt.Sprintf("%.0f", m.Level)), levelBar(m.Level))
 	}
 	l := Line{text(lvl, Plain)}

@@ -28,6 +28,7 @@ func runDemo(e *env, args []string) error {
 	}
 	jf := addJournalFlags(fs)
 	sf := addSoundFlags(fs)
+	ascii := addScreenFlags(fs)
 	pos, err := parseFlags(e, fs, args)
 	if err != nil {
 		return err
@@ -53,7 +54,7 @@ func runDemo(e *env, args []string) error {
 	defer restore()
 	src := capture.NewPerformance(demoRate, demoScoreTones(score), true)
 	opts := session.Options{Name: "demo", Tunings: session.NewTunings(tu)}
-	err = runMeter(e.ctx, src, opts, j, meterSource{name: "the demo performance", journal: jf.log, sound: newMeterSound(sf)})
+	err = runMeter(e.ctx, src, opts, j, meterSource{name: "the demo performance", journal: jf.log, sound: newMeterSound(sf), ascii: *ascii})
 	return errors.Join(stopped(err), j.close())
 }
 

@@ -4,6 +4,7 @@ import (
 	"context"
 	"encoding/csv"
 	"errors"
+	"flag"
 	"fmt"
 	"os"
 	"path/filepath"
@@ -32,6 +33,7 @@ func runListen(e *env, args []string) error {
 	plain := fs.Bool("plain", false, "no screen: a CSV header, then one line per held note as it ends")
 	duration := fs.Duration("duration", 0, "stop cleanly after this long (e.g. 12s, 2m); 0 listens until interrupted")
 	sf := addSoundFlags(fs)
+	ascii := addScreenFlags(fs)
 	pos, err := parseFlags(e, fs, args)
 	if err != nil {
 		return err
@@ -74,7 +76,7 @@ func runListen(e *env, args []string) error {
 		// with the player's partials taken out (nothing while silent).
 		sound := newMeterSound(sf)
 		src := drone.Cancel(in, nil).Follow(sound)
-		err = runMeter(ctx, src, opts, j, meterSource{name: in.Device().Name, stats: in.Stats, journal: jf.log, sound: sound, hearsSound: true})
+		err = runMeter(ctx, src, opts, j, meterSource{name: in.Device().Name, stats: in.Stats, journal: jf.log, sound: sound, hearsSound: true, ascii: *ascii})
 	}
 	// Close before reporting, the journal first: it is complete even if a
 	// vanished device will not close.
@@ -114,6 +116,12 @@ type meterSource struct {
 	sound   *meterSound               // the drone and reference keys' sound
 	// hearsSound: the source is a microphone that may hear the sound.
 	hearsSound bool
+	ascii      bool // --ascii: the screen in ASCII whatever the locale
+}
+
+// addScreenFlags adds the meter's --ascii flag.
+func addScreenFlags(fs *flag.FlagSet) *bool {
+	return fs.Bool("ascii", false, "write the screen in ASCII (## and bb for accidentals); the default where the locale is not UTF-8")
 }
 
 // runMeter shows the meter fed by src until q, the end of ctx, or a failing
@@ -125,7 +133,7 @@ func runMeter(ctx context.Context, src capture.Source, opts session.Options, j *
 			return strings.Replace(s, ms.journal, filepath.Base(ms.journal), 1) // the screen is narrow
 		}
 		return "journal: off"
-	}, Sound: ms.sound, SoundLevel: ms.sound.opt.Level, Caution: "caution: " + hearingAdvice})
+	}, Sound: ms.sound, SoundLevel: ms.sound.opt.Level, Caution: "caution: " + hearingAdvice, ASCII: ms.ascii || ui.ASCIILocale()})
 	defer ms.sound.Close() // fades out; the meter has stopped asking
 	// Runs before the sound's close: the journal is complete (closing it
 	// again later is harmless) before any device is stopped.

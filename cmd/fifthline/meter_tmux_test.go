@@ -129,7 +129,7 @@ func TestDemoMeterInTmux(t *testing.T) {
 		}
 	}
 
-	m.waitFor(`journal: [1-9][0-9]* notes → .*rehearsal\.csv`)
+	m.waitFor(`journal: [1-9][0-9]* notes? → .*rehearsal\.csv`)
 	m.tmux("send-keys", "-t", "meter", "q")
 	if rc := m.exitStatus(); rc != "0" {
 		t.Errorf("q: exit status %s, want 0", rc)
