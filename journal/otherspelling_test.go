@@ -3,6 +3,8 @@ package journal
 import (
 	"strings"
 	"testing"
+
+	"fifthline/target"
 )
 
 // The contract's rule (interface.md, Alternative spelling): a note sits on
@@ -30,7 +32,7 @@ func TestOnOtherSpellingFollowsTheQuarterGapRule(t *testing.T) {
 		{"both spellings share a pitch (equal temperament)", 3, 3, false},
 	}
 	for _, c := range cases {
-		if got := SitsOnOther(c.cents, c.altCents); got != c.want {
+		if got := target.SitsOnOther(c.cents, c.altCents); got != c.want {
 			t.Errorf("%s: %v, want %v", c.name, got, c.want)
 		}
 	}

@@ -76,10 +76,21 @@ func (t Tuning) Classify(hz float64) Reading {
 	altTarget := t.targetPitch(r.Alt, shift)
 	r.AltHz, r.AltDeviation = t.hz(altTarget), h-altTarget
 	r.AltWritten = t.Transpose.Written(r.Alt)
-	gap := math.Abs(altTarget - bestTarget)
-	r.SamePitch = gap < samePitchCents
-	r.OnOther = !r.SamePitch && r.nearerAlt() && math.Abs(r.AltDeviation) <= gap/4
+	r.SamePitch = math.Abs(altTarget-bestTarget) < samePitchCents
+	r.OnOther = !r.SamePitch && SitsOnOther(r.Deviation, r.AltDeviation)
 	return r
+}
+
+// SitsOnOther is the contract's rule ("Alternative spelling") for a held
+// pitch read deviation cents from its note's target and altDeviation from
+// the other spelling's: it sits on the other spelling only when nearer that
+// target and within a quarter of the gap between the two targets. Both are
+// measured from the same pitch, so the gap is deviation − altDeviation; where
+// it is 0 (one pitch for both spellings) the pitch never sits on the other.
+// Journals older than the on_other_spelling column are judged by it too.
+func SitsOnOther(deviation, altDeviation float64) bool {
+	gap := math.Abs(deviation - altDeviation)
+	return gap > 0 && math.Abs(altDeviation) < math.Abs(deviation) && math.Abs(altDeviation) <= gap/4
 }
 
 // Alternative is n respelled twelve fifths away (interface contract,
