@@ -22,10 +22,10 @@ import (
 // is missing.
 func openFFmpeg(path string, channel int, kind string) (*Recording, error) {
 	if _, err := exec.LookPath("ffprobe"); err != nil {
-		if kind == "" && formatByName(path) == "" {
+		if kind = cmp.Or(kind, formatByName(path)); kind == "" {
 			return nil, fileErr(path, ErrNotAudio, "not a WAV, FLAC or MP3 file, and ffmpeg, which reads most other formats, is not installed (Debian package ffmpeg)")
 		}
-		return nil, fileErr(path, ErrUnsupported, "%s needs ffmpeg, which is not installed (Debian package ffmpeg)", cmp.Or(kind, formatByName(path)+" file"))
+		return nil, fileErr(path, ErrUnsupported, "%s needs ffmpeg, which is not installed (Debian package ffmpeg)", kind)
 	}
 	// "file:" keeps a name that starts with '-' or holds ':' a file name.
 	in := "file:" + path
@@ -33,7 +33,7 @@ func openFFmpeg(path string, channel int, kind string) (*Recording, error) {
 		"-show_entries", "stream=codec_name,sample_rate,channels:format=duration",
 		"-of", "default=noprint_wrappers=1", in).Output()
 	if err != nil {
-		return nil, fileErr(path, ErrNotAudio, "not a recording fifthline reads (ffprobe: %s)", firstLine(exitText(err)))
+		return nil, fileErr(path, ErrNotAudio, "not a recording fifthline reads (ffprobe: %s)", strings.ReplaceAll(firstLine(exitText(err)), in, path))
 	}
 	p := probeFields(out)
 	rate, _ := strconv.Atoi(p["sample_rate"])

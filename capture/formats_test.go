@@ -194,3 +194,21 @@ func TestMP3LinesUpWithFFmpeg(t *testing.T) {
 		}
 	}
 }
+
+// ReadChannels refuses slices that do not fit the recording, in one line.
+func TestReadChannelsChecksItsSlices(t *testing.T) {
+	path := soxFile(t, t.TempDir(), "duo.wav", []string{"-r", "8000", "-b", "16", "-c", "2"}, "0.1", "sine", "440", "sine", "660")
+	r, err := OpenRecording(path, 1)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer r.Close()
+	for _, dst := range [][][]float32{{make([]float32, 8)}, {make([]float32, 8), make([]float32, 4)}} {
+		if _, err := r.ReadChannels(dst); err == nil || strings.Contains(err.Error(), "\n") {
+			t.Errorf("ReadChannels(%d slices) = %v, want a one-line error", len(dst), err)
+		}
+	}
+	if n, err := r.ReadChannels([][]float32{nil, nil}); n != 0 || err != nil {
+		t.Errorf("empty slices: %d, %v; want 0, nil", n, err)
+	}
+}

@@ -2,6 +2,7 @@ package capture
 
 import (
 	"bytes"
+	"encoding/binary"
 	"io"
 
 	"github.com/hajimehoshi/go-mp3"
@@ -14,9 +15,12 @@ import (
 // Info frame, the encoder's delay and the decoder's, and the padding of the
 // last frame, as the LAME tag states them, so the samples line up with the
 // WAV the MP3 was made from.
-func newMP3(path string, r io.ReadSeeker, first []byte, channel int) (rec *Recording, err error) {
+func newMP3(path string, r io.Reader, first []byte, channel int) (rec *Recording, err error) {
 	defer decoderPanic(path, &err)
-	d, err := mp3.NewDecoder(r)
+	// Given no Seeker, the decoder does not read the whole file through
+	// first to learn its length (which more than halves its speed); the
+	// Xing/Info tag says the length.
+	d, err := mp3.NewDecoder(struct{ io.Reader }{r})
 	if err != nil {
 		return nil, fileErr(path, ErrCorrupt, "corrupt MP3 file: %v", err)
 	}
@@ -25,24 +29,21 @@ func newMP3(path string, r io.ReadSeeker, first []byte, channel int) (rec *Recor
 	if hdr.mono {
 		channels = 1
 	}
-	frames := int64(-1)
-	if d.Length() >= 0 {
-		frames = max(0, d.Length()/4-hdr.skip-hdr.padding)
-	}
 	rec = &Recording{
 		path: path, format: "MP3", encoding: "MP3",
-		rate: d.SampleRate(), channels: channels, frames: frames,
-		dec: &guarded{path: path, d: &trimmed{d: newInterleaved(d, 2, 2, sampleDecoder(tagPCM, 16)), skip: hdr.skip, left: frames}},
+		rate: d.SampleRate(), channels: channels, frames: hdr.frames,
+		dec: &guarded{path: path, d: &trimmed{d: newInterleaved(d, 2, 2, sampleDecoder(tagPCM, 16)), skip: hdr.skip, left: hdr.frames}},
 	}
 	return rec, rec.choose(channel)
 }
 
 // mp3Header is what the first frame says: the channel mode, and from a
-// Xing/Info frame with a LAME tag, how many samples the codec added before
-// and after the music.
+// Xing/Info frame, how many samples the music has (-1: not said) and, with
+// a LAME tag, how many the codec added before it.
 type mp3Header struct {
-	mono          bool
-	skip, padding int64
+	mono   bool
+	skip   int64
+	frames int64
 }
 
 // decoderDelay is the MP3 synthesis filterbank's delay in samples, which
@@ -54,16 +55,20 @@ const decoderDelay = 529
 // channel) and, after the side information (17 or 32 bytes in MPEG-1, 9 or
 // 17 in MPEG-2), a "Xing" or "Info" tag: flags, then frame count, byte
 // count, a 100-byte table and a quality as the flags say, then LAME's
-// extension (a 9-byte encoder name first) whose bytes 21-23 hold the encoder delay and padding, 12 bits
-// each.
+// extension (a 9-byte encoder name first) whose bytes 21-23 hold the
+// encoder delay and padding, 12 bits each.
 func readMP3Header(b []byte) mp3Header {
-	var h mp3Header
+	h := mp3Header{frames: -1}
 	if len(b) < 4 {
 		return h
 	}
 	h.mono = b[3]>>6 == 3
-	side := 32
-	switch mpeg1 := b[1]>>3&3 == 3; {
+	mpeg1 := b[1]>>3&3 == 3
+	side, perFrame := 32, int64(1152) // samples per Layer III frame (§2.4.2.1)
+	if !mpeg1 {
+		perFrame = 576 // MPEG-2 and 2.5 (ISO/IEC 13818-3)
+	}
+	switch {
 	case mpeg1 && h.mono:
 		side = 17
 	case !mpeg1 && h.mono:
@@ -77,17 +82,24 @@ func readMP3Header(b []byte) mp3Header {
 	}
 	flags := tag[7]
 	at := 8
+	count := int64(-1) // frames of music, the tag's own not counted
+	if flags&1 != 0 && len(tag) >= 12 {
+		count = int64(binary.BigEndian.Uint32(tag[8:12]))
+	}
 	for bit, size := range []int{4, 4, 100, 4} {
 		if flags&(1<<bit) != 0 {
 			at += size
 		}
 	}
-	h.skip = 1152 // the Info frame decodes to one frame of silence
+	h.skip = perFrame // the tag's frame decodes to one frame of silence
+	delay, padding := int64(0), int64(0)
 	if lame := tag[min(len(tag), at):]; len(lame) >= 24 && lameEncoder(lame[:4]) {
-		delay := int64(lame[21])<<4 | int64(lame[22])>>4
-		padding := int64(lame[22]&0x0f)<<8 | int64(lame[23])
-		h.skip += delay + decoderDelay
-		h.padding = max(0, padding-decoderDelay)
+		delay = int64(lame[21])<<4 | int64(lame[22])>>4 + decoderDelay
+		padding = max(0, int64(lame[22]&0x0f)<<8|int64(lame[23])-decoderDelay)
+		h.skip += delay
+	}
+	if count >= 0 {
+		h.frames = max(0, count*perFrame-delay-padding)
 	}
 	return h
 }

@@ -85,16 +85,14 @@ func sniff(r io.ReaderAt) (kind string, at int64) {
 }
 
 // formatByName guesses what a file of unknown content was meant to be from
-// its extension, for the message when ffmpeg is missing.
+// its extension, for the message when ffmpeg is missing; "" for the formats
+// read here and names that are no known recording.
 func formatByName(path string) string {
-	switch ext := strings.ToLower(filepath.Ext(path)); ext {
-	case ".wav", ".wave", ".bwf":
-		return "WAV"
-	case ".m4a", ".mp4", ".aac":
-		return "M4A/AAC"
-	case "":
-		return ""
-	default:
-		return strings.ToUpper(ext[1:])
-	}
+	return byExtension[strings.ToLower(filepath.Ext(path))]
+}
+
+var byExtension = map[string]string{
+	".m4a": "M4A/AAC", ".mp4": "M4A/AAC", ".aac": "AAC", ".3gp": "3GP",
+	".ogg": "Ogg", ".oga": "Ogg", ".opus": "Opus", ".aif": "AIFF", ".aiff": "AIFF",
+	".caf": "CAF", ".wma": "WMA", ".wv": "WavPack", ".ape": "Monkey's Audio", ".amr": "AMR",
 }

@@ -7,6 +7,13 @@ import (
 	"io/fs"
 	"os"
 	"time"
+
+	"fifthline/source"
+)
+
+var (
+	_ source.Source = (*Recording)(nil)
+	_ source.Multi  = (*Recording)(nil)
 )
 
 // Recording is an audio file opened for reading: WAV (RIFF, RF64, BW64,
