@@ -40,7 +40,8 @@ type flacDecoder struct {
 	s        *flac.Stream
 	channels int
 	block    *frame.Frame
-	at       int // next sample of block
+	at       int   // next sample of block
+	end      error // how the stream ended, said on every later call
 }
 
 func (d *flacDecoder) decode(dst [][]float32) (n int, err error) {
@@ -50,11 +51,14 @@ func (d *flacDecoder) decode(dst [][]float32) (n int, err error) {
 	}
 	for n < want {
 		if d.block == nil || d.at >= len(d.block.Subframes[0].Samples) {
-			if err := d.next(); err != nil {
-				if n > 0 && errors.Is(err, io.EOF) {
-					err = nil // the end is said on the next call
+			if d.end == nil {
+				d.end = d.next()
+			}
+			if d.end != nil {
+				if n > 0 {
+					return n, nil // the end is said on the next call
 				}
-				return n, err
+				return 0, d.end
 			}
 		}
 		k := min(want-n, len(d.block.Subframes[0].Samples)-d.at)
@@ -75,12 +79,15 @@ func (d *flacDecoder) decode(dst [][]float32) (n int, err error) {
 // next parses the next FLAC frame, checking it has every channel whole.
 func (d *flacDecoder) next() error {
 	f, err := d.s.ParseNext()
-	if err != nil {
-		if errors.Is(err, io.EOF) {
-			return io.EOF
-		}
+	switch {
+	case errors.Is(err, io.EOF):
+		return io.EOF
+	case errors.Is(err, io.ErrUnexpectedEOF):
+		return errCutShort
+	case err != nil:
 		return fmt.Errorf("corrupt FLAC frame: %w", err)
 	}
+	d.block = nil
 	if len(f.Subframes) != d.channels || f.BitsPerSample < 1 || f.BitsPerSample > 32 {
 		return fmt.Errorf("corrupt FLAC frame: %d channels of %d bits in a %d-channel stream", len(f.Subframes), f.BitsPerSample, d.channels)
 	}

@@ -212,3 +212,37 @@ func TestReadChannelsChecksItsSlices(t *testing.T) {
 		t.Errorf("empty slices: %d, %v; want 0, nil", n, err)
 	}
 }
+
+// A FLAC or MP3 file cut short (a recorder that lost power, a copy that
+// stopped) yields the samples it holds, the same as the whole file's
+// first ones, and says it was cut, as a truncated WAV does.
+func TestCutFLACAndMP3ReadWhatIsThere(t *testing.T) {
+	dir := t.TempDir()
+	orig := soxFile(t, dir, "take.wav", []string{"-r", "48000", "-b", "16"}, "2", "sine", "440")
+	whole := map[string]string{"take.flac": filepath.Join(dir, "take.flac"), "take.mp3": filepath.Join(dir, "take.mp3")}
+	sox(t, orig, whole["take.flac"])
+	ffmpeg(t, "-i", orig, "-c:a", "libmp3lame", "-b:a", "128k", whole["take.mp3"])
+	for name, path := range whole {
+		b, err := os.ReadFile(path)
+		if err != nil {
+			t.Fatal(err)
+		}
+		cut := filepath.Join(dir, "cut-"+name)
+		os.WriteFile(cut, b[:len(b)/2], 0o644)
+		full, err := OpenRecording(path, 1)
+		if err != nil {
+			t.Fatal(err)
+		}
+		want := readAll(t, full, 4096)
+		full.Close()
+		r, err := OpenRecording(cut, 1)
+		if err != nil {
+			t.Fatal(err)
+		}
+		got := readAll(t, r, 4096)
+		r.Close()
+		if !r.Truncated() || full.Truncated() || len(got) < len(want)/3 || len(got) >= len(want) || maxDiff(got, want[:len(got)]) > 0 {
+			t.Errorf("%s cut in half: %d of %d samples, Truncated %v (whole: %v)", name, len(got), len(want), r.Truncated(), full.Truncated())
+		}
+	}
+}

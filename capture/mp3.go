@@ -3,6 +3,7 @@ package capture
 import (
 	"bytes"
 	"encoding/binary"
+	"errors"
 	"io"
 
 	"github.com/hajimehoshi/go-mp3"
@@ -150,6 +151,9 @@ func (t *trimmed) decode(dst [][]float32) (int, error) {
 	clear(t.cut)
 	if t.left >= 0 {
 		t.left -= int64(n)
+	}
+	if errors.Is(err, io.EOF) && t.left > 0 {
+		err = errCutShort
 	}
 	return n, err
 }

@@ -37,6 +37,10 @@ type Recording struct {
 	closed bool
 }
 
+// errCutShort is how a decoder says the file ends inside its samples: the
+// recording ends there, and Truncated says so.
+var errCutShort = errors.New("the file ends before its samples do")
+
 // decoder yields a recording's samples channel by channel: it writes the
 // next n frames into dst[c][:n] for every channel c whose dst[c] is not
 // nil (all of the same length), skipping the others, and returns io.EOF
@@ -97,6 +101,9 @@ func (r *Recording) read(dst [][]float32) (int, error) {
 		return 0, fmt.Errorf("%s: read after close: %w", r.path, os.ErrClosed)
 	}
 	n, err := r.dec.decode(dst)
+	if errors.Is(err, errCutShort) {
+		r.truncated, err = true, io.EOF
+	}
 	if err != nil && !errors.Is(err, io.EOF) {
 		return n, fmt.Errorf("%s: reading samples: %w", r.path, err)
 	}
@@ -137,8 +144,9 @@ func (r *Recording) Format() string { return r.format }
 // Encoding describes the samples, such as "24-bit PCM" or "32-bit float".
 func (r *Recording) Encoding() string { return r.encoding }
 
-// Truncated reports a file that holds fewer samples than its header says;
-// the samples that are there are still read.
+// Truncated reports a file that holds fewer samples than its header says
+// (known from the start for WAV, at the cut for FLAC and MP3); the samples
+// that are there are still read.
 func (r *Recording) Truncated() bool { return r.truncated }
 
 // Broadcast is the Broadcast Wave bext chunk, or nil when there is none.

@@ -8,6 +8,7 @@ import (
 	"fmt"
 	"io"
 	"strconv"
+	"strings"
 	"text/tabwriter"
 
 	"fifthline/capture"
@@ -95,8 +96,11 @@ func analyzeFile(e *env, path string, tu target.Tuning, opt analyzeOptions, out 
 	if errors.Is(err, context.Canceled) {
 		return fmt.Errorf("%s: interrupted; the notes before it are written", path)
 	}
+	if err != nil && !strings.HasPrefix(err.Error(), path+": ") { // a file's own errors name it
+		err = fmt.Errorf("%s: %w", path, err)
+	}
 	if err != nil {
-		return fmt.Errorf("%s: %w", path, err)
+		return err
 	}
 	if w.Truncated() {
 		fmt.Fprintf(e.stderr, "fifthline: warning: %s is shorter than its header says; read what was there\n", path)
