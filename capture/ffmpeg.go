@@ -11,6 +11,7 @@ import (
 	"os/exec"
 	"strconv"
 	"strings"
+	"syscall"
 )
 
 // openFFmpeg reads a file fifthline has no decoder for through ffmpeg (the
@@ -46,6 +47,9 @@ func openFFmpeg(path string, channel int, kind string) (*Recording, error) {
 		return nil, fileErr(path, ErrUnsupported, "sample rate %d Hz is outside %d Hz to %d Hz", rate, minRate, maxRate)
 	}
 	cmd := exec.Command("ffmpeg", "-nostdin", "-v", "error", "-i", in, "-map", "0:a:0", "-f", "f32le", "-c:a", "pcm_f32le", "-")
+	// Its own process group: Ctrl-C at the terminal is ours to handle (the
+	// notes so far are kept), not a failure of ffmpeg's; Close ends it.
+	cmd.SysProcAttr = &syscall.SysProcAttr{Setpgid: true}
 	var stderr bytes.Buffer
 	cmd.Stderr = &limited{w: &stderr, left: 4096}
 	pipe, err := cmd.StdoutPipe()
