@@ -46,9 +46,9 @@ func readChannels(t testing.TB, r *Recording, block int) [][]float32 {
 }
 
 // Every lossless form of one multichannel take — the WAV sox wrote, FLAC
-// (sox), RF64 (ffmpeg, EBU Tech 3306's ds64) and BW64's twin under an
-// extensible header — reads through OpenRecording, by content, to exactly
-// the samples sox decodes from the original, every channel in step.
+// (sox), RF64 (ffmpeg, EBU Tech 3306's ds64), float, and AIFF (sox; read
+// through ffmpeg) — reads through OpenRecording, by content, to exactly the
+// samples sox decodes from the original, every channel in step.
 func TestLosslessFormatsReadAsTheOriginal(t *testing.T) {
 	dir := t.TempDir()
 	orig := soxFile(t, dir, "take.wav", []string{"-r", "48000", "-b", "24", "-c", "3"}, "0.4", "sine", "220", "sine", "330", "square", "440")
@@ -61,12 +61,15 @@ func TestLosslessFormatsReadAsTheOriginal(t *testing.T) {
 	sox(t, orig, flac)
 	misnamed := filepath.Join(dir, "flac-named.wav")
 	sox(t, orig, "-t", "flac", misnamed)
+	aiff := filepath.Join(dir, "take.aiff") // read through ffmpeg
+	sox(t, orig, aiff)
 	cases := []struct{ path, format, encoding string }{
 		{orig, "WAV", "24-bit PCM"},
 		{flac, "FLAC", "24-bit FLAC"},
 		{misnamed, "FLAC", "24-bit FLAC"},
 		{conv("rf64.wav", "-c:a", "pcm_s24le", "-rf64", "always"), "RF64", "24-bit PCM"},
 		{conv("f32.wav", "-c:a", "pcm_f32le"), "WAV", "32-bit float"},
+		{aiff, "ffmpeg (pcm_s24be)", "pcm_s24be"},
 	}
 	want := [][]float32{soxSamples(t, orig, 1), soxSamples(t, orig, 2), soxSamples(t, orig, 3)}
 	for _, c := range cases {

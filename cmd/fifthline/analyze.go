@@ -34,7 +34,7 @@ func runAnalyze(e *env, args []string) error {
 	fs.StringVar(&opt.format, "format", "csv", "table, csv or json")
 	fs.BoolVar(&opt.frames, "frames", false, "print the frame track (time_s,hz,confidence…) instead of held notes")
 	fs.IntVar(&opt.channel, "channel", 1, "channel to read, counted from 1")
-	fs.Var(&opt.recorded, "recorded", "when the take was played (2026-11-24, \"2026-11-24 19:30\" or RFC 3339), for the journal; default: the Broadcast Wave bext time, else the file's modification time")
+	fs.Var(&opt.recorded, "recorded", "when the take was played (2026-11-24, \"2026-11-24 19:30\" or RFC 3339), for the journal; with several files, each began then; default: each file's Broadcast Wave bext time, else its modification time")
 	jf := addJournalFlags(fs)
 	files, err := parseFlags(e, fs, args)
 	if err != nil {

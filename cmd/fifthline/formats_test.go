@@ -107,6 +107,7 @@ func TestAnalyzeReadsEveryFormatAsTheWAV(t *testing.T) {
 		{convert("take24.wav", "sox", orig, "-b", "24"), 0.01, 0}, // WAVE_FORMAT_EXTENSIBLE
 		{convert("take-float.wav", "sox", orig, "-e", "floating-point", "-b", "32"), 0.01, 0},
 		{convert("take-rf64.wav", "ffmpeg", "-c:a", "pcm_s16le", "-rf64", "always"), 0.01, 0},
+		{convert("take.aiff", "sox", orig), 0.01, 0}, // read through ffmpeg
 		{convert("take-bwf.wav", "ffmpeg", "-c:a", "pcm_s24le", "-write_bext", "1", "-metadata", "origination_date=2026-11-24"), 0.01, 0},
 		{convert("take.mp3", "ffmpeg", "-c:a", "libmp3lame", "-b:a", "320k"), 0.5, 0.025},
 		{convert("take.m4a", "ffmpeg", "-c:a", "aac", "-b:a", "320k"), 0.5, 0.025},
