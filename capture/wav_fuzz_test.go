@@ -187,3 +187,34 @@ func FuzzOpenRecording(f *testing.F) {
 		}
 	})
 }
+
+// FuzzMP3Header: any first frame gives a header without a panic, with a
+// skip and a length no hostile tag can make negative.
+// Run: go test -run '^$' -fuzz FuzzMP3Header -fuzztime 20s ./capture/
+func FuzzMP3Header(f *testing.F) {
+	info := append([]byte{0xff, 0xfb, 0x90, 0xc0}, make([]byte, 17)...)
+	info = append(info, "Info\x00\x00\x00\x0f\x00\x00\x00\x28"...)
+	info = append(info, make([]byte, 108)...)
+	info = append(info, "Lavc59.37\x00\x00\x00\x00\x00\x00\x00\x00\x00\x00\x00\x00\x24\x05\x7c"...)
+	f.Add(info)
+	f.Add([]byte{0xff, 0xf3, 0x90, 0x00})
+	f.Fuzz(func(t *testing.T, b []byte) {
+		h := readMP3Header(b)
+		if h.skip < 0 || h.frames < -1 {
+			t.Fatalf("header %+v", h)
+		}
+	})
+}
+
+// FuzzProbeFields: whatever ffprobe prints, its key=value lines parse
+// without a panic and the first value of a key wins.
+func FuzzProbeFields(f *testing.F) {
+	f.Add([]byte("codec_name=aac\nsample_rate=48000\nchannels=2\nduration=1.000000\n"))
+	f.Fuzz(func(t *testing.T, b []byte) {
+		for k, v := range probeFields(b) {
+			if strings.Contains(k, "\n") || strings.Contains(v, "\n") {
+				t.Fatalf("%q=%q spans lines", k, v)
+			}
+		}
+	})
+}

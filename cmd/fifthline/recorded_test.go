@@ -115,3 +115,23 @@ func TestAnalyzeRecordedThatIsNoTimeIsAUsageError(t *testing.T) {
 		}
 	}
 }
+
+// FuzzRecordedFlag: any --recorded value is a time or a one-line refusal.
+// Run: go test -run '^$' -fuzz FuzzRecordedFlag -fuzztime 20s ./cmd/fifthline/
+func FuzzRecordedFlag(f *testing.F) {
+	for _, s := range []string{"2026-11-24", "2026-11-24 19:30", "2026-11-24T19:30:00+01:00", "yesterday"} {
+		f.Add(s)
+	}
+	f.Fuzz(func(t *testing.T, s string) {
+		var r recordedFlag
+		if err := r.Set(s); err != nil {
+			if strings.Contains(err.Error(), "\n") {
+				t.Fatalf("error spans lines: %q", err)
+			}
+			return
+		}
+		if r.at.IsZero() && s != "0001-01-01" && !strings.HasPrefix(s, "0001-01-01") {
+			t.Fatalf("%q accepted as the zero time", s)
+		}
+	})
+}
