@@ -83,11 +83,11 @@ func (r *Recording) Read(p []float32) (int, error) {
 // len(dst) must be Channels() and every dst[c] as long as dst[0].
 func (r *Recording) ReadChannels(dst [][]float32) (int, error) {
 	if len(dst) != r.channels {
-		return 0, fmt.Errorf("%s: ReadChannels given %d slices for %d channels", r.path, len(dst), r.channels)
+		return 0, fmt.Errorf("ReadChannels given %d slices for %d channels", len(dst), r.channels)
 	}
 	for _, d := range dst {
 		if len(d) != len(dst[0]) {
-			return 0, fmt.Errorf("%s: ReadChannels given slices of different lengths", r.path)
+			return 0, errors.New("ReadChannels given slices of different lengths")
 		}
 	}
 	if len(dst[0]) == 0 {
@@ -97,15 +97,17 @@ func (r *Recording) ReadChannels(dst [][]float32) (int, error) {
 }
 
 func (r *Recording) read(dst [][]float32) (int, error) {
+	// Read errors do not repeat the path: whoever reads names the source
+	// (as analyze does), like an io.Reader's errors.
 	if r.closed {
-		return 0, fmt.Errorf("%s: read after close: %w", r.path, os.ErrClosed)
+		return 0, fmt.Errorf("read after close: %w", os.ErrClosed)
 	}
 	n, err := r.dec.decode(dst)
 	if errors.Is(err, errCutShort) {
 		r.truncated, err = true, io.EOF
 	}
 	if err != nil && !errors.Is(err, io.EOF) {
-		return n, fmt.Errorf("%s: reading samples: %w", r.path, err)
+		return n, fmt.Errorf("reading samples: %w", err)
 	}
 	return n, err
 }

@@ -8,7 +8,6 @@ import (
 	"fmt"
 	"io"
 	"strconv"
-	"strings"
 	"text/tabwriter"
 
 	"fifthline/capture"
@@ -17,7 +16,7 @@ import (
 )
 
 func init() {
-	register("analyze", "read recordings (WAV, FLAC, MP3; others through ffmpeg) and list their held notes (or the frame track)", runAnalyze)
+	register("analyze", "read WAV recordings and list their held notes (or the frame track)", runAnalyze)
 }
 
 type analyzeOptions struct {
@@ -96,11 +95,8 @@ func analyzeFile(e *env, path string, tu target.Tuning, opt analyzeOptions, out 
 	if errors.Is(err, context.Canceled) {
 		return fmt.Errorf("%s: interrupted; the notes before it are written", path)
 	}
-	if err != nil && !strings.HasPrefix(err.Error(), path+": ") { // a file's own errors name it
-		err = fmt.Errorf("%s: %w", path, err)
-	}
 	if err != nil {
-		return err
+		return fmt.Errorf("%s: %w", path, err)
 	}
 	if w.Truncated() {
 		fmt.Fprintf(e.stderr, "fifthline: warning: %s is shorter than its header says; read what was there\n", path)
