@@ -1,6 +1,8 @@
 package capture
 
 import (
+	"errors"
+	"io"
 	"testing"
 	"time"
 )
@@ -24,6 +26,32 @@ func BenchmarkInputCallback(b *testing.B) {
 		q.deliver(buf, framesPerBlock)
 		q.read(drain)
 	}
+}
+
+// BenchmarkWAVRead streams a 24-bit stereo file made by sox, first channel.
+func BenchmarkWAVRead(b *testing.B) {
+	path := soxFile(b, b.TempDir(), "bench.wav", []string{"-r", "48000", "-b", "24", "-c", "2"}, "10", "sine", "440", "sine", "660")
+	buf := make([]float32, 4096)
+	start := time.Now()
+	var samples int64
+	for b.Loop() {
+		w, err := OpenWAV(path)
+		if err != nil {
+			b.Fatal(err)
+		}
+		for {
+			n, err := w.Read(buf)
+			samples += int64(n)
+			if errors.Is(err, io.EOF) {
+				break
+			}
+			if err != nil {
+				b.Fatal(err)
+			}
+		}
+		w.Close()
+	}
+	b.ReportMetric(float64(samples)/time.Since(start).Seconds()/48000, "x-realtime")
 }
 
 // BenchmarkPerformance renders one second of the demo voice at 48 kHz with
