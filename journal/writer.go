@@ -229,12 +229,29 @@ func (w *Writer) prepare() (err error) {
 // kept for Status and Close); later notes are still tried, so the journal
 // resumes if the disk comes back.
 func (w *Writer) Write(ev session.Event) error {
+	return w.write(ev, func() time.Time {
+		run := w.run.offset(ev, w.meta.Now().Sub(w.opened).Seconds())
+		return w.opened.Add(seconds(run + ev.Start))
+	})
+}
+
+// WriteAt appends one held note of a recording that began at start (a
+// take's recording time): the note's time is start plus its offset in the
+// recording, whenever it is analysed. Otherwise it is Write.
+func (w *Writer) WriteAt(ev session.Event, start time.Time) error {
+	return w.write(ev, func() time.Time { return start.Add(seconds(ev.Start)) })
+}
+
+func seconds(s float64) time.Duration { return time.Duration(s * float64(time.Second)) }
+
+// write appends the note at the time at gives, under the lock.
+func (w *Writer) write(ev session.Event, at func() time.Time) error {
 	w.mu.Lock()
 	defer w.mu.Unlock()
 	if w.f == nil {
 		return w.tally.count(errNotOpen)
 	}
-	line := w.line(ev)
+	line := w.line(ev, at())
 	if w.torn {
 		line = append([]byte("\n"), line...)
 	}
@@ -267,8 +284,9 @@ func (w *Writer) sync(now time.Time) {
 	}
 }
 
-// line formats the event as one CSV line of Header().
-func (w *Writer) line(ev session.Event) []byte {
+// line formats the event, played at the given time, as one CSV line of
+// Header().
+func (w *Writer) line(ev session.Event, at time.Time) []byte {
 	tu := ev.Tuning
 	chord, temperament := "", ""
 	if tu.Chord != nil {
@@ -277,7 +295,6 @@ func (w *Writer) line(ev session.Event) []byte {
 	if tu.Temperament != nil {
 		temperament = tu.Temperament.Spec()
 	}
-	at := w.opened.Add(time.Duration((w.run.offset(ev, w.meta.Now().Sub(w.opened).Seconds()) + ev.Start) * float64(time.Second)))
 	rec := append([]string{
 		at.Format(TimeLayout), w.meta.Session, ev.Source, w.meta.Player, tu.Key.String(), temperament,
 		strconv.FormatFloat(tu.A4, 'f', -1, 64), tu.Transpose.Name, chord,

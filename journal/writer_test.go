@@ -82,6 +82,29 @@ func TestWriterPlacesFilesAnalysedInARowEndToEnd(t *testing.T) {
 	}
 }
 
+// A take analysed weeks after it was played keeps its own time: each note
+// is the recording's start plus its offset, whatever the clock says now.
+func TestWriterPlacesARecordingAtItsOwnTime(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "j.csv")
+	c := &clock{opening}
+	w, _ := Open(path, Meta{Now: c.now})
+	played := time.Date(2026, 2, 3, 19, 30, 5, 0, time.UTC)
+	w.WriteAt(heldAt(0, 0.5, 4, "take.wav"), played)
+	w.WriteAt(heldAt(0, 62.25, 63, "take.wav"), played)
+	w.Write(heldAt(0, 1, 2, "live")) // a live note still takes the clock
+	w.Close()
+	entries, _, _ := ReadFile(path)
+	want := []time.Time{played.Add(500 * time.Millisecond), played.Add(62250 * time.Millisecond), opening.Add(time.Second)}
+	for i, e := range entries {
+		if i >= len(want) || !e.Time.Equal(want[i]) {
+			t.Errorf("note %d at %v, want %v", i, e.Time, want[min(i, len(want)-1)])
+		}
+	}
+	if len(entries) != len(want) {
+		t.Errorf("%d notes, want %d", len(entries), len(want))
+	}
+}
+
 func equalFloats(a, b []float64) bool {
 	if len(a) != len(b) {
 		return false

@@ -20,9 +20,10 @@ func init() {
 }
 
 type analyzeOptions struct {
-	format  string
-	frames  bool
-	channel int
+	format   string
+	frames   bool
+	channel  int
+	recorded recordedFlag
 }
 
 func runAnalyze(e *env, args []string) error {
@@ -32,13 +33,14 @@ func runAnalyze(e *env, args []string) error {
 	fs.StringVar(&opt.format, "format", "csv", "table, csv or json")
 	fs.BoolVar(&opt.frames, "frames", false, "print the frame track (time_s,hz,confidence…) instead of held notes")
 	fs.IntVar(&opt.channel, "channel", 1, "channel to read, counted from 1")
+	fs.Var(&opt.recorded, "recorded", "when the take was played (2026-11-24, \"2026-11-24 19:30\" or RFC 3339), for the journal; with several files, each began then; default: each file's Broadcast Wave bext time, else its modification time")
 	jf := addJournalFlags(fs)
 	files, err := parseFlags(e, fs, args)
 	if err != nil {
 		return err
 	}
 	if len(files) == 0 {
-		return usagef("analyze needs at least one WAV file")
+		return usagef("analyze needs at least one recording (WAV, FLAC, MP3…)")
 	}
 	if opt.format != "table" && opt.format != "csv" && opt.format != "json" {
 		return usagef("--format %q: use table, csv or json", opt.format)
@@ -72,11 +74,12 @@ func runAnalyze(e *env, args []string) error {
 }
 
 func analyzeFile(e *env, path string, tu target.Tuning, opt analyzeOptions, out eventWriter, j *journalSink) error {
-	w, err := capture.OpenWAVChannel(path, opt.channel)
+	w, err := capture.OpenRecording(path, opt.channel)
 	if err != nil {
 		return err
 	}
 	defer w.Close()
+	start := takeStart(opt.recorded, w)
 	progress := newProgress(e.stderr, path, w.Duration())
 	defer progress.Done()
 	src := &countingSource{Source: w, progress: progress}
@@ -85,7 +88,7 @@ func analyzeFile(e *env, path string, tu target.Tuning, opt analyzeOptions, out 
 		Tunings: session.NewTunings(tu),
 		OnFrame: func(f session.Frame) { out.Frame(path, f) },
 		OnNote: func(ev session.Event) error {
-			j.note(ev)
+			j.noteAt(ev, start)
 			return out.Note(ev)
 		},
 	})
