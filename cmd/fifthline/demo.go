@@ -9,10 +9,6 @@ import (
 	"fifthline/target"
 )
 
-func init() {
-	register("demo", "the live meter fed by an embedded performance, no microphone needed", runDemo)
-}
-
 // demoRate is the sample rate the demo performance is rendered at.
 const demoRate = 48000
 
@@ -26,8 +22,10 @@ func runDemo(e *env, args []string) error {
 		*v = def
 		fs.Lookup(name).DefValue = def
 	}
+	mf.defaultsFrom = "the demo's score"
 	jf := addJournalFlags(fs)
 	sf := addSoundFlags(fs)
+	oldName(fs, "drone-level", "level")
 	pos, err := parseFlags(e, fs, args)
 	if err != nil {
 		return err
@@ -51,6 +49,7 @@ func runDemo(e *env, args []string) error {
 		return err
 	}
 	defer restore()
+	mf.say(e.stderr, tu)
 	src := capture.NewPerformance(demoRate, demoScoreTones(score), true)
 	opts := session.Options{Name: "demo", Tunings: session.NewTunings(tu)}
 	err = runMeter(e.ctx, src, opts, j, meterSource{name: "the demo performance", journal: jf.log, sound: newMeterSound(sf)})

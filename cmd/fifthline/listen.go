@@ -19,10 +19,6 @@ import (
 	"fifthline/ui"
 )
 
-func init() {
-	register("listen", "the live meter on an input device (--plain: one CSV line per held note)", runListen)
-}
-
 func runListen(e *env, args []string) error {
 	fs := newFlags("listen")
 	mf := addMusicalFlags(fs)
@@ -32,6 +28,7 @@ func runListen(e *env, args []string) error {
 	plain := fs.Bool("plain", false, "no screen: a CSV header, then one line per held note as it ends")
 	duration := fs.Duration("duration", 0, "stop cleanly after this long (e.g. 12s, 2m); 0 listens until interrupted")
 	sf := addSoundFlags(fs)
+	oldName(fs, "drone-level", "level")
 	pos, err := parseFlags(e, fs, args)
 	if err != nil {
 		return err
@@ -66,6 +63,7 @@ func runListen(e *env, args []string) error {
 	if err != nil {
 		return errors.Join(err, j.close())
 	}
+	mf.say(e.stderr, tu)
 	opts := session.Options{Name: in.Device().Name, Tunings: session.NewTunings(tu)}
 	if *plain {
 		err = listenPlain(ctx, e, in, opts, j)

@@ -27,7 +27,14 @@ var built struct {
 }
 
 func TestMain(m *testing.M) {
+	// The tests read the tunings they give, not a fifthline.toml the
+	// user running them keeps in their configuration folder.
+	config, err := os.MkdirTemp("", "fifthline-config-")
+	if err == nil {
+		os.Setenv("XDG_CONFIG_HOME", config)
+	}
 	code := m.Run()
+	os.RemoveAll(config)
 	if built.dir != "" {
 		os.RemoveAll(built.dir)
 	}
