@@ -122,7 +122,9 @@ func Parse(name string, data []byte, checkTemperament func(spec string) error) (
 func fileError(name string, err error) error {
 	var pe toml.ParseError
 	if errors.As(err, &pe) {
-		msg := pe.Message
+		// target's messages name flags ("--a4 -440 is outside…"); here the
+		// value is a setting.
+		msg := strings.TrimPrefix(pe.Message, "--")
 		if pe.LastKey != "" && !strings.Contains(msg, pe.LastKey) {
 			msg = pe.LastKey + ": " + msg
 		}

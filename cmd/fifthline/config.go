@@ -104,13 +104,19 @@ func tuningFiles() ([]*tuningFile, error) {
 
 // applyFiles fills the musical flags that were not given from the tuning
 // files (unless the command has its own defaults) and records where each
-// value came from.
+// value came from. Values set in code, without a flag set, stand as given.
 func (m *musicalFlags) applyFiles() error {
 	m.origin = map[string]string{}
 	given := map[string]bool{}
-	m.fs.Visit(func(f *flag.Flag) { given[f.Name] = true })
+	if m.fs == nil {
+		for _, name := range tuningfile.Fields {
+			given[name] = true
+		}
+	} else {
+		m.fs.Visit(func(f *flag.Flag) { given[f.Name] = true })
+	}
 	var files []*tuningFile
-	if m.defaultsFrom == "" {
+	if m.defaultsFrom == "" && m.fs != nil {
 		var err error
 		if files, err = tuningFiles(); err != nil {
 			return err
