@@ -4,12 +4,15 @@ import (
 	"bytes"
 	"fmt"
 	"math"
+	"os"
 	"os/exec"
 	"path/filepath"
 	"strings"
 	"syscall"
 	"testing"
 	"time"
+
+	"fifthline/internal/testsignal"
 )
 
 // scaleWAV writes held tones with sox (Debian's sox is the reference signal
@@ -155,4 +158,44 @@ func TestAnalyzeReadsTheFoldersTuning(t *testing.T) {
 	if got := strings.Join(notes, " "); got != "G4 A4 B4 C5 D5 E5 F#5 G5" {
 		t.Errorf("notes %s", got)
 	}
+}
+
+// The same on a real timbre: fluidsynth (Debian) renders a G major scale on
+// the FluidR3 violin (fluid-soundfont-gm) at A4 = 440 Hz, and sox's speed
+// effect moves it to A4 = 415 Hz by resampling (every frequency times
+// 415/440). Analysed with nothing declared, the take is named G major at
+// A4 ≈ 415 Hz, within the cent or so to which fluidsynth and FluidR3's
+// samples are tuned (TestAnalyzeHearsEachNoteOfRenderedScales).
+func TestAForgottenReferenceIsNoticedOnARenderedViolin(t *testing.T) {
+	const sf2 = "/usr/share/sounds/sf2/FluidR3_GM.sf2" // fluid-soundfont-gm
+	dir := t.TempDir()
+	var phrase []testsignal.MIDINote
+	for _, st := range []int{0, 2, 4, 5, 7, 9, 11, 12} {
+		// MIDI key 67 is G4 (MIDI 1.0 with scientific pitch notation; common practice).
+		phrase = append(phrase, testsignal.MIDINote{Key: 67 + st, Seconds: 0.5, Rest: 0.15})
+	}
+	mid, at440, at415 := filepath.Join(dir, "g.mid"), filepath.Join(dir, "g440.wav"), filepath.Join(dir, "g415.wav")
+	if err := os.WriteFile(mid, testsignal.MIDI(40, phrase), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if out, err := exec.Command("fluidsynth", "-ni", "-q", "-g", "0.6", "-r", "48000", "-F", at440, sf2, mid).CombinedOutput(); err != nil {
+		t.Fatalf("fluidsynth (make test installs it): %v\n%s", err, out)
+	}
+	if out, err := exec.Command("sox", at440, at415, "speed", fmt.Sprint(415.0/440)).CombinedOutput(); err != nil {
+		t.Fatalf("sox: %v\n%s", err, out)
+	}
+	code, _, stderr := runCLI(t, "analyze", at415)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	var a4 float64
+	i := strings.Index(stderr, "these notes fit G major at A4 ≈ ")
+	if i < 0 {
+		t.Fatalf("stderr %q names no fit in G major", stderr)
+	}
+	fmt.Sscanf(stderr[i+len("these notes fit G major at A4 ≈ "):], "%g", &a4)
+	if c := 1200 * math.Log2(a4/415); math.Abs(c) > 3 {
+		t.Errorf("fit at A4 ≈ %g Hz, %.1f ¢ from 415 Hz", a4, c)
+	}
+	t.Log(strings.TrimSpace(stderr))
 }
