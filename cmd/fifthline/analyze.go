@@ -48,7 +48,7 @@ func runAnalyze(e *env, args []string) error {
 	opt.sayTuning = sync.OnceFunc(func() { mf.say(e.stderr, tu) })
 	var out eventWriter
 	if opt.frames {
-		out = newFrameWriter(e.stdout, opt.format, len(files) > 1)
+		out = newFrameWriter(e.stdout, opt.format, len(files) > 1, tableTitle(tu, mf.whence()))
 	} else {
 		out = newNoteWriter(e.stdout, opt.format, len(files) > 1, mf.whence())
 	}

@@ -49,11 +49,13 @@ func runDemo(e *env, args []string) error {
 		return err
 	}
 	defer restore()
-	mf.say(e.stderr, tu)
 	src := capture.NewPerformance(demoRate, demoScoreTones(score), true)
 	opts := session.Options{Name: "demo", Tunings: session.NewTunings(tu)}
 	err = runMeter(e.ctx, src, opts, j, meterSource{name: "the demo performance", journal: jf.log, sound: newMeterSound(sf)})
-	return errors.Join(stopped(err), j.close())
+	if err = errors.Join(stopped(err), j.close()); err == nil {
+		mf.say(e.stderr, tu) // the screen showed it; this keeps it in the terminal
+	}
+	return err
 }
 
 // demoScoreTones turns the demo score into the tones of capture's

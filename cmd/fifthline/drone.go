@@ -1,6 +1,7 @@
 package main
 
 import (
+	"flag"
 	"fmt"
 	"strings"
 	"time"
@@ -39,7 +40,13 @@ func runDrone(e *env, args []string) error {
 	if err != nil {
 		return err
 	}
-	hz, names, err := droneTargets(tu, *notes)
+	var given *string // nil: the tonic and fifth
+	fs.Visit(func(f *flag.Flag) {
+		if f.Name == "notes" {
+			given = notes
+		}
+	})
+	hz, names, err := droneTargets(tu, given)
 	if err != nil {
 		return err
 	}
@@ -76,15 +83,16 @@ func runDrone(e *env, args []string) error {
 }
 
 // droneTargets reads --notes and finds each note's target in the tuning;
-// without --notes, the tonic in octave 3 and the fifth above it.
-func droneTargets(tu target.Tuning, list string) (hz []float64, names string, err error) {
-	if strings.TrimSpace(list) == "" {
+// without --notes (list nil), the tonic in octave 3 and the fifth above it.
+func droneTargets(tu target.Tuning, list *string) (hz []float64, names string, err error) {
+	if list == nil {
 		tonic := tu.Key.Tonic
 		tonic.Octave = 3
-		list = tonic.String() + "," + tonic.Transpose(target.Interval{Fifths: 1}).String()
+		both := tonic.String() + "," + tonic.Transpose(target.Interval{Fifths: 1}).String()
+		list = &both
 	}
 	var spelled []string
-	for _, s := range strings.Split(list, ",") {
+	for _, s := range strings.Split(*list, ",") {
 		if s = strings.TrimSpace(s); s == "" {
 			continue
 		}

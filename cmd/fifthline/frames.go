@@ -15,13 +15,13 @@ import (
 var frameColumns = []string{"time_s", "hz", "confidence", "voiced", "level_dbfs", "note", "cents"}
 
 // newFrameWriter chooses the frame-track writer for a format; hz (and the
-// reading) are empty, or null, when there is no pitch.
-func newFrameWriter(w io.Writer, format string, withFile bool) eventWriter {
+// reading) are empty, or null, when there is no pitch. title heads the table.
+func newFrameWriter(w io.Writer, format string, withFile bool, title string) eventWriter {
 	switch format {
 	case "json":
 		return &jsonFrames{jsonRows: jsonRows[frameJSON]{out: w}, withFile: withFile}
 	case "table":
-		return &tableFrames{out: w}
+		return &tableFrames{out: w, title: title}
 	}
 	header := frameColumns
 	if withFile {
@@ -95,11 +95,14 @@ func (j *jsonFrames) Frame(path string, f session.Frame) {
 type tableFrames struct {
 	frameOnly
 	out     io.Writer
+	title   string
 	started bool
 }
 
 func (t *tableFrames) Frame(_ string, f session.Frame) {
 	if !t.started {
+		_, err := fmt.Fprintln(t.out, t.title)
+		t.keep(err)
 		t.row("time", "Hz", "conf", "note", "cents")
 		t.started = true
 	}

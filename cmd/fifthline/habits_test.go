@@ -98,7 +98,7 @@ func TestDroneWithoutNotesSoundsTonicAndFifth(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	hz, names, err := droneTargets(tu, "")
+	hz, names, err := droneTargets(tu, nil)
 	if err != nil || names != "G3 D4" || len(hz) != 2 {
 		t.Fatalf("%v %q %v", hz, names, err)
 	}

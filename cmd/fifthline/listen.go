@@ -63,9 +63,9 @@ func runListen(e *env, args []string) error {
 	if err != nil {
 		return errors.Join(err, j.close())
 	}
-	mf.say(e.stderr, tu)
 	opts := session.Options{Name: in.Device().Name, Tunings: session.NewTunings(tu)}
 	if *plain {
+		mf.say(e.stderr, tu)
 		err = listenPlain(ctx, e, in, opts, j)
 	} else {
 		// The drone leaks into a microphone: the meter hears the input
@@ -77,7 +77,11 @@ func runListen(e *env, args []string) error {
 	// Close before reporting, the journal first: it is complete even if a
 	// vanished device will not close.
 	jerr := j.close()
-	return errors.Join(stopped(err), in.Close(), jerr)
+	err = errors.Join(stopped(err), in.Close(), jerr)
+	if err == nil && !*plain {
+		mf.say(e.stderr, tu) // the screen showed it; this keeps it in the terminal
+	}
+	return err
 }
 
 // listenPlain writes the contract's CSV: a header, then each held note as it

@@ -15,27 +15,6 @@ import (
 	"fifthline/internal/testsignal"
 )
 
-// scaleWAV writes held tones with sox (Debian's sox is the reference signal
-// generator: its synth frequency is the truth), 0.8 s each with 0.3 s of
-// silence after, concatenated into one take.
-func scaleWAV(t *testing.T, hz ...float64) string {
-	t.Helper()
-	dir := t.TempDir()
-	var parts []string
-	for i, f := range hz {
-		p := filepath.Join(dir, fmt.Sprintf("t%02d.wav", i))
-		if out, err := exec.Command("sox", "-n", "-r", "48000", "-b", "16", p, "synth", "0.8", "sine", fmt.Sprint(f), "gain", "-6", "pad", "0", "0.3").CombinedOutput(); err != nil {
-			t.Fatalf("sox: %v\n%s", err, out)
-		}
-		parts = append(parts, p)
-	}
-	take := filepath.Join(dir, "take.wav")
-	if out, err := exec.Command("sox", append(parts, take)...).CombinedOutput(); err != nil {
-		t.Fatalf("sox: %v\n%s", err, out)
-	}
-	return take
-}
-
 // equalScale is G4 A4 B4 C5 D5 E5 F#5 G5 in equal temperament at a4, from
 // its definition (each semitone 2^(1/12); G4 two semitones below A4).
 func equalScale(a4 float64) []float64 {
@@ -50,7 +29,7 @@ func equalScale(a4 float64) []float64 {
 // but analysed at the default 440 reads as F♯, G♯, B♭…: analyze says so and
 // names the key and reference that fit.
 func TestAForgottenReferenceIsNoticed(t *testing.T) {
-	take := scaleWAV(t, equalScale(415)...)
+	take := toneWAV(t, equalScale(415)...)
 	code, out, stderr := runCLI(t, "analyze", "--key", "G major", take)
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, stderr)
@@ -74,7 +53,7 @@ func TestAForgottenReferenceIsNoticed(t *testing.T) {
 // Notes a steady 20 ¢ sharp in the declared key: a reference of
 // 440·2^(20/1200) = 445.11 Hz fits them.
 func TestASteadyOffsetIsNoticed(t *testing.T) {
-	take := scaleWAV(t, equalScale(440*math.Exp2(20.0/1200))...)
+	take := toneWAV(t, equalScale(440*math.Exp2(20.0/1200))...)
 	_, _, stderr := runCLI(t, "analyze", "--key", "G major", "--a4", "440", take)
 	for _, want := range []string{"sit a steady 20.0 ¢ sharp", "these notes fit G major at A4 ≈ 445.1 Hz"} {
 		if !strings.Contains(stderr, want) {
@@ -92,7 +71,7 @@ func TestTheTableSumsUpEachTake(t *testing.T) {
 	// A4 by fifths: D4 = A4/qc, G4 = A4/qc²·2, E5 = A4·qc, and G♭4 (nine
 	// fifths below A4) = A4·32/qc^9. The last two notes are played 6 ¢ flat.
 	flat := math.Exp2(-6.0 / 1200)
-	take := scaleWAV(t, a/qc, a/(qc*qc)*2, a*32/math.Pow(qc, 9), a*qc*flat, a*flat)
+	take := toneWAV(t, a/qc, a/(qc*qc)*2, a*32/math.Pow(qc, 9), a*qc*flat, a*flat)
 	code, out, stderr := runCLI(t, "analyze", "--format", "table", "--temperament", "meantone:1/4", take)
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, stderr)
@@ -145,7 +124,7 @@ func TestAnalyzeReadsTheFoldersTuning(t *testing.T) {
 	if code, _, stderr := inFolder(t, dir, config, "tuning", "--save", "--key", "G major", "--a4", "415"); code != 0 {
 		t.Fatal(stderr)
 	}
-	take := scaleWAV(t, equalScale(415)...)
+	take := toneWAV(t, equalScale(415)...)
 	code, out, stderr := inFolder(t, dir, config, "analyze", take)
 	if code != 0 || strings.Contains(stderr, "warning") || !strings.Contains(stderr, "key, a4 from ./fifthline.toml") {
 		t.Fatalf("exit %d, stderr %q", code, stderr)
