@@ -11,6 +11,9 @@ import (
 	"io"
 	"runtime/debug"
 	"strings"
+
+	"fifthline/target"
+	"fifthline/tuningfile"
 )
 
 // version is set at build time (make install passes git describe); a
@@ -95,6 +98,12 @@ func printUsage(w io.Writer, fs *flag.FlagSet) {
 		}
 		fmt.Fprintf(w, "%s\n      %s\n", line, usage)
 	})
+	// Commands with the usual defaults read the tuning files (the demo
+	// keeps its score's tuning instead).
+	if k := fs.Lookup("key"); k != nil && k.DefValue == target.Default().Key.String() {
+		fmt.Fprintf(w, "\nAbsent musical flags come from ./%s (this folder's tuning), else from\n%s, else the defaults;\n'fifthline tuning' shows which, 'fifthline tuning --save' keeps flags for this folder.\n",
+			tuningfile.Name, showPath(userTuningPath()))
+	}
 }
 
 // valueNames name what a flag takes, as the README writes it.

@@ -14,7 +14,7 @@ func runReport(e *env, args []string) error {
 	fs := newFlags("report")
 	plotPath := fs.String("plot", "", "also draw the report into FILE.png or FILE.svg")
 	format := choiceFlag(fs, "format", "what to print", "table", "csv", "json")
-	tolerance := fs.Float64("tolerance", 5, "cents either side of the target that count as in tune")
+	tolerance := fs.Float64("tolerance", inTuneCents, "cents either side of the target that count as in tune")
 	var f report.Filter
 	fs.StringVar(&f.Player, "player", "", "only this player's notes")
 	fs.StringVar(&f.Key, "key", "", "only notes played in this key, e.g. \"G major\"")
