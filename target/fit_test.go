@@ -2,6 +2,7 @@ package target
 
 import (
 	"math"
+	"strings"
 	"testing"
 )
 
@@ -81,5 +82,25 @@ func TestATakeInTuneFitsAsDeclared(t *testing.T) {
 	c := declared.CheckTake(equalHz(440, gMajorScale...))
 	if c.OutOfScale != 0 || c.Fits != 8 || c.BestFits != 8 || c.Best.Key != declared.Key || math.Abs(c.Best.A4-440) > 1e-9 {
 		t.Errorf("%+v", c)
+	}
+}
+
+// The notes a take is judged "in the key" by are the key's seven: those of
+// the key-signature table (scales, in key_test.go), none of the window's other five.
+func TestInScaleIsTheKeysSevenNotes(t *testing.T) {
+	for _, tc := range scales {
+		k, err := ParseKey(tc.key)
+		if err != nil {
+			t.Fatal(err)
+		}
+		in := map[string]bool{}
+		for _, name := range strings.Fields(tc.notes) {
+			in[name] = true
+		}
+		for _, n := range k.Window() {
+			if k.inScale(n) != in[n.Name()] {
+				t.Errorf("%s: %s in scale = %v", tc.key, n.Name(), k.inScale(n))
+			}
+		}
 	}
 }
