@@ -210,7 +210,8 @@ func TestListenDurationStopsCleanlyWithTheHeaderWritten(t *testing.T) {
 	start := time.Now()
 	code, out, stderr := startPlain(t, env, "--duration", "1s")()
 	// stderr holds only the tuning in force, said since no flag set it.
-	if code != 0 || stderr != "fifthline: tuning C major · equal temperament · A4 = 440 Hz (key, temperament, a4 by default)\n" ||
+	if code != 0 || strings.Count(stderr, "\n") != 1 || !strings.HasPrefix(stderr, "fifthline: tuning C major · equal temperament · A4 = 440 Hz") ||
+		!strings.HasSuffix(stderr, "(key, temperament, a4 by default)\n") ||
 		!strings.HasPrefix(out, "start_s,end_s,note,hz,target_hz,cents,alt_note,alt_cents") {
 		t.Errorf("exit %d, stderr %q, stdout %q", code, stderr, out)
 	}
