@@ -5,7 +5,13 @@ GO     ?= $(shell command -v go || echo /usr/local/go/bin/go)
 BIN    := bin/fifthline
 export PATH := $(PATH):/usr/local/go/bin
 
-.PHONY: all deps build demo test vet fuzz bench clean
+# Where 'make install' puts the program: PREFIX/bin/fifthline. The default,
+# ~/.local/bin, needs no root; 'sudo make install PREFIX=/usr/local' puts it
+# in /usr/local/bin for everyone.
+PREFIX  ?= $(HOME)/.local
+VERSION := $(shell git describe --tags --always --dirty 2>/dev/null || echo unknown)
+
+.PHONY: all deps build install uninstall demo test vet fuzz bench clean
 
 all: build
 
@@ -13,7 +19,15 @@ deps:
 	@scripts/install-deps
 
 build: deps
-	$(GO) build -o $(BIN) ./cmd/fifthline
+	$(GO) build -ldflags "-X main.version=$(VERSION)" -o $(BIN) ./cmd/fifthline
+
+install: build
+	install -D -m 755 $(BIN) $(DESTDIR)$(PREFIX)/bin/fifthline
+	@echo "installed $(DESTDIR)$(PREFIX)/bin/fifthline ($(VERSION))"
+	@case ":$$PATH:" in *":$(PREFIX)/bin:"*) ;; *) echo "note: $(PREFIX)/bin is not on your PATH; add it, e.g. in ~/.profile: PATH=\"$(PREFIX)/bin:\$$PATH\"";; esac
+
+uninstall:
+	rm -f $(DESTDIR)$(PREFIX)/bin/fifthline
 
 # The meter on the embedded demo performance; q quits.
 demo: build

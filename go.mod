@@ -3,6 +3,7 @@ module fifthline
 go 1.26.0
 
 require (
+	github.com/BurntSushi/toml v1.6.0
 	github.com/gdamore/tcell/v2 v2.13.10
 	github.com/gordonklaus/portaudio v0.0.0-20250206071425-98a94950218b
 	github.com/hajimehoshi/go-mp3 v0.3.4

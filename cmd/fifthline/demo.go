@@ -9,10 +9,6 @@ import (
 	"fifthline/target"
 )
 
-func init() {
-	register("demo", "the live meter fed by an embedded performance, no microphone needed", runDemo)
-}
-
 // demoRate is the sample rate the demo performance is rendered at.
 const demoRate = 48000
 
@@ -26,8 +22,10 @@ func runDemo(e *env, args []string) error {
 		*v = def
 		fs.Lookup(name).DefValue = def
 	}
+	mf.defaultsFrom = "the demo's score"
 	jf := addJournalFlags(fs)
 	sf := addSoundFlags(fs)
+	oldName(fs, "drone-level", "level")
 	ascii := addScreenFlags(fs)
 	pos, err := parseFlags(e, fs, args)
 	if err != nil {
@@ -55,7 +53,10 @@ func runDemo(e *env, args []string) error {
 	src := capture.NewPerformance(demoRate, demoScoreTones(score), true)
 	opts := session.Options{Name: "demo", Tunings: session.NewTunings(tu)}
 	err = runMeter(e.ctx, src, opts, j, meterSource{name: "the demo performance", journal: jf.log, sound: newMeterSound(sf), ascii: *ascii})
-	return errors.Join(stopped(err), j.close())
+	if err = errors.Join(stopped(err), j.close()); err == nil {
+		mf.say(e.stderr, tu) // the screen showed it; this keeps it in the terminal
+	}
+	return err
 }
 
 // demoScoreTones turns the demo score into the tones of capture's

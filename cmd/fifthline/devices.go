@@ -8,10 +8,6 @@ import (
 	"fifthline/capture"
 )
 
-func init() {
-	register("devices", "the audio devices PortAudio sees, defaults marked", runDevices)
-}
-
 func runDevices(e *env, args []string) error {
 	fs := newFlags("devices")
 	pos, err := parseFlags(e, fs, args)

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"flag"
 	"fmt"
 	"strings"
 	"time"
@@ -10,18 +11,14 @@ import (
 	"fifthline/target"
 )
 
-func init() {
-	register("drone", "sound the given notes at their targets as a drone (quietly; Ctrl-C stops)", runDrone)
-}
-
 func runDrone(e *env, args []string) error {
 	fs := newFlags("drone")
 	mf := addMusicalFlags(fs)
-	notes := fs.String("notes", "", "spelled notes to sound, comma-separated, e.g. G3,D4")
+	notes := fs.String("notes", "", "spelled notes to sound, comma-separated, e.g. G3,D4 (default: the key's tonic in octave 3 and the fifth above)")
 	duration := fs.Duration("duration", 0, "stop after this long, e.g. 30s (default: until Ctrl-C)")
-	level := fs.Float64("level", playback.DefaultLevel, fmt.Sprintf("peak of all notes together in dBFS, at most %g", playback.MaxLevel))
-	timbre := fs.String("timbre", "reed", "pure, reed or string")
-	device := fs.String("device", "", "output device: index or part of the name (fifthline devices lists them)")
+	sf := addSoundFlags(fs)
+	oldName(fs, "device", "output")
+	timbre := choiceFlag(fs, "timbre", "the drone's sound", "reed", "pure", "string")
 	pos, err := parseFlags(e, fs, args)
 	if err != nil {
 		return err
@@ -29,7 +26,7 @@ func runDrone(e *env, args []string) error {
 	if len(pos) > 0 {
 		return usagef("drone takes no arguments (got %q); give the notes with --notes", pos[0])
 	}
-	if err := checkLevelFlag("--level", *level); err != nil {
+	if err := sf.check(); err != nil {
 		return err
 	}
 	if *duration < 0 {
@@ -43,17 +40,24 @@ func runDrone(e *env, args []string) error {
 	if err != nil {
 		return err
 	}
-	hz, names, err := droneTargets(tu, *notes)
+	var given *string // nil: the tonic and fifth
+	fs.Visit(func(f *flag.Flag) {
+		if f.Name == "notes" {
+			given = notes
+		}
+	})
+	hz, names, err := droneTargets(tu, given)
 	if err != nil {
 		return err
 	}
-	p, err := playback.NewPlayer(playback.Options{Device: *device, Level: *level, Timbre: tb})
+	p, err := playback.NewPlayer(playback.Options{Device: sf.output, Level: sf.level, Timbre: tb})
 	if err != nil {
 		return err
 	}
 	// Said before any sound, after the device has opened (silently), so a
 	// device error stays the only line.
-	fmt.Fprintf(e.stderr, "fifthline: caution: %s; peak level %g dBFS, fading in\n", hearingAdvice, *level)
+	mf.say(e.stderr, tu)
+	fmt.Fprintf(e.stderr, "fifthline: caution: %s; peak level %g dBFS, fading in\n", hearingAdvice, sf.level)
 	fmt.Fprintf(e.stderr, "fifthline: drone %s (%s) on %q · %s; Ctrl-C stops\n", names, hzList(hz), p.Device().Name, tu)
 	p.SetDrone(hz)
 	var timeout <-chan time.Time
@@ -78,10 +82,17 @@ func runDrone(e *env, args []string) error {
 	}
 }
 
-// droneTargets reads --notes and finds each note's target in the tuning.
-func droneTargets(tu target.Tuning, list string) (hz []float64, names string, err error) {
+// droneTargets reads --notes and finds each note's target in the tuning;
+// without --notes (list nil), the tonic in octave 3 and the fifth above it.
+func droneTargets(tu target.Tuning, list *string) (hz []float64, names string, err error) {
+	if list == nil {
+		tonic := tu.Key.Tonic
+		tonic.Octave = 3
+		both := tonic.String() + "," + tonic.Transpose(target.Interval{Fifths: 1}).String()
+		list = &both
+	}
 	var spelled []string
-	for _, s := range strings.Split(list, ",") {
+	for _, s := range strings.Split(*list, ",") {
 		if s = strings.TrimSpace(s); s == "" {
 			continue
 		}

@@ -134,8 +134,7 @@ func TestDroneRefusesLevelsAboveTheLimit(t *testing.T) {
 		{"drone", "--notes", "G3", "--level", "-3"},
 		{"drone", "--notes", "G3", "--level", "0"},
 		{"drone", "--notes", "H3"},
-		{"drone", "--notes", ""},
-		{"drone"},
+		{"drone", "--notes", ""}, // given, but empty (without --notes, the tonic and fifth sound)
 		{"drone", "--notes", "G3", "--timbre", "organ"},
 		{"drone", "--notes", "G3", "--duration", "-1s"},
 	} {

@@ -20,10 +20,6 @@ import (
 	"fifthline/ui"
 )
 
-func init() {
-	register("listen", "the live meter on an input device (--plain: one CSV line per held note)", runListen)
-}
-
 func runListen(e *env, args []string) error {
 	fs := newFlags("listen")
 	mf := addMusicalFlags(fs)
@@ -33,6 +29,7 @@ func runListen(e *env, args []string) error {
 	plain := fs.Bool("plain", false, "no screen: a CSV header, then one line per held note as it ends")
 	duration := fs.Duration("duration", 0, "stop cleanly after this long (e.g. 12s, 2m); 0 listens until interrupted")
 	sf := addSoundFlags(fs)
+	oldName(fs, "drone-level", "level")
 	ascii := addScreenFlags(fs)
 	pos, err := parseFlags(e, fs, args)
 	if err != nil {
@@ -70,6 +67,7 @@ func runListen(e *env, args []string) error {
 	}
 	opts := session.Options{Name: in.Device().Name, Tunings: session.NewTunings(tu)}
 	if *plain {
+		mf.say(e.stderr, tu)
 		err = listenPlain(ctx, e, in, opts, j)
 	} else {
 		// The drone leaks into a microphone: the meter hears the input
@@ -81,7 +79,11 @@ func runListen(e *env, args []string) error {
 	// Close before reporting, the journal first: it is complete even if a
 	// vanished device will not close.
 	jerr := j.close()
-	return errors.Join(stopped(err), in.Close(), jerr)
+	err = errors.Join(stopped(err), in.Close(), jerr)
+	if err == nil && !*plain {
+		mf.say(e.stderr, tu) // the screen showed it; this keeps it in the terminal
+	}
+	return err
 }
 
 // listenPlain writes the contract's CSV: a header, then each held note as it

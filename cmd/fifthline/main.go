@@ -1,18 +1,16 @@
 // Command fifthline hears held notes and names them as spelled notes in a
-// declared key, temperament and reference pitch; see README.md and
-// ../../../shared/interface.md for the command-line contract.
+// declared key, temperament and reference pitch; README.md is for its users
+// and docs/interface.md is the command-line contract.
 package main
 
 import (
 	"context"
 	"errors"
-	"flag"
 	"fmt"
 	"io"
 	"os"
 	"os/signal"
 	"runtime/pprof"
-	"sort"
 	"strings"
 	"syscall"
 )
@@ -26,16 +24,36 @@ type env struct {
 	stderr io.Writer
 }
 
+// command is one of fifthline's commands; args is what follows the flags
+// on its usage line.
 type command struct {
-	run     func(e *env, args []string) error
-	summary string
+	name, args, summary string
+	run                 func(e *env, args []string) error
 }
 
-var commands = map[string]command{}
+// commandTable is every command, in the order help lists them: what a
+// musician does first comes first.
+func commandTable() []command {
+	return []command{
+		{"targets", "", "the key's twelve spelled notes and where each should sound", runTargets},
+		{"listen", "", "the live meter on an input device (--plain: one CSV line per held note)", runListen},
+		{"demo", "", "the live meter fed by an embedded performance, no microphone needed", runDemo},
+		{"drone", "", "sound the tonic and fifth, or --notes, at their targets (quietly; Ctrl-C stops)", runDrone},
+		{"analyze", "FILE...", "read recordings and list their held notes (or the frame track)", runAnalyze},
+		{"report", "JOURNAL...", "how each spelled note sat over rehearsals, from journals written with --log", runReport},
+		{"tuning", "", "the tuning in force and where it comes from; --save keeps it for this folder", runTuning},
+		{"devices", "", "the audio devices PortAudio sees, defaults marked", runDevices},
+	}
+}
 
-// register adds a command; each command's file registers itself in init.
-func register(name, summary string, run func(e *env, args []string) error) {
-	commands[name] = command{run: run, summary: summary}
+// lookupCommand finds a command by name.
+func lookupCommand(name string) (command, bool) {
+	for _, c := range commandTable() {
+		if c.name == name {
+			return c, true
+		}
+	}
+	return command{}, false
 }
 
 // usageError is a mistake in how the program was called: exit status 2.
@@ -87,14 +105,24 @@ func run(e *env, args []string) (code int) {
 			code = 1
 		}
 	}()
-	if len(args) == 0 || args[0] == "help" || args[0] == "-h" || args[0] == "--help" {
+	switch {
+	case len(args) == 0:
 		printHelp(e.stderr)
-		if len(args) == 0 {
-			return 2
-		}
+		return 2
+	case args[0] == "-h" || args[0] == "--help" || args[0] == "-help":
+		printHelp(e.stdout)
+		return 0
+	case args[0] == "--version" || args[0] == "-version" || args[0] == "version":
+		fmt.Fprintln(e.stdout, "fifthline", programVersion())
+		return 0
+	case args[0] == "help" && len(args) > 1:
+		// "fifthline help analyze" is "fifthline analyze -h".
+		args = []string{args[1], "-h"}
+	case args[0] == "help":
+		printHelp(e.stdout)
 		return 0
 	}
-	cmd, ok := commands[args[0]]
+	cmd, ok := lookupCommand(args[0])
 	if !ok {
 		fmt.Fprintf(e.stderr, "fifthline: unknown command %q (try: %s)\n", args[0], strings.Join(commandNames(), ", "))
 		return 2
@@ -113,62 +141,24 @@ func run(e *env, args []string) (code int) {
 	}
 }
 
-// doubleDash spells flag names in the flag package's messages the way this
-// program documents them, with two dashes.
-var doubleDash = strings.NewReplacer("flag -", "flag --", "argument: -", "argument: --", "defined: -", "defined: --")
-
 func oneLine(s string) string { return strings.Join(strings.Fields(s), " ") }
 
 func commandNames() []string {
 	var names []string
-	for n := range commands {
-		names = append(names, n)
+	for _, c := range commandTable() {
+		names = append(names, c.name)
 	}
-	sort.Strings(names)
 	return names
 }
 
 func printHelp(w io.Writer) {
 	fmt.Fprintln(w, "fifthline — hear a held note as the spelled note your key and temperament mean")
-	fmt.Fprintln(w, "\nusage: fifthline COMMAND [flags]\n\ncommands:")
-	for _, n := range commandNames() {
-		fmt.Fprintf(w, "  %-9s %s\n", n, commands[n].summary)
+	fmt.Fprintln(w, "\nusage: fifthline COMMAND [flags] [FILE or JOURNAL...]\n\ncommands:")
+	for _, c := range commandTable() {
+		fmt.Fprintf(w, "  %-9s %s\n", c.name, c.summary)
 	}
 	fmt.Fprintln(w, "\nmusical flags: --key \"G major\" --temperament equal|meantone:1/4|edo:31|… --a4 440")
 	fmt.Fprintln(w, "               --anchor a4|tonic --chord \"D major\" --transpose Bb")
-	fmt.Fprintln(w, "'fifthline COMMAND -h' lists a command's flags.")
-}
-
-// newFlags makes a flag set that reports errors as usage errors instead of
-// printing to stderr itself.
-func newFlags(name string) *flag.FlagSet {
-	fs := flag.NewFlagSet(name, flag.ContinueOnError)
-	fs.SetOutput(io.Discard)
-	return fs
-}
-
-// parseFlags parses flags that may come before, between or after positional
-// arguments, and returns the positional ones. -h prints the command's flags.
-func parseFlags(e *env, fs *flag.FlagSet, args []string) ([]string, error) {
-	var pos []string
-	for {
-		if err := fs.Parse(args); err != nil {
-			if errors.Is(err, flag.ErrHelp) {
-				fs.SetOutput(e.stderr)
-				fmt.Fprintf(e.stderr, "usage: fifthline %s [flags]\n", fs.Name())
-				fs.PrintDefaults()
-				return nil, errHelp
-			}
-			return nil, usagef("%s: %s", fs.Name(), doubleDash.Replace(err.Error()))
-		}
-		args = fs.Args()
-		if len(args) == 0 {
-			return pos, nil
-		}
-		if args[0] == "--" {
-			return append(pos, args[1:]...), nil
-		}
-		pos = append(pos, args[0])
-		args = args[1:]
-	}
+	fmt.Fprintln(w, "               (absent ones come from ./fifthline.toml, see 'fifthline help tuning')")
+	fmt.Fprintln(w, "'fifthline help COMMAND' lists a command's flags; 'fifthline --version' says which fifthline this is.")
 }

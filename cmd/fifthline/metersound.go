@@ -34,12 +34,12 @@ type soundFlags struct {
 
 func addSoundFlags(fs *flag.FlagSet) *soundFlags {
 	f := &soundFlags{}
-	fs.Float64Var(&f.level, "drone-level", playback.DefaultLevel, fmt.Sprintf("peak of the d key's drone and the s key's reference tone together, in dBFS, at most %g", playback.MaxLevel))
-	fs.StringVar(&f.output, "output", "", "output device for the drone and reference tones: index or part of the name (default: the system's default output)")
+	fs.Float64Var(&f.level, "level", playback.DefaultLevel, fmt.Sprintf("peak of everything fifthline sounds together (drone, reference tone), in dBFS, at most %g", playback.MaxLevel))
+	fs.StringVar(&f.output, "output", "", "output device for the sound: index or part of the name as 'fifthline devices' lists it (default: the system's default output)")
 	return f
 }
 
-func (f *soundFlags) check() error { return checkLevelFlag("--drone-level", f.level) }
+func (f *soundFlags) check() error { return checkLevelFlag("--level", f.level) }
 
 // meterSound is the meter's drone and reference tones on an output device
 // opened at the first key press that asks for sound, so a machine without

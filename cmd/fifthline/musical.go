@@ -15,10 +15,14 @@ import (
 // notes, plus our extensions.
 type musicalFlags struct {
 	key, temperament, a4, anchor, chord, transpose string
+
+	fs           *flag.FlagSet     // to tell given flags from defaults (config.go)
+	origin       map[string]string // where each value came from (config.go)
+	defaultsFrom string            // a command's own defaults, in place of the tuning files
 }
 
 func addMusicalFlags(fs *flag.FlagSet) *musicalFlags {
-	m := &musicalFlags{}
+	m := &musicalFlags{fs: fs}
 	fs.StringVar(&m.key, "key", "C major", "tonic and mode, e.g. \"G major\", \"f# minor\", \"D dorian\"")
 	fs.StringVar(&m.temperament, "temperament", "equal", "equal, pythagorean, meantone:P/Q, fifth:CENTS, edo:N, werckmeister3, kirnberger3, vallotti, young, just, or a temperament file (names as the meter shows them work too: \"Werckmeister III\", \"quarter-comma\", \"31-EDO\")")
 	fs.StringVar(&m.a4, "a4", "440", "reference pitch in Hz (380-480): A4 sits exactly here, except in just, which keeps its tonic where equal temperament puts it")
@@ -31,7 +35,10 @@ func addMusicalFlags(fs *flag.FlagSet) *musicalFlags {
 // tuning turns the flags into a Tuning; every problem is a usage error.
 func (m *musicalFlags) tuning() (target.Tuning, error) {
 	var t target.Tuning
-	var err error
+	err := m.applyFiles()
+	if err != nil {
+		return t, err
+	}
 	if t.Key, err = target.ParseKey(m.key); err != nil {
 		return t, usageError{"--key: " + err.Error()}
 	}

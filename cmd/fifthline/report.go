@@ -10,15 +10,11 @@ import (
 	"fifthline/report"
 )
 
-func init() {
-	register("report", "how each spelled note sat over rehearsals, from journals written with --log", runReport)
-}
-
 func runReport(e *env, args []string) error {
 	fs := newFlags("report")
 	plotPath := fs.String("plot", "", "also draw the report into FILE.png or FILE.svg")
-	format := fs.String("format", "table", "table, csv or json")
-	tolerance := fs.Float64("tolerance", 5, "cents either side of the target that count as in tune")
+	format := choiceFlag(fs, "format", "what to print", "table", "csv", "json")
+	tolerance := fs.Float64("tolerance", inTuneCents, "cents either side of the target that count as in tune")
 	by := fs.String("by", "", "rehearsal: a row per note per rehearsal (recording date), to see progress")
 	var f report.Filter
 	fs.StringVar(&f.Player, "player", "", "only this player's notes")
@@ -30,9 +26,6 @@ func runReport(e *env, args []string) error {
 	}
 	if len(paths) == 0 {
 		return usagef("report needs one or more journal files (written with --log)")
-	}
-	if *format != "table" && *format != "csv" && *format != "json" {
-		return usagef("--format %q: use table, csv or json", *format)
 	}
 	if *by != "" && *by != "rehearsal" {
 		return usagef("--by %q: the only choice is --by rehearsal", *by)

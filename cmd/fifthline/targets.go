@@ -10,14 +10,10 @@ import (
 	"fifthline/target"
 )
 
-func init() {
-	register("targets", "the key's twelve spelled notes and where each should sound", runTargets)
-}
-
 func runTargets(e *env, args []string) error {
 	fs := newFlags("targets")
 	mf := addMusicalFlags(fs)
-	format := fs.String("format", "table", "table or csv")
+	format := choiceFlag(fs, "format", "what to print", "table", "csv")
 	octave := fs.Int("octave", 4, "octave (scientific pitch notation) of the listed notes")
 	pos, err := parseFlags(e, fs, args)
 	if err != nil {
@@ -33,14 +29,12 @@ func runTargets(e *env, args []string) error {
 	if err != nil {
 		return err
 	}
+	mf.say(e.stderr, tu)
 	rows := targetRows(tu, *octave)
-	switch *format {
-	case "csv":
+	if *format == "csv" {
 		return writeTargetsCSV(e, tu, rows)
-	case "table":
-		return writeTargetsTable(e, tu, rows)
 	}
-	return usagef("--format %q: use table or csv", *format)
+	return writeTargetsTable(e, tu, mf.whence(), rows)
 }
 
 type targetRow struct {
@@ -106,8 +100,8 @@ func writeTargetsCSV(e *env, tu target.Tuning, rows []targetRow) error {
 	return w.Error()
 }
 
-func writeTargetsTable(e *env, tu target.Tuning, rows []targetRow) error {
-	fmt.Fprintln(e.stdout, tu)
+func writeTargetsTable(e *env, tu target.Tuning, whence string, rows []targetRow) error {
+	fmt.Fprintln(e.stdout, tableTitle(tu, whence))
 	shared := tu.SharesPitches()
 	tw := tabwriter.NewWriter(e.stdout, 0, 0, 2, ' ', tabwriter.AlignRight)
 	head := "note\tHz\tfrom equal\tfifths\tother spelling\t"

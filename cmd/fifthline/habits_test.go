@@ -1,0 +1,110 @@
+package main
+
+import (
+	"math"
+	"regexp"
+	"strings"
+	"testing"
+)
+
+// help COMMAND is COMMAND -h: a usage line that shows the arguments, then
+// every flag with two dashes, as the README documents them.
+func TestHelpForEachCommand(t *testing.T) {
+	for _, c := range commandTable() {
+		code, out, stderr := runCLI(t, "help", c.name)
+		if code != 0 || stderr != "" {
+			t.Errorf("help %s: exit %d, stderr %q", c.name, code, stderr)
+		}
+		if want := "usage: fifthline " + c.name + " [flags]"; !strings.HasPrefix(out, want) {
+			t.Errorf("help %s starts %q, want %q", c.name, strings.SplitN(out, "\n", 2)[0], want)
+		}
+		if single := regexp.MustCompile(`(?m)^\s+-[a-z]`).FindString(out); single != "" {
+			t.Errorf("help %s lists a flag with one dash: %q", c.name, single)
+		}
+		_, dashH, _ := runCLI(t, c.name, "-h")
+		if dashH != out {
+			t.Errorf("%s -h differs from help %s", c.name, c.name)
+		}
+	}
+	for cmd, args := range map[string]string{"analyze": "FILE...", "report": "JOURNAL..."} {
+		if _, out, _ := runCLI(t, "help", cmd); !strings.HasPrefix(out, "usage: fifthline "+cmd+" [flags] "+args+"\n") {
+			t.Errorf("help %s: %q", cmd, strings.SplitN(out, "\n", 2)[0])
+		}
+	}
+	// The flags the contract names appear as it writes them.
+	_, out, _ := runCLI(t, "help", "analyze")
+	for _, want := range []string{"--key", "--temperament SPEC", "--a4 HZ", "--format csv|table|json", "--frames", "--log FILE"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("help analyze lacks %q", want)
+		}
+	}
+	code, _, stderr := runCLI(t, "help", "nosuch")
+	checkError(t, code, 2, stderr)
+}
+
+func TestVersion(t *testing.T) {
+	code, out, _ := runCLI(t, "--version")
+	if code != 0 || !strings.HasPrefix(out, "fifthline ") || strings.Count(out, "\n") != 1 {
+		t.Errorf("exit %d, %q", code, out)
+	}
+}
+
+// One name per idea: --level is the sound's level and --output its device
+// in every command that sounds; the old names still work.
+func TestOneNamePerIdeaAndTheOldNames(t *testing.T) {
+	for _, cmd := range []string{"drone", "listen", "demo"} {
+		_, out, _ := runCLI(t, "help", cmd)
+		if !strings.Contains(out, "--level DBFS") || !strings.Contains(out, "--output ID") {
+			t.Errorf("help %s lacks --level DBFS or --output ID:\n%s", cmd, out)
+		}
+	}
+	_, out, _ := runCLI(t, "help", "listen")
+	if !strings.Contains(out, "(also --drone-level)") {
+		t.Errorf("help listen does not show the old name --drone-level")
+	}
+	// The old names reach the same check (contract: refuse above −6 dBFS).
+	for _, args := range [][]string{
+		{"drone", "--level", "-3"}, {"drone", "--device", "x", "--level", "0"},
+		{"listen", "--drone-level", "-3"}, {"demo", "--level", "-1"},
+	} {
+		code, _, stderr := runCLI(t, args...)
+		checkError(t, code, 2, stderr)
+		if !strings.Contains(stderr, "-6 dBFS limit") {
+			t.Errorf("%v: %q", args, stderr)
+		}
+	}
+}
+
+// A choice flag refuses a word it does not know, listing the ones it does.
+func TestChoiceFlagsListTheirWords(t *testing.T) {
+	code, _, stderr := runCLI(t, "analyze", "--format", "xml", "x.wav")
+	checkError(t, code, 2, stderr)
+	if !strings.Contains(stderr, "--format") || !strings.Contains(stderr, "csv, table or json") {
+		t.Errorf("stderr %q", stderr)
+	}
+}
+
+// drone without --notes sounds the tonic in octave 3 and the fifth above:
+// in ¼-comma meantone at A4 = 440 Hz (ISO 16), G major gives G3 = 440/5^(1/2)
+// and D4 = 440/5^(1/4) (every fifth 5^(1/4), by definition), the pair
+// TestDroneSoundsTheTargetsAtTheLevel hears.
+func TestDroneWithoutNotesSoundsTonicAndFifth(t *testing.T) {
+	fs := newFlags("drone")
+	mf := addMusicalFlags(fs)
+	if err := fs.Parse([]string{"--key", "G major", "--temperament", "meantone:1/4"}); err != nil {
+		t.Fatal(err)
+	}
+	tu, err := mf.tuning()
+	if err != nil {
+		t.Fatal(err)
+	}
+	hz, names, err := droneTargets(tu, nil)
+	if err != nil || names != "G3 D4" || len(hz) != 2 {
+		t.Fatalf("%v %q %v", hz, names, err)
+	}
+	for i, want := range []float64{440 / math.Sqrt(5), 440 / math.Pow(5, 0.25)} {
+		if math.Abs(hz[i]-want) > 1e-9 {
+			t.Errorf("%s: %.6f Hz, want %.6f", strings.Fields(names)[i], hz[i], want)
+		}
+	}
+}

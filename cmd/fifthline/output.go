@@ -1,0 +1,198 @@
+package main
+
+// analyze's writers: one type per format, chosen once by the --format flag.
+// CSV rows are the contract's records (session.Event.Record); JSON is built
+// from record types with tags, keeping numbers numbers and empty values
+// null; the table is for reading, with the tuning above it and a line per
+// take below.
+
+import (
+	"encoding/csv"
+	"encoding/json"
+	"fmt"
+	"io"
+	"text/tabwriter"
+
+	"fifthline/session"
+	"fifthline/target"
+)
+
+// eventWriter is where analyze sends what it hears; a held-note writer
+// ignores frames and a frame writer ignores notes.
+type eventWriter interface {
+	Frame(path string, f session.Frame)
+	Note(ev session.Event) error
+	Close() error
+}
+
+// newNoteWriter chooses the held-note writer for a format; whence says
+// where the tuning came from, for the table's title.
+func newNoteWriter(w io.Writer, format string, withFile bool, whence string) eventWriter {
+	switch format {
+	case "json":
+		return &jsonNotes{jsonRows: jsonRows[noteJSON]{out: w}, withFile: withFile}
+	case "table":
+		return &tableNotes{out: w, tab: tabwriter.NewWriter(w, 0, 0, 2, ' ', 0), withFile: withFile, whence: whence}
+	}
+	return &csvNotes{csvRows: csvRows{w: csv.NewWriter(w), header: session.Header(withFile), flushEach: true}, withFile: withFile}
+}
+
+// csvRows writes a header before the first row (or at the close, when
+// there was none, so scripts can rely on it). Held notes are flushed one by
+// one, so that a reader sees each at once; frames, hundreds a second, at
+// the close.
+type csvRows struct {
+	w         *csv.Writer
+	header    []string
+	started   bool
+	flushEach bool
+}
+
+func (c *csvRows) row(rec []string) error {
+	if !c.started {
+		c.w.Write(c.header)
+		c.started = true
+	}
+	c.w.Write(rec)
+	if c.flushEach {
+		c.w.Flush()
+	}
+	return c.w.Error()
+}
+
+func (c *csvRows) Close() error {
+	if !c.started {
+		c.w.Write(c.header)
+	}
+	c.w.Flush()
+	return c.w.Error()
+}
+
+// jsonRows collects records and writes them as one array at the close.
+type jsonRows[T any] struct {
+	out  io.Writer
+	rows []T
+}
+
+func (j *jsonRows[T]) Close() error {
+	if j.rows == nil {
+		j.rows = []T{}
+	}
+	enc := json.NewEncoder(j.out)
+	enc.SetIndent("", "  ")
+	return enc.Encode(j.rows)
+}
+
+// noteOnly is the half of eventWriter a held-note writer leaves empty.
+type noteOnly struct{}
+
+func (noteOnly) Frame(string, session.Frame) {}
+
+type csvNotes struct {
+	noteOnly
+	csvRows
+	withFile bool
+}
+
+func (c *csvNotes) Note(ev session.Event) error { return c.row(ev.Record(c.withFile)) }
+
+// noteJSON is a held note in JSON: the CSV columns, typed, and the verdict
+// in words.
+type noteJSON struct {
+	File         string       `json:"file,omitempty"`
+	Start        json.Number  `json:"start_s"`
+	End          json.Number  `json:"end_s"`
+	Note         string       `json:"note"`
+	Hz           json.Number  `json:"hz"`
+	TargetHz     json.Number  `json:"target_hz"`
+	Cents        json.Number  `json:"cents"`
+	AltNote      *string      `json:"alt_note"` // null where no other spelling is offered
+	AltCents     *json.Number `json:"alt_cents"`
+	OnOther      bool         `json:"on_other_spelling"`
+	SamePitch    bool         `json:"same_pitch"`
+	Spread       json.Number  `json:"spread_cents"`
+	VibratoCents json.Number  `json:"vibrato_cents"`
+	VibratoHz    json.Number  `json:"vibrato_hz"`
+	Verdict      string       `json:"verdict"`
+}
+
+type jsonNotes struct {
+	noteOnly
+	jsonRows[noteJSON]
+	withFile bool
+}
+
+func (j *jsonNotes) Note(ev session.Event) error {
+	r := ev.Reading
+	rec := noteJSON{
+		Start: number(ev.Start, 3), End: number(ev.End, 3), Note: r.Written.String(),
+		Hz: number(r.Hz, 4), TargetHz: number(r.TargetHz, 4), Cents: number(r.Deviation, 2),
+		OnOther: r.OnOther, SamePitch: r.SamePitch,
+		Spread: number(ev.Spread, 2), VibratoCents: number(ev.VibratoWidth, 1), VibratoHz: number(ev.VibratoRate, 2),
+		Verdict: r.Verdict(),
+	}
+	if j.withFile {
+		rec.File = ev.Source
+	}
+	if r.HasAlt {
+		alt, altCents := r.AltWritten.String(), number(r.AltDeviation, 2)
+		rec.AltNote, rec.AltCents = &alt, &altCents
+	}
+	j.rows = append(j.rows, rec)
+	return nil
+}
+
+// number is x as the CSV writes it, as a JSON number.
+func number(x float64, decimals int) json.Number { return json.Number(session.Decimal(x, decimals)) }
+
+// tableNotes is the table for reading: the tuning, a row per note, then a
+// summary line per take.
+type tableNotes struct {
+	noteOnly
+	out      io.Writer
+	tab      *tabwriter.Writer
+	withFile bool
+	whence   string
+	takes    []string                   // sources in the order heard
+	notes    map[string][]session.Event // by source
+}
+
+func (t *tableNotes) Note(ev session.Event) error {
+	if t.notes == nil {
+		fmt.Fprintln(t.out, tableTitle(ev.Tuning, t.whence))
+		head := "start\tend\tnote\tHz\tcents\tother spelling\t"
+		if t.withFile {
+			head = "file\t" + head
+		}
+		fmt.Fprintln(t.tab, head)
+		t.notes = map[string][]session.Event{}
+	}
+	if _, ok := t.notes[ev.Source]; !ok {
+		t.takes = append(t.takes, ev.Source)
+	}
+	t.notes[ev.Source] = append(t.notes[ev.Source], ev)
+	r := ev.Reading
+	line := fmt.Sprintf("%7.2f\t%7.2f\t%s\t%.2f\t%s\t%s\t", ev.Start, ev.End, r.Written, r.Hz, target.FormatCents(r.Deviation, 1), r.OtherWords())
+	if t.withFile {
+		line = ev.Source + "\t" + line
+	}
+	_, err := fmt.Fprintln(t.tab, line)
+	return err
+}
+
+func (t *tableNotes) Close() error {
+	if t.notes == nil {
+		_, err := fmt.Fprintln(t.out, "no held notes")
+		return err
+	}
+	if err := t.tab.Flush(); err != nil {
+		return err
+	}
+	fmt.Fprintln(t.out)
+	for _, src := range t.takes {
+		if _, err := fmt.Fprintf(t.out, "%s: %s\n", src, takeSummary(t.notes[src])); err != nil {
+			return err
+		}
+	}
+	return nil
+}
