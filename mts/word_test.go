@@ -14,10 +14,10 @@ func TestWordsNameTheStandardsFrequencies(t *testing.T) {
 		b  [3]byte
 		hz float64
 	}{
-		{[3]byte{0x00, 0x00, 0x00}, 8.1758},    // MTS: the lowest frequency, key 0
-		{[3]byte{0x3C, 0x00, 0x00}, 261.6256},  // MTS: key 60, middle C in equal temperament
-		{[3]byte{0x45, 0x00, 0x00}, 440},       // MTS: key 69 is A4 = 440 Hz (ISO 16)
-		{[3]byte{0x44, 0x7F, 0x7F}, 439.9984},  // MTS: one step (0.0061 ¢) below 440 Hz
+		{[3]byte{0x00, 0x00, 0x00}, 8.1758},   // MTS: the lowest frequency, key 0
+		{[3]byte{0x3C, 0x00, 0x00}, 261.6256}, // MTS: key 60, middle C in equal temperament
+		{[3]byte{0x45, 0x00, 0x00}, 440},      // MTS: key 69 is A4 = 440 Hz (ISO 16)
+		{[3]byte{0x44, 0x7F, 0x7F}, 439.9984}, // MTS: one step (0.0061 ¢) below 440 Hz
 	} {
 		w, ok := wordOf(c.b[:])
 		if !ok {
