@@ -47,6 +47,9 @@ func runKeyboard(e *env, args []string) error {
 	if err != nil {
 		return err
 	}
+	if !tu.Transpose.IsConcert() {
+		return usagef("--transpose: a keyboard's tuning is at concert pitch; leave --transpose out")
+	}
 	kb := newKeyboard(tu)
 	msgs, err := kb.messages(*form, mf.temperament)
 	if err != nil {
@@ -67,7 +70,7 @@ func runKeyboard(e *env, args []string) error {
 		return err
 	}
 	if lo, hi := kb.clamped(); lo+hi > 0 {
-		fmt.Fprintf(e.stderr, "of the 128 keys, %d at the bottom and %d at the top lie outside the standard's 8.18–13289.73 Hz and sit at its limits\n", lo, hi)
+		fmt.Fprintf(e.stderr, "%d of the 128 keys (%d at the bottom, %d at the top) lie outside the standard's 8.18–13289.73 Hz and sound at its nearest end\n", lo+hi, lo, hi)
 	}
 	fmt.Fprintf(e.stderr, "wrote %s: %s\n", *output, describeForm(*form, len(msgs), ext == ".mid"))
 	return nil

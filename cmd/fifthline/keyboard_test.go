@@ -249,6 +249,7 @@ func TestKeyboardBadInput(t *testing.T) {
 		{[]string{"--output", filepath.Join(dir, "a.mid"), "extra.mid"}, 2, "no file arguments"},
 		{[]string{"--format", "json", "--output", filepath.Join(dir, "a.mid")}, 2, "--format"},
 		{[]string{"--key", "H", "--output", filepath.Join(dir, "a.mid")}, 2, "--key"},
+		{[]string{"--transpose", "Bb", "--output", filepath.Join(dir, "a.mid")}, 2, "--transpose"},
 		{[]string{"--output", filepath.Join(dir, "no", "such", "dir", "a.mid")}, 1, "cannot write"},
 		{[]string{"--output", dir + "/"}, 2, ".syx or .mid"},
 		// A4 = 415 Hz lies 101.3 ¢ below 440: beyond the octave form's ±100 ¢.
