@@ -51,7 +51,7 @@ func runKeyboard(e *env, args []string) error {
 		return usagef("--transpose: a keyboard's tuning is at concert pitch; leave --transpose out")
 	}
 	kb := newKeyboard(tu)
-	msgs, err := kb.messages(*form, mf.temperament)
+	msgs, err := kb.messages(*form)
 	if err != nil {
 		return err
 	}
@@ -147,10 +147,10 @@ func (kb *keyboard) offsets() (off [12]float64) {
 	return off
 }
 
-func (kb *keyboard) messages(form, name string) ([][]byte, error) {
+func (kb *keyboard) messages(form string) ([][]byte, error) {
 	switch form {
 	case "bulk":
-		return [][]byte{mts.BulkDump(mts.AllDevices, tuningProgram, kb.tu.Key.String()+" "+name, &kb.keys)}, nil
+		return [][]byte{mts.BulkDump(mts.AllDevices, tuningProgram, kb.tu.Key.String()+" "+kb.tu.Temperament.Name(), &kb.keys)}, nil
 	case "octave":
 		m, err := mts.ScaleOctave2(mts.AllDevices, mts.AllChannels, kb.offsets())
 		var re *mts.RangeError
