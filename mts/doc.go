@@ -5,7 +5,9 @@
 // scale/octave tuning, and a Standard MIDI File that sends them and selects
 // the tuning on every channel.
 //
-// It is for getting a temperament onto a synthesizer or digital keyboard. It
-// does not decide what the tuning is (package target does) and it opens no
-// files or devices: it builds bytes, and reads them back for checks.
+// It is for getting a temperament onto a synthesizer or digital keyboard (its
+// Standard MIDI File track also writes the phrases tests render with
+// fluidsynth). It does not decide what the tuning is (package target does)
+// and it opens no files or devices: it builds bytes, and reads them back for
+// checks.
 package mts

@@ -45,7 +45,7 @@ func FuzzReadFile(f *testing.F) {
 	tr.SelectTuning(0, 0, 0)
 	tr.Channel(480, 0x90, 60, 96)
 	tr.Channel(480, 0x80, 60, 0)
-	f.Add(tr.File())
+	f.Add(tr.File(0))
 	f.Add([]byte("MThd\x00\x00\x00\x06\x00\x00\x00\x01\x01\xe0MTrk\x00\x00\x00\x04\x00\xff\x2f\x00"))
 	f.Fuzz(func(t *testing.T, data []byte) {
 		events, err := ReadFile(data)

@@ -57,9 +57,10 @@ func (t *Track) SelectTuning(delta, bank, program int) {
 	}
 }
 
-// File ends the track and returns the whole file.
-func (t *Track) File() []byte {
-	trk := append(appendVarLen(append([]byte(nil), t.data...), 0), 0xFF, 0x2F, 0x00)
+// File ends the track ringOut ticks after its last event (time for a
+// release to sound) and returns the whole file.
+func (t *Track) File(ringOut int) []byte {
+	trk := append(appendVarLen(append([]byte(nil), t.data...), ringOut), 0xFF, 0x2F, 0x00)
 	out := []byte("MThd\x00\x00\x00\x06\x00\x00\x00\x01")
 	out = binary.BigEndian.AppendUint16(out, TicksPerSecond/2)
 	out = append(out, "MTrk"...)

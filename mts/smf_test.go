@@ -14,7 +14,7 @@ func TestTrackWritesAStandardMIDIFile(t *testing.T) {
 	msg := BulkDump(AllDevices, 0, "x", equal440())
 	tr.SysEx(0, msg)
 	tr.SelectTuning(0, 0, 2)
-	f := tr.File()
+	f := tr.File(0)
 	if want := []byte("MThd\x00\x00\x00\x06\x00\x00\x00\x01\x01\xe0MTrk"); !bytes.Equal(f[:18], want) {
 		t.Fatalf("header % X, want % X", f[:18], want)
 	}
@@ -71,7 +71,7 @@ func TestVariableLengthQuantities(t *testing.T) {
 }
 
 func TestReadFileRefusesBrokenFiles(t *testing.T) {
-	good := func() []byte { var tr Track; tr.Channel(0, 0x90, 60, 100); return tr.File() }
+	good := func() []byte { var tr Track; tr.Channel(0, 0x90, 60, 100); return tr.File(0) }
 	for name, f := range map[string][]byte{
 		"empty":          nil,
 		"not MIDI":       []byte("RIFF....WAVEfmt "),

@@ -86,7 +86,7 @@ func keyboardFile(msgs [][]byte, selectProgram bool) []byte {
 	if selectProgram {
 		t.SelectTuning(0, 0, tuningProgram)
 	}
-	return t.File()
+	return t.File(0)
 }
 
 func joinMessages(msgs [][]byte) []byte {
