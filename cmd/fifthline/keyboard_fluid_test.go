@@ -18,6 +18,9 @@ const fluidSoundfont = "/usr/share/sounds/sf2/FluidR3_GM.sf2" // Debian fluid-so
 // withPhrase makes a format-1 Standard MIDI File of two tracks: the tool's
 // own track, byte for byte, then a phrase on channel 1 (Standard MIDI Files
 // 1.0: tracks of a format-1 file play together; both use 480 ticks a quarter).
+// The tuning and the first note both fall at time 0; fluidsynth sends a
+// tick's events track by track, so the tuning comes first (measured: the
+// first key moves like all the others).
 func withPhrase(t *testing.T, tool []byte, program int, phrase []testsignal.MIDINote) []byte {
 	t.Helper()
 	notes := testsignal.MIDI(program, phrase)
