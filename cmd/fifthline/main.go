@@ -42,6 +42,7 @@ func commandTable() []command {
 		{"analyze", "FILE...", "read recordings and list their held notes (or the frame track)", runAnalyze},
 		{"report", "JOURNAL...", "how each spelled note sat over rehearsals, from journals written with --log", runReport},
 		{"tuning", "", "the tuning in force and where it comes from; --save keeps it for this folder", runTuning},
+		{"keyboard", "", "the key's temperament for a 12-key keyboard as MIDI Tuning Standard (.syx or .mid)", runKeyboard},
 		{"devices", "", "the audio devices PortAudio sees, defaults marked", runDevices},
 	}
 }
