@@ -178,6 +178,12 @@ func (in *Input) Carried() []int { return slices.Clone(in.channels) }
 // Device describes the device being read.
 func (in *Input) Device() Info { return in.info }
 
+// Backlog is how much audio has arrived and waits to be read: near zero
+// while the reader keeps up.
+func (in *Input) Backlog() time.Duration {
+	return time.Duration(float64(in.ring.backlog()/len(in.channels)) / in.rate * float64(time.Second))
+}
+
 // Stats reports what happened to the audio so far.
 func (in *Input) Stats() source.InputStats { return in.ring.stats() }
 

@@ -30,18 +30,28 @@ type OutputOptions struct {
 	// MaxChannels caps the interleaved channels opened (the device may
 	// have fewer); 0 means 2.
 	MaxChannels int
-	// Ahead is how many Blocks the ring holds; the writer is woken when
-	// fewer than Low wait.
+	// Ahead is how many Blocks the writer keeps rendered ahead; it is
+	// woken when fewer than Low wait. After an underrun (a machine too
+	// busy to wake the writer in time) both grow by Ahead, up to
+	// maxGrowth times Ahead.
 	Ahead, Low int
 }
+
+// maxGrowth bounds how far the lead grows on a busy machine: 4 × 85 ms.
+const maxGrowth = 4
 
 // Output is a PortAudio output stream fed from one goroutine (the only
 // writer) through a ring its C callback plays from; whatever has not been
 // written in time is played as silence and counted as an underrun. The
-// ring starts full of silence.
+// ring starts Ahead blocks full of silence.
 type Output struct {
 	*stream
 	channels int
+	block    int          // samples in a Block of frames
+	ahead    int          // Ahead − Low, blocks: the lead above the low mark
+	lead     atomic.Int64 // blocks kept rendered ahead now
+	maxLead  int64
+	seen     uint64 // underruns the writer has answered
 	// The writer's watch on the device: when it last took sound.
 	played int64
 	since  time.Time
@@ -51,7 +61,8 @@ type Output struct {
 
 // OpenOutput opens and starts an output stream.
 func OpenOutput(opt OutputOptions) (*Output, error) {
-	o := &Output{limit: StartGrace}
+	o := &Output{limit: StartGrace, ahead: opt.Ahead - opt.Low, maxLead: int64(maxGrowth * opt.Ahead)}
+	o.lead.Store(int64(opt.Ahead))
 	st, err := open(streamSpec{
 		dir: output, device: opt.Device, rate: opt.SampleRate,
 		channels: func(dev *portaudio.DeviceInfo) (int, error) {
@@ -59,15 +70,15 @@ func OpenOutput(opt OutputOptions) (*Output, error) {
 			return o.channels, nil
 		},
 		ring: func(_ float64, channels, fd int) (*ring, error) {
-			block := Block * channels
-			q, err := newOutputRing(opt.Ahead*block, opt.Low*block, channels, fd)
+			o.block = Block * channels
+			q, err := newOutputRing(int(o.maxLead)*o.block, opt.Low*o.block, channels, fd)
 			if err != nil {
 				return nil, err
 			}
 			// Silence, rendered ahead before the first callback (the ring
 			// is zeroed); from now on a callback that finds too little
 			// counts as an underrun.
-			atomic.StoreInt64(q.counter(&q.c.w), int64(len(q.buf)))
+			atomic.StoreInt64(q.counter(&q.c.w), int64(opt.Ahead*o.block))
 			q.start()
 			return q, nil
 		},
@@ -88,12 +99,33 @@ func (o *Output) SampleRate() float64 { return o.rate }
 // Device describes the output device.
 func (o *Output) Device() Info { return o.info }
 
-// Cap is the ring's size in samples.
-func (o *Output) Cap() int { return len(o.ring.buf) }
+// Cap is how many samples the writer keeps rendered ahead now.
+func (o *Output) Cap() int { return int(o.lead.Load()) * o.block }
+
+// LeadGrowth is how much later than at the start what is written now will
+// sound, because underruns have made the lead grow; zero on a machine that
+// keeps up.
+func (o *Output) LeadGrowth() time.Duration {
+	blocks := o.lead.Load() - o.maxLead/maxGrowth
+	return time.Duration(float64(blocks*Block) / o.rate * float64(time.Second))
+}
+
+// grow answers new underruns by keeping Ahead more blocks rendered ahead
+// (up to maxGrowth × Ahead), and waking the writer that much earlier.
+func (o *Output) grow() {
+	u := o.Underruns()
+	if u == o.seen {
+		return
+	}
+	o.seen = u
+	lead := min(o.lead.Load()+o.maxLead/maxGrowth, o.maxLead)
+	o.lead.Store(lead)
+	atomic.StoreInt64(o.ring.counter(&o.ring.c.low), (lead-int64(o.ahead))*int64(o.block))
+}
 
 // Fill is how many samples wait to be played.
 func (o *Output) Fill() int {
-	return int(atomic.LoadInt64(o.ring.counter(&o.ring.c.w)) - o.Played())
+	return o.ring.backlog()
 }
 
 // Played is how many samples the callback has taken so far.
@@ -124,6 +156,7 @@ func (o *Output) AwaitRoom(n int) bool {
 		err := fmt.Errorf("%w: %q took no sound for %v", ErrOutputLost, o.info.Name, o.limit)
 		o.lost.Store(&err)
 	}
+	o.grow()
 	o.ring.waiting(true)
 	if o.Fill()+n <= o.Cap() {
 		o.ring.waiting(false)

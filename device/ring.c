@@ -117,7 +117,7 @@ void fl_ring_take(fl_ring *q, float *out, unsigned long frames) {
 			__atomic_add_fetch(&q->underruns, 1, __ATOMIC_RELAXED);
 	}
 	__atomic_store_n(&q->r, r + n, __ATOMIC_SEQ_CST);
-	if (w - r - n < q->low) wake(q);
+	if (w - r - n < __atomic_load_n(&q->low, __ATOMIC_RELAXED)) wake(q);
 }
 
 static int input_callback(const void *in, void *out, unsigned long frames,

@@ -103,6 +103,11 @@ func (q *ring) readChannels(dst [][]float32) int {
 	return n
 }
 
+// backlog is how many samples wait to be read.
+func (q *ring) backlog() int {
+	return int(atomic.LoadInt64(q.counter(&q.c.w)) - atomic.LoadInt64(q.counter(&q.c.r)))
+}
+
 // waiting tells the audio thread that the goroutine will sleep on the pipe
 // unless it finds samples (or room) first; the audio thread clears it when
 // it sends the wake-up.
@@ -170,6 +175,7 @@ func atomicFields() []atomicField {
 		{"dropped_samples", unsafe.Offsetof(c.dropped_samples), unsafe.Sizeof(c.dropped_samples)},
 		{"clipped", unsafe.Offsetof(c.clipped), unsafe.Sizeof(c.clipped)},
 		{"last_ns", unsafe.Offsetof(c.last_ns), unsafe.Sizeof(c.last_ns)},
+		{"low", unsafe.Offsetof(c.low), unsafe.Sizeof(c.low)},
 		{"started", unsafe.Offsetof(c.started), unsafe.Sizeof(c.started)},
 		{"underruns", unsafe.Offsetof(c.underruns), unsafe.Sizeof(c.underruns)},
 	}

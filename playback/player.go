@@ -81,7 +81,8 @@ type Player struct {
 	dronePs  []drone.Partial
 	refPs    []drone.Partial
 	refUntil time.Time
-	fades    [3]fadeSpan // the drone's latest fade, the reference's two
+	fades    [4]fadeSpan // the drone's latest fade, the reference's two, the last underrun's
+	underrun uint64      // underruns seen by Fading
 	closing  sync.Once
 	closeErr error
 }
@@ -89,7 +90,9 @@ type Player struct {
 // The renderer keeps up to aheadBlocks rendered ahead of the speaker and
 // is woken when fewer than lowBlocks wait: PulseAudio asks for 2048 frames
 // at a time, and the renderer must never leave it short. The sound is
-// that much later (about 64–85 ms), well inside fadeLatency.
+// that much later (about 64–85 ms), well inside fadeLatency; on a machine
+// too busy to keep that lead the output lengthens it (device.Output), and
+// the fades are heard that much later again.
 const (
 	aheadBlocks = 8
 	lowBlocks   = 6
@@ -136,7 +139,7 @@ func (p *Player) SetDrone(hz []float64) {
 	fade := int(p.opt.Fade.Seconds() * p.out.SampleRate())
 	now := time.Now()
 	p.mu.Lock()
-	p.fades[0] = span(now, p.opt.Fade)
+	p.fades[0] = p.span(now, p.opt.Fade)
 	p.mu.Unlock()
 	p.droneIn.Store(drone.NewVoice(p.out.SampleRate(), ps, fade, fade, 0))
 }
@@ -149,8 +152,8 @@ func (p *Player) Reference(hz float64, dur time.Duration) {
 	hold := max(int(dur.Seconds()*p.out.SampleRate())-fade, fade)
 	now := time.Now()
 	p.mu.Lock()
-	p.refPs, p.refUntil = ps, now.Add(dur)
-	p.fades[1], p.fades[2] = span(now, referenceFade), span(now.Add(dur-referenceFade), referenceFade)
+	p.refPs, p.refUntil = ps, now.Add(dur+p.out.LeadGrowth())
+	p.fades[1], p.fades[2] = p.span(now, referenceFade), p.span(now.Add(dur-referenceFade), referenceFade)
 	p.mu.Unlock()
 	p.refIn.Store(drone.NewVoice(p.out.SampleRate(), ps, fade, fade, hold))
 }
@@ -189,18 +192,24 @@ type fadeSpan struct{ from, to time.Time }
 // the player and reaching the canceller.
 const fadeLatency = 250 * time.Millisecond
 
-func span(start time.Time, fade time.Duration) fadeSpan {
-	return fadeSpan{start, start.Add(fade + fadeLatency)}
+func (p *Player) span(start time.Time, fade time.Duration) fadeSpan {
+	return fadeSpan{start, start.Add(fade + fadeLatency + p.out.LeadGrowth())}
 }
 
 // Fading reports whether a drone or reference tone is fading in or out at
 // the microphone now, so that drone.Cancel follows its level closely
 // meanwhile (and only meanwhile: at other times a loud note must not be
 // taken for a fade).
+//
+// An underrun is a fade too: the sound stops for a moment and comes back,
+// so on a machine too busy to render in time the canceller follows it.
 func (p *Player) Fading() bool {
 	now := time.Now()
 	p.mu.Lock()
 	defer p.mu.Unlock()
+	if u := p.out.Underruns(); u != p.underrun {
+		p.underrun, p.fades[3] = u, p.span(now, referenceFade)
+	}
 	for _, f := range p.fades {
 		if !now.Before(f.from) && now.Before(f.to) {
 			return true
