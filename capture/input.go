@@ -35,6 +35,9 @@ type InputOptions struct {
 	// read in step with ReadChannels, one player each; Channel is then
 	// unused.
 	Channels []int
+	// StreamChannels opens the stream with this many channels when more
+	// than the highest one read (see device.InputOptions); 0 for as many.
+	StreamChannels int
 	// SampleRate is the rate to ask for; 0 means PreferredRate, falling
 	// back to the device's default rate.
 	SampleRate float64
@@ -65,7 +68,7 @@ func OpenInput(opts InputOptions) (*Input, error) {
 		channels = []int{max(opts.Channel, 1)}
 	}
 	in, err := device.OpenInput(device.InputOptions{
-		Device: opts.Device, Channels: channels, SampleRate: opts.SampleRate,
+		Device: opts.Device, Channels: channels, StreamChannels: opts.StreamChannels, SampleRate: opts.SampleRate,
 		Buffer: opts.Buffer, StallTimeout: opts.StallTimeout,
 	})
 	if err != nil {

@@ -27,6 +27,12 @@ type InputOptions struct {
 	// printed on the interface, in the order ReadChannels delivers them;
 	// none means channel 1 alone.
 	Channels []int
+	// StreamChannels is how many channels the stream opens, when more
+	// than the highest one carried: a sound server remixes a stream
+	// whose channel count differs from its source's, so reading channel 3
+	// of a four-channel interface through PulseAudio needs a
+	// four-channel stream. 0 opens as many as the highest channel asked.
+	StreamChannels int
 	// SampleRate is the rate to ask for; 0 means PreferredRate, falling
 	// back to the device's default rate.
 	SampleRate float64
@@ -66,8 +72,10 @@ func OpenInput(opt InputOptions) (*Input, error) {
 	st, err := open(streamSpec{
 		dir: input, device: opt.Device, rate: opt.SampleRate,
 		channels: func(dev *portaudio.DeviceInfo) (int, error) {
-			// The stream opens as many channels as the highest one asked for.
-			opened := 0
+			opened := opt.StreamChannels
+			if opened > dev.MaxInputChannels {
+				return 0, fmt.Errorf("input %q has %d channel(s); a stream of %d requested", dev.Name, dev.MaxInputChannels, opened)
+			}
 			for i, c := range in.channels {
 				if c < 1 || c > dev.MaxInputChannels {
 					return 0, fmt.Errorf("input %q has %d channel(s); channel %d requested", dev.Name, dev.MaxInputChannels, c)
