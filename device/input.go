@@ -18,14 +18,19 @@ import (
 // good; callers should stop cleanly and keep it.
 var ErrInputLost = errors.New("input device lost")
 
-// InputOptions choose the device, its channels and how they are read.
+// InputOptions choose the device, its channels and how they are read. The
+// zero value reads the first channel of the default input device at
+// 48 kHz if it can.
 type InputOptions struct {
 	// Device is "" for the default input, a PortAudio device index as
 	// listed by Devices, or part of a device name (case does not matter).
 	Device string
-	// Channels are the interface's channels to carry, counted from 1 as
-	// printed on the interface, in the order ReadChannels delivers them;
-	// none means channel 1 alone.
+	// Channel is the interface channel to read, counted from 1 as printed
+	// on the interface and as the CLI's --channel takes it; 0 means 1.
+	Channel int
+	// Channels, if given, are several of the interface's channels (counted
+	// from 1) carried in step, in the order ReadChannels delivers them, one
+	// player each; Channel is then unused.
 	Channels []int
 	// StreamChannels is how many channels the stream opens, when more
 	// than the highest one carried: a sound server remixes a stream
@@ -40,8 +45,8 @@ type InputOptions struct {
 	// dropped; 0 means 2 s.
 	Buffer time.Duration
 	// StallTimeout is how long a read waits for audio before it reports
-	// ErrInputLost; 0 means StallTimeout. The first block may take up to
-	// StartGrace.
+	// ErrInputLost; 0 means 2 s (StallTimeout). The first block may take
+	// up to 5 s (StartGrace).
 	StallTimeout time.Duration
 }
 
@@ -66,7 +71,10 @@ func OpenInput(opt InputOptions) (*Input, error) {
 		done:     make(chan struct{}),
 	}
 	if len(in.channels) == 0 {
-		in.channels = []int{1}
+		if opt.Channel < 0 {
+			return nil, fmt.Errorf("input channel %d requested; channels count from 1", opt.Channel)
+		}
+		in.channels = []int{max(opt.Channel, 1)}
 	}
 	pick := make([]int, len(in.channels))
 	st, err := open(streamSpec{
