@@ -52,6 +52,7 @@ bench: deps
 	$(GO) run ./cmd/fifthbench
 	@scripts/vmic-start
 	$(GO) test -run XXX -bench 'ListenPlainLive|ListenMeter|DemoMeterInTmux' -benchtime 1x ./cmd/fifthline/
+	$(GO) test -run XXX -bench 'PlayerDroneUnderMicrophone' -benchtime 1x ./playback/
 
 clean:
 	rm -rf bin

@@ -41,6 +41,13 @@ func TestInputReadsFourChannelsInOneStream(t *testing.T) {
 			if in.Channels() != len(c.channels) {
 				t.Fatalf("Channels() = %d, want %d", in.Channels(), len(c.channels))
 			}
+			// Several channels are read together, never one by one.
+			if _, err := in.Read(make([]float32, 64)); err == nil {
+				t.Error("Read of a multichannel input: no error")
+			}
+			if _, err := in.ReadChannels(make([][]float32, len(c.channels)+1)); err == nil {
+				t.Error("ReadChannels with one slice too many: no error")
+			}
 			mic.PlayChannels(tone)
 			heard := readHeardChannels(t, in, int(in.SampleRate()))
 			for k, ch := range c.channels {
