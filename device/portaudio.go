@@ -168,6 +168,7 @@ var (
 
 // direction is an input or an output, for choosing a device.
 type direction struct {
+	input    bool
 	name     string // "input" or "output"
 	channels func(*portaudio.DeviceInfo) int
 	byDef    func() (*portaudio.DeviceInfo, error)
@@ -175,9 +176,9 @@ type direction struct {
 }
 
 var (
-	input = direction{"input", func(d *portaudio.DeviceInfo) int { return d.MaxInputChannels },
+	input = direction{true, "input", func(d *portaudio.DeviceInfo) int { return d.MaxInputChannels },
 		portaudio.DefaultInputDevice, ErrNoInput}
-	output = direction{"output", func(d *portaudio.DeviceInfo) int { return d.MaxOutputChannels },
+	output = direction{false, "output", func(d *portaudio.DeviceInfo) int { return d.MaxOutputChannels },
 		portaudio.DefaultOutputDevice, ErrNoOutput}
 )
 

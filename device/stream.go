@@ -77,7 +77,8 @@ func (st *stream) open(spec streamSpec) error {
 		return err
 	}
 	st.what = fmt.Sprintf("%s %q", spec.dir.name, dev.Name)
-	if spec.dir.name == "input" {
+	in := spec.dir.input
+	if in {
 		st.info = deviceInfo(dev, def, nil)
 	} else {
 		st.info = deviceInfo(dev, nil, def)
@@ -86,7 +87,6 @@ func (st *stream) open(spec streamSpec) error {
 	if err != nil {
 		return err
 	}
-	in := spec.dir.name == "input"
 	var p portaudio.StreamParameters
 	if in {
 		p = portaudio.HighLatencyParameters(dev, nil)
