@@ -63,9 +63,11 @@ func recording(t *testing.T) (rate float64, stop func() []float32) {
 // after one is the sound that was due, only later, so cutting the silence
 // joins the tone up again, and its pitch can be measured as played. (How
 // often it happens is BenchmarkPlayerDroneUnderMicrophone's to show.) A
-// tone at the levels played here is never exactly 0 for 2 ms on end.
+// tone at the levels played here (16-bit samples in the null sink, a
+// step being 2^-15) is 0 for a sample or two at a zero crossing, never 8 on
+// end.
 func withoutGaps(x []float32) []float32 {
-	const gap = 96 // 2 ms at 48 kHz
+	const gap = 8
 	out, zeros := x[:0], 0
 	for _, v := range x {
 		if v == 0 {
