@@ -7,27 +7,6 @@ import (
 	"time"
 )
 
-// BenchmarkInputCallback is the work done on PortAudio's thread per block
-// (in C): 512 stereo frames, the second channel taken, levels counted, ring
-// written. At 48 kHz a block arrives every 10.7 ms; the callback must take
-// a tiny fraction of that.
-func BenchmarkInputCallback(b *testing.B) {
-	q, err := newRing(1<<20, 2, 1, -1)
-	if err != nil {
-		b.Fatal(err)
-	}
-	buf := make([]float32, 2*framesPerBlock)
-	for i := range buf {
-		buf[i] = float32(i%200)/100 - 1
-	}
-	drain := make([]float32, framesPerBlock)
-	b.SetBytes(int64(len(buf) * 4))
-	for b.Loop() {
-		q.deliver(buf, framesPerBlock)
-		q.read(drain)
-	}
-}
-
 // BenchmarkWAVRead streams a 24-bit stereo file made by sox, first channel.
 func BenchmarkWAVRead(b *testing.B) {
 	path := soxFile(b, b.TempDir(), "bench.wav", []string{"-r", "48000", "-b", "24", "-c", "2"}, "10", "sine", "440", "sine", "660")

@@ -11,6 +11,8 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"fifthline/source"
 )
 
 // sox is the reference tool (Debian package sox, SoX v14.4.2 here): it makes
@@ -62,7 +64,7 @@ func soxSamples(t testing.TB, path string, channel int) []float32 {
 }
 
 // readAll drains a Source in blocks of the given size.
-func readAll(t testing.TB, s Source, block int) []float32 {
+func readAll(t testing.TB, s source.Source, block int) []float32 {
 	t.Helper()
 	var all []float32
 	buf := make([]float32, block)

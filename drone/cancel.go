@@ -5,16 +5,11 @@ import (
 	"math/cmplx"
 	"slices"
 	"sync/atomic"
+
+	"fifthline/source"
 )
 
-// Source is a mono stream of samples, the same shape as capture.Source, so
-// any capture source can be wrapped and the wrapper can be read as one.
-type Source interface {
-	SampleRate() float64
-	Read(p []float32) (n int, err error)
-}
-
-// Canceller is a Source that removes known sinusoids (the drone's partials,
+// Canceller is a source.Source that removes known sinusoids (the drone's partials,
 // heard back through the microphone) from another Source, so that the pitch
 // detector hears the player alone.
 //
@@ -49,7 +44,7 @@ type Source interface {
 //
 // Read it from one goroutine; SetPartials may be called from any.
 type Canceller struct {
-	src     Source
+	src     source.Source
 	rate    float64
 	memory  float64 // samples, once settled
 	age     float64 // samples since the set of partials last changed
@@ -119,7 +114,7 @@ const (
 
 // Cancel removes the partials (hertz) from src. Partials at or above 0.45
 // of src's sample rate are ignored.
-func Cancel(src Source, partials []float64) *Canceller {
+func Cancel(src source.Source, partials []float64) *Canceller {
 	c := &Canceller{src: src, rate: src.SampleRate(), memory: DefaultMemory * src.SampleRate()}
 	c.quiet = int(lockTime * c.rate)
 	c.apply(partials)

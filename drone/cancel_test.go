@@ -10,6 +10,7 @@ import (
 	"fifthline/drone"
 	"fifthline/internal/testsignal"
 	"fifthline/session"
+	"fifthline/source"
 	"fifthline/target"
 )
 
@@ -54,12 +55,12 @@ func (k knownDrone) Fading() bool        { return k.src.i < int(0.5*rate) }
 
 // cancelled is src with the drone's partials removed, the drone described
 // as a player would.
-func cancelled(src *memSource, ps []drone.Partial) drone.Source {
+func cancelled(src *memSource, ps []drone.Partial) source.Source {
 	return drone.Cancel(src, nil).Follow(knownDrone{src, drone.Frequencies(ps)})
 }
 
 // heard runs the session pipeline on src and returns the held notes.
-func heard(t *testing.T, src drone.Source) []session.Event {
+func heard(t *testing.T, src source.Source) []session.Event {
 	t.Helper()
 	var evs []session.Event
 	err := session.Run(context.Background(), src, session.Options{
@@ -96,7 +97,7 @@ func TestCancellerLetsTheDetectorHearThePlayer(t *testing.T) {
 		}
 		check := func(cancel bool) (onNote int, others []string) {
 			src := &memSource{x: mix}
-			var in drone.Source = src
+			var in source.Source = src
 			if cancel {
 				in = cancelled(src, ps)
 			}

@@ -1,18 +1,13 @@
 package playback
 
 import (
-	"errors"
 	"fmt"
 	"slices"
-	"strconv"
-	"strings"
 	"sync"
 	"sync/atomic"
 	"time"
 
-	"github.com/gordonklaus/portaudio"
-
-	"fifthline/capture"
+	"fifthline/device"
 	"fifthline/drone"
 )
 
@@ -67,14 +62,8 @@ func CheckLevel(dbfs float64) error {
 type Player struct {
 	opt      Options
 	peak     float64 // linear level of one drone or reference
-	rate     float64
-	channels int
-	device   capture.DeviceInfo
-	stream   *capture.CStream
-	release  func()
-	ring     *capture.OutputRing
-	wake     *capture.WakePipe // the audio thread wakes the renderer through it
-	rendered chan struct{}     // closed when the renderer has stopped
+	out      *device.Output
+	rendered chan struct{} // closed when the renderer has stopped
 
 	// Hand-offs to the renderer: the next drone voice (or silence), the
 	// next reference tone, and the request to fade everything out.
@@ -82,7 +71,6 @@ type Player struct {
 	stopping       atomic.Bool
 	silent         atomic.Bool // everything has faded out after stopping
 	closed         atomic.Bool // the stream is closed: stop rendering
-	lost           atomic.Pointer[error]
 
 	// Renderer-only state.
 	mix        *drone.Mixer
@@ -93,10 +81,22 @@ type Player struct {
 	dronePs  []drone.Partial
 	refPs    []drone.Partial
 	refUntil time.Time
-	fades    [3]fadeSpan // the drone's latest fade, the reference's two
+	fades    [4]fadeSpan // the drone's latest fade, the reference's two, the last underrun's
+	underrun uint64      // underruns seen by Fading
 	closing  sync.Once
 	closeErr error
 }
+
+// The renderer keeps up to aheadBlocks rendered ahead of the speaker and
+// is woken when fewer than lowBlocks wait: PulseAudio asks for 2048 frames
+// at a time, and the renderer must never leave it short. The sound is
+// that much later (about 64–85 ms), well inside fadeLatency; on a machine
+// too busy to keep that lead the output lengthens it (device.Output), and
+// the fades are heard that much later again.
+const (
+	aheadBlocks = 8
+	lowBlocks   = 6
+)
 
 // NewPlayer opens and starts an output stream; it is silent until SetDrone
 // or Reference.
@@ -113,72 +113,19 @@ func NewPlayer(opt Options) (*Player, error) {
 	if opt.Fade <= 0 {
 		opt.Fade = DefaultFade
 	}
-	release, err := capture.InitPortAudio()
+	out, err := device.OpenOutput(device.OutputOptions{
+		Device: opt.Device, SampleRate: opt.SampleRate, Ahead: aheadBlocks, Low: lowBlocks,
+	})
 	if err != nil {
 		return nil, err
 	}
-	p := &Player{opt: opt, release: release, peak: drone.Linear(opt.Level)}
+	p := &Player{opt: opt, out: out, peak: drone.Linear(opt.Level), rendered: make(chan struct{})}
 	if opt.ShareWithReference {
 		p.peak /= 2
 	}
-	if err := capture.QuietStderr(p.open); err != nil {
-		release()
-		return nil, err
-	}
+	p.mix = drone.NewMixer(out.SampleRate(), drone.Linear(opt.Level))
+	go p.renderAhead(device.Block * out.Channels())
 	return p, nil
-}
-
-// framesPerBlock is the audio callback's size and the renderer's step:
-// about 10 ms at 48 kHz.
-const framesPerBlock = 512
-
-// The renderer keeps up to aheadBlocks rendered ahead of the speaker and
-// is woken when fewer than lowBlocks wait: PulseAudio asks for 2048 frames
-// at a time, and the renderer must never leave it short. The sound is
-// that much later (about 64–85 ms), well inside fadeLatency.
-const (
-	aheadBlocks = 8
-	lowBlocks   = 6
-)
-
-func (p *Player) open() error {
-	dev, err := pickOutput(p.opt.Device)
-	if err != nil {
-		return err
-	}
-	p.device = capture.DeviceInfo{Index: dev.Index, Name: dev.Name, OutputChannels: dev.MaxOutputChannels, DefaultRate: dev.DefaultSampleRate}
-	p.channels = min(dev.MaxOutputChannels, 2)
-	params := portaudio.HighLatencyParameters(nil, dev)
-	params.Output.Channels = p.channels
-	params.FramesPerBuffer = framesPerBlock
-	// The format is what matters here: the callback itself is C's.
-	if err := capture.NegotiateRate(&params, p.opt.SampleRate, dev.DefaultSampleRate, func([]float32) {}, fmt.Sprintf("output %q", dev.Name)); err != nil {
-		return err
-	}
-	p.rate = params.SampleRate
-	p.mix = drone.NewMixer(p.rate, drone.Linear(p.opt.Level))
-	if p.wake, err = capture.NewWakePipe(); err != nil {
-		return fmt.Errorf("output %q: %w", dev.Name, err)
-	}
-	block := framesPerBlock * p.channels
-	if p.ring, err = capture.NewOutputRing(aheadBlocks*block, lowBlocks*block, p.channels, p.wake); err != nil {
-		p.wake.Close()
-		return fmt.Errorf("output %q: %w", dev.Name, err)
-	}
-	p.topUp(make([]float32, block)) // silence, rendered ahead, before the first callback
-	p.ring.Started()
-	if p.stream, err = capture.OpenOutputStream(params, p.ring); err != nil {
-		p.wake.Close()
-		return fmt.Errorf("output %q: %w", dev.Name, err)
-	}
-	if err := p.stream.Start(); err != nil {
-		p.stream.Close()
-		p.wake.Close()
-		return fmt.Errorf("output %q: start: %w", dev.Name, err)
-	}
-	p.rendered = make(chan struct{})
-	go p.renderAhead(block)
-	return nil
 }
 
 // SetDrone fades the present drone out and a drone on the given
@@ -189,26 +136,26 @@ func (p *Player) SetDrone(hz []float64) {
 	p.mu.Lock()
 	p.dronePs = ps
 	p.mu.Unlock()
-	fade := int(p.opt.Fade.Seconds() * p.rate)
+	fade := int(p.opt.Fade.Seconds() * p.out.SampleRate())
 	now := time.Now()
 	p.mu.Lock()
-	p.fades[0] = span(now, p.opt.Fade)
+	p.fades[0] = p.span(now, p.opt.Fade)
 	p.mu.Unlock()
-	p.droneIn.Store(drone.NewVoice(p.rate, ps, fade, fade, 0))
+	p.droneIn.Store(drone.NewVoice(p.out.SampleRate(), ps, fade, fade, 0))
 }
 
 // Reference sounds a tone at hz for about dur (fades included), over the
 // drone, for a player to hear the note's target; a new one replaces it.
 func (p *Player) Reference(hz float64, dur time.Duration) {
 	ps := p.partials([]float64{hz})
-	fade := int(referenceFade.Seconds() * p.rate)
-	hold := max(int(dur.Seconds()*p.rate)-fade, fade)
+	fade := int(referenceFade.Seconds() * p.out.SampleRate())
+	hold := max(int(dur.Seconds()*p.out.SampleRate())-fade, fade)
 	now := time.Now()
 	p.mu.Lock()
-	p.refPs, p.refUntil = ps, now.Add(dur)
-	p.fades[1], p.fades[2] = span(now, referenceFade), span(now.Add(dur-referenceFade), referenceFade)
+	p.refPs, p.refUntil = ps, now.Add(dur+p.out.LeadGrowth())
+	p.fades[1], p.fades[2] = p.span(now, referenceFade), p.span(now.Add(dur-referenceFade), referenceFade)
 	p.mu.Unlock()
-	p.refIn.Store(drone.NewVoice(p.rate, ps, fade, fade, hold))
+	p.refIn.Store(drone.NewVoice(p.out.SampleRate(), ps, fade, fade, hold))
 }
 
 func (p *Player) partials(hz []float64) []drone.Partial {
@@ -216,7 +163,7 @@ func (p *Player) partials(hz []float64) []drone.Partial {
 	if len(hz) == 0 {
 		return nil
 	}
-	return drone.Partials(hz, p.opt.Timbre, p.peak, p.rate)
+	return drone.Partials(hz, p.opt.Timbre, p.peak, p.out.SampleRate())
 }
 
 // Partials are the frequencies sounding now: the drone's partials and,
@@ -245,18 +192,24 @@ type fadeSpan struct{ from, to time.Time }
 // the player and reaching the canceller.
 const fadeLatency = 250 * time.Millisecond
 
-func span(start time.Time, fade time.Duration) fadeSpan {
-	return fadeSpan{start, start.Add(fade + fadeLatency)}
+func (p *Player) span(start time.Time, fade time.Duration) fadeSpan {
+	return fadeSpan{start, start.Add(fade + fadeLatency + p.out.LeadGrowth())}
 }
 
 // Fading reports whether a drone or reference tone is fading in or out at
 // the microphone now, so that drone.Cancel follows its level closely
 // meanwhile (and only meanwhile: at other times a loud note must not be
 // taken for a fade).
+//
+// An underrun is a fade too: the sound stops for a moment and comes back,
+// so on a machine too busy to render in time the canceller follows it.
 func (p *Player) Fading() bool {
 	now := time.Now()
 	p.mu.Lock()
 	defer p.mu.Unlock()
+	if u := p.out.Underruns(); u != p.underrun {
+		p.underrun, p.fades[3] = u, p.span(now, referenceFade)
+	}
 	for _, f := range p.fades {
 		if !now.Before(f.from) && now.Before(f.to) {
 			return true
@@ -269,10 +222,10 @@ func (p *Player) Fading() bool {
 func (p *Player) Level() float64 { return p.opt.Level }
 
 // SampleRate is the stream's rate in Hz.
-func (p *Player) SampleRate() float64 { return p.rate }
+func (p *Player) SampleRate() float64 { return p.out.SampleRate() }
 
 // Device describes the output device.
-func (p *Player) Device() capture.DeviceInfo { return p.device }
+func (p *Player) Device() device.Info { return p.out.Device() }
 
 // Close fades everything out (waiting for the fade, at most a second more
 // than it should take), then stops the stream and releases PortAudio.
@@ -283,65 +236,19 @@ func (p *Player) Close() error {
 		// The fade renders ahead within a block; then the ring, which
 		// holds its end, drains to the speaker.
 		deadline := time.Now().Add(p.opt.Fade + time.Second)
-		drained := func() bool { return p.silent.Load() && p.ring.Fill() == 0 }
+		drained := func() bool { return p.silent.Load() && p.out.Fill() == 0 }
 		for !drained() && p.Lost() == nil && time.Now().Before(deadline) {
 			time.Sleep(5 * time.Millisecond)
 		}
 		// Stop, not abort, when the fade is out: what the device buffers is
 		// its end. A device that stopped playing would never finish a stop.
 		abort := !drained() || p.Lost() != nil
-		p.closeErr = capture.CloseStream(p.stream, abort, p.release, fmt.Sprintf("output %q", p.device.Name))
+		p.closeErr = p.out.Close(abort)
 		p.closed.Store(true)
-		p.wake.Interrupt()
 		<-p.rendered
-		if p.closeErr == nil {
-			p.wake.Close()
-		} else {
-			leaked.Store(p.ring) // the audio thread may still read it
-		}
 	})
 	return p.closeErr
 }
 
-// leaked holds the ring of a stream that would not close.
-var leaked atomic.Pointer[capture.OutputRing]
-
 // ErrNoDevice means no output device matched the request.
-var ErrNoDevice = errors.New("no such output device")
-
-// pickOutput resolves Options.Device to an output-capable device.
-func pickOutput(want string) (*portaudio.DeviceInfo, error) {
-	if want == "" {
-		d, err := portaudio.DefaultOutputDevice()
-		if err != nil || d == nil {
-			return nil, fmt.Errorf("%w: no default output device (%v)", ErrNoDevice, err)
-		}
-		return d, nil
-	}
-	devs, err := portaudio.Devices()
-	if err != nil {
-		return nil, fmt.Errorf("portaudio: listing devices: %w", err)
-	}
-	var parts []*portaudio.DeviceInfo
-	idx, isIndex := strconv.Atoi(want)
-	for _, d := range devs {
-		switch {
-		case d.MaxOutputChannels < 1:
-		case isIndex == nil && d.Index == idx, strings.EqualFold(d.Name, want):
-			return d, nil
-		case strings.Contains(strings.ToLower(d.Name), strings.ToLower(want)):
-			parts = append(parts, d)
-		}
-	}
-	if len(parts) == 1 {
-		return parts[0], nil
-	}
-	if len(parts) == 0 {
-		return nil, fmt.Errorf("%w %q (fifthline devices lists them)", ErrNoDevice, want)
-	}
-	names := make([]string, len(parts))
-	for i, d := range parts {
-		names[i] = strconv.Quote(d.Name)
-	}
-	return nil, fmt.Errorf("output device %q is ambiguous: it matches %s", want, strings.Join(names, ", "))
-}
+var ErrNoDevice = device.ErrNoOutput

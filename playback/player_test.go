@@ -8,6 +8,7 @@ import (
 	"path/filepath"
 	"strings"
 	"sync"
+	"sync/atomic"
 	"testing"
 	"time"
 
@@ -16,6 +17,7 @@ import (
 	"fifthline/internal/vmic"
 	"fifthline/playback"
 	"fifthline/session"
+	"fifthline/source"
 	"fifthline/target"
 )
 
@@ -26,9 +28,47 @@ import (
 // monitor is read through capture.OpenInput, drone.Cancel following the
 // Player's partials, and the session pipeline. The note is read within 1 ¢
 // of sox's frequency and nothing else is reported: no drone-only notes.
+// This holds on a busy machine too; that the drone itself never ran short
+// (no underruns) is BenchmarkPlayerDroneUnderMicrophone's to show.
 func TestPlayerDroneIsCancelledFromTheMicrophone(t *testing.T) {
+	evs, underruns := droneUnderMicrophone(t)
+	t.Logf("%d output callbacks played silence (the benchmark counts them)", underruns)
+	onNote := 0
+	for _, ev := range evs {
+		if c := 1200 * math.Log2(ev.Hz/noteHz); math.Abs(c) <= 1 {
+			onNote++
+		}
+	}
+	if onNote != 1 {
+		t.Errorf("the played note was read %d times within 1 ¢, want once", onNote)
+	}
+	for _, ev := range evs {
+		c := 1200 * math.Log2(ev.Hz/noteHz)
+		t.Logf("%.2f–%.2f s %s %.3f Hz (%+.3f ¢ from sox's %.2f Hz)", ev.Start, ev.End, ev.Reading.Note, ev.Hz, c, noteHz)
+		if math.Abs(c) > 1 {
+			t.Errorf("reported %s at %.3f Hz: not the played note", ev.Reading.Note, ev.Hz)
+		}
+	}
+}
+
+// BenchmarkPlayerDroneUnderMicrophone is the same scenario, for what only
+// an unloaded machine can promise: not one output callback short of sound.
+func BenchmarkPlayerDroneUnderMicrophone(b *testing.B) {
+	for b.Loop() {
+		_, u := droneUnderMicrophone(b)
+		b.ReportMetric(float64(u), "underruns")
+		if u != 0 {
+			b.Errorf("%d output callbacks played silence for want of rendered sound", u)
+		}
+	}
+}
+
+const noteHz = 246.94 // B3 in equal temperament at A4 = 440 Hz (ISO 16), to 0.01 Hz
+
+// droneUnderMicrophone runs the scenario and returns the notes read and
+// the drone's underruns.
+func droneUnderMicrophone(t testing.TB) ([]session.Event, uint64) {
 	vmic.Isolate(t)
-	const noteHz = 246.94 // B3 in equal temperament at A4 = 440 Hz (ISO 16), to 0.01 Hz
 	wav := filepath.Join(t.TempDir(), "note.wav")
 	// sox synth: 2.5 s sawtooth, 50 ms fade in and out, peak −18 dBFS.
 	if out, err := exec.Command("sox", "-n", "-r", "48000", "-c", "1", "-b", "16", wav,
@@ -46,12 +86,16 @@ func TestPlayerDroneIsCancelledFromTheMicrophone(t *testing.T) {
 	// Listening starts while the drone fades in: the canceller must follow
 	// the fade (and the input stream's own half-second fade in).
 	time.Sleep(200 * time.Millisecond)
-	in, err := capture.OpenInput(capture.InputOptions{})
+	// A busy machine may keep the analysis (slower still under -race)
+	// behind the microphone for a while: the input keeps everything until
+	// it catches up, instead of dropping what it cannot hold.
+	in, err := capture.OpenInput(capture.InputOptions{Buffer: time.Minute})
 	if err != nil {
 		t.Fatal(err)
 	}
 	defer in.Close()
-	src := drone.Cancel(in, nil).Follow(p)
+	read := &countedSource{Source: in}
+	src := drone.Cancel(read, nil).Follow(p)
 
 	ctx, cancel := context.WithCancel(context.Background())
 	var mu sync.Mutex
@@ -73,31 +117,32 @@ func TestPlayerDroneIsCancelledFromTheMicrophone(t *testing.T) {
 		t.Fatal(err)
 	}
 	time.Sleep(1500 * time.Millisecond)
-	cancel()
-	if u := p.Underruns(); u != 0 {
-		t.Errorf("%d output callbacks played silence for want of rendered sound", u)
+	underruns := p.Underruns()
+	// Stop once the analysis has read what had been heard by now.
+	heard := read.n.Load() + int64(in.Backlog().Seconds()*in.SampleRate())
+	for deadline := time.Now().Add(time.Minute); read.n.Load() < heard && time.Now().Before(deadline); {
+		time.Sleep(20 * time.Millisecond)
 	}
+	cancel()
+	t.Logf("input %+v", in.Stats())
 	if err := <-done; err != nil && !errors.Is(err, context.Canceled) {
 		t.Fatal(err)
 	}
 	mu.Lock()
 	defer mu.Unlock()
-	onNote := 0
-	for _, ev := range evs {
-		if c := 1200 * math.Log2(ev.Hz/noteHz); math.Abs(c) <= 1 {
-			onNote++
-		}
-	}
-	if onNote != 1 {
-		t.Errorf("the played note was read %d times within 1 ¢, want once", onNote)
-	}
-	for _, ev := range evs {
-		c := 1200 * math.Log2(ev.Hz/noteHz)
-		t.Logf("%.2f–%.2f s %s %.3f Hz (%+.3f ¢ from sox's %.2f Hz)", ev.Start, ev.End, ev.Reading.Note, ev.Hz, c, noteHz)
-		if math.Abs(c) > 1 {
-			t.Errorf("reported %s at %.3f Hz: not the played note", ev.Reading.Note, ev.Hz)
-		}
-	}
+	return evs, underruns
+}
+
+// countedSource counts the samples read from a Source.
+type countedSource struct {
+	source.Source
+	n atomic.Int64
+}
+
+func (c *countedSource) Read(p []float32) (int, error) {
+	n, err := c.Source.Read(p)
+	c.n.Add(int64(n))
+	return n, err
 }
 
 // What the meter hands the canceller: the drone's partials, and a

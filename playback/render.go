@@ -1,69 +1,34 @@
 package playback
 
-import (
-	"errors"
-	"fmt"
-	"os"
-	"time"
-)
+import "fifthline/device"
 
-// The renderer: a goroutine that keeps the output ring (capture.OutputRing) topped up
-// with the mixer's sound, and notices when the device stops taking it.
+// The renderer: a goroutine that keeps the output's ring topped up with
+// the mixer's sound; the output itself notices when the device stops
+// taking it.
 
 // ErrOutputLost means the output stopped taking sound: unplugged, taken by
 // the system, or its sound server gone.
-var ErrOutputLost = errors.New("output device lost")
-
-// Output loss: the device asks for sound every few tens of milliseconds;
-// silence from it for outputStall (outputGrace at the start, while a sound
-// server wakes an idle device) means it has gone.
-const (
-	outputStall = 2 * time.Second
-	outputGrace = 5 * time.Second
-)
+var ErrOutputLost = device.ErrOutputLost
 
 // Lost reports ErrOutputLost, naming the device, once the output has
 // stopped asking for sound; nil while it plays.
-func (p *Player) Lost() error {
-	if e := p.lost.Load(); e != nil {
-		return *e
-	}
-	return nil
-}
+func (p *Player) Lost() error { return p.out.Lost() }
 
 // renderAhead keeps the ring topped up until everything has faded out
-// after Close asked for it, or the pipe is closed; it notices the device
-// going away.
+// after Close asked for it, or the stream is closed.
 func (p *Player) renderAhead(block int) {
 	defer close(p.rendered)
 	buf := make([]float32, block)
-	played, since, limit := p.ring.Played(), time.Now(), outputGrace
-	for !p.silent.Load() && !p.closed.Load() {
-		if n := p.ring.Played(); n != played {
-			played, since, limit = n, time.Now(), outputStall
-		} else if time.Since(since) > limit && p.lost.Load() == nil {
-			err := fmt.Errorf("%w: %q took no sound for %v", ErrOutputLost, p.device.Name, limit)
-			p.lost.Store(&err)
-		}
-		p.ring.Waiting(true)
-		if p.ring.Fill()+block <= p.ring.Cap() {
-			p.ring.Waiting(false)
-			p.topUp(buf)
-			continue
-		}
-		// A second's deadline: a device that stopped asking must not
-		// leave the renderer asleep for ever.
-		if err := p.wake.Wait(time.Now().Add(time.Second)); err != nil && !errors.Is(err, os.ErrDeadlineExceeded) {
-			return
-		}
+	for !p.silent.Load() && !p.closed.Load() && p.out.AwaitRoom(block) {
+		p.topUp(buf)
 	}
 }
 
 // topUp renders blocks while the ring has room for them.
 func (p *Player) topUp(buf []float32) {
-	for p.ring.Fill()+len(buf) <= p.ring.Cap() && !p.silent.Load() {
+	for p.out.Fill()+len(buf) <= p.out.Cap() && !p.silent.Load() {
 		p.render(buf)
-		p.ring.Write(buf)
+		p.out.Write(buf)
 	}
 }
 
@@ -88,7 +53,7 @@ func (p *Player) render(out []float32) {
 		p.stopped = true
 		p.mix.ReleaseAll()
 	}
-	p.mix.Render(out, p.channels)
+	p.mix.Render(out, p.out.Channels())
 	if p.stopped && p.mix.Silent() {
 		p.silent.Store(true)
 	}
@@ -96,4 +61,4 @@ func (p *Player) render(out []float32) {
 
 // Underruns counts the audio callbacks that found too little rendered and
 // played silence (a click): zero unless the machine is overloaded.
-func (p *Player) Underruns() uint64 { return p.ring.Underruns() }
+func (p *Player) Underruns() uint64 { return p.out.Underruns() }

@@ -1,4 +1,4 @@
-// Package session runs the listening pipeline: samples from a capture.Source
+// Package session runs the listening pipeline: samples from a source.Source
 // go through a pitchdetect.Detector and Segmenter, and each frame and each
 // held note is read in the current target.Tuning and handed to the sinks (the
 // meter, the journal, line output).

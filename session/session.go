@@ -6,8 +6,8 @@ import (
 	"io"
 	"sync/atomic"
 
-	"fifthline/capture"
 	"fifthline/pitchdetect"
+	"fifthline/source"
 	"fifthline/target"
 )
 
@@ -63,12 +63,12 @@ type Options struct {
 // The note being held when the stream ends or ctx is cancelled is finished
 // and delivered, so nothing heard is lost. A finished stream returns nil;
 // cancellation returns ctx.Err().
-func Run(ctx context.Context, src capture.Source, opt Options) error {
+func Run(ctx context.Context, src source.Source, opt Options) error {
 	det, err := pitchdetect.New(src.SampleRate(), opt.Window, opt.Hop)
 	if err != nil {
 		return err
 	}
-	seg := pitchdetect.NewSegmenter(float64(det.Hop()) / src.SampleRate())
+	seg := det.NewSegmenter() // it trims by this window, not a default number of hops
 	block := make([]float32, max(opt.BlockSize, 1))
 	if opt.BlockSize == 0 {
 		block = make([]float32, 512)

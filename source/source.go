@@ -5,8 +5,11 @@
 // a Source without compiling the audio edge.
 //
 // It is not where samples come from: capture and the file readers implement
-// these interfaces.
+// these interfaces. (InputStats, what a live input counts, lives here for
+// the same reason: the meter shows it without compiling the audio edge.)
 package source
+
+import "math"
 
 // Source yields mono blocks of samples, like io.Reader: Read fills p with up
 // to len(p) samples in [-1, 1] and returns how many it wrote. At the end of
@@ -26,3 +29,21 @@ type Multi interface {
 	Channels() int
 	ReadChannels(dst [][]float32) (n int, err error)
 }
+
+// ClipLevel is the magnitude a live input counts as clipping: within
+// 0.01 dB of full scale.
+const ClipLevel = 0.999
+
+// InputStats counts what happened to a live input's audio since its
+// stream opened, for the meter's input-health line.
+type InputStats struct {
+	Blocks         uint64  // blocks the device delivered
+	Overflows      uint64  // blocks PortAudio flagged: the driver lost input before we saw it
+	DroppedBlocks  uint64  // blocks thrown away because the reader fell behind
+	DroppedSamples uint64  // samples in those blocks
+	Peak           float32 // largest magnitude of the channels read, 0..1
+	Clipped        uint64  // samples at or above ClipLevel
+}
+
+// PeakDBFS is Peak in decibels relative to full scale (-Inf for silence).
+func (s InputStats) PeakDBFS() float64 { return 20 * math.Log10(float64(s.Peak)) }

@@ -10,8 +10,8 @@ import (
 	"github.com/gdamore/tcell/v2"
 	"github.com/rivo/tview"
 
-	"fifthline/capture"
 	"fifthline/session"
+	"fifthline/source"
 	"fifthline/target"
 )
 
@@ -30,7 +30,7 @@ type Options struct {
 	Tunings *session.Tunings // the keys change it; the session reads it
 	Source  string           // what is heard, for the screen: a device name
 	// Stats reports the input's health; nil for sources without a device.
-	Stats func() capture.InputStats
+	Stats func() source.InputStats
 	// Journal reports the journal's state ("journal: FILE, N notes"); nil
 	// shows "journal: off".
 	Journal func() string

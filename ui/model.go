@@ -3,9 +3,9 @@ package ui
 import (
 	"math"
 
-	"fifthline/capture"
 	"fifthline/pitchdetect"
 	"fifthline/session"
+	"fifthline/source"
 	"fifthline/target"
 )
 
@@ -128,7 +128,7 @@ func heldOf(h pitchdetect.Held) Held {
 // SetInput updates the input health from the capture's running statistics.
 // Clipping shows while clipped samples keep arriving and for clipHold
 // seconds after the last.
-func (m *Model) SetInput(s capture.InputStats) {
+func (m *Model) SetInput(s source.InputStats) {
 	m.Input.Known = true
 	m.Input.PeakDBFS = s.PeakDBFS()
 	m.Input.Overflows, m.Input.Dropped = s.Overflows, s.DroppedBlocks

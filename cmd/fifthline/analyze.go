@@ -8,6 +8,7 @@ import (
 
 	"fifthline/capture"
 	"fifthline/session"
+	"fifthline/source"
 	"fifthline/target"
 )
 
@@ -112,7 +113,7 @@ func analyzeFile(e *env, path string, tu target.Tuning, opt analyzeOptions, out 
 
 // countingSource reports how far through a file the reading is.
 type countingSource struct {
-	capture.Source
+	source.Source
 	progress *progress
 	read     int64
 }

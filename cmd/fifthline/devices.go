@@ -5,7 +5,7 @@ import (
 	"strings"
 	"text/tabwriter"
 
-	"fifthline/capture"
+	"fifthline/device"
 )
 
 func runDevices(e *env, args []string) error {
@@ -17,7 +17,7 @@ func runDevices(e *env, args []string) error {
 	if len(pos) > 0 {
 		return usagef("devices takes no arguments (got %q)", pos[0])
 	}
-	devs, err := capture.Devices()
+	devs, err := device.Devices()
 	if err != nil {
 		return err
 	}
@@ -35,7 +35,7 @@ func runDevices(e *env, args []string) error {
 }
 
 // defaultMarks says in words which system defaults a device is.
-func defaultMarks(d capture.DeviceInfo) string {
+func defaultMarks(d device.Info) string {
 	var m []string
 	if d.DefaultInput {
 		m = append(m, "default input")

@@ -15,8 +15,10 @@ import (
 	"golang.org/x/sys/unix"
 
 	"fifthline/capture"
+	"fifthline/device"
 	"fifthline/drone"
 	"fifthline/session"
+	"fifthline/source"
 	"fifthline/ui"
 )
 
@@ -88,7 +90,7 @@ func runListen(e *env, args []string) error {
 
 // listenPlain writes the contract's CSV: a header, then each held note as it
 // ends, flushed at once so a reader sees it live and an interruption keeps it.
-func listenPlain(ctx context.Context, e *env, src capture.Source, opts session.Options, j *journalSink) error {
+func listenPlain(ctx context.Context, e *env, src source.Source, opts session.Options, j *journalSink) error {
 	w := csv.NewWriter(e.stdout)
 	w.Write(session.Header(false))
 	w.Flush()
@@ -113,9 +115,9 @@ func listenPlain(ctx context.Context, e *env, src capture.Source, opts session.O
 // meterSource is what the meter says about the sound it is fed.
 type meterSource struct {
 	name    string
-	stats   func() capture.InputStats // nil without a device
-	journal string                    // the --log path, if any
-	sound   *meterSound               // the drone and reference keys' sound
+	stats   func() source.InputStats // nil without a device
+	journal string                   // the --log path, if any
+	sound   *meterSound              // the drone and reference keys' sound
 	// hearsSound: the source is a microphone that may hear the sound.
 	hearsSound bool
 	ascii      bool // --ascii: the screen in ASCII whatever the locale
@@ -128,7 +130,7 @@ func addScreenFlags(fs *flag.FlagSet) *bool {
 
 // runMeter shows the meter fed by src until q, the end of ctx, or a failing
 // source. A source that simply ends (the demo) leaves the meter up.
-func runMeter(ctx context.Context, src capture.Source, opts session.Options, j *journalSink, ms meterSource) error {
+func runMeter(ctx context.Context, src source.Source, opts session.Options, j *journalSink, ms meterSource) error {
 	j.quiet = true // the screen shows the journal's state instead
 	m := ui.New(ui.Options{Tunings: opts.Tunings, Source: ms.name, Stats: ms.stats, Journal: func() string {
 		if s := j.status(); s != "" {
@@ -224,7 +226,7 @@ func muteLibraries(e *env) (*env, func(), error) {
 		keep = os.NewFile(uintptr(fd), "stderr")
 		quiet.stderr = keep
 	}
-	restore, err := capture.MuteStderr()
+	restore, err := device.MuteStderr()
 	if err != nil {
 		keep.Close() // nil-safe
 		return nil, nil, err

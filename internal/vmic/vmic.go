@@ -71,6 +71,7 @@ func Ensure(t testing.TB) string {
 // the same time do not hear each other.
 type Private struct {
 	Sink, Source string
+	ChannelMap   []string // IsolateChannels' channels; nil for PulseAudio's default stereo
 	t            testing.TB
 	module       string
 	removed      bool
@@ -84,10 +85,27 @@ var privateCount atomic.Int64
 // and Record follow it. Not for parallel tests: it sets the environment.
 func Isolate(t testing.TB) *Private {
 	t.Helper()
+	return isolate(t)
+}
+
+// IsolateChannels is Isolate with a sink of several channels, named in
+// PulseAudio's channel map (front-left, front-right, rear-left, ...), so a
+// test can play one sound per channel (PlayChannels) and read them back as
+// a multichannel interface's inputs.
+func IsolateChannels(t testing.TB, channelMap ...string) *Private {
+	t.Helper()
+	p := isolate(t, fmt.Sprintf("channels=%d", len(channelMap)), "channel_map="+strings.Join(channelMap, ","))
+	p.ChannelMap = channelMap
+	return p
+}
+
+func isolate(t testing.TB, args ...string) *Private {
+	t.Helper()
 	Ensure(t)
 	p := &Private{t: t, Sink: fmt.Sprintf("%s_%d_%d", Sink, os.Getpid(), privateCount.Add(1))}
 	p.Source = p.Sink + ".monitor"
-	p.module = strings.TrimSpace(pactl(t, "load-module", "module-null-sink", "sink_name="+p.Sink, "rate=48000"))
+	load := append([]string{"load-module", "module-null-sink", "sink_name=" + p.Sink, "rate=48000"}, args...)
+	p.module = strings.TrimSpace(pactl(t, load...))
 	t.Cleanup(p.Remove)
 	t.Setenv("PULSE_SINK", p.Sink)
 	t.Setenv("PULSE_SOURCE", p.Source)
@@ -135,6 +153,16 @@ func Play(t testing.TB, path string) (wait func() error) {
 	t.Helper()
 	sink, _ := current()
 	_, wait = background(t, "paplay", "--device="+sink, path)
+	return wait
+}
+
+// PlayChannels plays a file of len(p.ChannelMap) channels into the private
+// sink with the sink's own channel map, so that PulseAudio, whose streams
+// are remixed whenever their map differs from the sink's, puts channel k
+// of the file on channel k of the sink.
+func (p *Private) PlayChannels(path string) (wait func() error) {
+	p.t.Helper()
+	_, wait = background(p.t, "paplay", "--device="+p.Sink, "--channel-map="+strings.Join(p.ChannelMap, ","), path)
 	return wait
 }
 

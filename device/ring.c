@@ -18,6 +18,8 @@ fl_ring *fl_ring_new(int64_t cap, int channels, int fd) {
 	}
 	q->cap = cap;
 	q->channels = channels;
+	q->keep = channels; // every channel, until told otherwise
+	for (int k = 0; k < channels && k < FL_MAX_KEEP; k++) q->pick[k] = k;
 	q->fd = fd;
 	return q;
 }
@@ -36,21 +38,34 @@ static void wake(fl_ring *q) {
 	}
 }
 
-// put stores n frames of channel q->channel from in, or nothing if there
-// is not room for all of them.
-static int put(fl_ring *q, const float *in, int stride, int64_t n) {
-	int64_t w = __atomic_load_n(&q->w, __ATOMIC_RELAXED);
+// room says whether n more samples fit, and where the writer stands.
+static int room(fl_ring *q, int64_t n, int64_t *w) {
+	*w = __atomic_load_n(&q->w, __ATOMIC_RELAXED);
 	int64_t r = __atomic_load_n(&q->r, __ATOMIC_ACQUIRE);
-	if (q->cap - (w - r) < n) return 0;
-	for (int64_t i = 0; i < n; i++) q->buf[(w + i) % q->cap] = in[i * stride];
-	__atomic_store_n(&q->w, w + n, __ATOMIC_SEQ_CST);
+	return q->cap - (*w - r) >= n;
+}
+
+// put stores the picked channels of n frames of in (q->channels
+// interleaved), or nothing if there is not room for all of them.
+static int put(fl_ring *q, const float *in, int64_t n) {
+	int64_t w, keep = q->keep;
+	if (!room(q, n * keep, &w)) return 0;
+	int64_t at = w % q->cap; // cap is whole frames: a frame never wraps
+	for (int64_t i = 0; i < n; i++, in += q->channels) {
+		for (int64_t k = 0; k < keep; k++) q->buf[at + k] = in[q->pick[k]];
+		if ((at += keep) == q->cap) at = 0;
+	}
+	__atomic_store_n(&q->w, w + n * keep, __ATOMIC_SEQ_CST);
 	return 1;
 }
 
 int fl_ring_write(fl_ring *q, const float *p, int64_t n) {
-	int ok = put(q, p, 1, n);
-	if (ok) wake(q);
-	return ok;
+	int64_t w;
+	if (!room(q, n, &w)) return 0;
+	for (int64_t i = 0; i < n; i++) q->buf[(w + i) % q->cap] = p[i];
+	__atomic_store_n(&q->w, w + n, __ATOMIC_SEQ_CST);
+	wake(q);
+	return 1;
 }
 
 void fl_ring_deliver(fl_ring *q, const float *in, unsigned long frames, int overflow) {
@@ -64,14 +79,16 @@ void fl_ring_deliver(fl_ring *q, const float *in, unsigned long frames, int over
 	uint64_t clipped = 0;
 	for (unsigned long start = 0; start < frames; start += block) {
 		int64_t n = frames - start < block ? frames - start : block;
-		const float *x = in + start * q->channels + q->channel;
+		const float *x = in + start * q->channels;
 		for (int64_t i = 0; i < n; i++) {
-			float a = x[i * q->channels];
-			a = a < 0 ? -a : a;
-			if (a > peak) peak = a;
-			if (a >= q->clip) clipped++;
+			for (int k = 0; k < q->keep; k++) {
+				float a = x[i * q->channels + q->pick[k]];
+				a = a < 0 ? -a : a;
+				if (a > peak) peak = a;
+				if (a >= q->clip) clipped++;
+			}
 		}
-		if (!put(q, x, q->channels, n)) {
+		if (!put(q, x, n)) {
 			__atomic_add_fetch(&q->dropped, 1, __ATOMIC_RELAXED);
 			__atomic_add_fetch(&q->dropped_samples, (uint64_t)n, __ATOMIC_RELAXED);
 		}
@@ -100,7 +117,7 @@ void fl_ring_take(fl_ring *q, float *out, unsigned long frames) {
 			__atomic_add_fetch(&q->underruns, 1, __ATOMIC_RELAXED);
 	}
 	__atomic_store_n(&q->r, r + n, __ATOMIC_SEQ_CST);
-	if (w - r - n < q->low) wake(q);
+	if (w - r - n < __atomic_load_n(&q->low, __ATOMIC_RELAXED)) wake(q);
 }
 
 static int input_callback(const void *in, void *out, unsigned long frames,
@@ -120,7 +137,9 @@ static int output_callback(const void *in, void *out, unsigned long frames,
 	return paContinue;
 }
 
-static PaError open_stream(PaStream **s, fl_ring *q, int input, int device, int channels,
+// fl_open opens a stream on device whose callback is this file's: an input
+// delivering into q, or an output taking from it.
+PaError fl_open(PaStream **s, fl_ring *q, int input, int device, int channels,
 	double latency, double rate, unsigned long frames, unsigned long flags) {
 	PaStreamParameters p;
 	memset(&p, 0, sizeof p);
@@ -130,14 +149,4 @@ static PaError open_stream(PaStream **s, fl_ring *q, int input, int device, int 
 	p.suggestedLatency = latency;
 	if (input) return Pa_OpenStream(s, &p, NULL, rate, frames, flags, input_callback, q);
 	return Pa_OpenStream(s, NULL, &p, rate, frames, flags, output_callback, q);
-}
-
-PaError fl_open_input(PaStream **s, fl_ring *q, int device, int channels,
-	double latency, double rate, unsigned long frames, unsigned long flags) {
-	return open_stream(s, q, 1, device, channels, latency, rate, frames, flags);
-}
-
-PaError fl_open_output(PaStream **s, fl_ring *q, int device, int channels,
-	double latency, double rate, unsigned long frames, unsigned long flags) {
-	return open_stream(s, q, 0, device, channels, latency, rate, frames, flags);
 }

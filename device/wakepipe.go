@@ -1,4 +1,4 @@
-package capture
+package device
 
 import (
 	"fmt"
@@ -11,20 +11,20 @@ import (
 	"golang.org/x/sys/unix"
 )
 
-// WakePipe is how an audio callback written in C wakes a Go goroutine: the
-// callback writes a byte to W (non-blocking) and the goroutine sleeps in
+// wakePipe is how an audio callback written in C wakes a Go goroutine: the
+// callback writes a byte to w (non-blocking) and the goroutine sleeps in
 // Wait. Waiting takes no thread: the read end is non-blocking and sits in
 // Go's poller.
-type WakePipe struct {
+type wakePipe struct {
 	r           *os.File
 	rc          syscall.RawConn // r's, for the raw read
-	W           int             // the write end, for the C side
+	w           int             // the write end, for the C side
 	buf         []byte
 	interrupted atomic.Bool
 }
 
-// NewWakePipe opens a pipe.
-func NewWakePipe() (*WakePipe, error) {
+// newWakePipe opens a pipe.
+func newWakePipe() (*wakePipe, error) {
 	var fds [2]int
 	if err := unix.Pipe2(fds[:], unix.O_NONBLOCK|unix.O_CLOEXEC); err != nil {
 		return nil, fmt.Errorf("wake-up pipe: %w", err)
@@ -36,7 +36,7 @@ func NewWakePipe() (*WakePipe, error) {
 		unix.Close(fds[1])
 		return nil, fmt.Errorf("wake-up pipe: %w", err)
 	}
-	return &WakePipe{r: r, rc: rc, W: fds[1], buf: make([]byte, 64)}, nil
+	return &wakePipe{r: r, rc: rc, w: fds[1], buf: make([]byte, 64)}, nil
 }
 
 // Wait sleeps until a wake-up byte or the deadline (os.ErrDeadlineExceeded;
@@ -45,7 +45,7 @@ func NewWakePipe() (*WakePipe, error) {
 // while every Go thread was idle, wakes Go's monitor thread, which then
 // polls every 20 µs for as long as the work that follows runs (measured: a
 // sixth of listen's CPU).
-func (p *WakePipe) Wait(deadline time.Time) error {
+func (p *wakePipe) Wait(deadline time.Time) error {
 	_ = p.r.SetReadDeadline(deadline)
 	if p.interrupted.Load() { // after the deadline is set: see Interrupt
 		return os.ErrDeadlineExceeded
@@ -60,14 +60,14 @@ func (p *WakePipe) Wait(deadline time.Time) error {
 // Interrupt makes a Wait in progress, and every later one, return at once
 // with os.ErrDeadlineExceeded. A Wait that set its own deadline just after
 // this one's still sees the flag, set first.
-func (p *WakePipe) Interrupt() {
+func (p *wakePipe) Interrupt() {
 	p.interrupted.Store(true)
 	_ = p.r.SetReadDeadline(time.Now())
 }
 
 // Close closes both ends; only once the C side can no longer write, so it
 // cannot write to a reused descriptor.
-func (p *WakePipe) Close() {
+func (p *wakePipe) Close() {
 	p.r.Close()
-	unix.Close(p.W)
+	unix.Close(p.w)
 }

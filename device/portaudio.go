@@ -1,9 +1,11 @@
-package capture
+package device
 
 import (
 	"errors"
 	"fmt"
 	"os"
+	"strconv"
+	"strings"
 	"sync"
 
 	"github.com/gordonklaus/portaudio"
@@ -87,73 +89,13 @@ func QuietStderr(f func() error) error {
 	return f()
 }
 
-// NegotiateRate sets p.SampleRate to the first rate the device supports for
-// this stream: want if given, else PreferredRate, else the device's own
-// default. The error names the last rate tried; what names the stream.
-func NegotiateRate(p *portaudio.StreamParameters, want, deviceDefault float64, callback any, what string) error {
-	rates := []float64{want}
-	if want == 0 {
-		rates = []float64{PreferredRate, deviceDefault}
-	}
-	var err error
-	for _, r := range rates {
-		p.SampleRate = r
-		if err = portaudio.IsFormatSupported(*p, callback); err == nil {
-			return nil
-		}
-	}
-	return fmt.Errorf("%s cannot run at %v Hz: %w", what, rates[len(rates)-1], err)
-}
+var portAudio shared
 
-// Stream is what CloseStream ends: a binding's stream or the input's own.
-type Stream interface {
-	Stop() error
-	Abort() error
-	Close() error
-}
-
-// CloseStream ends a stream quietly and releases this user's share of
-// PortAudio: abort drops what is buffered (an input), otherwise the stream
-// plays it out first (an output's last fade). what names the stream in the
-// error ("input \"name\"").
-func CloseStream(s Stream, abort bool, release func(), what string) error {
-	err := QuietStderr(func() error {
-		end := s.Stop
-		if abort {
-			end = s.Abort
-		}
-		err := end()
-		if cerr := s.Close(); err == nil {
-			err = cerr
-		}
-		return err
-	})
-	release()
-	if err != nil {
-		return fmt.Errorf("%s: close: %w", what, err)
-	}
-	return nil
-}
-
-var (
-	portAudio       shared
-	streamNumbering sync.Once
-)
-
-// The binding hands each stream's serial number to C as a pointer. Go's
-// checkptr (on under -race) rejects such values below 4096, so a second
-// stream in a race-enabled binary dies. OpenStream with no callback fails
-// before reaching C but still takes a number: spend the low numbers once.
-func skipLowStreamNumbers() {
-	for range 4096 {
-		_, _ = portaudio.OpenStream(portaudio.StreamParameters{})
-	}
-}
-
-// InitPortAudio initialises PortAudio quietly; every caller that opens
-// streams or lists devices holds it, and the last release terminates
-// PortAudio. Release is safe to call more than once.
-func InitPortAudio() (release func(), err error) {
+// initPortAudio initialises PortAudio quietly; every stream and every
+// device listing holds it, and the last release terminates PortAudio.
+// Release is safe to call more than once. (Streams are opened in C, never
+// through the binding, whose stream numbering needs working around.)
+func initPortAudio() (release func(), err error) {
 	return portAudio.hold(func() error {
 		// Never let libjack start a server of its own: it is slow and noisy.
 		if os.Getenv("JACK_NO_START_SERVER") == "" {
@@ -162,13 +104,12 @@ func InitPortAudio() (release func(), err error) {
 		if err := QuietStderr(portaudio.Initialize); err != nil {
 			return fmt.Errorf("portaudio: %w", err)
 		}
-		streamNumbering.Do(skipLowStreamNumbers)
 		return nil
 	}, func() { _ = QuietStderr(portaudio.Terminate) })
 }
 
-// DeviceInfo describes one audio device as PortAudio sees it.
-type DeviceInfo struct {
+// Info describes one audio device as PortAudio sees it.
+type Info struct {
 	Index          int
 	Name           string
 	HostAPI        string
@@ -180,13 +121,13 @@ type DeviceInfo struct {
 }
 
 // Devices lists the audio devices, defaults marked.
-func Devices() ([]DeviceInfo, error) {
-	release, err := InitPortAudio()
+func Devices() ([]Info, error) {
+	release, err := initPortAudio()
 	if err != nil {
 		return nil, err
 	}
 	defer release()
-	var list []DeviceInfo
+	var list []Info
 	err = QuietStderr(func() error {
 		devs, err := portaudio.Devices()
 		if err != nil {
@@ -202,8 +143,8 @@ func Devices() ([]DeviceInfo, error) {
 	return list, err
 }
 
-func deviceInfo(d, defIn, defOut *portaudio.DeviceInfo) DeviceInfo {
-	info := DeviceInfo{
+func deviceInfo(d, defIn, defOut *portaudio.DeviceInfo) Info {
+	info := Info{
 		Index:          d.Index,
 		Name:           d.Name,
 		InputChannels:  d.MaxInputChannels,
@@ -218,5 +159,64 @@ func deviceInfo(d, defIn, defOut *portaudio.DeviceInfo) DeviceInfo {
 	return info
 }
 
-// ErrNoDevice means no input device matched the request.
-var ErrNoDevice = errors.New("no such input device")
+// Errors of device choice: nothing matched the request for an input or an
+// output (fifthline devices lists them).
+var (
+	ErrNoInput  = errors.New("no such input device")
+	ErrNoOutput = errors.New("no such output device")
+)
+
+// direction is an input or an output, for choosing a device.
+type direction struct {
+	input    bool
+	name     string // "input" or "output"
+	channels func(*portaudio.DeviceInfo) int
+	byDef    func() (*portaudio.DeviceInfo, error)
+	none     error
+}
+
+var (
+	input = direction{true, "input", func(d *portaudio.DeviceInfo) int { return d.MaxInputChannels },
+		portaudio.DefaultInputDevice, ErrNoInput}
+	output = direction{false, "output", func(d *portaudio.DeviceInfo) int { return d.MaxOutputChannels },
+		portaudio.DefaultOutputDevice, ErrNoOutput}
+)
+
+// pick resolves a request ("" for the default, a PortAudio index, an exact
+// name or a unique part of one) to a device for dir; it also says which
+// device is dir's default, if any. Call it with PortAudio held, quietly.
+func (dir direction) pick(want string) (found, def *portaudio.DeviceInfo, err error) {
+	def, err = dir.byDef()
+	if want == "" {
+		if err != nil || def == nil {
+			return nil, nil, fmt.Errorf("%w: no default %s device (%v)", dir.none, dir.name, err)
+		}
+		return def, def, nil
+	}
+	devs, err := portaudio.Devices()
+	if err != nil {
+		return nil, nil, fmt.Errorf("portaudio: listing devices: %w", err)
+	}
+	var parts []*portaudio.DeviceInfo
+	idx, isIndex := strconv.Atoi(want)
+	for _, d := range devs {
+		switch {
+		case dir.channels(d) < 1:
+		case isIndex == nil && d.Index == idx, strings.EqualFold(d.Name, want):
+			return d, def, nil
+		case strings.Contains(strings.ToLower(d.Name), strings.ToLower(want)):
+			parts = append(parts, d)
+		}
+	}
+	switch len(parts) {
+	case 1:
+		return parts[0], def, nil
+	case 0:
+		return nil, nil, fmt.Errorf("%w %q (fifthline devices lists them)", dir.none, want)
+	}
+	names := make([]string, len(parts))
+	for i, d := range parts {
+		names[i] = strconv.Quote(d.Name)
+	}
+	return nil, nil, fmt.Errorf("%s device %q is ambiguous: it matches %s", dir.name, want, strings.Join(names, ", "))
+}

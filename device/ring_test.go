@@ -1,4 +1,4 @@
-package capture
+package device
 
 import (
 	"errors"
@@ -8,6 +8,8 @@ import (
 	"time"
 
 	"golang.org/x/sys/unix"
+
+	"fifthline/source"
 )
 
 // The ring delivers every block whole and in order, or refuses it whole;
@@ -38,7 +40,7 @@ func TestRingKeepsOrderAndRefusesWholeBlocks(t *testing.T) {
 			model = append(model, b...)
 		}
 		out := make([]float32, s.read)
-		n := q.read(out)
+		n := q.readChannels([][]float32{out})
 		want := model[:min(s.read, len(model))]
 		if n != len(want) {
 			t.Fatalf("step %d: read %d samples, want %d", i, n, len(want))
@@ -71,7 +73,7 @@ func TestRingConcurrentWriterAndReader(t *testing.T) {
 	})
 	out := make([]float32, 333)
 	for want := 0; want < total; {
-		n := q.read(out)
+		n := q.readChannels([][]float32{out})
 		for _, v := range out[:n] {
 			if v != float32(want) {
 				t.Fatalf("read %v, want %v", v, want)
@@ -84,7 +86,7 @@ func TestRingConcurrentWriterAndReader(t *testing.T) {
 
 func testRing(t *testing.T, capacity int) *ring {
 	t.Helper()
-	q, err := newRing(capacity, 1, 0, -1)
+	q, err := newRing(capacity, 1, []int{0}, -1)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -95,7 +97,7 @@ func testRing(t *testing.T, capacity int) *ring {
 // interleaved frames goes into the ring in whole 512-frame blocks, and
 // peak, clipping, blocks and drops are counted.
 func TestRingDeliverKeepsOneChannelAndCounts(t *testing.T) {
-	q, err := newRing(1000, 3, 1, -1) // room for one 512-frame block, not two
+	q, err := newRing(1000, 3, []int{1}, -1) // room for one 512-frame block, not two
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -107,12 +109,12 @@ func TestRingDeliverKeepsOneChannelAndCounts(t *testing.T) {
 	buf[3*700+1] = -1 // a full-scale sample in the second block, which will not fit
 	q.deliver(buf, frames)
 	st := q.stats()
-	want := InputStats{Blocks: 1, DroppedBlocks: 1, DroppedSamples: 512, Peak: 1, Clipped: 1}
+	want := source.InputStats{Blocks: 1, DroppedBlocks: 1, DroppedSamples: 512, Peak: 1, Clipped: 1}
 	if st != want {
 		t.Errorf("stats %+v, want %+v", st, want)
 	}
 	out := make([]float32, 2000)
-	n := q.read(out)
+	n := q.readChannels([][]float32{out})
 	if n != 512 {
 		t.Fatalf("read %d samples, want the first block's 512", n)
 	}
@@ -135,7 +137,7 @@ func TestRingWakesOnlyAWaitingReader(t *testing.T) {
 	}
 	defer unix.Close(fds[0])
 	defer unix.Close(fds[1])
-	q, err := newRing(4096, 1, 0, fds[1])
+	q, err := newRing(4096, 1, []int{0}, fds[1])
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -159,7 +161,7 @@ func TestRingWakesOnlyAWaitingReader(t *testing.T) {
 // Interrupt ends a Wait in progress and every later one at once, whatever
 // deadline they set.
 func TestWakePipeInterruptEndsWaitsForGood(t *testing.T) {
-	p, err := NewWakePipe()
+	p, err := newWakePipe()
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -184,12 +186,12 @@ func TestWakePipeInterruptEndsWaitsForGood(t *testing.T) {
 
 // A byte from the C side ends a Wait.
 func TestWakePipeWakesOnAByte(t *testing.T) {
-	p, err := NewWakePipe()
+	p, err := newWakePipe()
 	if err != nil {
 		t.Fatal(err)
 	}
 	defer p.Close()
-	if _, err := unix.Write(p.W, []byte{1}); err != nil {
+	if _, err := unix.Write(p.w, []byte{1}); err != nil {
 		t.Fatal(err)
 	}
 	if err := p.Wait(time.Now().Add(5 * time.Second)); err != nil {

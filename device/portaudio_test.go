@@ -1,4 +1,4 @@
-package capture
+package device
 
 import (
 	"os"
