@@ -1,0 +1,175 @@
+package multipitch
+
+import (
+	"cmp"
+	"math"
+	"slices"
+)
+
+// prune fits the candidates jointly, then drops, one at a time, the voice
+// that explains least that the others cannot, while it explains too little
+// to be a voice: an octave or unison above a voice (its partials are that
+// voice's), a subharmonic guess, a candidate on noise. Twins the fit has
+// drawn together become one.
+func (e *Estimator) prune() {
+	f := e.fitter
+	for len(e.f0) > 0 {
+		resid := f.fit(e.f0, -1)
+		if i, j, ok := e.twins(); ok {
+			e.remove(e.weaker(i, j))
+			continue
+		}
+		noise, total := e.noise(resid)
+		worst, worstGain := -1, math.Inf(1)
+		cols := len(f.cols)
+		for v := range e.f0 {
+			f.build(e.f0, f.maxK, v)
+			gain := f.solve() - resid
+			if gain < e.needed(cols-len(f.cols), noise, total) && gain < worstGain {
+				worst, worstGain = v, gain
+			}
+		}
+		if worst < 0 {
+			break
+		}
+		e.remove(worst)
+	}
+	for v := range e.f0 {
+		for range 2 {
+			if !e.lower(v) {
+				break
+			}
+		}
+	}
+	f.build(e.f0, f.maxK, -1)
+	f.solve()
+}
+
+// noise is the residual energy per real degree of freedom after the fit
+// that left resid, and total the energy of the bins fitted.
+func (e *Estimator) noise(resid float64) (noise, total float64) {
+	f := e.fitter
+	for _, b := range f.used {
+		total += real(f.spec[b])*real(f.spec[b]) + imag(f.spec[b])*imag(f.spec[b])
+	}
+	return resid / math.Max(float64(2*(len(f.used)-len(f.cols))), 1), total
+}
+
+// needed is how much residual energy cols more columns must remove to be a
+// voice's: κ times what they would fit of the noise by chance, and no less
+// than relFloor of the chord.
+func (e *Estimator) needed(cols int, noise, total float64) float64 {
+	return math.Max(kappa*float64(2*cols)*noise, relFloor*total)
+}
+
+// lower tries voice v an octave down, and keeps it there when the partials
+// that adds explain enough that no voice did: a fundamental weaker than its
+// 2nd partial (bassoon, low brass, a voice's low register) is otherwise
+// heard an octave high, since the other voices often cover its odd partials
+// too.
+func (e *Estimator) lower(v int) bool {
+	f := e.fitter
+	down := e.f0[v] / 2
+	if down < e.cfg.MinHz || (e.cfg.Accept != nil && !e.cfg.Accept(down)) {
+		return false
+	}
+	// Both fits cover the same bins: the voices', and the lower octave's.
+	e.trial = append(append(e.trial[:0], e.f0...), down)
+	resid := f.fit(e.trial, len(e.f0))
+	noise, total := e.noise(resid)
+	cols := len(f.cols)
+	e.trial = append(e.trial[:0], e.f0...)
+	e.trial[v] = down
+	after := f.fit(e.trial, -1)
+	twin := math.Abs(cents(e.trial[v], down)) > twinCents
+	for u, hz := range e.trial {
+		twin = twin || (u != v && math.Abs(cents(hz, e.trial[v])) < twinCents)
+	}
+	if twin || resid-after < e.needed(len(f.cols)-cols, noise, total) {
+		return false
+	}
+	copy(e.f0, e.trial)
+	return true
+}
+
+// twins finds two voices the fit has put within twinCents of each other.
+func (e *Estimator) twins() (int, int, bool) {
+	for i := range e.f0 {
+		for j := i + 1; j < len(e.f0); j++ {
+			if math.Abs(cents(e.f0[i], e.f0[j])) < twinCents {
+				return i, j, true
+			}
+		}
+	}
+	return 0, 0, false
+}
+
+// weaker is whichever of voices i and j has less fitted energy.
+func (e *Estimator) weaker(i, j int) int {
+	if e.energyOf(i) < e.energyOf(j) {
+		return i
+	}
+	return j
+}
+
+// energyOf is the fitted energy of voice v's partials (sum of squared
+// amplitudes), from the last solve.
+func (e *Estimator) energyOf(v int) float64 {
+	s := 0.0
+	for i, a := range e.fitter.amp {
+		if e.fitter.cols[i].voice == v {
+			s += real(a)*real(a) + imag(a)*imag(a)
+		}
+	}
+	return s
+}
+
+func (e *Estimator) remove(v int) {
+	e.drop = append(e.drop, e.f0[v])
+	e.f0 = slices.Delete(e.f0, v, v+1)
+}
+
+// voices appends the kept voices, lowest first.
+func (e *Estimator) voices(dst []Voice) []Voice {
+	start := len(dst)
+	for v, hz := range e.f0 {
+		// A partial of amplitude A puts A/2 at the kernel's peak, n/2:
+		// |c| = A/2, and the voice's RMS is √(Σ A²/2).
+		amp := math.Sqrt(2 * e.energyOf(v))
+		dst = append(dst, Voice{Hz: hz, Amplitude: amp, Doubled: 2*hz <= e.cfg.MaxHz && e.evenExcess(v) > doubleGain})
+	}
+	slices.SortFunc(dst[start:], func(a, b Voice) int { return cmp.Compare(a.Hz, b.Hz) })
+	return dst
+}
+
+// doubleGain is how far, in power, a voice's even partials must stand
+// above their odd neighbours to say another voice doubles it an octave
+// above: that voice adds four times a partial's power to every second one
+// (its own partial k/2 has twice the amplitude, 1/k for a sawtooth), +7 dB
+// on average with unrelated phases; a smooth spectral envelope (Klapuri
+// 2003) has them level. 5 dB leaves room for a weaker double. A timbre whose
+// second partial dominates (an oboe's, a low flute's) can pass for a
+// doubled one; a unison double leaves no mark and is not reported.
+const doubleGain = 3.0
+
+// evenExcess is the power of voice v's even partials over the mean of
+// their odd neighbours', from the last solve.
+func (e *Estimator) evenExcess(v int) float64 {
+	var pow [maxPartials + 2]float64
+	top := 0
+	for i, a := range e.fitter.amp {
+		if c := e.fitter.cols[i]; c.voice == v {
+			pow[c.k] = real(a)*real(a) + imag(a)*imag(a)
+			top = max(top, c.k)
+		}
+	}
+	var on, off float64
+	for k := 2; k+1 <= top; k += 2 {
+		on += pow[k]
+		off += (pow[k-1] + pow[k+1]) / 2
+	}
+	if off == 0 {
+		return 0
+	}
+	return on / off
+}
