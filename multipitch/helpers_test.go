@@ -31,7 +31,7 @@ func chord(seconds, snrDB float64, seed uint64, parts ...part) []float64 {
 		}
 	}
 	if snrDB > 0 {
-		testsignal.AddNoise(x, testsignal.White(rand.New(rand.NewPCG(seed, 7)), n), snrDB)
+		testsignal.AddNoise(x, testsignal.White(newRand(seed), n), snrDB)
 	}
 	return x
 }
@@ -108,3 +108,5 @@ func (s score) meets(t *testing.T, what string, maxCents float64) {
 	}
 	t.Logf("%s: %d frames, median %.4f ¢, worst %.4f ¢, %d phantoms", what, s.frames, s.median(), s.worst, s.phantoms)
 }
+
+func newRand(seed uint64) *rand.Rand { return rand.New(rand.NewPCG(seed, 7)) }

@@ -20,13 +20,19 @@ func (e *Estimator) prune() {
 			continue
 		}
 		noise, total := e.noise(resid)
-		worst, worstGain := -1, math.Inf(1)
+		// Of the voices that fall short, the lowest goes first: a
+		// subharmonic guess that covers two real voices (C2 under C3 and
+		// G3) explains as little that they do not as they do that it does
+		// not, and it is the simpler reading to lose (Occam: it spends
+		// the most partials). A real voice under its octave double does
+		// not fall short: the double cannot explain its odd partials.
+		worst := -1
 		cols := len(f.cols)
 		for v := range e.f0 {
 			f.build(e.f0, f.maxK, v)
-			gain := f.solve() - resid
-			if gain < e.needed(cols-len(f.cols), noise, total) && gain < worstGain {
-				worst, worstGain = v, gain
+			short := f.solve()-resid < e.needed(cols-len(f.cols), noise, total)
+			if short && (worst < 0 || e.f0[v] < e.f0[worst]) {
+				worst = v
 			}
 		}
 		if worst < 0 {
