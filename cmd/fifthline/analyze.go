@@ -33,6 +33,7 @@ func runAnalyze(e *env, args []string) error {
 	fs.BoolVar(&opt.frames, "frames", false, "print the frame track (time_s,hz,confidence…) instead of held notes")
 	fs.IntVar(&opt.channel, "channel", 1, "channel to read, counted from 1")
 	jf := addJournalFlags(fs)
+	vf := addVoiceFlags(fs)
 	files, err := parseFlags(e, fs, args)
 	if err != nil {
 		return err
@@ -49,6 +50,11 @@ func runAnalyze(e *env, args []string) error {
 	tu, err := mf.tuning()
 	if err != nil {
 		return err
+	}
+	if vo, ok, err := vf.options(); err != nil {
+		return err
+	} else if ok {
+		return analyzeVoices(e, vo, files, tu, opt, jf)
 	}
 	var out eventWriter
 	if opt.frames {

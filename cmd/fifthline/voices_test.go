@@ -1,0 +1,71 @@
+package main
+
+import (
+	"math"
+	"strconv"
+	"testing"
+)
+
+// A held chord of three sawtooth voices that sox sums onto one channel
+// (C4 and a just E4 and G4 above it: 261.63 × 5/4 = 327.0375 and × 3/2 =
+// 392.445 Hz, from the ratios; sox's synth is the reference generator).
+// Each voice is one held note with its voice number, lowest first, read
+// within 0.5 ¢ of what sox was asked for.
+func TestAnalyzeVoicesFromSoxChord(t *testing.T) {
+	path := sox(t, "chord.wav", "-r", "44100", "-b", "16", "synth 2 sawtooth 261.63 sawtooth 327.0375 sawtooth 392.445 remix 1,2,3 gain -8")
+	code, out, stderr := runCLI(t, "analyze", "--voices", "auto", path)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	header, rows := readCSV(t, out)
+	if header[len(header)-1] != "voice" || len(rows) != 3 {
+		t.Fatalf("header %v, %d rows:\n%s", header, len(rows), out)
+	}
+	for i, want := range []struct {
+		note string
+		hz   float64
+	}{{"C4", 261.63}, {"E4", 327.0375}, {"G4", 392.445}} {
+		r := rows[i]
+		hz, _ := strconv.ParseFloat(r["hz"], 64)
+		if r["note"] != want.note || r["voice"] != strconv.Itoa(i+1) || math.Abs(1200*math.Log2(hz/want.hz)) > 0.5 {
+			t.Errorf("row %d: %v, want %s voice %d at %g Hz", i, r, want.note, i+1, want.hz)
+		}
+	}
+
+	// The same chord as chord rows: C major, the third read against just
+	// above the root actually sounding (0 ¢ by construction, within 0.5 ¢),
+	// and against equal temperament 13.69 ¢ low (386.31 − 400 ¢, from the
+	// definitions).
+	code, out, stderr = runCLI(t, "analyze", "--voices", "3", "--chords", path)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	header, rows = readCSV(t, out)
+	if len(header) != 9 || header[7] != "just_cents" || header[8] != "voice" || len(rows) != 3 {
+		t.Fatalf("header %v, %d rows:\n%s", header, len(rows), out)
+	}
+	for i, member := range []string{"root", "third", "fifth"} {
+		r := rows[i]
+		just, _ := strconv.ParseFloat(r["just_cents"], 64)
+		if r["chord"] != "C major" || r["member"] != member || math.Abs(just) > 0.5 {
+			t.Errorf("chord row %d: %v", i, r)
+		}
+	}
+	if c, _ := strconv.ParseFloat(rows[1]["cents"], 64); math.Abs(c+13.69) > 0.5 {
+		t.Errorf("third %v ¢ against equal temperament, want -13.69", c)
+	}
+}
+
+// Bad --voices values are usage errors, one line, exit 2 (interface
+// contract); so is --chords without --voices or --players.
+func TestVoicesUsageErrors(t *testing.T) {
+	path := sox(t, "a.wav", "-r", "44100", "-b", "16", "synth 0.5 sine 440")
+	for _, args := range [][]string{
+		{"--voices", "0"}, {"--voices", "9"}, {"--voices", "abc"}, {"--voices", "1"},
+		{"--voices", "2", "--players", "vc,vla"}, {"--chords"}, {"--voices", "2", "--seventh", "3/2"},
+		{"--voices", "2", "--frames"},
+	} {
+		code, _, stderr := runCLI(t, append(append([]string{"analyze"}, args...), path)...)
+		checkError(t, code, 2, stderr)
+	}
+}
