@@ -46,6 +46,8 @@ fuzz:
 bench: deps
 	$(GO) test -run XXX -bench . -benchmem ./pitchdetect/
 	$(GO) run ./cmd/fifthbench
+	$(GO) test -run XXX -bench . ./multipitch/
+	$(GO) run ./cmd/chordbench
 	@scripts/vmic-start
 	$(GO) test -run XXX -bench 'ListenPlainLive|ListenMeter|DemoMeterInTmux' -benchtime 1x ./cmd/fifthline/
 

@@ -62,7 +62,9 @@ func (s *searcher) whiten(spec []complex128) {
 // partial of f.
 func (s *searcher) salience(f float64) float64 {
 	sum := 0.0
-	for k := 1; float64(k)*f < s.ceilHz; k++ {
+	// Partials above the 40th weigh little and cost most of the time
+	// (at 20 a low brass voice's candidate loses to its octave).
+	for k := 1; float64(k)*f < s.ceilHz && k <= 40; k++ {
 		b, _ := s.peak(float64(k) * f)
 		if b < 0 {
 			break

@@ -67,6 +67,8 @@ type Estimator struct {
 	f0     []float64
 	drop   []float64
 	trial  []float64
+	floor  float64   // the spectrum's median power: its noise floor
+	sorted []float64 // scratch for it
 	out    []Voice
 }
 
@@ -169,6 +171,12 @@ func (e *Estimator) Analyze(x []float64, dst []Voice) []Voice {
 		e.frame[(c+n)%n] = v * (0.5 + 0.5*math.Cos(2*math.Pi*float64(c)/float64(n)))
 	}
 	e.fft.Coefficients(e.spec, e.frame)
+	e.sorted = e.sorted[:0]
+	for b := 1; float64(b)*e.fitter.binHz < e.fitter.ceilHz; b += 4 {
+		e.sorted = append(e.sorted, real(e.spec[b])*real(e.spec[b])+imag(e.spec[b])*imag(e.spec[b]))
+	}
+	slices.Sort(e.sorted)
+	e.floor = e.sorted[len(e.sorted)/2]
 
 	e.f0 = e.f0[:0]
 	e.search.whiten(e.spec)

@@ -3,7 +3,9 @@ package multipitch
 import (
 	"math"
 
-	"gonum.org/v1/gonum/mat"
+	"gonum.org/v1/gonum/blas"
+	"gonum.org/v1/gonum/blas/blas64"
+	"gonum.org/v1/gonum/lapack/lapack64"
 )
 
 // The joint fit: every voice's harmonic series at once, amplitudes by linear
@@ -29,27 +31,26 @@ type column struct {
 // fitter holds the spectrum and scratch for the fit; it is reused frame to
 // frame.
 type fitter struct {
-	kern   hannKernel
+	kern   *hannKernel
 	binHz  float64
 	ceilHz float64 // highest partial fitted
 	maxK   int
 	spec   []complex128 // the frame's spectrum, bins 0..n/2
 
 	cols  []column
-	gram  *mat.SymDense
-	chol  mat.Cholesky
+	gram  []float64 // the columns' Gram matrix, then its Cholesky factor
+	fac   blas64.Triangular
+	rhs   []float64    // right-hand sides: real and imaginary parts, or projections
 	amp   []complex128 // fitted complex amplitude per column
 	model []complex128 // per bin; only bins in used are meaningful
 	mark  []int        // generation stamp per bin
 	gen   int
 	used  []int
 	jac   [][]complex128 // per voice, per bin
-	vecRe *mat.VecDense
-	vecIm *mat.VecDense
 }
 
 func newFitter(n int, binHz, ceilHz float64, maxK int) *fitter {
-	f := &fitter{kern: hannKernel{float64(n)}, binHz: binHz, ceilHz: ceilHz, maxK: maxK}
+	f := &fitter{kern: newHannKernel(n, support+1), binHz: binHz, ceilHz: ceilHz, maxK: maxK}
 	f.model = make([]complex128, n/2+1)
 	f.mark = make([]int, n/2+1)
 	return f
@@ -100,10 +101,8 @@ func (f *fitter) solve() float64 {
 	if p == 0 {
 		return f.energy(nil)
 	}
-	if f.gram == nil || f.gram.SymmetricDim() != p {
-		f.gram = mat.NewSymDense(p, nil)
-		f.vecRe, f.vecIm = mat.NewVecDense(p, nil), mat.NewVecDense(p, nil)
-	}
+	f.gram = grow(f.gram, p*p)
+	f.rhs = grow(f.rhs, 2*p)
 	diag := 0.0
 	for i := range f.cols {
 		a := &f.cols[i]
@@ -114,23 +113,22 @@ func (f *fitter) solve() float64 {
 				im += w * imag(f.spec[b])
 			}
 		}
-		f.vecRe.SetVec(i, re)
-		f.vecIm.SetVec(i, im)
+		f.rhs[2*i], f.rhs[2*i+1] = re, im
 		for q := i; q < p; q++ {
-			f.gram.SetSym(i, q, f.dot(a, &f.cols[q]))
+			f.gram[i*p+q] = f.dot(a, &f.cols[q])
 		}
-		diag = math.Max(diag, f.gram.At(i, i))
+		diag = math.Max(diag, f.gram[i*p+i])
 	}
 	for i := range p {
-		f.gram.SetSym(i, i, f.gram.At(i, i)+ridge*diag)
+		f.gram[i*p+i] += ridge * diag
 	}
-	if !f.chol.Factorize(f.gram) {
+	var ok bool
+	if f.fac, ok = lapack64.Potrf(blas64.Symmetric{Uplo: blas.Upper, N: p, Stride: p, Data: f.gram}); !ok {
 		return math.Inf(1)
 	}
-	_ = f.chol.SolveVecTo(f.vecRe, f.vecRe)
-	_ = f.chol.SolveVecTo(f.vecIm, f.vecIm)
+	lapack64.Potrs(f.fac, blas64.General{Rows: p, Cols: 2, Stride: 2, Data: f.rhs})
 	for i := range p {
-		f.amp = append(f.amp, complex(f.vecRe.AtVec(i), f.vecIm.AtVec(i)))
+		f.amp = append(f.amp, complex(f.rhs[2*i], f.rhs[2*i+1]))
 	}
 	return f.energy(f.amp)
 }
@@ -193,11 +191,11 @@ func (f *fitter) step(f0 []float64, maxStep float64) {
 	}
 	// Project each voice's direction off the amplitudes' span (what the
 	// amplitudes can absorb is not evidence of a pitch change).
-	p := len(f.cols)
-	re, im := mat.NewVecDense(p, nil), mat.NewVecDense(p, nil)
-	for v := range nv {
-		for i := range f.cols {
-			c := &f.cols[i]
+	p, w2 := len(f.cols), 2*nv
+	f.rhs = grow(f.rhs, p*w2)
+	for i := range f.cols {
+		c := &f.cols[i]
+		for v := range nv {
 			var sr, si float64
 			for j, w := range c.w {
 				if b := c.lo + j; b >= 1 {
@@ -205,14 +203,14 @@ func (f *fitter) step(f0 []float64, maxStep float64) {
 					si += w * imag(f.jac[v][b])
 				}
 			}
-			re.SetVec(i, sr)
-			im.SetVec(i, si)
+			f.rhs[i*w2+2*v], f.rhs[i*w2+2*v+1] = sr, si
 		}
-		_ = f.chol.SolveVecTo(re, re)
-		_ = f.chol.SolveVecTo(im, im)
-		for i := range f.cols {
-			c := &f.cols[i]
-			y := complex(re.AtVec(i), im.AtVec(i))
+	}
+	lapack64.Potrs(f.fac, blas64.General{Rows: p, Cols: w2, Stride: w2, Data: f.rhs})
+	for i := range f.cols {
+		c := &f.cols[i]
+		for v := range nv {
+			y := complex(f.rhs[i*w2+2*v], f.rhs[i*w2+2*v+1])
 			for j, w := range c.w {
 				if b := c.lo + j; b >= 1 {
 					f.jac[v][b] -= y * complex(w, 0)
@@ -220,40 +218,39 @@ func (f *fitter) step(f0 []float64, maxStep float64) {
 			}
 		}
 	}
-	h := mat.NewSymDense(nv, nil)
-	g := mat.NewVecDense(nv, nil)
+	// The normal equations of the step, nv × nv.
+	h, g := make([]float64, nv*nv), make([]float64, nv)
 	for u := range nv {
-		var gu float64
 		for _, b := range f.used {
 			r := f.spec[b] - f.model[b]
-			gu += real(f.jac[u][b])*real(r) + imag(f.jac[u][b])*imag(r)
+			g[u] += real(f.jac[u][b])*real(r) + imag(f.jac[u][b])*imag(r)
 		}
-		g.SetVec(u, gu)
 		for v := u; v < nv; v++ {
-			var s float64
 			for _, b := range f.used {
-				s += real(f.jac[u][b])*real(f.jac[v][b]) + imag(f.jac[u][b])*imag(f.jac[v][b])
+				h[u*nv+v] += real(f.jac[u][b])*real(f.jac[v][b]) + imag(f.jac[u][b])*imag(f.jac[v][b])
 			}
-			h.SetSym(u, v, s)
 		}
-	}
-	for u := range nv {
-		if h.At(u, u) == 0 { // a voice left out: it has no direction to move in
-			h.SetSym(u, u, 1)
+		if h[u*nv+u] == 0 { // a voice left out: it has no direction to move in
+			h[u*nv+u] = 1
 		}
-		h.SetSym(u, u, h.At(u, u)*(1+1e-9))
+		h[u*nv+u] *= 1 + 1e-9
 	}
-	var ch mat.Cholesky
-	if !ch.Factorize(h) {
+	t, ok := lapack64.Potrf(blas64.Symmetric{Uplo: blas.Upper, N: nv, Stride: nv, Data: h})
+	if !ok {
 		return
 	}
-	d := mat.NewVecDense(nv, nil)
-	if ch.SolveVecTo(d, g) != nil {
-		return
-	}
+	lapack64.Potrs(t, blas64.General{Rows: nv, Cols: 1, Stride: 1, Data: g})
 	for v := range nv {
-		f0[v] += math.Max(-maxStep, math.Min(maxStep, d.AtVec(v)))
+		f0[v] += math.Max(-maxStep, math.Min(maxStep, g[v]))
 	}
+}
+
+// grow returns s resized to n, reusing its memory when it can.
+func grow(s []float64, n int) []float64 {
+	if cap(s) < n {
+		return make([]float64, n)
+	}
+	return s[:n]
 }
 
 // fit refines the fundamentals f0 in place: the comb grows from the lowest

@@ -40,6 +40,8 @@ func (e *Estimator) prune() {
 		}
 		e.remove(worst)
 	}
+	f.build(e.f0, f.maxK, -1)
+	f.solve()
 	for v := range e.f0 {
 		for range 2 {
 			if !e.lower(v) {
@@ -47,8 +49,6 @@ func (e *Estimator) prune() {
 			}
 		}
 	}
-	f.build(e.f0, f.maxK, -1)
-	f.solve()
 }
 
 // noise is the residual energy per real degree of freedom after the fit
@@ -76,9 +76,13 @@ func (e *Estimator) needed(cols int, noise, total float64) float64 {
 func (e *Estimator) lower(v int) bool {
 	f := e.fitter
 	down := e.f0[v] / 2
-	if down < e.cfg.MinHz || (e.cfg.Accept != nil && !e.cfg.Accept(down)) {
+	if down < e.cfg.MinHz || (e.cfg.Accept != nil && !e.cfg.Accept(down)) || !e.oddEvidence(down) {
 		return false
 	}
+	defer func() { // leave the fit of the voices kept in place
+		f.build(e.f0, f.maxK, -1)
+		f.solve()
+	}()
 	// Both fits cover the same bins: the voices', and the lower octave's.
 	e.trial = append(append(e.trial[:0], e.f0...), down)
 	resid := f.fit(e.trial, len(e.f0))
@@ -178,4 +182,34 @@ func (e *Estimator) evenExcess(v int) float64 {
 		return 0
 	}
 	return on / off
+}
+
+// oddEvidence is a quick look before lower's two fits: does anything the
+// fit of the voices leaves stand 15 dB above the noise floor at the 1st,
+// 3rd, 5th or 7th partial of f where no voice has a partial? When every one
+// of them is shared, only the fits can tell.
+func (e *Estimator) oddEvidence(f float64) bool {
+	f0, bin := e.f0, e.fitter.binHz
+	tested := false
+	for k := 1.0; k <= 7; k += 2 {
+		hz := k * f
+		shared := slices.ContainsFunc(f0, func(g float64) bool {
+			return math.Abs(hz-g*math.Round(hz/g)) < 3*bin && math.Round(hz/g) >= 1
+		})
+		b := int(math.Round(hz / bin))
+		if shared || b+1 >= len(e.spec) {
+			continue
+		}
+		tested = true
+		for j := b - 1; j <= b+1; j++ {
+			r := e.spec[j]
+			if e.fitter.mark[j] == e.fitter.gen {
+				r -= e.fitter.model[j]
+			}
+			if real(r)*real(r)+imag(r)*imag(r) > 30*e.floor {
+				return true
+			}
+		}
+	}
+	return !tested
 }

@@ -1,7 +1,6 @@
 package multipitch
 
 import (
-	"math"
 	"testing"
 
 	"fifthline/internal/sf2"
@@ -31,27 +30,6 @@ func loopsOf(t *testing.T, names ...string) map[string][]sf2.Loop {
 	return out
 }
 
-// voiceAt is the instrument's loop nearest hz moved to about hz at the
-// test's rate by re-periodising it (testsignal.Reperiod: band-limited, so
-// the loop's k cycles in m samples sound at exactly k·rate/m), repeated for
-// n samples; it returns the samples and that exact fundamental.
-func voiceAt(t *testing.T, loops []sf2.Loop, hz float64, n int) ([]float64, float64) {
-	t.Helper()
-	if len(loops) == 0 {
-		t.Fatal("no usable loop")
-	}
-	best := loops[0]
-	for _, l := range loops {
-		if math.Abs(math.Log(l.Hz/hz)) < math.Abs(math.Log(best.Hz/hz)) {
-			best = l
-		}
-	}
-	m := int(math.Round(float64(best.Cycles) * rate / hz))
-	x := testsignal.Repeat(testsignal.Reperiod(best.Frames, m), n)
-	testsignal.Normalize(x, 0.2)
-	return x, float64(best.Cycles) * rate / float64(m)
-}
-
 // Real instrument spectra: FluidR3 sample loops (the ones whose loops hold
 // exact whole cycles: clarinet, trombone, tuba) moved to the pitches of just
 // and tempered chords and mixed with white noise at 40 dB SNR. Every voice
@@ -78,7 +56,11 @@ func TestSoundFontChords(t *testing.T) {
 		x := make([]float64, n)
 		var truth []float64
 		for _, p := range tc.voices {
-			y, hz := voiceAt(t, loops[p.inst], p.hz, n)
+			l, ok := sf2.Nearest(loops[p.inst], p.hz)
+			if !ok {
+				t.Fatalf("no usable %s loop", p.inst)
+			}
+			y, hz := l.At(rate, p.hz, n)
 			for i := range x {
 				x[i] += y[i]
 			}
