@@ -35,6 +35,16 @@ func (e *Estimator) prune() {
 				worst = v
 			}
 		}
+		if worst < 0 && len(e.f0) > e.cfg.MaxVoices {
+			// More voices explain something than were asked for: the
+			// weakest goes.
+			worst = 0
+			for v := range e.f0 {
+				if e.energyOf(v) < e.energyOf(worst) {
+					worst = v
+				}
+			}
+		}
 		if worst < 0 {
 			break
 		}
@@ -52,7 +62,9 @@ func (e *Estimator) prune() {
 }
 
 // noise is the residual energy per real degree of freedom after the fit
-// that left resid, and total the energy of the bins fitted.
+// that left resid, and total the energy of the bins fitted. A voice with
+// vibrato leaves a residual no harmonic model removes; a candidate fitting
+// that must not pass for a voice, so the bar rises with it.
 func (e *Estimator) noise(resid float64) (noise, total float64) {
 	f := e.fitter
 	for _, b := range f.used {

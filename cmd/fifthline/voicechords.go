@@ -15,8 +15,8 @@ import (
 )
 
 // minChordSeconds: a set of notes sounding together for less than this is a
-// passing moment, not a held chord.
-const minChordSeconds = 0.1
+// passing moment (one voice entering late), not a held chord.
+const minChordSeconds = 0.3
 
 // heldChord is a stretch of time over which the same notes sound together.
 type heldChord struct {
