@@ -22,8 +22,8 @@ const tableHead = "| mixture | voices | median ¢ | worst ¢ | phantoms | missed
 
 const tableFoot = "\nTargets (issue 14): every voice found, median ≤ 0.5 ¢, every voice within 2 ¢ (3 ¢ with vibrato), phantoms ≤ 10 %, offline ≥ 5× real time on one core. " +
 	"Frames are scored whose window lies wholly in the take; a voice with vibrato is scored by its mean over the take against its centre. " +
-	"Spread is the standard deviation of the steady voices' frame errors; the CRB is the largest of the voices' single-voice bounds over one window " +
-	"(Christensen & Jakobsson 2009: with partials apart, the multi-pitch bound is the single-pitch one; where partials coincide it is higher). " +
+	"Spread is the standard deviation of the steady voices' frame errors; the CRB is the largest voice's bound over one window with all voices estimated together " +
+	"(testsignal.CramerRaoChordHz: the joint model's Fisher information, so coinciding partials raise it; 30 partials a voice). " +
 	"The one-pitch detectors hear one pitch per moment: 'voices found' counts the chord's voices they report in at least a tenth of the frames.\n"
 
 // measure runs the three detectors on one mixture and formats its row.
@@ -73,10 +73,13 @@ func measure(m mixture, wav string) (string, error) {
 			errs = append(errs, math.Abs(means[i]/float64(counts[i])))
 		}
 	}
+	cv := make([]testsignal.ChordVoice, len(m.voices))
+	for i, v := range m.voices {
+		cv[i] = testsignal.ChordVoice{Hz: v.hz, Amps: v.amps}
+	}
 	crb := 0.0
-	for _, v := range m.voices {
-		hz := testsignal.CramerRaoHz(rate, est.Window(), v.amps, v.hz, m.sigma)
-		crb = math.Max(crb, 1200/math.Ln2*hz/v.hz)
+	for i, hz := range testsignal.CramerRaoChordHz(rate, est.Window(), cv, m.sigma) {
+		crb = math.Max(crb, 1200/math.Ln2*hz/m.voices[i].hz)
 	}
 	one, err := oneDetector(m)
 	if err != nil {
