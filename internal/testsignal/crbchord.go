@@ -27,7 +27,7 @@ type ChordVoice struct {
 // fundamentals' bound as it is.
 func CramerRaoChordHz(rate float64, n int, voices []ChordVoice, sigma float64) []float64 {
 	type partial struct {
-		voice, k int
+		voice, k   int
 		amp, phase float64
 	}
 	var ps []partial
