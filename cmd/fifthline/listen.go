@@ -32,6 +32,7 @@ func runListen(e *env, args []string) error {
 	plain := fs.Bool("plain", false, "no screen: a CSV header, then one line per held note as it ends")
 	duration := fs.Duration("duration", 0, "stop cleanly after this long (e.g. 12s, 2m); 0 listens until interrupted")
 	sf := addSoundFlags(fs)
+	vf := addVoiceFlags(fs)
 	pos, err := parseFlags(e, fs, args)
 	if err != nil {
 		return err
@@ -51,6 +52,12 @@ func runListen(e *env, args []string) error {
 	if err != nil {
 		return err
 	}
+	vo, voices, err := vf.options()
+	if err != nil {
+		return err
+	} else if voices && !*plain {
+		return usagef("listen --voices needs --plain: the meter has no chord view yet")
+	}
 	ctx := e.ctx
 	if *duration > 0 {
 		var cancel context.CancelFunc
@@ -67,9 +74,12 @@ func runListen(e *env, args []string) error {
 		return errors.Join(err, j.close())
 	}
 	opts := session.Options{Name: in.Device().Name, Tunings: session.NewTunings(tu)}
-	if *plain {
+	switch {
+	case voices:
+		err = listenVoices(ctx, e, in, opts.Name, tu, vo, j)
+	case *plain:
 		err = listenPlain(ctx, e, in, opts, j)
-	} else {
+	default:
 		// The drone leaks into a microphone: the meter hears the input
 		// with the player's partials taken out (nothing while silent).
 		sound := newMeterSound(sf)

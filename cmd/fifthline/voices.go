@@ -125,37 +125,15 @@ func readVoices(e *env, path string, tu target.Tuning, vo voiceOptions, channel 
 		return nil, err
 	}
 	defer w.Close()
-	est, err := multipitch.New(w.SampleRate(), 0, 0, multipitch.Config{MaxVoices: vo.max})
-	if err != nil {
-		return nil, fmt.Errorf("%s: %w", path, err)
-	}
 	progress := newProgress(e.stderr, path, w.Duration())
 	defer progress.Done()
 	var notes []voiceNote
-	tr := newTracker(path, tu, float64(est.Hop())/w.SampleRate(), float64(est.Window())/w.SampleRate(), func(n voiceNote) {
+	err = hearVoices(e.ctx, w, path, tu, vo, progress.At, func(n voiceNote) error {
 		j.note(n.Event)
 		notes = append(notes, n)
+		return nil
 	})
-	block := make([]float32, 4096)
-	for read := 0; ; {
-		if err = e.ctx.Err(); err != nil {
-			break
-		}
-		n, rerr := w.Read(block)
-		read += n
-		progress.At(float64(read) / w.SampleRate())
-		est.Feed(block[:n], tr.push)
-		if rerr != nil {
-			if !errors.Is(rerr, io.EOF) {
-				err = rerr
-			}
-			break
-		}
-	}
-	tr.flush()
-	slices.SortStableFunc(notes, func(a, b voiceNote) int {
-		return cmp.Or(cmp.Compare(a.Start, b.Start), cmp.Compare(a.voice, b.voice))
-	})
+	sortVoiceNotes(notes)
 	switch {
 	case errors.Is(err, context.Canceled):
 		return notes, fmt.Errorf("%s: interrupted; the notes before it are written", path)
@@ -166,4 +144,46 @@ func readVoices(e *env, path string, tu target.Tuning, vo voiceOptions, channel 
 		fmt.Fprintf(e.stderr, "fifthline: warning: %s is shorter than its header says; read what was there\n", path)
 	}
 	return notes, nil
+}
+
+func sortVoiceNotes(notes []voiceNote) {
+	slices.SortStableFunc(notes, func(a, b voiceNote) int {
+		return cmp.Or(cmp.Compare(a.Start, b.Start), cmp.Compare(a.voice, b.voice))
+	})
+}
+
+// hearVoices reads src until it ends or ctx is done, handing each voice's
+// held note to emit as it ends (at seconds: how far the reading is). The
+// notes still held at the end are finished and handed on too, so an
+// interruption loses none; an error from emit stops the reading.
+func hearVoices(ctx context.Context, src capture.Source, name string, tu target.Tuning, vo voiceOptions, at func(seconds float64), emit func(voiceNote) error) error {
+	rate := src.SampleRate()
+	est, err := multipitch.New(rate, 0, 0, multipitch.Config{MaxVoices: vo.max})
+	if err != nil {
+		return err
+	}
+	var emitErr error
+	tr := newTracker(name, tu, float64(est.Hop())/rate, float64(est.Window())/rate, func(n voiceNote) {
+		if emitErr == nil {
+			emitErr = emit(n)
+		}
+	})
+	block := make([]float32, 1024)
+	for read := 0; emitErr == nil; {
+		if err = ctx.Err(); err != nil {
+			break
+		}
+		n, rerr := src.Read(block)
+		read += n
+		at(float64(read) / rate)
+		est.Feed(block[:n], tr.push)
+		if rerr != nil {
+			if !errors.Is(rerr, io.EOF) {
+				err = rerr
+			}
+			break
+		}
+	}
+	tr.flush()
+	return cmp.Or(emitErr, err)
 }

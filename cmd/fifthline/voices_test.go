@@ -2,6 +2,7 @@ package main
 
 import (
 	"math"
+	"os"
 	"strconv"
 	"testing"
 )
@@ -67,5 +68,33 @@ func TestVoicesUsageErrors(t *testing.T) {
 	} {
 		code, _, stderr := runCLI(t, append(append([]string{"analyze"}, args...), path)...)
 		checkError(t, code, 2, stderr)
+	}
+}
+
+// listen --plain --voices hears the same chord live through a private
+// virtual microphone (PulseAudio null sink, PortAudio input): one line per
+// voice, lowest first, each within 0.5 ¢ of what sox was asked for.
+func TestListenVoicesThroughTheVirtualMicrophone(t *testing.T) {
+	t.Parallel()
+	_, env, play := privateMic(t)
+	wav := sox(t, "chord.wav", "-r", "48000", "-b", "16", "synth 2 sawtooth 261.63 sawtooth 327.0375 sawtooth 392.445 remix 1,2,3 gain -8 pad 0.5 1")
+	wait, proc := startPlainProcess(t, env, "--voices", "auto", "--duration", "60s")
+	play(wav)
+	if err := proc.Signal(os.Interrupt); err != nil {
+		t.Fatal(err)
+	}
+	code, out, stderr := wait()
+	if code != 0 {
+		t.Fatalf("exit %d, stderr %q", code, stderr)
+	}
+	_, rows := readCSV(t, out)
+	if len(rows) != 3 {
+		t.Fatalf("want 3 voices' notes:\n%s", out)
+	}
+	for i, want := range []float64{261.63, 327.0375, 392.445} {
+		hz, _ := strconv.ParseFloat(rows[i]["hz"], 64)
+		if rows[i]["voice"] != strconv.Itoa(i+1) || math.Abs(1200*math.Log2(hz/want)) > 0.5 {
+			t.Errorf("row %d: %v, want voice %d at %g Hz", i, rows[i], i+1, want)
+		}
 	}
 }

@@ -27,14 +27,18 @@ type tracker struct {
 	tu          target.Tuning
 	hop, window float64
 	tracks      []*track
+	done        []pitchdetect.Held // notes given out lately, to number voices by
 	emit        func(voiceNote)
 }
 
 type track struct {
 	seg    *pitchdetect.Segmenter
 	hz     float64
-	voice  int
+	start  float64 // its first frame
+	frames int
 	missed int // frames in a row without its voice
+	// delivered: its note is among tr.done (then it is not counted twice)
+	delivered bool
 }
 
 func newTracker(name string, tu target.Tuning, hop, window float64, emit func(voiceNote)) *tracker {
@@ -66,7 +70,7 @@ func (tr *tracker) push(f multipitch.Frame) {
 		got[p.t], taken[p.v] = true, true
 		tr.feed(tr.tracks[p.t], f.Time, f.Voices[p.v])
 	}
-	kept := tr.tracks[:0]
+	var kept []*track // a new slice: deliver reads tr.tracks meanwhile
 	for ti, t := range tr.tracks {
 		if !got[ti] {
 			t.missed++
@@ -87,7 +91,7 @@ func (tr *tracker) push(f multipitch.Frame) {
 		if !taken[vi] {
 			s := pitchdetect.NewSegmenter(tr.hop)
 			s.Window = tr.window
-			t := &track{seg: s, hz: v.Hz, voice: vi + 1}
+			t := &track{seg: s, hz: v.Hz, start: f.Time}
 			tr.tracks = append(tr.tracks, t)
 			tr.feed(t, f.Time, v)
 		}
@@ -96,6 +100,7 @@ func (tr *tracker) push(f multipitch.Frame) {
 
 func (tr *tracker) feed(t *track, at float64, v multipitch.Voice) {
 	t.hz, t.missed = v.Hz, 0
+	t.frames++
 	e := pitchdetect.Estimate{Time: at, Hz: v.Hz, Confidence: 1, Voiced: true, Level: 20 * math.Log10(v.Amplitude+1e-12)}
 	if h, ok := t.seg.Push(e); ok {
 		tr.deliver(t, h)
@@ -113,5 +118,27 @@ func (tr *tracker) flush() {
 }
 
 func (tr *tracker) deliver(t *track, h pitchdetect.Held) {
-	tr.emit(voiceNote{session.Event{Source: tr.name, Held: h, Reading: tr.tu.Classify(h.Hz), Tuning: tr.tu}, t.voice})
+	if h.VibratoRate*tr.window > 1 {
+		// A vibrato faster than one cycle a window is mostly averaged away
+		// inside each frame; scaling what is left back up (the segmenter
+		// knows its window) gives nonsense widths. Its centre stands.
+		h.VibratoWidth, h.VibratoRate = 0, 0
+	}
+	// Voice 1 is the lowest sounding at the note's start: among the notes
+	// given out and the tracks held long enough to be notes, not the
+	// passing readings of an onset.
+	voice := 1
+	for _, d := range tr.done {
+		if d.Start <= h.Start && d.End >= h.Start && d.Hz < h.Hz {
+			voice++
+		}
+	}
+	for _, o := range tr.tracks {
+		if o != t && !o.delivered && o.start <= h.Start && o.frames >= o.seg.MinFrames && o.hz < h.Hz {
+			voice++
+		}
+	}
+	t.delivered = true
+	tr.done = append(slices.DeleteFunc(tr.done, func(d pitchdetect.Held) bool { return d.End < h.Start-60 }), h)
+	tr.emit(voiceNote{session.Event{Source: tr.name, Held: h, Reading: tr.tu.Classify(h.Hz), Tuning: tr.tu}, voice})
 }
