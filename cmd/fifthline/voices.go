@@ -59,13 +59,8 @@ func (vf *voiceFlags) options() (opt voiceOptions, ok bool, err error) {
 		}
 		return opt, false, nil
 	}
-	switch n, err := strconv.Atoi(vf.voices); {
-	case vf.voices == "auto":
-		opt.max = 4
-	case err != nil || n < 2 || n > 4:
-		return opt, false, usagef("--voices %q: give 2, 3 or 4 voices, or auto", vf.voices)
-	default:
-		opt.max = n
+	if opt.max, err = parseVoices(vf.voices); err != nil {
+		return opt, false, err
 	}
 	if wasSet(vf.fs, "players") {
 		return opt, false, usagef("--voices and --players cannot go together: --voices reads one channel, --players one player per channel")
@@ -75,6 +70,18 @@ func (vf *voiceFlags) options() (opt voiceOptions, ok bool, err error) {
 		return opt, false, usagef("%v", err)
 	}
 	return opt, true, nil
+}
+
+// parseVoices reads a --voices value: 2, 3 or 4, or auto (up to 4).
+func parseVoices(s string) (int, error) {
+	if s == "auto" {
+		return 4, nil
+	}
+	n, err := strconv.Atoi(s)
+	if err != nil || n < 2 || n > 4 {
+		return 0, usagef("--voices %q: give 2, 3 or 4 voices, or auto", s)
+	}
+	return n, nil
 }
 
 // analyzeVoices reads every file's voices and writes their notes (or chord

@@ -4,6 +4,7 @@ import (
 	"math"
 	"os"
 	"strconv"
+	"strings"
 	"testing"
 )
 
@@ -97,4 +98,20 @@ func TestListenVoicesThroughTheVirtualMicrophone(t *testing.T) {
 			t.Errorf("row %d: %v, want voice %d at %g Hz", i, rows[i], i+1, want)
 		}
 	}
+}
+
+// parseVoices never panics, and what it accepts is 2 to 4 voices.
+func FuzzParseVoices(f *testing.F) {
+	for _, s := range []string{"2", "4", "auto", "0", "9", "abc", "+3", "03"} {
+		f.Add(s)
+	}
+	f.Fuzz(func(t *testing.T, s string) {
+		n, err := parseVoices(s)
+		if err == nil && (n < 2 || n > 4) {
+			t.Fatalf("%q → %d voices", s, n)
+		}
+		if err != nil && !strings.HasPrefix(err.Error(), "--voices") {
+			t.Fatalf("%q: error %q", s, err)
+		}
+	})
 }
