@@ -103,7 +103,7 @@ func analyzeVoices(e *env, vo voiceOptions, files []string, tu target.Tuning, op
 	if opt.format == "table" {
 		out.title = tu.String()
 	}
-	for _, path := range files {
+	for i, path := range files {
 		notes, err := readVoices(e, path, tu, vo, opt.channel, j)
 		// What was heard before an interruption is written all the same.
 		if vo.chords {
@@ -116,6 +116,9 @@ func analyzeVoices(e *env, vo voiceOptions, files []string, tu target.Tuning, op
 			for _, n := range notes {
 				out.write(append(n.Record(withFile), strconv.Itoa(n.voice)))
 			}
+		}
+		if err != nil && i == 0 && notes == nil {
+			return errors.Join(err, j.close()) // a file that would not open: no output at all
 		}
 		if err != nil {
 			return errors.Join(err, out.close(), j.close())

@@ -3,6 +3,7 @@ package main
 import (
 	"math"
 	"os"
+	"path/filepath"
 	"strconv"
 	"strings"
 	"testing"
@@ -69,6 +70,16 @@ func TestVoicesUsageErrors(t *testing.T) {
 	} {
 		code, _, stderr := runCLI(t, append(append([]string{"analyze"}, args...), path)...)
 		checkError(t, code, 2, stderr)
+	}
+	// Files it cannot read are one line, exit 1, nothing on stdout: a
+	// missing file, an empty one, a rate the estimator cannot work at.
+	slow := sox(t, "slow.wav", "-r", "4000", "-b", "16", "synth 0.5 sine 220")
+	for _, p := range []string{filepath.Join(t.TempDir(), "missing.wav"), os.DevNull, slow} {
+		code, out, stderr := runCLI(t, "analyze", "--voices", "auto", p)
+		checkError(t, code, 1, stderr)
+		if out != "" {
+			t.Errorf("%s: stdout %q", p, out)
+		}
 	}
 }
 
