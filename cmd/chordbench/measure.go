@@ -17,10 +17,10 @@ import (
 	"fifthline/pitchdetect"
 )
 
-const tableHead = "| mixture | voices | median ¢ | worst ¢ | phantoms | missed | spread ¢ (CRB ¢) | one-pitch detector: voices found, median ¢ | aubio yinfft: voices found, median ¢ | × real time |\n" +
-	"|---|---|---|---|---|---|---|---|---|---|\n"
+const tableHead = "| mixture | voices | median ¢ | worst ¢ | phantoms | missed | spread ¢ (CRB ¢) | one-pitch detector: voices found, median ¢ | aubio yinfft: voices found, median ¢ | × real time | first reading ms |\n" +
+	"|---|---|---|---|---|---|---|---|---|---|---|\n"
 
-const tableFoot = "\nTargets (issue 14): every voice found, median ≤ 0.5 ¢, every voice within 2 ¢ (3 ¢ with vibrato), phantoms ≤ 10 %, offline ≥ 5× real time on one core. " +
+const tableFoot = "\nTargets (issue 14): every voice found, median ≤ 0.5 ¢, every voice within 2 ¢ (3 ¢ with vibrato), phantoms ≤ 10 %, offline ≥ 5× real time on one core; first chord reading ≤ 300 ms after the chord starts. " +
 	"Frames are scored whose window lies wholly in the take; a voice with vibrato is scored by its mean over the take against its centre. " +
 	"Spread is the standard deviation of the steady voices' frame errors; the CRB is the largest voice's bound over one window with all voices estimated together " +
 	"(testsignal.CramerRaoChordHz: the joint model's Fisher information, so coinciding partials raise it; 30 partials a voice). " +
@@ -37,10 +37,17 @@ func measure(m mixture, wav string) (string, error) {
 	means := make([]float64, len(m.voices))
 	counts := make([]int, len(m.voices))
 	var phantoms, missed, reported, frames int
-	block := testsignal.Float32(m.x)
+	// The take follows lead seconds of silence, as a chord follows a
+	// breath: the first reading counts from its onset to the end of the
+	// window that first holds every voice.
+	block := append(make([]float32, int(lead*rate)), testsignal.Float32(m.x)...)
+	first := math.NaN()
 	t0 := cpu()
 	est.Feed(block, func(f multipitch.Frame) {
-		if f.Time-half < 0 || f.Time+half > seconds {
+		if math.IsNaN(first) && allFound(f.Voices, m.voices) {
+			first = f.Time + half - lead
+		}
+		if f.Time-half < lead || f.Time+half > lead+seconds {
 			return
 		}
 		frames++
@@ -94,9 +101,24 @@ func measure(m mixture, wav string) (string, error) {
 	if len(errs) > 0 {
 		med, worst = errs[len(errs)/2], errs[len(errs)-1]
 	}
-	return fmt.Sprintf("| %s | %d | %.4f | %.4f | %s | %s | %.4f (%.4f) | %s | %s | %.1f |\n",
+	return fmt.Sprintf("| %s | %d | %.4f | %.4f | %s | %s | %.4f (%.4f) | %s | %s | %.1f | %.0f |\n",
 		m.name, len(m.voices), med, worst, pct(phantoms, reported), pct(missed, frames*len(m.voices)),
-		stdDev(steady), crb, one, aub, seconds/spent.Seconds()), nil
+		stdDev(steady), crb, one, aub, seconds/spent.Seconds(), 1000*first), nil // the silence costs little: not counted as audio read
+}
+
+// lead is the silence before each take.
+const lead = 0.5
+
+func allFound(vs []multipitch.Voice, truth []voice) bool {
+	used := make([]bool, len(vs))
+	for _, v := range truth {
+		j := nearest(vs, used, v.hz)
+		if j < 0 {
+			return false
+		}
+		used[j] = true
+	}
+	return true
 }
 
 func nearest(vs []multipitch.Voice, used []bool, hz float64) int {
