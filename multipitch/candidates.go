@@ -23,6 +23,7 @@ type searcher struct {
 	binHz  float64
 	ceilHz float64
 	grid   []float64 // candidate fundamentals, Hz
+	spans  [][]span  // per grid point, where its partials are looked for
 	white  []float64 // whitened magnitude spectrum
 	resid  []float64 // what cancellation has left of it
 	prefix []float64 // prefix sums of power, for whitening
@@ -38,6 +39,17 @@ func newSearcher(bins int, binHz, ceilHz, lo, hi float64) *searcher {
 	s.white = make([]float64, bins)
 	s.resid = make([]float64, bins)
 	s.prefix = make([]float64, bins+1)
+	for _, f := range s.grid {
+		var sp []span
+		for k := 1; float64(k)*f < ceilHz && k <= salienceParts; k++ {
+			lo, hi, ok := s.bins(float64(k) * f)
+			if !ok {
+				break
+			}
+			sp = append(sp, span{lo, hi, (f + alpha) / (float64(k)*f + beta)})
+		}
+		s.spans = append(s.spans, sp)
+	}
 	return s
 }
 
@@ -58,13 +70,25 @@ func (s *searcher) whiten(spec []complex128) {
 	copy(s.resid, s.white)
 }
 
+// span is one partial's bins in the salience of a grid point, and its
+// weight.
+type span struct {
+	lo, hi int
+	w      float64
+}
+
+// salienceParts: partials above the 40th weigh little and cost most of the
+// time (at 20 a low brass voice's candidate loses to its octave).
+const salienceParts = 40
+
+// halfWidth is the grid's uncertainty as a share of frequency.
+var halfWidth = math.Exp2(gridCts/2400) - 1
+
 // salience is the weighted sum of the residual's largest value near each
 // partial of f.
 func (s *searcher) salience(f float64) float64 {
 	sum := 0.0
-	// Partials above the 40th weigh little and cost most of the time
-	// (at 20 a low brass voice's candidate loses to its octave).
-	for k := 1; float64(k)*f < s.ceilHz && k <= 40; k++ {
+	for k := 1; float64(k)*f < s.ceilHz && k <= salienceParts; k++ {
 		b, _ := s.peak(float64(k) * f)
 		if b < 0 {
 			break
@@ -74,12 +98,31 @@ func (s *searcher) salience(f float64) float64 {
 	return sum
 }
 
+// gridSalience is salience at grid point i, from its planned spans.
+func (s *searcher) gridSalience(i int) float64 {
+	sum := 0.0
+	for _, sp := range s.spans[i] {
+		m := s.resid[sp.lo]
+		for _, v := range s.resid[sp.lo+1 : sp.hi+1] {
+			m = math.Max(m, v)
+		}
+		sum += sp.w * m
+	}
+	return sum
+}
+
+// bins is where the grid's uncertainty about hz lies.
+func (s *searcher) bins(hz float64) (lo, hi int, ok bool) {
+	pos := hz / s.binHz
+	half := math.Max(1, pos*halfWidth)
+	lo, hi = int(math.Floor(pos-half)), int(math.Ceil(pos+half))
+	return lo, hi, lo >= 1 && hi < len(s.resid)
+}
+
 // peak finds the largest residual bin within the grid's uncertainty of hz.
 func (s *searcher) peak(hz float64) (int, float64) {
-	pos := hz / s.binHz
-	half := math.Max(1, pos*(math.Exp2(gridCts/2400)-1))
-	lo, hi := int(math.Floor(pos-half)), int(math.Ceil(pos+half))
-	if lo < 1 || hi >= len(s.resid) {
+	lo, hi, ok := s.bins(hz)
+	if !ok {
 		return -1, 0
 	}
 	best := lo
@@ -95,11 +138,11 @@ func (s *searcher) peak(hz float64) (int, float64) {
 // and its salience, refined to a tenth of the grid step.
 func (s *searcher) next(accept func(float64) bool) (float64, float64) {
 	best, bs := 0.0, 0.0
-	for _, f := range s.grid {
+	for i, f := range s.grid {
 		if accept != nil && !accept(f) {
 			continue
 		}
-		if v := s.salience(f); v > bs {
+		if v := s.gridSalience(i); v > bs {
 			best, bs = f, v
 		}
 	}

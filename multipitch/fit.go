@@ -258,8 +258,19 @@ func grow(s []float64, n int) []float64 {
 // lobe) to all of them. Voice skip (-1: none) is left out of the model but
 // its bins are counted, so that fits with and without it compare. It
 // returns the final residual energy.
-func (f *fitter) fit(f0 []float64, skip int) float64 {
-	for _, kcap := range []int{3, 6, 12, 24, f.maxK, f.maxK, f.maxK} {
+func (f *fitter) fit(f0 []float64, skip int) float64 { return f.refine(f0, skip, coldSteps) }
+
+// The comb's growth for a fit from candidates, and the two steps enough
+// for fundamentals already fitted (after a voice is dropped).
+var coldSteps, warmSteps = []int{3, 6, 12, 24, 0, 0, 0}, []int{0, 0}
+
+// refine is fit with the given partial caps, one Gauss–Newton step each (0:
+// all partials).
+func (f *fitter) refine(f0 []float64, skip int, caps []int) float64 {
+	for _, kcap := range caps {
+		if kcap == 0 {
+			kcap = f.maxK
+		}
 		f.build(f0, kcap, skip)
 		if math.IsInf(f.solve(), 1) {
 			break

@@ -13,8 +13,8 @@ import (
 // drawn together become one.
 func (e *Estimator) prune() {
 	f := e.fitter
-	for len(e.f0) > 0 {
-		resid := f.fit(e.f0, -1)
+	for steps := coldSteps; len(e.f0) > 0; steps = warmSteps {
+		resid := f.refine(e.f0, -1, steps)
 		if i, j, ok := e.twins(); ok {
 			e.remove(e.weaker(i, j))
 			continue
@@ -97,7 +97,7 @@ func (e *Estimator) lower(v int) bool {
 	}()
 	// Both fits cover the same bins: the voices', and the lower octave's.
 	e.trial = append(append(e.trial[:0], e.f0...), down)
-	resid := f.fit(e.trial, len(e.f0))
+	resid := f.refine(e.trial, len(e.f0), warmSteps)
 	noise, total := e.noise(resid)
 	cols := len(f.cols)
 	e.trial = append(e.trial[:0], e.f0...)
