@@ -29,10 +29,12 @@
 //     domain on the bins around each partial, with the Hann window's
 //     transform in closed form as each partial's shape.
 //
-// A voice whose partials explain nothing the others do not (an octave or a
-// unison above another voice, or a guess on noise) is dropped; when it sat an
-// octave or unison from a kept voice, that voice is marked Doubled. A voice
-// is never invented to fill a requested count.
+// A voice whose partials explain nothing the others do not (an octave
+// above another voice, a subharmonic guess, a guess on noise) is dropped,
+// the lowest first. A voice whose even partials stand above their odd
+// neighbours, as a smooth spectral envelope would not have them, is marked
+// Doubled: another voice sounds an octave above it (a unison double leaves
+// no mark). A voice is never invented to fill a requested count.
 //
 // It is pure (no I/O, no cgo) and knows nothing of notes or keys: pruning by
 // a key's window is the caller's Accept function. It is not a transcriber of

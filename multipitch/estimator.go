@@ -13,8 +13,8 @@ import (
 type Voice struct {
 	Hz        float64 // fundamental
 	Amplitude float64 // RMS of its partials together, full scale 1
-	// Doubled: another voice an octave or unison above it could not be told
-	// apart from its own partials, so both are reported as this one.
+	// Doubled: another voice an octave above it cannot be told apart from
+	// its own partials, but stands out of their envelope: both are this one.
 	Doubled bool
 }
 

@@ -39,6 +39,7 @@ func chord(seconds, snrDB float64, seed uint64, parts ...part) []float64 {
 // score is how an estimator's frames compare with the truth.
 type score struct {
 	frames, phantoms, missed int
+	doubled                  []int     // frames each true voice was marked doubled in
 	errs                     []float64 // |cents| of every matched voice in every frame
 	worst                    float64
 	perVoice                 [][]float64 // signed cents per true voice, frame by frame
@@ -62,7 +63,7 @@ func hear(t *testing.T, x []float64, cfg Config, from, to float64, truth ...floa
 	if err != nil {
 		t.Fatal(err)
 	}
-	s := score{perVoice: make([][]float64, len(truth))}
+	s := score{perVoice: make([][]float64, len(truth)), doubled: make([]int, len(truth))}
 	half := float64(e.Window()) / 2 / rate
 	e.Feed(testsignal.Float32(x), func(f Frame) {
 		if f.Time-half < from || f.Time+half > to {
@@ -82,6 +83,9 @@ func hear(t *testing.T, x []float64, cfg Config, from, to float64, truth ...floa
 				continue
 			}
 			used[best] = true
+			if f.Voices[best].Doubled {
+				s.doubled[i]++
+			}
 			c := testsignal.Cents(f.Voices[best].Hz, hz)
 			s.errs = append(s.errs, math.Abs(c))
 			s.perVoice[i] = append(s.perVoice[i], c)
@@ -106,7 +110,7 @@ func (s score) meets(t *testing.T, what string, maxCents float64) {
 			what, s.frames, s.missed, s.phantoms, s.median(), s.worst, maxCents)
 		return
 	}
-	t.Logf("%s: %d frames, median %.4f ¢, worst %.4f ¢, %d phantoms", what, s.frames, s.median(), s.worst, s.phantoms)
+	t.Logf("%s: %d frames, median %.4f ¢, worst %.4f ¢, %d phantoms, marked doubled %v", what, s.frames, s.median(), s.worst, s.phantoms, s.doubled)
 }
 
 func newRand(seed uint64) *rand.Rand { return rand.New(rand.NewPCG(seed, 7)) }
