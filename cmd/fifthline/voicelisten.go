@@ -4,7 +4,6 @@ import (
 	"cmp"
 	"context"
 	"encoding/csv"
-	"strconv"
 
 	"fifthline/capture"
 	"fifthline/session"
@@ -17,7 +16,7 @@ import (
 // when listening stops, since a chord is known only once its notes end.
 func listenVoices(ctx context.Context, e *env, src capture.Source, name string, tu target.Tuning, vo voiceOptions, j *journalSink) error {
 	w := csv.NewWriter(e.stdout)
-	head := append(session.Header(false), "voice")
+	head := append(session.Header(false), voiceColumns...)
 	if vo.chords {
 		head = chordHeader(false)
 	}
@@ -33,7 +32,7 @@ func listenVoices(ctx context.Context, e *env, src capture.Source, name string, 
 			notes = append(notes, n)
 			return nil
 		}
-		w.Write(append(n.Record(false), strconv.Itoa(n.voice)))
+		w.Write(n.record(false))
 		w.Flush()
 		return w.Error()
 	})

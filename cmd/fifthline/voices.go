@@ -95,7 +95,7 @@ func analyzeVoices(e *env, vo voiceOptions, files []string, tu target.Tuning, op
 		return err
 	}
 	withFile := len(files) > 1
-	head := append(session.Header(withFile), "voice")
+	head := append(session.Header(withFile), voiceColumns...)
 	if vo.chords {
 		head = chordHeader(withFile)
 	}
@@ -114,7 +114,7 @@ func analyzeVoices(e *env, vo voiceOptions, files []string, tu target.Tuning, op
 			}
 		} else {
 			for _, n := range notes {
-				out.write(append(n.Record(withFile), strconv.Itoa(n.voice)))
+				out.write(n.record(withFile))
 			}
 		}
 		if err != nil && i == 0 && notes == nil {

@@ -15,13 +15,9 @@ import (
 // Each voice is one held note with its voice number, lowest first, read
 // within 0.5 ¢ of what sox was asked for.
 func TestAnalyzeVoicesFromSoxChord(t *testing.T) {
-	path := sox(t, "chord.wav", "-r", "44100", "-b", "16", "synth 2 sawtooth 261.63 sawtooth 327.0375 sawtooth 392.445 remix 1,2,3 gain -8")
-	code, out, stderr := runCLI(t, "analyze", "--voices", "auto", path)
-	if code != 0 {
-		t.Fatalf("exit %d: %s", code, stderr)
-	}
+	path, out := soxVoices(t, "synth 2 sawtooth 261.63 sawtooth 327.0375 sawtooth 392.445 remix 1,2,3 gain -8")
 	header, rows := readCSV(t, out)
-	if header[len(header)-1] != "voice" || len(rows) != 3 {
+	if strings.Join(header[len(header)-2:], ",") != "voice,doubled" || len(rows) != 3 {
 		t.Fatalf("header %v, %d rows:\n%s", header, len(rows), out)
 	}
 	for i, want := range []struct {
@@ -30,7 +26,7 @@ func TestAnalyzeVoicesFromSoxChord(t *testing.T) {
 	}{{"C4", 261.63}, {"E4", 327.0375}, {"G4", 392.445}} {
 		r := rows[i]
 		hz, _ := strconv.ParseFloat(r["hz"], 64)
-		if r["note"] != want.note || r["voice"] != strconv.Itoa(i+1) || math.Abs(1200*math.Log2(hz/want.hz)) > 0.5 {
+		if r["note"] != want.note || r["voice"] != strconv.Itoa(i+1) || r["doubled"] != "false" || math.Abs(1200*math.Log2(hz/want.hz)) > 0.5 {
 			t.Errorf("row %d: %v, want %s voice %d at %g Hz", i, r, want.note, i+1, want.hz)
 		}
 	}
@@ -39,7 +35,7 @@ func TestAnalyzeVoicesFromSoxChord(t *testing.T) {
 	// above the root actually sounding (0 ¢ by construction, within 0.5 ¢),
 	// and against equal temperament 13.69 ¢ low (386.31 − 400 ¢, from the
 	// definitions).
-	code, out, stderr = runCLI(t, "analyze", "--voices", "3", "--chords", path)
+	code, out, stderr := runCLI(t, "analyze", "--voices", "3", "--chords", path)
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
@@ -125,4 +121,26 @@ func FuzzParseVoices(f *testing.F) {
 			t.Fatalf("%q: error %q", s, err)
 		}
 	})
+}
+
+// An octave doubling (sox: sawtooths on C3 and C4 under E4) is one note,
+// C3, marked doubled; no voice is invented for C4.
+func TestAnalyzeVoicesMarksAnOctaveDoubling(t *testing.T) {
+	_, out := soxVoices(t, "synth 2 sawtooth 130.81 sawtooth 261.63 square 327.04 remix 1,2,3 gain -8")
+	_, rows := readCSV(t, out)
+	if len(rows) != 2 || rows[0]["note"] != "C3" || rows[0]["doubled"] != "true" || rows[1]["note"] != "E4" || rows[1]["doubled"] != "false" {
+		t.Errorf("want C3 doubled and E4:\n%s", out)
+	}
+}
+
+// soxVoices makes a 44.1 kHz WAV from sox synth arguments and returns it
+// with what analyze --voices auto prints for it.
+func soxVoices(t *testing.T, synth string) (path, out string) {
+	t.Helper()
+	path = sox(t, "voices.wav", "-r", "44100", "-b", "16", synth)
+	code, out, stderr := runCLI(t, "analyze", "--voices", "auto", path)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	return path, out
 }

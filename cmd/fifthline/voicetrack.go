@@ -4,6 +4,7 @@ import (
 	"cmp"
 	"math"
 	"slices"
+	"strconv"
 
 	"fifthline/multipitch"
 	"fifthline/pitchdetect"
@@ -12,10 +13,20 @@ import (
 )
 
 // voiceNote is a held note of one voice; voice 1 is the lowest sounding at
-// the note's start.
+// the note's start. doubled: in most of its frames another voice sounded an
+// octave above it, inseparably (multipitch.Voice.Doubled).
 type voiceNote struct {
 	session.Event
-	voice int
+	voice   int
+	doubled bool
+}
+
+// voiceColumns follow the held-note columns.
+var voiceColumns = []string{"voice", "doubled"}
+
+// record is the note's CSV record with its voice columns.
+func (n voiceNote) record(withFile bool) []string {
+	return append(n.Record(withFile), strconv.Itoa(n.voice), strconv.FormatBool(n.doubled))
 }
 
 // tracker follows the estimator's voices from frame to frame: each voice
@@ -32,11 +43,12 @@ type tracker struct {
 }
 
 type track struct {
-	seg    *pitchdetect.Segmenter
-	hz     float64
-	start  float64 // its first frame
-	frames int
-	missed int // frames in a row without its voice
+	seg     *pitchdetect.Segmenter
+	hz      float64
+	start   float64 // its first frame
+	frames  int
+	doubled int // frames marked doubled
+	missed  int // frames in a row without its voice
 	// delivered: its note is among tr.done (then it is not counted twice)
 	delivered bool
 }
@@ -101,6 +113,9 @@ func (tr *tracker) push(f multipitch.Frame) {
 func (tr *tracker) feed(t *track, at float64, v multipitch.Voice) {
 	t.hz, t.missed = v.Hz, 0
 	t.frames++
+	if v.Doubled {
+		t.doubled++
+	}
 	e := pitchdetect.Estimate{Time: at, Hz: v.Hz, Confidence: 1, Voiced: true, Level: 20 * math.Log10(v.Amplitude+1e-12)}
 	if h, ok := t.seg.Push(e); ok {
 		tr.deliver(t, h)
@@ -140,5 +155,5 @@ func (tr *tracker) deliver(t *track, h pitchdetect.Held) {
 	}
 	t.delivered = true
 	tr.done = append(slices.DeleteFunc(tr.done, func(d pitchdetect.Held) bool { return d.End < h.Start-60 }), h)
-	tr.emit(voiceNote{session.Event{Source: tr.name, Held: h, Reading: tr.tu.Classify(h.Hz), Tuning: tr.tu}, voice})
+	tr.emit(voiceNote{session.Event{Source: tr.name, Held: h, Reading: tr.tu.Classify(h.Hz), Tuning: tr.tu}, voice, 2*t.doubled > t.frames})
 }
