@@ -196,3 +196,14 @@ func (s *searcher) cancel(f float64) {
 		}
 	}
 }
+
+// clear removes the partials of f from the residual entirely.
+func (s *searcher) clear(f float64) {
+	for k := 1; float64(k)*f < s.ceilHz; k++ {
+		b, _ := s.peak(float64(k) * f)
+		if b < 0 {
+			break
+		}
+		clear(s.resid[max(b-2, 1):min(b+3, len(s.resid))])
+	}
+}

@@ -190,10 +190,14 @@ func (e *Estimator) Analyze(x []float64, dst []Voice) []Voice {
 			break
 		}
 		first = math.Max(first, s)
-		e.search.cancel(f)
-		if !slices.ContainsFunc(e.f0, func(g float64) bool { return math.Abs(cents(f, g)) < twinCents }) {
-			e.f0 = append(e.f0, f)
+		if slices.ContainsFunc(e.f0, func(g float64) bool { return math.Abs(cents(f, g)) < twinCents }) {
+			// What cancellation left of a voice came back: take all of
+			// it, so that it cannot crowd out the next voice.
+			e.search.clear(f)
+			continue
 		}
+		e.search.cancel(f)
+		e.f0 = append(e.f0, f)
 	}
 	if len(e.f0) == 0 {
 		return dst
