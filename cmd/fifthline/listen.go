@@ -27,12 +27,12 @@ func runListen(e *env, args []string) error {
 	fs := newFlags("listen")
 	mf := addMusicalFlags(fs)
 	jf := addJournalFlags(fs)
+	vf := addVoiceFlags(fs)
 	device := fs.String("device", "", "input device: index or part of the name as 'fifthline devices' lists it (default: the system's default input)")
 	channel := fs.Int("channel", 1, "input channel to read, counted from 1")
 	plain := fs.Bool("plain", false, "no screen: a CSV header, then one line per held note as it ends")
 	duration := fs.Duration("duration", 0, "stop cleanly after this long (e.g. 12s, 2m); 0 listens until interrupted")
 	sf := addSoundFlags(fs)
-	vf := addVoiceFlags(fs)
 	pos, err := parseFlags(e, fs, args)
 	if err != nil {
 		return err
@@ -74,12 +74,11 @@ func runListen(e *env, args []string) error {
 		return errors.Join(err, j.close())
 	}
 	opts := session.Options{Name: in.Device().Name, Tunings: session.NewTunings(tu)}
-	switch {
-	case voices:
+	if voices {
 		err = listenVoices(ctx, e, in, opts.Name, tu, vo, j)
-	case *plain:
+	} else if *plain {
 		err = listenPlain(ctx, e, in, opts, j)
-	default:
+	} else {
 		// The drone leaks into a microphone: the meter hears the input
 		// with the player's partials taken out (nothing while silent).
 		sound := newMeterSound(sf)
