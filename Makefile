@@ -65,6 +65,8 @@ bench: deps
 	$(GO) test -run XXX -bench . -benchmem ./pitchdetect/
 	$(GO) test -run XXX -bench RecordingRead ./capture/
 	$(GO) run ./cmd/fifthbench
+	$(GO) test -run XXX -bench . ./multipitch/
+	$(GO) run ./cmd/chordbench
 	@scripts/vmic-start
 	$(GO) test -run XXX -bench 'ListenPlainLive|ListenMeter|DemoMeterInTmux' -benchtime 1x ./cmd/fifthline/
 	$(GO) test -run XXX -bench 'PlayerDroneUnderMicrophone' -benchtime 1x ./playback/

@@ -26,6 +26,7 @@ func runListen(e *env, args []string) error {
 	fs := newFlags("listen")
 	mf := addMusicalFlags(fs)
 	jf := addJournalFlags(fs)
+	vf := addVoiceFlags(fs)
 	device := fs.String("device", "", "input device: index or part of the name as 'fifthline devices' lists it (default: the system's default input)")
 	channel := fs.Int("channel", 1, "input channel to read, counted from 1")
 	plain := fs.Bool("plain", false, "no screen: a CSV header, then one line per held note as it ends")
@@ -52,6 +53,12 @@ func runListen(e *env, args []string) error {
 	if err != nil {
 		return err
 	}
+	vo, voices, err := vf.options()
+	if err != nil {
+		return err
+	} else if voices && !*plain {
+		return usagef("listen --voices needs --plain: the meter has no chord view yet")
+	}
 	ctx := e.ctx
 	if *duration > 0 {
 		var cancel context.CancelFunc
@@ -68,7 +75,10 @@ func runListen(e *env, args []string) error {
 		return errors.Join(err, j.close())
 	}
 	opts := session.Options{Name: in.Device().Name, Tunings: session.NewTunings(tu)}
-	if *plain {
+	if voices {
+		mf.say(e.stderr, tu)
+		err = listenVoices(ctx, e, in, opts.Name, tu, vo, j)
+	} else if *plain {
 		mf.say(e.stderr, tu)
 		err = listenPlain(ctx, e, in, opts, j)
 	} else {

@@ -34,3 +34,26 @@ func TestCramerRaoMatchesKaySingleSinusoid(t *testing.T) {
 		t.Errorf("CramerRaoHz = %g, want %g", got, want)
 	}
 }
+
+// One voice alone: the joint bound is the single-voice bound (Kay 1993,
+// eq. 3.41, with the harmonic sum; CramerRaoHz). Two voices whose partials
+// lie far apart: each keeps its own bound (Christensen & Jakobsson 2009,
+// the asymptotic multi-pitch bound). Two voices a just major third apart,
+// whose 5th and 4th partials coincide: the bound rises.
+func TestCramerRaoChord(t *testing.T) {
+	const rate, n, sigma = 44100.0, 4096, 0.01
+	amps := []float64{0.2, 0.1, 0.07, 0.05, 0.04}
+	single := CramerRaoHz(rate, n, amps, 220, sigma)
+	got := CramerRaoChordHz(rate, n, []ChordVoice{{220, amps}}, sigma)
+	if math.Abs(got[0]/single-1) > 0.02 {
+		t.Errorf("one voice: %g Hz, single-voice bound %g Hz", got[0], single)
+	}
+	apart := CramerRaoChordHz(rate, n, []ChordVoice{{220, amps}, {220 * 1.4142, amps}}, sigma)
+	if math.Abs(apart[0]/single-1) > 0.1 {
+		t.Errorf("voices apart: %g Hz, single-voice bound %g Hz", apart[0], single)
+	}
+	third := CramerRaoChordHz(rate, n, []ChordVoice{{220, amps}, {220 * 1.25, amps}}, sigma)
+	if third[0] <= apart[0] {
+		t.Errorf("a just third's shared partial does not raise the bound: %g ≤ %g Hz", third[0], apart[0])
+	}
+}

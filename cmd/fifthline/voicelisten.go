@@ -1,0 +1,49 @@
+package main
+
+import (
+	"cmp"
+	"context"
+	"encoding/csv"
+
+	"fifthline/capture"
+	"fifthline/session"
+	"fifthline/target"
+)
+
+// listenVoices is listen --plain --voices: the CSV header, then each voice's
+// held note as it ends, flushed at once (start_s counts from the start of
+// capture). With --chords the header is the chord rows' and the rows follow
+// when listening stops, since a chord is known only once its notes end.
+func listenVoices(ctx context.Context, e *env, src capture.Source, name string, tu target.Tuning, vo voiceOptions, j *journalSink) error {
+	w := csv.NewWriter(e.stdout)
+	head := append(session.Header(false), voiceColumns...)
+	if vo.chords {
+		head = chordHeader(false)
+	}
+	w.Write(head)
+	w.Flush()
+	if err := w.Error(); err != nil {
+		return err
+	}
+	var notes []voiceNote
+	err := hearVoices(ctx, src, name, tu, vo, func(float64) {}, func(n voiceNote) error {
+		j.note(n.Event)
+		if vo.chords {
+			notes = append(notes, n)
+			return nil
+		}
+		w.Write(n.record(false))
+		w.Flush()
+		return w.Error()
+	})
+	if vo.chords {
+		sortVoiceNotes(notes)
+		for _, h := range chordsOf(notes, tu, vo.seventh) {
+			for _, rec := range h.records("", false, notes) {
+				w.Write(rec)
+			}
+		}
+		w.Flush()
+	}
+	return cmp.Or(err, w.Error())
+}

@@ -1,0 +1,199 @@
+package main
+
+import (
+	"cmp"
+	"context"
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"slices"
+	"strconv"
+
+	"fifthline/capture"
+	"fifthline/multipitch"
+	"fifthline/session"
+	"fifthline/target"
+)
+
+// analyze --voices: several voices on one channel, read by the multipitch
+// estimator, held notes per voice, and with --chords the chords they make.
+
+// voiceFlags are --voices and the chord flags it shares with --players
+// (defined here unless the players' code has defined them already).
+type voiceFlags struct {
+	fs     *flag.FlagSet
+	voices string
+}
+
+func addVoiceFlags(fs *flag.FlagSet) *voiceFlags {
+	vf := &voiceFlags{fs: fs}
+	fs.StringVar(&vf.voices, "voices", "", "one channel holding up to N (2-4) voices at once, or auto: notes gain a voice column (1 = lowest)")
+	if fs.Lookup("chords") == nil {
+		fs.Bool("chords", false, "with --voices or --players: one row per member of each held chord instead of notes")
+	}
+	if fs.Lookup("seventh") == nil {
+		fs.String("seventh", "16/9", "just ratio a chord's minor seventh is read against: 7/4, 9/5 or 16/9")
+	}
+	return vf
+}
+
+func wasSet(fs *flag.FlagSet, name string) bool {
+	set := false
+	fs.Visit(func(f *flag.Flag) { set = set || f.Name == name })
+	return set
+}
+
+// voiceOptions are the checked flags.
+type voiceOptions struct {
+	max     int // most voices at once
+	chords  bool
+	seventh float64
+}
+
+// options checks the flags; ok is false when --voices was not given.
+func (vf *voiceFlags) options() (opt voiceOptions, ok bool, err error) {
+	if !wasSet(vf.fs, "voices") {
+		if wasSet(vf.fs, "chords") && !wasSet(vf.fs, "players") {
+			return opt, false, usagef("--chords needs --voices N|auto (one channel) or --players (one player per channel)")
+		}
+		return opt, false, nil
+	}
+	if opt.max, err = parseVoices(vf.voices); err != nil {
+		return opt, false, err
+	}
+	if wasSet(vf.fs, "players") {
+		return opt, false, usagef("--voices and --players cannot go together: --voices reads one channel, --players one player per channel")
+	}
+	opt.chords = vf.fs.Lookup("chords").Value.String() == "true"
+	if opt.seventh, err = target.ParseSeventh(vf.fs.Lookup("seventh").Value.String()); err != nil {
+		return opt, false, usagef("%v", err)
+	}
+	return opt, true, nil
+}
+
+// parseVoices reads a --voices value: 2, 3 or 4, or auto (up to 4).
+func parseVoices(s string) (int, error) {
+	if s == "auto" {
+		return 4, nil
+	}
+	n, err := strconv.Atoi(s)
+	if err != nil || n < 2 || n > 4 {
+		return 0, usagef("--voices %q: give 2, 3 or 4 voices, or auto", s)
+	}
+	return n, nil
+}
+
+// analyzeVoices reads every file's voices and writes their notes (or chord
+// rows) ordered by start, voice by voice.
+func analyzeVoices(e *env, vo voiceOptions, files []string, tu target.Tuning, opt analyzeOptions, jf *journalFlags) error {
+	if opt.frames {
+		return usagef("--frames and --voices cannot go together: the frame track is one pitch per moment")
+	}
+	j, err := jf.open(e)
+	if err != nil {
+		return err
+	}
+	withFile := len(files) > 1
+	head := append(session.Header(withFile), voiceColumns...)
+	if vo.chords {
+		head = chordHeader(withFile)
+	}
+	out := newRowWriter(e.stdout, opt.format, head)
+	if opt.format == "table" {
+		out.title = tu.String()
+	}
+	for i, path := range files {
+		notes, err := readVoices(e, path, tu, vo, opt.channel, j)
+		// What was heard before an interruption is written all the same.
+		if vo.chords {
+			for _, row := range chordsOf(notes, tu, vo.seventh) {
+				for _, rec := range row.records(path, withFile, notes) {
+					out.write(rec)
+				}
+			}
+		} else {
+			for _, n := range notes {
+				out.write(n.record(withFile))
+			}
+		}
+		if err != nil && i == 0 && notes == nil {
+			return errors.Join(err, j.close()) // a file that would not open: no output at all
+		}
+		if err != nil {
+			return errors.Join(err, out.close(), j.close())
+		}
+	}
+	return errors.Join(out.close(), j.close())
+}
+
+// readVoices hears one file's voices; the notes come back ordered by start,
+// then voice.
+func readVoices(e *env, path string, tu target.Tuning, vo voiceOptions, channel int, j *journalSink) ([]voiceNote, error) {
+	w, err := capture.OpenWAVChannel(path, channel)
+	if err != nil {
+		return nil, err
+	}
+	defer w.Close()
+	progress := newProgress(e.stderr, path, w.Duration())
+	defer progress.Done()
+	var notes []voiceNote
+	err = hearVoices(e.ctx, w, path, tu, vo, progress.At, func(n voiceNote) error {
+		j.note(n.Event)
+		notes = append(notes, n)
+		return nil
+	})
+	sortVoiceNotes(notes)
+	switch {
+	case errors.Is(err, context.Canceled):
+		return notes, fmt.Errorf("%s: interrupted; the notes before it are written", path)
+	case err != nil:
+		return notes, fmt.Errorf("%s: %w", path, err)
+	}
+	if w.Truncated() {
+		fmt.Fprintf(e.stderr, "fifthline: warning: %s is shorter than its header says; read what was there\n", path)
+	}
+	return notes, nil
+}
+
+func sortVoiceNotes(notes []voiceNote) {
+	slices.SortStableFunc(notes, func(a, b voiceNote) int {
+		return cmp.Or(cmp.Compare(a.Start, b.Start), cmp.Compare(a.voice, b.voice))
+	})
+}
+
+// hearVoices reads src until it ends or ctx is done, handing each voice's
+// held note to emit as it ends (at seconds: how far the reading is). The
+// notes still held at the end are finished and handed on too, so an
+// interruption loses none; an error from emit stops the reading.
+func hearVoices(ctx context.Context, src capture.Source, name string, tu target.Tuning, vo voiceOptions, at func(seconds float64), emit func(voiceNote) error) error {
+	rate := src.SampleRate()
+	est, err := multipitch.New(rate, 0, 0, multipitch.Config{MaxVoices: vo.max})
+	if err != nil {
+		return err
+	}
+	var emitErr error
+	tr := newTracker(name, tu, float64(est.Hop())/rate, float64(est.Window())/rate, func(n voiceNote) {
+		if emitErr == nil {
+			emitErr = emit(n)
+		}
+	})
+	block := make([]float32, 1024)
+	for read := 0; emitErr == nil; {
+		if err = ctx.Err(); err != nil {
+			break
+		}
+		n, rerr := src.Read(block)
+		read += n
+		at(float64(read) / rate)
+		est.Feed(block[:n], tr.push)
+		if rerr != nil {
+			if !errors.Is(rerr, io.EOF) {
+				err = rerr
+			}
+			break
+		}
+	}
+	tr.flush()
+	return cmp.Or(emitErr, err)
+}

@@ -1,0 +1,159 @@
+package main
+
+import (
+	"cmp"
+	"math"
+	"slices"
+	"strconv"
+
+	"fifthline/multipitch"
+	"fifthline/pitchdetect"
+	"fifthline/session"
+	"fifthline/target"
+)
+
+// voiceNote is a held note of one voice; voice 1 is the lowest sounding at
+// the note's start. doubled: in most of its frames another voice sounded an
+// octave above it, inseparably (multipitch.Voice.Doubled).
+type voiceNote struct {
+	session.Event
+	voice   int
+	doubled bool
+}
+
+// voiceColumns follow the held-note columns.
+var voiceColumns = []string{"voice", "doubled"}
+
+// record is the note's CSV record with its voice columns.
+func (n voiceNote) record(withFile bool) []string {
+	return append(n.Record(withFile), strconv.Itoa(n.voice), strconv.FormatBool(n.doubled))
+}
+
+// tracker follows the estimator's voices from frame to frame: each voice
+// continues the track whose pitch it stays within the segmenter's jump of,
+// and each track is a pitchdetect.Segmenter, so a voice's held notes follow
+// the same rules as a single player's.
+type tracker struct {
+	name        string
+	tu          target.Tuning
+	hop, window float64
+	tracks      []*track
+	done        []pitchdetect.Held // notes given out lately, to number voices by
+	emit        func(voiceNote)
+}
+
+type track struct {
+	seg     *pitchdetect.Segmenter
+	hz      float64
+	start   float64 // its first frame
+	frames  int
+	doubled int // frames marked doubled
+	missed  int // frames in a row without its voice
+	// delivered: its note is among tr.done (then it is not counted twice)
+	delivered bool
+}
+
+func newTracker(name string, tu target.Tuning, hop, window float64, emit func(voiceNote)) *tracker {
+	return &tracker{name: name, tu: tu, hop: hop, window: window, emit: emit}
+}
+
+// push takes one frame's voices (lowest first).
+func (tr *tracker) push(f multipitch.Frame) {
+	taken := make([]bool, len(f.Voices))
+	// Nearest pairs first, so two voices a semitone apart keep their tracks.
+	type pair struct {
+		t, v  int
+		cents float64
+	}
+	var pairs []pair
+	for ti, t := range tr.tracks {
+		for vi, v := range f.Voices {
+			if c := math.Abs(1200 * math.Log2(v.Hz/t.hz)); c <= t.seg.JumpCents {
+				pairs = append(pairs, pair{ti, vi, c})
+			}
+		}
+	}
+	slices.SortFunc(pairs, func(a, b pair) int { return cmp.Compare(a.cents, b.cents) })
+	got := make([]bool, len(tr.tracks))
+	for _, p := range pairs {
+		if got[p.t] || taken[p.v] {
+			continue
+		}
+		got[p.t], taken[p.v] = true, true
+		tr.feed(tr.tracks[p.t], f.Time, f.Voices[p.v])
+	}
+	var kept []*track // a new slice: deliver reads tr.tracks meanwhile
+	for ti, t := range tr.tracks {
+		if !got[ti] {
+			t.missed++
+			if h, ok := t.seg.Push(pitchdetect.Estimate{Time: f.Time, Level: -120}); ok {
+				tr.deliver(t, h)
+			}
+			if t.missed > t.seg.MaxGap {
+				if h, ok := t.seg.Flush(); ok {
+					tr.deliver(t, h)
+				}
+				continue
+			}
+		}
+		kept = append(kept, t)
+	}
+	tr.tracks = kept
+	for vi, v := range f.Voices {
+		if !taken[vi] {
+			s := pitchdetect.NewSegmenter(tr.hop)
+			s.Window = tr.window
+			t := &track{seg: s, hz: v.Hz, start: f.Time}
+			tr.tracks = append(tr.tracks, t)
+			tr.feed(t, f.Time, v)
+		}
+	}
+}
+
+func (tr *tracker) feed(t *track, at float64, v multipitch.Voice) {
+	t.hz, t.missed = v.Hz, 0
+	t.frames++
+	if v.Doubled {
+		t.doubled++
+	}
+	e := pitchdetect.Estimate{Time: at, Hz: v.Hz, Confidence: 1, Voiced: true, Level: 20 * math.Log10(v.Amplitude+1e-12)}
+	if h, ok := t.seg.Push(e); ok {
+		tr.deliver(t, h)
+	}
+}
+
+// flush ends every track at the end of the stream.
+func (tr *tracker) flush() {
+	for _, t := range tr.tracks {
+		if h, ok := t.seg.Flush(); ok {
+			tr.deliver(t, h)
+		}
+	}
+	tr.tracks = nil
+}
+
+func (tr *tracker) deliver(t *track, h pitchdetect.Held) {
+	if h.VibratoRate*tr.window > 1 {
+		// A vibrato faster than one cycle a window is mostly averaged away
+		// inside each frame; scaling what is left back up (the segmenter
+		// knows its window) gives nonsense widths. Its centre stands.
+		h.VibratoWidth, h.VibratoRate = 0, 0
+	}
+	// Voice 1 is the lowest sounding at the note's start: among the notes
+	// given out and the tracks held long enough to be notes, not the
+	// passing readings of an onset.
+	voice := 1
+	for _, d := range tr.done {
+		if d.Start <= h.Start && d.End >= h.Start && d.Hz < h.Hz {
+			voice++
+		}
+	}
+	for _, o := range tr.tracks {
+		if o != t && !o.delivered && o.start <= h.Start && o.frames >= o.seg.MinFrames && o.hz < h.Hz {
+			voice++
+		}
+	}
+	t.delivered = true
+	tr.done = append(slices.DeleteFunc(tr.done, func(d pitchdetect.Held) bool { return d.End < h.Start-60 }), h)
+	tr.emit(voiceNote{session.Event{Source: tr.name, Held: h, Reading: tr.tu.Classify(h.Hz), Tuning: tr.tu}, voice, 2*t.doubled > t.frames})
+}

@@ -1,0 +1,76 @@
+package testsignal
+
+import (
+	"encoding/binary"
+	"slices"
+)
+
+// MIDIPart is one player of a multi-part MIDI file: a General MIDI program
+// (0-based) on its own channel, detuned by a pitch bend held throughout,
+// playing notes at given times.
+type MIDIPart struct {
+	Program int
+	Cents   float64 // pitch bend, within the default ±200 ¢ range (General MIDI)
+	Notes   []TimedNote
+}
+
+// TimedNote is a MIDI key (60 = C4) sounding from Start for Seconds.
+type TimedNote struct {
+	Key            int
+	Start, Seconds float64
+}
+
+// BendCents is the pitch a bend sets, for the 14-bit value BendValue gives
+// cents: the default range is ±2 semitones over ±8192 (MIDI 1.0 and General
+// MIDI; common practice). Rounding to the 14-bit value moves it by at most
+// 0.0122 ¢.
+func BendCents(cents float64) float64 { return float64(BendValue(cents)-8192) * 200 / 8192 }
+
+// BendValue is the 14-bit pitch-bend value nearest the given cents.
+func BendValue(cents float64) int { return min(max(8192+int(cents*8192/200+0.5), 0), 16383) }
+
+// MIDIParts builds a Standard MIDI File (format 0, 960 ticks a second as
+// MIDI builds) with each part on channel i: its program and bend at time 0,
+// then its notes; the last release rings for half a second.
+func MIDIParts(parts []MIDIPart) []byte {
+	type event struct {
+		tick int
+		msg  []byte
+	}
+	ticks := func(s float64) int { return int(s*960 + 0.5) }
+	var evs []event
+	for ch, p := range parts {
+		b := BendValue(p.Cents)
+		evs = append(evs, event{0, []byte{0xC0 | byte(ch), byte(p.Program)}},
+			event{0, []byte{0xE0 | byte(ch), byte(b & 0x7f), byte(b >> 7)}})
+		for _, n := range p.Notes {
+			evs = append(evs, event{ticks(n.Start), []byte{0x90 | byte(ch), byte(n.Key), 96}},
+				event{ticks(n.Start + n.Seconds), []byte{0x80 | byte(ch), byte(n.Key), 0}})
+		}
+	}
+	slices.SortStableFunc(evs, func(a, b event) int { return a.tick - b.tick })
+	var trk []byte
+	at := 0
+	for _, e := range evs {
+		trk = appendVLQ(trk, e.tick-at)
+		trk = append(trk, e.msg...)
+		at = e.tick
+	}
+	trk = appendVLQ(trk, 480)
+	trk = append(trk, 0xFF, 0x2F, 0)
+	out := []byte("MThd\x00\x00\x00\x06\x00\x00\x00\x01\x01\xe0MTrk")
+	out = binary.BigEndian.AppendUint32(out, uint32(len(trk)))
+	return append(out, trk...)
+}
+
+// appendVLQ appends a MIDI variable-length quantity.
+func appendVLQ(b []byte, v int) []byte {
+	var tmp [5]byte
+	i := len(tmp) - 1
+	tmp[i] = byte(v & 0x7f)
+	for v >>= 7; v > 0; v >>= 7 {
+		i--
+		tmp[i] = byte(v&0x7f | 0x80)
+	}
+	return append(b, tmp[i:]...)
+}

@@ -1,0 +1,43 @@
+// Package multipitch hears two to four voices sounding together on one
+// channel and measures each to a fraction of a cent.
+//
+// An Estimator is built like a single-pitch detector (sample rate, window,
+// hop), fed blocks of samples, and hands back one Frame per hop with the
+// voices it hears, lowest first: fundamental (Hz), amplitude, and whether an
+// octave or unison doubling lies on it. It works in two stages, both from
+// published methods:
+//
+//   - Candidates: the whitened spectrum's harmonic summation with iterative
+//     estimation and cancellation (A. Klapuri, "Multiple fundamental
+//     frequency estimation based on harmonicity and spectral smoothness",
+//     IEEE Trans. Speech and Audio Processing 11(6), 2003; A. Klapuri,
+//     "Multiple fundamental frequency estimation by summing harmonic
+//     amplitudes", ISMIR 2006). The strongest fundamental is taken, its
+//     partials are cancelled from the spectrum as far as a smooth spectral
+//     envelope allows (what stands above it may belong to another voice), and
+//     the search repeats.
+//   - Precision: one nonlinear least-squares fit of all voices' harmonic
+//     series at once (M. G. Christensen and A. Jakobsson, "Multi-Pitch
+//     Estimation", Morgan & Claypool, 2009): for given fundamentals the
+//     partials' complex amplitudes follow by linear least squares, and the
+//     fundamentals take Gauss–Newton steps on what is left (variable
+//     projection, Golub & Pereyra 1973, with Kaufman's 1975 Jacobian). A
+//     partial two voices share — a just major third's root has its 5th
+//     partial where the third has its 4th — is explained by both series
+//     together instead of being handed to whichever voice was found first,
+//     which would pull that voice by cents. The fit runs in the frequency
+//     domain on the bins around each partial, with the Hann window's
+//     transform in closed form as each partial's shape.
+//
+// A voice whose partials explain nothing the others do not (an octave
+// above another voice, a subharmonic guess, a guess on noise) is dropped,
+// the lowest first. A voice whose even partials stand above their odd
+// neighbours, as a smooth spectral envelope would not have them, is marked
+// Doubled: another voice sounds an octave above it (a unison double leaves
+// no mark). A voice is never invented to fill a requested count.
+//
+// It is pure (no I/O, no cgo) and knows nothing of notes or keys: pruning by
+// a key's window is the caller's Accept function. It is not a transcriber of
+// fast polyphonic passages: windows are long (a third of a second) because
+// held chords are what it is for.
+package multipitch

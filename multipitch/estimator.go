@@ -1,0 +1,210 @@
+package multipitch
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"slices"
+
+	"gonum.org/v1/gonum/dsp/fourier"
+)
+
+// Voice is one voice heard in a frame.
+type Voice struct {
+	Hz        float64 // fundamental
+	Amplitude float64 // RMS of its partials together, full scale 1
+	// Doubled: another voice an octave above it cannot be told apart from
+	// its own partials, but stands out of their envelope: both are this one.
+	Doubled bool
+}
+
+// Frame is the estimator's reading for one hop.
+type Frame struct {
+	Time   float64 // seconds from the first sample fed; centre of the window
+	Level  float64 // RMS of the window in dBFS
+	Voices []Voice // lowest first; valid until the next call
+}
+
+// Config chooses what the estimator looks for. The zero value hears up to
+// four voices from 55 to 2100 Hz.
+type Config struct {
+	MaxVoices    int     // 1..8; 0 means 4
+	MinHz, MaxHz float64 // fundamentals searched; 0 means 55 and 2100 (A1 to about C7)
+	// Accept, when set, limits candidates to fundamentals it accepts (a
+	// key's window, the chord declared): pruning, not correction.
+	Accept func(hz float64) bool
+}
+
+const (
+	silenceDBFS = -60.0 // quieter windows hold no voice
+	maxPartials = 96
+	ceilingHz   = 5000.0
+	// A voice must explain this much that the others cannot: κ times the
+	// noise its own columns would fit by chance, and relFloor of the
+	// chord's energy (-30 dB; the quietest voice of a balanced chord is
+	// well above it).
+	kappa    = 12.0
+	relFloor = 1e-3
+	// twinCents: voices this close after the fit are one voice.
+	twinCents = 30.0
+)
+
+// Estimator hears several voices in a stream, one Frame per hop. It is not
+// safe for concurrent use.
+type Estimator struct {
+	rate        float64
+	window, hop int
+	cfg         Config
+
+	buf    []float64 // the window, oldest first
+	fill   int
+	fed    int
+	frame  []float64 // windowed and centred
+	fft    *fourier.FFT
+	spec   []complex128
+	search *searcher
+	fitter *fitter
+	f0     []float64
+	drop   []float64
+	trial  []float64
+	floor  float64   // the spectrum's median power: its noise floor
+	sorted []float64 // scratch for it
+	out    []Voice
+}
+
+// New returns an Estimator for the sample rate with window and hop in
+// samples: window 0 picks the power of two nearest a third of a second
+// (16384 at 44.1 and 48 kHz), long enough to part a just third's coinciding
+// partials from a tempered one's; hop 0 picks window/4.
+func New(rate float64, window, hop int, cfg Config) (*Estimator, error) {
+	if !(rate >= 8000 && rate <= 384000) {
+		return nil, fmt.Errorf("multipitch: sample rate %g Hz outside 8000..384000", rate)
+	}
+	if window < 0 || hop < 0 {
+		return nil, errors.New("multipitch: window and hop must not be negative")
+	}
+	if window == 0 {
+		window = 1 << int(math.Round(math.Log2(rate/3)))
+	}
+	if window < 1024 || window > 1<<19 || window&(window-1) != 0 {
+		return nil, fmt.Errorf("multipitch: window %d is not a power of two from 1024 to 524288", window)
+	}
+	if hop == 0 {
+		hop = window / 4
+	}
+	if hop > window {
+		return nil, fmt.Errorf("multipitch: hop %d longer than window %d", hop, window)
+	}
+	if cfg.MaxVoices == 0 {
+		cfg.MaxVoices = 4
+	}
+	if cfg.MaxVoices < 1 || cfg.MaxVoices > 8 {
+		return nil, fmt.Errorf("multipitch: %d voices; 1 to 8 can be heard", cfg.MaxVoices)
+	}
+	if cfg.MinHz == 0 {
+		cfg.MinHz = 55
+	}
+	if cfg.MaxHz == 0 {
+		cfg.MaxHz = 2100
+	}
+	binHz := rate / float64(window)
+	ceil := math.Min(ceilingHz, 0.45*rate)
+	if !(cfg.MinHz >= 4*binHz && cfg.MaxHz > cfg.MinHz && cfg.MaxHz < ceil) {
+		return nil, fmt.Errorf("multipitch: range %g..%g Hz does not fit a %d-sample window at %g Hz", cfg.MinHz, cfg.MaxHz, window, rate)
+	}
+	e := &Estimator{rate: rate, window: window, hop: hop, cfg: cfg}
+	e.buf = make([]float64, window)
+	e.frame = make([]float64, window)
+	e.fft = fourier.NewFFT(window)
+	e.spec = make([]complex128, window/2+1)
+	e.search = newSearcher(window/2+1, binHz, ceil, cfg.MinHz, cfg.MaxHz)
+	e.fitter = newFitter(window, binHz, ceil, maxPartials)
+	e.fitter.spec = e.spec
+	return e, nil
+}
+
+// Window and Hop are the analysis window and hop in samples.
+func (e *Estimator) Window() int { return e.window }
+
+// Hop is the step between frames in samples.
+func (e *Estimator) Hop() int { return e.hop }
+
+// Feed takes the next block of samples and calls emit for every frame it
+// completes; the frame's Voices are reused by the next call.
+func (e *Estimator) Feed(block []float32, emit func(Frame)) {
+	for len(block) > 0 {
+		n := min(len(block), e.window-e.fill)
+		for i := range n {
+			e.buf[e.fill+i] = float64(block[i])
+		}
+		e.fill += n
+		e.fed += n
+		block = block[n:]
+		if e.fill < e.window {
+			continue
+		}
+		level := rmsDB(e.buf)
+		e.out = e.Analyze(e.buf, e.out[:0])
+		emit(Frame{Time: (float64(e.fed) - float64(e.window)/2) / e.rate, Level: level, Voices: e.out})
+		copy(e.buf, e.buf[e.hop:])
+		e.fill = e.window - e.hop
+	}
+}
+
+func rmsDB(x []float64) float64 {
+	s := 0.0
+	for _, v := range x {
+		s += v * v
+	}
+	return 10 * math.Log10(s/float64(len(x))+1e-30)
+}
+
+// Analyze reads the voices of one window of samples (len Window()) and
+// appends them to dst, lowest first.
+func (e *Estimator) Analyze(x []float64, dst []Voice) []Voice {
+	if len(x) != e.window || rmsDB(x) < silenceDBFS {
+		return dst
+	}
+	n := e.window
+	for i, v := range x {
+		c := i - n/2 // centred, so the window's transform is real
+		e.frame[(c+n)%n] = v * (0.5 + 0.5*math.Cos(2*math.Pi*float64(c)/float64(n)))
+	}
+	e.fft.Coefficients(e.spec, e.frame)
+	e.sorted = e.sorted[:0]
+	for b := 1; float64(b)*e.fitter.binHz < e.fitter.ceilHz; b += 4 {
+		e.sorted = append(e.sorted, real(e.spec[b])*real(e.spec[b])+imag(e.spec[b])*imag(e.spec[b]))
+	}
+	slices.Sort(e.sorted)
+	e.floor = e.sorted[len(e.sorted)/2]
+
+	e.f0 = e.f0[:0]
+	e.search.whiten(e.spec)
+	first := 0.0
+	// Two candidates more than the voices asked for: a partial of a loud
+	// voice can outweigh a quiet low voice's candidate, and the joint fit
+	// tells them apart.
+	for try := 0; len(e.f0) < e.cfg.MaxVoices+2 && try < 2*e.cfg.MaxVoices+4; try++ {
+		f, s := e.search.next(e.cfg.Accept)
+		if f == 0 || s < minSalience*first {
+			break
+		}
+		first = math.Max(first, s)
+		if slices.ContainsFunc(e.f0, func(g float64) bool { return math.Abs(cents(f, g)) < twinCents }) {
+			// What cancellation left of a voice came back: take all of
+			// it, so that it cannot crowd out the next voice.
+			e.search.clear(f)
+			continue
+		}
+		e.search.cancel(f)
+		e.f0 = append(e.f0, f)
+	}
+	if len(e.f0) == 0 {
+		return dst
+	}
+	e.drop = e.drop[:0]
+	e.prune()
+	return e.voices(dst)
+}
+
+func cents(a, b float64) float64 { return 1200 * math.Log2(a/b) }

@@ -1,0 +1,246 @@
+package multipitch
+
+import (
+	"cmp"
+	"math"
+	"slices"
+)
+
+// prune fits the candidates jointly, then drops, one at a time, the voice
+// that explains least that the others cannot, while it explains too little
+// to be a voice: an octave or unison above a voice (its partials are that
+// voice's), a subharmonic guess, a candidate on noise. Twins the fit has
+// drawn together become one.
+func (e *Estimator) prune() {
+	f := e.fitter
+	for steps := coldSteps; len(e.f0) > 0; steps = warmSteps {
+		resid := f.refine(e.f0, -1, steps)
+		if i, j, ok := e.twins(); ok {
+			e.remove(e.weaker(i, j))
+			continue
+		}
+		noise, total := e.noise(resid)
+		// Of the voices that fall short, the lowest goes first: a
+		// subharmonic guess that covers two real voices (C2 under C3 and
+		// G3) explains as little that they do not as they do that it does
+		// not, and it is the simpler reading to lose (Occam: it spends
+		// the most partials). A real voice under its octave double does
+		// not fall short: the double cannot explain its odd partials.
+		worst := -1
+		cols := len(f.cols)
+		for v := range e.f0 {
+			f.build(e.f0, f.maxK, v)
+			short := f.solve()-resid < e.needed(cols-len(f.cols), noise, total)
+			if short && (worst < 0 || e.f0[v] < e.f0[worst]) {
+				worst = v
+			}
+		}
+		if worst < 0 && len(e.f0) > e.cfg.MaxVoices {
+			// More voices explain something than were asked for: the
+			// weakest goes.
+			worst = 0
+			for v := range e.f0 {
+				if e.energyOf(v) < e.energyOf(worst) {
+					worst = v
+				}
+			}
+		}
+		if worst < 0 {
+			break
+		}
+		e.remove(worst)
+	}
+	f.build(e.f0, f.maxK, -1)
+	f.solve()
+	for v := range e.f0 {
+		for range 2 {
+			if !e.lower(v) {
+				break
+			}
+		}
+	}
+}
+
+// noise is the residual energy per real degree of freedom after the fit
+// that left resid, and total the energy of the bins fitted. A voice with
+// vibrato leaves a residual no harmonic model removes; a candidate fitting
+// that must not pass for a voice, so the bar rises with it.
+func (e *Estimator) noise(resid float64) (noise, total float64) {
+	f := e.fitter
+	for _, b := range f.used {
+		total += real(f.spec[b])*real(f.spec[b]) + imag(f.spec[b])*imag(f.spec[b])
+	}
+	return resid / math.Max(float64(2*(len(f.used)-len(f.cols))), 1), total
+}
+
+// needed is how much residual energy cols more columns must remove to be a
+// voice's: κ times what they would fit of the noise by chance, and no less
+// than relFloor of the chord.
+func (e *Estimator) needed(cols int, noise, total float64) float64 {
+	return math.Max(kappa*float64(2*cols)*noise, relFloor*total)
+}
+
+// lower tries voice v an octave down, and keeps it there when the partials
+// that adds explain enough that no voice did: a fundamental weaker than its
+// 2nd partial (bassoon, low brass, a voice's low register) is otherwise
+// heard an octave high, since the other voices often cover its odd partials
+// too.
+func (e *Estimator) lower(v int) bool {
+	f := e.fitter
+	down := e.f0[v] / 2
+	if down < e.cfg.MinHz || (e.cfg.Accept != nil && !e.cfg.Accept(down)) || !e.oddEvidence(down) {
+		return false
+	}
+	defer func() { // leave the fit of the voices kept in place
+		f.build(e.f0, f.maxK, -1)
+		f.solve()
+	}()
+	// Both fits cover the same bins: the voices', and the lower octave's.
+	e.trial = append(append(e.trial[:0], e.f0...), down)
+	resid := f.refine(e.trial, len(e.f0), warmSteps)
+	noise, total := e.noise(resid)
+	cols := len(f.cols)
+	e.trial = append(e.trial[:0], e.f0...)
+	e.trial[v] = down
+	after := f.fit(e.trial, -1)
+	twin := math.Abs(cents(e.trial[v], down)) > twinCents
+	for u, hz := range e.trial {
+		twin = twin || (u != v && math.Abs(cents(hz, e.trial[v])) < twinCents)
+	}
+	if twin || resid-after < e.needed(len(f.cols)-cols, noise, total) {
+		return false
+	}
+	copy(e.f0, e.trial)
+	return true
+}
+
+// twins finds two voices the fit has put within twinCents of each other.
+func (e *Estimator) twins() (int, int, bool) {
+	for i := range e.f0 {
+		for j := i + 1; j < len(e.f0); j++ {
+			if math.Abs(cents(e.f0[i], e.f0[j])) < twinCents {
+				return i, j, true
+			}
+		}
+	}
+	return 0, 0, false
+}
+
+// weaker is whichever of voices i and j has less fitted energy.
+func (e *Estimator) weaker(i, j int) int {
+	if e.energyOf(i) < e.energyOf(j) {
+		return i
+	}
+	return j
+}
+
+// energyOf is the fitted energy of voice v's partials (sum of squared
+// amplitudes), from the last solve.
+func (e *Estimator) energyOf(v int) float64 {
+	s := 0.0
+	for i, a := range e.fitter.amp {
+		if e.fitter.cols[i].voice == v {
+			s += real(a)*real(a) + imag(a)*imag(a)
+		}
+	}
+	return s
+}
+
+func (e *Estimator) remove(v int) {
+	e.drop = append(e.drop, e.f0[v])
+	e.f0 = slices.Delete(e.f0, v, v+1)
+}
+
+// voices appends the kept voices, lowest first.
+func (e *Estimator) voices(dst []Voice) []Voice {
+	start := len(dst)
+	for v, hz := range e.f0 {
+		// A partial of amplitude A puts A/2 at the kernel's peak, n/2:
+		// |c| = A/2, and the voice's RMS is √(Σ A²/2).
+		amp := math.Sqrt(2 * e.energyOf(v))
+		dst = append(dst, Voice{Hz: hz, Amplitude: amp, Doubled: 2*hz <= e.cfg.MaxHz && e.evenExcess(v) > doubleGain})
+	}
+	slices.SortFunc(dst[start:], func(a, b Voice) int { return cmp.Compare(a.Hz, b.Hz) })
+	return dst
+}
+
+// doubleGain is how far, in power, a voice's even partials must stand
+// above their odd neighbours to say another voice doubles it an octave
+// above: that voice adds four times a partial's own power to every second
+// one of a sawtooth's (its partial k/2 has twice the amplitude), +7 dB on
+// average with unrelated phases, where a smooth spectral envelope (Klapuri
+// 2003) has them level. Taken as the median over the even partials of each
+// one's power over its neighbours' geometric mean, 3 dB. A timbre whose
+// even partials dominate by nature (a strong second partial throughout)
+// passes for a doubled one; a unison double leaves no mark and is not
+// reported.
+const doubleGain = 2.0
+
+// evenExcess is that median for voice v, from the last solve, over even
+// partials up to the 20th that share neither themselves nor their
+// neighbours with another voice (a shared partial's power is split between
+// the voices by the fit) and whose neighbours stand above the noise. Fewer
+// than three such partials give 0.
+func (e *Estimator) evenExcess(v int) float64 {
+	var pow [maxPartials + 2]float64
+	for i, a := range e.fitter.amp {
+		if c := e.fitter.cols[i]; c.voice == v {
+			pow[c.k] = real(a)*real(a) + imag(a)*imag(a)
+		}
+	}
+	shared := func(k int) bool {
+		hz := float64(k) * e.f0[v]
+		for u, g := range e.f0 {
+			if u != v && math.Abs(hz-g*math.Round(hz/g)) < 1.5*e.fitter.binHz {
+				return true
+			}
+		}
+		return false
+	}
+	// A partial at the kernel's peak, n/2, must stand 15 dB above the
+	// noise floor to be compared at all.
+	half := float64(e.window) / 2
+	audible := func(k int) bool { return pow[k]*half*half > 30*e.floor }
+	var ratios []float64
+	for k := 2; k <= 20 && k+1 < len(pow); k += 2 {
+		if shared(k-1) || shared(k) || shared(k+1) || !audible(k-1) || !audible(k+1) {
+			continue
+		}
+		ratios = append(ratios, pow[k]/math.Sqrt(pow[k-1]*pow[k+1]))
+	}
+	if len(ratios) < 3 {
+		return 0
+	}
+	slices.Sort(ratios)
+	return ratios[len(ratios)/2]
+}
+
+// oddEvidence is a quick look before lower's two fits: does anything the
+// fit of the voices leaves stand 15 dB above the noise floor at the 1st,
+// 3rd, 5th or 7th partial of f where no voice has a partial? When every one
+// of them is shared, only the fits can tell.
+func (e *Estimator) oddEvidence(f float64) bool {
+	f0, bin := e.f0, e.fitter.binHz
+	tested := false
+	for k := 1.0; k <= 7; k += 2 {
+		hz := k * f
+		shared := slices.ContainsFunc(f0, func(g float64) bool {
+			return math.Abs(hz-g*math.Round(hz/g)) < 3*bin && math.Round(hz/g) >= 1
+		})
+		b := int(math.Round(hz / bin))
+		if shared || b+1 >= len(e.spec) {
+			continue
+		}
+		tested = true
+		for j := b - 1; j <= b+1; j++ {
+			r := e.spec[j]
+			if e.fitter.mark[j] == e.fitter.gen {
+				r -= e.fitter.model[j]
+			}
+			if real(r)*real(r)+imag(r)*imag(r) > 30*e.floor {
+				return true
+			}
+		}
+	}
+	return !tested
+}
