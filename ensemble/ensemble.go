@@ -38,8 +38,8 @@ type Options struct {
 // voice is one player's reading chain.
 type voice struct {
 	Player
-	det  *pitchdetect.Detector
-	seg  *pitchdetect.Segmenter
+	det   *pitchdetect.Detector
+	seg   *pitchdetect.Segmenter
 	ring  []float64 // the latest window of the player's channel, as heard
 	w     int       // next write position in ring
 	clean []float32 // this block less what the channel hears of the others
