@@ -18,18 +18,20 @@ import (
 // partials keeps c's own signal, which d's microphone hears too, from
 // passing for bleed.
 const (
-	maxBleedMs     = 12.0  // farther apart than ~4 m is not a close-microphone neighbour
-	maxBleedGain   = 0.5   // −6 dB: louder than that is not bleed but a shared microphone
-	bleedMemory    = 0.999 // per frame: evidence halves in about 700 frames (7 s at the default hop)
-	clearBins      = 2     // and none of c's partials within this many bins
-	bleedDominates = 0.1   // a bin −10 dB or more below d's is d's bleed on c
-	bleedEvery     = 4     // hops between re-estimates
-	minBleedFrames = 4     // frames of evidence before subtracting
-	minCoherence   = 0.6   // |Σ A·e^{iωτ}| / Σ |A|: the evidence agrees on one delay
-	bleedHarmonics = 48    // partials of d used, up to maxBleedHz: the wider the band, the sharper the delay
-	maxBleedHz     = 8000.0
-	historyPad     = 8     // samples kept beyond the longest delay
-	minBleedPower  = 1e-12 // below this d's partials are too quiet to measure
+	maxBleedMs        = 12.0  // farther apart than ~4 m is not a close-microphone neighbour
+	maxBleedGain      = 0.5   // −6 dB: louder than that is not bleed but a shared microphone
+	bleedMemory       = 0.999 // per frame: evidence halves in about 700 frames (7 s at the default hop)
+	clearBins         = 2     // and none of c's partials within this many bins
+	bleedDominates    = 0.1   // a bin −10 dB or more below d's is d's bleed on c
+	bleedEvery        = 4     // hops between re-estimates while learning,
+	bleedSettle       = 200   // the first 200 hops (about 2 s),
+	bleedEverySettled = 32    // and then: the microphones do not move much
+	minBleedFrames    = 4     // frames of evidence before subtracting
+	minCoherence      = 0.6   // |Σ A·e^{iωτ}| / Σ |A|: the evidence agrees on one delay
+	bleedHarmonics    = 48    // partials of d used, up to maxBleedHz: the wider the band, the sharper the delay
+	maxBleedHz        = 8000.0
+	historyPad        = 8     // samples kept beyond the longest delay
+	minBleedPower     = 1e-12 // below this d's partials are too quiet to measure
 )
 
 // Bleed is what each player's microphone hears of the others, learned
@@ -137,7 +139,11 @@ func (m *bleedModel) observe(o *Owner, hz []float64, steady []bool) {
 			p.b *= bleedMemory
 		}
 	}
-	if m.hops++; m.hops%bleedEvery == 0 {
+	every := bleedEvery
+	if m.hops > bleedSettle {
+		every = bleedEverySettled
+	}
+	if m.hops++; m.hops%every == 0 {
 		m.estimate(o.fs)
 	}
 }

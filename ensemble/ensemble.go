@@ -33,6 +33,9 @@ type Options struct {
 	OwnDB       float64
 	Bleed       *Bleed // nil: learn afresh
 	OnNote      func(Note) error
+	// OnFrame, if set, sees every player's frame as read: unvoiced where
+	// the pitch was another player's bleed. Index i is Players[i].
+	OnFrame func(i int, e pitchdetect.Estimate)
 }
 
 // voice is one player's reading chain.
@@ -148,6 +151,9 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 					e.Voiced, e.Hz, e.Confidence = false, 0, 0
 				}
 				hz[i], steady[i] = e.Hz, v.steady(e.Hz)
+				if opt.OnFrame != nil {
+					opt.OnFrame(i, e)
+				}
 				if h, done := v.seg.Push(e); done {
 					if err := deliver(v, h); err != nil {
 						return err

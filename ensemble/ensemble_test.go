@@ -44,7 +44,21 @@ type part struct {
 	notes []tone
 }
 
-type tone struct{ hz, start, end float64 }
+// tone is a note from start to end seconds; with then > 0 its pitch moves
+// smoothly to then over 30 ms at moveAt seconds, without a new attack.
+type tone struct {
+	hz, start, end float64
+	then, moveAt   float64
+}
+
+func (nt tone) pitch(t float64) float64 {
+	t += nt.start
+	if nt.then == 0 || t < nt.moveAt {
+		return nt.hz
+	}
+	f := math.Min((t-nt.moveAt)/0.03, 1)
+	return nt.hz * math.Pow(nt.then/nt.hz, f)
+}
 
 // record renders the parts, each into its own channel, and mixes every
 // other part into each channel bleedDB down and delayMs late, as close
@@ -57,7 +71,7 @@ func record(parts []part, seconds, bleedDB, delayMs float64) *take {
 		dry[i] = make([]float64, n)
 		for _, nt := range p.notes {
 			a, b := int(nt.start*rate), int(nt.end*rate)
-			x := testsignal.Tone(rate, b-a, p.spec, 0.15, testsignal.Steady(nt.hz))
+			x := testsignal.Tone(rate, b-a, p.spec, 0.15, nt.pitch)
 			testsignal.FadeIn(x, rate, 0.02)
 			for k := range 960 { // 20 ms release
 				x[len(x)-1-k] *= float64(k) / 960
@@ -99,10 +113,10 @@ func read(t *testing.T, tk *take, players []Player) []Note {
 func TestEachPlayerIsReadFromTheirOwnChannel(t *testing.T) {
 	c3 := 440 * math.Exp2(-21.0/12) // C3 in equal temperament at A4 = 440 (ISO 16)
 	parts := []part{
-		{"vc", testsignal.Saw, []tone{{c3, 0.2, 4}}},
-		{"vla", testsignal.Saw, []tone{{c3 * 3 / 2, 0.2, 4}}},
-		{"vl2", testsignal.Saw, []tone{{c3 * 5 / 2, 0.2, 4}}},
-		{"vl1", testsignal.Saw, []tone{{c3 * 4, 2.2, 4}}},
+		{"vc", testsignal.Saw, []tone{{c3, 0.2, 4, 0, 0}}},
+		{"vla", testsignal.Saw, []tone{{c3 * 3 / 2, 0.2, 4, 0, 0}}},
+		{"vl2", testsignal.Saw, []tone{{c3 * 5 / 2, 0.2, 4, 0, 0}}},
+		{"vl1", testsignal.Saw, []tone{{c3 * 4, 2.2, 4, 0, 0}}},
 	}
 	players := []Player{{"vc", 0}, {"vla", 1}, {"vl2", 2}, {"vl1", 3}}
 	want := map[string]struct {
@@ -138,10 +152,10 @@ func TestBleedIsTakenOutOfEachChannel(t *testing.T) {
 	c3 := 440 * math.Exp2(-21.0/12) // ISO 16: A4 = 440 Hz; C3 21 semitones below
 	et := func(semitones float64) float64 { return c3 * math.Exp2(semitones/12) }
 	parts := []part{
-		{"vc", testsignal.Saw, []tone{{et(0), 0.2, 1.6}, {et(-5), 1.7, 3}}},
-		{"vla", testsignal.Saw, []tone{{et(7), 0.2, 3}}},
-		{"vl2", testsignal.Saw, []tone{{et(16), 0.2, 1.6}, {et(14), 1.7, 3}}},
-		{"vl1", testsignal.Saw, []tone{{et(24), 0.8, 1.6}, {et(23), 1.7, 3}}},
+		{"vc", testsignal.Saw, []tone{{et(0), 0.2, 1.6, 0, 0}, {et(-5), 1.7, 3, 0, 0}}},
+		{"vla", testsignal.Saw, []tone{{et(7), 0.2, 3, 0, 0}}},
+		{"vl2", testsignal.Saw, []tone{{et(16), 0.2, 1.6, 0, 0}, {et(14), 1.7, 3, 0, 0}}},
+		{"vl1", testsignal.Saw, []tone{{et(24), 0.8, 1.6, 0, 0}, {et(23), 1.7, 3, 0, 0}}},
 	}
 	truth := map[string][]string{"vc": {"C3", "G2"}, "vla": {"G3"}, "vl2": {"E4", "D4"}, "vl1": {"C5", "B4"}}
 	players := []Player{{"vc", 0}, {"vla", 1}, {"vl2", 2}, {"vl1", 3}}
@@ -177,8 +191,8 @@ func TestBleedIsTakenOutOfEachChannel(t *testing.T) {
 func TestTheBleedLearnedIsTheBleedMixedIn(t *testing.T) {
 	c3 := 440 * math.Exp2(-21.0/12)
 	parts := []part{
-		{"vc", testsignal.Saw, []tone{{c3, 0.1, 1.5}, {c3 * math.Exp2(-5.0/12), 1.6, 3}}},
-		{"vl", testsignal.Saw, []tone{{c3 * math.Exp2(16.0/12), 0.1, 1.5}, {c3 * math.Exp2(14.0/12), 1.6, 3}}},
+		{"vc", testsignal.Saw, []tone{{c3, 0.1, 1.5, 0, 0}, {c3 * math.Exp2(-5.0/12), 1.6, 3, 0, 0}}},
+		{"vl", testsignal.Saw, []tone{{c3 * math.Exp2(16.0/12), 0.1, 1.5, 0, 0}, {c3 * math.Exp2(14.0/12), 1.6, 3, 0, 0}}},
 	}
 	var learned Bleed
 	if err := Run(context.Background(), record(parts, 3.2, -20, 3), Options{Players: []Player{{"vc", 0}, {"vl", 1}},
