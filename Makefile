@@ -45,6 +45,7 @@ fuzz:
 # microphone, and the meter's cost on screen.
 bench: deps
 	$(GO) test -run XXX -bench . -benchmem ./pitchdetect/
+	$(GO) test -run XXX -bench RecordingRead ./capture/
 	$(GO) run ./cmd/fifthbench
 	@scripts/vmic-start
 	$(GO) test -run XXX -bench 'ListenPlainLive|ListenMeter|DemoMeterInTmux' -benchtime 1x ./cmd/fifthline/

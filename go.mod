@@ -4,9 +4,10 @@ go 1.26.0
 
 require (
 	github.com/gdamore/tcell/v2 v2.13.10
-	github.com/go-audio/wav v1.1.0
 	github.com/gordonklaus/portaudio v0.0.0-20250206071425-98a94950218b
+	github.com/hajimehoshi/go-mp3 v0.3.4
 	github.com/mattn/go-runewidth v0.0.16
+	github.com/mewkiz/flac v1.0.14
 	github.com/rivo/tview v0.42.0
 	golang.org/x/sys v0.50.0
 	golang.org/x/term v0.48.0
@@ -21,10 +22,11 @@ require (
 	git.sr.ht/~sbinet/gg v0.7.0 // indirect
 	github.com/ajstarks/svgo v0.0.0-20211024235047-1546f124cd8b // indirect
 	github.com/gdamore/encoding v1.0.1 // indirect
-	github.com/go-audio/audio v1.0.0 // indirect
-	github.com/go-audio/riff v1.0.0 // indirect
 	github.com/golang/freetype v0.0.0-20170609003504-e2365dfdc4a0 // indirect
+	github.com/icza/bitio v1.1.0 // indirect
 	github.com/lucasb-eyer/go-colorful v1.3.0 // indirect
+	github.com/mewkiz/pkg v0.0.0-20250417130911-3f050ff8c56d // indirect
+	github.com/mewpkg/term v0.0.0-20241026122259-37a80af23985 // indirect
 	github.com/rivo/uniseg v0.4.7 // indirect
 	golang.org/x/image v0.30.0 // indirect
 	golang.org/x/text v0.31.0 // indirect

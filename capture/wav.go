@@ -3,102 +3,184 @@ package capture
 import (
 	"bufio"
 	"encoding/binary"
-	"errors"
-	"fmt"
 	"io"
-	"io/fs"
 	"math"
-	"os"
+	"time"
 )
 
-// WAVFile streams one channel of a WAV file as a Source. It reads 8-, 16-,
-// 24- and 32-bit PCM and 32- and 64-bit IEEE float, plain or
-// WAVE_FORMAT_EXTENSIBLE, at any sample rate.
-type WAVFile struct {
-	path    string
-	closer  io.Closer
-	layout  wavLayout
-	channel int // 1-based
-	decode  func([]byte) float32
-	data    *bufio.Reader
-	scratch []byte
-	frames  int64
-	pos     int64
-	closed  bool
-}
-
 // OpenWAV opens a WAV file and reads its first channel.
-func OpenWAV(path string) (*WAVFile, error) { return OpenWAVChannel(path, 1) }
+func OpenWAV(path string) (*Recording, error) { return OpenWAVChannel(path, 1) }
 
 // OpenWAVChannel opens a WAV file and reads the given channel, counted from
 // 1 as on a mixing desk; 0 also means the first channel.
-func OpenWAVChannel(path string, channel int) (*WAVFile, error) {
-	f, err := os.Open(path)
+func OpenWAVChannel(path string, channel int) (*Recording, error) {
+	return openWith(path, channel, func(f io.ReaderAt, size int64) (*Recording, error) {
+		return newWAV(path, f, size, channel, time.Local)
+	})
+}
+
+// openWith opens path and hands it to a format's reader, closing the file
+// if that fails.
+func openWith(path string, channel int, open func(io.ReaderAt, int64) (*Recording, error)) (*Recording, error) {
+	f, size, err := openFile(path)
 	if err != nil {
-		return nil, openProblem(path, err)
+		return nil, err
 	}
-	info, err := f.Stat()
-	if err == nil && info.IsDir() {
-		err = wavErr(path, ErrNotWAV, "is a folder, not a WAV file")
-	}
-	var w *WAVFile
-	if err == nil {
-		w, err = newWAV(path, f, info.Size(), channel)
-	}
+	r, err := open(f, size)
 	if err != nil {
 		f.Close()
 		return nil, err
 	}
-	w.closer = f
-	return w, nil
+	r.closer = f
+	return r, nil
 }
 
-func openProblem(path string, err error) error {
+// wavLayout is where a WAV file keeps its samples and how they are encoded.
+type wavLayout struct {
+	wavFormat
+	form       string // "RIFF", "RF64" or "BW64"
+	dataOffset int64
+	dataSize   int64 // bytes actually present, at most what the header says
+	truncated  bool  // the data chunk claims more bytes than the file holds
+	bext       []byte
+}
+
+// scanWAV walks the chunks of a file of the given size without reading
+// sample data: the format chunk, the data chunk and a bext chunk.
+func scanWAV(path string, r io.ReaderAt, size int64) (wavLayout, error) {
+	var l wavLayout
+	var fmtChunk []byte
+	var problem error
+	haveData := false
+	form, err := walkRIFF(path, r, size, func(c riffChunk) bool {
+		switch {
+		case c.id == "fmt " && fmtChunk == nil:
+			if fmtChunk, problem = readChunk(path, r, c, size, 16, maxFmtChunk, "format"); problem != nil {
+				return false
+			}
+		case c.id == "bext" && l.bext == nil:
+			// Only the fixed part is read: CodingHistory can be long.
+			l.bext, _ = readChunk(path, r, riffChunk{c.id, c.body, min(c.size, bextFixed)}, size, 0, bextFixed, "bext")
+		case c.id == "data" && !haveData:
+			haveData = true
+			l.dataOffset, l.dataSize = c.body, min(c.size, size-c.body)
+			l.truncated = l.dataSize < c.size
+		}
+		return fmtChunk == nil || !haveData || l.bext == nil
+	})
 	switch {
-	case errors.Is(err, fs.ErrNotExist):
-		return wavErr(path, fs.ErrNotExist, "no such file")
-	case errors.Is(err, fs.ErrPermission):
-		return wavErr(path, fs.ErrPermission, "permission denied")
+	case err != nil:
+		return l, err
+	case problem != nil:
+		return l, problem
+	case fmtChunk == nil:
+		return l, fileErr(path, ErrCorrupt, "no format chunk (truncated or corrupt header)")
+	case !haveData:
+		return l, fileErr(path, ErrCorrupt, "no data chunk (truncated or corrupt file)")
 	}
-	return wavErr(path, err, "cannot open: %v", err)
+	l.form = form
+	l.wavFormat, err = parseFormat(path, fmtChunk)
+	return l, err
+}
+
+// readChunk reads a metadata chunk's body, refusing one outside
+// [least, most] bytes or cut off by the end of the file.
+func readChunk(path string, r io.ReaderAt, c riffChunk, size, least, most int64, what string) ([]byte, error) {
+	if c.size < least || c.size > most {
+		return nil, fileErr(path, ErrCorrupt, "corrupt %s chunk (%d bytes)", what, c.size)
+	}
+	if c.body+c.size > size {
+		return nil, fileErr(path, ErrCorrupt, "truncated %s chunk", what)
+	}
+	b := make([]byte, c.size)
+	if _, err := r.ReadAt(b, c.body); err != nil {
+		return nil, fileErr(path, ErrCorrupt, "cannot read %s chunk: %v", what, err)
+	}
+	return b, nil
 }
 
 // newWAV reads the header from r, which holds size bytes, and prepares to
-// stream the chosen channel. It is OpenWAV without the file system.
-func newWAV(path string, r io.ReaderAt, size int64, channel int) (*WAVFile, error) {
+// stream it, reading the bext origination time in loc. It is OpenWAV
+// without the file system.
+func newWAV(path string, r io.ReaderAt, size int64, channel int, loc *time.Location) (*Recording, error) {
 	l, err := scanWAV(path, r, size)
 	if err != nil {
 		return nil, err
 	}
-	if channel == 0 {
-		channel = 1
+	ba := int64(l.blockAlign)
+	frames := l.dataSize / ba
+	rec := &Recording{
+		path: path, format: "WAV", encoding: l.encoding(),
+		rate: l.rate, channels: l.channels, frames: frames, truncated: l.truncated,
+		dec: newInterleaved(io.NewSectionReader(r, l.dataOffset, frames*ba), l.channels, l.bits/8, sampleDecoder(l.tag, l.bits)),
 	}
-	if channel < 0 || channel > l.channels {
-		return nil, wavErr(path, ErrUnsupportedWAV, "channel %d requested but the file has %d", channel, l.channels)
+	if l.form != "RIFF" {
+		rec.format = l.form
 	}
-	// Read whole frames in blocks of about 32 KiB, at least one frame.
-	blockFrames := max(1, 32<<10/l.blockAlign)
-	frames := l.dataSize / int64(l.blockAlign)
-	return &WAVFile{
-		path:    path,
-		layout:  l,
-		channel: channel,
-		decode:  sampleDecoder(l.tag, l.bits),
-		data:    bufio.NewReaderSize(io.NewSectionReader(r, l.dataOffset, frames*int64(l.blockAlign)), 64<<10),
-		scratch: make([]byte, blockFrames*l.blockAlign),
-		frames:  frames,
-	}, nil
+	if l.bext != nil {
+		bc := parseBext(l.bext, loc)
+		rec.bext = &bc
+	}
+	return rec, rec.choose(channel)
+}
+
+// interleaved decodes frames of interleaved fixed-size samples from a
+// byte stream: WAV data, and the PCM that the MP3 decoder and ffmpeg give.
+type interleaved struct {
+	r        *bufio.Reader
+	channels int
+	width    int // bytes per sample
+	sample   func([]byte) float32
+	scratch  []byte
+}
+
+func newInterleaved(r io.Reader, channels, width int, sample func([]byte) float32) *interleaved {
+	frame := channels * width
+	return &interleaved{
+		r: bufio.NewReaderSize(r, 64<<10), channels: channels, width: width, sample: sample,
+		scratch: make([]byte, max(1, 32<<10/frame)*frame), // whole frames, about 32 KiB
+	}
+}
+
+func (d *interleaved) decode(dst [][]float32) (int, error) {
+	frame := d.channels * d.width
+	want := 0
+	for _, p := range dst {
+		want = max(want, len(p))
+	}
+	got, err := io.ReadFull(d.r, d.scratch[:min(want, len(d.scratch)/frame)*frame])
+	n := got / frame // a torn last frame is dropped
+	if err == io.ErrUnexpectedEOF || (err == io.EOF && n == 0) {
+		err = io.EOF
+	}
+	for c, p := range dst {
+		if p == nil {
+			continue
+		}
+		for i, at := 0, c*d.width; i < n; i, at = i+1, at+frame {
+			p[i] = d.sample(d.scratch[at : at+d.width])
+		}
+	}
+	if n > 0 && err == io.EOF {
+		err = nil // the end is said on the next call
+	}
+	return n, err
 }
 
 // sampleDecoder maps one little-endian sample to [-1, 1]. Integer PCM is
 // divided by 2^(bits-1) and 8-bit PCM is unsigned with 128 as silence
-// (WAVE specification); sox scales the same way.
+// (WAVE specification); A-law and µ-law expand by ITU-T G.711 to 16-bit
+// values. sox scales all of them the same way.
 func sampleDecoder(tag uint16, bits int) func([]byte) float32 {
-	if tag == tagFloat {
-		if bits == 64 {
-			return func(b []byte) float32 { return fullScale(math.Float64frombits(binary.LittleEndian.Uint64(b))) }
-		}
+	switch {
+	case tag == tagFloat && bits == 64:
+		return func(b []byte) float32 { return fullScale(math.Float64frombits(binary.LittleEndian.Uint64(b))) }
+	case tag == tagFloat:
 		return func(b []byte) float32 { return fullScale(float64(math.Float32frombits(binary.LittleEndian.Uint32(b)))) }
+	case tag == tagALaw:
+		return func(b []byte) float32 { return float32(aLaw[b[0]]) / (1 << 15) }
+	case tag == tagMuLaw:
+		return func(b []byte) float32 { return float32(muLaw[b[0]]) / (1 << 15) }
 	}
 	switch bits {
 	case 8:
@@ -126,68 +208,30 @@ func fullScale(v float64) float32 {
 	return float32(max(-1, min(1, v)))
 }
 
-// Read fills p with samples of the chosen channel; io.EOF at the end.
-func (w *WAVFile) Read(p []float32) (int, error) {
-	if w.closed {
-		return 0, fmt.Errorf("%s: read after close: %w", w.path, os.ErrClosed)
-	}
-	if len(p) == 0 {
-		return 0, nil
-	}
-	left := w.frames - w.pos
-	if left == 0 {
-		return 0, io.EOF
-	}
-	ba := w.layout.blockAlign
-	n := int(min(int64(len(p)), left, int64(len(w.scratch)/ba)))
-	buf := w.scratch[:n*ba]
-	if _, err := io.ReadFull(w.data, buf); err != nil {
-		return 0, fmt.Errorf("%s: reading samples: %w", w.path, err)
-	}
-	off, width := (w.channel-1)*w.layout.bits/8, w.layout.bits/8
-	for i := range n {
-		at := i*ba + off
-		p[i] = w.decode(buf[at : at+width])
-	}
-	w.pos += int64(n)
-	return n, nil
-}
+// aLaw and muLaw expand G.711 code words to 16-bit linear values (ITU-T
+// Recommendation G.711, 1988: A-law's 13-bit and µ-law's 14-bit ranges,
+// scaled to 16 bits as is usual).
+var aLaw, muLaw = g711Tables()
 
-// Close releases the file; closing twice is harmless.
-func (w *WAVFile) Close() error {
-	if w.closed {
-		return nil
+func g711Tables() (a, u [256]int16) {
+	for i := range 256 {
+		x := byte(i) ^ 0x55 // A-law inverts the even bits
+		t := int(x&0x0f)<<4 + 8
+		if seg := int(x&0x70) >> 4; seg > 0 {
+			t = (t + 0x100) << (seg - 1)
+		}
+		if x&0x80 == 0 {
+			t = -t
+		}
+		a[i] = int16(t)
+
+		y := ^byte(i) // µ-law inverts every bit
+		m := (int(y&0x0f)<<3 + 0x84) << (int(y&0x70) >> 4)
+		if y&0x80 != 0 {
+			u[i] = int16(0x84 - m)
+		} else {
+			u[i] = int16(m - 0x84)
+		}
 	}
-	w.closed = true
-	if w.closer != nil {
-		return w.closer.Close()
-	}
-	return nil
-}
-
-// SampleRate is the file's rate in Hz.
-func (w *WAVFile) SampleRate() float64 { return float64(w.layout.rate) }
-
-// Frames is the number of whole frames (samples per channel) in the file.
-func (w *WAVFile) Frames() int64 { return w.frames }
-
-// Duration is the length in seconds.
-func (w *WAVFile) Duration() float64 { return float64(w.frames) / float64(w.layout.rate) }
-
-// Channels is how many channels the file holds.
-func (w *WAVFile) Channels() int { return w.layout.channels }
-
-// Channel is the channel being read, counted from 1.
-func (w *WAVFile) Channel() int { return w.channel }
-
-// Truncated reports a data chunk that claims more bytes than the file has;
-// the samples that are there are still read.
-func (w *WAVFile) Truncated() bool { return w.layout.truncated }
-
-// Encoding describes the sample format, such as "24-bit PCM" or "32-bit float".
-func (w *WAVFile) Encoding() string {
-	if w.layout.tag == tagFloat {
-		return fmt.Sprintf("%d-bit float", w.layout.bits)
-	}
-	return fmt.Sprintf("%d-bit PCM", w.layout.bits)
+	return a, u
 }

@@ -7,6 +7,7 @@ import (
 	"io"
 	"strings"
 	"testing"
+	"time"
 )
 
 // wavBytes builds a small WAV in memory: a format chunk with the given
@@ -60,20 +61,25 @@ func FuzzOpenWAV(f *testing.F) {
 		wavBytes(tagExtensible, 3, 96000, 32, tagPCM, nil, pcm[:4]),
 		wavBytes(tagExtensible, 1, 48000, 32, tagFloat, hostileList, pcm),
 		wavBytes(tagPCM, 1, 48000, 12, 0, []byte("JUNK\xff\xff\xff\xff"), pcm),
+		wavBytes(tagALaw, 2, 8000, 8, 0, nil, pcm),
+		wavBytes(tagExtensible, 1, 8000, 8, tagMuLaw, nil, pcm),
+		wavBytes(tagPCM, 1, 48000, 16, 0, bextChunk("2026:11:24", "19:30:05", 1, "A=PCM\r\n"), pcm),
+		rf64Bytes(wavBytes(tagPCM, 2, 96000, 24, 0, nil, pcm[:6])),
+		rf64Bytes(wavBytes(tagExtensible, 1, 48000, 32, tagFloat, bextChunk("2026-11-24", "", 0, ""), pcm)),
 		[]byte("RIFF\x00\x00\x00\x00WAVE"),
 	} {
 		f.Add(seed, 1)
 	}
 	f.Fuzz(func(t *testing.T, b []byte, channel int) {
-		w, err := newWAV("fuzz.wav", bytes.NewReader(b), int64(len(b)), channel)
+		w, err := newWAV("fuzz.wav", bytes.NewReader(b), int64(len(b)), channel, time.UTC)
 		if err != nil {
 			if msg := err.Error(); !strings.HasPrefix(msg, "fuzz.wav: ") || strings.Contains(msg, "\n") {
 				t.Fatalf("error is not one line naming the file: %q", msg)
 			}
 			return
 		}
-		if w.Frames()*int64(w.layout.blockAlign) > int64(len(b)) {
-			t.Fatalf("%d frames of %d bytes from a %d-byte file", w.Frames(), w.layout.blockAlign, len(b))
+		if w.Frames()*int64(w.Channels()) > int64(len(b)) {
+			t.Fatalf("%d frames of %d channels from a %d-byte file", w.Frames(), w.Channels(), len(b))
 		}
 		buf := make([]float32, 333)
 		total := int64(0)
@@ -94,6 +100,121 @@ func FuzzOpenWAV(f *testing.F) {
 		}
 		if total != w.Frames() {
 			t.Fatalf("read %d samples, Frames says %d", total, w.Frames())
+		}
+	})
+}
+
+// rf64Bytes rewrites a WAV built by wavBytes as RF64 (EBU Tech 3306): the
+// form named RF64 with size 0xFFFFFFFF, a ds64 chunk first holding the
+// 64-bit sizes, and the data chunk's 32-bit size 0xFFFFFFFF.
+func rf64Bytes(wav []byte) []byte {
+	le := binary.LittleEndian
+	at := bytes.Index(wav, []byte("data"))
+	dataSize := uint64(le.Uint32(wav[at+4:]))
+	var b bytes.Buffer
+	b.WriteString("RF64\xff\xff\xff\xffWAVEds64")
+	binary.Write(&b, le, uint32(28))
+	binary.Write(&b, le, []uint64{uint64(len(wav)) + 36 - 8, dataSize, 0})
+	binary.Write(&b, le, uint32(0)) // no table
+	b.Write(wav[12:at])
+	b.WriteString("data\xff\xff\xff\xff")
+	b.Write(wav[at+8:])
+	return b.Bytes()
+}
+
+// FuzzBext: any bext body parses to fields without a panic, and an
+// origination time, when there is one, is a real calendar time.
+// Run: go test -run '^$' -fuzz FuzzBext -fuzztime 20s ./capture/
+func FuzzBext(f *testing.F) {
+	f.Add(bextChunk("2026-11-24", "19:30:05", 3369840000, "A=PCM\r\n")[8:])
+	f.Add(bextChunk("2026:02:29", "24:00:00", 0, "")[8:])
+	f.Add([]byte("short"))
+	f.Fuzz(func(t *testing.T, b []byte) {
+		bc := parseBext(b, time.UTC)
+		if o := bc.Origination; !o.IsZero() && (o.Year() > 9999 || o.Format("2006-01-02") != string(b[bextDate:bextDate+4])+o.Format("-01-02")) {
+			t.Fatalf("origination %v from %q", o, b[bextDate:bextTime])
+		}
+	})
+}
+
+// FuzzOpenRecording: FLAC and MP3 decoders (third-party) and the sniffing
+// before them end in samples in [-1, 1] or a one-line error, never a panic.
+// Run: go test -run '^$' -fuzz FuzzOpenRecording -fuzztime 30s ./capture/
+func FuzzOpenRecording(f *testing.F) {
+	for _, seed := range [][]byte{
+		[]byte("fLaC\x00\x00\x00\x22\x10\x00\x10\x00\x00\x00\x00\x00\x00\x00\x0b\xb8\x02\xf0\x00\x00\x00\x00"),
+		[]byte("ID3\x04\x00\x00\x00\x00\x00\x00\xff\xfb\x90\xc4\x00\x00\x00\x00"),
+		{0xff, 0xfb, 0x90, 0x64, 0, 0, 0, 0, 0, 0, 0, 0},
+		rf64Bytes(wavBytes(tagPCM, 1, 48000, 16, 0, nil, []byte{1, 2, 3, 4})),
+	} {
+		f.Add(seed)
+	}
+	f.Fuzz(func(t *testing.T, b []byte) {
+		r := bytes.NewReader(b)
+		kind, at := sniff(r)
+		var rec *Recording
+		var err error
+		switch kind {
+		case "FLAC":
+			rec, err = newFLAC("fuzz", r, 1)
+		case "MP3":
+			rec, err = newMP3("fuzz", io.NewSectionReader(r, 0, int64(len(b))), b[min(int64(len(b)), at):], 1)
+		case "WAV":
+			rec, err = newWAV("fuzz", r, int64(len(b)), 1, time.UTC)
+		default:
+			return
+		}
+		if err != nil {
+			if msg := err.Error(); !strings.HasPrefix(msg, "fuzz: ") || strings.Contains(msg, "\n") {
+				t.Fatalf("error is not one line naming the file: %q", msg)
+			}
+			return
+		}
+		buf := make([]float32, 1000)
+		for range 1000 { // a damaged stream may be long; enough to exercise it
+			n, err := rec.Read(buf)
+			for _, v := range buf[:n] {
+				if !(v >= -1 && v <= 1) {
+					t.Fatalf("sample %v outside [-1, 1]", v)
+				}
+			}
+			if err != nil {
+				if msg := err.Error(); strings.Contains(msg, "\n") {
+					t.Fatalf("read error is not one line: %q", msg)
+				}
+				return
+			}
+		}
+	})
+}
+
+// FuzzMP3Header: any first frame gives a header without a panic, with a
+// skip and a length no hostile tag can make negative.
+// Run: go test -run '^$' -fuzz FuzzMP3Header -fuzztime 20s ./capture/
+func FuzzMP3Header(f *testing.F) {
+	info := append([]byte{0xff, 0xfb, 0x90, 0xc0}, make([]byte, 17)...)
+	info = append(info, "Info\x00\x00\x00\x0f\x00\x00\x00\x28"...)
+	info = append(info, make([]byte, 108)...)
+	info = append(info, "Lavc59.37\x00\x00\x00\x00\x00\x00\x00\x00\x00\x00\x00\x00\x24\x05\x7c"...)
+	f.Add(info)
+	f.Add([]byte{0xff, 0xf3, 0x90, 0x00})
+	f.Fuzz(func(t *testing.T, b []byte) {
+		h := readMP3Header(b)
+		if h.skip < 0 || h.frames < -1 {
+			t.Fatalf("header %+v", h)
+		}
+	})
+}
+
+// FuzzProbeFields: whatever ffprobe prints, its key=value lines parse
+// without a panic and the first value of a key wins.
+func FuzzProbeFields(f *testing.F) {
+	f.Add([]byte("codec_name=aac\nsample_rate=48000\nchannels=2\nduration=1.000000\n"))
+	f.Fuzz(func(t *testing.T, b []byte) {
+		for k, v := range probeFields(b) {
+			if strings.Contains(k, "\n") || strings.Contains(v, "\n") {
+				t.Fatalf("%q=%q spans lines", k, v)
+			}
 		}
 	})
 }

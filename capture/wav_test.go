@@ -10,6 +10,7 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+	"time"
 )
 
 // Every format OpenWAV reads, made by sox, must decode to the samples sox
@@ -33,6 +34,8 @@ func TestOpenWAVAgreesWithSox(t *testing.T) {
 		{"stereo16-left.wav", []string{"-r", "48000", "-b", "16", "-c", "2"}, []string{"0.3", "sine", "440", "sine", "660"}, 1, "16-bit PCM"},
 		{"stereo16-right.wav", []string{"-r", "48000", "-b", "16", "-c", "2"}, []string{"0.3", "sine", "440", "sine", "660"}, 2, "16-bit PCM"},
 		{"three-ch24-third.wav", []string{"-r", "32000", "-b", "24", "-c", "3"}, []string{"0.3", "sine", "220", "sine", "440", "square", "880"}, 3, "24-bit PCM"},
+		{"alaw-8k.wav", []string{"-r", "8000", "-e", "a-law"}, []string{"0.3", "sine", "440"}, 1, "A-law"},
+		{"mulaw-8k.wav", []string{"-r", "8000", "-e", "u-law"}, []string{"0.3", "sine", "440"}, 1, "µ-law"},
 		{"odd-rate16.wav", []string{"-r", "11025", "-b", "16"}, []string{"0.3", "sine", "440", "gain", "-3"}, 1, "16-bit PCM"},
 	}
 	for _, c := range cases {
@@ -180,7 +183,6 @@ func TestOpenWAVErrors(t *testing.T) {
 			t.Fatal(err)
 		}
 	}
-	alaw := soxFile(t, dir, "alaw.wav", []string{"-r", "8000", "-e", "a-law"}, "0.01", "sine", "440")
 	cases := []struct {
 		path    string
 		channel int
@@ -188,27 +190,26 @@ func TestOpenWAVErrors(t *testing.T) {
 		says    string
 	}{
 		{filepath.Join(dir, "missing.wav"), 1, fs.ErrNotExist, "no such file"},
-		{dir, 1, ErrNotWAV, "is a folder"},
-		{filepath.Join(dir, "empty.wav"), 1, ErrNotWAV, "empty file"},
-		{filepath.Join(dir, "text.wav"), 1, ErrNotWAV, "not a WAV file"},
-		{filepath.Join(dir, "short.wav"), 1, ErrCorruptWAV, "truncated WAV header"},
-		{filepath.Join(dir, "cut-header.wav"), 1, ErrCorruptWAV, "truncated format chunk"},
-		{filepath.Join(dir, "no-data.wav"), 1, ErrCorruptWAV, "no data chunk"},
-		{filepath.Join(dir, "zero-channels.wav"), 1, ErrCorruptWAV, "zero channels"},
-		{filepath.Join(dir, "zero-rate.wav"), 1, ErrCorruptWAV, "zero sample rate"},
-		{filepath.Join(dir, "rate-4GHz.wav"), 1, ErrUnsupportedWAV, "sample rate 4294967295 Hz is outside"},
-		{filepath.Join(dir, "bad-align.wav"), 1, ErrCorruptWAV, "block align 3"},
-		{filepath.Join(dir, "fmt-too-short.wav"), 1, ErrCorruptWAV, "corrupt format chunk (4 bytes)"},
-		{filepath.Join(dir, "huge-fmt.wav"), 1, ErrCorruptWAV, "corrupt format chunk"},
-		{filepath.Join(dir, "rf64.wav"), 1, ErrUnsupportedWAV, "RF64"},
-		{filepath.Join(dir, "mp3-tag.wav"), 1, ErrUnsupportedWAV, "MP3"},
-		{filepath.Join(dir, "unknown-tag.wav"), 1, ErrUnsupportedWAV, "0x1234"},
-		{filepath.Join(dir, "pcm-64-bit.wav"), 1, ErrUnsupportedWAV, "64 bits"},
-		{filepath.Join(dir, "float-16-bit.wav"), 1, ErrUnsupportedWAV, "float sample size 16"},
-		{filepath.Join(dir, "extensible-cut.wav"), 1, ErrCorruptWAV, "extensible format chunk too short"},
-		{alaw, 1, ErrUnsupportedWAV, "A-law"},
-		{filepath.Join(dir, "good.wav"), 2, ErrUnsupportedWAV, "channel 2 requested but the file has 1"},
-		{filepath.Join(dir, "good.wav"), -1, ErrUnsupportedWAV, "channel -1"},
+		{dir, 1, ErrNotAudio, "is a folder"},
+		{filepath.Join(dir, "empty.wav"), 1, ErrNotAudio, "empty file"},
+		{filepath.Join(dir, "text.wav"), 1, ErrNotAudio, "not a WAV file"},
+		{filepath.Join(dir, "short.wav"), 1, ErrCorrupt, "truncated WAV header"},
+		{filepath.Join(dir, "cut-header.wav"), 1, ErrCorrupt, "truncated format chunk"},
+		{filepath.Join(dir, "no-data.wav"), 1, ErrCorrupt, "no data chunk"},
+		{filepath.Join(dir, "zero-channels.wav"), 1, ErrCorrupt, "zero channels"},
+		{filepath.Join(dir, "zero-rate.wav"), 1, ErrCorrupt, "zero sample rate"},
+		{filepath.Join(dir, "rate-4GHz.wav"), 1, ErrUnsupported, "sample rate 4294967295 Hz is outside"},
+		{filepath.Join(dir, "bad-align.wav"), 1, ErrCorrupt, "block align 3"},
+		{filepath.Join(dir, "fmt-too-short.wav"), 1, ErrCorrupt, "corrupt format chunk (4 bytes)"},
+		{filepath.Join(dir, "huge-fmt.wav"), 1, ErrCorrupt, "corrupt format chunk"},
+		{filepath.Join(dir, "rf64.wav"), 1, ErrCorrupt, "RF64 file without its ds64 chunk first"},
+		{filepath.Join(dir, "mp3-tag.wav"), 1, ErrUnsupported, "MP3"},
+		{filepath.Join(dir, "unknown-tag.wav"), 1, ErrUnsupported, "0x1234"},
+		{filepath.Join(dir, "pcm-64-bit.wav"), 1, ErrUnsupported, "64 bits"},
+		{filepath.Join(dir, "float-16-bit.wav"), 1, ErrUnsupported, "float sample size 16"},
+		{filepath.Join(dir, "extensible-cut.wav"), 1, ErrCorrupt, "extensible format chunk too short"},
+		{filepath.Join(dir, "good.wav"), 2, ErrUnsupported, "channel 2 requested but the file has 1"},
+		{filepath.Join(dir, "good.wav"), -1, ErrUnsupported, "channel -1"},
 	}
 	for _, c := range cases {
 		t.Run(filepath.Base(c.path), func(t *testing.T) {
@@ -272,6 +273,24 @@ func TestWAVExtensibleFloat(t *testing.T) {
 		want := soxSamples(t, filepath.Join(dir, "plain.wav"), ch)
 		if w.Encoding() != "32-bit float" || len(got) != 4410 || maxDiff(got, want) != 0 || maxDiff(soxSamples(t, ext, ch), want) != 0 {
 			t.Errorf("channel %d: %s, %d samples; want 32-bit float, 4410 samples equal to sox's", ch, w.Encoding(), len(got))
+		}
+	}
+}
+
+// An RF64 file built from EBU Tech 3306's layout, its data size only in
+// ds64, reads its samples; so does the same under ITU-R BS.2088's "BW64".
+func TestRF64SizesFromDS64(t *testing.T) {
+	pcm := []byte{0, 0, 0xff, 0x7f, 0, 0x80, 1, 0} // 0, 32767, -32768, 1
+	want := []float32{0, 32767.0 / 32768, -1, 1.0 / 32768}
+	for _, form := range []string{"RF64", "BW64"} {
+		b := rf64Bytes(wavBytes(tagPCM, 1, 48000, 16, 0, nil, pcm))
+		copy(b, form)
+		r, err := newWAV("long.wav", bytes.NewReader(b), int64(len(b)), 1, time.UTC)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if got := readAll(t, r, 3); r.Format() != form || r.Frames() != 4 || maxDiff(got, want) != 0 || len(got) != 4 {
+			t.Errorf("%s: format %s, %d frames, samples %v; want %v", form, r.Format(), r.Frames(), got, want)
 		}
 	}
 }

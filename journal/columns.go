@@ -11,6 +11,11 @@ var Leading = []string{"time", "session", "source", "player", "key", "temperamen
 // Header is the journal's full header: Leading then session.Columns.
 func Header() []string { return append(append([]string(nil), Leading...), session.Header(false)...) }
 
+// Later are the columns added after the first journals were written: older
+// journals lack them, and are still read and appended to (under a fresh
+// header line).
+var Later = map[string]bool{"on_other_spelling": true}
+
 // TimeLayout is how the time column is written: RFC 3339 (ISO 8601) with
 // milliseconds and the zone offset, which spreadsheets read as a date-time.
 const TimeLayout = "2006-01-02T15:04:05.000Z07:00"

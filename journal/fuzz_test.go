@@ -11,7 +11,9 @@ import (
 func FuzzRead(f *testing.F) {
 	f.Add(headerLine() + sampleLine + "\n")
 	f.Add(headerLine() + sampleLine[:50])
+	f.Add(strings.TrimSuffix(headerLine(), "\n") + ",on_other_spelling\n" + strings.Replace(sampleLine, "Db5,40.00", ",", 1) + ",true\n")
 	f.Add("time,session\n1,2\n")
+	f.Add(olderHeaderLine() + strings.Replace(sampleLine, ",false,false,", ",false,", 1) + "\n" + headerLine() + sampleLine + "\n")
 	f.Add("\"\n\"")
 	f.Add("")
 	f.Fuzz(func(t *testing.T, body string) {
@@ -28,6 +30,9 @@ func FuzzRead(f *testing.F) {
 			}
 		}
 		for _, e := range entries {
+			if e.SatOnOther() && (!e.HasAlt || e.SamePitch && !e.OnOtherKnown) {
+				t.Fatalf("on the other spelling without one: %+v", e)
+			}
 			for _, x := range []float64{e.Cents, e.AltCents, e.Hz, e.Start, e.A4} {
 				if math.IsNaN(x) || math.IsInf(x, 0) {
 					t.Fatalf("non-finite value in %+v", e)

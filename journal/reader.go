@@ -26,14 +26,20 @@ type Entry struct {
 	Transpose, Chord                  string
 	Start, End                        float64 // seconds within the session's run
 	Note, Alt                         target.Note
+	HasAlt                            bool // alt_note given: an other spelling was offered
 	Hz, TargetHz, Cents, AltCents     float64
 	SamePitch                         bool
 	Spread, VibratoWidth, VibratoRate float64
+	// OnOther is the on_other_spelling column (the contract's quarter-gap
+	// rule); OnOtherKnown is false in journals older than that column.
+	OnOther, OnOtherKnown bool
 }
 
 // NearerAlt reports whether the note sat nearer its other spelling's target
 // (never where both spellings share one pitch).
-func (e Entry) NearerAlt() bool { return !e.SamePitch && math.Abs(e.AltCents) < math.Abs(e.Cents) }
+func (e Entry) NearerAlt() bool {
+	return e.HasAlt && !e.SamePitch && math.Abs(e.AltCents) < math.Abs(e.Cents)
+}
 
 // maxWarnings bounds the warnings one journal gives; the rest are counted.
 const maxWarnings = 10
@@ -100,6 +106,12 @@ func Read(r io.Reader, name string) ([]Entry, []string, error) {
 		if strings.TrimSpace(line) == "" || line == lines[0] {
 			continue
 		}
+		if strings.HasPrefix(line, "time,") { // a journal appended to under a newer header
+			if c, err := columnIndex(line); err == nil {
+				lines[0], cols = line, c
+				continue
+			}
+		}
 		e, err := cols.parse(line)
 		if err == nil {
 			entries = append(entries, e)
@@ -136,12 +148,17 @@ func columnIndex(header string) (columns, error) {
 		c.at[strings.TrimSpace(f)] = i
 	}
 	var missing []string
+	needed := 0
 	for _, h := range Header() {
+		if Later[h] {
+			continue
+		}
+		needed++
 		if _, ok := c.at[h]; !ok {
 			missing = append(missing, h)
 		}
 	}
-	if len(missing) == len(Header()) {
+	if len(missing) == needed {
 		return columns{}, fmt.Errorf("its first line %.40q is not the journal header", header)
 	}
 	if len(missing) > 0 {
@@ -220,9 +237,14 @@ func (c columns) parse(line string) (Entry, error) {
 		Key: f.str("key"), Temperament: f.str("temperament"), A4: f.num("a4"),
 		Transpose: f.str("transpose"), Chord: f.str("chord"),
 		Start: f.num("start_s"), End: f.num("end_s"), Note: f.note("note"), Hz: f.num("hz"),
-		TargetHz: f.num("target_hz"), Cents: f.num("cents"), Alt: f.note("alt_note"),
-		AltCents: f.num("alt_cents"), SamePitch: f.flag("same_pitch"), Spread: f.num("spread_cents"),
+		TargetHz: f.num("target_hz"), Cents: f.num("cents"), SamePitch: f.flag("same_pitch"), Spread: f.num("spread_cents"),
 		VibratoWidth: f.num("vibrato_cents"), VibratoRate: f.num("vibrato_hz"),
+	}
+	if e.HasAlt = strings.TrimSpace(f.str("alt_note")) != ""; e.HasAlt {
+		e.Alt, e.AltCents = f.note("alt_note"), f.num("alt_cents")
+	}
+	if _, e.OnOtherKnown = c.at["on_other_spelling"]; e.OnOtherKnown {
+		e.OnOther = f.flag("on_other_spelling")
 	}
 	return e, f.err
 }

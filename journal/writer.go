@@ -163,12 +163,20 @@ func (w *Writer) syncLoop() {
 	}
 }
 
+// olderHeader reports whether text starts with the header of a journal
+// written before the Later columns.
+func olderHeader(text string) bool {
+	line, _, ok := strings.Cut(text, "\n")
+	_, err := columnIndex(strings.TrimSuffix(line, "\r"))
+	return ok && err == nil
+}
+
 // headerLine is the header as written, newline included.
 func headerLine() string { return strings.Join(Header(), ",") + "\n" }
 
 // prepare checks an existing journal's header and mends a torn last line, or
 // writes the header into a new (or non-regular, like a pipe) file.
-func (w *Writer) prepare() error {
+func (w *Writer) prepare() (err error) {
 	info, err := w.f.Stat()
 	if err != nil {
 		return err
@@ -195,6 +203,13 @@ func (w *Writer) prepare() error {
 			return err
 		}
 		return w.writeAll([]byte(head))
+	case olderHeader(string(first)):
+		// Rows below a fresh header line carry the newer columns.
+		defer func() {
+			if err == nil {
+				err = w.writeAll([]byte(head))
+			}
+		}()
 	default:
 		line, _, _ := strings.Cut(string(first), "\n")
 		return fmt.Errorf("journal %s has other columns than a fifthline journal (its first line starts %.40q); give another file", w.path, line)
@@ -214,12 +229,29 @@ func (w *Writer) prepare() error {
 // kept for Status and Close); later notes are still tried, so the journal
 // resumes if the disk comes back.
 func (w *Writer) Write(ev session.Event) error {
+	return w.write(ev, func() time.Time {
+		run := w.run.offset(ev, w.meta.Now().Sub(w.opened).Seconds())
+		return w.opened.Add(seconds(run + ev.Start))
+	})
+}
+
+// WriteAt appends one held note of a recording that began at start (a
+// take's recording time): the note's time is start plus its offset in the
+// recording, whenever it is analysed. Otherwise it is Write.
+func (w *Writer) WriteAt(ev session.Event, start time.Time) error {
+	return w.write(ev, func() time.Time { return start.Add(seconds(ev.Start)) })
+}
+
+func seconds(s float64) time.Duration { return time.Duration(s * float64(time.Second)) }
+
+// write appends the note at the time at gives, under the lock.
+func (w *Writer) write(ev session.Event, at func() time.Time) error {
 	w.mu.Lock()
 	defer w.mu.Unlock()
 	if w.f == nil {
 		return w.tally.count(errNotOpen)
 	}
-	line := w.line(ev)
+	line := w.line(ev, at())
 	if w.torn {
 		line = append([]byte("\n"), line...)
 	}
@@ -252,8 +284,9 @@ func (w *Writer) sync(now time.Time) {
 	}
 }
 
-// line formats the event as one CSV line of Header().
-func (w *Writer) line(ev session.Event) []byte {
+// line formats the event, played at the given time, as one CSV line of
+// Header().
+func (w *Writer) line(ev session.Event, at time.Time) []byte {
 	tu := ev.Tuning
 	chord, temperament := "", ""
 	if tu.Chord != nil {
@@ -262,7 +295,6 @@ func (w *Writer) line(ev session.Event) []byte {
 	if tu.Temperament != nil {
 		temperament = tu.Temperament.Spec()
 	}
-	at := w.opened.Add(time.Duration((w.run.offset(ev, w.meta.Now().Sub(w.opened).Seconds()) + ev.Start) * float64(time.Second)))
 	rec := append([]string{
 		at.Format(TimeLayout), w.meta.Session, ev.Source, w.meta.Player, tu.Key.String(), temperament,
 		strconv.FormatFloat(tu.A4, 'f', -1, 64), tu.Transpose.Name, chord,

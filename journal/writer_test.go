@@ -24,11 +24,12 @@ func TestWriterCreatesWithHeaderAndWritesEachNoteAsItEnds(t *testing.T) {
 	// Handed to the kernel before Write returns: readable before Close.
 	got, _ := os.ReadFile(path)
 	// 440·2^(10/1200) = 442.5489 Hz is A4 +10 ¢ (definition of the cent, common
-	// practice); its other spelling is G𝄪4 (contract: 12 fifths away).
+	// practice); it is offered no other spelling (contract: G𝄪4 and B𝄫4 carry
+	// two accidentals more than A4), so alt_note and alt_cents are empty.
 	// Its start lands 0.5 s later than opening+1.25 s: it ended 2.5 s into the
 	// capture but 3 s after opening, so the capture began 0.5 s after opening.
 	want := headerLine() +
-		`2026-03-14T19:30:01.750+01:00,s1,default input,"Ann, viola",C major,equal,440,,,1.250,2.500,A4,442.5489,440.0000,10.00,G##4,10.00,true,1.50,0.0,0.00` + "\n"
+		`2026-03-14T19:30:01.750+01:00,s1,default input,"Ann, viola",C major,equal,440,,,1.250,2.500,A4,442.5489,440.0000,10.00,,,false,false,1.50,0.0,0.00` + "\n"
 	if string(got) != want {
 		t.Errorf("journal is\n%s\nwant\n%s", got, want)
 	}
@@ -78,6 +79,29 @@ func TestWriterPlacesFilesAnalysedInARowEndToEnd(t *testing.T) {
 	}
 	if want := []float64{0.5, 5, 10}; !equalFloats(offsets, want) {
 		t.Errorf("seconds after opening %v, want %v", offsets, want)
+	}
+}
+
+// A take analysed weeks after it was played keeps its own time: each note
+// is the recording's start plus its offset, whatever the clock says now.
+func TestWriterPlacesARecordingAtItsOwnTime(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "j.csv")
+	c := &clock{opening}
+	w, _ := Open(path, Meta{Now: c.now})
+	played := time.Date(2026, 2, 3, 19, 30, 5, 0, time.UTC)
+	w.WriteAt(heldAt(0, 0.5, 4, "take.wav"), played)
+	w.WriteAt(heldAt(0, 62.25, 63, "take.wav"), played)
+	w.Write(heldAt(0, 1, 2, "live")) // a live note still takes the clock
+	w.Close()
+	entries, _, _ := ReadFile(path)
+	want := []time.Time{played.Add(500 * time.Millisecond), played.Add(62250 * time.Millisecond), opening.Add(time.Second)}
+	for i, e := range entries {
+		if i >= len(want) || !e.Time.Equal(want[i]) {
+			t.Errorf("note %d at %v, want %v", i, e.Time, want[min(i, len(want)-1)])
+		}
+	}
+	if len(entries) != len(want) {
+		t.Errorf("%d notes, want %d", len(entries), len(want))
 	}
 }
 

@@ -1,6 +1,7 @@
 package report
 
 import (
+	"bytes"
 	"encoding/csv"
 	"encoding/json"
 	"fmt"
@@ -11,72 +12,189 @@ import (
 )
 
 // Title describes a group in one line: "Ann · G major · 1/4-comma meantone ·
-// A4 = 415 Hz".
+// A4 = 415 Hz", then any transposition and declared chord.
 func (g Group) Title() string {
 	player := g.Player
 	if player == "" {
 		player = "(no player named)"
 	}
-	var a4 []string
-	for _, f := range g.A4 {
-		a4 = append(a4, strconv.FormatFloat(f, 'f', -1, 64))
-	}
-	t := fmt.Sprintf("%s · %s · %s · A4 = %s Hz", player, g.Key, g.Name, strings.Join(a4, ", "))
+	t := fmt.Sprintf("%s · %s · %s · A4 = %s Hz", player, g.Key, g.Name, strconv.FormatFloat(g.A4, 'f', -1, 64))
 	if g.Transpose != "" {
 		t += " · written for " + g.Transpose + " instrument"
+	}
+	if g.Chord != "" {
+		t += " · tuned to the chord " + g.Chord
 	}
 	return t
 }
 
-// WriteText writes one table per group, for people.
-func WriteText(w io.Writer, groups []Group, opt Options) error {
+// Held counts the group's notes in words: "12 held notes", "12 held notes
+// (2 on the other spelling)".
+func (g Group) Held() string {
+	s := plural(g.All.Count+g.All.Other.Count, "held note")
+	if n := g.All.Other.Count; n > 0 {
+		s += fmt.Sprintf(" (%d on the other spelling)", n)
+	}
+	return s
+}
+
+// Summary is the line under a group's title: its notes, its rehearsals if
+// several, and its trend if known.
+func (g Group) Summary() string {
+	s := g.Held()
+	n := len(g.Dates)
+	if n > 1 {
+		s += fmt.Sprintf(" in %d rehearsals, %s to %s", n, g.Dates[0], g.Dates[n-1])
+	}
+	switch {
+	case g.All.Trend.Known && n > 1:
+		s += "; within a rehearsal, " + g.All.Trend.Words
+	case g.All.Trend.Known:
+		s += "; " + g.All.Trend.Words
+	}
+	return s
+}
+
+// Legend says once what the table's words and columns mean.
+func Legend() []string {
+	return []string{
+		"scatter: how far the notes lie from their mean (between notes); spread: how far the pitch moved within a note;",
+		"  both are root-mean-square deviations. vibrato: full width, lowest to highest pitch, and in how many notes.",
+		"Notes that sat on the other spelling are counted apart, with their mean against that spelling, and left out of the rest.",
+		"trend: the least-squares line through the notes' cents over a rehearsal (over several, their common slope, so that",
+		"  a better rehearsal is not taken for drift; --by rehearsal shows progress); — where " + TooFewForATrend + ".",
+	}
+}
+
+// WriteText writes one table per group, for people, and the legend once.
+func WriteText(out io.Writer, groups []Group, opt Options) error {
+	w := &trimmed{w: out}
 	tol := strconv.FormatFloat(opt.Tolerance, 'f', -1, 64)
-	for i, g := range groups {
-		if i > 0 {
-			fmt.Fprintln(w)
-		}
-		fmt.Fprintf(w, "%s — %s, %s\n", g.Title(), plural(g.All.Count, "note"), g.All.Trend.Words)
+	for _, g := range groups {
+		fmt.Fprintf(w, "%s\n%s\n", g.Title(), g.Summary())
 		tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
-		fmt.Fprintf(tw, "note\tcount\tmean ¢\tmedian ¢\tspread ¢\twithin ±%s ¢\ttendency\tnearer other spelling\ttrend\n", tol)
+		head := []string{"note", "notes", "mean ¢", "median ¢", "scatter ¢", "spread ¢", "vibrato ¢", "within ±" + tol + " ¢",
+			"tendency", "on the other spelling", "trend"}
+		if opt.ByRehearsal {
+			head = append(head[:1], append([]string{"rehearsal"}, head[1:]...)...)
+		}
+		fmt.Fprintln(tw, strings.Join(head, "\t"))
+		blank := strings.Repeat("\t", len(head)-1)
 		for _, s := range g.Notes {
-			textRow(tw, s)
+			textRow(tw, s, opt)
 		}
-		fmt.Fprintln(tw, "\t\t\t\t\t\t\t\t")
+		fmt.Fprintln(tw, blank)
+		fmt.Fprintln(tw, "all octaves"+blank)
 		for _, s := range g.Classes {
-			textRow(tw, s)
+			textRow(tw, s, opt)
 		}
-		textRow(tw, g.All)
+		fmt.Fprintln(tw, blank)
+		for _, s := range g.Rehearsals {
+			textRow(tw, s, opt)
+		}
+		if !opt.ByRehearsal {
+			textRow(tw, g.All, opt)
+		}
 		if err := tw.Flush(); err != nil {
 			return err
 		}
+		fmt.Fprintln(w)
 	}
-	return nil
+	fmt.Fprintln(w, strings.Join(Legend(), "\n"))
+	return w.err
 }
 
-func textRow(w io.Writer, s Stats) {
-	alt := "—"
-	if s.NearerAlt > 0 {
-		alt = fmt.Sprintf("%d× on %s", s.NearerAlt, s.AltLabel)
-	}
-	fmt.Fprintf(w, "%s\t%d\t%s\t%s\t%s\t%.0f%%\t%s\t%s\t%s\n", s.Label, s.Count, signed(s.Mean), signed(s.Median),
-		fixed(s.Spread, 1), 100*s.Share, s.Tendency, alt, s.Trend.Words)
+// trimmed drops the spaces tabwriter leaves at the ends of lines, keeping
+// the first write error.
+type trimmed struct {
+	w       io.Writer
+	pending []byte // the current line, up to its end
+	err     error
 }
 
-// csvHeader is the CSV report's header; level is note, pitch_class or all.
-var csvHeader = []string{"player", "key", "temperament", "transpose", "level", "note", "fifths", "count", "mean_cents",
-	"median_cents", "spread_cents", "within", "share_within", "tendency", "nearer_alt", "alt_note",
+func (t *trimmed) Write(b []byte) (int, error) {
+	for _, c := range b {
+		t.pending = append(t.pending, c)
+		if c == '\n' {
+			line := append(bytes.TrimRight(t.pending[:len(t.pending)-1], " "), '\n')
+			if _, err := t.w.Write(line); err != nil && t.err == nil {
+				t.err = err
+			}
+			t.pending = t.pending[:0]
+		}
+	}
+	return len(b), nil
+}
+
+func textRow(w io.Writer, s Stats, opt Options) {
+	cells := []string{s.Label, strconv.Itoa(s.Count), "—", "—", "—", "—", "—", "—", "—", "—", "—"}
+	if s.Count > 0 {
+		cells[2], cells[3], cells[5] = signed(s.Mean), signed(s.Median), fixed(s.Spread, 1)
+		if s.Count > 1 { // one note has no scatter
+			cells[4] = fixed(s.Scatter, 1)
+		}
+		cells[7] = fmt.Sprintf("%d of %d", s.Within, s.Count)
+		cells[8] = s.Tendency
+	}
+	if s.VibratoNotes > 0 {
+		cells[6] = fmt.Sprintf("%.0f in %d", s.Vibrato, s.VibratoNotes)
+	}
+	if s.Other.Count > 0 {
+		cells[9] = fmt.Sprintf("%d on %s (%s ¢)", s.Other.Count, s.Other.Label, signed(s.Other.Mean))
+	}
+	if s.Trend.Known {
+		cells[10] = s.Trend.Words
+	}
+	if opt.ByRehearsal {
+		cells = append(cells[:1], append([]string{s.Rehearsal}, cells[1:]...)...)
+	}
+	fmt.Fprintln(w, strings.Join(cells, "\t"))
+}
+
+// csvHeader is the CSV report's header; level is note, pitch_class (all
+// octaves together) or all. With ByRehearsal a rehearsal column follows
+// chord.
+var csvHeader = []string{"player", "key", "temperament", "a4", "transpose", "chord", "level", "note", "fifths", "count",
+	"mean_cents", "median_cents", "scatter_cents", "spread_cents", "vibrato_cents", "vibrato_notes", "within",
+	"share_within", "tendency", "on_other_spelling", "other_spelling", "other_spelling_mean_cents",
 	"slope_cents_per_min", "drift_cents", "span_min", "trend"}
 
-// WriteCSV writes one row per note, pitch class and group, for other tools.
-func WriteCSV(w io.Writer, groups []Group) error {
+// CSVHeader is the CSV report's header for these options.
+func CSVHeader(opt Options) []string {
+	if !opt.ByRehearsal {
+		return csvHeader
+	}
+	return append(append(append([]string(nil), csvHeader[:6]...), "rehearsal"), csvHeader[6:]...)
+}
+
+// WriteCSV writes one row per note, pitch class and group (with
+// ByRehearsal, per rehearsal of each), for other tools. Values that do not
+// exist — the mean of no notes, a trend of too few — are empty.
+func WriteCSV(w io.Writer, groups []Group, opt Options) error {
 	cw := csv.NewWriter(w)
-	cw.Write(csvHeader)
+	cw.Write(CSVHeader(opt))
 	for _, g := range groups {
 		row := func(level string, s Stats) {
-			cw.Write([]string{g.Player, g.Key, g.Temperament, g.Transpose, level, s.Label, strconv.Itoa(s.Fifths),
-				strconv.Itoa(s.Count), fixed(s.Mean, 2), fixed(s.Median, 2), fixed(s.Spread, 2),
-				strconv.Itoa(s.Within), fixed(s.Share, 3), s.Tendency, strconv.Itoa(s.NearerAlt), s.AltLabel,
-				fixed(s.Trend.SlopePerMinute, 4), fixed(s.Trend.Drift, 2), fixed(s.Trend.Minutes, 2), s.Trend.Words})
+			r := []string{g.Player, g.Key, g.Temperament, strconv.FormatFloat(g.A4, 'f', -1, 64), g.Transpose, g.Chord}
+			if opt.ByRehearsal {
+				r = append(r, s.Rehearsal)
+			}
+			r = append(r, level, s.Label, strconv.Itoa(s.Fifths), strconv.Itoa(s.Count))
+			r = append(r, ifAny(s.Count, fixed(s.Mean, 2), fixed(s.Median, 2))...)
+			r = append(r, ifAny(s.Count-1, fixed(s.Scatter, 2))...)
+			r = append(r, ifAny(s.Count, fixed(s.Spread, 2))...)
+			r = append(r, ifAny(s.VibratoNotes, fixed(s.Vibrato, 1))...)
+			r = append(r, strconv.Itoa(s.VibratoNotes), strconv.Itoa(s.Within))
+			r = append(r, ifAny(s.Count, fixed(s.Share, 3), s.Tendency)...)
+			r = append(r, strconv.Itoa(s.Other.Count), s.Other.Label)
+			r = append(r, ifAny(s.Other.Count, fixed(s.Other.Mean, 2))...)
+			known := 0
+			if s.Trend.Known {
+				known = 1
+			}
+			r = append(r, ifAny(known, fixed(s.Trend.SlopePerMinute, 4), fixed(s.Trend.Drift, 2))...)
+			r = append(r, fixed(s.Trend.Minutes, 2), s.Trend.Words)
+			cw.Write(r)
 		}
 		for _, s := range g.Notes {
 			row("note", s)
@@ -84,10 +202,23 @@ func WriteCSV(w io.Writer, groups []Group) error {
 		for _, s := range g.Classes {
 			row("pitch_class", s)
 		}
-		row("all", g.All)
+		for _, s := range g.Rehearsals {
+			row("all", s)
+		}
+		if !opt.ByRehearsal {
+			row("all", g.All)
+		}
 	}
 	cw.Flush()
 	return cw.Error()
+}
+
+// ifAny is the values when n > 0, else as many empty strings.
+func ifAny(n int, values ...string) []string {
+	if n > 0 {
+		return values
+	}
+	return make([]string, len(values))
 }
 
 // WriteJSON writes the groups with the tolerance they were judged by.
@@ -95,9 +226,10 @@ func WriteJSON(w io.Writer, groups []Group, opt Options) error {
 	enc := json.NewEncoder(w)
 	enc.SetIndent("", "  ")
 	return enc.Encode(struct {
-		Tolerance float64 `json:"tolerance_cents"`
-		Groups    []Group `json:"groups"`
-	}{opt.Tolerance, groups})
+		Tolerance   float64 `json:"tolerance_cents"`
+		ByRehearsal bool    `json:"by_rehearsal"`
+		Groups      []Group `json:"groups"`
+	}{opt.Tolerance, opt.ByRehearsal, groups})
 }
 
 // plural counts things in words: "1 note", "4 notes".

@@ -5,10 +5,10 @@ import (
 )
 
 // Columns is the header of a held-note CSV line, as the interface contract
-// fixes it (start_s … alt_cents), then our additions. With several files a
-// "file" column comes first.
+// fixes it (start_s … alt_cents, on_other_spelling), then our additions. With
+// several files a "file" column comes first.
 var Columns = []string{"start_s", "end_s", "note", "hz", "target_hz", "cents", "alt_note", "alt_cents",
-	"same_pitch", "spread_cents", "vibrato_cents", "vibrato_hz"}
+	"on_other_spelling", "same_pitch", "spread_cents", "vibrato_cents", "vibrato_hz"}
 
 // Header is Columns, with "file" first when withFile.
 func Header(withFile bool) []string {
@@ -20,15 +20,20 @@ func Header(withFile bool) []string {
 
 // Record formats the event as a CSV record matching Header(withFile). Notes
 // are in written pitch when the tuning transposes; frequencies are concert.
+// alt_note and alt_cents are empty where no other spelling is offered.
 func (ev Event) Record(withFile bool) []string {
 	r := ev.Reading
 	rec := make([]string, 0, len(Columns)+1)
 	if withFile {
 		rec = append(rec, ev.Source)
 	}
+	altNote, altCents := "", ""
+	if r.HasAlt {
+		altNote, altCents = r.AltWritten.String(), Decimal(r.AltDeviation, 2)
+	}
 	return append(rec,
 		Decimal(ev.Start, 3), Decimal(ev.End, 3), r.Written.String(), Decimal(r.Hz, 4), Decimal(r.TargetHz, 4),
-		Decimal(r.Cents, 2), r.AltWritten.String(), Decimal(r.AltCents, 2), strconv.FormatBool(r.SamePitch),
+		Decimal(r.Deviation, 2), altNote, altCents, strconv.FormatBool(r.OnOther), strconv.FormatBool(r.SamePitch),
 		Decimal(ev.Spread, 2), Decimal(ev.VibratoWidth, 1), Decimal(ev.VibratoRate, 2))
 }
 

@@ -84,7 +84,7 @@ func TestRunReadsHeldNotesToTheEnd(t *testing.T) {
 	if len(evs) != 2 || evs[0].Reading.Note.String() != "A4" || evs[1].Reading.Note.String() != "C4" {
 		t.Fatalf("events %+v", evs)
 	}
-	if frames == 0 || evs[0].Source != "test" || math.Abs(evs[0].Reading.Cents) > 0.05 {
+	if frames == 0 || evs[0].Source != "test" || math.Abs(evs[0].Reading.Deviation) > 0.05 {
 		t.Errorf("frames %d, first event %+v", frames, evs[0])
 	}
 }

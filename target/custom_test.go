@@ -36,7 +36,7 @@ func TestCustomTableTunesLikeItsSource(t *testing.T) {
 	custom := built
 	custom.Temperament = c
 	for _, n := range []string{"C4", "C#4", "Db4", "E4", "F#4", "Gb4", "Ab4", "A#4", "B#3", "Cb4"} {
-		near(t, n, custom.TargetCents(note(t, n)), built.TargetCents(note(t, n)), 0.001)
+		near(t, n, custom.TargetPitch(note(t, n)), built.TargetPitch(note(t, n)), 0.001)
 	}
 }
 

@@ -2,6 +2,7 @@ package target
 
 import (
 	"math"
+	"slices"
 	"strings"
 	"testing"
 )
@@ -25,7 +26,7 @@ func FuzzParseNote(f *testing.F) {
 }
 
 func FuzzParseKey(f *testing.F) {
-	for _, s := range []string{"G major", "f# minor", "Bb", "E♭ dorian", "H"} {
+	for _, s := range []string{"G major", "f# minor", "Bb", "E♭ dorian", "H", "g", "c aeolian", "A# minor"} {
 		f.Add(s)
 	}
 	f.Fuzz(func(t *testing.T, s string) {
@@ -33,8 +34,15 @@ func FuzzParseKey(f *testing.F) {
 		if err != nil {
 			return
 		}
-		if w := k.Window(); len(w) != 12 {
-			t.Fatalf("%q: window of %d", s, len(w))
+		lo, hi := k.WindowSpan()
+		if w := k.Window(); len(w) != 12 || hi-lo != 11 || w[0].Fifths() != lo {
+			t.Fatalf("%q: window of %d from %d to %d", s, len(w), lo, hi)
+		}
+		// The diatonic set lies inside the window, with the tonic.
+		for _, n := range k.Scale() {
+			if n.Fifths() < lo || n.Fifths() > hi {
+				t.Fatalf("%q: scale note %s outside the window %d…%d", s, n, lo, hi)
+			}
 		}
 		if _, err := ParseKey(k.String()); err != nil {
 			t.Fatalf("%q → %q does not parse: %v", s, k, err)
@@ -43,15 +51,22 @@ func FuzzParseKey(f *testing.F) {
 }
 
 func FuzzParseTemperament(f *testing.F) {
-	for _, s := range append(Builtin, "meantone:1/0", "fifth:2000", "edo:0", "fifth:1e308") {
+	for _, s := range append(Builtin, "meantone:1/0", "fifth:2000", "edo:0", "fifth:1e308", "edo:7", "fifth:720",
+		"Werckmeister III", "¼-comma meantone", "quarter-comma", "edo31", "31-EDO", "regular, fifth 696.5¢", "werkmeister") {
 		f.Add(s)
 	}
 	f.Fuzz(func(t *testing.T, s string) {
 		tm, err := ParseTemperament(s)
 		if err != nil {
+			if strings.Contains(err.Error(), "\n") {
+				t.Fatalf("multi-line error %q", err)
+			}
 			return
 		}
 		checkTemperament(t, tm)
+		if r, ok := tm.(Regular); ok {
+			checkOrder(t, r)
+		}
 	})
 }
 
@@ -80,8 +95,24 @@ func checkTemperament(t *testing.T, tm Temperament) {
 		if math.IsNaN(hz) || hz <= 0 || math.IsInf(hz, 0) {
 			t.Fatalf("%s: %s target %g", tm.Spec(), n, hz)
 		}
-		if r := tu.Classify(hz); r.Note.Name() != n.Name() && math.Abs(r.Cents) > 1e-6 {
-			t.Fatalf("%s: %s's own target reads as %s %+.3f¢", tm.Spec(), n, r.Note, r.Cents)
+		if r := tu.Classify(hz); r.Note.Name() != n.Name() && math.Abs(r.Deviation) > 1e-6 {
+			t.Fatalf("%s: %s's own target reads as %s %+.3f¢", tm.Spec(), n, r.Note, r.Deviation)
+		}
+	}
+}
+
+// checkOrder: in an accepted regular temperament every key's window keeps
+// its spellings in order and apart: C before C♯ before D … (the fifth
+// bounds' reason).
+func checkOrder(t *testing.T, r Regular) {
+	for tonic := -7; tonic <= 7; tonic++ {
+		tu := Tuning{Key: Key{Tonic: noteAt(tonic, 4), Mode: Major}, Temperament: r, A4: 440}
+		w := tu.Window()
+		slices.SortFunc(w, func(a, b Note) int { return a.Semitones() - b.Semitones() })
+		for i := 1; i < len(w); i++ {
+			if tu.TargetPitch(w[i]) <= tu.TargetPitch(w[i-1]) {
+				t.Fatalf("%s in %s: %s at or below %s", r.Spec(), tu.Key, w[i], w[i-1])
+			}
 		}
 	}
 }

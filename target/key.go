@@ -43,7 +43,9 @@ type Key struct {
 }
 
 // ParseKey reads a key such as "G major", "f# minor", "Bb", "E♭ dorian". The
-// mode may be left out (major); everything is case-insensitive.
+// mode may be left out (major) after a capital letter; a small letter alone
+// ("g") is refused with a hint, since it means minor in many hands.
+// Otherwise everything is case-insensitive.
 func ParseKey(s string) (Key, error) {
 	fields := strings.Fields(s)
 	if len(fields) == 0 || len(fields) > 2 {
@@ -57,6 +59,13 @@ func ParseKey(s string) (Key, error) {
 		return Key{}, fmt.Errorf("key %q: a tonic takes at most one sharp or flat", s)
 	}
 	k := Key{Tonic: tonic, Mode: Major}
+	if len(fields) == 1 && 'a' <= fields[0][0] && fields[0][0] <= 'g' {
+		// Many musicians write a minor key in small letters and a major
+		// one in capitals; others write every key small. Either reading
+		// of "g" alone could be wrong, so ask.
+		p := tonic.Name()
+		return Key{}, fmt.Errorf("key %q: say %q or %q", s, p+" major", p+" minor")
+	}
 	if len(fields) == 2 {
 		m, ok := modeNames[strings.ToLower(fields[1])]
 		if !ok {
@@ -103,9 +112,16 @@ func (k Key) Scale() []Note {
 // WindowSpan is where the key's spelling window lies on the line of fifths:
 // from five fifths below to six fifths above the middle of its diatonic set
 // (interface contract, "Spelling window"; the common meantone keyboard
-// practice). C major gives E♭ (-3) … G♯ (8).
+// practice). C major gives E♭ (-3) … G♯ (8). A minor key's window sits one
+// fifth sharper than its relative major's, so that it holds the raised
+// fourth, sixth and seventh a minor key borrows (G minor: A♭ … C♯, where
+// C♯ is the third of the dominant's dominant); the church modes keep their
+// own diatonic set.
 func (k Key) WindowSpan() (lo, hi int) {
 	mid := k.lowest() + 3
+	if k.Mode == Minor {
+		mid++
+	}
 	return mid - 5, mid + 6
 }
 

@@ -80,13 +80,25 @@ func TestModesShareSignatures(t *testing.T) {
 	}
 }
 
-// The spelling windows the interface contract gives as examples.
-func TestSpellingWindowsFromTheContract(t *testing.T) {
+// The spelling windows the interface contract gives as examples ("Spelling
+// window"), and the minor keys of the common meantone keyboard practice: a
+// minor key's window sits one fifth sharper than its relative major's, so it
+// holds the raised fourth, sixth and seventh (G minor has C♯ for the third
+// of A major, the dominant's dominant; D minor has G♯ as the split-key
+// keyboards E♭ … G♯ do). Church modes keep their own diatonic set: D dorian
+// and E phrygian spell as C major does.
+func TestSpellingWindows(t *testing.T) {
 	for key, want := range map[string]string{
-		"C major": "Eb Bb F C G D A E B F# C# G#",
-		"G major": "Bb F C G D A E B F# C# G# D#",
-		"D minor": "Ab Eb Bb F C G D A E B F# C#",
-		"A minor": "Eb Bb F C G D A E B F# C# G#", // relative of C major
+		"C major":    "Eb Bb F C G D A E B F# C# G#",
+		"D minor":    "Eb Bb F C G D A E B F# C# G#",
+		"G major":    "Bb F C G D A E B F# C# G# D#",
+		"G minor":    "Ab Eb Bb F C G D A E B F# C#",
+		"A minor":    "Bb F C G D A E B F# C# G# D#",
+		"C minor":    "Db Ab Eb Bb F C G D A E B F#",
+		"F# minor":   "G D A E B F# C# G# D# A# E# B#", // B♯, not C, for the third of G♯ major
+		"D dorian":   "Eb Bb F C G D A E B F# C# G#",
+		"E phrygian": "Eb Bb F C G D A E B F# C# G#",
+		"c aeolian":  "Db Ab Eb Bb F C G D A E B F#", // aeolian is the minor mode
 	} {
 		k, err := ParseKey(key)
 		if err != nil {
@@ -105,7 +117,7 @@ func TestSpellingWindowsFromTheContract(t *testing.T) {
 func TestParseKeyIsCaseInsensitiveAndDefaultsToMajor(t *testing.T) {
 	for in, want := range map[string]string{
 		"g major": "G major", "G": "G major", "f# MINOR": "F# minor", "bb minor": "Bb minor",
-		"E♭ dorian": "Eb dorian", "b": "B major", "Gb Ionian": "Gb major", "c aeolian": "C minor",
+		"E♭ dorian": "Eb dorian", "B": "B major", "Gb Ionian": "Gb major", "c aeolian": "C minor", "g minor": "G minor",
 	} {
 		k, err := ParseKey(in)
 		if err != nil {
@@ -123,6 +135,25 @@ func TestParseKeyRejectsBadKeys(t *testing.T) {
 	for _, in := range []string{"H", "", "C major minor", "C foo", "C## major", "G# major", "Fb major", "C4 major"} {
 		if k, err := ParseKey(in); err == nil {
 			t.Errorf("ParseKey(%q) = %v, want an error", in, k)
+		}
+	}
+}
+
+// A bare small letter ("--key g") means minor in many musicians' hands and
+// major in others' (common practice both ways), so it is refused with a hint
+// naming both; with a mode, or as a capital, it reads as written.
+func TestABareSmallLetterAsksWhichMode(t *testing.T) {
+	for in, hint := range map[string]string{
+		"g": `say "G major" or "G minor"`, "f#": `say "F# major" or "F# minor"`, " bb ": `say "Bb major" or "Bb minor"`,
+	} {
+		_, err := ParseKey(in)
+		if err == nil || !strings.Contains(err.Error(), hint) {
+			t.Errorf("ParseKey(%q): %v, want the hint %s", in, err, hint)
+		}
+	}
+	for in, want := range map[string]string{"G": "G major", "g minor": "G minor", "F#": "F# major"} {
+		if k, err := ParseKey(in); err != nil || k.String() != want {
+			t.Errorf("ParseKey(%q) = %v, %v; want %s", in, k, err, want)
 		}
 	}
 }

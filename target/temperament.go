@@ -4,7 +4,6 @@ import (
 	"fmt"
 	"math"
 	"strconv"
-	"strings"
 )
 
 // Temperament places every spelled pitch class. Offset is the pitch class's
@@ -60,18 +59,24 @@ func (r Regular) Name() string { return r.name }
 // fifth's deviation from 700 ¢.
 func (r Regular) Offset(p, _ int) float64 { return float64(p) * (r.Fifth - 700) }
 
-// Fifth bounds: outside them the seven letters no longer fall in order (a
-// sharp would sound below its natural, or a whole tone vanish). 7-EDO's fifth
-// (685.714 ¢) and 5-EDO's (720 ¢) are the edges (common practice).
+// Fifth bounds, both excluded: 7-EDO's fifth (685.714 ¢) and 5-EDO's
+// (720 ¢). Between them both kinds of semitone are positive — the chromatic
+// one (C to C♯, seven fifths less four octaves) and the diatonic one (C♯ to
+// D, three octaves less five fifths) — so the twelve spellings of any window
+// keep their order and stay apart; at 720 ¢ B♭ lands on A, at 685.714 ¢ C♯
+// on C (the chain-of-fifths arithmetic; common practice).
 const (
 	MinFifth = 1200.0 * 4 / 7
 	MaxFifth = 720.0
 )
 
+// fifthWorks reports whether a fifth lies strictly inside the bounds.
+func fifthWorks(f float64) bool { return f > MinFifth+1e-9 && f < MaxFifth-1e-9 }
+
 // NewRegular makes a regular temperament with the given fifth in cents.
 func NewRegular(fifth float64) (Regular, error) {
-	if math.IsNaN(fifth) || fifth < MinFifth-1e-9 || fifth > MaxFifth+1e-9 {
-		return Regular{}, fmt.Errorf("a fifth of %g cents is outside %.3f to %.0f, where the letters keep their order", fifth, MinFifth, MaxFifth)
+	if !fifthWorks(fifth) {
+		return Regular{}, fmt.Errorf("a fifth of %g cents puts the spellings out of order (B♭ reaches A at 720, C♯ reaches C at 685.714); fifths between %.3f and %.0f cents work", fifth, MinFifth, MaxFifth)
 	}
 	s := strconv.FormatFloat(fifth, 'f', -1, 64)
 	return Regular{Fifth: fifth, spec: "fifth:" + s, name: "regular, fifth " + s + "¢"}, nil
@@ -92,7 +97,8 @@ func Meantone(num, den int) (Regular, error) {
 	f := float64(num) / float64(den)
 	r, err := NewRegular(PureFifth - f*SyntonicComma)
 	if err != nil {
-		return Regular{}, fmt.Errorf("meantone:%d/%d: %v", num, den, err)
+		return Regular{}, fmt.Errorf("meantone:%d/%d puts the spellings out of order; fractions of the comma between %.3f and %.3f work", num, den,
+			(PureFifth-MaxFifth)/SyntonicComma, (PureFifth-MinFifth)/SyntonicComma)
 	}
 	r.spec = fmt.Sprintf("meantone:%d/%d", num, den)
 	r.name = fmt.Sprintf("%d/%d-comma meantone", num, den)
@@ -101,15 +107,16 @@ func Meantone(num, den int) (Regular, error) {
 
 // EDO divides the octave into n equal steps and takes its best fifth (the
 // step count nearest a pure fifth), so every spelling maps to a step: in
-// 31-EDO the fifth is 18 steps and F♯ and G♭ are two steps apart.
+// 31-EDO the fifth is 18 steps and F♯ and G♭ are two steps apart. Divisions
+// whose best fifth falls outside the fifth bounds (7, 14, 25, 35 among them)
+// are refused with the list of those that work.
 func EDO(n int) (Regular, error) {
-	if n < 5 || n > 999 {
-		return Regular{}, fmt.Errorf("edo:%d: the octave must be divided into 5 to 999 steps", n)
+	if n < 5 || n > maxEDO {
+		return Regular{}, fmt.Errorf("edo:%d: divisions of the octave that work: %s", n, workingEDOs())
 	}
-	steps := math.Round(float64(n) * PureFifth / 1200)
-	r, err := NewRegular(1200 * steps / float64(n))
+	r, err := NewRegular(edoFifth(n))
 	if err != nil {
-		return Regular{}, fmt.Errorf("edo:%d: its best fifth (%g steps): %v", n, steps, err)
+		return Regular{}, fmt.Errorf("edo:%d: its best fifth, %.3f¢, puts the spellings out of order; divisions that work: %s", n, edoFifth(n), workingEDOs())
 	}
 	if n == 12 {
 		r.Fifth = 700 // exactly, so F♯ and G♭ compare equal
@@ -119,58 +126,24 @@ func EDO(n int) (Regular, error) {
 	return r, nil
 }
 
-// Builtin lists the named temperaments ParseTemperament knows, in the order a
-// screen cycles through them.
-var Builtin = []string{"equal", "meantone:1/4", "meantone:1/6", "meantone:1/5", "meantone:1/3", "meantone:2/7",
-	"pythagorean", "edo:31", "edo:19", "edo:53", "werckmeister3", "kirnberger3", "vallotti", "young", "just"}
+const maxEDO = 999
 
-// ParseTemperament reads a --temperament spec other than a file path:
-// equal, pythagorean, meantone:P/Q, fifth:CENTS, edo:N, werckmeister3,
-// kirnberger3, vallotti, young, just. Names are case-insensitive.
-func ParseTemperament(spec string) (Temperament, error) {
-	s := strings.ToLower(strings.TrimSpace(spec))
-	switch s {
-	case "equal", "12-tet", "et":
-		return Equal, nil
-	case "pythagorean":
-		return Pythagorean, nil
-	case "just":
-		return Just{}, nil
-	}
-	if c, ok := circulating[s]; ok {
-		return c, nil
-	}
-	kind, arg, ok := strings.Cut(s, ":")
-	if !ok {
-		return nil, fmt.Errorf("unknown temperament %q (try equal, meantone:1/4, edo:31, werckmeister3, just, or a temperament file)", spec)
-	}
-	switch kind {
-	case "meantone":
-		ns, ds, ok := strings.Cut(arg, "/")
-		num, err1 := strconv.Atoi(strings.TrimSpace(ns))
-		den, err2 := strconv.Atoi(strings.TrimSpace(ds))
-		if !ok || err1 != nil || err2 != nil {
-			return nil, fmt.Errorf("temperament %q: write meantone:P/Q with whole numbers, like meantone:1/4", spec)
+// edoFifth is n-EDO's best fifth in cents.
+func edoFifth(n int) float64 {
+	return 1200 * math.Round(float64(n)*PureFifth/1200) / float64(n)
+}
+
+// workingEDOs lists the divisions EDO accepts. Past 36 steps a division's
+// best fifth is within 600/n < 16.3 ¢ of pure, inside the bounds, so every
+// one works.
+func workingEDOs() string {
+	var s string
+	for n := 5; n <= 36; n++ {
+		if fifthWorks(edoFifth(n)) {
+			s += strconv.Itoa(n) + ", "
 		}
-		return Meantone(num, den)
-	case "fifth":
-		f, err := strconv.ParseFloat(strings.TrimSpace(arg), 64)
-		if err != nil || math.IsInf(f, 0) {
-			return nil, fmt.Errorf("temperament %q: the fifth must be a number of cents, like fifth:696.5", spec)
-		}
-		r, err := NewRegular(f)
-		if err != nil {
-			return nil, fmt.Errorf("temperament %q: %v", spec, err)
-		}
-		return r, nil
-	case "edo":
-		n, err := strconv.Atoi(strings.TrimSpace(arg))
-		if err != nil {
-			return nil, fmt.Errorf("temperament %q: write edo:N with a whole number, like edo:31", spec)
-		}
-		return EDO(n)
 	}
-	return nil, fmt.Errorf("unknown temperament %q", spec)
+	return s + "37 … " + strconv.Itoa(maxEDO)
 }
 
 // wrapCents brings c into [-600, 600).

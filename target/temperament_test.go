@@ -74,7 +74,7 @@ func TestRegularFifths(t *testing.T) {
 func interval(tu Tuning, a, b string) float64 {
 	na, _ := ParseNote(a)
 	nb, _ := ParseNote(b)
-	return tu.TargetCents(nb) - tu.TargetCents(na)
+	return tu.TargetPitch(nb) - tu.TargetPitch(na)
 }
 
 func tuning(t *testing.T, key, spec string, a4 float64) Tuning {
@@ -181,6 +181,7 @@ func TestJustRatiosFromTheTonic(t *testing.T) {
 	// With A4 held at 440 Hz, just C major puts C4 at 440·3/5 = 264 Hz
 	// (common practice: the "scientific" just C of 264 Hz).
 	tu := tuning(t, "C major", "just", 440)
+	tu.Anchor = AnchorA4
 	near(t, "just C4 Hz", tu.Target(Note{Letter: C, Octave: 4}), 264, 1e-9)
 	if got := JustRatio(6); got != "45/32" {
 		t.Errorf("JustRatio(6) = %s, want 45/32", got)
@@ -190,7 +191,8 @@ func TestJustRatiosFromTheTonic(t *testing.T) {
 func TestParseTemperamentRejectsBadSpecs(t *testing.T) {
 	// The contract's examples of usage errors, and more.
 	for _, spec := range []string{"meantone:1/0", "edo:0", "fifth:2000", "fifth:abc", "meantone:x", "edo:-3",
-		"edo:7.5", "fifth:NaN", "fifth:Inf", "bogus", "meantone:1/-4", "fifth:600", "edo:6", ""} {
+		"edo:7.5", "fifth:NaN", "fifth:Inf", "bogus", "meantone:1/-4", "fifth:600", "edo:6", "",
+		"edo:7", "fifth:720", "fifth:685.714285714", "meantone:1/1", "edo:25", "edo:35"} {
 		if tm, err := ParseTemperament(spec); err == nil {
 			t.Errorf("ParseTemperament(%q) = %v, want an error", spec, tm.Spec())
 		}

@@ -11,16 +11,24 @@ import (
 type Anchor int
 
 const (
+	// AnchorDefault is the contract's default: A4 exactly at the
+	// reference, except in just intonation, which keeps its tonic where
+	// equal temperament at the reference puts it (a choir tuning its
+	// triads to a piano at that A4 starts from the piano's tonic).
+	AnchorDefault Anchor = iota
 	// AnchorA4 keeps A4 exactly at the reference frequency.
-	AnchorA4 Anchor = iota
+	AnchorA4
 	// AnchorTonic keeps the key's tonic (in octave 4) where equal
 	// temperament at the reference would put it.
 	AnchorTonic
 )
 
-// ParseAnchor reads an --anchor value: "a4" or "tonic".
+// ParseAnchor reads an --anchor value: "a4" or "tonic"; "" or "default"
+// leaves the choice to the temperament.
 func ParseAnchor(s string) (Anchor, error) {
 	switch strings.ToLower(strings.TrimSpace(s)) {
+	case "", "default":
+		return AnchorDefault, nil
 	case "a4", "a":
 		return AnchorA4, nil
 	case "tonic":
@@ -31,10 +39,13 @@ func ParseAnchor(s string) (Anchor, error) {
 
 // String is the flag value.
 func (a Anchor) String() string {
-	if a == AnchorTonic {
+	switch a {
+	case AnchorA4:
+		return "a4"
+	case AnchorTonic:
 		return "tonic"
 	}
-	return "a4"
+	return "default"
 }
 
 // Reference-pitch bounds for A4: wide enough for low Baroque (392, 415) and
@@ -81,9 +92,21 @@ func (t Tuning) tempered(n Note) float64 {
 	return 100*float64(n.Semitones()) + t.Temperament.Offset(n.Fifths(), t.Key.Tonic.Fifths())
 }
 
+// Anchored is the anchor in force: the declared one, or where none is
+// declared, the tonic in just intonation and A4 otherwise.
+func (t Tuning) Anchored() Anchor {
+	if t.Anchor != AnchorDefault {
+		return t.Anchor
+	}
+	if _, just := t.Temperament.(Just); just {
+		return AnchorTonic
+	}
+	return AnchorA4
+}
+
 // shift is what anchoring adds to every tempered pitch.
 func (t Tuning) shift() float64 {
-	if t.Anchor == AnchorTonic {
+	if t.Anchored() == AnchorTonic {
 		tonic := t.Key.Tonic
 		tonic.Octave = 4
 		return 100*float64(tonic.Semitones()) - t.tempered(tonic)
@@ -91,16 +114,17 @@ func (t Tuning) shift() float64 {
 	return 900 - t.tempered(a4)
 }
 
-// TemperedCents is the note's target in cents above the equal-tempered C4 at
-// the reference (C4 = A4 · 2^(-9/12)), ignoring any chord.
-func (t Tuning) TemperedCents(n Note) float64 { return t.tempered(n) + t.shift() }
+// TemperedPitch is the note's target as a pitch (cents above the
+// equal-tempered C4 at the reference, C4 = A4 · 2^(-9/12)), ignoring any chord.
+func (t Tuning) TemperedPitch(n Note) float64 { return t.tempered(n) + t.shift() }
 
-// TargetCents is the note's target in cents above the equal-tempered C4 at
-// the reference, with the chord's just intervals if one is declared.
-func (t Tuning) TargetCents(n Note) float64 { return t.targetCents(n, t.shift()) }
+// TargetPitch is the note's target as a pitch (cents above the
+// equal-tempered C4 at the reference), with the chord's just intervals if one
+// is declared.
+func (t Tuning) TargetPitch(n Note) float64 { return t.targetPitch(n, t.shift()) }
 
-// targetCents is TargetCents with the anchoring shift already worked out.
-func (t Tuning) targetCents(n Note, shift float64) float64 {
+// targetPitch is TargetPitch with the anchoring shift already worked out.
+func (t Tuning) targetPitch(n Note, shift float64) float64 {
 	if t.Chord != nil {
 		if root, ratio, ok := t.Chord.rootOf(n); ok {
 			return t.tempered(root) + shift + Cents(ratio)
@@ -110,18 +134,30 @@ func (t Tuning) targetCents(n Note, shift float64) float64 {
 }
 
 // Target is the note's target frequency in hertz (concert pitch).
-func (t Tuning) Target(n Note) float64 { return t.hz(t.TargetCents(n)) }
+func (t Tuning) Target(n Note) float64 { return t.hz(t.TargetPitch(n)) }
 
 // CentsFromEqual is how far the note's target lies from the same note in
 // equal temperament at the same reference.
 func (t Tuning) CentsFromEqual(n Note) float64 {
-	return t.TargetCents(n) - 100*float64(n.Semitones())
+	return t.TargetPitch(n) - 100*float64(n.Semitones())
 }
 
 // c4 is the equal-tempered C4 at the reference.
 func (t Tuning) c4() float64 { return t.A4 * math.Exp2(-9.0/12) }
 
-func (t Tuning) hz(centsAboveC4 float64) float64 { return t.c4() * math.Exp2(centsAboveC4/1200) }
+func (t Tuning) hz(pitch float64) float64 { return t.c4() * math.Exp2(pitch/1200) }
+
+// SharesPitches reports whether the temperament gives every window note and
+// its other spelling one pitch (equal temperament, the well temperaments),
+// so that a screen can say so once instead of on every note.
+func (t Tuning) SharesPitches() bool {
+	for _, n := range t.Key.Window() {
+		if alt, ok := Alternative(n); ok && math.Abs(t.tempered(alt)-t.tempered(n)) >= samePitchCents {
+			return false
+		}
+	}
+	return true
+}
 
 // Window is the key's twelve spellings in line-of-fifths order, with the
 // chord's members in place of the window notes they share a pitch class with.
@@ -146,8 +182,11 @@ func (t Tuning) window(w []Note) []Note {
 // String describes the tuning in one line: "C major · 1/4-comma meantone · A4 = 415 Hz".
 func (t Tuning) String() string {
 	s := fmt.Sprintf("%s · %s · A4 = %s Hz", t.Key, t.Temperament.Name(), strconv.FormatFloat(t.A4, 'f', -1, 64))
-	if t.Anchor == AnchorTonic {
+	if t.Anchored() == AnchorTonic {
 		s += " (tonic anchored)"
+	}
+	if t.SharesPitches() {
+		s += " · enharmonic spellings share one pitch"
 	}
 	if t.Chord != nil {
 		s += " · chord " + t.Chord.String()

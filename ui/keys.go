@@ -124,8 +124,11 @@ func NudgeA4(tu target.Tuning, delta float64) (target.Tuning, string) {
 // tuningWords is the tuning in the status line's words.
 func tuningWords(tu target.Tuning) string {
 	s := fmt.Sprintf("%s · %s · A4 = %.1f Hz", tu.Key.Pretty(), tu.Temperament.Name(), tu.A4)
-	if tu.Anchor == target.AnchorTonic {
+	if tu.Anchored() == target.AnchorTonic {
 		s += " (tonic anchored)"
+	}
+	if tu.SharesPitches() {
+		s += " · F♯ = G♭" // enharmonic spellings share one pitch: said once, not on every note
 	}
 	if tu.Chord != nil {
 		s += " · chord " + tu.Chord.String()

@@ -99,7 +99,7 @@ func BigLines(m *Model, w, maxScale int) []Line {
 	r, ok := m.Reading()
 	s := ""
 	if ok {
-		s = r.Written.Pretty() + " " + WholeCents(r.Cents) + "¢"
+		s = r.Written.Pretty() + " " + WholeCents(r.Deviation) + "¢"
 		if BigWidth(s) > w {
 			s = r.Written.Pretty()
 		}
@@ -137,23 +137,26 @@ func Words(m *Model) Line {
 		l = append(l, text("last note: ", Dim))
 	}
 	role := litRole(m)
-	note := r.Written.Pretty()
-	switch c := math.Round(r.Cents*10) / 10; {
+	note, alt := r.Written.Pretty(), r.AltWritten.Pretty()
+	toward := "" // nearer the other spelling, not on it (target.Reading.OnOther)
+	if r.TowardOther() {
+		toward = ", toward " + alt
+	}
+	switch c := math.Round(r.Deviation*10) / 10; {
 	case c > 0:
-		l = append(l, text(fmt.Sprintf("%s is %.1f ¢ sharp ▲", note, c), role))
+		l = append(l, text(fmt.Sprintf("%s is %.1f ¢ sharp%s ▲", note, c, toward), role))
 	case c < 0:
-		l = append(l, text(fmt.Sprintf("%s is %.1f ¢ flat ▼", note, -c), role))
+		l = append(l, text(fmt.Sprintf("%s is %.1f ¢ flat%s ▼", note, -c, toward), role))
 	default:
 		l = append(l, text(note+" is on its target", role))
 	}
-	alt := r.AltWritten.Pretty()
+	// Where the spellings share a pitch the tuning line says so once.
 	switch {
-	case r.SamePitch:
-		l = append(l, text(" · "+alt+" is the same pitch here", Dim))
-	case r.NearerAlt():
-		l = append(l, text(" · sits on "+alt+" ("+Cents(r.AltCents)+" ¢)", Other))
+	case !r.HasAlt || r.SamePitch || r.TowardOther():
+	case r.OnOther:
+		l = append(l, text(" · sits on "+alt+" ("+Cents(r.AltDeviation)+" ¢)", Other))
 	default:
-		l = append(l, text(" · "+alt+" would read "+Cents(r.AltCents)+" ¢", Dim))
+		l = append(l, text(" · "+alt+" would read "+Cents(r.AltDeviation)+" ¢", Dim))
 	}
 	if m.OnDrone() {
 		// The canceller took the drone's partials out here, so the note
@@ -194,12 +197,9 @@ func FifthsRows(m *Model, w int) [3]Line {
 	var names, marks, equal Line
 	leftName, leftMark, rightName, rightMark := "", "", "", ""
 	altRole := Dim
-	if ok {
-		alt, altCents := r.AltWritten.Pretty(), Cents(r.AltCents)+"¢"
-		if r.SamePitch {
-			altCents = "same"
-		}
-		if r.NearerAlt() {
+	if ok && r.HasAlt && !r.SamePitch {
+		alt, altCents := r.AltWritten.Pretty(), Cents(r.AltDeviation)+"¢"
+		if r.OnOther {
 			alt, altRole = "["+alt+"]", Other
 		}
 		if lo, _ := tu.Key.WindowSpan(); r.Alt.Fifths() < lo {
@@ -227,7 +227,7 @@ func FifthsRows(m *Model, w int) [3]Line {
 	// neighbouring cells when the cells are narrow.
 	row := 12 * cell
 	if lit >= 0 {
-		c := Cents(r.Cents)
+		c := Cents(r.Deviation)
 		cw := runewidth.StringWidth(c)
 		at := min(max(lit*cell+cell/2-cw/2, 0), max(row-cw, 0))
 		marks = append(marks, text(strings.Repeat(" ", at), Plain), text(c, litRole(m)), text(strings.Repeat(" ", max(row-at-cw, 0)), Plain))

@@ -59,8 +59,16 @@ func TestWordsNameTheNoteItsCentsAndTheOtherSpelling(t *testing.T) {
 	}{
 		{"on the F♯ target", qc, fSharp4, "F♯4 is on its target · G♭4 would read −41.1 ¢"},
 		{"a G♭ read in C major sits on G♭", qc, gFlat4, "F♯4 is 41.1 ¢ sharp ▲ · sits on G♭4 (0.0 ¢)"},
-		// 10 ¢ below equal-tempered A4 = 440 Hz (ISO 16).
-		{"flat in equal temperament", equal, 440 * math.Exp2(-10.0/1200), "A4 is 10.0 ¢ flat ▼ · G𝄪4 is the same pitch here"},
+		// The quarter-gap rule (contract): 25 ¢ sharp of F♯4 in ¼-comma is
+		// nearer G♭4 (16.1 ¢ away) but outside a quarter of the 41.1 ¢ gap
+		// (10.3 ¢): "sharp, toward G♭4", never "on G♭4".
+		{"nearer G♭ but not on it", qc, fSharp4 * math.Exp2(25.0/1200), "F♯4 is 25.0 ¢ sharp, toward G♭4 ▲"},
+		// 10 ¢ below equal-tempered A4 = 440 Hz (ISO 16). A has no other
+		// spelling (G𝄪 and B𝄫 carry two accidentals more; contract), and
+		// in equal temperament the tuning line says once that spellings
+		// share pitches.
+		{"flat in equal temperament", equal, 440 * math.Exp2(-10.0/1200), "A4 is 10.0 ¢ flat ▼"},
+		{"F♯ in equal temperament", equal, 370, "F♯4 is on its target"}, // 369.994 Hz (ISO 16)
 	} {
 		t.Run(c.name, func(t *testing.T) {
 			if got := Words(holding(c.tu, c.hz)).Text(); got != c.want {
@@ -103,6 +111,24 @@ func TestFifthsRowsLayTheWindowAlongTheLineOfFifths(t *testing.T) {
 	// the definition: 21.506/4 per fifth, handbook syntonic comma).
 	if got := strings.Fields(rows[2].Text()); got[2] != "+21" || got[5] != "+10" || got[8] != "0" {
 		t.Errorf("from-equal row %q", rows[2].Text())
+	}
+}
+
+// A minor key's row holds its raised fourth, sixth and seventh (contract,
+// "Spelling window"; common meantone keyboard practice): G minor runs A♭ …
+// C♯, and an in-tune C♯4 (third of the dominant's dominant) is lit there
+// with no other spelling beside it to sit on.
+func TestFifthsRowsOfAMinorKey(t *testing.T) {
+	tu := quarterComma(t)
+	tu.Key = target.Key{Tonic: target.Note{Letter: target.G, Octave: 4}, Mode: target.Minor}
+	cs4 := target.Note{Letter: target.C, Accidental: 1, Octave: 4}
+	rows := FifthsRows(holding(tu, tu.Target(cs4)), 80)
+	want := "◂ D♭4 A♭ E♭ B♭ F C G D A E B F♯ [C♯]" // D♭ lies below A♭ on the line
+	if got := strings.Join(strings.Fields(rows[0].Text()), " "); got != want {
+		t.Errorf("names row %q, want fields %q", got, want)
+	}
+	if strings.Contains(rows[0].Text(), "[D♭4]") {
+		t.Errorf("an in-tune C♯4 is shown on D♭: %q", rows[0].Text())
 	}
 }
 
@@ -254,7 +280,7 @@ func TestTuningLineSaysKeyTemperamentA4AndTransposition(t *testing.T) {
 		tu   target.Tuning
 		want string
 	}{
-		{target.Default(), "C major · equal temperament · A4 = 440.0 Hz · concert pitch"},
+		{target.Default(), "C major · equal temperament · A4 = 440.0 Hz · F♯ = G♭ · concert pitch"},
 		{transposed, "C major · 1/4-comma meantone · A4 = 415.0 Hz · written for B♭ instrument"},
 	} {
 		if got := TuningLine(NewModel(c.tu, "x")).Text(); got != c.want {

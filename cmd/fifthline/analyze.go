@@ -20,9 +20,10 @@ func init() {
 }
 
 type analyzeOptions struct {
-	format  string
-	frames  bool
-	channel int
+	format   string
+	frames   bool
+	channel  int
+	recorded recordedFlag
 }
 
 func runAnalyze(e *env, args []string) error {
@@ -32,13 +33,14 @@ func runAnalyze(e *env, args []string) error {
 	fs.StringVar(&opt.format, "format", "csv", "table, csv or json")
 	fs.BoolVar(&opt.frames, "frames", false, "print the frame track (time_s,hz,confidence…) instead of held notes")
 	fs.IntVar(&opt.channel, "channel", 1, "channel to read, counted from 1")
+	fs.Var(&opt.recorded, "recorded", "when the take was played (2026-11-24, \"2026-11-24 19:30\" or RFC 3339), for the journal; with several files, each began then; default: each file's Broadcast Wave bext time, else its modification time")
 	jf := addJournalFlags(fs)
 	files, err := parseFlags(e, fs, args)
 	if err != nil {
 		return err
 	}
 	if len(files) == 0 {
-		return usagef("analyze needs at least one WAV file")
+		return usagef("analyze needs at least one recording (WAV, FLAC, MP3…)")
 	}
 	if opt.format != "table" && opt.format != "csv" && opt.format != "json" {
 		return usagef("--format %q: use table, csv or json", opt.format)
@@ -72,11 +74,12 @@ func runAnalyze(e *env, args []string) error {
 }
 
 func analyzeFile(e *env, path string, tu target.Tuning, opt analyzeOptions, out eventWriter, j *journalSink) error {
-	w, err := capture.OpenWAVChannel(path, opt.channel)
+	w, err := capture.OpenRecording(path, opt.channel)
 	if err != nil {
 		return err
 	}
 	defer w.Close()
+	start := takeStart(opt.recorded, w)
 	progress := newProgress(e.stderr, path, w.Duration())
 	defer progress.Done()
 	src := &countingSource{Source: w, progress: progress}
@@ -85,7 +88,7 @@ func analyzeFile(e *env, path string, tu target.Tuning, opt analyzeOptions, out 
 		Tunings: session.NewTunings(tu),
 		OnFrame: func(f session.Frame) { out.Frame(path, f) },
 		OnNote: func(ev session.Event) error {
-			j.note(ev)
+			j.noteAt(ev, start)
 			return out.Note(ev)
 		},
 	})
@@ -162,7 +165,7 @@ func (nw *noteWriter) Note(ev session.Event) error {
 		nw.started = true
 	}
 	r := ev.Reading
-	line := fmt.Sprintf("%7.2f\t%7.2f\t%s\t%.2f\t%s\t%s\t", ev.Start, ev.End, r.Written, r.Hz, target.FormatCents(r.Cents, 1), verdictTail(r))
+	line := fmt.Sprintf("%7.2f\t%7.2f\t%s\t%.2f\t%s\t%s\t", ev.Start, ev.End, r.Written, r.Hz, target.FormatCents(r.Deviation, 1), r.OtherWords())
 	if nw.withFile {
 		line = ev.Source + "\t" + line
 	}
@@ -176,17 +179,6 @@ func tableHead(withFile bool) string {
 		h = "file\t" + h
 	}
 	return h
-}
-
-// verdictTail says in a few words where the note sat against its other spelling.
-func verdictTail(r target.Reading) string {
-	switch {
-	case r.SamePitch:
-		return r.AltWritten.String() + " is the same pitch"
-	case r.NearerAlt():
-		return fmt.Sprintf("sits on %s (%s)", r.AltWritten, target.FormatCents(r.AltCents, 1))
-	}
-	return fmt.Sprintf("%s would be %s", r.AltWritten, target.FormatCents(r.AltCents, 1))
 }
 
 func (nw *noteWriter) Close() error {

@@ -47,8 +47,9 @@ func TestAnalyzeJSONAndTable(t *testing.T) {
 		t.Fatalf("exit %d, %v: %s", code, err, out)
 	}
 	// 392 Hz is G4 in equal temperament at ISO 16's 440 Hz, 0.05 ¢ flat of
-	// 391.995 Hz (standard frequency tables).
-	if notes[0]["note"] != "G4" || notes[0]["hz"].(float64) < 391.9 || notes[0]["same_pitch"] != true {
+	// 391.995 Hz (standard frequency tables). G is offered no other spelling
+	// (F𝄪 and A𝄫 carry two accidentals more; contract), so alt_note is null.
+	if notes[0]["note"] != "G4" || notes[0]["hz"].(float64) < 391.9 || notes[0]["alt_note"] != nil || notes[0]["on_other_spelling"] != false {
 		t.Errorf("json note %v", notes[0])
 	}
 	code, out, _ = runCLI(t, "analyze", "--format", "table", "--temperament", "pythagorean", path)

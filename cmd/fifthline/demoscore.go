@@ -9,7 +9,9 @@ import (
 // would tune with a meantone organ. The player is mostly good, but sits on
 // the wrong spelling twice — a leading-tone F♯ pushed up onto G♭, an E♭ let
 // down onto D♯ — and drifts a few cents on two notes, so a newcomer sees every
-// part of the meter at work. The phrase and its flaws are our own invention.
+// part of the meter at work; the closing C♯, the key's raised fourth leading
+// to the dominant, is spelled from G minor's window (A♭ … C♯). The phrase and
+// its flaws are our own invention.
 var demoScore = struct {
 	key, temperament, a4 string
 	bpm                  float64
@@ -33,6 +35,7 @@ var demoScore = struct {
 		{"A3", 1, 0, false},
 		{"Bb3", 1, 0, false},
 		{"C4", 1, 0, false},
+		{"C#4", 1, 0, false},
 		{"D4", 4, 0, true},
 		{"", 2, 0, false},
 	},

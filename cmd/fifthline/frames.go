@@ -43,7 +43,7 @@ func (fw *frameWriter) Frame(path string, f session.Frame) {
 	if f.Voiced {
 		rec[1] = strconv.FormatFloat(f.Hz, 'f', 4, 64)
 		rec[5] = f.Reading.Written.String()
-		rec[6] = strconv.FormatFloat(f.Reading.Cents, 'f', 2, 64)
+		rec[6] = strconv.FormatFloat(f.Reading.Deviation, 'f', 2, 64)
 	}
 	if fw.withFile {
 		rec = append([]string{path}, rec...)

@@ -10,6 +10,9 @@ package main
 //	defer ... j.close() ...               // return its error: notes not logged
 //	opt.OnNote = func(ev session.Event) error { j.note(ev); return otherSink(ev) }
 //
+// A recording's notes go through j.noteAt(ev, start) instead, so each is
+// logged at the take's start plus its offset (see takeStart).
+//
 // j.note never stops the session: if the disk refuses, the first failure is
 // printed once to stderr (set j.quiet = true under a full-screen meter) and
 // j.status() says so in one line for the screen; j.close() returns it so the
@@ -19,6 +22,7 @@ import (
 	"flag"
 	"fmt"
 	"sync"
+	"time"
 
 	"fifthline/journal"
 	"fifthline/session"
@@ -55,12 +59,20 @@ func (jf *journalFlags) open(e *env) (*journalSink, error) {
 	return j, nil
 }
 
-// note logs one held note; it never fails the session.
-func (j *journalSink) note(ev session.Event) {
+// note logs one held note heard now; it never fails the session.
+func (j *journalSink) note(ev session.Event) { j.noteAt(ev, time.Time{}) }
+
+// noteAt logs one held note of a recording that began at start (zero: now,
+// as note does); it never fails the session.
+func (j *journalSink) noteAt(ev session.Event, start time.Time) {
 	if j.w == nil {
 		return
 	}
-	j.w.Write(ev)
+	if start.IsZero() {
+		j.w.Write(ev)
+	} else {
+		j.w.WriteAt(ev, start)
+	}
 	j.warnIfFailed()
 }
 

@@ -94,7 +94,7 @@ func (m *tmuxMeter) exitStatus() string {
 }
 
 // The spelled note and its cents, as the words under the large glyphs say them.
-const heldWords = `[A-G][♯♭𝄪𝄫]?[0-9] is (on its target|[0-9]+\.[0-9] ¢ (sharp ▲|flat ▼))`
+const heldWords = `[A-G][♯♭𝄪𝄫]?[0-9] is (on its target|[0-9]+\.[0-9] ¢ (sharp|flat)(, toward [A-G][♯♭𝄪𝄫]?[0-9])? [▲▼])`
 
 func TestDemoMeterInTmux(t *testing.T) {
 	t.Parallel()

@@ -1,8 +1,12 @@
 package main
 
 import (
+	"errors"
 	"flag"
+	"fmt"
 	"os"
+	"path/filepath"
+	"strings"
 
 	"fifthline/target"
 )
@@ -16,9 +20,9 @@ type musicalFlags struct {
 func addMusicalFlags(fs *flag.FlagSet) *musicalFlags {
 	m := &musicalFlags{}
 	fs.StringVar(&m.key, "key", "C major", "tonic and mode, e.g. \"G major\", \"f# minor\", \"D dorian\"")
-	fs.StringVar(&m.temperament, "temperament", "equal", "equal, pythagorean, meantone:P/Q, fifth:CENTS, edo:N, werckmeister3, kirnberger3, vallotti, young, just, or a temperament file")
-	fs.StringVar(&m.a4, "a4", "440", "reference pitch in Hz: A4 sits exactly here (380-480)")
-	fs.StringVar(&m.anchor, "anchor", "a4", "which note the reference fixes: a4, or tonic (kept where equal temperament puts it)")
+	fs.StringVar(&m.temperament, "temperament", "equal", "equal, pythagorean, meantone:P/Q, fifth:CENTS, edo:N, werckmeister3, kirnberger3, vallotti, young, just, or a temperament file (names as the meter shows them work too: \"Werckmeister III\", \"quarter-comma\", \"31-EDO\")")
+	fs.StringVar(&m.a4, "a4", "440", "reference pitch in Hz (380-480): A4 sits exactly here, except in just, which keeps its tonic where equal temperament puts it")
+	fs.StringVar(&m.anchor, "anchor", "", "which note the reference fixes: a4, or tonic (kept where equal temperament puts it); default a4, tonic in just")
 	fs.StringVar(&m.chord, "chord", "", "a held chord whose members are tuned just above its root, e.g. \"D major\", \"G harmonic7\"")
 	fs.StringVar(&m.transpose, "transpose", "", "show written pitch for a transposing instrument: the note a written C4 sounds, e.g. Bb, A, F, Eb, Eb4, Bb2")
 	return m
@@ -52,18 +56,30 @@ func (m *musicalFlags) tuning() (target.Tuning, error) {
 }
 
 // parseTemperament reads a named temperament, or a temperament file when the
-// spec names an existing file.
+// spec names an existing file. An unknown name that looks like a path (it has
+// a slash or a file extension) is reported as a missing file.
 func parseTemperament(spec string) (target.Temperament, error) {
 	tm, err := target.ParseTemperament(spec)
 	if err == nil {
 		return tm, nil
 	}
-	if info, statErr := os.Stat(spec); statErr == nil && info.Mode().IsRegular() {
+	info, statErr := os.Stat(spec)
+	switch {
+	case statErr == nil && info.Mode().IsRegular():
 		data, readErr := os.ReadFile(spec)
 		if readErr != nil {
-			return nil, readErr
+			return nil, fmt.Errorf("temperament file %q: %v", spec, errors.Unwrap(readErr))
 		}
 		return target.ParseCustom(spec, data)
+	case statErr == nil && info.IsDir():
+		return nil, fmt.Errorf("temperament file %q is a folder", spec)
+	case errors.Is(err, target.ErrUnknownTemperament) && looksLikePath(spec):
+		return nil, fmt.Errorf("temperament file %q: no such file", spec)
 	}
 	return nil, err
+}
+
+// looksLikePath tells a file meant as a temperament from a mistyped name.
+func looksLikePath(s string) bool {
+	return strings.ContainsAny(s, `/\`) || filepath.Ext(s) != "" || strings.HasPrefix(s, "~")
 }

@@ -19,6 +19,7 @@ func runReport(e *env, args []string) error {
 	plotPath := fs.String("plot", "", "also draw the report into FILE.png or FILE.svg")
 	format := fs.String("format", "table", "table, csv or json")
 	tolerance := fs.Float64("tolerance", 5, "cents either side of the target that count as in tune")
+	by := fs.String("by", "", "rehearsal: a row per note per rehearsal (recording date), to see progress")
 	var f report.Filter
 	fs.StringVar(&f.Player, "player", "", "only this player's notes")
 	fs.StringVar(&f.Key, "key", "", "only notes played in this key, e.g. \"G major\"")
@@ -32,6 +33,9 @@ func runReport(e *env, args []string) error {
 	}
 	if *format != "table" && *format != "csv" && *format != "json" {
 		return usagef("--format %q: use table, csv or json", *format)
+	}
+	if *by != "" && *by != "rehearsal" {
+		return usagef("--by %q: the only choice is --by rehearsal", *by)
 	}
 	if !(*tolerance > 0 && *tolerance <= 100) {
 		return usagef("--tolerance %g: give cents above 0, at most 100", *tolerance)
@@ -59,7 +63,7 @@ func runReport(e *env, args []string) error {
 	if len(entries) == 0 {
 		return fmt.Errorf("no held notes in %s%s", strings.Join(paths, ", "), filterWords(f, *since))
 	}
-	opt := report.Options{Tolerance: *tolerance}
+	opt := report.Options{Tolerance: *tolerance, ByRehearsal: *by == "rehearsal"}
 	groups := report.Summarize(entries, opt)
 	// The picture first: a plot that cannot be written fails the command
 	// before the table is printed, so stdout is all or nothing.
@@ -70,7 +74,7 @@ func runReport(e *env, args []string) error {
 	}
 	switch *format {
 	case "csv":
-		err = report.WriteCSV(e.stdout, groups)
+		err = report.WriteCSV(e.stdout, groups, opt)
 	case "json":
 		err = report.WriteJSON(e.stdout, groups, opt)
 	default:

@@ -76,12 +76,12 @@ func TestReportReadsWhatLogWrites(t *testing.T) {
 		t.Fatalf("no %s %s %s row in\n%s", player, level, note, out)
 		return nil
 	}
-	// F♯4 held at +4, +6, +8 ¢: mean 6, spread (sample sd) 2, one of three
-	// within ±5 ¢ (hand-computed); the cents survive Hz → CSV → report to the
-	// journal's 0.01 ¢.
+	// F♯4 held at +4, +6, +8 ¢: mean 6, scatter (root-mean-square
+	// deviation) √(8/3) = 1.63, one of three within ±5 ¢ (hand-computed); the
+	// cents survive Hz → CSV → report to the journal's 0.01 ¢.
 	f := row("Ann", "note", "F#4")
 	for col, want := range map[string]string{"count": "3", "mean_cents": "6.00", "median_cents": "6.00",
-		"spread_cents": "2.00", "within": "1", "key": "G major", "temperament": "meantone:1/4", "tendency": "sits 6 ¢ high"} {
+		"scatter_cents": "1.63", "within": "1", "key": "G major", "temperament": "meantone:1/4", "tendency": "sits 6 ¢ high"} {
 		if f[col] != want {
 			t.Errorf("F#4 %s = %q, want %q", col, f[col], want)
 		}
@@ -90,11 +90,11 @@ func TestReportReadsWhatLogWrites(t *testing.T) {
 	if a := row("Ann", "all", "all"); a["count"] != "4" || a["mean_cents"] != "3.75" {
 		t.Errorf("Ann overall %v (want 4 notes, mean (4+6+8−3)/4 = 3.75)", a)
 	}
-	if b := row("Ben", "note", "B4"); b["count"] != "1" || b["mean_cents"] != "1.00" || b["spread_cents"] != "0.00" {
+	if b := row("Ben", "note", "B4"); b["count"] != "1" || b["mean_cents"] != "1.00" || b["scatter_cents"] != "" {
 		t.Errorf("Ben's B4 %v", b)
 	}
 	code, out, _ = runCLI(t, "report", "--player", "ann", path)
-	if code != 0 || !strings.Contains(out, "Ann · G major · 1/4-comma meantone · A4 = 415 Hz — 4 notes") || strings.Contains(out, "Ben") {
+	if code != 0 || !strings.Contains(out, "Ann · G major · 1/4-comma meantone · A4 = 415 Hz\n4 held notes\n") || strings.Contains(out, "Ben") {
 		t.Errorf("table for Ann:\n%s", out)
 	}
 	lines := strings.Split(out, "\n")
@@ -147,8 +147,9 @@ func TestReportPlotsAPictureOfTheStatedSize(t *testing.T) {
 			f, _ := os.Open(out)
 			cfg, err := png.DecodeConfig(f)
 			f.Close()
-			if err != nil || cfg.Width != 1800 || cfg.Height != 1200 {
-				t.Errorf("png %dx%d %v, want 1800x1200", cfg.Width, cfg.Height, err)
+			// One player in one tuning: 12 × 4.4 in at 150 dpi.
+			if err != nil || cfg.Width != 1800 || cfg.Height != 660 {
+				t.Errorf("png %dx%d %v, want 1800x660", cfg.Width, cfg.Height, err)
 			}
 		} else if data, _ := os.ReadFile(out); !strings.Contains(string(data), "<svg") {
 			t.Errorf("svg starts %.80q", data)
@@ -180,6 +181,7 @@ func TestReportBadJournalsAreOneLineErrors(t *testing.T) {
 		{"unknown format", []string{"--format", "xml", analyzed}, 2, "--format"},
 		{"plot as gif", []string{"--plot", "x.gif", analyzed}, 2, ".png or .svg"},
 		{"no tolerance", []string{"--tolerance", "0", analyzed}, 2, "--tolerance"},
+		{"by what", []string{"--by", "week", analyzed}, 2, "--by rehearsal"},
 		{"since what", []string{"--since", "last week", analyzed}, 2, "--since"},
 	}
 	for _, c := range cases {

@@ -45,6 +45,7 @@ func runTargets(e *env, args []string) error {
 
 type targetRow struct {
 	note, alt  target.Note
+	hasAlt     bool
 	hz, equal  float64
 	fifths     int
 	altGap     float64 // alt's target minus note's, cents
@@ -59,8 +60,8 @@ func targetRows(tu target.Tuning, octave int) []targetRow {
 		n.Octave = octave
 		r := tu.Classify(tu.Target(n))
 		rows = append(rows, targetRow{
-			note: n, alt: r.Alt, hz: tu.Target(n), equal: tu.CentsFromEqual(n), fifths: n.Fifths(),
-			altGap: -r.AltCents, written: r.Written, samePitch: r.SamePitch, chordRatio: chordRatio(tu, n),
+			note: n, alt: r.Alt, hasAlt: r.HasAlt, hz: tu.Target(n), equal: tu.CentsFromEqual(n), fifths: n.Fifths(),
+			altGap: -r.AltDeviation, written: r.Written, samePitch: r.SamePitch, chordRatio: chordRatio(tu, n),
 		})
 	}
 	return rows
@@ -89,7 +90,10 @@ func writeTargetsCSV(e *env, tu target.Tuning, rows []targetRow) error {
 	}
 	w.Write(header)
 	for _, r := range rows {
-		rec := []string{r.note.String(), session.Decimal(r.hz, 4), session.Decimal(r.equal, 3), strconv.Itoa(r.fifths), r.alt.String(), session.Decimal(r.altGap, 3)}
+		rec := []string{r.note.String(), session.Decimal(r.hz, 4), session.Decimal(r.equal, 3), strconv.Itoa(r.fifths), "", ""}
+		if r.hasAlt {
+			rec[4], rec[5] = r.alt.String(), session.Decimal(r.altGap, 3)
+		}
 		if !tu.Transpose.IsConcert() {
 			rec = append(rec, r.written.String())
 		}
@@ -104,6 +108,7 @@ func writeTargetsCSV(e *env, tu target.Tuning, rows []targetRow) error {
 
 func writeTargetsTable(e *env, tu target.Tuning, rows []targetRow) error {
 	fmt.Fprintln(e.stdout, tu)
+	shared := tu.SharesPitches()
 	tw := tabwriter.NewWriter(e.stdout, 0, 0, 2, ' ', tabwriter.AlignRight)
 	head := "note\tHz\tfrom equal\tfifths\tother spelling\t"
 	if !tu.Transpose.IsConcert() {
@@ -115,7 +120,12 @@ func writeTargetsTable(e *env, tu target.Tuning, rows []targetRow) error {
 	fmt.Fprintln(tw, head)
 	for _, r := range rows {
 		other := r.alt.String() + " " + target.FormatCents(r.altGap, 1)
-		if r.samePitch {
+		switch {
+		case !r.hasAlt:
+			other = "none"
+		case r.samePitch && shared:
+			other = r.alt.String() // the first line says so, once
+		case r.samePitch:
 			other = r.alt.String() + " same"
 		}
 		line := fmt.Sprintf("%s\t%.3f\t%s\t%+d\t%s\t", r.note, r.hz, target.FormatCents(r.equal, 2), r.fifths, other)
