@@ -173,8 +173,8 @@ func TestBleedIsTakenOutOfEachChannel(t *testing.T) {
 		got := map[string][]string{}
 		for _, n := range notes {
 			got[n.Player.Name] = append(got[n.Player.Name], n.Reading.Note.String())
-			if math.Abs(n.Reading.Cents) > 1 {
-				t.Errorf("%g dB: %s %s read %+.2f ¢ from equal temperament", bleedDB, n.Player.Name, n.Reading.Note, n.Reading.Cents)
+			if math.Abs(n.Reading.Deviation) > 1 {
+				t.Errorf("%g dB: %s %s read %+.2f ¢ from equal temperament", bleedDB, n.Player.Name, n.Reading.Note, n.Reading.Deviation)
 			}
 		}
 		for name, want := range truth {

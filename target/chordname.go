@@ -207,7 +207,7 @@ func (t Tuning) readMembers(sh chordShape, r Note, hz []float64, pcs []int, seve
 		just := Cents(f / (rootHz * ratio))
 		just -= 1200 * math.Round(just/1200)
 		c.Members = append(c.Members, HeardMember{Index: i, Role: st.role, Note: n, Hz: f,
-			Cents: Cents(f/t.c4()) - t.TemperedCents(n), JustCents: just, Ratio: ratio})
+			Cents: Cents(f/t.c4()) - t.TemperedPitch(n), JustCents: just, Ratio: ratio})
 		if f == rootHz {
 			c.Root.Octave = n.Octave
 		}
@@ -219,6 +219,6 @@ func (t Tuning) readMembers(sh chordShape, r Note, hz []float64, pcs []int, seve
 // nearestOctave puts the spelled note n in the octave whose tempered target
 // lies nearest the measured frequency.
 func (t Tuning) nearestOctave(n Note, hz float64) Note {
-	n.Octave += int(math.Round((Cents(hz/t.c4()) - t.TemperedCents(n)) / 1200))
+	n.Octave += int(math.Round((Cents(hz/t.c4()) - t.TemperedPitch(n)) / 1200))
 	return n
 }
