@@ -1,0 +1,301 @@
+package ensemble
+
+import (
+	"math"
+	"math/cmplx"
+
+	"gonum.org/v1/gonum/dsp/fourier"
+)
+
+// Bleed estimation: what channel c hears of player d is modelled as d's own
+// channel, scaled and delayed (a close microphone a metre or two from a
+// neighbour: a gain and a few milliseconds). At the partials of d's pitch
+// that lie clear of c's own partials, c's spectrum is that gain and delay
+// times d's, so the cross-spectrum X_c·conj(X_d) accumulated there, turned
+// back into a correlation over lags, peaks at the delay (the generalized
+// cross-correlation of Knapp & Carter, IEEE TASSP 1976), and its height
+// over the power of d gives the gain. Leaving out the bins near c's own
+// partials keeps c's own signal, which d's microphone hears too, from
+// passing for bleed.
+const (
+	maxBleedMs        = 12.0  // farther apart than ~4 m is not a close-microphone neighbour
+	maxBleedGain      = 0.5   // −6 dB: louder than that is not bleed but a shared microphone
+	bleedMemory       = 0.999 // per frame: evidence halves in about 700 frames (7 s at the default hop)
+	clearBins         = 2     // and none of c's partials within this many bins
+	bleedDominates    = 0.1   // a bin −10 dB or more below d's is d's bleed on c
+	bleedEvery        = 4     // hops between re-estimates while learning,
+	bleedSettle       = 200   // the first 200 hops (about 2 s),
+	bleedEverySettled = 32    // and then: the microphones do not move much
+	minBleedFrames    = 4     // frames of evidence before subtracting
+	minCoherence      = 0.6   // |Σ A·e^{iωτ}| / Σ |A|: the evidence agrees on one delay
+	bleedHarmonics    = 48    // partials of d used, up to maxBleedHz: the wider the band, the sharper the delay
+	maxBleedHz        = 8000.0
+	historyPad        = 8     // samples kept beyond the longest delay
+	minBleedPower     = 1e-12 // below this d's partials are too quiet to measure
+)
+
+// Bleed is what each player's microphone hears of the others, learned
+// while listening. Run starts one of its own unless given one: pass the
+// same Bleed to a second Run over the same recording to read it with what
+// the whole recording taught, from its first note on.
+type Bleed struct{ m *bleedModel }
+
+// model is b's estimate for windows of n samples and k players, started
+// afresh when b is nil or was learned for another shape.
+func (b *Bleed) model(n, k int) *bleedModel {
+	if b == nil {
+		return newBleedModel(n, k)
+	}
+	if b.m == nil || b.m.n != n || b.m.k != k {
+		b.m = newBleedModel(n, k)
+	}
+	return b.m
+}
+
+// pairBleed is what channel c hears of channel d.
+type pairBleed struct {
+	a      []complex128 // accumulated X_c·conj(X_d) at d's clear partials
+	b      float64      // accumulated |X_d|² there
+	frames int
+	gain   float64 // 0 until estimated
+	delay  float64 // samples
+}
+
+// bleedModel holds every ordered pair's estimate and the plan for turning
+// accumulated cross-spectra into correlations.
+type bleedModel struct {
+	n, k  int // window length, channels
+	pairs []pairBleed
+	ifft  *fourier.FFT
+	corr  []float64
+	spec  []complex128
+	hops  int
+}
+
+func newBleedModel(n, channels int) *bleedModel {
+	m := &bleedModel{n: n, k: channels, pairs: make([]pairBleed, channels*channels),
+		ifft: fourier.NewFFT(n), corr: make([]float64, n), spec: make([]complex128, n/2+1)}
+	for i := range m.pairs {
+		m.pairs[i].a = make([]complex128, n/2+1)
+	}
+	return m
+}
+
+func (m *bleedModel) pair(c, d int) *pairBleed { return &m.pairs[c*m.k+d] }
+
+// observe adds one frame's evidence: hz[d] is player d's pitch this frame
+// (0 when unvoiced or bleed), steady[d] whether d has held it for a whole
+// window, o the frame's spectra. At d's partials, a bin of c where c's own
+// sound dominates is louder on c than on d (d hears c 15–25 dB down); a
+// bin where d's bleed dominates is far quieter on c than on d. Only the
+// latter are weighed, and none near a partial of c's own pitch (where the
+// two beat slowly and would not average out), so c's own partials,
+// attacks and releases do not pass for bleed.
+func (m *bleedModel) observe(o *Owner, hz []float64, steady []bool) {
+	binHz := o.fs / float64(m.n)
+	for d, pd := range hz {
+		if pd == 0 || !steady[d] || !o.have[d] {
+			continue
+		}
+		for c := range hz {
+			if c == d || !o.have[c] {
+				continue
+			}
+			p := m.pair(c, d)
+			used := false
+			for h := 1; h <= bleedHarmonics; h++ {
+				bin := int(math.Round(float64(h) * pd / binHz))
+				if bin+1 >= len(p.a) || float64(h)*pd > maxBleedHz {
+					break
+				}
+				if nearPartial(float64(bin)*binHz, hz[c], clearBins*binHz) {
+					continue // c's own partial may sit here, slowly beating with d's
+				}
+				for b := bin - 1; b <= bin+1; b++ {
+					xc, xd := o.spec[c][b], o.spec[d][b]
+					pc, pd := power(xc), power(xd)
+					if pd < minBleedPower || pc > bleedDominates*pd {
+						continue
+					}
+					p.a[b] += xc * cmplx.Conj(xd)
+					p.b += pd
+					used = true
+				}
+			}
+			if used {
+				p.frames++
+			}
+		}
+	}
+	// Old evidence fades over a few seconds: one steady pitch's partials
+	// fit delays a period apart as well as the true one, so the estimate
+	// must follow the pitches sounding now rather than those of a minute ago.
+	for i := range m.pairs {
+		p := &m.pairs[i]
+		if p.b > 0 {
+			for b := range p.a {
+				p.a[b] *= bleedMemory
+			}
+			p.b *= bleedMemory
+		}
+	}
+	every := bleedEvery
+	if m.hops > bleedSettle {
+		every = bleedEverySettled
+	}
+	if m.hops++; m.hops%every == 0 {
+		m.estimate(o.fs)
+	}
+}
+
+// nearPartial tells whether f lies within tol of a partial of pitch hz.
+func nearPartial(f, hz, tol float64) bool {
+	if hz == 0 {
+		return false
+	}
+	k := math.Round(f / hz)
+	return k >= 1 && math.Abs(f-k*hz) < tol
+}
+
+func power(z complex128) float64 { return real(z)*real(z) + imag(z)*imag(z) }
+
+// estimate turns each pair's evidence into a gain and delay.
+func (m *bleedModel) estimate(fs float64) {
+	maxLag := min(int(maxBleedMs/1000*fs), m.n/2-2)
+	for i := range m.pairs {
+		p := &m.pairs[i]
+		if p.frames < minBleedFrames || p.b < minBleedPower {
+			continue
+		}
+		// corr[τ] = Σ_b a_b·e^{+iω_bτ}: the inverse transform of a.
+		copy(m.spec, p.a)
+		m.ifft.Sequence(m.corr, m.spec)
+		best := 0
+		for lag := 1; lag <= maxLag; lag++ {
+			if m.corr[lag] > m.corr[best] {
+				best = lag
+			}
+		}
+		// A parabola through the peak and its neighbours for the fraction.
+		frac := 0.0
+		if best > 0 {
+			l, c, r := m.corr[best-1], m.corr[best], m.corr[best+1]
+			if den := l - 2*c + r; den < 0 {
+				frac = 0.5 * (l - r) / den
+			}
+		}
+		delay := refineDelay(p.a, m.n, float64(best)+frac)
+		var sum complex128
+		mag := 0.0
+		for b, a := range p.a {
+			w := 2 * math.Pi * float64(b) / float64(m.n)
+			sum += a * cmplx.Rect(1, w*delay)
+			mag += cmplx.Abs(a)
+		}
+		gain := real(sum) / p.b
+		if mag == 0 || cmplx.Abs(sum)/mag < minCoherence || gain <= 0 || gain > maxBleedGain {
+			p.gain = 0
+			continue
+		}
+		p.gain, p.delay = gain, delay
+	}
+}
+
+// refineDelay polishes the delay between whole lags by Newton's method on
+// the correlation's real part, Re Σ a_b·e^{iω_bτ}, which peaks at the
+// delay: the parabola through three lags is biased when the evidence
+// sits on a few partials.
+func refineDelay(a []complex128, n int, tau float64) float64 {
+	start := tau
+	for range 6 {
+		var d1, d2 float64
+		for b, x := range a {
+			if x == 0 {
+				continue
+			}
+			w := 2 * math.Pi * float64(b) / float64(n)
+			z := x * cmplx.Rect(1, w*tau)
+			d1 -= w * imag(z)
+			d2 -= w * w * real(z)
+		}
+		if d2 >= 0 {
+			return start // not at a maximum: keep the lag found
+		}
+		tau -= d1 / d2
+	}
+	if math.Abs(tau-start) > 1 {
+		return start
+	}
+	return tau
+}
+
+// history keeps each channel's recent raw samples, so a block can be
+// cleaned of the others' bleed at their delays.
+type history struct {
+	keep int         // samples kept before the current block
+	buf  [][]float64 // per channel: keep samples, then the current block
+}
+
+func newHistory(channels int, fs float64) *history {
+	keep := int(maxBleedMs/1000*fs) + historyPad
+	h := &history{keep: keep, buf: make([][]float64, channels)}
+	for c := range h.buf {
+		h.buf[c] = make([]float64, keep)
+	}
+	return h
+}
+
+// push appends each block after its channel's kept samples.
+func (h *history) push(blocks [][]float32) {
+	for c := range h.buf {
+		b := h.buf[c][:h.keep]
+		for _, s := range blocks[c] {
+			b = append(b, float64(s))
+		}
+		h.buf[c] = b
+	}
+}
+
+// shift keeps the last keep samples for the next block.
+func (h *history) shift() {
+	for c, b := range h.buf {
+		copy(b, b[len(b)-h.keep:])
+		h.buf[c] = b[:h.keep]
+	}
+}
+
+// at is channel c's sample at position t (keep + index into the block),
+// interpolated for a fractional t by a cubic Lagrange polynomial.
+func (h *history) at(c int, t float64) float64 {
+	b := h.buf[c]
+	i := int(math.Floor(t))
+	f := t - float64(i)
+	if i < 1 || i+2 >= len(b) {
+		if i >= 0 && i < len(b) {
+			return b[i]
+		}
+		return 0
+	}
+	// Lagrange's cubic through the samples at i-1 … i+2.
+	xm, x0, x1, x2 := b[i-1], b[i], b[i+1], b[i+2]
+	return -xm*f*(f-1)*(f-2)/6 + x0*(f+1)*(f-1)*(f-2)/2 - x1*(f+1)*f*(f-2)/2 + x2*(f+1)*f*(f-1)/6
+}
+
+// clean writes into dst channel c's current block less what it hears of
+// every other channel.
+func (m *bleedModel) clean(h *history, c int, dst []float32) {
+	n := len(h.buf[c]) - h.keep
+	dst = dst[:n]
+	for i := range n {
+		dst[i] = float32(h.buf[c][h.keep+i])
+	}
+	for d := range m.k {
+		p := m.pair(c, d)
+		if d == c || p.gain == 0 {
+			continue
+		}
+		for i := range n {
+			dst[i] -= float32(p.gain * h.at(d, float64(h.keep+i)-p.delay))
+		}
+	}
+}

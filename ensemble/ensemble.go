@@ -1,0 +1,220 @@
+package ensemble
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+
+	"fifthline/pitchdetect"
+	"fifthline/session"
+	"fifthline/source"
+)
+
+// Player is one member of the group and the channel of their microphone.
+type Player struct {
+	Name    string
+	Channel int // counted from 0 in the source
+}
+
+// Note is one player's held note, read from their own channel.
+type Note struct {
+	Player Player
+	session.Event
+}
+
+// Options configure Run. Window and Hop are in samples; 0 lets the detector
+// choose. OwnDB 0 means DefaultOwnDB. An error from OnNote stops Run.
+type Options struct {
+	Players     []Player
+	Tunings     *session.Tunings
+	Window, Hop int
+	OwnDB       float64
+	Bleed       *Bleed // nil: learn afresh
+	OnNote      func(Note) error
+	// OnFrame, if set, sees every player's frame as read: unvoiced where
+	// the pitch was another player's bleed. Index i is Players[i].
+	OnFrame func(i int, e pitchdetect.Estimate)
+}
+
+// voice is one player's reading chain.
+type voice struct {
+	Player
+	det   *pitchdetect.Detector
+	seg   *pitchdetect.Segmenter
+	ring  []float64 // the latest window of the player's channel, as heard
+	w     int       // next write position in ring
+	clean []float32 // this block less what the channel hears of the others
+	est   []pitchdetect.Estimate
+	last  float64 // the previous frame's pitch, 0 when unvoiced
+	same  int     // frames in a row at that pitch (or silent)
+}
+
+// steadyFrames is how many frames in a row a player must keep one pitch,
+// or silence, before their channel is weighed for bleed: a window's worth
+// at the detector's default hop of an eighth of a window.
+const steadyFrames = 8
+
+// steady notes the frame's pitch and tells whether the player has held it
+// (within steadyCents) or stayed silent for steadyFrames frames.
+func (v *voice) steady(hz float64) bool {
+	const steadyCents = 20
+	switch {
+	case hz == 0 && v.last == 0, hz > 0 && v.last > 0 && math.Abs(1200*math.Log2(hz/v.last)) < steadyCents:
+		v.same++
+	default:
+		v.same = 0
+	}
+	v.last = hz
+	return v.same >= steadyFrames
+}
+
+// Run reads src until it ends (io.EOF) or ctx is cancelled, delivering each
+// player's held notes as they end. Notes still held at the end are
+// finished and delivered, so nothing heard is lost. A finished stream
+// returns nil; cancellation returns ctx.Err().
+func Run(ctx context.Context, src source.Multi, opt Options) error {
+	if len(opt.Players) == 0 {
+		return errors.New("ensemble: no players")
+	}
+	ownDB := opt.OwnDB
+	if ownDB == 0 {
+		ownDB = DefaultOwnDB
+	}
+	voices := make([]*voice, len(opt.Players))
+	for i, p := range opt.Players {
+		if p.Channel < 0 || p.Channel >= src.Channels() {
+			return fmt.Errorf("ensemble: %s on channel %d, but the source has %d", p.Name, p.Channel+1, src.Channels())
+		}
+		det, err := pitchdetect.New(src.SampleRate(), opt.Window, opt.Hop)
+		if err != nil {
+			return err
+		}
+		voices[i] = &voice{Player: p, det: det, seg: pitchdetect.NewSegmenter(float64(det.Hop()) / src.SampleRate()),
+			ring: make([]float64, det.Window()), clean: make([]float32, det.Hop())}
+	}
+	hop := voices[0].det.Hop()
+	owner := NewOwner(src.SampleRate(), voices[0].det.Window(), len(voices))
+	bleed := opt.Bleed.model(voices[0].det.Window(), len(voices))
+	hist := newHistory(len(voices), src.SampleRate())
+	heard := make([][]float32, len(voices)) // each player's channel, this block
+	hz, steady := make([]float64, len(voices)), make([]bool, len(voices))
+	blocks, view := make([][]float32, src.Channels()), make([][]float32, src.Channels())
+	for c := range blocks {
+		blocks[c] = make([]float32, hop)
+	}
+	deliver := func(v *voice, h pitchdetect.Held) error {
+		if opt.OnNote == nil {
+			return nil
+		}
+		tu := opt.Tunings.Get()
+		return opt.OnNote(Note{Player: v.Player, Event: session.Event{Source: v.Name, Held: h, Reading: tu.Classify(h.Hz), Tuning: tu}})
+	}
+	finish := func() error {
+		var errs []error
+		for _, v := range voices {
+			if h, ok := v.seg.Flush(); ok {
+				errs = append(errs, deliver(v, h))
+			}
+		}
+		return errors.Join(errs...)
+	}
+	for {
+		if err := ctx.Err(); err != nil {
+			return errors.Join(finish(), err)
+		}
+		n, rerr := readFull(src, blocks, view)
+		for i, v := range voices {
+			heard[i] = blocks[v.Channel][:n]
+		}
+		hist.push(heard)
+		for i, v := range voices {
+			bleed.clean(hist, i, v.clean)
+			v.feed(heard[i], v.clean[:n])
+		}
+		hist.shift()
+		// Every detector was fed the same samples, so all hold the same
+		// number of estimates, frame for frame.
+		for j := range voices[0].est {
+			owner.Reset()
+			if anyVoiced(voices, j) {
+				// The rings end where this block ends; with blocks of one
+				// hop that is where the estimate's window ends.
+				for k, u := range voices {
+					owner.Set(k, u.ring[u.w:], u.ring[:u.w])
+				}
+			}
+			for i, v := range voices {
+				e := v.est[j]
+				if e.Voiced && owner.Bleed(i, e.Hz, ownDB) {
+					e.Voiced, e.Hz, e.Confidence = false, 0, 0
+				}
+				hz[i], steady[i] = e.Hz, v.steady(e.Hz)
+				if opt.OnFrame != nil {
+					opt.OnFrame(i, e)
+				}
+				if h, done := v.seg.Push(e); done {
+					if err := deliver(v, h); err != nil {
+						return err
+					}
+				}
+			}
+			if owner.have[0] {
+				bleed.observe(owner, hz, steady)
+			}
+		}
+		if rerr != nil {
+			ferr := finish()
+			if errors.Is(rerr, io.EOF) {
+				return ferr
+			}
+			return errors.Join(rerr, ferr)
+		}
+	}
+}
+
+func anyVoiced(voices []*voice, j int) bool {
+	for _, v := range voices {
+		if v.est[j].Voiced {
+			return true
+		}
+	}
+	return false
+}
+
+// feed gives the voice a block: its detector reads the block cleaned of
+// the others' bleed, and its ring keeps the block as heard, for the
+// ownership test and the bleed estimate.
+func (v *voice) feed(heard, cleaned []float32) {
+	v.est = v.det.Feed(cleaned, v.est[:0])
+	for _, s := range heard {
+		v.ring[v.w] = float64(s)
+		v.w++
+		if v.w == len(v.ring) {
+			v.w = 0
+		}
+	}
+}
+
+// readFull fills every channel's block to its length unless the source
+// ends or fails first, so that each hop's estimates and windows line up.
+func readFull(src source.Multi, blocks, view [][]float32) (int, error) {
+	n, idle := 0, 0
+	for n < len(blocks[0]) {
+		for c := range blocks {
+			view[c] = blocks[c][n:]
+		}
+		k, err := src.ReadChannels(view)
+		n += k
+		if err != nil {
+			return n, err
+		}
+		if idle = idle + 1; k > 0 {
+			idle = 0
+		} else if idle > 100 {
+			return n, io.ErrNoProgress // a source that never blocks and never delivers
+		}
+	}
+	return n, nil
+}
