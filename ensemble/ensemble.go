@@ -27,6 +27,7 @@ type Note struct {
 // Options configure Run. Window and Hop are in samples; 0 lets the detector
 // choose. OwnDB 0 means DefaultOwnDB. An error from OnNote stops Run.
 type Options struct {
+	Name        string // what is heard, for Event.Source: a file or a device
 	Players     []Player
 	Tunings     *session.Tunings
 	Window, Hop int
@@ -109,7 +110,7 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 			return nil
 		}
 		tu := opt.Tunings.Get()
-		return opt.OnNote(Note{Player: v.Player, Event: session.Event{Source: v.Name, Held: h, Reading: tu.Classify(h.Hz), Tuning: tu}})
+		return opt.OnNote(Note{Player: v.Player, Event: session.Event{Source: opt.Name, Player: v.Name, Held: h, Reading: tu.Classify(h.Hz), Tuning: tu}})
 	}
 	finish := func() error {
 		var errs []error

@@ -295,8 +295,12 @@ func (w *Writer) line(ev session.Event, at time.Time) []byte {
 	if tu.Temperament != nil {
 		temperament = tu.Temperament.Spec()
 	}
+	player := w.meta.Player
+	if ev.Player != "" {
+		player = ev.Player // one of several players heard at once
+	}
 	rec := append([]string{
-		at.Format(TimeLayout), w.meta.Session, ev.Source, w.meta.Player, tu.Key.String(), temperament,
+		at.Format(TimeLayout), w.meta.Session, ev.Source, player, tu.Key.String(), temperament,
 		strconv.FormatFloat(tu.A4, 'f', -1, 64), tu.Transpose.Name, chord,
 	}, ev.Record(false)...)
 	for i, f := range rec { // one physical line per note, whatever a name holds

@@ -15,6 +15,7 @@ import (
 // it ended.
 type Event struct {
 	Source string // file path or device name
+	Player string // who played it, where several players are heard; "" for one
 	pitchdetect.Held
 	Reading target.Reading
 	Tuning  target.Tuning

@@ -33,6 +33,7 @@ func runAnalyze(e *env, args []string) error {
 	fs.IntVar(&opt.channel, "channel", 1, "channel to read, counted from 1")
 	fs.Var(&opt.recorded, "recorded", "when the take was played (2026-11-24, \"2026-11-24 19:30\" or RFC 3339), for the journal; with several files, each began then; default: each file's Broadcast Wave bext time, else its modification time")
 	jf := addJournalFlags(fs)
+	players := addPlayersFlag(fs)
 	vf := addVoiceFlags(fs)
 	files, err := parseFlags(e, fs, args)
 	if err != nil {
@@ -50,6 +51,11 @@ func runAnalyze(e *env, args []string) error {
 	}
 	opt.format = *format
 	opt.sayTuning = sync.OnceFunc(func() { mf.say(e.stderr, tu) })
+	if po, ok, err := playersOptions(fs, *players); err != nil {
+		return err
+	} else if ok && !wasSet(fs, "voices") {
+		return analyzePlayers(e, po, files, tu, opt, jf)
+	}
 	if vo, ok, err := vf.options(); err != nil {
 		return err
 	} else if ok {

@@ -1,0 +1,193 @@
+package main
+
+import (
+	"cmp"
+	"context"
+	"errors"
+	"flag"
+	"fmt"
+	"slices"
+	"strconv"
+
+	"fifthline/capture"
+	"fifthline/ensemble"
+	"fifthline/pitchdetect"
+	"fifthline/session"
+	"fifthline/target"
+)
+
+// --players: one player per channel of a multichannel recording or
+// interface, each read from their own channel knowing the others (package
+// ensemble), and with --chords the chords they make.
+
+// playerColumns follow the held-note columns.
+var playerColumns = []string{"player", "channel"}
+
+// addPlayersFlag defines --players; call it before addVoiceFlags, which
+// shares --chords and --seventh with it.
+func addPlayersFlag(fs *flag.FlagSet) *string {
+	return fs.String("players", "", "one player per channel, in channel order (vc,vla,vl2,vl1; an empty name skips a channel) or picked (3=vla,1=vc): notes gain player and channel columns")
+}
+
+// playerOptions are the checked --players flags.
+type playerOptions struct {
+	players []ensemble.Player
+	chords  bool
+	seventh float64
+}
+
+// playersOptions checks --players and the chord flags; ok is false when
+// --players was not given.
+func playersOptions(fs *flag.FlagSet, value string) (opt playerOptions, ok bool, err error) {
+	if !wasSet(fs, "players") {
+		return opt, false, nil
+	}
+	if opt.players, err = ensemble.ParsePlayers(value); err != nil {
+		return opt, false, usagef("%v", err)
+	}
+	opt.chords = fs.Lookup("chords").Value.String() == "true"
+	if opt.seventh, err = target.ParseSeventh(fs.Lookup("seventh").Value.String()); err != nil {
+		return opt, false, usagef("%v", err)
+	}
+	return opt, true, nil
+}
+
+// playerNote is one player's note with the columns --players adds.
+type playerNote struct {
+	ensemble.Note
+}
+
+func (n playerNote) record(withFile bool) []string {
+	return append(n.Record(withFile), n.Player.Name, strconv.Itoa(n.Player.Channel+1))
+}
+
+// chordRecords are a chord's rows, one per member, lowest first, as the
+// contract's chord rows with the player column.
+func chordRecords(c ensemble.Chord, path string, withFile bool) [][]string {
+	var out [][]string
+	for i, m := range c.Members {
+		rec := []string{session.Decimal(c.Start, 3), session.Decimal(c.End, 3), c.Name(), m.Role, m.Note.String(),
+			session.Decimal(m.Hz, 4), session.Decimal(m.Cents, 2), session.Decimal(m.JustCents, 2), c.Players[i].Name}
+		if withFile {
+			rec = append([]string{path}, rec...)
+		}
+		out = append(out, rec)
+	}
+	return out
+}
+
+// playersChordHeader is the contract's chord row with the player column.
+func playersChordHeader(withFile bool) []string {
+	h := chordHeader(withFile)
+	return append(h[:len(h)-1], "player")
+}
+
+// analyzePlayers reads every file's players and writes their notes (or
+// chord rows) ordered by start.
+func analyzePlayers(e *env, po playerOptions, files []string, tu target.Tuning, opt analyzeOptions, jf *journalFlags) error {
+	if opt.frames {
+		return usagef("--frames and --players cannot go together: the frame track is one pitch per moment")
+	}
+	j, err := jf.open(e)
+	if err != nil {
+		return err
+	}
+	withFile := len(files) > 1
+	head := append(session.Header(withFile), playerColumns...)
+	if po.chords {
+		head = playersChordHeader(withFile)
+	}
+	out := newRowWriter(e.stdout, opt.format, head)
+	if opt.format == "table" {
+		out.title = tu.String()
+	}
+	for i, path := range files {
+		notes, chords, err := readPlayers(e, path, tu, po, opt, j)
+		// What was heard before an interruption is written all the same.
+		if po.chords {
+			for _, c := range chords {
+				for _, rec := range chordRecords(c, path, withFile) {
+					out.write(rec)
+				}
+			}
+		} else {
+			for _, n := range notes {
+				out.write(playerNote{n}.record(withFile))
+			}
+		}
+		if err != nil && i == 0 && notes == nil {
+			return errors.Join(err, j.close()) // a file that would not open: no output at all
+		}
+		if err != nil {
+			return errors.Join(err, out.close(), j.close())
+		}
+	}
+	opt.sayTuning()
+	return errors.Join(out.close(), j.close())
+}
+
+// readPlayers hears one file's players twice: once to learn what each
+// microphone hears of the others, then to read every note with that
+// known from the first on. Notes come back ordered by start, then channel.
+func readPlayers(e *env, path string, tu target.Tuning, po playerOptions, opt analyzeOptions, j *journalSink) ([]ensemble.Note, []ensemble.Chord, error) {
+	var learned ensemble.Bleed
+	var notes []ensemble.Note
+	tracks := make([]ensemble.Track, len(po.players))
+	for pass := range 2 {
+		rec, err := capture.OpenRecording(path, 1)
+		if err != nil {
+			return nil, nil, err
+		}
+		if err := ensemble.CheckChannels(po.players, rec.Channels(), path); err != nil {
+			rec.Close()
+			return nil, nil, usagef("%v", err)
+		}
+		start := takeStart(opt.recorded, rec)
+		progress := newProgress(e.stderr, path, rec.Duration())
+		o := ensemble.Options{Name: path, Players: po.players, Tunings: session.NewTunings(tu), Bleed: &learned}
+		if pass == 1 {
+			o.OnNote = func(n ensemble.Note) error {
+				j.noteAt(n.Event, start)
+				notes = append(notes, n)
+				return nil
+			}
+			o.OnFrame = func(i int, est pitchdetect.Estimate) { tracks[i].Add(est.Time, est.Hz) }
+		}
+		err = ensemble.Run(e.ctx, &progressMulti{Recording: rec, p: progress}, o)
+		progress.Done()
+		rec.Close()
+		if err != nil {
+			sortPlayerNotes(notes)
+			if errors.Is(err, context.Canceled) {
+				return notes, nil, fmt.Errorf("%s: interrupted; the notes before it are written", path)
+			}
+			return notes, nil, fmt.Errorf("%s: %w", path, err)
+		}
+	}
+	sortPlayerNotes(notes)
+	var chords []ensemble.Chord
+	if po.chords {
+		chords = ensemble.Chords(notes, tracks, po.players, tu, po.seventh)
+	}
+	return notes, chords, nil
+}
+
+func sortPlayerNotes(notes []ensemble.Note) {
+	slices.SortStableFunc(notes, func(a, b ensemble.Note) int {
+		return cmp.Or(cmp.Compare(a.Held.Start, b.Held.Start), cmp.Compare(a.Player.Channel, b.Player.Channel))
+	})
+}
+
+// progressMulti reports how far the reading is as it reads.
+type progressMulti struct {
+	*capture.Recording
+	p    *progress
+	read int
+}
+
+func (pm *progressMulti) ReadChannels(dst [][]float32) (int, error) {
+	n, err := pm.Recording.ReadChannels(dst)
+	pm.read += n
+	pm.p.At(float64(pm.read) / pm.SampleRate())
+	return n, err
+}
