@@ -26,6 +26,7 @@ func runListen(e *env, args []string) error {
 	fs := newFlags("listen")
 	mf := addMusicalFlags(fs)
 	jf := addJournalFlags(fs)
+	players := addPlayersFlag(fs)
 	vf := addVoiceFlags(fs)
 	device := fs.String("device", "", "input device: index or part of the name as 'fifthline devices' lists it (default: the system's default input)")
 	channel := fs.Int("channel", 1, "input channel to read, counted from 1")
@@ -59,6 +60,12 @@ func runListen(e *env, args []string) error {
 	} else if voices && !*plain {
 		return usagef("listen --voices needs --plain: the meter has no chord view yet")
 	}
+	po, group, err := playersOptions(fs, *players)
+	if err != nil {
+		return err
+	} else if group && !*plain {
+		return usagef("listen --players needs --plain: the meter has no view of the group yet")
+	}
 	ctx := e.ctx
 	if *duration > 0 {
 		var cancel context.CancelFunc
@@ -70,12 +77,19 @@ func runListen(e *env, args []string) error {
 		return err
 	}
 	defer restore()
-	in, err := capture.OpenInput(capture.InputOptions{Device: *device, Channel: *channel})
+	inOpts := capture.InputOptions{Device: *device, Channel: *channel}
+	if group {
+		inOpts.Channels = po.carried()
+	}
+	in, err := capture.OpenInput(inOpts)
 	if err != nil {
 		return errors.Join(err, j.close())
 	}
 	opts := session.Options{Name: in.Device().Name, Tunings: session.NewTunings(tu)}
-	if voices {
+	if group {
+		mf.say(e.stderr, tu)
+		err = listenPlayers(ctx, e, in, opts.Name, tu, po, j)
+	} else if voices {
 		mf.say(e.stderr, tu)
 		err = listenVoices(ctx, e, in, opts.Name, tu, vo, j)
 	} else if *plain {

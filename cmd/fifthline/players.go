@@ -3,6 +3,7 @@ package main
 import (
 	"cmp"
 	"context"
+	"encoding/csv"
 	"errors"
 	"flag"
 	"fmt"
@@ -190,4 +191,62 @@ func (pm *progressMulti) ReadChannels(dst [][]float32) (int, error) {
 	pm.read += n
 	pm.p.At(float64(pm.read) / pm.SampleRate())
 	return n, err
+}
+
+// carried are the interface channels the players are on, counted from 1,
+// in the order a live input delivers them; each player's Channel becomes
+// their place in it.
+func (po *playerOptions) carried() []int {
+	var chans []int
+	for i, p := range po.players {
+		chans = append(chans, p.Channel+1)
+		po.players[i].Channel = i
+	}
+	return chans
+}
+
+// listenPlayers is listen --plain --players: the CSV header, then each
+// player's held note as it ends, flushed at once; with --chords the
+// chord rows follow when listening stops, since a chord is known only
+// once its notes end. start_s counts from the start of capture.
+func listenPlayers(ctx context.Context, e *env, src *capture.Input, name string, tu target.Tuning, po playerOptions, j *journalSink) error {
+	w := csv.NewWriter(e.stdout)
+	head := append(session.Header(false), playerColumns...)
+	if po.chords {
+		head = playersChordHeader(false)
+	}
+	w.Write(head)
+	w.Flush()
+	if err := w.Error(); err != nil {
+		return err
+	}
+	interface_ := src.Carried()
+	var notes []ensemble.Note
+	tracks := make([]ensemble.Track, len(po.players))
+	o := ensemble.Options{Name: name, Players: po.players, Tunings: session.NewTunings(tu),
+		OnNote: func(n ensemble.Note) error {
+			j.note(n.Event)
+			notes = append(notes, n)
+			if po.chords {
+				return nil
+			}
+			n.Player.Channel = interface_[n.Player.Channel] - 1 // as printed on the interface
+			w.Write(playerNote{n}.record(false))
+			w.Flush()
+			return w.Error()
+		}}
+	if po.chords {
+		o.OnFrame = func(i int, est pitchdetect.Estimate) { tracks[i].Add(est.Time, est.Hz) }
+	}
+	err := ensemble.Run(ctx, src, o)
+	if po.chords {
+		sortPlayerNotes(notes)
+		for _, c := range ensemble.Chords(notes, tracks, po.players, tu, po.seventh) {
+			for _, rec := range chordRecords(c, "", false) {
+				w.Write(rec)
+			}
+		}
+		w.Flush()
+	}
+	return cmp.Or(err, w.Error())
 }
