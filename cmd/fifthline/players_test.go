@@ -189,24 +189,19 @@ func TestAnalyzePlayersUsageErrors(t *testing.T) {
 func TestListenPlayersHearsTheQuartetLive(t *testing.T) {
 	mic := vmic.IsolateChannels(t, "front-left", "front-right", "rear-left", "rear-right")
 	quartet := soxQuartet(t)
-	type result struct {
-		code        int
-		out, stderr string
-	}
-	done := make(chan result, 1)
-	go func() {
-		code, out, stderr := runCLI(t, "listen", "--plain", "--players", "vc,vla,vl2,vl1", "--duration", "7s")
-		done <- result{code, out, stderr}
-	}()
-	time.Sleep(1500 * time.Millisecond) // the stream is up (PortAudio's start through ALSA and PulseAudio)
-	if err := mic.PlayChannels(quartet)(); err != nil {
+	wait, proc := startPlainProcess(t, nil, "--players", "vc,vla,vl2,vl1", "--duration", "120s")
+	if err := mic.PlayChannels(quartet)(); err != nil { // returns once the take has played
 		t.Fatal(err)
 	}
-	r := <-done
-	if r.code != 0 {
-		t.Fatalf("exit %d: %s", r.code, r.stderr)
+	time.Sleep(700 * time.Millisecond) // the last notes' release reaches the input
+	if err := proc.Signal(os.Interrupt); err != nil {
+		t.Fatal(err)
 	}
-	header, rows := readCSV(t, r.out)
+	code, out, stderr := wait()
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	header, rows := readCSV(t, out)
 	if strings.Join(header[len(header)-2:], ",") != "player,channel" {
 		t.Fatalf("header %v", header)
 	}
@@ -220,7 +215,7 @@ func TestListenPlayersHearsTheQuartetLive(t *testing.T) {
 	}
 	for p, notes := range want {
 		if strings.Join(got[p], " ") != strings.Join(notes, " ") {
-			t.Errorf("%s played %v, heard %v:\n%s", p, notes, got[p], r.out)
+			t.Errorf("%s played %v, heard %v:\n%s", p, notes, got[p], out)
 		}
 	}
 }
