@@ -33,14 +33,19 @@ import (
 func TestPlayerDroneIsCancelledFromTheMicrophone(t *testing.T) {
 	evs, underruns := droneUnderMicrophone(t)
 	t.Logf("%d output callbacks played silence (the benchmark counts them)", underruns)
-	onNote := 0
+	// On a loaded machine the sound server may starve for a moment and
+	// leave a gap in the note itself, which then reads as two: that the
+	// note is heard whole, once, is the benchmark's to show. Here the
+	// note's pieces must cover most of it.
+	onNote, first, last, covered := 0, math.Inf(1), 0.0, 0.0
 	for _, ev := range evs {
 		if c := 1200 * math.Log2(ev.Hz/noteHz); math.Abs(c) <= 1 {
 			onNote++
+			first, last, covered = math.Min(first, ev.Start), math.Max(last, ev.End), covered+ev.End-ev.Start
 		}
 	}
-	if onNote != 1 {
-		t.Errorf("the played note was read %d times within 1 ¢, want once", onNote)
+	if onNote == 0 || covered < 0.75*(last-first) {
+		t.Errorf("the played note was read in %d pieces covering %.2f of %.2f s", onNote, covered, last-first)
 	}
 	for _, ev := range evs {
 		c := 1200 * math.Log2(ev.Hz/noteHz)
@@ -55,10 +60,13 @@ func TestPlayerDroneIsCancelledFromTheMicrophone(t *testing.T) {
 // an unloaded machine can promise: not one output callback short of sound.
 func BenchmarkPlayerDroneUnderMicrophone(b *testing.B) {
 	for b.Loop() {
-		_, u := droneUnderMicrophone(b)
+		evs, u := droneUnderMicrophone(b)
 		b.ReportMetric(float64(u), "underruns")
 		if u != 0 {
 			b.Errorf("%d output callbacks played silence for want of rendered sound", u)
+		}
+		if len(evs) != 1 {
+			b.Errorf("the played note was read as %d notes, want one", len(evs))
 		}
 	}
 }

@@ -40,7 +40,7 @@ func recording(t *testing.T) (rate float64, stop func() []float32) {
 		}
 	}()
 	// The null sink may take a moment to wake: wait for its first audio.
-	for deadline := time.Now().Add(5 * time.Second); time.Now().Before(deadline); time.Sleep(10 * time.Millisecond) {
+	for deadline := time.Now().Add(hangPatience); time.Now().Before(deadline); time.Sleep(10 * time.Millisecond) {
 		mu.Lock()
 		n := len(got)
 		mu.Unlock()

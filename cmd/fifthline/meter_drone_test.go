@@ -138,7 +138,7 @@ func TestMeterSaysWhenTheDroneOutputIsLost(t *testing.T) {
 	m.waitFor(`drone: C3 at −18 dBFS`)
 	time.Sleep(time.Second)
 	out.Suspend()
-	deadline := time.Now().Add(8 * time.Second)
+	deadline := time.Now().Add(hangPatience)
 	for !strings.Contains(m.screen(), "no sound: output device lost") {
 		if time.Now().After(deadline) {
 			t.Fatalf("no word of the lost output:\n%s", m.screen())

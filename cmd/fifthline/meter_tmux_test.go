@@ -59,7 +59,7 @@ func (m *tmuxMeter) screen() string { return m.tmux("capture-pane", "-p", "-t", 
 // waitFor polls the screen until every pattern matches, and returns it.
 func (m *tmuxMeter) waitFor(patterns ...string) string {
 	m.t.Helper()
-	deadline := time.Now().Add(8 * time.Second)
+	deadline := time.Now().Add(hangPatience)
 	for {
 		s := m.screen()
 		missing := ""
@@ -82,7 +82,7 @@ func (m *tmuxMeter) waitFor(patterns ...string) string {
 // exitStatus waits for the command to end and returns its exit status.
 func (m *tmuxMeter) exitStatus() string {
 	m.t.Helper()
-	deadline := time.Now().Add(8 * time.Second)
+	deadline := time.Now().Add(hangPatience)
 	for time.Now().Before(deadline) {
 		if data, err := os.ReadFile(m.rcFile); err == nil && len(data) > 0 {
 			return strings.TrimSpace(string(data))
@@ -206,3 +206,9 @@ func TestMeterWithoutATerminalIsAOneLineError(t *testing.T) {
 		t.Errorf("stderr %q does not point to --plain", stderr.String())
 	}
 }
+
+// hangPatience is how long a test waits for the screen to show something
+// or the command to end before calling it a hang. It is no measure of
+// speed (that is make bench's): a machine with both cores busy may take
+// many seconds to start a stream or close one.
+const hangPatience = 30 * time.Second
