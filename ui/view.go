@@ -6,6 +6,8 @@ import (
 	"strings"
 
 	"github.com/mattn/go-runewidth"
+
+	"fifthline/target"
 )
 
 // role says what a piece of text is, so the screen can style it. The text
@@ -66,17 +68,11 @@ func padRight(s string, w int) string {
 
 // cents formats a signed cents value with one decimal and a true minus
 // sign, never "−0.0".
-func cents(c float64) string {
-	s := fmt.Sprintf("%+.1f", c)
-	if s == "+0.0" || s == "-0.0" {
-		return "0.0"
-	}
-	return minus(s)
-}
+func cents(c float64) string { return minus(target.Signed(c, 1)) }
 
 // wholeCents formats signed cents rounded to a whole cent, "+41", "−3",
 // and "0" for anything that rounds to nothing.
-func wholeCents(c float64) string { return minus(fmt.Sprintf("%+.0f", c)) }
+func wholeCents(c float64) string { return minus(target.Signed(c, 0)) }
 
 // minus writes a true minus sign for a leading hyphen; "-0" and "+0" read as "0".
 func minus(s string) string {
