@@ -9,6 +9,8 @@ import (
 	"strconv"
 	"strings"
 	"text/tabwriter"
+
+	"fifthline/target"
 )
 
 // Title describes a group in one line: "Ann · G major · 1/4-comma meantone ·
@@ -129,9 +131,9 @@ func (t *trimmed) Write(b []byte) (int, error) {
 func textRow(w io.Writer, s Stats, opt Options) {
 	cells := []string{s.Label, strconv.Itoa(s.Count), "—", "—", "—", "—", "—", "—", "—", "—", "—"}
 	if s.Count > 0 {
-		cells[2], cells[3], cells[5] = signed(s.Mean), signed(s.Median), fixed(s.Spread, 1)
+		cells[2], cells[3], cells[5] = target.Signed(s.Mean, 1), target.Signed(s.Median, 1), target.Decimal(s.Spread, 1)
 		if s.Count > 1 { // one note has no scatter
-			cells[4] = fixed(s.Scatter, 1)
+			cells[4] = target.Decimal(s.Scatter, 1)
 		}
 		cells[7] = fmt.Sprintf("%d of %d", s.Within, s.Count)
 		cells[8] = s.Tendency
@@ -140,7 +142,7 @@ func textRow(w io.Writer, s Stats, opt Options) {
 		cells[6] = fmt.Sprintf("%.0f in %d", s.Vibrato, s.VibratoNotes)
 	}
 	if s.Other.Count > 0 {
-		cells[9] = fmt.Sprintf("%d on %s (%s ¢)", s.Other.Count, s.Other.Label, signed(s.Other.Mean))
+		cells[9] = fmt.Sprintf("%d on %s (%s ¢)", s.Other.Count, s.Other.Label, target.Signed(s.Other.Mean, 1))
 	}
 	if s.Trend.Known {
 		cells[10] = s.Trend.Words
@@ -180,20 +182,20 @@ func WriteCSV(w io.Writer, groups []Group, opt Options) error {
 				r = append(r, s.Rehearsal)
 			}
 			r = append(r, level, s.Label, strconv.Itoa(s.Fifths), strconv.Itoa(s.Count))
-			r = append(r, ifAny(s.Count, fixed(s.Mean, 2), fixed(s.Median, 2))...)
-			r = append(r, ifAny(s.Count-1, fixed(s.Scatter, 2))...)
-			r = append(r, ifAny(s.Count, fixed(s.Spread, 2))...)
-			r = append(r, ifAny(s.VibratoNotes, fixed(s.Vibrato, 1))...)
+			r = append(r, ifAny(s.Count, target.Decimal(s.Mean, 2), target.Decimal(s.Median, 2))...)
+			r = append(r, ifAny(s.Count-1, target.Decimal(s.Scatter, 2))...)
+			r = append(r, ifAny(s.Count, target.Decimal(s.Spread, 2))...)
+			r = append(r, ifAny(s.VibratoNotes, target.Decimal(s.Vibrato, 1))...)
 			r = append(r, strconv.Itoa(s.VibratoNotes), strconv.Itoa(s.Within))
-			r = append(r, ifAny(s.Count, fixed(s.Share, 3), s.Tendency)...)
+			r = append(r, ifAny(s.Count, target.Decimal(s.Share, 3), s.Tendency)...)
 			r = append(r, strconv.Itoa(s.Other.Count), s.Other.Label)
-			r = append(r, ifAny(s.Other.Count, fixed(s.Other.Mean, 2))...)
+			r = append(r, ifAny(s.Other.Count, target.Decimal(s.Other.Mean, 2))...)
 			known := 0
 			if s.Trend.Known {
 				known = 1
 			}
-			r = append(r, ifAny(known, fixed(s.Trend.SlopePerMinute, 4), fixed(s.Trend.Drift, 2))...)
-			r = append(r, fixed(s.Trend.Minutes, 2), s.Trend.Words)
+			r = append(r, ifAny(known, target.Decimal(s.Trend.SlopePerMinute, 4), target.Decimal(s.Trend.Drift, 2))...)
+			r = append(r, target.Decimal(s.Trend.Minutes, 2), s.Trend.Words)
 			cw.Write(r)
 		}
 		for _, s := range g.Notes {
@@ -240,20 +242,3 @@ func plural(n int, thing string) string {
 	return strconv.Itoa(n) + " " + thing + "s"
 }
 
-// fixed formats x with the given decimals, never as "-0.0".
-func fixed(x float64, decimals int) string {
-	s := strconv.FormatFloat(x, 'f', decimals, 64)
-	if strings.Trim(s, "-0.") == "" {
-		return strings.TrimPrefix(s, "-")
-	}
-	return s
-}
-
-// signed formats cents with a sign: "+6.1", "-3.0", "0.0".
-func signed(x float64) string {
-	s := fixed(x, 1)
-	if s != "0.0" && !strings.HasPrefix(s, "-") {
-		return "+" + s
-	}
-	return s
-}

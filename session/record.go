@@ -2,6 +2,8 @@ package session
 
 import (
 	"strconv"
+
+	"fifthline/target"
 )
 
 // Columns is the header of a held-note CSV line, as the interface contract
@@ -29,21 +31,10 @@ func (ev Event) Record(withFile bool) []string {
 	}
 	altNote, altCents := "", ""
 	if r.HasAlt {
-		altNote, altCents = r.AltWritten.String(), Decimal(r.AltDeviation, 2)
+		altNote, altCents = r.AltWritten.String(), target.Decimal(r.AltDeviation, 2)
 	}
 	return append(rec,
-		Decimal(ev.Start, 3), Decimal(ev.End, 3), r.Written.String(), Decimal(r.Hz, 4), Decimal(r.TargetHz, 4),
-		Decimal(r.Deviation, 2), altNote, altCents, strconv.FormatBool(r.OnOther), strconv.FormatBool(r.SamePitch),
-		Decimal(ev.Spread, 2), Decimal(ev.VibratoWidth, 1), Decimal(ev.VibratoRate, 2))
-}
-
-// Decimal formats x with the given decimals, never as "-0.00".
-func Decimal(x float64, decimals int) string {
-	s := strconv.FormatFloat(x, 'f', decimals, 64)
-	if s[0] == '-' {
-		if z, err := strconv.ParseFloat(s, 64); err == nil && z == 0 {
-			return s[1:]
-		}
-	}
-	return s
+		target.Decimal(ev.Start, 3), target.Decimal(ev.End, 3), r.Written.String(), target.Decimal(r.Hz, 4), target.Decimal(r.TargetHz, 4),
+		target.Decimal(r.Deviation, 2), altNote, altCents, strconv.FormatBool(r.OnOther), strconv.FormatBool(r.SamePitch),
+		target.Decimal(ev.Spread, 2), target.Decimal(ev.VibratoWidth, 1), target.Decimal(ev.VibratoRate, 2))
 }

@@ -137,7 +137,7 @@ func TestRecordMatchesHeader(t *testing.T) {
 			t.Errorf("withFile %v: %d columns, %d values", wf, len(h), len(r))
 		}
 	}
-	if got := Decimal(-0.0001, 2); got != "0.00" {
-		t.Errorf("Decimal(-0.0001, 2) = %q", got)
+	if got := target.Decimal(-0.0001, 2); got != "0.00" {
+		t.Errorf("target.Decimal(-0.0001, 2) = %q", got)
 	}
 }

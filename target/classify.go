@@ -3,7 +3,6 @@ package target
 import (
 	"fmt"
 	"math"
-	"strconv"
 )
 
 // Reading is what a measured frequency means in a tuning: the window note
@@ -174,10 +173,7 @@ func abs(x int) int {
 // FormatCents writes a signed number of cents with the given decimals and the
 // cent sign ("+3.2¢", "-0.4¢"), never "-0.0¢".
 func FormatCents(c float64, decimals int) string {
-	s := strconv.FormatFloat(c, 'f', decimals, 64)
-	if z, err := strconv.ParseFloat(s, 64); err == nil && z == 0 {
-		s = strconv.FormatFloat(0, 'f', decimals, 64)
-	}
+	s := Decimal(c, decimals)
 	if s[0] != '-' {
 		s = "+" + s
 	}

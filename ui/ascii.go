@@ -76,7 +76,7 @@ func toASCII(s string) string {
 }
 
 // asciiLines rewrites every span of lines in ASCII, in place.
-func asciiLines(lines []Line) {
+func asciiLines(lines []screenLine) {
 	for _, l := range lines {
 		for i := range l {
 			l[i].Text = toASCII(l[i].Text)

@@ -22,7 +22,7 @@ func TestTheASCIIScreenUsesTheContractsAccidentals(t *testing.T) {
 		m := holding(tu, hz)
 		m.ASCII = true
 		var screen strings.Builder
-		for _, l := range Layout(m, 80, 24) {
+		for _, l := range layout(m, 80, 24) {
 			if w := utf8.RuneCountInString(l.Text()); w > 80 {
 				t.Errorf("line of %d columns: %q", w, l.Text())
 			}

@@ -6,8 +6,8 @@
 // glyphs, readable from a music stand; below it runs a ±50 ¢ trace of the
 // last seconds and a status line.
 //
-// The screen is a thin edge: Model holds what the meter knows, the region
-// functions (Headline, Words, FifthsRows, Trace, …) turn it into plain text
+// The screen is a thin edge: model holds what the meter knows, the region
+// functions (bigLines, words, fifthsRows, trace, …) turn it into plain text
 // lines with roles, and only Meter touches tview and tcell. Tuning logic
 // stays in package target; sound and pitch stay in session. It plays
 // nothing itself (its drone and reference keys ask a Sound, which the

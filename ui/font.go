@@ -2,13 +2,13 @@ package ui
 
 import "strings"
 
-// GlyphRows is the height of the large glyphs.
-const GlyphRows = 5
+// glyphRows is the height of the large glyphs.
+const glyphRows = 5
 
 // font is our own block font, five rows high: '#' is a filled cell. It
 // covers what the meter writes large: note letters, accidentals, octave
 // digits and signed cents.
-var font = map[rune][GlyphRows]string{
+var font = map[rune][glyphRows]string{
 	'A': {".##.", "#..#", "####", "#..#", "#..#"},
 	'B': {"###.", "#..#", "###.", "#..#", "###."},
 	'C': {".###", "#...", "#...", "#...", ".###"},
@@ -41,10 +41,10 @@ var font = map[rune][GlyphRows]string{
 // ink turns a glyph pattern into screen cells.
 var ink = strings.NewReplacer(".", " ", "#", "█")
 
-// Big renders text in the block font, one string per row, glyphs one
+// big renders text in the block font, one string per row, glyphs one
 // column apart. Runes the font lacks are skipped.
-func Big(text string) [GlyphRows]string {
-	var rows [GlyphRows]strings.Builder
+func big(text string) [glyphRows]string {
+	var rows [glyphRows]strings.Builder
 	first := true
 	for _, r := range text {
 		g, ok := font[r]
@@ -59,15 +59,15 @@ func Big(text string) [GlyphRows]string {
 		}
 		first = false
 	}
-	var out [GlyphRows]string
+	var out [glyphRows]string
 	for i := range rows {
 		out[i] = rows[i].String()
 	}
 	return out
 }
 
-// BigWidth is how many columns Big(text) takes.
-func BigWidth(text string) int {
+// bigWidth is how many columns Big(text) takes.
+func bigWidth(text string) int {
 	w, n := 0, 0
 	for _, r := range text {
 		if g, ok := font[r]; ok {

@@ -8,43 +8,43 @@ import (
 	"fifthline/target"
 )
 
-// Action changes the tuning for a key press and says what it did; start is
+// action changes the tuning for a key press and says what it did; start is
 // the tuning the meter began with.
-type Action func(cur, start target.Tuning) (target.Tuning, string)
+type action func(cur, start target.Tuning) (target.Tuning, string)
 
-// Binding is one key of the meter: the keys that trigger it (tcell key
+// binding is one key of the meter: the keys that trigger it (tcell key
 // names such as "Right", or single characters), how the help shows them,
 // and what it does.
-type Binding struct {
+type binding struct {
 	Keys  []string
 	Label string
 	What  string
-	Act   Action
+	Act   action
 }
 
-// Bindings are the meter's tuning keys, in the order the help lists them.
+// bindings are the meter's tuning keys, in the order the help lists them.
 // Help, quit and the sound keys are the meter's own (?, h, Esc, q; d, s,
 // space: see Sound).
-var Bindings = []Binding{
-	{[]string{"Right", "l"}, "→", "tonic one fifth up the line (C → G)", func(t, _ target.Tuning) (target.Tuning, string) { return MoveTonic(t, 1) }},
-	{[]string{"Left", "j"}, "←", "tonic one fifth down the line (C → F)", func(t, _ target.Tuning) (target.Tuning, string) { return MoveTonic(t, -1) }},
-	{[]string{"m"}, "m M", "next / previous mode", func(t, _ target.Tuning) (target.Tuning, string) { return CycleMode(t, 1) }},
-	{[]string{"M"}, "", "", func(t, _ target.Tuning) (target.Tuning, string) { return CycleMode(t, -1) }},
-	{[]string{"t"}, "t T", "next / previous temperament", func(t, _ target.Tuning) (target.Tuning, string) { return CycleTemperament(t, 1) }},
-	{[]string{"T"}, "", "", func(t, _ target.Tuning) (target.Tuning, string) { return CycleTemperament(t, -1) }},
-	{[]string{"Up", "+"}, "↑ ↓", "A4 up / down 1 Hz", func(t, _ target.Tuning) (target.Tuning, string) { return NudgeA4(t, 1) }},
-	{[]string{"Down", "-"}, "", "", func(t, _ target.Tuning) (target.Tuning, string) { return NudgeA4(t, -1) }},
-	{[]string{"]"}, "] [", "A4 up / down 0.1 Hz", func(t, _ target.Tuning) (target.Tuning, string) { return NudgeA4(t, 0.1) }},
-	{[]string{"["}, "", "", func(t, _ target.Tuning) (target.Tuning, string) { return NudgeA4(t, -0.1) }},
+var bindings = []binding{
+	{[]string{"Right", "l"}, "→", "tonic one fifth up the line (C → G)", func(t, _ target.Tuning) (target.Tuning, string) { return moveTonic(t, 1) }},
+	{[]string{"Left", "j"}, "←", "tonic one fifth down the line (C → F)", func(t, _ target.Tuning) (target.Tuning, string) { return moveTonic(t, -1) }},
+	{[]string{"m"}, "m M", "next / previous mode", func(t, _ target.Tuning) (target.Tuning, string) { return cycleMode(t, 1) }},
+	{[]string{"M"}, "", "", func(t, _ target.Tuning) (target.Tuning, string) { return cycleMode(t, -1) }},
+	{[]string{"t"}, "t T", "next / previous temperament", func(t, _ target.Tuning) (target.Tuning, string) { return cycleTemperament(t, 1) }},
+	{[]string{"T"}, "", "", func(t, _ target.Tuning) (target.Tuning, string) { return cycleTemperament(t, -1) }},
+	{[]string{"Up", "+"}, "↑ ↓", "A4 up / down 1 Hz", func(t, _ target.Tuning) (target.Tuning, string) { return nudgeA4(t, 1) }},
+	{[]string{"Down", "-"}, "", "", func(t, _ target.Tuning) (target.Tuning, string) { return nudgeA4(t, -1) }},
+	{[]string{"]"}, "] [", "A4 up / down 0.1 Hz", func(t, _ target.Tuning) (target.Tuning, string) { return nudgeA4(t, 0.1) }},
+	{[]string{"["}, "", "", func(t, _ target.Tuning) (target.Tuning, string) { return nudgeA4(t, -0.1) }},
 	{[]string{"r"}, "r", "back to the tuning the meter started with", func(_, s target.Tuning) (target.Tuning, string) { return s, "back to " + tuningWords(s) }},
 }
 
 // maxSignature is where key signatures stop (seven sharps or flats).
 const maxSignature = 7
 
-// MoveTonic moves the key's tonic steps places along the line of fifths,
+// moveTonic moves the key's tonic steps places along the line of fifths,
 // keeping the mode. It refuses to go past seven sharps or flats and says so.
-func MoveTonic(tu target.Tuning, steps int) (target.Tuning, string) {
+func moveTonic(tu target.Tuning, steps int) (target.Tuning, string) {
 	k := tu.Key
 	k.Tonic = k.Tonic.Transpose(target.Interval{Fifths: steps})
 	k.Tonic.Octave = 4
@@ -69,9 +69,9 @@ func signatureWords(sig int) string {
 	return fmt.Sprintf("%d flats", -sig)
 }
 
-// CycleMode steps through target.Modes on the same tonic. A mode whose
+// cycleMode steps through target.Modes on the same tonic. A mode whose
 // signature would pass seven sharps or flats is skipped.
-func CycleMode(tu target.Tuning, step int) (target.Tuning, string) {
+func cycleMode(tu target.Tuning, step int) (target.Tuning, string) {
 	i := 0
 	for j, m := range target.Modes {
 		if m == tu.Key.Mode {
@@ -90,9 +90,9 @@ func CycleMode(tu target.Tuning, step int) (target.Tuning, string) {
 	return tu, "no other mode on " + tu.Key.Tonic.PrettyName()
 }
 
-// CycleTemperament steps through target.Builtin. From a temperament not in
+// cycleTemperament steps through target.Builtin. From a temperament not in
 // the list (a custom file, fifth:CENTS) it starts at the list's first.
-func CycleTemperament(tu target.Tuning, step int) (target.Tuning, string) {
+func cycleTemperament(tu target.Tuning, step int) (target.Tuning, string) {
 	i := -1
 	for j, s := range target.Builtin {
 		if tu.Temperament != nil && strings.EqualFold(s, tu.Temperament.Spec()) {
@@ -112,9 +112,9 @@ func CycleTemperament(tu target.Tuning, step int) (target.Tuning, string) {
 	return tu, "temperament " + tm.Name()
 }
 
-// NudgeA4 moves the reference by delta hertz, kept to a tenth of a hertz and
+// nudgeA4 moves the reference by delta hertz, kept to a tenth of a hertz and
 // within target.MinA4 … target.MaxA4.
-func NudgeA4(tu target.Tuning, delta float64) (target.Tuning, string) {
+func nudgeA4(tu target.Tuning, delta float64) (target.Tuning, string) {
 	a := math.Round((tu.A4+delta)*10) / 10
 	a = math.Max(target.MinA4, math.Min(target.MaxA4, a))
 	tu.A4 = a

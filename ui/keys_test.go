@@ -32,7 +32,7 @@ func TestKeysMoveTheTonicAlongTheLineOfFifths(t *testing.T) {
 	} {
 		tu := target.Default()
 		tu.Key = key(t, c.from)
-		got, msg := MoveTonic(tu, c.steps)
+		got, msg := moveTonic(tu, c.steps)
 		if c.want == "" {
 			if got.Key != tu.Key || !strings.Contains(msg, "stop at seven") {
 				t.Errorf("%s %+d: moved to %s (%q), want refused", c.from, c.steps, got.Key.Pretty(), msg)
@@ -47,24 +47,24 @@ func TestKeysMoveTheTonicAlongTheLineOfFifths(t *testing.T) {
 
 func TestKeysCycleModesTemperamentsAndNudgeA4(t *testing.T) {
 	tu := target.Default()
-	if got, _ := CycleMode(tu, 1); got.Key.Pretty() != "C minor" {
+	if got, _ := cycleMode(tu, 1); got.Key.Pretty() != "C minor" {
 		t.Errorf("next mode from C major: %s", got.Key.Pretty())
 	}
-	if got, _ := CycleMode(tu, -1); got.Key.Pretty() != "C locrian" {
+	if got, _ := cycleMode(tu, -1); got.Key.Pretty() != "C locrian" {
 		t.Errorf("previous mode from C major: %s", got.Key.Pretty())
 	}
-	next, msg := CycleTemperament(tu, 1)
+	next, msg := cycleTemperament(tu, 1)
 	if next.Temperament.Spec() != target.Builtin[1] || !strings.Contains(msg, next.Temperament.Name()) {
 		t.Errorf("next temperament after equal: %s (%q)", next.Temperament.Spec(), msg)
 	}
-	if prev, _ := CycleTemperament(tu, -1); prev.Temperament.Spec() != target.Builtin[len(target.Builtin)-1] {
+	if prev, _ := cycleTemperament(tu, -1); prev.Temperament.Spec() != target.Builtin[len(target.Builtin)-1] {
 		t.Errorf("previous temperament wraps to %s", prev.Temperament.Spec())
 	}
 	for _, c := range []struct{ from, by, want float64 }{
 		{440, 1, 441}, {440, -0.1, 439.9}, {415, 0.1, 415.1}, {479.5, 1, target.MaxA4}, {380.05, -1, target.MinA4},
 	} {
 		tu.A4 = c.from
-		if got, _ := NudgeA4(tu, c.by); got.A4 != c.want {
+		if got, _ := nudgeA4(tu, c.by); got.A4 != c.want {
 			t.Errorf("A4 %g %+g = %g, want %g", c.from, c.by, got.A4, c.want)
 		}
 	}
@@ -72,10 +72,10 @@ func TestKeysCycleModesTemperamentsAndNudgeA4(t *testing.T) {
 
 func TestEveryBindingIsInTheHelp(t *testing.T) {
 	help := ""
-	for _, l := range HelpLines() {
+	for _, l := range helpLines() {
 		help += l.Text() + "\n"
 	}
-	for _, b := range Bindings {
+	for _, b := range bindings {
 		if b.Label != "" && !strings.Contains(help, b.What) {
 			t.Errorf("help lacks %q", b.What)
 		}

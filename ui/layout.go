@@ -24,16 +24,16 @@ func bigScale(h int) int {
 const maxBody = 96
 
 type section struct {
-	lines []Line
+	lines []screenLine
 	keep  int  // higher is dropped later when the screen is short
 	grow  bool // the trace: takes the rows left over
 }
 
-// Layout is the whole screen for w × h cells: exactly h lines, each at most w
+// layout is the whole screen for w × h cells: exactly h lines, each at most w
 // wide once clipped. On short screens the least needed parts go first
 // (spacing, the "from ET" row, the keys hint, the large glyphs), so the
 // spelled note, its cents and the status stay.
-func Layout(m *Model, w, h int) (out []Line) {
+func layout(m *model, w, h int) (out []screenLine) {
 	if w <= 0 || h <= 0 {
 		return nil
 	}
@@ -42,37 +42,37 @@ func Layout(m *Model, w, h int) (out []Line) {
 		defer func() { asciiLines(out) }()
 	}
 	if m.Help {
-		return frame(HelpLines(), w, bw, h)
+		return frame(helpLines(), w, bw, h)
 	}
-	fifths := FifthsRows(m, bw)
-	gap := func(keep int) section { return section{[]Line{nil}, keep, false} }
+	fifths := fifthsRows(m, bw)
+	gap := func(keep int) section { return section{[]screenLine{nil}, keep, false} }
 	parts := []section{
-		{[]Line{TuningLine(m)}, 10, false},
+		{[]screenLine{tuningLine(m)}, 10, false},
 		gap(2),
-		{BigLines(m, bw, bigScale(h)), 5, false},
-		{[]Line{Words(m)}, 9, false},
+		{bigLines(m, bw, bigScale(h)), 5, false},
+		{[]screenLine{words(m)}, 9, false},
 		gap(2),
 		{fifths[:2], 8, false},
 		{fifths[2:], 3, false},
 		gap(2),
-		{Trace(m, bw, minTraceRows), 6, true},
-		{[]Line{HeldLine(m)}, 7, false},
+		{trace(m, bw, minTraceRows), 6, true},
+		{[]screenLine{heldLine(m)}, 7, false},
 		gap(1),
-		{[]Line{InputLine(m)}, 9, false},
-		{[]Line{JournalLine(m)}, 8, false},
+		{[]screenLine{inputLine(m)}, 9, false},
+		{[]screenLine{journalLine(m)}, 8, false},
 		// The caution stands with the drone line it is about: both stay or go together.
-		{append(lines(SoundLine(m)), CautionLines(m, bw)...), 9, false},
-		{[]Line{HintLine(m)}, 4, false},
+		{append(lines(soundLine(m)), cautionLines(m, bw)...), 9, false},
+		{[]screenLine{hintLine(m)}, 4, false},
 	}
 	parts = fit(parts, h)
 	total := 0
 	for _, p := range parts {
 		total += len(p.lines)
 	}
-	var body []Line
+	var body []screenLine
 	for _, p := range parts {
 		if p.grow && total < h {
-			p.lines = Trace(m, bw, min(minTraceRows+h-total, maxTraceRows))
+			p.lines = trace(m, bw, min(minTraceRows+h-total, maxTraceRows))
 		}
 		body = append(body, p.lines...)
 	}
@@ -80,11 +80,11 @@ func Layout(m *Model, w, h int) (out []Line) {
 }
 
 // lines is l as a section's lines: none for an empty line.
-func lines(l Line) []Line {
+func lines(l screenLine) []screenLine {
 	if l == nil {
 		return nil
 	}
-	return []Line{l}
+	return []screenLine{l}
 }
 
 // fit drops the lowest-kept sections, last first among equals, until the
@@ -117,18 +117,18 @@ func fit(parts []section, h int) []section {
 }
 
 // frame centres the body bw wide in w columns and pads it to h lines.
-func frame(body []Line, w, bw, h int) []Line {
+func frame(body []screenLine, w, bw, h int) []screenLine {
 	left := (w - bw) / 2
-	out := make([]Line, h)
+	out := make([]screenLine, h)
 	for i := range out {
 		if i < len(body) && body[i] != nil {
 			if left > 0 {
-				out[i] = append(Line{text(strings.Repeat(" ", left), Plain)}, body[i]...)
+				out[i] = append(screenLine{text(strings.Repeat(" ", left), plainRole)}, body[i]...)
 			} else {
 				out[i] = body[i]
 			}
 		} else {
-			out[i] = Line{}
+			out[i] = screenLine{}
 		}
 	}
 	return out

@@ -15,10 +15,10 @@ import (
 	"fifthline/target"
 )
 
-// FrameRate caps how often the meter redraws: smooth enough for the trace,
+// frameRate caps how often the meter redraws: smooth enough for the trace,
 // slower than the eye reads the numbers, and a quarter cheaper than 20
 // (measured: listen with the meter, 4.5 % -> 4.1 % of a core).
-const FrameRate = 15
+const frameRate = 15
 
 // frameBuffer is how many analysis frames may wait for the screen (about
 // three seconds at the detector's default hop); beyond it frames are
@@ -58,14 +58,14 @@ type Meter struct {
 	ended   atomic.Bool
 	quit    chan struct{}
 	once    sync.Once
-	model   *Model             // touched only on tview's goroutine once Run starts
+	model   *model             // touched only on tview's goroutine once Run starts
 	drawn   func(tcell.Screen) // tests: called on tview's goroutine after each draw
 }
 
 // New makes a meter for the tuning opt.Tunings holds.
 func New(opt Options) *Meter {
 	tu := opt.Tunings.Get()
-	model := NewModel(tu, opt.Source)
+	model := newModel(tu, opt.Source)
 	model.HasSound, model.SoundLevel, model.Caution = opt.Sound != nil, opt.SoundLevel, opt.Caution
 	model.ASCII = opt.ASCII
 	return &Meter{
@@ -116,7 +116,7 @@ func (m *Meter) Run(ctx context.Context) error {
 	var screen tcell.Screen
 	root := &view{Box: tview.NewBox(), draw: func(s tcell.Screen, x, y, w, h int) {
 		screen = s
-		paint.paint(s, Layout(m.model, w, h), x, y, w, h, true)
+		paint.paint(s, layout(m.model, w, h), x, y, w, h, true)
 		if m.drawn != nil {
 			m.drawn(s)
 		}
@@ -127,7 +127,7 @@ func (m *Meter) Run(ctx context.Context) error {
 		if screen == nil {
 			return // tview has not drawn yet
 		}
-		paint.paint(screen, Layout(m.model, paint.w, paint.h), paint.x, paint.y, paint.w, paint.h, false)
+		paint.paint(screen, layout(m.model, paint.w, paint.h), paint.x, paint.y, paint.w, paint.h, false)
 		screen.Show()
 		if m.drawn != nil {
 			m.drawn(screen)
@@ -142,7 +142,7 @@ func (m *Meter) Run(ctx context.Context) error {
 	stop := func() { app.QueueUpdate(app.Stop) }
 	done := make(chan struct{})
 	go func() {
-		tick := time.NewTicker(time.Second / FrameRate)
+		tick := time.NewTicker(time.Second / frameRate)
 		defer tick.Stop()
 		for {
 			select {
@@ -226,7 +226,7 @@ func (m *Meter) key(app *tview.Application, ev *tcell.EventKey) *tcell.EventKey 
 		m.model.SoundReference(m.opt.Sound)
 		return nil
 	}
-	for _, b := range Bindings {
+	for _, b := range bindings {
 		for _, k := range b.Keys {
 			if k == name {
 				tu, msg := b.Act(m.model.Tuning, m.start)
@@ -242,10 +242,10 @@ func (m *Meter) key(app *tview.Application, ev *tcell.EventKey) *tcell.EventKey 
 }
 
 // styles give each role its emphasis; the text already says everything.
-var styles = map[Role]tcell.Style{
-	Plain: tcell.StyleDefault,
-	Dim:   tcell.StyleDefault.Dim(true),
-	Lit:   tcell.StyleDefault.Bold(true),
-	Other: tcell.StyleDefault.Underline(true),
-	Warn:  tcell.StyleDefault.Bold(true).Reverse(true),
+var styles = map[role]tcell.Style{
+	plainRole: tcell.StyleDefault,
+	dim:       tcell.StyleDefault.Dim(true),
+	lit:       tcell.StyleDefault.Bold(true),
+	other:     tcell.StyleDefault.Underline(true),
+	warn:      tcell.StyleDefault.Bold(true).Reverse(true),
 }

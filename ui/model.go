@@ -9,17 +9,17 @@ import (
 	"fifthline/target"
 )
 
-// TraceSeconds is how much of the player's recent pitch the trace shows.
-const TraceSeconds = 4.0
+// traceSeconds is how much of the player's recent pitch the trace shows.
+const traceSeconds = 4.0
 
 // clipHold is how long a clipping warning stays up after the last clipped
 // sample, so that a single loud attack is still seen.
 const clipHold = 2.0
 
-// Model is what the meter knows at one moment. It holds raw pitches, not
+// model is what the meter knows at one moment. It holds raw pitches, not
 // readings: every reading is made at render time in the current Tuning, so
 // the screen never mixes two tunings after a key press.
-type Model struct {
+type model struct {
 	Tuning target.Tuning
 	Source string // what is being heard: a device name, "demo performance"
 
@@ -29,12 +29,12 @@ type Model struct {
 	Level   float64 // latest frame's RMS level, dBFS
 
 	Holding  bool
-	Held     Held // the note being held, or the last one held
+	Held     held // the note being held, or the last one held
 	HasHeld  bool
 	Notes    int // held notes finished so far
 	Finished bool
 
-	Input   InputState
+	Input   inputState
 	Journal string // "journal: off", "journal: FILE, N notes"
 	Message string // the last key's effect, shown for messageSeconds
 	Help    bool
@@ -50,16 +50,16 @@ type Model struct {
 	lastClip  float64 // stream time more were first seen
 }
 
-// Held is a held note as the meter shows it: its centre pitch and shape.
-type Held struct {
+// held is a held note as the meter shows it: its centre pitch and shape.
+type held struct {
 	Hz                        float64
 	Start, End                float64 // stream seconds
 	Spread                    float64 // cents
 	VibratoWidth, VibratoRate float64 // cents peak to peak, Hz
 }
 
-// InputState is the input's health as the status line reports it.
-type InputState struct {
+// inputState is the input's health as the status line reports it.
+type inputState struct {
 	Known              bool // false for sources without device statistics
 	PeakDBFS           float64
 	Clipping           bool
@@ -74,9 +74,9 @@ type tracePoint struct {
 	target float64
 }
 
-// NewModel starts a model for the tuning, with nothing heard yet.
-func NewModel(tu target.Tuning, source string) *Model {
-	return &Model{Tuning: tu, Source: source, Level: math.Inf(-1), Journal: "journal: off"}
+// newModel starts a model for the tuning, with nothing heard yet.
+func newModel(tu target.Tuning, source string) *model {
+	return &model{Tuning: tu, Source: source, Level: math.Inf(-1), Journal: "journal: off"}
 }
 
 // holdBridge is how long after its last frame a note still shows as held.
@@ -86,10 +86,10 @@ const holdBridge = 0.05
 const messageSeconds = 4.0
 
 // Say shows a message in place of the keys hint for a few seconds.
-func (m *Model) Say(msg string) { m.Message, m.messageAt = msg, m.Now }
+func (m *model) Say(msg string) { m.Message, m.messageAt = msg, m.Now }
 
 // AddFrame takes one analysis frame from the session.
-func (m *Model) AddFrame(f session.Frame) {
+func (m *model) AddFrame(f session.Frame) {
 	m.Now, m.Voiced, m.Level = f.Time, f.Voiced, f.Level
 	m.FrameHz = 0
 	if f.Voiced {
@@ -107,7 +107,7 @@ func (m *Model) AddFrame(f session.Frame) {
 	m.trace = append(m.trace, p)
 	// Forget what has scrolled off; reuse the slice's memory.
 	cut := 0
-	for cut < len(m.trace) && m.trace[cut].t < m.Now-TraceSeconds {
+	for cut < len(m.trace) && m.trace[cut].t < m.Now-traceSeconds {
 		cut++
 	}
 	if cut > 0 {
@@ -116,19 +116,19 @@ func (m *Model) AddFrame(f session.Frame) {
 }
 
 // AddNote takes a finished held note: its summary replaces the running one.
-func (m *Model) AddNote(ev session.Event) {
+func (m *model) AddNote(ev session.Event) {
 	m.Held, m.HasHeld = heldOf(ev.Held), true
 	m.Notes++
 }
 
-func heldOf(h pitchdetect.Held) Held {
-	return Held{Hz: h.Hz, Start: h.Start, End: h.End, Spread: h.Spread, VibratoWidth: h.VibratoWidth, VibratoRate: h.VibratoRate}
+func heldOf(h pitchdetect.Held) held {
+	return held{Hz: h.Hz, Start: h.Start, End: h.End, Spread: h.Spread, VibratoWidth: h.VibratoWidth, VibratoRate: h.VibratoRate}
 }
 
 // SetInput updates the input health from the capture's running statistics.
 // Clipping shows while clipped samples keep arriving and for clipHold
 // seconds after the last.
-func (m *Model) SetInput(s source.InputStats) {
+func (m *model) SetInput(s source.InputStats) {
 	m.Input.Known = true
 	m.Input.PeakDBFS = s.PeakDBFS()
 	m.Input.Overflows, m.Input.Dropped = s.Overflows, s.DroppedBlocks
@@ -140,7 +140,7 @@ func (m *Model) SetInput(s source.InputStats) {
 
 // Reading is the held (or last held) note read in the current tuning; ok is
 // false before any note.
-func (m *Model) Reading() (target.Reading, bool) {
+func (m *model) Reading() (target.Reading, bool) {
 	if !m.HasHeld {
 		return target.Reading{}, false
 	}

@@ -18,13 +18,13 @@ type painter struct {
 
 type cell struct {
 	r    rune // 0: the right half of a wide rune
-	role Role
+	role role
 }
 
 // paint puts lines on s in the rectangle (x, y, w, h), padded with spaces.
 // With full set it writes every cell (the screen was cleared, or the
 // rectangle moved); otherwise only those that differ from the last paint.
-func (p *painter) paint(s tcell.Screen, lines []Line, x, y, w, h int, full bool) {
+func (p *painter) paint(s tcell.Screen, lines []screenLine, x, y, w, h int, full bool) {
 	if w <= 0 || h <= 0 {
 		return
 	}
@@ -34,7 +34,7 @@ func (p *painter) paint(s tcell.Screen, lines []Line, x, y, w, h int, full bool)
 		full = true
 	}
 	for row := range h {
-		var l Line
+		var l screenLine
 		if row < len(lines) {
 			l = lines[row]
 		}
@@ -62,7 +62,7 @@ func (p *painter) paint(s tcell.Screen, lines []Line, x, y, w, h int, full bool)
 			}
 		}
 		for col < w {
-			put(cell{' ', Plain})
+			put(cell{' ', plainRole})
 		}
 	}
 }

@@ -11,13 +11,13 @@ import (
 // full repaint would: shorter lines are blanked, roles change, wide runes
 // take two columns.
 func TestPaintingChangesLeavesTheFullPicture(t *testing.T) {
-	before := []Line{
-		{text("F♯4 +41.1", Lit), text(" sharp", Dim)},
+	before := []screenLine{
+		{text("F♯4 +41.1", lit), text(" sharp", dim)},
 		plain("a long line that will be shortened"),
 		plain("音 wide"),
 	}
-	after := []Line{
-		{text("G♭4 −2.0", Lit)},
+	after := []screenLine{
+		{text("G♭4 −2.0", lit)},
 		dimLine("short"),
 		nil,
 		plain("音音 new row"),

@@ -34,48 +34,48 @@ const ReferenceSeconds = 1.5
 // the player's other partials.
 const onDroneHz = 0.1
 
-// Drone is the drone the drone key has chosen.
-type Drone int
+// droneChoice is the drone the drone key has chosen.
+type droneChoice int
 
 // The drone key cycles through these in order.
 const (
-	DroneOff Drone = iota
-	DroneTonic
-	DroneTonicFifth
+	droneOff droneChoice = iota
+	droneTonic
+	droneTonicFifth
 	droneStates
 )
 
 // Next is the drone the next press of the drone key gives.
-func (d Drone) Next() Drone { return (d + 1) % droneStates }
+func (d droneChoice) Next() droneChoice { return (d + 1) % droneStates }
 
-// DroneNotes are the notes drone d sounds in the tuning: the key's tonic in
+// droneNotes are the notes drone d sounds in the tuning: the key's tonic in
 // octave 3 and, for DroneTonicFifth, the fifth above it (G3 and D4).
-func DroneNotes(tu target.Tuning, d Drone) []target.Note {
-	if d == DroneOff {
+func droneNotes(tu target.Tuning, d droneChoice) []target.Note {
+	if d == droneOff {
 		return nil
 	}
 	tonic := tu.Key.Tonic
 	tonic.Octave = 3
 	notes := []target.Note{tonic}
-	if d == DroneTonicFifth {
+	if d == droneTonicFifth {
 		notes = append(notes, tonic.Transpose(target.Interval{Fifths: 1}))
 	}
 	return notes
 }
 
-// DroneHz are the fundamentals drone d sounds: its notes' targets.
-func DroneHz(tu target.Tuning, d Drone) []float64 {
+// droneHz are the fundamentals drone d sounds: its notes' targets.
+func droneHz(tu target.Tuning, d droneChoice) []float64 {
 	var hz []float64
-	for _, n := range DroneNotes(tu, d) {
+	for _, n := range droneNotes(tu, d) {
 		hz = append(hz, tu.Target(n))
 	}
 	return hz
 }
 
-// DroneWords names drone d's notes, "G3+D4", or "off".
-func DroneWords(tu target.Tuning, d Drone) string {
+// droneWords names drone d's notes, "G3+D4", or "off".
+func droneWords(tu target.Tuning, d droneChoice) string {
 	var s []string
-	for _, n := range DroneNotes(tu, d) {
+	for _, n := range droneNotes(tu, d) {
 		s = append(s, n.Pretty())
 	}
 	if len(s) == 0 {
@@ -86,10 +86,10 @@ func DroneWords(tu target.Tuning, d Drone) string {
 
 // soundState is what the model knows of the meter's sound.
 type soundState struct {
-	HasSound   bool    // the meter can ask for sound (Options.Sound is set)
-	Drone      Drone   // the drone chosen
-	SoundLevel float64 // the output's peak ceiling, dBFS
-	Caution    string  // the hearing caution shown while anything sounds
+	HasSound   bool        // the meter can ask for sound (Options.Sound is set)
+	Drone      droneChoice // the drone chosen
+	SoundLevel float64     // the output's peak ceiling, dBFS
+	Caution    string      // the hearing caution shown while anything sounds
 	// SoundError is the last failure to play ("" once sound plays again).
 	SoundError string
 	Sounding   []float64 // partials sounding now, polled from Sound
@@ -100,32 +100,32 @@ type soundState struct {
 
 // OnDrone tells whether the held (or last) note's pitch sits on a partial
 // that the meter's own sound is playing.
-func (m *Model) OnDrone() bool {
+func (m *model) OnDrone() bool {
 	return m.HasHeld && slices.ContainsFunc(m.Sounding, func(f float64) bool { return math.Abs(f-m.Held.Hz) <= onDroneHz })
 }
 
 // sounding tells whether anything plays or is about to: the caution shows.
-func (m *Model) sounding() bool {
-	return m.Drone != DroneOff || m.Now < m.refUntil || len(m.Sounding) > 0
+func (m *model) sounding() bool {
+	return m.Drone != droneOff || m.Now < m.refUntil || len(m.Sounding) > 0
 }
 
 // CycleDrone moves the drone to its next state on s and says what it did.
-func (m *Model) CycleDrone(s Sound) { m.setDrone(s, m.Drone.Next(), true) }
+func (m *model) CycleDrone(s Sound) { m.setDrone(s, m.Drone.Next(), true) }
 
 // Retune keeps a sounding drone on the tuning's targets after a key has
 // changed it; an unchanged drone is left alone.
-func (m *Model) Retune(s Sound) {
-	if m.Drone != DroneOff && !slices.Equal(DroneHz(m.Tuning, m.Drone), m.droneHz) {
+func (m *model) Retune(s Sound) {
+	if m.Drone != droneOff && !slices.Equal(droneHz(m.Tuning, m.Drone), m.droneHz) {
 		m.setDrone(s, m.Drone, false)
 	}
 }
 
-func (m *Model) setDrone(s Sound, d Drone, say bool) {
+func (m *model) setDrone(s Sound, d droneChoice, say bool) {
 	if s == nil {
 		m.Say("no sound here")
 		return
 	}
-	hz := DroneHz(m.Tuning, d)
+	hz := droneHz(m.Tuning, d)
 	if err := s.SetDrone(hz); err != nil {
 		m.SoundFailed(err)
 		m.Say("no sound: " + err.Error())
@@ -133,18 +133,18 @@ func (m *Model) setDrone(s Sound, d Drone, say bool) {
 	}
 	m.Drone, m.droneHz, m.SoundError = d, hz, ""
 	if say {
-		m.Say("drone " + DroneWords(m.Tuning, d))
+		m.Say("drone " + droneWords(m.Tuning, d))
 	}
 }
 
 // SoundFailed records that sound could not play, or stopped: the drone is
 // off and the status line says why until sound plays again.
-func (m *Model) SoundFailed(err error) {
-	m.Drone, m.droneHz, m.SoundError = DroneOff, nil, err.Error()
+func (m *model) SoundFailed(err error) {
+	m.Drone, m.droneHz, m.SoundError = droneOff, nil, err.Error()
 }
 
 // SoundReference sounds the held (or last) note's target briefly on s.
-func (m *Model) SoundReference(s Sound) {
+func (m *model) SoundReference(s Sound) {
 	r, ok := m.Reading()
 	switch {
 	case s == nil:
@@ -162,31 +162,31 @@ func (m *Model) SoundReference(s Sound) {
 	}
 }
 
-// SoundLine is the sound's state on the status line: "drone: G3+D4 at
+// soundLine is the sound's state on the status line: "drone: G3+D4 at
 // −18 dBFS", "drone: off", or why nothing can play. Empty without sound.
-func SoundLine(m *Model) Line {
+func soundLine(m *model) screenLine {
 	switch {
 	case !m.HasSound:
 		return nil
 	case m.SoundError != "":
-		return Line{text("no sound: "+m.SoundError, Warn)}
-	case m.Drone == DroneOff:
+		return screenLine{text("no sound: "+m.SoundError, warn)}
+	case m.Drone == droneOff:
 		return dimLine("drone: off")
 	}
-	return plain(fmt.Sprintf("drone: %s at %s dBFS", DroneWords(m.Tuning, m.Drone), minus(fmt.Sprintf("%g", m.SoundLevel))))
+	return plain(fmt.Sprintf("drone: %s at %s dBFS", droneWords(m.Tuning, m.Drone), minus(fmt.Sprintf("%g", m.SoundLevel))))
 }
 
-// CautionLines are the hearing caution, wrapped to w columns, while
+// cautionLines are the hearing caution, wrapped to w columns, while
 // anything sounds or is about to; none otherwise.
-func CautionLines(m *Model, w int) []Line {
+func cautionLines(m *model, w int) []screenLine {
 	if !m.HasSound || !m.sounding() || m.Caution == "" {
 		return nil
 	}
-	var out []Line
+	var out []screenLine
 	line := ""
 	for _, word := range strings.Fields(m.Caution) {
 		if line != "" && len([]rune(line+" "+word)) > w {
-			out = append(out, Line{text(line, Lit)})
+			out = append(out, screenLine{text(line, lit)})
 			line = ""
 		}
 		if line != "" {
@@ -194,5 +194,5 @@ func CautionLines(m *Model, w int) []Line {
 		}
 		line += word
 	}
-	return append(out, Line{text(line, Lit)})
+	return append(out, screenLine{text(line, lit)})
 }

@@ -77,7 +77,7 @@ func TestSoundKeysDriveTheDroneAndTheReference(t *testing.T) {
 		{"d: the tonic", func() { m.CycleDrone(s) }, "drone C3", "drone: C3 at −18 dBFS", []float64{c3}, true},
 		{"d: tonic and fifth", func() { m.CycleDrone(s) }, "drone C3+G3", "drone: C3+G3 at −18 dBFS", []float64{c3, g3}, true},
 		{"→ moves the drone with the tonic", func() {
-			m.Tuning, _ = MoveTonic(m.Tuning, 1)
+			m.Tuning, _ = moveTonic(m.Tuning, 1)
 			m.Retune(s)
 		}, "", "drone: G3+D4 at −18 dBFS", []float64{g3, d4}, true},
 		{"d: off", func() { m.CycleDrone(s) }, "drone off", "drone: off", nil, false},
@@ -85,10 +85,10 @@ func TestSoundKeysDriveTheDroneAndTheReference(t *testing.T) {
 	} {
 		step.press()
 		m.Sounding = s.Partials()
-		if got := HintLine(m).Text(); step.say != "" && got != step.say {
+		if got := hintLine(m).Text(); step.say != "" && got != step.say {
 			t.Errorf("%s: hint %q, want %q", step.name, got, step.say)
 		}
-		if got := SoundLine(m).Text(); got != step.status {
+		if got := soundLine(m).Text(); got != step.status {
 			t.Errorf("%s: sound line %q, want %q", step.name, got, step.status)
 		}
 		for _, f := range step.drone {
@@ -99,7 +99,7 @@ func TestSoundKeysDriveTheDroneAndTheReference(t *testing.T) {
 		if step.drone == nil && len(m.Sounding) > 0 {
 			t.Errorf("%s: still sounding %.2f", step.name, m.Sounding)
 		}
-		if got := len(CautionLines(m, 80)) > 0; got != step.caution {
+		if got := len(cautionLines(m, 80)) > 0; got != step.caution {
 			t.Errorf("%s: caution shown %v, want %v", step.name, got, step.caution)
 		}
 	}
@@ -107,20 +107,20 @@ func TestSoundKeysDriveTheDroneAndTheReference(t *testing.T) {
 
 func TestSoundKeysSayWhyNothingPlays(t *testing.T) {
 	none := missingOutput(t)
-	m := NewModel(quarterComma(t), "x")
+	m := newModel(quarterComma(t), "x")
 	m.HasSound = true
 	m.SoundReference(none)
-	if got := HintLine(m).Text(); !strings.HasPrefix(got, "no note yet") {
+	if got := hintLine(m).Text(); !strings.HasPrefix(got, "no note yet") {
 		t.Errorf("reference before any note: %q", got)
 	}
 	m.CycleDrone(none)
-	if m.Drone != DroneOff || SoundLine(m).Text() != "no sound: "+none.err.Error() || SoundLine(m)[0].Role != Warn {
-		t.Errorf("failed drone: state %d, line %q", m.Drone, SoundLine(m).Text())
+	if m.Drone != droneOff || soundLine(m).Text() != "no sound: "+none.err.Error() || soundLine(m)[0].Role != warn {
+		t.Errorf("failed drone: state %d, line %q", m.Drone, soundLine(m).Text())
 	}
-	if got := HintLine(m).Text(); !strings.HasPrefix(got, "no sound: ") {
+	if got := hintLine(m).Text(); !strings.HasPrefix(got, "no sound: ") {
 		t.Errorf("hint %q", got)
 	}
-	if SoundLine(NewModel(target.Default(), "x")) != nil {
+	if soundLine(newModel(target.Default(), "x")) != nil {
 		t.Error("a meter without sound shows a sound line")
 	}
 }
@@ -135,19 +135,19 @@ func TestAPitchOnTheDroneIsMarked(t *testing.T) {
 	}{{0, true}, {0.09, true}, {-0.09, true}, {0.2, false}} {
 		m := holding(quarterComma(t), fSharp4+c.off)
 		m.HasSound, m.Sounding = true, []float64{fSharp4 / 2, fSharp4, 2 * fSharp4}
-		if got := strings.HasSuffix(Words(m).Text(), " · at a pitch the drone sounds (read with the drone taken out)"); got != c.want {
-			t.Errorf("%+.2f Hz from a partial: marked %v (%q)", c.off, got, Words(m).Text())
+		if got := strings.HasSuffix(words(m).Text(), " · at a pitch the drone sounds (read with the drone taken out)"); got != c.want {
+			t.Errorf("%+.2f Hz from a partial: marked %v (%q)", c.off, got, words(m).Text())
 		}
 	}
 }
 
 func TestTheCautionWrapsToTheScreen(t *testing.T) {
-	m := NewModel(target.Default(), "x")
-	m.HasSound, m.Drone = true, DroneTonic
+	m := newModel(target.Default(), "x")
+	m.HasSound, m.Drone = true, droneTonic
 	m.Caution = "caution: keep your headphone or speaker volume low and stop at once if it hurts"
 	for _, w := range []int{80, 40, 20} {
 		var words []string
-		for _, l := range CautionLines(m, w) {
+		for _, l := range cautionLines(m, w) {
 			if l.Width() > w {
 				t.Errorf("%d columns: %q", w, l.Text())
 			}
@@ -161,7 +161,7 @@ func TestTheCautionWrapsToTheScreen(t *testing.T) {
 
 func TestEverySoundKeyIsInTheHelp(t *testing.T) {
 	help := ""
-	for _, l := range HelpLines() {
+	for _, l := range helpLines() {
 		help += l.Text() + "\n"
 	}
 	for _, want := range []string{"  d     drone", "  s ␣   sound the held (or last) note's target"} {
@@ -176,12 +176,12 @@ func TestEverySoundKeyIsInTheHelp(t *testing.T) {
 // drawn).
 func TestLayoutKeepsTheDroneAndTheCaution(t *testing.T) {
 	m := holding(quarterComma(t), fSharp4)
-	m.HasSound, m.Drone, m.SoundLevel = true, DroneTonicFifth, -18
+	m.HasSound, m.Drone, m.SoundLevel = true, droneTonicFifth, -18
 	m.Caution = "caution: keep your headphone or speaker volume low and stop at once if it hurts"
 	for _, size := range [][2]int{{80, 24}, {120, 40}, {60, 16}, {40, 10}} {
 		w, h := size[0], size[1]
 		var screen strings.Builder
-		for _, l := range Layout(m, w, h) {
+		for _, l := range layout(m, w, h) {
 			if text := l.Text(); (strings.Contains(text, "drone:") || strings.Contains(text, "caution")) && l.Width() > w {
 				t.Errorf("%dx%d: line wider than the screen: %q", w, h, text)
 			}

@@ -6,8 +6,8 @@ import (
 	"strings"
 )
 
-// TraceRange is the trace's reach either side of the target, in cents.
-const TraceRange = 50.0
+// traceRange is the trace's reach either side of the target, in cents.
+const traceRange = 50.0
 
 // traceAxis is the width of the cents labels left of the trace, and
 // traceWords that of the "sharp"/"flat" words right of it.
@@ -21,11 +21,11 @@ const (
 // patterns, U+2800 block: dots 1-2-3-7 down the left, 4-5-6-8 the right).
 var dotBits = [4][2]rune{{0x01, 0x08}, {0x02, 0x10}, {0x04, 0x20}, {0x40, 0x80}}
 
-// Trace draws the last TraceSeconds of pitch as dots, rows lines high and w
+// trace draws the last TraceSeconds of pitch as dots, rows lines high and w
 // columns wide: time runs left to right to now, sharp is up, flat down,
 // ±TraceRange cents from the held note's target (or, between notes, from the
 // nearest window note's). Points beyond the range sit on its edge.
-func Trace(m *Model, w, rows int) []Line {
+func trace(m *model, w, rows int) []screenLine {
 	plot := w - traceAxis - traceWords
 	if rows < 1 || plot < 4 {
 		return nil
@@ -43,7 +43,7 @@ func Trace(m *Model, w, rows int) []Line {
 		}
 	}
 	zero := dots / 2 / 4 // the row holding the 0 ¢ line
-	out := make([]Line, rows)
+	out := make([]screenLine, rows)
 	for y := range rows {
 		var b strings.Builder
 		for _, c := range grid[y] {
@@ -65,7 +65,7 @@ func Trace(m *Model, w, rows int) []Line {
 		case rows - 1:
 			axis, words = " −50 ┤", " flat"
 		}
-		out[y] = Line{text(axis, Dim), text(b.String(), Lit), text(words, Dim)}
+		out[y] = screenLine{text(axis, dim), text(b.String(), lit), text(words, dim)}
 	}
 	return out
 }
@@ -75,18 +75,18 @@ func Trace(m *Model, w, rows int) []Line {
 // bin is measured from the target of its latest point: the held note's
 // while one was held (keeping a note's trace continuous past ±50 ¢),
 // otherwise the note nearest the point's own pitch.
-func (m *Model) traceLevels(bins, dots int) []int {
+func (m *model) traceLevels(bins, dots int) []int {
 	m.classifyTrace()
 	level := make([]int, bins)
 	sum := make([]float64, bins)
 	n := make([]int, bins)
 	target := make([]float64, bins)
-	t0 := m.Now - TraceSeconds
+	t0 := m.Now - traceSeconds
 	for _, p := range m.trace {
 		if p.hz <= 0 {
 			continue
 		}
-		b := min(max(int((p.t-t0)/TraceSeconds*float64(bins)), 0), bins-1)
+		b := min(max(int((p.t-t0)/traceSeconds*float64(bins)), 0), bins-1)
 		sum[b] += math.Log2(p.hz)
 		n[b]++
 		target[b] = p.target
@@ -97,7 +97,7 @@ func (m *Model) traceLevels(bins, dots int) []int {
 			continue
 		}
 		c := 1200 * (sum[b]/float64(n[b]) - math.Log2(target[b]))
-		d := int(math.Floor((TraceRange - c) / (2 * TraceRange) * float64(dots)))
+		d := int(math.Floor((traceRange - c) / (2 * traceRange) * float64(dots)))
 		level[b] = min(max(d, 0), dots-1)
 	}
 	return level
@@ -106,7 +106,7 @@ func (m *Model) traceLevels(bins, dots int) []int {
 // classifyTrace finds the target of every voiced trace point not yet
 // classified in the current tuning (all of them after a key changes it), so
 // a redraw classifies only the frames that came since the last.
-func (m *Model) classifyTrace() {
+func (m *model) classifyTrace() {
 	tu := m.Tuning
 	spec := ""
 	if tu.Temperament != nil {

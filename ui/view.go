@@ -6,32 +6,34 @@ import (
 	"strings"
 
 	"github.com/mattn/go-runewidth"
+
+	"fifthline/target"
 )
 
-// Role says what a piece of text is, so the screen can style it. The text
+// role says what a piece of text is, so the screen can style it. The text
 // alone always carries the meaning; styles only add emphasis.
-type Role uint8
+type role uint8
 
 // Roles, from plain to urgent.
 const (
-	Plain Role = iota
-	Dim        // scales, labels, the last note after it ended
-	Lit        // the held note and its cents
-	Other      // the other spelling
-	Warn       // clipping, lost audio
+	plainRole role = iota
+	dim            // scales, labels, the last note after it ended
+	lit            // the held note and its cents
+	other          // the other spelling
+	warn           // clipping, lost audio
 )
 
-// Span is a run of text in one role.
-type Span struct {
+// span is a run of text in one role.
+type span struct {
 	Text string
-	Role Role
+	Role role
 }
 
-// Line is one screen row.
-type Line []Span
+// screenLine is one screen row.
+type screenLine []span
 
 // Text is the line without roles.
-func (l Line) Text() string {
+func (l screenLine) Text() string {
 	var b strings.Builder
 	for _, s := range l {
 		b.WriteString(s.Text)
@@ -40,11 +42,11 @@ func (l Line) Text() string {
 }
 
 // Width is the line's width in screen columns.
-func (l Line) Width() int { return runewidth.StringWidth(l.Text()) }
+func (l screenLine) Width() int { return runewidth.StringWidth(l.Text()) }
 
-func plain(s string) Line        { return Line{{s, Plain}} }
-func dimLine(s string) Line      { return Line{{s, Dim}} }
-func text(s string, r Role) Span { return Span{s, r} }
+func plain(s string) screenLine   { return screenLine{{s, plainRole}} }
+func dimLine(s string) screenLine { return screenLine{{s, dim}} }
+func text(s string, r role) span  { return span{s, r} }
 
 // centre pads s with spaces to width w, centred (truncated if wider).
 func centre(s string, w int) string {
@@ -64,19 +66,13 @@ func padRight(s string, w int) string {
 	return runewidth.Truncate(s, w, "")
 }
 
-// Cents formats a signed cents value with one decimal and a true minus
+// cents formats a signed cents value with one decimal and a true minus
 // sign, never "−0.0".
-func Cents(c float64) string {
-	s := fmt.Sprintf("%+.1f", c)
-	if s == "+0.0" || s == "-0.0" {
-		return "0.0"
-	}
-	return minus(s)
-}
+func cents(c float64) string { return minus(target.Signed(c, 1)) }
 
-// WholeCents formats signed cents rounded to a whole cent, "+41", "−3",
+// wholeCents formats signed cents rounded to a whole cent, "+41", "−3",
 // and "0" for anything that rounds to nothing.
-func WholeCents(c float64) string { return minus(fmt.Sprintf("%+.0f", c)) }
+func wholeCents(c float64) string { return minus(target.Signed(c, 0)) }
 
 // minus writes a true minus sign for a leading hyphen; "-0" and "+0" read as "0".
 func minus(s string) string {
@@ -86,55 +82,55 @@ func minus(s string) string {
 	return strings.Replace(s, "-", "−", 1)
 }
 
-// TuningLine is the status line's first part: key, temperament, A4 and
+// tuningLine is the status line's first part: key, temperament, A4 and
 // transposition.
-func TuningLine(m *Model) Line { return plain(tuningWords(m.Tuning)) }
+func tuningLine(m *model) screenLine { return plain(tuningWords(m.Tuning)) }
 
-// BigLines are the held note and its cents in large glyphs, centred in w
+// bigLines are the held note and its cents in large glyphs, centred in w
 // columns: "F♯4 +41¢", in whole cents (the tenths are on the words line),
 // drawn at the largest scale up to maxScale that fits (each glyph cell
 // scale × scale screen cells). When even scale 1 is too wide the cents go,
 // and Words carries them. Before the first note they are blank.
-func BigLines(m *Model, w, maxScale int) []Line {
+func bigLines(m *model, w, maxScale int) []screenLine {
 	r, ok := m.Reading()
 	s := ""
 	if ok {
-		s = r.Written.Pretty() + " " + WholeCents(r.Deviation) + "¢"
-		if BigWidth(s) > w {
+		s = r.Written.Pretty() + " " + wholeCents(r.Deviation) + "¢"
+		if bigWidth(s) > w {
 			s = r.Written.Pretty()
 		}
-		if BigWidth(s) > w {
+		if bigWidth(s) > w {
 			s = ""
 		}
 	}
 	scale := max(1, maxScale)
-	for scale > 1 && BigWidth(s)*scale > w {
+	for scale > 1 && bigWidth(s)*scale > w {
 		scale--
 	}
-	rows := Big(s)
-	out := make([]Line, 0, GlyphRows*scale)
+	rows := big(s)
+	out := make([]screenLine, 0, glyphRows*scale)
 	for _, row := range rows {
 		var b strings.Builder
 		for _, c := range row {
 			b.WriteString(strings.Repeat(string(c), scale))
 		}
 		for range scale {
-			out = append(out, Line{text(centre(b.String(), w), litRole(m))})
+			out = append(out, screenLine{text(centre(b.String(), w), litRole(m))})
 		}
 	}
 	return out
 }
 
-// Words is the reading in words: which spelled note, how far and which way,
+// words is the reading in words: which spelled note, how far and which way,
 // and where the other spelling stands.
-func Words(m *Model) Line {
+func words(m *model) screenLine {
 	r, ok := m.Reading()
 	if !ok {
 		return dimLine("listening to " + m.Source + " — hold a note")
 	}
-	var l Line
+	var l screenLine
 	if !m.Holding {
-		l = append(l, text("last note: ", Dim))
+		l = append(l, text("last note: ", dim))
 	}
 	role := litRole(m)
 	note, alt := r.Written.Pretty(), r.AltWritten.Pretty()
@@ -154,14 +150,14 @@ func Words(m *Model) Line {
 	switch {
 	case !r.HasAlt || r.SamePitch || r.TowardOther():
 	case r.OnOther:
-		l = append(l, text(" · sits on "+alt+" ("+Cents(r.AltDeviation)+" ¢)", Other))
+		l = append(l, text(" · sits on "+alt+" ("+cents(r.AltDeviation)+" ¢)", other))
 	default:
-		l = append(l, text(" · "+alt+" would read "+Cents(r.AltDeviation)+" ¢", Dim))
+		l = append(l, text(" · "+alt+" would read "+cents(r.AltDeviation)+" ¢", dim))
 	}
 	if m.OnDrone() {
 		// The canceller took the drone's partials out here, so the note
 		// was read from its other partials: say so, it is a weaker reading.
-		l = append(l, text(" · at a pitch the drone sounds (read with the drone taken out)", Other))
+		l = append(l, text(" · at a pitch the drone sounds (read with the drone taken out)", other))
 	}
 	return l
 }
@@ -177,11 +173,11 @@ func fifthsLayout(w int) (side, cell int) {
 	return side, min(cell, 7)
 }
 
-// FifthsRows draws the key's window along the line of fifths: three rows of
+// fifthsRows draws the key's window along the line of fifths: three rows of
 // names, marks, and each note's offset from equal temperament. The held
 // note is bracketed with its cents beneath; the other spelling stands in the
 // side zone on the end of the line where it lies, with its own cents.
-func FifthsRows(m *Model, w int) [3]Line {
+func fifthsRows(m *model, w int) [3]screenLine {
 	side, cell := fifthsLayout(w)
 	tu := m.Tuning
 	win := tu.Window()
@@ -194,13 +190,13 @@ func FifthsRows(m *Model, w int) [3]Line {
 			}
 		}
 	}
-	var names, marks, equal Line
+	var names, marks, equal screenLine
 	leftName, leftMark, rightName, rightMark := "", "", "", ""
-	altRole := Dim
+	altRole := dim
 	if ok && r.HasAlt && !r.SamePitch {
-		alt, altCents := r.AltWritten.Pretty(), Cents(r.AltDeviation)+"¢"
+		alt, altCents := r.AltWritten.Pretty(), cents(r.AltDeviation)+"¢"
 		if r.OnOther {
-			alt, altRole = "["+alt+"]", Other
+			alt, altRole = "["+alt+"]", other
 		}
 		if lo, _ := tu.Key.WindowSpan(); r.Alt.Fifths() < lo {
 			leftName, leftMark = "◂ "+alt, altCents
@@ -210,46 +206,46 @@ func FifthsRows(m *Model, w int) [3]Line {
 	}
 	names = append(names, text(padRight(leftName, side), altRole))
 	marks = append(marks, text(padRight(leftMark, side), altRole))
-	equal = append(equal, text(padRight("from ET", side), Dim))
+	equal = append(equal, text(padRight("from ET", side), dim))
 	offset := "%+.0f"
 	if cell < 4 {
 		offset = "%.0f" // no room for a plus sign between neighbours
 	}
 	for i, n := range win {
-		name, role := tu.Transpose.Written(n).PrettyName(), Plain
+		name, role := tu.Transpose.Written(n).PrettyName(), plainRole
 		if i == lit {
 			name, role = "["+name+"]", litRole(m)
 		}
 		names = append(names, text(centre(name, cell), role))
-		equal = append(equal, text(centre(minus(fmt.Sprintf(offset, tu.CentsFromEqual(n))), cell), Dim))
+		equal = append(equal, text(centre(minus(fmt.Sprintf(offset, tu.CentsFromEqual(n))), cell), dim))
 	}
 	// The held note's cents sit under it, spilling into the empty
 	// neighbouring cells when the cells are narrow.
 	row := 12 * cell
 	if lit >= 0 {
-		c := Cents(r.Deviation)
+		c := cents(r.Deviation)
 		cw := runewidth.StringWidth(c)
 		at := min(max(lit*cell+cell/2-cw/2, 0), max(row-cw, 0))
-		marks = append(marks, text(strings.Repeat(" ", at), Plain), text(c, litRole(m)), text(strings.Repeat(" ", max(row-at-cw, 0)), Plain))
+		marks = append(marks, text(strings.Repeat(" ", at), plainRole), text(c, litRole(m)), text(strings.Repeat(" ", max(row-at-cw, 0)), plainRole))
 	} else {
-		marks = append(marks, text(strings.Repeat(" ", row), Plain))
+		marks = append(marks, text(strings.Repeat(" ", row), plainRole))
 	}
 	names = append(names, text(padRight(rightName, side), altRole))
 	marks = append(marks, text(padRight(rightMark, side), altRole))
-	return [3]Line{names, marks, equal}
+	return [3]screenLine{names, marks, equal}
 }
 
 // litRole is how the held note shows: lit while held, dim once it ended.
-func litRole(m *Model) Role {
+func litRole(m *model) role {
 	if m.Holding {
-		return Lit
+		return lit
 	}
-	return Dim
+	return dim
 }
 
-// HeldLine describes the held note's shape once a note is held: how long,
+// heldLine describes the held note's shape once a note is held: how long,
 // how steady, and its vibrato.
-func HeldLine(m *Model) Line {
+func heldLine(m *model) screenLine {
 	if !m.HasHeld {
 		return dimLine("")
 	}
@@ -281,9 +277,9 @@ func levelBar(db float64) string {
 	return strings.Repeat("▮", n) + strings.Repeat("▯", 10-n)
 }
 
-// InputLine is the status line's second part: input level with a clipping
+// inputLine is the status line's second part: input level with a clipping
 // warning and the capture's lost-audio counts.
-func InputLine(m *Model) Line {
+func inputLine(m *model) screenLine {
 	lvl := "input silent " + levelBar(math.Inf(-1))
 	switch {
 	case m.Finished:
@@ -291,29 +287,29 @@ func InputLine(m *Model) Line {
 	case m.Level > silentDBFS:
 		lvl = fmt.Sprintf("input %s dBFS %s", minus(fmt.Sprintf("%.0f", m.Level)), levelBar(m.Level))
 	}
-	l := Line{text(lvl, Plain)}
+	l := screenLine{text(lvl, plainRole)}
 	if m.Input.Clipping {
-		l = append(l, text(" CLIPPING — turn the input down", Warn))
+		l = append(l, text(" CLIPPING — turn the input down", warn))
 	}
 	if m.Input.Known {
-		role := Dim
+		role := dim
 		if m.Input.Overflows+m.Input.Dropped > 0 {
-			role = Warn
+			role = warn
 		}
 		l = append(l, text(fmt.Sprintf(" · lost: %d overflows, %d dropped", m.Input.Overflows, m.Input.Dropped), role))
 	}
 	if m.Dropped > 0 {
-		l = append(l, text(fmt.Sprintf(" · screen skipped %d frames", m.Dropped), Dim))
+		l = append(l, text(fmt.Sprintf(" · screen skipped %d frames", m.Dropped), dim))
 	}
 	return l
 }
 
-// JournalLine is the journal's state: "journal: off", or how many notes it
+// journalLine is the journal's state: "journal: off", or how many notes it
 // holds and where.
-func JournalLine(m *Model) Line { return plain(m.Journal) }
+func journalLine(m *model) screenLine { return plain(m.Journal) }
 
-// HintLine is the last key's effect, or the keys.
-func HintLine(m *Model) Line {
+// hintLine is the last key's effect, or the keys.
+func hintLine(m *model) screenLine {
 	if m.Message != "" && m.Now-m.messageAt < messageSeconds {
 		return plain(m.Message)
 	}
@@ -326,10 +322,10 @@ func HintLine(m *Model) Line {
 	return dimLine("←→ tonic · m mode · t temperament · ↑↓ A4 · ? help · q quit")
 }
 
-// HelpLines is the help overlay.
-func HelpLines() []Line {
-	out := []Line{plain("fifthline meter — keys"), plain("")}
-	for _, b := range Bindings {
+// helpLines is the help overlay.
+func helpLines() []screenLine {
+	out := []screenLine{plain("fifthline meter — keys"), plain("")}
+	for _, b := range bindings {
 		if b.Label != "" {
 			out = append(out, plain(fmt.Sprintf("  %-5s %s", b.Label, b.What)))
 		}

@@ -35,8 +35,8 @@ var (
 )
 
 // holding is a model in which the note at hz has been held for a second.
-func holding(tu target.Tuning, hz float64) *Model {
-	m := NewModel(tu, "test tones")
+func holding(tu target.Tuning, hz float64) *model {
+	m := newModel(tu, "test tones")
 	for i := range 100 {
 		t := float64(i) * 0.01
 		m.AddFrame(session.Frame{
@@ -71,7 +71,7 @@ func TestWordsNameTheNoteItsCentsAndTheOtherSpelling(t *testing.T) {
 		{"F♯ in equal temperament", equal, 370, "F♯4 is on its target"}, // 369.994 Hz (ISO 16)
 	} {
 		t.Run(c.name, func(t *testing.T) {
-			if got := Words(holding(c.tu, c.hz)).Text(); got != c.want {
+			if got := words(holding(c.tu, c.hz)).Text(); got != c.want {
 				t.Errorf("got  %q\nwant %q", got, c.want)
 			}
 		})
@@ -79,11 +79,11 @@ func TestWordsNameTheNoteItsCentsAndTheOtherSpelling(t *testing.T) {
 }
 
 func TestBeforeAnyNoteTheMeterSaysItIsListening(t *testing.T) {
-	m := NewModel(target.Default(), "the demo performance")
-	if got := Words(m).Text(); !strings.Contains(got, "listening to the demo performance") {
+	m := newModel(target.Default(), "the demo performance")
+	if got := words(m).Text(); !strings.Contains(got, "listening to the demo performance") {
 		t.Errorf("Words = %q", got)
 	}
-	for _, l := range BigLines(m, 80, 1) {
+	for _, l := range bigLines(m, 80, 1) {
 		if strings.TrimSpace(l.Text()) != "" {
 			t.Errorf("large glyphs before any note: %q", l.Text())
 		}
@@ -91,7 +91,7 @@ func TestBeforeAnyNoteTheMeterSaysItIsListening(t *testing.T) {
 }
 
 func TestFifthsRowsLayTheWindowAlongTheLineOfFifths(t *testing.T) {
-	rows := FifthsRows(holding(quarterComma(t), gFlat4), 80)
+	rows := fifthsRows(holding(quarterComma(t), gFlat4), 80)
 	// C major's window (interface contract, "Spelling window").
 	names := strings.Fields(rows[0].Text())
 	want := []string{"◂", "[G♭4]", "E♭", "B♭", "F", "C", "G", "D", "A", "E", "B", "[F♯]", "C♯", "G♯"}
@@ -122,7 +122,7 @@ func TestFifthsRowsOfAMinorKey(t *testing.T) {
 	tu := quarterComma(t)
 	tu.Key = target.Key{Tonic: target.Note{Letter: target.G, Octave: 4}, Mode: target.Minor}
 	cs4 := target.Note{Letter: target.C, Accidental: 1, Octave: 4}
-	rows := FifthsRows(holding(tu, tu.Target(cs4)), 80)
+	rows := fifthsRows(holding(tu, tu.Target(cs4)), 80)
 	want := "◂ D♭4 A♭ E♭ B♭ F C G D A E B F♯ [C♯]" // D♭ lies below A♭ on the line
 	if got := strings.Join(strings.Fields(rows[0].Text()), " "); got != want {
 		t.Errorf("names row %q, want fields %q", got, want)
@@ -133,10 +133,10 @@ func TestFifthsRowsOfAMinorKey(t *testing.T) {
 }
 
 func TestHeldLineGivesSpreadAndVibratoOnceANoteIsHeld(t *testing.T) {
-	if got := HeldLine(NewModel(target.Default(), "x")).Text(); got != "" {
+	if got := heldLine(newModel(target.Default(), "x")).Text(); got != "" {
 		t.Errorf("before a note: %q", got)
 	}
-	got := HeldLine(holding(quarterComma(t), fSharp4)).Text()
+	got := heldLine(holding(quarterComma(t), fSharp4)).Text()
 	for _, want := range []string{"held 1.0 s", "spread 0.5 ¢", "vibrato 18 ¢ wide at 5.5 Hz"} {
 		if !strings.Contains(got, want) {
 			t.Errorf("%q lacks %q", got, want)
@@ -147,14 +147,14 @@ func TestHeldLineGivesSpreadAndVibratoOnceANoteIsHeld(t *testing.T) {
 func TestInputLineWarnsOfClippingAndLostAudioInWords(t *testing.T) {
 	m := holding(target.Default(), 440)
 	m.Journal = "journal: 3 notes → rehearsal.csv"
-	m.Input = InputState{Known: true, Clipping: true, Overflows: 2, Dropped: 1}
-	got := InputLine(m).Text()
+	m.Input = inputState{Known: true, Clipping: true, Overflows: 2, Dropped: 1}
+	got := inputLine(m).Text()
 	for _, want := range []string{"input −20 dBFS ▮▮▮▮▮▮▮▯▯▯", "CLIPPING", "2 overflows, 1 dropped"} {
 		if !strings.Contains(got, want) {
 			t.Errorf("%q lacks %q", got, want)
 		}
 	}
-	if got := JournalLine(m).Text(); got != m.Journal {
+	if got := journalLine(m).Text(); got != m.Journal {
 		t.Errorf("journal line %q", got)
 	}
 }
@@ -164,7 +164,7 @@ func TestTracePlacesCentsOnItsScale(t *testing.T) {
 	// dot rows over 100 ¢ (6.25 ¢ each), so +20 ¢ is dot row 4, the top of
 	// screen row 1.
 	m := holding(target.Default(), 440*math.Exp2(20.0/1200))
-	lines := Trace(m, 80, 4)
+	lines := trace(m, 80, 4)
 	if len(lines) != 4 {
 		t.Fatalf("%d lines", len(lines))
 	}
@@ -183,7 +183,7 @@ func TestLayoutFillsAnyScreenAndKeepsTheEssentials(t *testing.T) {
 	m := holding(quarterComma(t), gFlat4)
 	for _, size := range [][2]int{{80, 24}, {120, 40}, {60, 16}, {40, 10}, {20, 5}, {1, 1}, {0, 0}} {
 		w, h := size[0], size[1]
-		lines := Layout(m, w, h)
+		lines := layout(m, w, h)
 		if len(lines) != max(h, 0) {
 			t.Errorf("%dx%d: %d lines", w, h, len(lines))
 		}
@@ -202,13 +202,13 @@ func TestLayoutFillsAnyScreenAndKeepsTheEssentials(t *testing.T) {
 	}
 	// At 80 × 24 everything is there: the large glyphs and the trace too.
 	var screen strings.Builder
-	for _, l := range Layout(m, 80, 24) {
+	for _, l := range layout(m, 80, 24) {
 		if l.Width() > 80 {
 			t.Errorf("line wider than 80: %q", l.Text())
 		}
 		screen.WriteString(l.Text() + "\n")
 	}
-	for _, want := range []string{Big("F♯4 +41¢")[0], "from ET", " +50 ┤", "vibrato", "q quit"} {
+	for _, want := range []string{big("F♯4 +41¢")[0], "from ET", " +50 ┤", "vibrato", "q quit"} {
 		if !strings.Contains(screen.String(), strings.TrimRight(want, " ")) {
 			t.Errorf("80x24 lacks %q:\n%s", want, screen.String())
 		}
@@ -223,15 +223,15 @@ func TestBigGlyphsAreOurBlockFont(t *testing.T) {
 			}
 		}
 	}
-	rows := Big("A4")
-	if rows[0] != " ██  █  █" || BigWidth("A4") != 9 {
+	rows := big("A4")
+	if rows[0] != " ██  █  █" || bigWidth("A4") != 9 {
 		t.Errorf("Big(A4) top row %q", rows[0])
 	}
 }
 
 func TestCentsUseATrueMinusAndNeverMinusZero(t *testing.T) {
 	for c, want := range map[float64]string{-3.25: "−3.2", 41.06: "+41.1", -0.04: "0.0", 0: "0.0"} {
-		if got := Cents(c); got != want {
+		if got := cents(c); got != want {
 			t.Errorf("Cents(%g) = %q, want %q", c, got, want)
 		}
 	}
@@ -239,8 +239,8 @@ func TestCentsUseATrueMinusAndNeverMinusZero(t *testing.T) {
 
 func TestBigGlyphsDoubleWhenTheScreenIsLarge(t *testing.T) {
 	m := holding(quarterComma(t), fSharp4)
-	small, large := BigLines(m, 96, 1), BigLines(m, 96, 2)
-	if len(small) != GlyphRows || len(large) != 2*GlyphRows {
+	small, large := bigLines(m, 96, 1), bigLines(m, 96, 2)
+	if len(small) != glyphRows || len(large) != 2*glyphRows {
 		t.Fatalf("%d and %d rows", len(small), len(large))
 	}
 	var doubled strings.Builder
@@ -251,7 +251,7 @@ func TestBigGlyphsDoubleWhenTheScreenIsLarge(t *testing.T) {
 		t.Errorf("doubled top row %q, want %q", got, doubled.String())
 	}
 	// Too narrow for double: single size.
-	if got := BigLines(m, 40, 2); len(got) != GlyphRows {
+	if got := bigLines(m, 40, 2); len(got) != glyphRows {
 		t.Errorf("40 columns: %d rows", len(got))
 	}
 }
@@ -259,11 +259,11 @@ func TestBigGlyphsDoubleWhenTheScreenIsLarge(t *testing.T) {
 func TestAKeysMessageGivesWayToTheHintAfterAFewSeconds(t *testing.T) {
 	m := holding(target.Default(), 440)
 	m.Say("key G major (1 sharp)")
-	if got := HintLine(m).Text(); got != "key G major (1 sharp)" {
+	if got := hintLine(m).Text(); got != "key G major (1 sharp)" {
 		t.Errorf("right after: %q", got)
 	}
 	m.AddFrame(session.Frame{Estimate: pitchdetect.Estimate{Time: m.Now + messageSeconds}})
-	if got := HintLine(m).Text(); !strings.Contains(got, "q quit") {
+	if got := hintLine(m).Text(); !strings.Contains(got, "q quit") {
 		t.Errorf("later: %q", got)
 	}
 }
@@ -283,14 +283,14 @@ func TestTuningLineSaysKeyTemperamentA4AndTransposition(t *testing.T) {
 		{target.Default(), "C major · equal temperament · A4 = 440.0 Hz · F♯ = G♭ · concert pitch"},
 		{transposed, "C major · 1/4-comma meantone · A4 = 415.0 Hz · written for B♭ instrument"},
 	} {
-		if got := TuningLine(NewModel(c.tu, "x")).Text(); got != c.want {
+		if got := tuningLine(newModel(c.tu, "x")).Text(); got != c.want {
 			t.Errorf("got  %q\nwant %q", got, c.want)
 		}
 	}
 	// A B♭ instrument reads concert F♯4 as G♯4 (a major second up; common
 	// practice), on the screen as in the CSV.
 	m := holding(transposed, fSharp4)
-	if got := Words(m).Text(); !strings.HasPrefix(got, "G♯4 is on its target") {
+	if got := words(m).Text(); !strings.HasPrefix(got, "G♯4 is on its target") {
 		t.Errorf("transposed words %q", got)
 	}
 }
@@ -299,17 +299,17 @@ func TestAfterTheNoteEndsTheMeterShowsItAsTheLastNote(t *testing.T) {
 	m := holding(quarterComma(t), fSharp4)
 	// A one-frame gap (20 ms) inside the note is bridged.
 	m.AddFrame(session.Frame{Estimate: pitchdetect.Estimate{Time: 1.01, Level: -90}})
-	if got := Words(m).Text(); !strings.HasPrefix(got, "F♯4 is on its target") {
+	if got := words(m).Text(); !strings.HasPrefix(got, "F♯4 is on its target") {
 		t.Errorf("during a one-frame gap: %q", got)
 	}
 	m.AddFrame(session.Frame{Estimate: pitchdetect.Estimate{Time: 1.1, Level: -90}})
-	if got := Words(m).Text(); !strings.HasPrefix(got, "last note: F♯4 is on its target") {
+	if got := words(m).Text(); !strings.HasPrefix(got, "last note: F♯4 is on its target") {
 		t.Errorf("words %q", got)
 	}
-	if got := HeldLine(m).Text(); !strings.HasPrefix(got, "last note held 1.0 s") {
+	if got := heldLine(m).Text(); !strings.HasPrefix(got, "last note held 1.0 s") {
 		t.Errorf("held line %q", got)
 	}
-	if got := InputLine(m).Text(); !strings.HasPrefix(got, "input −90 dBFS ▯▯▯▯▯▯▯▯▯▯") {
+	if got := inputLine(m).Text(); !strings.HasPrefix(got, "input −90 dBFS ▯▯▯▯▯▯▯▯▯▯") {
 		t.Errorf("input line %q", got)
 	}
 }
@@ -320,7 +320,7 @@ func TestTraceFollowsANewTuning(t *testing.T) {
 	hz := 440 * math.Exp2(20.0/1200)
 	m := holding(target.Default(), hz)
 	rowWithDots := func() int {
-		for y, l := range Trace(m, 80, 4) {
+		for y, l := range trace(m, 80, 4) {
 			if strings.ContainsFunc(l[1].Text, func(r rune) bool { return r > 0x2800 && r <= 0x28ff }) {
 				return y
 			}
@@ -343,13 +343,13 @@ func TestTheBigNumberIsInWholeCents(t *testing.T) {
 		cents float64
 		want  string
 	}{{41.06, "+41"}, {-3.4, "−3"}, {0.4, "0"}, {-0.4, "0"}, {12.6, "+13"}} {
-		if got := WholeCents(c.cents); got != c.want {
+		if got := wholeCents(c.cents); got != c.want {
 			t.Errorf("WholeCents(%v) = %q, want %q", c.cents, got, c.want)
 		}
 	}
 	m := holding(quarterComma(t), fSharp4*math.Exp2(12.3/1200)) // F♯4 +12.3 ¢
-	got := BigLines(m, 96, 1)[0].Text()
-	if want := strings.TrimRight(Big("F♯4 +12¢")[0], " "); !strings.Contains(got, want) {
+	got := bigLines(m, 96, 1)[0].Text()
+	if want := strings.TrimRight(big("F♯4 +12¢")[0], " "); !strings.Contains(got, want) {
 		t.Errorf("big row %q lacks %q", got, want)
 	}
 }
@@ -357,13 +357,13 @@ func TestTheBigNumberIsInWholeCents(t *testing.T) {
 // Digital silence is "silent", not a number like −300 dBFS, and an input
 // that has ended says so.
 func TestTheInputLineSaysSilentAndEndedInWords(t *testing.T) {
-	m := NewModel(target.Default(), "x")
+	m := newModel(target.Default(), "x")
 	m.Level = -300 // 10·log10(1e-30): what the detector reports for zeros
-	if got := InputLine(m).Text(); !strings.HasPrefix(got, "input silent") {
+	if got := inputLine(m).Text(); !strings.HasPrefix(got, "input silent") {
 		t.Errorf("digital silence: %q", got)
 	}
 	m.Finished = true
-	if got := InputLine(m).Text(); !strings.HasPrefix(got, "no input") {
+	if got := inputLine(m).Text(); !strings.HasPrefix(got, "no input") {
 		t.Errorf("ended input: %q", got)
 	}
 }

@@ -8,7 +8,6 @@ import (
 	"text/tabwriter"
 
 	"fifthline/mts"
-	"fifthline/session"
 	"fifthline/target"
 )
 
@@ -69,8 +68,8 @@ func writeKeyboardCSV(w io.Writer, rows []keyRow) error {
 		if r.wordInPlayed {
 			word = wordHex(r.word)
 		}
-		cw.Write([]string{strconv.Itoa(r.key), r.note.String(), session.Decimal(r.hz, 4),
-			session.Decimal(r.fromEqual, 3), session.Decimal(r.fromA440, 3), word})
+		cw.Write([]string{strconv.Itoa(r.key), r.note.String(), target.Decimal(r.hz, 4),
+			target.Decimal(r.fromEqual, 3), target.Decimal(r.fromA440, 3), word})
 	}
 	cw.Flush()
 	return cw.Error()

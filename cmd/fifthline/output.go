@@ -143,7 +143,7 @@ func (j *jsonNotes) Note(ev session.Event) error {
 }
 
 // number is x as the CSV writes it, as a JSON number.
-func number(x float64, decimals int) json.Number { return json.Number(session.Decimal(x, decimals)) }
+func number(x float64, decimals int) json.Number { return json.Number(target.Decimal(x, decimals)) }
 
 // tableNotes is the table for reading: the tuning, a row per note, then a
 // summary line per take.

@@ -67,8 +67,8 @@ func (n playerNote) record(withFile bool) []string {
 func chordRecords(c ensemble.Chord, path string, withFile bool) [][]string {
 	var out [][]string
 	for i, m := range c.Members {
-		rec := []string{session.Decimal(c.Start, 3), session.Decimal(c.End, 3), c.Name(), m.Role, m.Note.String(),
-			session.Decimal(m.Hz, 4), session.Decimal(m.Cents, 2), session.Decimal(m.JustCents, 2), c.Players[i].Name}
+		rec := []string{target.Decimal(c.Start, 3), target.Decimal(c.End, 3), c.Name(), m.Role, m.Note.String(),
+			target.Decimal(m.Hz, 4), target.Decimal(m.Cents, 2), target.Decimal(m.JustCents, 2), c.Players[i].Name}
 		if withFile {
 			rec = append([]string{path}, rec...)
 		}

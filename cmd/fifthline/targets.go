@@ -6,7 +6,6 @@ import (
 	"strconv"
 	"text/tabwriter"
 
-	"fifthline/session"
 	"fifthline/target"
 )
 
@@ -84,9 +83,9 @@ func writeTargetsCSV(e *env, tu target.Tuning, rows []targetRow) error {
 	}
 	w.Write(header)
 	for _, r := range rows {
-		rec := []string{r.note.String(), session.Decimal(r.hz, 4), session.Decimal(r.equal, 3), strconv.Itoa(r.fifths), "", ""}
+		rec := []string{r.note.String(), target.Decimal(r.hz, 4), target.Decimal(r.equal, 3), strconv.Itoa(r.fifths), "", ""}
 		if r.hasAlt {
-			rec[4], rec[5] = r.alt.String(), session.Decimal(r.altGap, 3)
+			rec[4], rec[5] = r.alt.String(), target.Decimal(r.altGap, 3)
 		}
 		if !tu.Transpose.IsConcert() {
 			rec = append(rec, r.written.String())

@@ -11,7 +11,6 @@ import (
 	"strings"
 	"text/tabwriter"
 
-	"fifthline/session"
 	"fifthline/target"
 )
 
@@ -77,8 +76,8 @@ func chordHeader(withFile bool) []string {
 func (h heldChord) records(path string, withFile bool, notes []voiceNote) [][]string {
 	var out [][]string
 	for _, m := range h.chord.Members {
-		rec := []string{session.Decimal(h.start, 3), session.Decimal(h.end, 3), h.chord.Name(), m.Role, m.Note.String(),
-			session.Decimal(m.Hz, 4), session.Decimal(m.Cents, 2), session.Decimal(m.JustCents, 2),
+		rec := []string{target.Decimal(h.start, 3), target.Decimal(h.end, 3), h.chord.Name(), m.Role, m.Note.String(),
+			target.Decimal(m.Hz, 4), target.Decimal(m.Cents, 2), target.Decimal(m.JustCents, 2),
 			strconv.Itoa(notes[h.notes[m.Index]].voice)}
 		if withFile {
 			rec = append([]string{path}, rec...)
