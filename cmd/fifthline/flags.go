@@ -111,7 +111,8 @@ var valueNames = map[string]string{
 	"key": `"TONIC MODE"`, "temperament": "SPEC", "a4": "HZ", "anchor": "a4|tonic", "chord": `"ROOT QUALITY"`,
 	"transpose": "NOTE", "level": "DBFS", "log": "FILE", "player": "NAME", "device": "ID", "output": "ID",
 	"notes": "NOTE,NOTE", "plot": "FILE.png|FILE.svg", "since": "DATE", "channel": "N", "tolerance": "CENTS",
-	"octave": "N", "duration": "D",
+	"octave": "N", "duration": "D", "players": "NAMES", "voices": "N|auto", "seventh": "7/4|9/5|16/9", "recorded": "DATE|TIME",
+	"mts": "notes|bulk|octave",
 }
 
 // valueName is what the flag takes: a choice's words, a name from

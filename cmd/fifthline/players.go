@@ -27,7 +27,7 @@ var playerColumns = []string{"player", "channel"}
 // addPlayersFlag defines --players; call it before addVoiceFlags, which
 // shares --chords and --seventh with it.
 func addPlayersFlag(fs *flag.FlagSet) *string {
-	return fs.String("players", "", "one player per channel, in channel order (vc,vla,vl2,vl1; an empty name skips a channel) or picked (3=vla,1=vc): notes gain player and channel columns")
+	return fs.String("players", "", "one player per channel, in channel order (vc,vla,vl2,vl1; an empty name skips a channel) or picked (3=vla,1=vc); notes gain player and channel columns")
 }
 
 // playerOptions are the checked --players flags.

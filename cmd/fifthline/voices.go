@@ -28,12 +28,12 @@ type voiceFlags struct {
 
 func addVoiceFlags(fs *flag.FlagSet) *voiceFlags {
 	vf := &voiceFlags{fs: fs}
-	fs.StringVar(&vf.voices, "voices", "", "one channel holding up to N (2-4) voices at once, or auto: notes gain a voice column (1 = lowest)")
+	fs.StringVar(&vf.voices, "voices", "", "one channel holding up to N (2-4) voices at once, or auto; notes gain a voice column (1 = lowest)")
 	if fs.Lookup("chords") == nil {
 		fs.Bool("chords", false, "with --voices or --players: one row per member of each held chord instead of notes")
 	}
 	if fs.Lookup("seventh") == nil {
-		fs.String("seventh", "16/9", "just ratio a chord's minor seventh is read against: 7/4, 9/5 or 16/9")
+		fs.String("seventh", "16/9", "the just ratio a chord's minor seventh is read against: 7/4, 9/5 or 16/9")
 	}
 	return vf
 }
