@@ -11,6 +11,7 @@ import (
 	"encoding/json"
 	"fmt"
 	"io"
+	"strconv"
 	"text/tabwriter"
 
 	"fifthline/session"
@@ -123,6 +124,12 @@ type jsonNotes struct {
 }
 
 func (j *jsonNotes) Note(ev session.Event) error {
+	j.rows = append(j.rows, newNoteJSON(ev, j.withFile))
+	return nil
+}
+
+// newNoteJSON is the event as a JSON record, with its file when withFile.
+func newNoteJSON(ev session.Event, withFile bool) noteJSON {
 	r := ev.Reading
 	rec := noteJSON{
 		Start: number(ev.Start, 3), End: number(ev.End, 3), Note: r.Written.String(),
@@ -131,15 +138,57 @@ func (j *jsonNotes) Note(ev session.Event) error {
 		Spread: number(ev.Spread, 2), VibratoCents: number(ev.VibratoWidth, 1), VibratoHz: number(ev.VibratoRate, 2),
 		Verdict: r.Verdict(),
 	}
-	if j.withFile {
+	if withFile {
 		rec.File = ev.Source
 	}
 	if r.HasAlt {
 		alt, altCents := r.AltWritten.String(), number(r.AltDeviation, 2)
 		rec.AltNote, rec.AltCents = &alt, &altCents
 	}
-	j.rows = append(j.rows, rec)
-	return nil
+	return rec
+}
+
+// chordJSON is one member of a held chord in JSON, as the chord rows.
+type chordJSON struct {
+	File      string      `json:"file,omitempty"`
+	Start     json.Number `json:"start_s"`
+	End       json.Number `json:"end_s"`
+	Chord     string      `json:"chord"`
+	Member    string      `json:"member"`
+	Note      string      `json:"note"`
+	Hz        json.Number `json:"hz"`
+	Cents     json.Number `json:"cents"`
+	JustCents json.Number `json:"just_cents"`
+	Voice     int         `json:"voice,omitempty"`
+	Player    string      `json:"player,omitempty"`
+}
+
+// fileColumn is what a row's file column holds: the path with several
+// files, nothing with one.
+func fileColumn(path string, withFile bool) string {
+	if withFile {
+		return path
+	}
+	return ""
+}
+
+// record is the chord row as CSV: the voice or the player last.
+func (c chordJSON) record(withFile bool) []string {
+	who := c.Player
+	if who == "" {
+		who = strconv.Itoa(c.Voice)
+	}
+	rec := []string{string(c.Start), string(c.End), c.Chord, c.Member, c.Note, string(c.Hz), string(c.Cents), string(c.JustCents), who}
+	if withFile {
+		rec = append([]string{c.File}, rec...)
+	}
+	return rec
+}
+
+// newChordJSON is member m of chord c, held from start to end seconds.
+func newChordJSON(file string, start, end float64, c target.HeardChord, m target.HeardMember) chordJSON {
+	return chordJSON{File: file, Start: number(start, 3), End: number(end, 3), Chord: c.Name(), Member: m.Role,
+		Note: m.Note.String(), Hz: number(m.Hz, 4), Cents: number(m.Cents, 2), JustCents: number(m.JustCents, 2)}
 }
 
 // number is x as the CSV writes it, as a JSON number.

@@ -62,17 +62,25 @@ func (n playerNote) record(withFile bool) []string {
 	return append(n.Record(withFile), n.Player.Name, strconv.Itoa(n.Player.Channel+1))
 }
 
+// playerNoteJSON is a player's note in JSON: the note's fields and whose.
+type playerNoteJSON struct {
+	noteJSON
+	Player  string `json:"player"`
+	Channel int    `json:"channel"`
+}
+
+func (n playerNote) json(withFile bool) playerNoteJSON {
+	return playerNoteJSON{newNoteJSON(n.Event, withFile), n.Player.Name, n.Player.Channel + 1}
+}
+
 // chordRecords are a chord's rows, one per member, lowest first, as the
 // contract's chord rows with the player column.
-func chordRecords(c ensemble.Chord, path string, withFile bool) [][]string {
-	var out [][]string
+func chordRecords(c ensemble.Chord, path string) []chordJSON {
+	var out []chordJSON
 	for i, m := range c.Members {
-		rec := []string{target.Decimal(c.Start, 3), target.Decimal(c.End, 3), c.Name(), m.Role, m.Note.String(),
-			target.Decimal(m.Hz, 4), target.Decimal(m.Cents, 2), target.Decimal(m.JustCents, 2), c.Players[i].Name}
-		if withFile {
-			rec = append([]string{path}, rec...)
-		}
-		out = append(out, rec)
+		row := newChordJSON(path, c.Start, c.End, c.HeardChord, m)
+		row.Player = c.Players[i].Name
+		out = append(out, row)
 	}
 	return out
 }
@@ -107,13 +115,13 @@ func analyzePlayers(e *env, po playerOptions, files []string, tu target.Tuning, 
 		// What was heard before an interruption is written all the same.
 		if po.chords {
 			for _, c := range chords {
-				for _, rec := range chordRecords(c, path, withFile) {
-					out.write(rec)
+				for _, row := range chordRecords(c, fileColumn(path, withFile)) {
+					out.write(row.record(withFile), row)
 				}
 			}
 		} else {
 			for _, n := range notes {
-				out.write(playerNote{n}.record(withFile))
+				out.write(playerNote{n}.record(withFile), playerNote{n}.json(withFile))
 			}
 		}
 		if err != nil && i == 0 && notes == nil {
@@ -242,8 +250,8 @@ func listenPlayers(ctx context.Context, e *env, src *capture.Input, name string,
 	if po.chords {
 		sortPlayerNotes(notes)
 		for _, c := range ensemble.Chords(notes, tracks, po.players, tu, po.seventh) {
-			for _, rec := range chordRecords(c, "", false) {
-				w.Write(rec)
+			for _, row := range chordRecords(c, "") {
+				w.Write(row.record(false))
 			}
 		}
 		w.Flush()

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"encoding/json"
 	"math"
 	"os"
 	"os/exec"
@@ -216,6 +217,27 @@ func TestListenPlayersHearsTheQuartetLive(t *testing.T) {
 	for p, notes := range want {
 		if strings.Join(got[p], " ") != strings.Join(notes, " ") {
 			t.Errorf("%s played %v, heard %v:\n%s", p, notes, got[p], out)
+		}
+	}
+}
+
+// JSON rows are the CSV's columns, typed: numbers as numbers, the player
+// and channel with every note, the player with every chord member.
+func TestAnalyzePlayersJSON(t *testing.T) {
+	path := soxQuartet(t)
+	for _, args := range [][]string{{}, {"--chords"}} {
+		code, out, stderr := runCLI(t, append([]string{"analyze", "--players", "vc,vla,vl2,vl1", "--format", "json"}, append(args, path)...)...)
+		if code != 0 {
+			t.Fatalf("exit %d: %s", code, stderr)
+		}
+		var rows []map[string]any
+		if err := json.Unmarshal([]byte(out), &rows); err != nil || len(rows) == 0 {
+			t.Fatalf("%v: not a JSON array of rows (%v):\n%s", args, err, out)
+		}
+		for _, r := range rows {
+			if _, ok := r["hz"].(float64); !ok || r["player"] == nil || r["file"] != nil {
+				t.Errorf("%v: row %v", args, r)
+			}
 		}
 	}
 }

@@ -5,9 +5,7 @@ import (
 	"encoding/json"
 	"fmt"
 	"io"
-	"math"
 	"slices"
-	"strconv"
 	"strings"
 	"text/tabwriter"
 
@@ -73,16 +71,12 @@ func chordHeader(withFile bool) []string {
 }
 
 // records are the chord's rows, one per sounding member, lowest first.
-func (h heldChord) records(path string, withFile bool, notes []voiceNote) [][]string {
-	var out [][]string
+func (h heldChord) records(path string, notes []voiceNote) []chordJSON {
+	var out []chordJSON
 	for _, m := range h.chord.Members {
-		rec := []string{target.Decimal(h.start, 3), target.Decimal(h.end, 3), h.chord.Name(), m.Role, m.Note.String(),
-			target.Decimal(m.Hz, 4), target.Decimal(m.Cents, 2), target.Decimal(m.JustCents, 2),
-			strconv.Itoa(notes[h.notes[m.Index]].voice)}
-		if withFile {
-			rec = append([]string{path}, rec...)
-		}
-		out = append(out, rec)
+		c := newChordJSON(path, h.start, h.end, h.chord, m)
+		c.Voice = notes[h.notes[m.Index]].voice
+		out = append(out, c)
 	}
 	return out
 }
@@ -95,7 +89,7 @@ type rowWriter struct {
 	out           io.Writer
 	csv           *csv.Writer
 	tab           *tabwriter.Writer
-	json          []map[string]any
+	json          []any
 	rows          int
 }
 
@@ -103,10 +97,12 @@ func newRowWriter(w io.Writer, format string, head []string) *rowWriter {
 	return &rowWriter{format: format, head: head, out: w, csv: csv.NewWriter(w), tab: tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)}
 }
 
-func (rw *rowWriter) write(rec []string) {
+// write adds a row: rec for CSV and the table, obj (a record type with
+// JSON tags) for JSON.
+func (rw *rowWriter) write(rec []string, obj any) {
 	switch rw.format {
 	case "json":
-		rw.json = append(rw.json, jsonObject(rw.head, rec))
+		rw.json = append(rw.json, obj)
 	case "table":
 		if rw.rows == 0 {
 			if rw.title != "" {
@@ -130,7 +126,7 @@ func (rw *rowWriter) close() error {
 	switch rw.format {
 	case "json":
 		if rw.json == nil {
-			rw.json = []map[string]any{}
+			rw.json = []any{}
 		}
 		enc := json.NewEncoder(rw.out)
 		enc.SetIndent("", "  ")
@@ -147,28 +143,4 @@ func (rw *rowWriter) close() error {
 	}
 	rw.csv.Flush()
 	return rw.csv.Error()
-}
-
-// jsonObject is one row of the voice and chord outputs as a JSON object:
-// numbers as numbers, true/false as booleans, empty cells as null.
-func jsonObject(header, rec []string) map[string]any {
-	obj := make(map[string]any, len(header))
-	for i, k := range header {
-		switch v := rec[i]; {
-		case v == "true" || v == "false":
-			obj[k] = v == "true"
-		case v == "":
-			obj[k] = nil
-		case isNumber(v):
-			obj[k] = json.Number(v)
-		default:
-			obj[k] = v
-		}
-	}
-	return obj
-}
-
-func isNumber(s string) bool {
-	f, err := strconv.ParseFloat(s, 64)
-	return err == nil && !math.IsInf(f, 0) && !math.IsNaN(f)
 }

@@ -39,8 +39,8 @@ func listenVoices(ctx context.Context, e *env, src capture.Source, name string, 
 	if vo.chords {
 		sortVoiceNotes(notes)
 		for _, h := range chordsOf(notes, tu, vo.seventh) {
-			for _, rec := range h.records("", false, notes) {
-				w.Write(rec)
+			for _, c := range h.records("", notes) {
+				w.Write(c.record(false))
 			}
 		}
 		w.Flush()

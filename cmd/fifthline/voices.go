@@ -108,13 +108,13 @@ func analyzeVoices(e *env, vo voiceOptions, files []string, tu target.Tuning, op
 		// What was heard before an interruption is written all the same.
 		if vo.chords {
 			for _, row := range chordsOf(notes, tu, vo.seventh) {
-				for _, rec := range row.records(path, withFile, notes) {
-					out.write(rec)
+				for _, c := range row.records(fileColumn(path, withFile), notes) {
+					out.write(c.record(withFile), c)
 				}
 			}
 		} else {
 			for _, n := range notes {
-				out.write(n.record(withFile))
+				out.write(n.record(withFile), n.json(withFile))
 			}
 		}
 		if err != nil && i == 0 && notes == nil {

@@ -24,6 +24,17 @@ type voiceNote struct {
 // voiceColumns follow the held-note columns.
 var voiceColumns = []string{"voice", "doubled"}
 
+// voiceNoteJSON is a voice's note in JSON: the note's fields and the voice's.
+type voiceNoteJSON struct {
+	noteJSON
+	Voice   int  `json:"voice"`
+	Doubled bool `json:"doubled"`
+}
+
+func (n voiceNote) json(withFile bool) voiceNoteJSON {
+	return voiceNoteJSON{newNoteJSON(n.Event, withFile), n.voice, n.doubled}
+}
+
 // record is the note's CSV record with its voice columns.
 func (n voiceNote) record(withFile bool) []string {
 	return append(n.Record(withFile), strconv.Itoa(n.voice), strconv.FormatBool(n.doubled))
