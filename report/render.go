@@ -241,4 +241,3 @@ func plural(n int, thing string) string {
 	}
 	return strconv.Itoa(n) + " " + thing + "s"
 }
-
