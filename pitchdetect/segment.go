@@ -38,18 +38,18 @@ type Segmenter struct {
 	MinSeconds float64 // and so are notes shorter than this
 	OnsetBlip  float64 // seconds: a note's attack read this briefly a subharmonic low is merged into it
 
-	frames      []Estimate
-	gap         int      // unvoiced frames since the last voiced one
-	dips        int      // of which with the level fallen
-	level       float64  // the note's recent level, dBFS
-	prev        echoRef  // the last note given out, to know its echo
-	outlier     Estimate // a single off-pitch frame awaiting confirmation
-	from        slurFrom // the note the open one was slurred from; zero after silence
-	hasOut      bool
-	t, c        []float64 // scratch for summaries
-	vib         vibrato   // the last vibrato fit, made at vibAt frames
-	vibAt       int
-	vibHz       float64
+	frames  []Estimate
+	gap     int      // unvoiced frames since the last voiced one
+	dips    int      // of which with the level fallen
+	level   float64  // the note's recent level, dBFS
+	prev    echoRef  // the last note given out, to know its echo
+	outlier Estimate // a single off-pitch frame awaiting confirmation
+	from    slurFrom // the note the open one was slurred from; zero after silence
+	hasOut  bool
+	t, c    []float64 // scratch for summaries
+	vib     vibrato   // the last vibrato fit, made at vibAt frames
+	vibAt   int
+	vibHz   float64
 }
 
 // NewSegmenter returns a Segmenter for estimates hopSeconds apart, with
