@@ -32,7 +32,7 @@ const guardOddRatio = 0.01
 const (
 	guardAbsent = 1e-3
 	guardStray  = 0.25
-	guardMaxK   = 6 // a minor third's notes repeat together at 1/5 and 1/6 of them
+	guardMaxK   = 9 // a whole tone's notes repeat together at 1/8 and 1/9 of them
 )
 
 var guardDown = [...]struct{ p, q int }{{1, 2}, {1, 3}, {2, 3}}
@@ -180,17 +180,18 @@ func (d *Detector) oddEven(f float64) (odd, even float64) {
 }
 
 // noFundamental returns k when a resolved f is no fundamental but kF is:
-// f's first k-1 partials are absent and all but a stray share of its comb's
-// power lies on kF's series (k up to guardMaxK); else 1.
+// f has no partial of its own, and of the series of 2F … guardMaxK·F the one
+// holding most of its comb's power holds all but a stray share; else 1.
 func (d *Detector) noFundamental(f float64) int {
 	all := d.combPower(f, 0)
-	for k := 1; k <= guardMaxK && float64(k)*f <= d.maxHz; k++ {
-		if d.peakNear(float64(k)*f) >= guardAbsent*all {
-			if k > 1 && d.combPower(f, k) < guardStray*all {
-				return k
-			}
-			return 1
+	if all <= 0 || d.peakNear(f) >= guardAbsent*all {
+		return 1
+	}
+	best, stray := 1, guardStray*all
+	for k := 2; k <= guardMaxK && float64(k)*f <= d.maxHz; k++ {
+		if off := d.combPower(f, k); off < stray {
+			best, stray = k, off
 		}
 	}
-	return 1
+	return best
 }

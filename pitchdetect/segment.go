@@ -242,7 +242,7 @@ const (
 )
 
 // summarise describes the frames of the open note; live reuses a recent
-// vibrato fit; slurred says a note follows it without a gap.
+// vibrato fit; slurred says the next note follows without a gap.
 func (s *Segmenter) summarise(live, slurred bool) Held {
 	fr := s.frames
 	h := Held{Start: fr[0].Time, End: fr[len(fr)-1].Time, Frames: len(fr)}
@@ -256,13 +256,11 @@ func (s *Segmenter) summarise(live, slurred bool) Held {
 	}
 	ref := fr[len(fr)/2].Hz
 	// Steady part: frames whose whole window lies inside the note. A
-	// detector voices a frame once part of its window holds a note, so
-	// after silence and before it a note's first and last Window seconds of
-	// frames reach past its onset and offset. Across a slur the two notes
-	// share the frames whose window holds the change, which lies near the
-	// last frame read as the old note: the new note's own frames begin
-	// half a Window after that, and the old note's end half a Window before
-	// its last frame.
+	// detector voices a frame once part of its window holds a note, so a
+	// note's first and last Window seconds of frames reach past its onset
+	// and offset. A slur lies near the old note's last frame (whose window
+	// is then about half new): the old note's own frames end half a Window
+	// before it, the new note's begin half a Window after it.
 	lo, hi := h.Start+s.Window, h.End-s.Window
 	if s.from.hz != 0 {
 		lo = s.from.last + s.Window/2
