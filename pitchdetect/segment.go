@@ -112,13 +112,14 @@ func (s *Segmenter) Push(e Estimate) (Held, bool) {
 	s.start(first)
 	s.from = slurFrom{hz: h.Hz, last: h.End} // it follows the old note without a gap
 	s.add(e)
-	if first.Time-h.Start < s.OnsetBlip && subharmonic(h.Hz, first.Hz) && (from.hz == 0 || subharmonic(h.Hz, from.hz)) {
+	if first.Time-h.Start < s.OnsetBlip && subharmonic(h.Hz, first.Hz) && (!ok || from.hz == 0 || subharmonic(h.Hz, from.hz)) {
 		// The attack was heard an octave or a twelfth low: it was this note
 		// starting, not a note of its own. A sharp attack after silence can
 		// fool the periodicity pick for a few frames, and so can a slur,
 		// whose frames hold the end of the last note and the start of this
 		// one: together they repeat at the period common to both (G3 for
-		// G4 slurred to D5).
+		// G4 slurred to D5). A quick note of its own a subharmonic below
+		// stays a note unless it is too short to be one.
 		s.frames[0].Time = began.Time
 		s.from = from
 		return Held{}, false
@@ -187,14 +188,18 @@ const (
 
 // finish ends the open note; next is the first frame's time of the note
 // slurred on from it, or 0 after silence. A slurred note lasts until the next
-// one starts: the frames around a slur hold both notes, and the detector
-// gives them to neither for a few hops, so in a quick legato passage a note's
-// own frames span less than its length.
+// one starts, and from the middle of the slur into it: the frames around a
+// slur hold both notes, and the detector gives them to neither for a few
+// hops, so in a quick legato passage a note's own frames span less than its
+// length.
 func (s *Segmenter) finish(next float64) (Held, bool) {
 	h := s.summarise(false, next > 0)
 	length := h.End - h.Start
 	if next > 0 {
 		length = next - h.Start
+		if s.from.hz != 0 { // from the middle of the slur into it
+			length += (h.Start - s.from.last) / 2
+		}
 	}
 	ok := len(s.frames) >= s.MinFrames && length >= s.MinSeconds
 	first, peak := s.frames[0].Level, s.frames[0].Level
