@@ -110,7 +110,10 @@ func (s *Segmenter) Push(e Estimate) (Held, bool) {
 	first, from, began := s.outlier, s.from, s.frames[0]
 	h, ok := s.finish(first.Time)
 	s.start(first)
-	s.from = slurFrom{hz: h.Hz, last: h.End} // it follows the old note without a gap
+	s.from = from // a blip that is no note leaves the slur to the note before it
+	if ok {
+		s.from = slurFrom{hz: h.Hz, last: h.End} // it follows the old note without a gap
+	}
 	s.add(e)
 	if first.Time-h.Start < s.OnsetBlip && subharmonic(h.Hz, first.Hz) && (!ok || from.hz == 0 || subharmonic(h.Hz, from.hz)) {
 		// The attack was heard an octave or a twelfth low: it was this note
@@ -187,19 +190,17 @@ const (
 )
 
 // finish ends the open note; next is the first frame's time of the note
-// slurred on from it, or 0 after silence. A slurred note lasts until the next
-// one starts, and from the middle of the slur into it: the frames around a
-// slur hold both notes, and the detector gives them to neither for a few
-// hops, so in a quick legato passage a note's own frames span less than its
-// length.
+// slurred on from it, or 0 after silence. A note slurred between two others
+// lasts from the middle of the slur into it until the next one starts: the
+// frames around a slur hold both notes, and the detector gives them to
+// neither for a few hops, so in a quick legato passage a note's own frames
+// span less than its length. (After silence a note is voiced early, while
+// its attack fills part of the window, and needs no such allowance.)
 func (s *Segmenter) finish(next float64) (Held, bool) {
 	h := s.summarise(false, next > 0)
 	length := h.End - h.Start
-	if next > 0 {
-		length = next - h.Start
-		if s.from.hz != 0 { // from the middle of the slur into it
-			length += (h.Start - s.from.last) / 2
-		}
+	if next > 0 && s.from.hz != 0 { // from the middle of the slur into it
+		length = next - (h.Start+s.from.last)/2
 	}
 	ok := len(s.frames) >= s.MinFrames && length >= s.MinSeconds
 	first, peak := s.frames[0].Level, s.frames[0].Level
