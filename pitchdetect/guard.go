@@ -11,7 +11,12 @@ package pitchdetect
 //     fundamental.
 //   - up: are F's odd partials missing while its even ones are present?
 //     Then F is an octave low (an odd-only spectrum such as a clarinet's is
-//     the opposite case and keeps F).
+//     the opposite case and keeps F). And is F no fundamental at all — no
+//     partial at F itself, and little beyond the multiples of 2F or 3F? A
+//     slur's frames hold the end of one note and the start of the next, and
+//     together they can repeat at a period neither has (an oboe's A4 slurred
+//     to B4 reads E3, B4/3, for a whole span): what F explains is then 2F's
+//     or 3F's series plus a few partials of the other note.
 
 // guardExtraRatio is the share of F's harmonic power that unexplained
 // partials of a lower candidate must reach before the pitch moves down.
@@ -20,6 +25,15 @@ const guardExtraRatio = 0.05
 // guardOddRatio: below this share of even-partial power, odd partials count
 // as missing and the pitch moves an octave up.
 const guardOddRatio = 0.01
+
+// guardAbsent: a partial below this share of the comb's power is absent;
+// guardStray: partials off the series of 2F or 3F below this share are the
+// other note of a slur, not F's own.
+const (
+	guardAbsent = 1e-3
+	guardStray  = 0.25
+	guardMaxK   = 9 // a whole tone's notes repeat together at 1/8 and 1/9 of them
+)
 
 var guardDown = [...]struct{ p, q int }{{1, 2}, {1, 3}, {2, 3}}
 
@@ -75,13 +89,19 @@ func (d *Detector) guard(period float64) (float64, float64) {
 	resolved := resolvedBins * d.binHz
 	for range 3 { // a few moves at most: F/4 is two octave moves
 		moved := false
+		k := 1
 		if 2*f <= d.maxHz && d.missingOdd(f, period, resolved) {
-			f, period = 2*f, d.refineLag(period/2)
+			k = 2
+		} else if f >= resolved {
+			k = d.noFundamental(f)
+		}
+		if k > 1 {
+			f, period = float64(k)*f, d.refineLag(period/float64(k))
 			moved = true
 		}
 		for _, c := range guardDown {
 			g := f * float64(c.p) / float64(c.q)
-			if g < d.minHz {
+			if g < d.minHz || (g >= resolved && d.noFundamental(g) > 1) {
 				continue
 			}
 			lower := period * float64(c.q) / float64(c.p)
@@ -157,4 +177,21 @@ func (d *Detector) oddEven(f float64) (odd, even float64) {
 	all := d.combPower(f, 0)
 	odd = d.combPower(f, 2)
 	return odd, all - odd
+}
+
+// noFundamental returns k when a resolved f is no fundamental but kF is:
+// f has no partial of its own, and of the series of 2F … guardMaxK·F the one
+// holding most of its comb's power holds all but a stray share; else 1.
+func (d *Detector) noFundamental(f float64) int {
+	all := d.combPower(f, 0)
+	if all <= 0 || d.peakNear(f) >= guardAbsent*all {
+		return 1
+	}
+	best, stray := 1, guardStray*all
+	for k := 2; k <= guardMaxK && float64(k)*f <= d.maxHz; k++ {
+		if off := d.combPower(f, k); off < stray {
+			best, stray = k, off
+		}
+	}
+	return best
 }

@@ -38,18 +38,18 @@ type Segmenter struct {
 	MinSeconds float64 // and so are notes shorter than this
 	OnsetBlip  float64 // seconds: a note's attack read this briefly a subharmonic low is merged into it
 
-	frames      []Estimate
-	gap         int      // unvoiced frames since the last voiced one
-	dips        int      // of which with the level fallen
-	level       float64  // the note's recent level, dBFS
-	prev        echoRef  // the last note given out, to know its echo
-	outlier     Estimate // a single off-pitch frame awaiting confirmation
-	fromSilence bool     // the open note began after silence, not from a leap
-	hasOut      bool
-	t, c        []float64 // scratch for summaries
-	vib         vibrato   // the last vibrato fit, made at vibAt frames
-	vibAt       int
-	vibHz       float64
+	frames  []Estimate
+	gap     int      // unvoiced frames since the last voiced one
+	dips    int      // of which with the level fallen
+	level   float64  // the note's recent level, dBFS
+	prev    echoRef  // the last note given out, to know its echo
+	outlier Estimate // a single off-pitch frame awaiting confirmation
+	from    slurFrom // the note the open one was slurred from; zero after silence
+	hasOut  bool
+	t, c    []float64 // scratch for summaries
+	vib     vibrato   // the last vibrato fit, made at vibAt frames
+	vibAt   int
+	vibHz   float64
 }
 
 // NewSegmenter returns a Segmenter for estimates hopSeconds apart, with
@@ -88,7 +88,7 @@ func (s *Segmenter) Push(e Estimate) (Held, bool) {
 			s.hasOut = false
 		}
 		if s.dips > s.MaxGap || s.gap > s.MaxDropout {
-			return s.finish()
+			return s.finish(0)
 		}
 		return Held{}, false
 	}
@@ -107,16 +107,24 @@ func (s *Segmenter) Push(e Estimate) (Held, bool) {
 		return Held{}, false
 	}
 	// Two frames agree on a new pitch: the old note ends, a new one starts.
-	first, onset, began := s.outlier, s.fromSilence, s.frames[0]
-	h, ok := s.finish()
+	first, from, began := s.outlier, s.from, s.frames[0]
+	h, ok := s.finish(first.Time)
 	s.start(first)
-	s.fromSilence = false // it follows the old note without a gap
+	s.from = from // a blip that is no note leaves the slur to the note before it
+	if ok {
+		s.from = slurFrom{hz: h.Hz, last: h.End} // it follows the old note without a gap
+	}
 	s.add(e)
-	if onset && h.End-h.Start < s.OnsetBlip && subharmonic(h.Hz, first.Hz) {
-		// The attack was heard an octave or a twelfth low (a sharp attack
-		// can fool the periodicity pick for a few frames): it was this note
-		// starting, not a note of its own.
+	if first.Time-h.Start < s.OnsetBlip && subharmonic(h.Hz, first.Hz) && (!ok || from.hz == 0 || subharmonic(h.Hz, from.hz)) {
+		// The attack was heard an octave or a twelfth low: it was this note
+		// starting, not a note of its own. A sharp attack after silence can
+		// fool the periodicity pick for a few frames, and so can a slur,
+		// whose frames hold the end of the last note and the start of this
+		// one: together they repeat at the period common to both (G3 for
+		// G4 slurred to D5). A quick note of its own a subharmonic below
+		// stays a note unless it is too short to be one.
 		s.frames[0].Time = began.Time
+		s.from = from
 		return Held{}, false
 	}
 	return h, ok
@@ -125,6 +133,9 @@ func (s *Segmenter) Push(e Estimate) (Held, bool) {
 // subharmonic reports whether low is the second, third or fourth
 // subharmonic of high, within the segmenter's notion of one pitch.
 func subharmonic(low, high float64) bool {
+	if low <= 0 || high <= 0 {
+		return false
+	}
 	for k := 2.0; k <= 4; k++ {
 		if math.Abs(1200*math.Log2(high/(k*low))) < 50 {
 			return true
@@ -134,7 +145,7 @@ func subharmonic(low, high float64) bool {
 }
 
 func (s *Segmenter) start(e Estimate) {
-	s.fromSilence = true
+	s.from = slurFrom{}
 	s.frames = append(s.frames[:0], e)
 	s.level = e.Level
 	s.gap, s.dips, s.hasOut = 0, 0, false
@@ -162,6 +173,10 @@ func (s *Segmenter) add(e Estimate) {
 // fading, not the detector missing a frame.
 const dropoutDB = 6
 
+// slurFrom is the note another was slurred from: its pitch and the time of
+// its last frame.
+type slurFrom struct{ hz, last float64 }
+
 // echoRef is what an echo of a note is told by.
 type echoRef struct {
 	hz, end, level float64
@@ -174,14 +189,25 @@ const (
 	echoDB  = 6
 )
 
-func (s *Segmenter) finish() (Held, bool) {
-	h := s.summarise(false)
-	ok := len(s.frames) >= s.MinFrames && h.End-h.Start >= s.MinSeconds
+// finish ends the open note; next is the first frame's time of the note
+// slurred on from it, or 0 after silence. A note slurred between two others
+// lasts from the middle of the slur into it until the next one starts: the
+// frames around a slur hold both notes, and the detector gives them to
+// neither for a few hops, so in a quick legato passage a note's own frames
+// span less than its length. (After silence a note is voiced early, while
+// its attack fills part of the window, and needs no such allowance.)
+func (s *Segmenter) finish(next float64) (Held, bool) {
+	h := s.summarise(false, next > 0)
+	length := h.End - h.Start
+	if next > 0 && s.from.hz != 0 { // from the middle of the slur into it
+		length = next - (h.Start+s.from.last)/2
+	}
+	ok := len(s.frames) >= s.MinFrames && length >= s.MinSeconds
 	first, peak := s.frames[0].Level, s.frames[0].Level
 	for _, e := range s.frames {
 		peak = max(peak, e.Level)
 	}
-	if ok && s.fromSilence && h.Start-s.prev.end < echoGap && math.Abs(1200*math.Log2(h.Hz/s.prev.hz)) < s.JumpCents &&
+	if ok && s.from.hz == 0 && h.Start-s.prev.end < echoGap && math.Abs(1200*math.Log2(h.Hz/s.prev.hz)) < s.JumpCents &&
 		first < s.prev.level-echoDB && peak <= first+1 {
 		ok = false
 	}
@@ -203,7 +229,7 @@ func (s *Segmenter) Current() (Held, bool) {
 	if len(s.frames) == 0 || s.gap > 0 {
 		return Held{}, false
 	}
-	return s.summarise(true), true
+	return s.summarise(true, false), true
 }
 
 // Flush ends the stream, returning the note still open, if long enough.
@@ -211,7 +237,7 @@ func (s *Segmenter) Flush() (Held, bool) {
 	if len(s.frames) == 0 {
 		return Held{}, false
 	}
-	return s.finish()
+	return s.finish(0)
 }
 
 // vibratoRefresh is how many new frames Current waits before refitting;
@@ -222,8 +248,8 @@ const (
 )
 
 // summarise describes the frames of the open note; live reuses a recent
-// vibrato fit.
-func (s *Segmenter) summarise(live bool) Held {
+// vibrato fit; slurred says the next note follows without a gap.
+func (s *Segmenter) summarise(live, slurred bool) Held {
 	fr := s.frames
 	h := Held{Start: fr[0].Time, End: fr[len(fr)-1].Time, Frames: len(fr)}
 	if live {
@@ -235,21 +261,27 @@ func (s *Segmenter) summarise(live bool) Held {
 		fr = fr[i:]
 	}
 	ref := fr[len(fr)/2].Hz
-	// Steady part: frames whose whole window lies inside the note.
+	// Steady part: frames whose whole window lies inside the note. A
+	// detector voices a frame once part of its window holds a note, so a
+	// note's first and last Window seconds of frames reach past its onset
+	// and offset. A slur lies within half a Window of the old note's last
+	// frame (whose window then holds some of the new): the new note's own
+	// frames begin half a Window after that frame, and the old note's end
+	// a Window before it, or, in a quick note that would leave none, half
+	// a Window before it.
 	lo, hi := h.Start+s.Window, h.End-s.Window
-	s.t, s.c = s.t[:0], s.c[:0]
-	for _, e := range fr {
-		if e.Time >= lo && e.Time <= hi {
-			s.t = append(s.t, e.Time)
-			s.c = append(s.c, 1200*math.Log2(e.Hz/ref))
-		}
+	if s.from.hz != 0 {
+		lo = s.from.last + s.Window/2
 	}
-	if len(s.t) < 3 { // a short note: use everything
-		s.t, s.c = s.t[:0], s.c[:0]
-		for _, e := range fr {
-			s.t = append(s.t, e.Time)
-			s.c = append(s.c, 1200*math.Log2(e.Hz/ref))
-		}
+	quick := hi // a quick note with none such: to half a Window before a slur
+	if slurred {
+		quick = h.End - s.Window/2
+	}
+	i, j := steady(fr, lo, hi, quick)
+	s.t, s.c = s.t[:0], s.c[:0]
+	for _, e := range fr[i:j] {
+		s.t = append(s.t, e.Time)
+		s.c = append(s.c, 1200*math.Log2(e.Hz/ref))
 	}
 	mean, sd := meanStd(s.c)
 	h.Spread = sd
@@ -262,6 +294,33 @@ func (s *Segmenter) summarise(live bool) Held {
 		h.Hz, h.VibratoWidth, h.VibratoRate = s.vibHz, s.vib.width, s.vib.rate
 	}
 	return h
+}
+
+// steady returns the frames fr[i:j] timed within lo..hi, else within
+// lo..quick, or for a note too short to have three such frames, the three
+// nearest the middle of lo..quick.
+func steady(fr []Estimate, lo, hi, quick float64) (i, j int) {
+	byTime := func(e Estimate, t float64) int { return cmp.Compare(e.Time, t) }
+	within := func(hi float64) (int, int) {
+		i, _ := slices.BinarySearchFunc(fr, lo, byTime)
+		j, _ := slices.BinarySearchFunc(fr, hi, byTime)
+		for j < len(fr) && fr[j].Time <= hi {
+			j++
+		}
+		return i, j
+	}
+	if len(fr) <= 3 {
+		return 0, len(fr)
+	}
+	if i, j = within(hi); j-i >= 3 {
+		return i, j
+	}
+	if i, j = within(quick); j-i >= 3 {
+		return i, j
+	}
+	m, _ := slices.BinarySearchFunc(fr, (lo+quick)/2, byTime)
+	i = min(max(m-1, 0), len(fr)-3)
+	return i, i + 3
 }
 
 func meanStd(x []float64) (mean, sd float64) {

@@ -246,6 +246,14 @@ func TestWhatIsAHeldNote(t *testing.T) {
 			[][3]float64{{30, 440, -20}, {4, 0, -40}, {3, 440, -34}, {12, 440, -28}, {20, 0, -60}}, []float64{440, 440}},
 		{"a blip shorter than 0.1 s between two notes is not a note",
 			[][3]float64{{30, 349.23, -20}, {7, 987.77, -22}, {30, 392, -20}}, []float64{349.23, 392}},
+		// Quick legato runs rendered by fluidsynth (cmd/fifthline's
+		// TestAnalyzeHearsEveryNoteOfQuickLegatoRuns): a sixteenth at
+		// ♩ = 100 lasts 0.15 s, of which the detector gives 0.08 s to the
+		// note itself and the rest to the slurs on either side.
+		{"a slurred note lasts from the middle of the slur into it until the next starts",
+			[][3]float64{{20, 440, -20}, {4, 0, -20}, {8, 493.88, -20}, {3, 0, -20}, {20, 523.25, -20}}, []float64{440, 493.88, 523.25}},
+		{"a slur read at the period its two notes share is the next note starting",
+			[][3]float64{{20, 392, -20}, {9, 196, -20}, {20, 587.33, -20}}, []float64{392, 587.33}},
 	} {
 		hz, level := track(tc.parts...)
 		got := pushAll(hz, level)

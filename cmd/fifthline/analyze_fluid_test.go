@@ -20,14 +20,7 @@ import (
 // good to about a cent and FluidR3's samples are tuned by ear, so only the
 // spelling (within ±50 ¢ in equal temperament at ISO 16's 440 Hz) is checked.
 func TestAnalyzeHearsEachNoteOfRenderedScales(t *testing.T) {
-	const sf2 = "/usr/share/sounds/sf2/FluidR3_GM.sf2" // fluid-soundfont-gm
-	fluid, err := exec.LookPath("fluidsynth")
-	if err != nil {
-		t.Fatalf("fluidsynth not found (make test installs it): %v", err)
-	}
-	if _, err := os.Stat(sf2); err != nil {
-		t.Fatalf("FluidR3 soundfont missing (make test installs fluid-soundfont-gm): %v", err)
-	}
+	fluid, sf2 := fluidSynth(t)
 	scale := []string{"C", "D", "E", "F", "G", "A", "B", "C"}
 	steps := []int{0, 2, 4, 5, 7, 9, 11, 12}
 	dir := t.TempDir()

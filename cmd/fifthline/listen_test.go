@@ -171,13 +171,7 @@ func TestListenPlainHearsSpelledTonesThroughTheVirtualMicrophone(t *testing.T) {
 	journal := filepath.Join(t.TempDir(), "rehearsal.csv")
 	wait, proc := startPlainProcess(t, env, "--duration", "60s", "--key", "C major", "--temperament", "meantone:1/4", "--a4", "415", "--log", journal)
 	play(wav) // returns when the file, a second of silence last, has played
-	if err := proc.Signal(os.Interrupt); err != nil {
-		t.Fatal(err)
-	}
-	code, out, stderr := wait()
-	if code != 0 || stderr != "" {
-		t.Errorf("exit %d, stderr %q", code, stderr)
-	}
+	out := interruptPlain(t, proc, wait)
 	_, rows := readCSV(t, out)
 	if len(rows) != 2 {
 		t.Fatalf("want 2 held notes, got:\n%s", out)
@@ -256,13 +250,7 @@ func TestListenInterruptKeepsTheNoteBeingHeld(t *testing.T) {
 	// Interrupt once the note has been held a while (the frame log says
 	// voiced and holding), well before the tone ends.
 	waitForTiming(t, timing, ",true,true,", 30, "the tone was never heard")
-	if err := proc.Signal(os.Interrupt); err != nil {
-		t.Fatal(err)
-	}
-	code, out, stderr := wait()
-	if code != 0 || stderr != "" {
-		t.Errorf("exit %d, stderr %q", code, stderr)
-	}
+	out := interruptPlain(t, proc, wait)
 	if _, rows := readCSV(t, out); len(rows) != 1 || rows[0]["note"] != "F#4" {
 		t.Errorf("the note held at the interrupt is not written:\n%s", out)
 	}
