@@ -11,6 +11,8 @@ import (
 	"strings"
 	"testing"
 	"time"
+
+	"fifthline/source"
 )
 
 // Every format OpenWAV reads, made by sox, must decode to the samples sox
@@ -237,7 +239,7 @@ func TestWAVEndsWithEOF(t *testing.T) {
 		t.Fatal(err)
 	}
 	defer w.Close()
-	var s Source = w
+	var s source.Source = w
 	buf := make([]float32, 100)
 	if n, err := s.Read(buf); n != 8 || err != nil {
 		t.Fatalf("first Read = %d, %v; want 8 samples (1 ms at 8 kHz)", n, err)

@@ -5,8 +5,8 @@ import (
 	"context"
 	"encoding/csv"
 
-	"fifthline/capture"
 	"fifthline/session"
+	"fifthline/source"
 	"fifthline/target"
 )
 
@@ -14,7 +14,7 @@ import (
 // held note as it ends, flushed at once (start_s counts from the start of
 // capture). With --chords the header is the chord rows' and the rows follow
 // when listening stops, since a chord is known only once its notes end.
-func listenVoices(ctx context.Context, e *env, src capture.Source, name string, tu target.Tuning, vo voiceOptions, j *journalSink) error {
+func listenVoices(ctx context.Context, e *env, src source.Source, name string, tu target.Tuning, vo voiceOptions, j *journalSink) error {
 	w := csv.NewWriter(e.stdout)
 	head := append(session.Header(false), voiceColumns...)
 	if vo.chords {

@@ -13,6 +13,7 @@ import (
 	"fifthline/capture"
 	"fifthline/multipitch"
 	"fifthline/session"
+	"fifthline/source"
 	"fifthline/target"
 )
 
@@ -166,7 +167,7 @@ func sortVoiceNotes(notes []voiceNote) {
 // held note to emit as it ends (at seconds: how far the reading is). The
 // notes still held at the end are finished and handed on too, so an
 // interruption loses none; an error from emit stops the reading.
-func hearVoices(ctx context.Context, src capture.Source, name string, tu target.Tuning, vo voiceOptions, at func(seconds float64), emit func(voiceNote) error) error {
+func hearVoices(ctx context.Context, src source.Source, name string, tu target.Tuning, vo voiceOptions, at func(seconds float64), emit func(voiceNote) error) error {
 	rate := src.SampleRate()
 	est, err := multipitch.New(rate, 0, 0, multipitch.Config{MaxVoices: vo.max})
 	if err != nil {
