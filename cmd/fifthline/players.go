@@ -142,6 +142,7 @@ func readPlayers(e *env, path string, tu target.Tuning, po playerOptions, opt an
 	var learned ensemble.Bleed
 	var notes []ensemble.Note
 	tracks := make([]ensemble.Track, len(po.players))
+	var progress *progress // one bar over both passes
 	for pass := range 2 {
 		rec, err := capture.OpenRecording(path, 1)
 		if err != nil {
@@ -152,7 +153,9 @@ func readPlayers(e *env, path string, tu target.Tuning, po playerOptions, opt an
 			return nil, nil, usagef("%v", err)
 		}
 		start := takeStart(opt.recorded, rec)
-		progress := newProgress(e.stderr, path, rec.Duration())
+		if progress == nil {
+			progress = newProgress(e.stderr, path, 2*rec.Duration())
+		}
 		o := ensemble.Options{Name: path, Players: po.players, Tunings: session.NewTunings(tu), Bleed: &learned}
 		if pass == 1 {
 			o.OnNote = func(n ensemble.Note) error {
@@ -162,9 +165,11 @@ func readPlayers(e *env, path string, tu target.Tuning, po playerOptions, opt an
 			}
 			o.OnFrame = func(i int, est pitchdetect.Estimate) { tracks[i].Add(est.Time, est.Hz) }
 		}
-		err = ensemble.Run(e.ctx, &progressMulti{Recording: rec, p: progress}, o)
-		progress.Done()
+		err = ensemble.Run(e.ctx, &progressMulti{Recording: rec, p: progress, from: float64(pass) * rec.Duration()}, o)
 		rec.Close()
+		if pass == 1 || err != nil {
+			progress.Done()
+		}
 		if err != nil {
 			sortPlayerNotes(notes)
 			if errors.Is(err, context.Canceled) {
@@ -191,13 +196,14 @@ func sortPlayerNotes(notes []ensemble.Note) {
 type progressMulti struct {
 	*capture.Recording
 	p    *progress
+	from float64 // seconds of the bar already done (the learning pass)
 	read int
 }
 
 func (pm *progressMulti) ReadChannels(dst [][]float32) (int, error) {
 	n, err := pm.Recording.ReadChannels(dst)
 	pm.read += n
-	pm.p.At(float64(pm.read) / pm.SampleRate())
+	pm.p.At(pm.from + float64(pm.read)/pm.SampleRate())
 	return n, err
 }
 
