@@ -12,6 +12,7 @@ import (
 
 	"fifthline/capture"
 	"fifthline/ensemble"
+	"fifthline/harmony"
 	"fifthline/pitchdetect"
 	"fifthline/session"
 	"fifthline/target"
@@ -141,7 +142,7 @@ func analyzePlayers(e *env, po playerOptions, files []string, tu target.Tuning, 
 func readPlayers(e *env, path string, tu target.Tuning, po playerOptions, opt analyzeOptions, j *journalSink) ([]ensemble.Note, []ensemble.Chord, error) {
 	var learned ensemble.Bleed
 	var notes []ensemble.Note
-	tracks := make([]ensemble.Track, len(po.players))
+	tracks := make([]harmony.Track, len(po.players))
 	for pass := range 2 {
 		rec, err := capture.OpenRecording(path, 1)
 		if err != nil {
@@ -230,7 +231,7 @@ func listenPlayers(ctx context.Context, e *env, src *capture.Input, name string,
 	}
 	interface_ := src.Carried()
 	var notes []ensemble.Note
-	tracks := make([]ensemble.Track, len(po.players))
+	tracks := make([]harmony.Track, len(po.players))
 	o := ensemble.Options{Name: name, Players: po.players, Tunings: session.NewTunings(tu),
 		OnNote: func(n ensemble.Note) error {
 			j.note(n.Event)

@@ -39,7 +39,7 @@ func listenVoices(ctx context.Context, e *env, src source.Source, name string, t
 	if vo.chords {
 		sortVoiceNotes(notes)
 		for _, h := range chordsOf(notes, tu, vo.seventh) {
-			for _, c := range h.records("", notes) {
+			for _, c := range voiceChordRecords(h, "", notes) {
 				w.Write(c.record(false))
 			}
 		}

@@ -109,7 +109,7 @@ func analyzeVoices(e *env, vo voiceOptions, files []string, tu target.Tuning, op
 		// What was heard before an interruption is written all the same.
 		if vo.chords {
 			for _, row := range chordsOf(notes, tu, vo.seventh) {
-				for _, c := range row.records(fileColumn(path, withFile), notes) {
+				for _, c := range voiceChordRecords(row, fileColumn(path, withFile), notes) {
 					out.write(c.record(withFile), c)
 				}
 			}
@@ -179,6 +179,7 @@ func hearVoices(ctx context.Context, src source.Source, name string, tu target.T
 			emitErr = emit(n)
 		}
 	})
+	tr.keepFrames = vo.chords
 	block := make([]float32, 1024)
 	for read := 0; emitErr == nil; {
 		if err = ctx.Err(); err != nil {

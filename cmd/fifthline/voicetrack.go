@@ -6,6 +6,7 @@ import (
 	"slices"
 	"strconv"
 
+	"fifthline/harmony"
 	"fifthline/multipitch"
 	"fifthline/pitchdetect"
 	"fifthline/session"
@@ -19,6 +20,7 @@ type voiceNote struct {
 	session.Event
 	voice   int
 	doubled bool
+	frames  *harmony.Track // its track's frames, kept for --chords; else nil
 }
 
 // voiceColumns follow the held-note columns.
@@ -51,15 +53,17 @@ type tracker struct {
 	tracks      []*track
 	done        []pitchdetect.Held // notes given out lately, to number voices by
 	emit        func(voiceNote)
+	keepFrames  bool // for reading chords: each track's frames
 }
 
 type track struct {
 	seg     *pitchdetect.Segmenter
 	hz      float64
 	start   float64 // its first frame
-	frames  int
+	count   int // frames fed
 	doubled int // frames marked doubled
 	missed  int // frames in a row without its voice
+	frames  *harmony.Track
 	// delivered: its note is among tr.done (then it is not counted twice)
 	delivered bool
 }
@@ -115,6 +119,9 @@ func (tr *tracker) push(f multipitch.Frame) {
 			s := pitchdetect.NewSegmenter(tr.hop)
 			s.Window = tr.window
 			t := &track{seg: s, hz: v.Hz, start: f.Time}
+			if tr.keepFrames {
+				t.frames = &harmony.Track{}
+			}
 			tr.tracks = append(tr.tracks, t)
 			tr.feed(t, f.Time, v)
 		}
@@ -123,7 +130,10 @@ func (tr *tracker) push(f multipitch.Frame) {
 
 func (tr *tracker) feed(t *track, at float64, v multipitch.Voice) {
 	t.hz, t.missed = v.Hz, 0
-	t.frames++
+	t.count++
+	if t.frames != nil {
+		t.frames.Add(at, v.Hz)
+	}
 	if v.Doubled {
 		t.doubled++
 	}
@@ -160,11 +170,11 @@ func (tr *tracker) deliver(t *track, h pitchdetect.Held) {
 		}
 	}
 	for _, o := range tr.tracks {
-		if o != t && !o.delivered && o.start <= h.Start && o.frames >= o.seg.MinFrames && o.hz < h.Hz {
+		if o != t && !o.delivered && o.start <= h.Start && o.count >= o.seg.MinFrames && o.hz < h.Hz {
 			voice++
 		}
 	}
 	t.delivered = true
 	tr.done = append(slices.DeleteFunc(tr.done, func(d pitchdetect.Held) bool { return d.End < h.Start-60 }), h)
-	tr.emit(voiceNote{session.Event{Source: tr.name, Held: h, Reading: tr.tu.Classify(h.Hz), Tuning: tr.tu}, voice, 2*t.doubled > t.frames})
+	tr.emit(voiceNote{session.Event{Source: tr.name, Held: h, Reading: tr.tu.Classify(h.Hz), Tuning: tr.tu}, voice, 2*t.doubled > t.count, t.frames})
 }
