@@ -60,9 +60,9 @@ type track struct {
 	seg     *pitchdetect.Segmenter
 	hz      float64
 	start   float64 // its first frame
-	count   int // frames fed
-	doubled int // frames marked doubled
-	missed  int // frames in a row without its voice
+	count   int     // frames fed
+	doubled int     // frames marked doubled
+	missed  int     // frames in a row without its voice
 	frames  *harmony.Track
 	// delivered: its note is among tr.done (then it is not counted twice)
 	delivered bool
