@@ -8,6 +8,7 @@ import (
 	"strconv"
 	"strings"
 	"text/tabwriter"
+	"time"
 
 	"fifthline/harmony"
 	"fifthline/target"
@@ -21,6 +22,16 @@ func chordsOf(notes []voiceNote, tu target.Tuning, seventh float64) []harmony.Ch
 		hs[i] = harmony.Note{Start: n.Start, End: n.End, Who: strconv.Itoa(n.voice), Note: n.Reading.Note, Frames: n.frames, Hz: n.Hz}
 	}
 	return harmony.Find(hs, tu, seventh)
+}
+
+// logVoiceChords writes the chords' memberships to the journal, each with
+// its voice.
+func logVoiceChords(j *journalSink, source string, tu target.Tuning, chords []harmony.Chord, notes []voiceNote) {
+	for _, c := range chords {
+		j.chord(source, tu, c.Start, c.End, c.HeardChord, func(i int) (string, string) {
+			return "", strconv.Itoa(notes[c.Notes[i]].voice)
+		}, time.Time{})
+	}
 }
 
 // chordHeader is the contract's chord row, with the voice column.

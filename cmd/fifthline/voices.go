@@ -9,6 +9,7 @@ import (
 	"io"
 	"slices"
 	"strconv"
+	"time"
 
 	"fifthline/capture"
 	"fifthline/multipitch"
@@ -108,7 +109,9 @@ func analyzeVoices(e *env, vo voiceOptions, files []string, tu target.Tuning, op
 		notes, err := readVoices(e, path, tu, vo, opt.channel, j)
 		// What was heard before an interruption is written all the same.
 		if vo.chords {
-			for _, row := range chordsOf(notes, tu, vo.seventh) {
+			chords := chordsOf(notes, tu, vo.seventh)
+			logVoiceChords(j, path, tu, chords, notes)
+			for _, row := range chords {
 				for _, c := range voiceChordRecords(row, fileColumn(path, withFile), notes) {
 					out.write(c.record(withFile), c)
 				}
@@ -140,7 +143,7 @@ func readVoices(e *env, path string, tu target.Tuning, vo voiceOptions, channel 
 	defer progress.Done()
 	var notes []voiceNote
 	err = hearVoices(e.ctx, w, path, tu, vo, progress.At, func(n voiceNote) error {
-		j.note(n.Event)
+		j.row(n.Event, n.extra(), time.Time{})
 		notes = append(notes, n)
 		return nil
 	})

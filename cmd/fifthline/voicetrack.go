@@ -7,6 +7,7 @@ import (
 	"strconv"
 
 	"fifthline/harmony"
+	"fifthline/journal"
 	"fifthline/multipitch"
 	"fifthline/pitchdetect"
 	"fifthline/session"
@@ -41,6 +42,9 @@ func (n voiceNote) json(withFile bool) voiceNoteJSON {
 func (n voiceNote) record(withFile bool) []string {
 	return append(n.Record(withFile), strconv.Itoa(n.voice), strconv.FormatBool(n.doubled))
 }
+
+// extra is the note's journal columns: its voice.
+func (n voiceNote) extra() journal.Extra { return journal.Extra{Voice: strconv.Itoa(n.voice)} }
 
 // tracker follows the estimator's voices from frame to frame: each voice
 // continues the track whose pitch it stays within the segmenter's jump of,
