@@ -2,6 +2,7 @@ package journal
 
 import (
 	"math"
+	"slices"
 	"strconv"
 	"time"
 
@@ -21,6 +22,10 @@ type Extra struct {
 	HeardChord string
 	Member     string
 	JustCents  float64
+	// Reference marks the lowest sounding root, the pitch the others'
+	// JustCents are measured from: its just_cents is left empty, since it
+	// is no reading against just.
+	Reference bool
 }
 
 // Membership is the row of member m of chord c, held from start to end
@@ -31,7 +36,9 @@ func Membership(source, player string, tu target.Tuning, start, end float64, c t
 	ev.Start, ev.End, ev.Hz = start, end, m.Hz
 	ev.Reading = target.Reading{Hz: m.Hz, Note: m.Note, Written: tu.Transpose.Written(m.Note), Deviation: m.Cents,
 		TargetHz: m.Hz / math.Exp2(m.Cents/1200)}
-	return ev, Extra{HeardChord: c.Name(), Member: m.Role, JustCents: m.JustCents}
+	lowest := slices.IndexFunc(c.Members, func(o target.HeardMember) bool { return o.Role == "root" })
+	ref := lowest >= 0 && c.Members[lowest].Index == m.Index
+	return ev, Extra{HeardChord: c.Name(), Member: m.Role, JustCents: m.JustCents, Reference: ref}
 }
 
 // WriteExtra appends a row with its Extra: a note of a recording that began
@@ -51,7 +58,7 @@ func (w *Writer) WriteExtra(ev session.Event, x Extra, start time.Time) error {
 // record is the Trailing columns' values.
 func (x Extra) record() []string {
 	just := ""
-	if x.HeardChord != "" {
+	if x.HeardChord != "" && !x.Reference {
 		just = strconv.FormatFloat(x.JustCents, 'f', 2, 64)
 	}
 	return []string{x.Voice, x.HeardChord, x.Member, just}

@@ -45,6 +45,9 @@ func TestVoicesAndChordMembershipsInTheJournal(t *testing.T) {
 	if es[0].Voice != "1" || es[0].HeardChord != "" || es[0].Note.String() != "C3" {
 		t.Errorf("note row read as %+v", es[0])
 	}
+	if root := es[1]; !root.Reference || root.Member != "root" {
+		t.Errorf("the lowest root, the chord's reference, read as %+v", root)
+	}
 	third := es[2]
 	if third.HeardChord != "C major" || third.Member != "third" || third.Note.String() != "E4" ||
 		math.Abs(third.JustCents-6) > 0.005 || math.Abs(third.Cents-(6-13.69)) > 0.01 || third.Start != 0.6 ||

@@ -35,7 +35,7 @@ func FuzzRead(f *testing.F) {
 			if e.SatOnOther() && (!e.HasAlt || e.SamePitch && !e.OnOtherKnown) {
 				t.Fatalf("on the other spelling without one: %+v", e)
 			}
-			if e.HeardChord != "" && e.Member == "" {
+			if e.HeardChord != "" && e.Member == "" || e.Reference && e.Member != "root" {
 				t.Fatalf("a chord membership without its member: %+v", e)
 			}
 			for _, x := range []float64{e.Cents, e.AltCents, e.Hz, e.Start, e.A4, e.JustCents} {

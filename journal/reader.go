@@ -37,6 +37,9 @@ type Entry struct {
 	// (HeardChord not empty) is not a note of its own: see Extra.
 	Voice, HeardChord, Member string
 	JustCents                 float64
+	// Reference: the lowest sounding root, which JustCents of the chord's
+	// other members are measured from (its own just_cents is empty).
+	Reference bool
 }
 
 // NearerAlt reports whether the note sat nearer its other spelling's target
@@ -255,10 +258,10 @@ func (c columns) parse(line string) (Entry, error) {
 		if e.Member == "" && f.err == nil {
 			f.err = fmt.Errorf("heard_chord %q without its member", e.HeardChord)
 		}
-		if _, ok := f.c.at["just_cents"]; ok {
+		if e.Reference = f.later("just_cents") == ""; !e.Reference {
 			e.JustCents = f.num("just_cents")
-		} else if f.err == nil {
-			f.err = fmt.Errorf("heard_chord without just_cents")
+		} else if e.Member != "root" && f.err == nil {
+			f.err = fmt.Errorf("%s of %s without its just_cents", e.Member, e.HeardChord)
 		}
 	}
 	return e, f.err

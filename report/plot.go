@@ -141,7 +141,7 @@ func plotTitle(entries []journal.Entry, groups []Group, opt Options) [2]string {
 	if Rehearsal(journal.Entry{Time: first}) != Rehearsal(journal.Entry{Time: last}) {
 		when = first.Format("2 Jan 2006") + " – " + last.Format("2 Jan 2006")
 	}
-	held := plural(len(entries), "held note")
+	held := plural(countNotes(entries), "held note")
 	if len(groups) == 1 {
 		held = groups[0].Held()
 	}
@@ -154,7 +154,7 @@ func plotTitle(entries []journal.Entry, groups []Group, opt Options) [2]string {
 	}
 	players, tunings := map[string]bool{}, map[tuningOf]bool{}
 	for _, g := range groups {
-		players[g.Player] = true
+		players[g.Who()] = true
 		tunings[tuningOf{key: g.Key, temperament: g.Temperament, a4: g.A4, transpose: g.Transpose, chord: g.Chord}] = true
 	}
 	return [2]string{fmt.Sprintf("Rehearsal report: %s, %s (a row for each player in each tuning)",

@@ -167,14 +167,17 @@ func (tr *tracker) deliver(t *track, h pitchdetect.Held) {
 	// Voice 1 is the lowest sounding at the note's start: among the notes
 	// given out and the tracks held long enough to be notes, not the
 	// passing readings of an onset.
+	// Voices struck together are heard a hop or two apart; within half a
+	// window they count as sounding at the note's start.
+	together := tr.window / 2
 	voice := 1
 	for _, d := range tr.done {
-		if d.Start <= h.Start && d.End >= h.Start && d.Hz < h.Hz {
+		if d.Start <= h.Start+together && d.End >= h.Start && d.Hz < h.Hz {
 			voice++
 		}
 	}
 	for _, o := range tr.tracks {
-		if o != t && !o.delivered && o.start <= h.Start && o.count >= o.seg.MinFrames && o.hz < h.Hz {
+		if o != t && !o.delivered && o.start <= h.Start+together && o.count >= o.seg.MinFrames && o.hz < h.Hz {
 			voice++
 		}
 	}

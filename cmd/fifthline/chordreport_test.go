@@ -1,0 +1,118 @@
+package main
+
+import (
+	"encoding/json"
+	"math"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// chordRoleTake is four-part writing of our own, four major chords (C, F,
+// G, C), each struck together and held 1.2 s: the cello on the root, the
+// viola a fifth tuned 2 ¢ narrow of 3/2, the second violin a third 6 ¢
+// above 5/4, the first violin the root two octaves up, pure. Just ratios
+// (5/4, 3/2, 4/1) are common practice; the roots are equal-tempered at
+// A4 = 440 Hz (ISO 16, 440·2^(n/12)); a detuning of c cents multiplies by
+// 2^(c/1200) (the definition of the cent).
+func chordRoleTake(t *testing.T) (multi, mono string) {
+	const fifthCents, thirdCents = -2.0, 6.0
+	roots := []float64{130.8128, 174.6141, 97.9989, 130.8128} // C3 F3 G2 C3
+	parts := make([][]soxNote, 4)
+	for i, r := range roots {
+		before := 0.3
+		if i == 0 {
+			before = 0.2
+		}
+		for p, hz := range []float64{r, r * 1.5 * math.Exp2(fifthCents/1200), r * 2.5 * math.Exp2(thirdCents/1200), r * 4} {
+			parts[p] = append(parts[p], soxNote{hz, before, 1.2, 0})
+		}
+	}
+	for p := range parts {
+		parts[p][len(parts[p])-1].after = 0.3
+	}
+	return soxParts(t, parts)
+}
+
+// roleOf finds a group's chord role in report --format json.
+func roleOf(t *testing.T, out, who, member string) (count int, mean float64, words string) {
+	t.Helper()
+	var rep struct {
+		Groups []struct {
+			Player, Voice string
+			Roles         []struct {
+				Quality string  `json:"chord_quality"`
+				Member  string  `json:"member"`
+				Count   int     `json:"count"`
+				Mean    float64 `json:"mean_just_cents"`
+				Words   string  `json:"words"`
+			} `json:"chord_roles"`
+		}
+	}
+	if err := json.Unmarshal([]byte(out), &rep); err != nil {
+		t.Fatalf("report JSON: %v\n%s", err, out)
+	}
+	for _, g := range rep.Groups {
+		if g.Player != who && "voice "+g.Voice != who {
+			continue
+		}
+		for _, r := range g.Roles {
+			if r.Quality == "major" && r.Member == member {
+				return r.Count, r.Mean, r.Words
+			}
+		}
+	}
+	t.Fatalf("no %s of major chords for %s in\n%s", member, who, out)
+	return 0, 0, ""
+}
+
+// analyze --chords --log, then report: each player's role in the chords
+// is where it was played, within 1 ¢, and said in words (a third above
+// just is sharp; a fifth whose upper note is flat of 3/2 is narrow).
+func TestReportSaysWhereEachPlayerSitsInTheChords(t *testing.T) {
+	multi, mono := chordRoleTake(t)
+	for _, c := range []struct {
+		how                 []string
+		fifth, third, octav string // who plays each role
+	}{
+		{[]string{"--players", "vc,vla,vl2,vl1", multi}, "vla", "vl2", "vl1"},
+		// Two octaves above the root lies on the root's fourth partial: one
+		// microphone cannot part them (the voices' doubled column), so the
+		// mixture's chords are three voices.
+		{[]string{"--voices", "4", mono}, "voice 2", "voice 3", ""},
+	} {
+		log := filepath.Join(t.TempDir(), "rehearsal.csv")
+		code, out, stderr := runCLI(t, append([]string{"analyze", "--chords", "--log", log}, c.how...)...)
+		if code != 0 {
+			t.Fatalf("%v: exit %d: %s", c.how[0], code, stderr)
+		}
+		t.Logf("%s:\n%s", c.how[0], out)
+		code, rep, stderr := runCLI(t, "report", "--format", "json", log)
+		if code != 0 {
+			t.Fatalf("report: exit %d: %s", code, stderr)
+		}
+		for _, w := range []struct {
+			who, member string
+			cents       float64
+			words       string
+		}{
+			{c.fifth, "fifth", -2, "2.0 ¢ narrow"},
+			{c.third, "third", 6, "6.0 ¢ above just (sharp)"},
+			{c.octav, "root", 0, "pure"},
+		} {
+			if w.who == "" {
+				continue
+			}
+			n, mean, words := roleOf(t, rep, w.who, w.member)
+			if n != 4 || math.Abs(mean-w.cents) > 1 || words != w.words {
+				t.Errorf("%s: %s's %ss: %d chords, %+.2f ¢ from just, %q; played 4, %+.0f ¢, want %q",
+					c.how[0], w.who, w.member, n, mean, words, w.cents, w.words)
+			}
+		}
+		_, table, _ := runCLI(t, "report", log)
+		t.Logf("%s report:\n%s", c.how[0], table)
+		if !strings.Contains(table, c.third+": ") {
+			t.Errorf("%s: no line of words for %s in\n%s", c.how[0], c.third, table)
+		}
+	}
+}
