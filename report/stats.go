@@ -45,8 +45,8 @@ type Group struct {
 // tuningOf is what keeps groups apart.
 type tuningOf struct {
 	player, voice, key, temperament string
-	a4                       float64
-	transpose, chord         string
+	a4                              float64
+	transpose, chord                string
 }
 
 func groupKey(e journal.Entry) tuningOf {
