@@ -134,21 +134,31 @@ func notesPanel(es []journal.Entry, opt Options) (*plot.Plot, error) {
 			m.err = append(m.err, s.Scatter)
 		}
 	}
-	p.NominalX(labels...)
-	p.X.Min, p.X.Max = -0.6, float64(len(labels))-0.4
-	if len(m.XYs) > 0 {
-		bars, err := plotter.NewYErrorBars(m)
-		if err != nil {
-			return nil, err
-		}
-		bars.LineStyle.Color, bars.LineStyle.Width = plotutil.Color(0), vg.Points(1.5)
-		pts, _ := plotter.NewScatter(m.XYs)
-		pts.GlyphStyle = glyph(0)
-		p.Add(bars, pts)
+	if err := m.draw(p, labels); err != nil {
+		return nil, err
 	}
 	fitBand(p, opt.Tolerance, 0)
 	band(p, opt.Tolerance, false, 0)
 	return p, nil
+}
+
+// draw lays the labels along the x axis and the means with their error
+// bars over them.
+func (m meanScatter) draw(p *plot.Plot, labels []string) error {
+	p.NominalX(labels...)
+	p.X.Min, p.X.Max = -0.6, float64(len(labels))-0.4
+	if len(m.XYs) == 0 {
+		return nil
+	}
+	bars, err := plotter.NewYErrorBars(m)
+	if err != nil {
+		return err
+	}
+	bars.LineStyle.Color, bars.LineStyle.Width = plotutil.Color(0), vg.Points(1.5)
+	pts, _ := plotter.NewScatter(m.XYs)
+	pts.GlyphStyle = glyph(0)
+	p.Add(bars, pts)
+	return nil
 }
 
 // emptyPanel stands where a group has no notes on their own spelling.
