@@ -74,3 +74,28 @@ func TestChordRoles(t *testing.T) {
 		t.Errorf("chord role rows\n%s\nwant\n%s", strings.Join(rows, "\n"), strings.Join(wantRows, "\n"))
 	}
 }
+
+// The plot gives a player with chord roles a panel of them beside the
+// notes' panels, each role named with its chord quality and count; the
+// memberships are not counted among the held notes.
+func TestPlotShowsChordRoles(t *testing.T) {
+	es := sampleEntries()
+	for range 3 {
+		es = append(es, member("Ann", "D major", "third", 6, false))
+	}
+	for i := range es[len(es)-3:] {
+		es[len(es)-3+i].Key, es[len(es)-3+i].Temperament, es[len(es)-3+i].A4 = "G major", "meantone:1/4", 415
+	}
+	opt := Options{Tolerance: 5}
+	var b bytes.Buffer
+	if err := Plot(&b, "svg", es, Summarize(es, opt), opt); err != nil {
+		t.Fatal(err)
+	}
+	svg := b.String()
+	for _, want := range []string{"Per chord role: mean ± scatter", "third", "3 chords", "cents from just",
+		"Ann · G major · 1/4-comma meantone · A4 = 415 Hz — 6 held notes (1 on the other spelling)"} {
+		if !strings.Contains(svg, xmlText(want)) {
+			t.Errorf("svg lacks %q", want)
+		}
+	}
+}
