@@ -14,17 +14,17 @@ import (
 // just. The chord: C major over C3 with the third E4 6 ¢ above 5/4 (just
 // ratios: common practice; ISO 16 equal temperament at A4 = 440 Hz).
 func TestVoicesAndChordMembershipsInTheJournal(t *testing.T) {
-	path := filepath.Join(t.TempDir(), "j.csv")
-	w, err := Open(path, Meta{Session: "s1", Now: (&clock{opening}).now})
-	if err != nil {
-		t.Fatal(err)
-	}
 	tu := target.Default()
 	c3 := 440 * math.Exp2(-21.0/12)
 	e4 := c3 * 5 / 2 * math.Exp2(6.0/1200)
 	hc, ok := tu.NameChord([]float64{c3, e4}, target.DefaultSeventh)
 	if !ok {
 		t.Fatal("C3 and E4 name no chord")
+	}
+	path := filepath.Join(t.TempDir(), "j.csv")
+	w, err := Open(path, Meta{Session: "s1", Now: (&clock{opening}).now})
+	if err != nil {
+		t.Fatal(err)
 	}
 	start := opening.Add(-10 * 60e9) // the take began ten minutes before
 	note := heldAt(-2100, 0.5, 2.5, "take.wav")

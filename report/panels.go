@@ -134,19 +134,21 @@ func notesPanel(es []journal.Entry, opt Options) (*plot.Plot, error) {
 			m.err = append(m.err, s.Scatter)
 		}
 	}
-	if err := m.draw(p, labels); err != nil {
+	if err := m.draw(p, labels, opt.Tolerance); err != nil {
 		return nil, err
 	}
-	fitBand(p, opt.Tolerance, 0)
-	band(p, opt.Tolerance, false, 0)
 	return p, nil
 }
 
-// draw lays the labels along the x axis and the means with their error
-// bars over them.
-func (m meanScatter) draw(p *plot.Plot, labels []string) error {
+// draw lays the labels along the x axis, the means with their error bars
+// over them, and the tolerance band about 0.
+func (m meanScatter) draw(p *plot.Plot, labels []string, tol float64) error {
 	p.NominalX(labels...)
 	p.X.Min, p.X.Max = -0.6, float64(len(labels))-0.4
+	defer func() {
+		fitBand(p, tol, 0)
+		band(p, tol, false, 0)
+	}()
 	if len(m.XYs) == 0 {
 		return nil
 	}

@@ -21,10 +21,8 @@ func rolesPanel(g Group, opt Options) (*plot.Plot, error) {
 		m.XYs = append(m.XYs, plotter.XY{X: float64(i), Y: r.Mean})
 		m.err = append(m.err, r.Scatter)
 	}
-	if err := m.draw(p, labels); err != nil {
+	if err := m.draw(p, labels, opt.Tolerance); err != nil {
 		return nil, err
 	}
-	fitBand(p, opt.Tolerance, 0)
-	band(p, opt.Tolerance, false, 0)
 	return p, nil
 }
