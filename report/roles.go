@@ -69,7 +69,7 @@ func roles(members []journal.Entry) []Role {
 		r := Role{Quality: k.quality, Member: k.member, Count: len(just[k]), Median: Median(just[k])}
 		r.Mean, r.Scatter = MeanDeviation(just[k])
 		if r.Count >= RoleChords {
-			r.Words = r.sits()
+			r.Words = r.Sits()
 		}
 		out = append(out, r)
 	}
@@ -90,11 +90,11 @@ func Quality(chord string) string {
 	return q
 }
 
-// sits says where the role sits against just, in the words musicians use:
+// Sits says where the role sits against just, in the words musicians use:
 // a third or seventh above just is sharp; a fifth whose upper note is flat
 // against 3/2 above the root is narrow, one sharp of it wide; an octave
 // likewise. Within 0.5 ¢ it is just (pure).
-func (r Role) sits() string {
+func (r Role) Sits() string {
 	c := fmt.Sprintf("%.1f ¢", math.Abs(r.Mean))
 	switch {
 	case r.Member == "fifth" && math.Abs(r.Mean) < 0.5:

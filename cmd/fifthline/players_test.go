@@ -31,22 +31,14 @@ func soxQuartet(t *testing.T) string {
 // before and after it.
 type soxNote struct{ hz, before, seconds, after float64 }
 
-// soxParts writes a 4-channel take, one sawtooth part per channel as sox
-// synthesises it, each channel also hearing the other three 20 dB down
-// (×0.1) and 3 ms late, as close microphones hear their neighbours (the
-// ensemble issue's 15–25 dB and a few milliseconds); and the four dry parts
-// summed onto one channel, as one microphone hears them. sox does the
-// mixing.
+// soxParts renders one sawtooth part per channel as sox synthesises it,
+// and mixes them (soxMix).
 func soxParts(t *testing.T, parts [][]soxNote) (multi, mono string) {
 	t.Helper()
 	dir := t.TempDir()
-	run := func(args ...string) {
-		if out, err := exec.Command("sox", args...).CombinedOutput(); err != nil {
-			t.Fatalf("sox %v: %v\n%s", args, err, out)
-		}
-	}
+	run := soxRun(t)
 	f := func(x float64) string { return strconv.FormatFloat(x, 'f', 4, 64) }
-	var dry, late []string
+	var dry []string
 	for i, notes := range parts {
 		var files []string
 		for k, n := range notes {
@@ -57,9 +49,33 @@ func soxParts(t *testing.T, parts [][]soxNote) (multi, mono string) {
 		}
 		p := filepath.Join(dir, "part"+strconv.Itoa(i)+".wav")
 		run(append(files, p)...)
+		dry = append(dry, p)
+	}
+	return soxMix(t, dir, dry)
+}
+
+func soxRun(t *testing.T) func(args ...string) {
+	return func(args ...string) {
+		t.Helper()
+		if out, err := exec.Command("sox", args...).CombinedOutput(); err != nil {
+			t.Fatalf("sox %v: %v\n%s", args, err, out)
+		}
+	}
+}
+
+// soxMix writes a 4-channel take of four mono parts (the dry files, one a
+// channel), each channel also hearing the other three 20 dB down (×0.1)
+// and 3 ms late, as close microphones hear their neighbours (the ensemble
+// issue's 15–25 dB and a few milliseconds); and the four dry parts summed
+// onto one channel, as one microphone hears them. sox does the mixing.
+func soxMix(t *testing.T, dir string, dry []string) (multi, mono string) {
+	t.Helper()
+	run := soxRun(t)
+	var late []string
+	for i, p := range dry {
 		d := filepath.Join(dir, "late"+strconv.Itoa(i)+".wav")
 		run(p, d, "pad", "0.003")
-		dry, late = append(dry, p), append(late, d)
+		late = append(late, d)
 	}
 	multi, mono = filepath.Join(dir, "quartet.wav"), filepath.Join(dir, "mono.wav")
 	args := append(append(append([]string{"-M"}, dry...), late...), "-b", "24", multi, "remix")
