@@ -3,7 +3,9 @@ package main
 import (
 	"encoding/json"
 	"math"
+	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
 )
@@ -123,5 +125,51 @@ func TestReportSaysWhereEachPlayerSitsInTheChords(t *testing.T) {
 		if !strings.Contains(table, c.third+": ") {
 			t.Errorf("%s: no line of words for %s in\n%s", c.how[0], c.third, table)
 		}
+	}
+}
+
+// listen --plain --voices --chords --log hears a chord live through a
+// private virtual microphone (PulseAudio null sink, PortAudio input) and,
+// when stopped, has written each voice's note with its voice and then the
+// chord's memberships: report finds the third where sox put it, 6 ¢ above
+// 5/4 above C4 (261.63 Hz; 5/4 and the cent: common practice).
+func TestListenLogsTheChordsItHeard(t *testing.T) {
+	t.Parallel()
+	_, env, play := privateMic(t)
+	c4 := 261.63
+	third := strconv.FormatFloat(c4*5/4*math.Exp2(6.0/1200), 'f', 4, 64)
+	wav := sox(t, "chord.wav", "-r", "48000", "-b", "16", "synth 2 sawtooth 261.63 sawtooth "+third+" sawtooth 392.445 remix 1,2,3 gain -8 pad 0.5 1")
+	log := filepath.Join(t.TempDir(), "live.csv")
+	wait, proc := startPlainProcess(t, env, "--voices", "auto", "--chords", "--log", log, "--duration", "60s")
+	play(wav)
+	if err := proc.Signal(os.Interrupt); err != nil {
+		t.Fatal(err)
+	}
+	if code, out, stderr := wait(); code != 0 {
+		t.Fatalf("exit %d, stderr %q\n%s", code, stderr, out)
+	}
+	journal, err := os.ReadFile(log)
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, rows := readCSV(t, string(journal))
+	voices, members := 0, 0
+	for _, r := range rows {
+		if r["heard_chord"] == "" && r["voice"] != "" {
+			voices++
+		}
+		if r["heard_chord"] == "C major" {
+			members++
+		}
+	}
+	if voices != 3 || members != 3 {
+		t.Fatalf("%d voice notes and %d memberships, want 3 and 3:\n%s", voices, members, journal)
+	}
+	code, rep, stderr := runCLI(t, "report", "--format", "json", log)
+	if code != 0 {
+		t.Fatalf("report: exit %d: %s", code, stderr)
+	}
+	if n, mean, _ := roleOf(t, rep, "voice 2", "third"); n != 1 || math.Abs(mean-6) > 1 {
+		t.Errorf("the third: %d chords, %+.2f ¢ from just; played 1, +6", n, mean)
 	}
 }
