@@ -93,7 +93,7 @@ func TestReportSaysWhereEachPlayerSitsInTheChords(t *testing.T) {
 		{[]string{"--voices", "4", mono}, "voice 2", "voice 3", ""},
 	} {
 		log := filepath.Join(t.TempDir(), "rehearsal.csv")
-		code, out, stderr := runCLI(t, append([]string{"analyze", "--chords", "--log", log}, c.how...)...)
+		code, out, stderr := runCLI(t, append([]string{"analyze", "--chords", "--log", log, "--recorded", "2026-11-24 19:30"}, c.how...)...)
 		if code != 0 {
 			t.Fatalf("%v: exit %d: %s", c.how[0], code, stderr)
 		}
@@ -101,6 +101,12 @@ func TestReportSaysWhereEachPlayerSitsInTheChords(t *testing.T) {
 		code, rep, stderr := runCLI(t, "report", "--format", "json", log)
 		if code != 0 {
 			t.Fatalf("report: exit %d: %s", code, stderr)
+		}
+		// Logged when the take was played (--recorded), voices as players.
+		if !strings.Contains(rep, `"rehearsal_dates": [
+        "2026-11-24"
+      ]`) {
+			t.Errorf("%s: the journal's notes not dated 2026-11-24:\n%s", c.how[0], rep)
 		}
 		for _, w := range []struct {
 			who, member string

@@ -25,12 +25,12 @@ func chordsOf(notes []voiceNote, tu target.Tuning, seventh float64) []harmony.Ch
 }
 
 // logVoiceChords writes the chords' memberships to the journal, each with
-// its voice.
-func logVoiceChords(j *journalSink, source string, tu target.Tuning, chords []harmony.Chord, notes []voiceNote) {
+// its voice (start: the take's, or zero when heard now).
+func logVoiceChords(j *journalSink, source string, tu target.Tuning, chords []harmony.Chord, notes []voiceNote, start time.Time) {
 	for _, c := range chords {
 		j.chord(source, tu, c.Start, c.End, c.HeardChord, func(i int) (string, string) {
 			return "", strconv.Itoa(notes[c.Notes[i]].voice)
-		}, time.Time{})
+		}, start)
 	}
 }
 

@@ -40,7 +40,7 @@ func listenVoices(ctx context.Context, e *env, src source.Source, name string, t
 	if vo.chords {
 		sortVoiceNotes(notes)
 		chords := chordsOf(notes, tu, vo.seventh)
-		logVoiceChords(j, name, tu, chords, notes)
+		logVoiceChords(j, name, tu, chords, notes, time.Time{})
 		for _, h := range chords {
 			for _, c := range voiceChordRecords(h, "", notes) {
 				w.Write(c.record(false))
