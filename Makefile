@@ -41,7 +41,7 @@ test: deps vet
 	$(GO) test -race -count=1 -timeout 20m ./...
 
 # The pure core builds without cgo (and so without PortAudio's headers).
-CORE := ./source/ ./target/ ./pitchdetect/ ./session/ ./journal/ ./report/ ./drone/ ./ui/
+CORE := ./source/ ./target/ ./pitchdetect/ ./session/ ./journal/ ./report/ ./drone/ ./ui/ ./harmony/
 
 vet:
 	@out=$$(gofmt -l $$(git ls-files '*.go' 2>/dev/null || find . -name '*.go')); \

@@ -5,6 +5,7 @@ import (
 	"math"
 	"testing"
 
+	"fifthline/harmony"
 	"fifthline/internal/testsignal"
 	"fifthline/pitchdetect"
 	"fifthline/session"
@@ -30,10 +31,10 @@ func TestCommonTonesAreJudgedInEachChord(t *testing.T) {
 	players := []Player{{"vc", 0}, {"vla", 1}, {"vl2", 2}, {"vl1", 3}}
 	tu := target.Default()
 	var notes []Note
-	tracks := make([]Track, len(players))
+	tracks := make([]harmony.Track, len(players))
 	var learned Bleed
 	for range 2 { // learn the bleed, then read with it
-		notes, tracks = notes[:0], make([]Track, len(players))
+		notes, tracks = notes[:0], make([]harmony.Track, len(players))
 		err := Run(context.Background(), record(parts, 3.4, -20, 2.5), Options{Players: players, Bleed: &learned,
 			Tunings: session.NewTunings(tu),
 			OnNote:  func(n Note) error { notes = append(notes, n); return nil },

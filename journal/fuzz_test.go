@@ -13,7 +13,9 @@ func FuzzRead(f *testing.F) {
 	f.Add(headerLine() + sampleLine[:50])
 	f.Add(strings.TrimSuffix(headerLine(), "\n") + ",on_other_spelling\n" + strings.Replace(sampleLine, "Db5,40.00", ",", 1) + ",true\n")
 	f.Add("time,session\n1,2\n")
-	f.Add(olderHeaderLine() + strings.Replace(sampleLine, ",false,false,", ",false,", 1) + "\n" + headerLine() + sampleLine + "\n")
+	f.Add(olderHeaderLine() + olderSampleLine() + "\n" + headerLine() + sampleLine + "\n")
+	f.Add(headerLine() + strings.TrimSuffix(sampleLine, ",,,,") + ",2,E major,third,+6.00\n")
+	f.Add(headerLine() + strings.TrimSuffix(sampleLine, ",,,,") + ",,E major,,x\n")
 	f.Add("\"\n\"")
 	f.Add("")
 	f.Fuzz(func(t *testing.T, body string) {
@@ -33,7 +35,10 @@ func FuzzRead(f *testing.F) {
 			if e.SatOnOther() && (!e.HasAlt || e.SamePitch && !e.OnOtherKnown) {
 				t.Fatalf("on the other spelling without one: %+v", e)
 			}
-			for _, x := range []float64{e.Cents, e.AltCents, e.Hz, e.Start, e.A4} {
+			if e.HeardChord != "" && e.Member == "" || e.Reference && e.Member != "root" {
+				t.Fatalf("a chord membership without its member: %+v", e)
+			}
+			for _, x := range []float64{e.Cents, e.AltCents, e.Hz, e.Start, e.A4, e.JustCents} {
 				if math.IsNaN(x) || math.IsInf(x, 0) {
 					t.Fatalf("non-finite value in %+v", e)
 				}

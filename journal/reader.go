@@ -33,6 +33,13 @@ type Entry struct {
 	// OnOther is the on_other_spelling column (the contract's quarter-gap
 	// rule); OnOtherKnown is false in journals older than that column.
 	OnOther, OnOtherKnown bool
+	// Voice is the voice's number with --voices. A chord membership row
+	// (HeardChord not empty) is not a note of its own: see Extra.
+	Voice, HeardChord, Member string
+	JustCents                 float64
+	// Reference: the lowest sounding root, which JustCents of the chord's
+	// other members are measured from (its own just_cents is empty).
+	Reference bool
 }
 
 // NearerAlt reports whether the note sat nearer its other spelling's target
@@ -246,5 +253,24 @@ func (c columns) parse(line string) (Entry, error) {
 	if _, e.OnOtherKnown = c.at["on_other_spelling"]; e.OnOtherKnown {
 		e.OnOther = f.flag("on_other_spelling")
 	}
+	e.Voice, e.HeardChord, e.Member = f.later("voice"), f.later("heard_chord"), f.later("member")
+	if e.HeardChord != "" {
+		if e.Member == "" && f.err == nil {
+			f.err = fmt.Errorf("heard_chord %q without its member", e.HeardChord)
+		}
+		if e.Reference = f.later("just_cents") == ""; !e.Reference {
+			e.JustCents = f.num("just_cents")
+		} else if e.Member != "root" && f.err == nil {
+			f.err = fmt.Errorf("%s of %s without its just_cents", e.Member, e.HeardChord)
+		}
+	}
 	return e, f.err
+}
+
+// later is a Later column's text, empty where the journal lacks it.
+func (f *fieldReader) later(col string) string {
+	if _, ok := f.c.at[col]; !ok {
+		return ""
+	}
+	return strings.TrimSpace(f.str(col))
 }

@@ -228,30 +228,33 @@ func (w *Writer) prepare() (err error) {
 // disk failure the note is counted as lost and the error is returned (and
 // kept for Status and Close); later notes are still tried, so the journal
 // resumes if the disk comes back.
-func (w *Writer) Write(ev session.Event) error {
-	return w.write(ev, func() time.Time {
+func (w *Writer) Write(ev session.Event) error { return w.write(ev, Extra{}, w.now(ev)) }
+
+// now places a note heard now on the journal's clock (see runClock).
+func (w *Writer) now(ev session.Event) func() time.Time {
+	return func() time.Time {
 		run := w.run.offset(ev, w.meta.Now().Sub(w.opened).Seconds())
 		return w.opened.Add(seconds(run + ev.Start))
-	})
+	}
 }
 
 // WriteAt appends one held note of a recording that began at start (a
 // take's recording time): the note's time is start plus its offset in the
 // recording, whenever it is analysed. Otherwise it is Write.
 func (w *Writer) WriteAt(ev session.Event, start time.Time) error {
-	return w.write(ev, func() time.Time { return start.Add(seconds(ev.Start)) })
+	return w.WriteExtra(ev, Extra{}, start)
 }
 
 func seconds(s float64) time.Duration { return time.Duration(s * float64(time.Second)) }
 
-// write appends the note at the time at gives, under the lock.
-func (w *Writer) write(ev session.Event, at func() time.Time) error {
+// write appends the row at the time at gives, under the lock.
+func (w *Writer) write(ev session.Event, x Extra, at func() time.Time) error {
 	w.mu.Lock()
 	defer w.mu.Unlock()
 	if w.f == nil {
 		return w.tally.count(errNotOpen)
 	}
-	line := w.line(ev, at())
+	line := w.line(ev, x, at())
 	if w.torn {
 		line = append([]byte("\n"), line...)
 	}
@@ -286,7 +289,7 @@ func (w *Writer) sync(now time.Time) {
 
 // line formats the event, played at the given time, as one CSV line of
 // Header().
-func (w *Writer) line(ev session.Event, at time.Time) []byte {
+func (w *Writer) line(ev session.Event, x Extra, at time.Time) []byte {
 	tu := ev.Tuning
 	chord, temperament := "", ""
 	if tu.Chord != nil {
@@ -303,6 +306,7 @@ func (w *Writer) line(ev session.Event, at time.Time) []byte {
 		at.Format(TimeLayout), w.meta.Session, ev.Source, player, tu.Key.String(), temperament,
 		strconv.FormatFloat(tu.A4, 'f', -1, 64), tu.Transpose.Name, chord,
 	}, ev.Record(false)...)
+	rec = append(rec, x.record()...)
 	for i, f := range rec { // one physical line per note, whatever a name holds
 		rec[i] = oneLine.Replace(f)
 	}

@@ -6,7 +6,9 @@
 // words that agrees with that share, the vibrato's full width, how the
 // notes drifted within a rehearsal, and the notes that sat on the other
 // spelling — counted apart with their own mean against that spelling, and
-// left out of everything else. It writes a text table, CSV, JSON or a plot.
+// left out of everything else; and, where the journal holds chords heard,
+// where the player (or voice) sat in them per chord quality and member, in
+// cents from just. It writes a text table, CSV, JSON or a plot.
 //
 // Two deviations, two names, one definition (root-mean-square deviation
 // from the mean, divisor n): scatter, between the notes' cents; spread,

@@ -134,21 +134,33 @@ func notesPanel(es []journal.Entry, opt Options) (*plot.Plot, error) {
 			m.err = append(m.err, s.Scatter)
 		}
 	}
+	if err := m.draw(p, labels, opt.Tolerance); err != nil {
+		return nil, err
+	}
+	return p, nil
+}
+
+// draw lays the labels along the x axis, the means with their error bars
+// over them, and the tolerance band about 0.
+func (m meanScatter) draw(p *plot.Plot, labels []string, tol float64) error {
 	p.NominalX(labels...)
 	p.X.Min, p.X.Max = -0.6, float64(len(labels))-0.4
-	if len(m.XYs) > 0 {
-		bars, err := plotter.NewYErrorBars(m)
-		if err != nil {
-			return nil, err
-		}
-		bars.LineStyle.Color, bars.LineStyle.Width = plotutil.Color(0), vg.Points(1.5)
-		pts, _ := plotter.NewScatter(m.XYs)
-		pts.GlyphStyle = glyph(0)
-		p.Add(bars, pts)
+	defer func() {
+		fitBand(p, tol, 0)
+		band(p, tol, false, 0)
+	}()
+	if len(m.XYs) == 0 {
+		return nil
 	}
-	fitBand(p, opt.Tolerance, 0)
-	band(p, opt.Tolerance, false, 0)
-	return p, nil
+	bars, err := plotter.NewYErrorBars(m)
+	if err != nil {
+		return err
+	}
+	bars.LineStyle.Color, bars.LineStyle.Width = plotutil.Color(0), vg.Points(1.5)
+	pts, _ := plotter.NewScatter(m.XYs)
+	pts.GlyphStyle = glyph(0)
+	p.Add(bars, pts)
+	return nil
 }
 
 // emptyPanel stands where a group has no notes on their own spelling.

@@ -89,13 +89,16 @@ func Plot(w io.Writer, format string, entries []journal.Entry, groups []Group, o
 		if opt.ByRehearsal {
 			second = func() (*plot.Plot, error) { return rehearsalPanel(g, opt) }
 		}
-		panels := []struct {
-			make  func() (*plot.Plot, error)
-			share float64 // of the row's width
-		}{
+		panels := []panelSpec{
 			{func() (*plot.Plot, error) { return notesPanel(all, opt) }, 0.42},
 			{second, 0.36},
 			{func() (*plot.Plot, error) { return histogramPanel(mine, opt) }, 0.22},
+		}
+		if len(g.Roles) > 0 { // the chord roles beside the notes
+			for i, share := range []float64{0.29, 0.33, 0.16} {
+				panels[i].share = share
+			}
+			panels = append(panels, panelSpec{func() (*plot.Plot, error) { return rolesPanel(g, opt) }, 0.22})
 		}
 		x := row.Min.X
 		for _, pn := range panels {
@@ -111,6 +114,13 @@ func Plot(w io.Writer, format string, entries []journal.Entry, groups []Group, o
 	}
 	_, err := canvas.WriteTo(w)
 	return err
+}
+
+// panelSpec is one panel of a row: how to draw it and its share of the
+// row's width.
+type panelSpec struct {
+	make  func() (*plot.Plot, error)
+	share float64
 }
 
 // entriesOf is the group's notes.
@@ -141,7 +151,7 @@ func plotTitle(entries []journal.Entry, groups []Group, opt Options) [2]string {
 	if Rehearsal(journal.Entry{Time: first}) != Rehearsal(journal.Entry{Time: last}) {
 		when = first.Format("2 Jan 2006") + " – " + last.Format("2 Jan 2006")
 	}
-	held := plural(len(entries), "held note")
+	held := plural(countNotes(entries), "held note")
 	if len(groups) == 1 {
 		held = groups[0].Held()
 	}
@@ -154,7 +164,7 @@ func plotTitle(entries []journal.Entry, groups []Group, opt Options) [2]string {
 	}
 	players, tunings := map[string]bool{}, map[tuningOf]bool{}
 	for _, g := range groups {
-		players[g.Player] = true
+		players[g.Who()] = true
 		tunings[tuningOf{key: g.Key, temperament: g.Temperament, a4: g.A4, transpose: g.Transpose, chord: g.Chord}] = true
 	}
 	return [2]string{fmt.Sprintf("Rehearsal report: %s, %s (a row for each player in each tuning)",

@@ -16,7 +16,7 @@ import (
 // Title describes a group in one line: "Ann · G major · 1/4-comma meantone ·
 // A4 = 415 Hz", then any transposition and declared chord.
 func (g Group) Title() string {
-	player := g.Player
+	player := g.Who()
 	if player == "" {
 		player = "(no player named)"
 	}
@@ -100,6 +100,9 @@ func WriteText(out io.Writer, groups []Group, opt Options) error {
 		if err := tw.Flush(); err != nil {
 			return err
 		}
+		if err := writeRoles(w, g); err != nil {
+			return err
+		}
 		fmt.Fprintln(w)
 	}
 	fmt.Fprintln(w, strings.Join(Legend(), "\n"))
@@ -159,7 +162,7 @@ func textRow(w io.Writer, s Stats, opt Options) {
 var csvHeader = []string{"player", "key", "temperament", "a4", "transpose", "chord", "level", "note", "fifths", "count",
 	"mean_cents", "median_cents", "scatter_cents", "spread_cents", "vibrato_cents", "vibrato_notes", "within",
 	"share_within", "tendency", "on_other_spelling", "other_spelling", "other_spelling_mean_cents",
-	"slope_cents_per_min", "drift_cents", "span_min", "trend"}
+	"slope_cents_per_min", "drift_cents", "span_min", "trend", "voice", "chord_quality", "member"}
 
 // CSVHeader is the CSV report's header for these options.
 func CSVHeader(opt Options) []string {
@@ -195,7 +198,7 @@ func WriteCSV(w io.Writer, groups []Group, opt Options) error {
 				known = 1
 			}
 			r = append(r, ifAny(known, target.Decimal(s.Trend.SlopePerMinute, 4), target.Decimal(s.Trend.Drift, 2))...)
-			r = append(r, target.Decimal(s.Trend.Minutes, 2), s.Trend.Words)
+			r = append(r, target.Decimal(s.Trend.Minutes, 2), s.Trend.Words, g.Voice, "", "")
 			cw.Write(r)
 		}
 		for _, s := range g.Notes {
@@ -209,6 +212,9 @@ func WriteCSV(w io.Writer, groups []Group, opt Options) error {
 		}
 		if !opt.ByRehearsal {
 			row("all", g.All)
+		}
+		for _, r := range g.Roles {
+			cw.Write(roleRecord(g, r, opt))
 		}
 	}
 	cw.Flush()

@@ -24,6 +24,7 @@ type Options struct {
 // with plain ones).
 type Group struct {
 	Player      string   `json:"player"`
+	Voice       string   `json:"voice,omitempty"` // with --voices: the voice's number
 	Key         string   `json:"key"`
 	Temperament string   `json:"temperament"`         // the spec, e.g. meantone:1/4
 	Transpose   string   `json:"transpose,omitempty"` // the instrument's --transpose; notes are then written pitch
@@ -36,36 +37,46 @@ type Group struct {
 	All         Stats    `json:"all"`
 	// Rehearsals is all the group's notes per rehearsal, with ByRehearsal.
 	Rehearsals []Stats `json:"rehearsals,omitempty"`
+	// Roles are the group's chord memberships (journal rows with a
+	// heard_chord), per chord quality and member; never among the Notes.
+	Roles []Role `json:"chord_roles,omitempty"`
 }
 
 // tuningOf is what keeps groups apart.
 type tuningOf struct {
-	player, key, temperament string
-	a4                       float64
-	transpose, chord         string
+	player, voice, key, temperament string
+	a4                              float64
+	transpose, chord                string
 }
 
 func groupKey(e journal.Entry) tuningOf {
-	return tuningOf{e.Player, e.Key, e.Temperament, e.A4, e.Transpose, e.Chord}
+	return tuningOf{e.Player, e.Voice, e.Key, e.Temperament, e.A4, e.Transpose, e.Chord}
 }
 
-// Summarize groups the entries by player and tuning (in order of first
-// appearance) and describes each group per note, per pitch class and as a
-// whole — with ByRehearsal, each of those once per rehearsal.
+// Summarize groups the entries by player (or voice) and tuning (in order of
+// first appearance) and describes each group per note, per pitch class and
+// as a whole — with ByRehearsal, each of those once per rehearsal — and its
+// chord memberships per chord role.
 func Summarize(entries []journal.Entry, opt Options) []Group {
 	var order []tuningOf
 	members := map[tuningOf][]journal.Entry{}
+	chords := map[tuningOf][]journal.Entry{}
 	for _, e := range entries {
 		k := groupKey(e)
 		if _, ok := members[k]; !ok {
 			order = append(order, k)
+			members[k] = nil
 		}
-		members[k] = append(members[k], e)
+		if e.HeardChord != "" {
+			chords[k] = append(chords[k], e)
+		} else {
+			members[k] = append(members[k], e)
+		}
 	}
 	groups := make([]Group, 0, len(order))
 	for _, k := range order {
 		es := members[k]
-		g := Group{Player: k.player, Key: k.key, Temperament: k.temperament, A4: k.a4, Transpose: k.transpose, Chord: k.chord,
+		g := Group{Player: k.player, Voice: k.voice, Roles: roles(chords[k]), Key: k.key, Temperament: k.temperament, A4: k.a4, Transpose: k.transpose, Chord: k.chord,
 			Name: temperamentName(k.temperament)}
 		for _, e := range es {
 			g.Dates = append(g.Dates, Rehearsal(e))
@@ -86,9 +97,10 @@ func Summarize(entries []journal.Entry, opt Options) []Group {
 	return groups
 }
 
-// Holds reports whether the entry belongs to the group.
+// Holds reports whether the entry is one of the group's notes (a chord
+// membership is not a note: see Roles).
 func (g Group) Holds(e journal.Entry) bool {
-	return groupKey(e) == tuningOf{g.Player, g.Key, g.Temperament, g.A4, g.Transpose, g.Chord}
+	return e.HeardChord == "" && groupKey(e) == tuningOf{g.Player, g.Voice, g.Key, g.Temperament, g.A4, g.Transpose, g.Chord}
 }
 
 // Rehearsal is the day a note was played, YYYY-MM-DD, in the time zone it

@@ -26,6 +26,7 @@ import (
 
 	"fifthline/journal"
 	"fifthline/session"
+	"fifthline/target"
 )
 
 type journalFlags struct{ log, player string }
@@ -64,16 +65,27 @@ func (j *journalSink) note(ev session.Event) { j.noteAt(ev, time.Time{}) }
 
 // noteAt logs one held note of a recording that began at start (zero: now,
 // as note does); it never fails the session.
-func (j *journalSink) noteAt(ev session.Event, start time.Time) {
+func (j *journalSink) noteAt(ev session.Event, start time.Time) { j.row(ev, journal.Extra{}, start) }
+
+// row logs one row with its trailing columns (see journal.Extra); start as
+// for noteAt.
+func (j *journalSink) row(ev session.Event, x journal.Extra, start time.Time) {
 	if j.w == nil {
 		return
 	}
-	if start.IsZero() {
-		j.w.Write(ev)
-	} else {
-		j.w.WriteAt(ev, start)
-	}
+	j.w.WriteExtra(ev, x, start)
 	j.warnIfFailed()
+}
+
+// chord logs a heard chord's memberships, one row per member, as the chord
+// ends (start as for noteAt). who names member i's player and voice.
+func (j *journalSink) chord(source string, tu target.Tuning, from, to float64, c target.HeardChord, who func(i int) (player, voice string), start time.Time) {
+	for i, m := range c.Members {
+		player, voice := who(i)
+		ev, x := journal.Membership(source, player, tu, from, to, c, m)
+		x.Voice = voice
+		j.row(ev, x, start)
+	}
 }
 
 func (j *journalSink) warnIfFailed() {

@@ -9,9 +9,11 @@ import (
 	"fmt"
 	"slices"
 	"strconv"
+	"time"
 
 	"fifthline/capture"
 	"fifthline/ensemble"
+	"fifthline/harmony"
 	"fifthline/pitchdetect"
 	"fifthline/session"
 	"fifthline/target"
@@ -85,6 +87,13 @@ func chordRecords(c ensemble.Chord, path string) []chordJSON {
 	return out
 }
 
+// logChords writes the chords' memberships to the journal.
+func logChords(j *journalSink, source string, tu target.Tuning, chords []ensemble.Chord, start time.Time) {
+	for _, c := range chords {
+		j.chord(source, tu, c.Start, c.End, c.HeardChord, func(i int) (string, string) { return c.Players[i].Name, "" }, start)
+	}
+}
+
 // playersChordHeader is the contract's chord row with the player column.
 func playersChordHeader(withFile bool) []string {
 	h := chordHeader(withFile)
@@ -141,7 +150,9 @@ func analyzePlayers(e *env, po playerOptions, files []string, tu target.Tuning, 
 func readPlayers(e *env, path string, tu target.Tuning, po playerOptions, opt analyzeOptions, j *journalSink) ([]ensemble.Note, []ensemble.Chord, error) {
 	var learned ensemble.Bleed
 	var notes []ensemble.Note
-	tracks := make([]ensemble.Track, len(po.players))
+	var start time.Time
+	var runErr error
+	tracks := make([]harmony.Track, len(po.players))
 	var progress *progress // one bar over both passes
 	for pass := range 2 {
 		rec, err := capture.OpenRecording(path, 1)
@@ -152,7 +163,7 @@ func readPlayers(e *env, path string, tu target.Tuning, po playerOptions, opt an
 			rec.Close()
 			return nil, nil, usagef("%v", err)
 		}
-		start := takeStart(opt.recorded, rec)
+		start = takeStart(opt.recorded, rec)
 		if progress == nil {
 			progress = newProgress(e.stderr, path, 2*rec.Duration())
 		}
@@ -170,18 +181,21 @@ func readPlayers(e *env, path string, tu target.Tuning, po playerOptions, opt an
 		if pass == 1 || err != nil {
 			progress.Done()
 		}
-		if err != nil {
-			sortPlayerNotes(notes)
-			if errors.Is(err, context.Canceled) {
-				return notes, nil, fmt.Errorf("%s: interrupted; the notes before it are written", path)
-			}
-			return notes, nil, fmt.Errorf("%s: %w", path, err)
+		if runErr = err; err != nil {
+			break
 		}
 	}
 	sortPlayerNotes(notes)
 	var chords []ensemble.Chord
-	if po.chords {
+	if po.chords { // the chords heard before an interruption too
 		chords = ensemble.Chords(notes, tracks, po.players, tu, po.seventh)
+		logChords(j, path, tu, chords, start)
+	}
+	switch {
+	case errors.Is(runErr, context.Canceled):
+		return notes, chords, fmt.Errorf("%s: interrupted; the notes before it are written", path)
+	case runErr != nil:
+		return notes, chords, fmt.Errorf("%s: %w", path, runErr)
 	}
 	return notes, chords, nil
 }
@@ -236,7 +250,7 @@ func listenPlayers(ctx context.Context, e *env, src *capture.Input, name string,
 	}
 	interface_ := src.Carried()
 	var notes []ensemble.Note
-	tracks := make([]ensemble.Track, len(po.players))
+	tracks := make([]harmony.Track, len(po.players))
 	o := ensemble.Options{Name: name, Players: po.players, Tunings: session.NewTunings(tu),
 		OnNote: func(n ensemble.Note) error {
 			j.note(n.Event)
@@ -255,7 +269,9 @@ func listenPlayers(ctx context.Context, e *env, src *capture.Input, name string,
 	err := ensemble.Run(ctx, src, o)
 	if po.chords {
 		sortPlayerNotes(notes)
-		for _, c := range ensemble.Chords(notes, tracks, po.players, tu, po.seventh) {
+		chords := ensemble.Chords(notes, tracks, po.players, tu, po.seventh)
+		logChords(j, name, tu, chords, time.Time{})
+		for _, c := range chords {
 			for _, row := range chordRecords(c, "") {
 				w.Write(row.record(false))
 			}

@@ -14,45 +14,71 @@ import (
 	"fifthline/internal/vmic"
 )
 
-// soxQuartet writes a 4-channel take, one sawtooth part per channel as sox
-// synthesises it, each channel also hearing the other three 20 dB down
-// (×0.1) and 3 ms late, as close microphones hear their neighbours (the
-// ensemble issue's 15–25 dB and a few milliseconds). sox does the mixing.
-// The parts, in equal temperament at A4 = 440 Hz (ISO 16; frequencies
-// from 440·2^(n/12)): C major over C3, then G major over G2; the first
-// violin rests for the first 0.8 s.
+// soxQuartet is a 4-channel take (soxParts) of parts in equal temperament
+// at A4 = 440 Hz (ISO 16; frequencies from 440·2^(n/12)): C major over C3,
+// then G major over G2; the first violin rests for the first 0.8 s.
 func soxQuartet(t *testing.T) string {
+	multi, _ := soxParts(t, [][]soxNote{
+		{{130.8128, 0.2, 1.5, 0.1}, {97.9989, 0, 1.5, 0.2}},
+		{{195.9977, 0.2, 3.1, 0.2}},
+		{{329.6276, 0.2, 1.5, 0.1}, {293.6648, 0, 1.5, 0.2}},
+		{{523.2511, 0.8, 0.9, 0.1}, {493.8833, 0, 1.5, 0.2}},
+	})
+	return multi
+}
+
+// soxNote is one sawtooth note of a part: hz for seconds, with silence
+// before and after it.
+type soxNote struct{ hz, before, seconds, after float64 }
+
+// soxParts renders one sawtooth part per channel as sox synthesises it,
+// and mixes them (soxMix).
+func soxParts(t *testing.T, parts [][]soxNote) (multi, mono string) {
 	t.Helper()
 	dir := t.TempDir()
-	run := func(args ...string) {
+	run := soxRun(t)
+	f := func(x float64) string { return strconv.FormatFloat(x, 'f', 4, 64) }
+	var dry []string
+	for i, notes := range parts {
+		var files []string
+		for k, n := range notes {
+			p := filepath.Join(dir, strconv.Itoa(i)+"-"+strconv.Itoa(k)+".wav")
+			run("-n", "-r", "48000", "-b", "24", p, "synth", f(n.seconds), "sawtooth", f(n.hz), "fade", "0.02", f(n.seconds), "0.02",
+				"vol", "0.25", "pad", f(n.before), f(n.after))
+			files = append(files, p)
+		}
+		p := filepath.Join(dir, "part"+strconv.Itoa(i)+".wav")
+		run(append(files, p)...)
+		dry = append(dry, p)
+	}
+	return soxMix(t, dir, dry)
+}
+
+func soxRun(t *testing.T) func(args ...string) {
+	return func(args ...string) {
+		t.Helper()
 		if out, err := exec.Command("sox", args...).CombinedOutput(); err != nil {
 			t.Fatalf("sox %v: %v\n%s", args, err, out)
 		}
 	}
-	// note renders one note of seconds at hz, with silence before and after.
-	note := func(name string, hz, before, seconds, after float64) string {
-		p := filepath.Join(dir, name+".wav")
-		f := func(x float64) string { return strconv.FormatFloat(x, 'f', 4, 64) }
-		run("-n", "-r", "48000", "-b", "24", p, "synth", f(seconds), "sawtooth", f(hz), "fade", "0.02", f(seconds), "0.02",
-			"vol", "0.25", "pad", f(before), f(after))
-		return p
-	}
-	parts := [][]string{
-		{note("vc1", 130.8128, 0.2, 1.5, 0.1), note("vc2", 97.9989, 0, 1.5, 0.2)},
-		{note("vla", 195.9977, 0.2, 3.1, 0.2)},
-		{note("vl21", 329.6276, 0.2, 1.5, 0.1), note("vl22", 293.6648, 0, 1.5, 0.2)},
-		{note("vl11", 523.2511, 0.8, 0.9, 0.1), note("vl12", 493.8833, 0, 1.5, 0.2)},
-	}
-	var dry, late []string
-	for i, notes := range parts {
-		p := filepath.Join(dir, "part"+strconv.Itoa(i)+".wav")
-		run(append(notes, p)...)
+}
+
+// soxMix writes a 4-channel take of four mono parts (the dry files, one a
+// channel), each channel also hearing the other three 20 dB down (×0.1)
+// and 3 ms late, as close microphones hear their neighbours (the ensemble
+// issue's 15–25 dB and a few milliseconds); and the four dry parts summed
+// onto one channel, as one microphone hears them. sox does the mixing.
+func soxMix(t *testing.T, dir string, dry []string) (multi, mono string) {
+	t.Helper()
+	run := soxRun(t)
+	var late []string
+	for i, p := range dry {
 		d := filepath.Join(dir, "late"+strconv.Itoa(i)+".wav")
 		run(p, d, "pad", "0.003")
-		dry, late = append(dry, p), append(late, d)
+		late = append(late, d)
 	}
-	out := filepath.Join(dir, "quartet.wav")
-	args := append(append(append([]string{"-M"}, dry...), late...), "-b", "24", out, "remix")
+	multi, mono = filepath.Join(dir, "quartet.wav"), filepath.Join(dir, "mono.wav")
+	args := append(append(append([]string{"-M"}, dry...), late...), "-b", "24", multi, "remix")
 	for c := range 4 {
 		mix := []string{strconv.Itoa(c + 1)}
 		for o := range 4 {
@@ -63,7 +89,8 @@ func soxQuartet(t *testing.T) string {
 		args = append(args, strings.Join(mix, ","))
 	}
 	run(args...)
-	return out
+	run(append(append([]string{"-m"}, dry...), "-b", "24", mono)...)
+	return multi, mono
 }
 
 // Each player is read from their own channel: every note spelled right

@@ -5,60 +5,33 @@ import (
 	"encoding/json"
 	"fmt"
 	"io"
-	"slices"
+	"strconv"
 	"strings"
 	"text/tabwriter"
+	"time"
 
+	"fifthline/harmony"
 	"fifthline/target"
 )
 
-// minChordSeconds: a set of notes sounding together for less than this is a
-// passing moment (one voice entering late), not a held chord.
-const minChordSeconds = 0.3
-
-// heldChord is a stretch of time over which the same notes sound together.
-type heldChord struct {
-	start, end float64
-	notes      []int // indexes into the notes, as NameChord's members refer to them
-	chord      target.HeardChord
+// chordsOf finds the held chords among voice notes (harmony.Find), each
+// member read from its voice's frames within the chord.
+func chordsOf(notes []voiceNote, tu target.Tuning, seventh float64) []harmony.Chord {
+	hs := make([]harmony.Note, len(notes))
+	for i, n := range notes {
+		hs[i] = harmony.Note{Start: n.Start, End: n.End, Who: strconv.Itoa(n.voice), Note: n.Reading.Note, Frames: n.frames, Hz: n.Hz}
+	}
+	return harmony.Find(hs, tu, seventh)
 }
 
-// chordsOf finds the held chords among voice notes: between any two
-// consecutive note starts or ends, the notes sounding throughout are a chord
-// when they name one. A note held across a chord change belongs to both
-// chords, each reading it against its own root.
-func chordsOf(notes []voiceNote, tu target.Tuning, seventh float64) []heldChord {
-	var cuts []float64
-	for _, n := range notes {
-		cuts = append(cuts, n.Start, n.End)
+// logVoiceChords writes the chords' memberships to the journal, each with
+// its voice (start: the take's, or zero when heard now).
+func logVoiceChords(j *journalSink, source string, tu target.Tuning, chords []harmony.Chord, notes []voiceNote, start time.Time) {
+	for _, c := range chords {
+		j.chord(source, tu, c.Start, c.End, c.HeardChord, func(i int) (string, string) {
+			return "", strconv.Itoa(notes[c.Notes[i]].voice)
+		}, start)
 	}
-	slices.Sort(cuts)
-	cuts = slices.Compact(cuts)
-	var out []heldChord
-	for i := 1; i < len(cuts); i++ {
-		a, b := cuts[i-1], cuts[i]
-		var idx []int
-		var hz []float64
-		for k, n := range notes {
-			if n.Start <= a && n.End >= b {
-				idx = append(idx, k)
-				hz = append(hz, n.Hz)
-			}
-		}
-		if len(idx) < 2 {
-			continue
-		}
-		if last := len(out) - 1; last >= 0 && out[last].end == a && slices.Equal(out[last].notes, idx) {
-			out[last].end = b
-			continue
-		}
-		c, ok := tu.NameChord(hz, seventh)
-		if !ok {
-			continue
-		}
-		out = append(out, heldChord{start: a, end: b, notes: idx, chord: c})
-	}
-	return slices.DeleteFunc(out, func(h heldChord) bool { return h.end-h.start < minChordSeconds })
 }
 
 // chordHeader is the contract's chord row, with the voice column.
@@ -70,12 +43,13 @@ func chordHeader(withFile bool) []string {
 	return h
 }
 
-// records are the chord's rows, one per sounding member, lowest first.
-func (h heldChord) records(path string, notes []voiceNote) []chordJSON {
+// voiceChordRecords are the chord's rows, one per sounding member, lowest
+// first.
+func voiceChordRecords(h harmony.Chord, path string, notes []voiceNote) []chordJSON {
 	var out []chordJSON
-	for _, m := range h.chord.Members {
-		c := newChordJSON(path, h.start, h.end, h.chord, m)
-		c.Voice = notes[h.notes[m.Index]].voice
+	for i, m := range h.Members {
+		c := newChordJSON(path, h.Start, h.End, h.HeardChord, m)
+		c.Voice = notes[h.Notes[i]].voice
 		out = append(out, c)
 	}
 	return out

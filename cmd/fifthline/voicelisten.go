@@ -4,6 +4,7 @@ import (
 	"cmp"
 	"context"
 	"encoding/csv"
+	"time"
 
 	"fifthline/session"
 	"fifthline/source"
@@ -27,7 +28,7 @@ func listenVoices(ctx context.Context, e *env, src source.Source, name string, t
 	}
 	var notes []voiceNote
 	err := hearVoices(ctx, src, name, tu, vo, func(float64) {}, func(n voiceNote) error {
-		j.note(n.Event)
+		j.row(n.Event, n.extra(), time.Time{})
 		if vo.chords {
 			notes = append(notes, n)
 			return nil
@@ -38,8 +39,10 @@ func listenVoices(ctx context.Context, e *env, src source.Source, name string, t
 	})
 	if vo.chords {
 		sortVoiceNotes(notes)
-		for _, h := range chordsOf(notes, tu, vo.seventh) {
-			for _, c := range h.records("", notes) {
+		chords := chordsOf(notes, tu, vo.seventh)
+		logVoiceChords(j, name, tu, chords, notes, time.Time{})
+		for _, h := range chords {
+			for _, c := range voiceChordRecords(h, "", notes) {
 				w.Write(c.record(false))
 			}
 		}

@@ -11,6 +11,7 @@ import (
 	"strconv"
 
 	"fifthline/capture"
+	"fifthline/harmony"
 	"fifthline/multipitch"
 	"fifthline/session"
 	"fifthline/source"
@@ -105,11 +106,11 @@ func analyzeVoices(e *env, vo voiceOptions, files []string, tu target.Tuning, op
 		out.title = tu.String()
 	}
 	for i, path := range files {
-		notes, err := readVoices(e, path, tu, vo, opt.channel, j)
+		notes, chords, err := readVoices(e, path, tu, vo, opt, j)
 		// What was heard before an interruption is written all the same.
 		if vo.chords {
-			for _, row := range chordsOf(notes, tu, vo.seventh) {
-				for _, c := range row.records(fileColumn(path, withFile), notes) {
+			for _, row := range chords {
+				for _, c := range voiceChordRecords(row, fileColumn(path, withFile), notes) {
 					out.write(c.record(withFile), c)
 				}
 			}
@@ -128,33 +129,41 @@ func analyzeVoices(e *env, vo voiceOptions, files []string, tu target.Tuning, op
 	return errors.Join(out.close(), j.close())
 }
 
-// readVoices hears one file's voices; the notes come back ordered by start,
-// then voice.
-func readVoices(e *env, path string, tu target.Tuning, vo voiceOptions, channel int, j *journalSink) ([]voiceNote, error) {
-	w, err := capture.OpenWAVChannel(path, channel)
+// readVoices hears one file's voices, logging each note at the take's start
+// plus its offset; the notes come back ordered by start, then voice, with
+// the chords they make when vo.chords asks (logged too, also when
+// interrupted).
+func readVoices(e *env, path string, tu target.Tuning, vo voiceOptions, opt analyzeOptions, j *journalSink) ([]voiceNote, []harmony.Chord, error) {
+	w, err := capture.OpenWAVChannel(path, opt.channel)
 	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
+	start := takeStart(opt.recorded, w)
 	defer w.Close()
 	progress := newProgress(e.stderr, path, w.Duration())
 	defer progress.Done()
 	var notes []voiceNote
 	err = hearVoices(e.ctx, w, path, tu, vo, progress.At, func(n voiceNote) error {
-		j.note(n.Event)
+		j.row(n.Event, n.extra(), start)
 		notes = append(notes, n)
 		return nil
 	})
 	sortVoiceNotes(notes)
+	var chords []harmony.Chord
+	if vo.chords {
+		chords = chordsOf(notes, tu, vo.seventh)
+		logVoiceChords(j, path, tu, chords, notes, start)
+	}
 	switch {
 	case errors.Is(err, context.Canceled):
-		return notes, fmt.Errorf("%s: interrupted; the notes before it are written", path)
+		return notes, chords, fmt.Errorf("%s: interrupted; the notes before it are written", path)
 	case err != nil:
-		return notes, fmt.Errorf("%s: %w", path, err)
+		return notes, chords, fmt.Errorf("%s: %w", path, err)
 	}
 	if w.Truncated() {
 		fmt.Fprintf(e.stderr, "fifthline: warning: %s is shorter than its header says; read what was there\n", path)
 	}
-	return notes, nil
+	return notes, chords, nil
 }
 
 func sortVoiceNotes(notes []voiceNote) {
@@ -179,6 +188,7 @@ func hearVoices(ctx context.Context, src source.Source, name string, tu target.T
 			emitErr = emit(n)
 		}
 	})
+	tr.keepFrames = vo.chords
 	block := make([]float32, 1024)
 	for read := 0; emitErr == nil; {
 		if err = ctx.Err(); err != nil {

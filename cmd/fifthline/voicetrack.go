@@ -6,6 +6,8 @@ import (
 	"slices"
 	"strconv"
 
+	"fifthline/harmony"
+	"fifthline/journal"
 	"fifthline/multipitch"
 	"fifthline/pitchdetect"
 	"fifthline/session"
@@ -19,6 +21,7 @@ type voiceNote struct {
 	session.Event
 	voice   int
 	doubled bool
+	frames  *harmony.Track // its track's frames, kept for --chords; else nil
 }
 
 // voiceColumns follow the held-note columns.
@@ -40,6 +43,9 @@ func (n voiceNote) record(withFile bool) []string {
 	return append(n.Record(withFile), strconv.Itoa(n.voice), strconv.FormatBool(n.doubled))
 }
 
+// extra is the note's journal columns: its voice.
+func (n voiceNote) extra() journal.Extra { return journal.Extra{Voice: strconv.Itoa(n.voice)} }
+
 // tracker follows the estimator's voices from frame to frame: each voice
 // continues the track whose pitch it stays within the segmenter's jump of,
 // and each track is a pitchdetect.Segmenter, so a voice's held notes follow
@@ -51,15 +57,17 @@ type tracker struct {
 	tracks      []*track
 	done        []pitchdetect.Held // notes given out lately, to number voices by
 	emit        func(voiceNote)
+	keepFrames  bool // for reading chords: each track's frames
 }
 
 type track struct {
 	seg     *pitchdetect.Segmenter
 	hz      float64
 	start   float64 // its first frame
-	frames  int
-	doubled int // frames marked doubled
-	missed  int // frames in a row without its voice
+	count   int     // frames fed
+	doubled int     // frames marked doubled
+	missed  int     // frames in a row without its voice
+	frames  *harmony.Track
 	// delivered: its note is among tr.done (then it is not counted twice)
 	delivered bool
 }
@@ -115,6 +123,9 @@ func (tr *tracker) push(f multipitch.Frame) {
 			s := pitchdetect.NewSegmenter(tr.hop)
 			s.Window = tr.window
 			t := &track{seg: s, hz: v.Hz, start: f.Time}
+			if tr.keepFrames {
+				t.frames = &harmony.Track{}
+			}
 			tr.tracks = append(tr.tracks, t)
 			tr.feed(t, f.Time, v)
 		}
@@ -123,7 +134,10 @@ func (tr *tracker) push(f multipitch.Frame) {
 
 func (tr *tracker) feed(t *track, at float64, v multipitch.Voice) {
 	t.hz, t.missed = v.Hz, 0
-	t.frames++
+	t.count++
+	if t.frames != nil {
+		t.frames.Add(at, v.Hz)
+	}
 	if v.Doubled {
 		t.doubled++
 	}
@@ -153,18 +167,21 @@ func (tr *tracker) deliver(t *track, h pitchdetect.Held) {
 	// Voice 1 is the lowest sounding at the note's start: among the notes
 	// given out and the tracks held long enough to be notes, not the
 	// passing readings of an onset.
+	// Voices struck together are heard a hop or two apart; within half a
+	// window they count as sounding at the note's start.
+	together := tr.window / 2
 	voice := 1
 	for _, d := range tr.done {
-		if d.Start <= h.Start && d.End >= h.Start && d.Hz < h.Hz {
+		if d.Start <= h.Start+together && d.End >= h.Start && d.Hz < h.Hz {
 			voice++
 		}
 	}
 	for _, o := range tr.tracks {
-		if o != t && !o.delivered && o.start <= h.Start && o.frames >= o.seg.MinFrames && o.hz < h.Hz {
+		if o != t && !o.delivered && o.start <= h.Start+together && o.count >= o.seg.MinFrames && o.hz < h.Hz {
 			voice++
 		}
 	}
 	t.delivered = true
 	tr.done = append(slices.DeleteFunc(tr.done, func(d pitchdetect.Held) bool { return d.End < h.Start-60 }), h)
-	tr.emit(voiceNote{session.Event{Source: tr.name, Held: h, Reading: tr.tu.Classify(h.Hz), Tuning: tr.tu}, voice, 2*t.doubled > t.frames})
+	tr.emit(voiceNote{session.Event{Source: tr.name, Held: h, Reading: tr.tu.Classify(h.Hz), Tuning: tr.tu}, voice, 2*t.doubled > t.count, t.frames})
 }

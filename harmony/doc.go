@@ -1,0 +1,11 @@
+// Package harmony finds the chords that held notes make together and reads
+// each member within each chord. It serves both ways of hearing a group:
+// one player per channel (package ensemble) and several voices on one
+// channel (multipitch, followed in cmd/fifthline), so that a chord is one
+// thing whichever way it was heard: one minimum length, one rule for
+// joining stretches, one rule for leaving out a chord's edges.
+//
+// It lives in neither of those packages because it needs neither: only
+// held notes with their spelled names, their frames, and target to name
+// the chord. It is pure: no files, devices or clocks.
+package harmony

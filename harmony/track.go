@@ -1,0 +1,35 @@
+package harmony
+
+import (
+	"math"
+	"slices"
+)
+
+// Track is a player's or a voice's pitch frame by frame, for reading a
+// note's pitch within each chord it belongs to: a held common tone moves
+// when the chord around it changes.
+type Track struct {
+	Time, Hz []float64 // voiced frames only, in time order
+}
+
+// Add records a frame; unvoiced frames (hz 0) are not kept.
+func (tr *Track) Add(t, hz float64) {
+	if hz > 0 {
+		tr.Time, tr.Hz = append(tr.Time, t), append(tr.Hz, hz)
+	}
+}
+
+// Mean is the pitch over [from, to] (the mean of the frames' cents, so a
+// vibrato's centre), 0 when no frame was voiced there.
+func (tr *Track) Mean(from, to float64) float64 {
+	i, _ := slices.BinarySearch(tr.Time, from)
+	sum, n := 0.0, 0
+	for ; i < len(tr.Time) && tr.Time[i] <= to; i++ {
+		sum += math.Log2(tr.Hz[i])
+		n++
+	}
+	if n == 0 {
+		return 0
+	}
+	return math.Exp2(sum / float64(n))
+}

@@ -1,0 +1,58 @@
+package journal
+
+import (
+	"math"
+	"path/filepath"
+	"testing"
+
+	"fifthline/target"
+)
+
+// A voice's note carries its voice; a chord heard is written after its
+// notes as one membership row per member, and both read back: the note
+// rows unchanged, the membership rows with chord, member and cents from
+// just. The chord: C major over C3 with the third E4 6 ¢ above 5/4 (just
+// ratios: common practice; ISO 16 equal temperament at A4 = 440 Hz).
+func TestVoicesAndChordMembershipsInTheJournal(t *testing.T) {
+	tu := target.Default()
+	c3 := 440 * math.Exp2(-21.0/12)
+	e4 := c3 * 5 / 2 * math.Exp2(6.0/1200)
+	hc, ok := tu.NameChord([]float64{c3, e4}, target.DefaultSeventh)
+	if !ok {
+		t.Fatal("C3 and E4 name no chord")
+	}
+	path := filepath.Join(t.TempDir(), "j.csv")
+	w, err := Open(path, Meta{Session: "s1", Now: (&clock{opening}).now})
+	if err != nil {
+		t.Fatal(err)
+	}
+	start := opening.Add(-10 * 60e9) // the take began ten minutes before
+	note := heldAt(-2100, 0.5, 2.5, "take.wav")
+	w.WriteExtra(note, Extra{Voice: "1"}, start)
+	for _, m := range hc.Members {
+		ev, x := Membership("take.wav", "", tu, 0.6, 2.4, hc, m)
+		if err := w.WriteExtra(ev, x, start); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if err := w.Close(); err != nil {
+		t.Fatal(err)
+	}
+	es, warns, err := ReadFile(path)
+	if err != nil || len(warns) != 0 || len(es) != 3 {
+		t.Fatalf("%d entries, %q, %v", len(es), warns, err)
+	}
+	if es[0].Voice != "1" || es[0].HeardChord != "" || es[0].Note.String() != "C3" {
+		t.Errorf("note row read as %+v", es[0])
+	}
+	if root := es[1]; !root.Reference || root.Member != "root" {
+		t.Errorf("the lowest root, the chord's reference, read as %+v", root)
+	}
+	third := es[2]
+	if third.HeardChord != "C major" || third.Member != "third" || third.Note.String() != "E4" ||
+		math.Abs(third.JustCents-6) > 0.005 || math.Abs(third.Cents-(6-13.69)) > 0.01 || third.Start != 0.6 ||
+		!third.Time.Equal(start.Add(600e6)) {
+		// 5/4 is 386.31 ¢, 13.69 ¢ below the equal third (common practice).
+		t.Errorf("third's membership read as %+v", third)
+	}
+}

@@ -1,0 +1,101 @@
+package report
+
+import (
+	"bytes"
+	"encoding/csv"
+	"strings"
+	"testing"
+
+	"fifthline/journal"
+	"fifthline/target"
+)
+
+// member is a chord membership row of the given player.
+func member(player, chord, role string, just float64, reference bool) journal.Entry {
+	n, _ := target.ParseNote("C4")
+	return journal.Entry{Player: player, Key: "C major", Temperament: "equal", A4: 440, Note: n,
+		HeardChord: chord, Member: role, JustCents: just, Reference: reference}
+}
+
+// Where each player sits in the chords, in the words of the trade (common
+// practice): a third above just is sharp; a fifth whose upper note lies
+// below 3/2 above the root is narrow, above it wide. A role is put into
+// words from RoleChords chords on; the lowest root, the reference, is not
+// a reading; memberships are never counted as notes.
+func TestChordRoles(t *testing.T) {
+	var es []journal.Entry
+	for _, j := range []float64{5, 6, 7} { // mean 6, scatter √(2/3) = 0.816 (hand-computed)
+		es = append(es, member("vla", "C major", "third", j, false), member("vc", "C major", "root", 0, true))
+	}
+	es = append(es,
+		member("vla", "F major", "fifth", -1.5, false), member("vla", "G major", "fifth", -0.5, false),
+		member("vla", "D major", "fifth", -1, false),
+		member("vla", "A minor", "third", -3, false), member("vla", "E minor", "third", -3, false),
+		member("vl1", "C major", "fifth", 2, false), member("vl1", "C major", "fifth", 1, false), member("vl1", "C major", "fifth", 1.5, false))
+	n, _ := target.ParseNote("C3")
+	es = append(es, journal.Entry{Player: "vc", Key: "C major", Temperament: "equal", A4: 440, Note: n, Cents: 1})
+	groups := Summarize(es, Options{Tolerance: 5})
+	words := map[string]string{}
+	for _, g := range groups {
+		words[g.Who()] = g.RoleWords()
+		if g.Who() == "vc" && (g.All.Count != 1 || len(g.Roles) != 0) {
+			t.Errorf("vc: %d notes, roles %+v; want its one note and no role (the reference is no reading)", g.All.Count, g.Roles)
+		}
+	}
+	want := map[string]string{
+		"vla": "thirds in major chords sit 6.0 ¢ above just (sharp) (3 chords); fifths 1.0 ¢ narrow (3 chords)",
+		"vl1": "fifths in major chords sit 1.5 ¢ wide (3 chords)",
+		"vc":  "",
+	}
+	for who, w := range want {
+		if words[who] != w {
+			t.Errorf("%s: %q, want %q", who, words[who], w)
+		}
+	}
+	// Two minor thirds are shown, not put into words.
+	var b bytes.Buffer
+	if err := WriteCSV(&b, groups, Options{Tolerance: 5}); err != nil {
+		t.Fatal(err)
+	}
+	recs, _ := csv.NewReader(&b).ReadAll()
+	var rows []string
+	for _, r := range recs {
+		if r[6] == "chord_role" {
+			rows = append(rows, strings.Join(r, ","))
+		}
+	}
+	wantRows := []string{
+		"vla,C major,equal,440,,,chord_role,,,3,6.00,6.00,0.82,,,,,,6.0 ¢ above just (sharp),,,,,,,,,major,third",
+		"vla,C major,equal,440,,,chord_role,,,3,-1.00,-1.00,0.41,,,,,,1.0 ¢ narrow,,,,,,,,,major,fifth",
+		"vla,C major,equal,440,,,chord_role,,,2,-3.00,-3.00,0.00,,,,,,,,,,,,,,,minor,third",
+		"vl1,C major,equal,440,,,chord_role,,,3,1.50,1.50,0.41,,,,,,1.5 ¢ wide,,,,,,,,,major,fifth",
+	}
+	if strings.Join(rows, "\n") != strings.Join(wantRows, "\n") {
+		t.Errorf("chord role rows\n%s\nwant\n%s", strings.Join(rows, "\n"), strings.Join(wantRows, "\n"))
+	}
+}
+
+// The plot gives a player with chord roles a panel of them beside the
+// notes' panels, each role named with its chord quality and count; the
+// memberships are not counted among the held notes.
+func TestPlotShowsChordRoles(t *testing.T) {
+	es := sampleEntries()
+	for range 3 {
+		es = append(es, member("Ann", "D major", "third", 6, false))
+	}
+	for i := range es[len(es)-3:] {
+		es[len(es)-3+i].Key, es[len(es)-3+i].Temperament, es[len(es)-3+i].A4 = "G major", "meantone:1/4", 415
+	}
+	opt := Options{Tolerance: 5}
+	var b bytes.Buffer
+	if err := Plot(&b, "svg", es, Summarize(es, opt), opt); err != nil {
+		t.Fatal(err)
+	}
+	svg := b.String()
+	for _, want := range []string{"Per chord role: mean ± scatter", "third", "3 chords", "cents from just",
+		"Ann · G major · 1/4-comma meantone · A4 = 415 Hz — 6 held notes (1 on the other spelling)"} {
+		if !strings.Contains(svg, xmlText(want)) {
+			t.Errorf("svg lacks %q", want)
+		}
+	}
+}
