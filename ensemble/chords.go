@@ -22,10 +22,10 @@ func (tr *Track) Add(t, hz float64) {
 	}
 }
 
-// chordEdge is how much of a chord's start and end is left out of its
+// ChordEdge is how much of a chord's start and end is left out of its
 // members' pitches: a new voice's attack, or the last chord's release,
 // is not the chord's tuning.
-const chordEdge = 0.06
+const ChordEdge = 0.06
 
 // MinChordSeconds is the shortest stretch of notes held together that
 // counts as a chord: shorter is a passing overlap of two notes.
@@ -111,7 +111,7 @@ func Chords(notes []Note, tracks []Track, players []Player, tu target.Tuning, se
 		ok := true
 		for i, p := range c.Players {
 			k := slices.Index(players, p)
-			if hz[i] = tracks[k].Mean(c.Start+chordEdge, c.End-chordEdge); hz[i] == 0 {
+			if hz[i] = tracks[k].Mean(c.Start+ChordEdge, c.End-ChordEdge); hz[i] == 0 {
 				ok = false
 			}
 		}
