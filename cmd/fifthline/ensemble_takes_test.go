@@ -176,6 +176,11 @@ func (r renderedTake) loneNotes(t *testing.T) [][]map[string]string {
 			t.Fatalf("%s %s alone: %d notes, %d written:\n%s", r.name, r.players[i], len(rows), len(r.parts[i].Notes), out)
 		}
 		for j, row := range rows {
+			// Every note the takes write is spelled alike in C, D and F
+			// major (C♯, F♯ and B♭ included), as spelledInC spells it.
+			if want := spelledInC(r.parts[i].Notes[j].Key); row["note"] != want {
+				t.Fatalf("%s %s alone: note %d read %s, written %s", r.name, r.players[i], j+1, row["note"], want)
+			}
 			// The sample's own tuning, as the lone part reads it.
 			t.Logf("%s %s %s: alone %s Hz, %+.2f ¢ from the asked %.3f Hz", r.name, r.players[i], row["note"], row["hz"], testsignal.Cents(parseF(row["hz"]), r.asked(i, j)), r.asked(i, j))
 		}
