@@ -107,6 +107,7 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 	hist := newHistory(len(voices), src.SampleRate())
 	heard := make([][]float32, len(voices)) // each player's channel, this block
 	hz, steady := make([]float64, len(voices)), make([]bool, len(voices))
+	read := make([]float64, len(voices)) // each detector's pitch this frame, before the ownership test
 	frame := 0
 	blocks, view := make([][]float32, src.Channels()), make([][]float32, src.Channels())
 	for c := range blocks {
@@ -160,8 +161,11 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 				fresh = true
 			}
 			for i, v := range voices {
+				read[i] = v.est[j].Hz
+			}
+			for i, v := range voices {
 				e := v.est[j]
-				if e.Voiced && owner.Bleed(i, e.Hz, ownDB) {
+				if e.Voiced && owner.Bleed(i, e.Hz, read, ownDB) {
 					e.Voiced, e.Hz, e.Confidence = false, 0, 0
 				}
 				hz[i], steady[i] = e.Hz, v.steady(e.Hz)

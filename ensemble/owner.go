@@ -69,7 +69,10 @@ func (o *Owner) Set(c int, a, b []float64) {
 
 // Power is the power of the harmonics of hz on channel c in this frame (0
 // if Set was not called for c since Reset).
-func (o *Owner) Power(c int, hz float64) float64 {
+func (o *Owner) Power(c int, hz float64) float64 { return o.power(c, hz, 0) }
+
+// power is Power without the harmonics marked in skip (bit k−1 for k).
+func (o *Owner) power(c int, hz float64, skip uint16) float64 {
 	if !o.have[c] || !(hz > 0) {
 		return 0
 	}
@@ -81,6 +84,9 @@ func (o *Owner) Power(c int, hz float64) float64 {
 		if centre+ownBins >= len(spec) {
 			break
 		}
+		if skip&(1<<(k-1)) != 0 {
+			continue
+		}
 		for b := max(centre-ownBins, 0); b <= centre+ownBins; b++ {
 			p += sqr(cmplx.Abs(spec[b]))
 		}
@@ -91,12 +97,15 @@ func (o *Owner) Power(c int, hz float64) float64 {
 func sqr(x float64) float64 { return x * x }
 
 // Bleed tells whether a pitch heard on channel c is another channel's:
-// its harmonics sound more than ownDB louder on one of the others.
-func (o *Owner) Bleed(c int, hz, ownDB float64) bool {
-	mine := o.Power(c, hz)
+// its harmonics sound more than ownDB louder on one of the others, leaving
+// out those on the partials of the others' own pitches this frame
+// (pitches, by channel; see sharedHarmonics).
+func (o *Owner) Bleed(c int, hz float64, pitches []float64, ownDB float64) bool {
+	skip := sharedHarmonics(c, hz, pitches, o.fs/float64(len(o.win)))
+	mine := o.power(c, hz, skip)
 	limit := mine * math.Pow(10, ownDB/10)
 	for d := range o.spec {
-		if d != c && o.have[d] && o.Power(d, hz) > limit {
+		if d != c && o.have[d] && o.power(d, hz, skip) > limit {
 			return true
 		}
 	}

@@ -215,20 +215,7 @@ func TestAnalyzePlayersUsageErrors(t *testing.T) {
 // the test holds is every player's notes spelled and within 1 ¢ and the
 // resting violin silent until she enters.
 func TestListenPlayersHearsTheQuartetLive(t *testing.T) {
-	mic := vmic.IsolateChannels(t, "front-left", "front-right", "rear-left", "rear-right")
-	quartet := soxQuartet(t)
-	wait, proc := startPlainProcess(t, nil, "--players", "vc,vla,vl2,vl1", "--duration", "120s")
-	if err := mic.PlayChannels(quartet)(); err != nil { // returns once the take has played
-		t.Fatal(err)
-	}
-	time.Sleep(700 * time.Millisecond) // the last notes' release reaches the input
-	if err := proc.Signal(os.Interrupt); err != nil {
-		t.Fatal(err)
-	}
-	code, out, stderr := wait()
-	if code != 0 {
-		t.Fatalf("exit %d: %s", code, stderr)
-	}
+	out := playQuartetLive(t, soxQuartet(t), "--players", "vc,vla,vl2,vl1")
 	header, rows := readCSV(t, out)
 	if strings.Join(header[len(header)-2:], ",") != "player,channel" {
 		t.Fatalf("header %v", header)
@@ -246,6 +233,28 @@ func TestListenPlayersHearsTheQuartetLive(t *testing.T) {
 			t.Errorf("%s played %v, heard %v:\n%s", p, notes, got[p], out)
 		}
 	}
+}
+
+// playQuartetLive plays a 4-channel take into a four-channel null sink of
+// the test's own (its monitor the input) while listen --plain runs with
+// args, stops it with Ctrl-C once the take has played and returns what it
+// wrote.
+func playQuartetLive(t *testing.T, take string, args ...string) string {
+	t.Helper()
+	mic := vmic.IsolateChannels(t, "front-left", "front-right", "rear-left", "rear-right")
+	wait, proc := startPlainProcess(t, nil, append(args, "--duration", "120s")...)
+	if err := mic.PlayChannels(take)(); err != nil { // returns once the take has played
+		t.Fatal(err)
+	}
+	time.Sleep(700 * time.Millisecond) // the last notes' release reaches the input
+	if err := proc.Signal(os.Interrupt); err != nil {
+		t.Fatal(err)
+	}
+	code, out, stderr := wait()
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	return out
 }
 
 // JSON rows are the CSV's columns, typed: numbers as numbers, the player

@@ -14,10 +14,13 @@ type MIDIPart struct {
 	Notes   []TimedNote
 }
 
-// TimedNote is a MIDI key (60 = C4) sounding from Start for Seconds.
+// TimedNote is a MIDI key (60 = C4) sounding from Start for Seconds, bent
+// Cents further than its part (a just third in one chord of a part
+// otherwise tempered).
 type TimedNote struct {
 	Key            int
 	Start, Seconds float64
+	Cents          float64
 }
 
 // BendCents is the pitch a bend sets, for the 14-bit value BendValue gives
@@ -31,7 +34,8 @@ func BendValue(cents float64) int { return min(max(8192+int(cents*8192/200+0.5),
 
 // MIDIParts builds a Standard MIDI File (format 0, 960 ticks a second as
 // MIDI builds) with each part on channel i: its program and bend at time 0,
-// then its notes; the last release rings for half a second.
+// then its notes; the last release rings for half a second. A part with a
+// note of its own bend sets the bend again at each of its notes' starts.
 func MIDIParts(parts []MIDIPart) []byte {
 	type event struct {
 		tick int
@@ -43,7 +47,12 @@ func MIDIParts(parts []MIDIPart) []byte {
 		b := BendValue(p.Cents)
 		evs = append(evs, event{0, []byte{0xC0 | byte(ch), byte(p.Program)}},
 			event{0, []byte{0xE0 | byte(ch), byte(b & 0x7f), byte(b >> 7)}})
+		perNote := slices.ContainsFunc(p.Notes, func(n TimedNote) bool { return n.Cents != 0 })
 		for _, n := range p.Notes {
+			if perNote {
+				b := BendValue(p.Cents + n.Cents)
+				evs = append(evs, event{ticks(n.Start), []byte{0xE0 | byte(ch), byte(b & 0x7f), byte(b >> 7)}})
+			}
 			evs = append(evs, event{ticks(n.Start), []byte{0x90 | byte(ch), byte(n.Key), 96}},
 				event{ticks(n.Start + n.Seconds), []byte{0x80 | byte(ch), byte(n.Key), 0}})
 		}
