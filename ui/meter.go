@@ -45,6 +45,12 @@ type Options struct {
 	// ASCII writes ## and bb for accidentals and ASCII marks, for
 	// terminals whose locale is not UTF-8 (ASCIILocale) or on request.
 	ASCII bool
+	// Group, when set, makes the meter a group meter with one row per
+	// name (at most 9: a digit key each), fed by OnGroupFrame.
+	Group []string
+	// Seventh is the just ratio a chord's minor seventh is read against;
+	// 0 means target.DefaultSeventh.
+	Seventh float64
 }
 
 // Meter is the live screen. Feed it from session.Run with OnFrame and
@@ -59,6 +65,8 @@ type Meter struct {
 	quit    chan struct{}
 	once    sync.Once
 	model   *model             // touched only on tview's goroutine once Run starts
+	group   *groupModel        // nil for one player; shares model
+	groupFr chan GroupFrame
 	drawn   func(tcell.Screen) // tests: called on tview's goroutine after each draw
 }
 
@@ -68,13 +76,44 @@ func New(opt Options) *Meter {
 	model := newModel(tu, opt.Source)
 	model.HasSound, model.SoundLevel, model.Caution = opt.Sound != nil, opt.SoundLevel, opt.Caution
 	model.ASCII = opt.ASCII
-	return &Meter{
+	m := &Meter{
 		opt: opt, start: tu,
 		frames: make(chan session.Frame, frameBuffer),
 		notes:  make(chan session.Event, frameBuffer),
 		quit:   make(chan struct{}),
 		model:  model,
 	}
+	if opt.Group != nil {
+		m.group = newGroupModel(model, opt.Group[:min(len(opt.Group), maxRows)], opt.Seventh)
+		m.groupFr = make(chan GroupFrame, frameBuffer)
+	}
+	return m
+}
+
+// maxRows is the most rows a group meter shows: one digit key each.
+const maxRows = 9
+
+// OnGroupFrame hands a group meter one moment of the group without
+// waiting (f.Hz is copied): if the screen has fallen behind, the frame is
+// dropped and counted. A meter made without Options.Group ignores it.
+func (m *Meter) OnGroupFrame(f GroupFrame) {
+	if m.group == nil {
+		return
+	}
+	f.Hz = append([]float64(nil), f.Hz...)
+	select {
+	case m.groupFr <- f:
+	default:
+		m.dropped.Add(1)
+	}
+}
+
+// screen is the whole screen for w × h cells: the group's or one player's.
+func (m *Meter) screen(w, h int) []screenLine {
+	if m.group != nil {
+		return groupLayout(m.group, w, h)
+	}
+	return layout(m.model, w, h)
 }
 
 // OnFrame hands the meter one analysis frame without waiting: if the screen
@@ -116,7 +155,7 @@ func (m *Meter) Run(ctx context.Context) error {
 	var screen tcell.Screen
 	root := &view{Box: tview.NewBox(), draw: func(s tcell.Screen, x, y, w, h int) {
 		screen = s
-		paint.paint(s, layout(m.model, w, h), x, y, w, h, true)
+		paint.paint(s, m.screen(w, h), x, y, w, h, true)
 		if m.drawn != nil {
 			m.drawn(s)
 		}
@@ -127,7 +166,7 @@ func (m *Meter) Run(ctx context.Context) error {
 		if screen == nil {
 			return // tview has not drawn yet
 		}
-		paint.paint(screen, layout(m.model, paint.w, paint.h), paint.x, paint.y, paint.w, paint.h, false)
+		paint.paint(screen, m.screen(paint.w, paint.h), paint.x, paint.y, paint.w, paint.h, false)
 		screen.Show()
 		if m.drawn != nil {
 			m.drawn(screen)
@@ -183,6 +222,8 @@ func (m *Meter) drain() {
 			m.model.AddFrame(f)
 		case ev := <-m.notes:
 			m.model.AddNote(ev)
+		case f := <-m.groupFr: // nil (never ready) for one player
+			m.group.AddFrame(f)
 		default:
 			more = false
 		}
@@ -219,6 +260,11 @@ func (m *Meter) key(app *tview.Application, ev *tcell.EventKey) *tcell.EventKey 
 	case "Esc":
 		m.model.Help = false
 		return nil
+	case "1", "2", "3", "4", "5", "6", "7", "8", "9":
+		if m.group != nil {
+			m.group.Toggle(int(name[0] - '1'))
+			return nil
+		}
 	case "d":
 		m.model.CycleDrone(m.opt.Sound)
 		return nil
