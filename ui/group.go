@@ -10,9 +10,10 @@ import (
 // players on their own channels (package ensemble) or several voices on one
 // (package multipitch, rows low to high).
 type GroupFrame struct {
-	Time  float64   // stream seconds
-	Hz    []float64 // each row's pitch, indexed like Options.Group; 0: silent
-	Level float64   // the loudest row's level, dBFS
+	Time   float64   // stream seconds
+	Hz     []float64 // each row's pitch, indexed like Options.Group; 0: silent
+	Levels []float64 // each row's level, dBFS, indexed like Hz
+	Level  float64   // the loudest row's level, dBFS
 	// Drift is how far the whole group has moved from the reference, in
 	// cents, apart from each chord's own tuning; the screen shows "—"
 	// while DriftKnown is false.
@@ -23,8 +24,10 @@ type GroupFrame struct {
 // Rows hold a pitch once it has stayed within rowCents of itself over the
 // last rowSeconds, for at least rowFrames frames, and drop it rowBridge
 // seconds after its last frame: steady enough to read a chord by, quick
-// enough to follow a change of chord within a beat.
+// enough to follow a change of chord within a beat. Frames rowFallDB below
+// the loudest of them are left out: a note's release is not its pitch.
 const (
+	rowFallDB  = 6
 	rowSeconds = 0.5 // more than two cycles of a 5 Hz vibrato: its centre
 	rowCents   = 50
 	rowFrames  = 3
@@ -57,6 +60,7 @@ type groupModel struct {
 	chord     []float64
 	sounding  bool // chord is sounding now
 	before    [][]float64
+	left      []bool // rows that have played another note since chord
 	chordName string // chord's name when it was heard, to tell a change
 	// next is a chord heard since nextAt that differs from chord's; it
 	// replaces it once it has lasted chordSettle.
@@ -67,6 +71,7 @@ type groupModel struct {
 // groupRow is one player's or voice's recent frames and what they hold.
 type groupRow struct {
 	times, hz []float64 // voiced frames of the last rowSeconds
+	levels    []float64 // their levels, dBFS
 	Hz        float64   // the pitch held now, 0 when none
 	Last      float64   // the last pitch held
 }
@@ -75,7 +80,7 @@ func newGroupModel(m *model, names []string, seventh float64) *groupModel {
 	if seventh == 0 {
 		seventh = target.DefaultSeventh
 	}
-	return &groupModel{model: m, Names: names, Seventh: seventh, Off: make([]bool, len(names)), rows: make([]groupRow, len(names))}
+	return &groupModel{model: m, Names: names, Seventh: seventh, Off: make([]bool, len(names)), left: make([]bool, len(names)), rows: make([]groupRow, len(names))}
 }
 
 // AddFrame takes one moment of the group.
@@ -83,37 +88,47 @@ func (g *groupModel) AddFrame(f GroupFrame) {
 	g.Now, g.Level = f.Time, f.Level
 	g.Voiced = false
 	for i := range g.rows {
-		hz := 0.0
+		hz, level := 0.0, 0.0
 		if i < len(f.Hz) {
 			hz = f.Hz[i]
 		}
+		if i < len(f.Levels) {
+			level = f.Levels[i]
+		}
 		g.Voiced = g.Voiced || hz > 0
-		g.rows[i].add(f.Time, hz)
+		g.rows[i].add(f.Time, hz, level)
 	}
 	g.Drift, g.DriftKnown = f.Drift, f.DriftKnown
 	g.followChord(false)
 }
 
 // add keeps the row's voiced frames of the last rowSeconds and decides what
-// it holds: the mean (in cents) of those within rowCents of the newest.
-func (r *groupRow) add(t, hz float64) {
+// it holds: the mean (in cents) of those within rowCents of the newest and
+// within rowFallDB of the loudest of these.
+func (r *groupRow) add(t, hz, level float64) {
 	if hz > 0 && !math.IsInf(hz, 0) {
-		r.times, r.hz = append(r.times, t), append(r.hz, hz)
+		r.times, r.hz, r.levels = append(r.times, t), append(r.hz, hz), append(r.levels, level)
 	}
 	cut := 0
 	for cut < len(r.times) && r.times[cut] < t-rowSeconds {
 		cut++
 	}
-	r.times, r.hz = append(r.times[:0], r.times[cut:]...), append(r.hz[:0], r.hz[cut:]...)
+	r.times, r.hz, r.levels = r.times[cut:], r.hz[cut:], r.levels[cut:]
 	r.Hz = 0
 	n := len(r.hz)
 	if n == 0 || t-r.times[n-1] > rowBridge {
 		return
 	}
-	newest := r.hz[n-1]
+	newest, loudest := r.hz[n-1], math.Inf(-1)
+	near := func(f float64) bool { return math.Abs(1200*math.Log2(f/newest)) <= rowCents }
+	for i, f := range r.hz {
+		if near(f) {
+			loudest = max(loudest, r.levels[i])
+		}
+	}
 	sum, k := 0.0, 0
-	for _, f := range r.hz {
-		if math.Abs(1200*math.Log2(f/newest)) <= rowCents {
+	for i, f := range r.hz {
+		if near(f) && r.levels[i] >= loudest-rowFallDB {
 			sum += math.Log2(f)
 			k++
 		}
@@ -150,10 +165,23 @@ func (g *groupModel) followChord(force bool) {
 	}
 	if !ok || name != g.chordName && !force && g.Now-g.nextAt < chordSettle {
 		g.sounding = false
+		for i, f := range hz {
+			if f > 0 && (i >= len(g.chord) || !(math.Abs(1200*math.Log2(f/g.chord[i])) <= rowCents)) {
+				g.left[i] = true
+			}
+		}
 		return
 	}
 	g.sounding = true
-	if name != g.chordName {
+	if name == g.chordName {
+		// A player who stops while the others hold the chord on is still
+		// heard in it: their last note stays a member, dim.
+		for i, f := range hz {
+			if f == 0 && !g.Off[i] && i < len(g.chord) && g.chord[i] > 0 {
+				hz[i] = g.chord[i]
+			}
+		}
+	} else {
 		if g.chord != nil {
 			g.before = append(g.before, g.chord)
 			if len(g.before) > chordsKept {
@@ -163,6 +191,7 @@ func (g *groupModel) followChord(force bool) {
 		g.chordName = name
 	}
 	g.chord = hz
+	clear(g.left)
 }
 
 // name names the chord the per-row pitches make in the current tuning;
@@ -207,10 +236,9 @@ func (g *groupModel) readings() []rowReading {
 	}
 	for i, r := range g.rows {
 		rr := rowReading{Name: g.Names[i], On: !g.Off[i], Holding: r.Hz > 0, Heard: r.Last > 0}
-		// After the chord: a row still reads in it while it last held
-		// that chord's note, not once it has moved on.
+		// After the chord: a row still reads in it until it plays on.
 		m, member := members[i]
-		member = member && rr.On && (g.sounding || !rr.Holding && r.Last == g.chord[i])
+		member = member && rr.On && (g.sounding || !rr.Holding && !g.left[i])
 		if member {
 			rr.Note, rr.Cents, rr.InChord, rr.Role, rr.Just = m.Note, m.Cents, true, m.Role, m.JustCents
 		} else if rr.Heard {

@@ -15,7 +15,7 @@ import (
 func et(semitonesFromA4 int) float64 { return 440 * math.Exp2(float64(semitonesFromA4)/12) }
 
 var (
-	e3, b3, gSharp4 = et(-17), et(-10), et(-1)
+	e3, b3, gSharp4   = et(-17), et(-10), et(-1)
 	d3, a3, etFSharp4 = et(-19), et(-12), et(-3)
 )
 
@@ -210,5 +210,36 @@ func TestGroupHelpNamesTheRowKeys(t *testing.T) {
 	s := screenOf(g, 80, 24)
 	if !strings.Contains(s, "1–3   switch that row off") || !strings.Contains(s, "temperament") {
 		t.Errorf("help:\n%s", s)
+	}
+}
+
+// A note's release is not its pitch: frames 6 dB or more below the note's
+// loudest are left out, so the row keeps the steady part's pitch.
+func TestARowReadsTheSteadyPartNotTheRelease(t *testing.T) {
+	g := newGroupModel(newModel(keyOf(t, "D major"), "test tones"), []string{"vc"}, 0)
+	for t := 0.0; t < 1; t += 0.01 {
+		g.AddFrame(GroupFrame{Time: t, Hz: []float64{d3}, Levels: []float64{-20}})
+	}
+	for t := 1.0; t < 1.1; t += 0.01 { // dying away and sagging 8 ¢
+		g.AddFrame(GroupFrame{Time: t, Hz: []float64{d3 * math.Exp2(-8.0/1200)}, Levels: []float64{-30}})
+	}
+	feedGroup(g, 1.1, 1.5, 0)
+	if r := g.readings()[0]; r.Holding || math.Abs(r.Cents) > 0.01 {
+		t.Errorf("after the release: holding %v, %+.2f ¢; want the steady 0 ¢", r.Holding, r.Cents)
+	}
+}
+
+// A player who stops while the others hold the chord on stays in it, dim.
+func TestAPlayerWhoStopsStaysInTheChord(t *testing.T) {
+	g := groupHolding(keyOf(t, "F major"), trio, e3, b3, gSharp4)
+	feedGroup(g, 1, 2, e3, 0, gSharp4)
+	r := g.readings()[1]
+	if !r.InChord || r.Role != "fifth" || r.Holding {
+		t.Errorf("the resting viola: %+v", r)
+	}
+	feedGroup(g, 2, 3, e3, 0, 0)
+	feedGroup(g, 3, 3.5, 0, 0, 0)
+	if rows := g.readings(); !rows[1].InChord || !rows[2].InChord || chordLine(g).Text() != "last chord E major" {
+		t.Errorf("after all stopped: %+v\n%s", rows, chordLine(g).Text())
 	}
 }

@@ -1,11 +1,15 @@
 package ui
 
 import (
+	"cmp"
 	"fmt"
 	"math"
+	"slices"
 	"strings"
 
 	"github.com/mattn/go-runewidth"
+
+	"fifthline/target"
 )
 
 // The group screen: one row per player or voice, in the order given (the
@@ -194,15 +198,75 @@ func groupLayout(g *groupModel, w, h int) (out []screenLine) {
 		{[]screenLine{groupHeader(cols)}, 5, false},
 		{rows, 10, false},
 		gap(2),
+	}
+	if h >= 30 {
+		parts = append(parts, section{chordAxis(g, bw), 3, false}, gap(2))
+	}
+	parts = append(parts, []section{
 		{[]screenLine{beforeLine(g)}, 4, false},
 		gap(1),
 		{[]screenLine{inputLine(g.model)}, 9, false},
 		{[]screenLine{journalLine(g.model)}, 7, false},
 		{[]screenLine{groupHint(g)}, 6, false},
-	}
+	}...)
 	var body []screenLine
 	for _, p := range fit(parts, h) {
 		body = append(body, p.lines...)
 	}
 	return frame(body, w, bw, h)
+}
+
+// chordAxis lays the chord's members on one line by their cents against
+// just above its root, so the group sees at once who sits wide and who
+// narrow of the pure chord: a diamond on the line for each, its note
+// beneath (a label that would overlap the one before drops a line).
+func chordAxis(g *groupModel, bw int) []screenLine {
+	c, _, ok := g.name(g.chord)
+	if !ok {
+		return nil
+	}
+	role := lit
+	if !g.sounding {
+		role = dim
+	}
+	w := bw - len("flat  sharp")
+	if w%2 == 0 {
+		w--
+	}
+	axis := []rune(strings.Repeat("─", w))
+	axis[w/2] = '┼'
+	labels := make([][]rune, len(c.Members))
+	ends := make([]int, len(c.Members)) // each label line's first free column
+	// Left to right, so that each label goes on the first line with room.
+	members := slices.SortedFunc(slices.Values(c.Members), func(a, b target.HeardMember) int { return cmp.Compare(a.JustCents, b.JustCents) })
+	for _, m := range members {
+		at := w/2 + int(math.Round(m.JustCents/stripCents*float64(w/2)))
+		mark := '◆'
+		if at < 0 || at >= w {
+			at, mark = min(max(at, 0), w-1), map[bool]rune{true: '◂', false: '▸'}[at < 0]
+		}
+		axis[at] = mark
+		label := []rune(m.Note.Pretty())
+		from := min(max(at-len(label)/2, 0), w-len(label))
+		for i := range labels {
+			if from >= ends[i] {
+				if labels[i] == nil {
+					labels[i] = []rune(strings.Repeat(" ", w))
+				}
+				copy(labels[i][from:], label)
+				ends[i] = from + len(label) + 1
+				break
+			}
+		}
+	}
+	out := []screenLine{
+		dimLine(centre(fmt.Sprintf("the chord against just above its root, ±%d ¢", stripCents), bw)),
+		{text("flat ", dim), text(string(axis), role), text(" sharp", dim)},
+	}
+	for _, l := range labels {
+		if l != nil {
+			out = append(out, screenLine{text("     "+strings.TrimRight(string(l), " "), role)})
+		}
+	}
+	return out
 }

@@ -3,6 +3,7 @@ package ui
 import (
 	"context"
 	"os"
+	"slices"
 	"sync"
 	"sync/atomic"
 	"time"
@@ -64,8 +65,8 @@ type Meter struct {
 	ended   atomic.Bool
 	quit    chan struct{}
 	once    sync.Once
-	model   *model             // touched only on tview's goroutine once Run starts
-	group   *groupModel        // nil for one player; shares model
+	model   *model      // touched only on tview's goroutine once Run starts
+	group   *groupModel // nil for one player; shares model
 	groupFr chan GroupFrame
 	drawn   func(tcell.Screen) // tests: called on tview's goroutine after each draw
 }
@@ -100,7 +101,7 @@ func (m *Meter) OnGroupFrame(f GroupFrame) {
 	if m.group == nil {
 		return
 	}
-	f.Hz = append([]float64(nil), f.Hz...)
+	f.Hz, f.Levels = slices.Clone(f.Hz), slices.Clone(f.Levels)
 	select {
 	case m.groupFr <- f:
 	default:

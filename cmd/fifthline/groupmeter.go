@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"math"
+	"slices"
 
 	"fifthline/ensemble"
 	"fifthline/multipitch"
@@ -55,11 +56,11 @@ func voicesMeter(ctx context.Context, src source.Source, tunings *session.Tuning
 	var frame groupFrame
 	vo.onFrame = func(f multipitch.Frame) {
 		for i := range names {
-			hz := 0.0
+			hz, level := 0.0, math.Inf(-1)
 			if i < len(f.Voices) {
-				hz = f.Voices[i].Hz
+				hz, level = f.Voices[i].Hz, 20*math.Log10(f.Voices[i].Amplitude)
 			}
-			frame.add(i, len(names), hz, f.Level)
+			frame.add(i, len(names), hz, level)
 		}
 		frame.send(m, f.Time)
 	}
@@ -82,21 +83,17 @@ func groupMeter(names []string, tunings *session.Tunings, seventh float64, j *jo
 
 // groupFrame gathers one moment of the group, row by row.
 type groupFrame struct {
-	hz    []float64
-	level float64
+	hz, levels []float64
 }
 
 func (g *groupFrame) add(i, rows int, hz, level float64) {
 	if len(g.hz) != rows {
-		g.hz = make([]float64, rows)
+		g.hz, g.levels = make([]float64, rows), make([]float64, rows)
 	}
-	if i == 0 {
-		g.level = math.Inf(-1)
-	}
-	g.hz[i], g.level = hz, max(g.level, level)
+	g.hz[i], g.levels[i] = hz, level
 }
 
 // send hands the moment to the meter (which copies it).
 func (g *groupFrame) send(m *ui.Meter, t float64) {
-	m.OnGroupFrame(ui.GroupFrame{Time: t, Hz: g.hz, Level: g.level})
+	m.OnGroupFrame(ui.GroupFrame{Time: t, Hz: g.hz, Levels: g.levels, Level: slices.Max(g.levels)})
 }
