@@ -85,3 +85,29 @@ func checkFits(t *testing.T, s string, w, h int) {
 	}
 	t.Log(fmt.Sprintf("%dx%d:\n", w, h) + s)
 }
+
+// listen --voices 3 with the meter: a just C major chord that sox sums
+// onto one channel (C4, and E4 and G4 at 5/4 and 3/2 above it, as in
+// TestListenVoicesThroughTheVirtualMicrophone) through a private virtual
+// microphone. A row per voice, lowest first: E4 13.7 ¢ below its equal-
+// tempered target and G4 2.0 ¢ above (handbook: 386.31 and 701.96 ¢
+// against 400 and 700), both within half a cent of just above C4 (the
+// voices issue's figure is 3 ¢; the --plain reading holds 0.5 ¢).
+func TestListenVoicesGroupMeterInTmux(t *testing.T) {
+	t.Parallel()
+	_, env, play := privateMic(t)
+	wav := sox(t, "chord.wav", "-r", "48000", "-b", "16", "synth 2 sawtooth 261.63 sawtooth 327.0375 sawtooth 392.445 remix 1,2,3 gain -8 pad 0.5 1")
+	m := startTmux(t, 80, 24, env, "listen", "--voices", "3", "--key", "C major")
+	m.waitFor(`no chord yet`, `lost: 0 overflows, 0 dropped`)
+	play(wav)
+	const nearJust = `[−+]?0\.[0-5] ¢`
+	s := m.waitFor(`chord C major`,
+		` 1 voice 1 +C4 +[−+]?0\.[0-5] ¢.* root `,
+		` 2 voice 2 +E4 +−13\.[5-9] ¢.* third +`+nearJust,
+		` 3 voice 3 +G4 +\+(1\.[89]|2\.[01]) ¢.* fifth +`+nearJust)
+	checkFits(t, s, 80, 24)
+	m.tmux("send-keys", "-t", "meter", "q")
+	if rc := m.exitStatus(); rc != "0" {
+		t.Errorf("q: exit status %s, want 0", rc)
+	}
+}
