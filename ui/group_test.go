@@ -243,3 +243,34 @@ func TestAPlayerWhoStopsStaysInTheChord(t *testing.T) {
 		t.Errorf("after all stopped: %+v\n%s", rows, chordLine(g).Text())
 	}
 }
+
+// Eight players still fit 80 × 24: every row and the status stay; the
+// spacing and the chord's line against just give way first.
+func TestEightPlayersFit80x24(t *testing.T) {
+	names := []string{"b2", "b1", "t2", "t1", "a2", "a1", "s2", "s1"}
+	g := groupHolding(keyOf(t, "D major"), names, d3, d3, a3, a3, etFSharp4, etFSharp4, et(5), et(5))
+	s := screenOf(g, 80, 24)
+	for _, want := range []string{" 1 b2   D3", " 8 s1   D5", "chord D major", "input −20 dBFS", "1–8 row off/on"} {
+		if !strings.Contains(s, want) {
+			t.Errorf("no %q:\n%s", want, s)
+		}
+	}
+}
+
+// The chord's line against just: the centre is just, ±25 ¢ to the ends, so
+// an equal-tempered third (13.69 ¢ wide, handbook) stands right of centre
+// by 13.69/25 of the half-width, the fifth (1.96 ¢ narrow) just left of it.
+func TestTheChordAxisPlacesEachMemberByItsJustCents(t *testing.T) {
+	g := groupHolding(keyOf(t, "D major"), trio, d3, a3, etFSharp4)
+	lines := chordAxis(g, 61) // an axis of 49 cells, centre at 24
+	axis := []rune(strings.TrimSuffix(strings.TrimPrefix(lines[1].Text(), "flat "), " sharp"))
+	half := len(axis) / 2
+	for _, c := range []float64{0, etFifthOverJust, etThirdOverJust} {
+		if at := half + int(math.Round(c/25*float64(half))); axis[at] != '◆' {
+			t.Errorf("no ◆ at %+.2f ¢ (cell %d): %q", c, at, string(axis))
+		}
+	}
+	if !strings.Contains(lines[2].Text()+lines[3].Text(), "F♯4") {
+		t.Errorf("labels: %q", lines[2:])
+	}
+}

@@ -181,7 +181,7 @@ func groupLayout(g *groupModel, w, h int) (out []screenLine) {
 	}
 	cols := columnsFor(g, bw)
 	var rows []screenLine
-	spaced := h >= 12+2*len(g.rows) // room for a line between rows
+	spaced := h >= 16+2*len(g.rows) // room for a line between rows
 	for i, r := range g.readings() {
 		if spaced && i > 0 {
 			rows = append(rows, nil)
@@ -198,19 +198,24 @@ func groupLayout(g *groupModel, w, h int) (out []screenLine) {
 		{[]screenLine{groupHeader(cols)}, 5, false},
 		{rows, 10, false},
 		gap(2),
-	}
-	if h >= 30 {
-		parts = append(parts, section{chordAxis(g, bw), 3, false}, gap(2))
-	}
-	parts = append(parts, []section{
+		{chordAxis(g, bw), 3, false},
+		gap(2),
 		{[]screenLine{beforeLine(g)}, 4, false},
-		gap(1),
+		{[]screenLine{nil}, 1, true}, // takes the rows left over: the status stands at the foot
 		{[]screenLine{inputLine(g.model)}, 9, false},
 		{[]screenLine{journalLine(g.model)}, 7, false},
 		{[]screenLine{groupHint(g)}, 6, false},
-	}...)
+	}
+	parts = fit(parts, h)
+	total := 0
+	for _, p := range parts {
+		total += len(p.lines)
+	}
 	var body []screenLine
-	for _, p := range fit(parts, h) {
+	for _, p := range parts {
+		if p.grow {
+			p.lines = make([]screenLine, 1+h-total)
+		}
 		body = append(body, p.lines...)
 	}
 	return frame(body, w, bw, h)
