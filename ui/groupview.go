@@ -168,57 +168,39 @@ func groupHelp(g *groupModel) []screenLine {
 
 // groupLayout is the group screen for w × h cells, like layout: on short
 // screens the spacing and the chords before go first, the rows last.
-func groupLayout(g *groupModel, w, h int) (out []screenLine) {
-	if w <= 0 || h <= 0 {
-		return nil
-	}
-	bw := min(w, maxBody)
-	if g.ASCII {
-		defer func() { asciiLines(out) }()
-	}
+func groupLayout(g *groupModel, w, h int) []screenLine {
+	var help func() []screenLine
 	if g.Help {
-		return frame(groupHelp(g), w, bw, h)
+		help = func() []screenLine { return groupHelp(g) }
 	}
-	cols := columnsFor(g, bw)
-	var rows []screenLine
-	spaced := h >= 16+2*len(g.rows) // room for a line between rows
-	for i, r := range g.readings() {
-		if spaced && i > 0 {
-			rows = append(rows, nil)
+	return compose(w, h, g.ASCII, help, func(bw int) []section {
+		cols := columnsFor(g, bw)
+		var rows []screenLine
+		spaced := h >= 16+2*len(g.rows) // room for a line between rows
+		for i, r := range g.readings() {
+			if spaced && i > 0 {
+				rows = append(rows, nil)
+			}
+			rows = append(rows, groupRowLine(i, r, cols))
 		}
-		rows = append(rows, groupRowLine(i, r, cols))
-	}
-	gap := func(keep int) section { return section{[]screenLine{nil}, keep, false} }
-	parts := []section{
-		{[]screenLine{tuningLine(g.model)}, 10, false},
-		gap(2),
-		{[]screenLine{chordLine(g)}, 9, false},
-		{[]screenLine{driftLine(g)}, 8, false},
-		gap(2),
-		{[]screenLine{groupHeader(cols)}, 5, false},
-		{rows, 10, false},
-		gap(2),
-		{chordAxis(g, bw), 3, false},
-		gap(2),
-		{[]screenLine{beforeLine(g)}, 4, false},
-		{[]screenLine{nil}, 1, true}, // takes the rows left over: the status stands at the foot
-		{[]screenLine{inputLine(g.model)}, 9, false},
-		{[]screenLine{journalLine(g.model)}, 7, false},
-		{[]screenLine{groupHint(g)}, 6, false},
-	}
-	parts = fit(parts, h)
-	total := 0
-	for _, p := range parts {
-		total += len(p.lines)
-	}
-	var body []screenLine
-	for _, p := range parts {
-		if p.grow {
-			p.lines = make([]screenLine, 1+h-total)
+		return []section{
+			{[]screenLine{tuningLine(g.model)}, 10, false},
+			gap(2),
+			{[]screenLine{chordLine(g)}, 9, false},
+			{[]screenLine{driftLine(g)}, 8, false},
+			gap(2),
+			{[]screenLine{groupHeader(cols)}, 5, false},
+			{rows, 10, false},
+			gap(2),
+			{chordAxis(g, bw), 3, false},
+			gap(2),
+			{[]screenLine{beforeLine(g)}, 4, false},
+			{[]screenLine{nil}, 1, true}, // takes the rows left over: the status stands at the foot
+			{[]screenLine{inputLine(g.model)}, 9, false},
+			{[]screenLine{journalLine(g.model)}, 7, false},
+			{[]screenLine{groupHint(g)}, 6, false},
 		}
-		body = append(body, p.lines...)
-	}
-	return frame(body, w, bw, h)
+	}, func(_, spare int) []screenLine { return make([]screenLine, 1+spare) })
 }
 
 // chordAxis lays the chord's members on one line by their cents against
