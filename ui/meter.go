@@ -69,6 +69,7 @@ type Meter struct {
 	group   *groupModel // nil for one player; shares model
 	groupFr chan GroupFrame
 	drawn   func(tcell.Screen) // tests: called on tview's goroutine after each draw
+	closing bool               // tview's goroutine: the screen is being let go
 }
 
 // New makes a meter for the tuning opt.Tunings holds.
@@ -164,8 +165,8 @@ func (m *Meter) Run(ctx context.Context) error {
 	// The periodic redraw: new frames in, changed cells out.
 	redraw := func() {
 		m.drain()
-		if screen == nil {
-			return // tview has not drawn yet
+		if screen == nil || m.closing {
+			return // tview has not drawn yet, or has let the terminal go
 		}
 		paint.paint(screen, m.screen(paint.w, paint.h), paint.x, paint.y, paint.w, paint.h, false)
 		screen.Show()
@@ -179,7 +180,7 @@ func (m *Meter) Run(ctx context.Context) error {
 	// Stop from inside tview's loop: called before Run has made its
 	// screen, app.Stop would do nothing and the meter would stay up; and
 	// once Run has returned, nothing is left to stop.
-	stop := func() { app.QueueUpdate(app.Stop) }
+	stop := func() { app.QueueUpdate(func() { m.close(app) }) }
 	done := make(chan struct{})
 	go func() {
 		tick := time.NewTicker(time.Second / frameRate)
@@ -245,6 +246,13 @@ func (m *Meter) drain() {
 	m.model.Finished = m.ended.Load()
 }
 
+// close stops tview, on its goroutine. Nothing is painted after: tcell
+// would still write to a terminal it has given back.
+func (m *Meter) close(app *tview.Application) {
+	m.closing = true
+	app.Stop()
+}
+
 // key handles one key press on tview's goroutine.
 func (m *Meter) key(app *tview.Application, ev *tcell.EventKey) *tcell.EventKey {
 	name := tcell.KeyNames[ev.Key()]
@@ -253,7 +261,7 @@ func (m *Meter) key(app *tview.Application, ev *tcell.EventKey) *tcell.EventKey 
 	}
 	switch name {
 	case "q", "Q":
-		app.Stop()
+		m.close(app)
 		return nil
 	case "?", "h":
 		m.model.Help = !m.model.Help

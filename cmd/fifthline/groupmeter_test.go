@@ -71,6 +71,15 @@ func TestGroupDemoMeterInTmux(t *testing.T) {
 	}
 }
 
+// The group meter's own cost with four players: `demo --group` (four
+// channels at 48 kHz through the ensemble reading, bleed and all) drawing at
+// 80 × 24, as BenchmarkDemoMeterInTmux measures the single meter.
+//
+//	go test -run XXX -bench GroupDemoMeterInTmux ./cmd/fifthline/
+func BenchmarkGroupDemoMeterInTmux(b *testing.B) {
+	benchMeterInTmux(b, `chord G minor`, "demo", "--group")
+}
+
 // checkFits fails when the screen has more lines than h or one wider than w.
 func checkFits(t *testing.T, s string, w, h int) {
 	t.Helper()
