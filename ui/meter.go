@@ -47,7 +47,7 @@ type Options struct {
 	// terminals whose locale is not UTF-8 (ASCIILocale) or on request.
 	ASCII bool
 	// Group, when set, makes the meter a group meter with one row per
-	// name (at most 9: a digit key each), fed by OnGroupFrame.
+	// name (at most MaxRows), fed by OnGroupFrame.
 	Group []string
 	// Seventh is the just ratio a chord's minor seventh is read against;
 	// 0 means target.DefaultSeventh.
@@ -86,14 +86,14 @@ func New(opt Options) *Meter {
 		model:  model,
 	}
 	if opt.Group != nil {
-		m.group = newGroupModel(model, opt.Group[:min(len(opt.Group), maxRows)], opt.Seventh)
+		m.group = newGroupModel(model, opt.Group[:min(len(opt.Group), MaxRows)], opt.Seventh)
 		m.groupFr = make(chan GroupFrame, frameBuffer)
 	}
 	return m
 }
 
-// maxRows is the most rows a group meter shows: one digit key each.
-const maxRows = 9
+// MaxRows is the most rows a group meter shows: one digit key each.
+const MaxRows = 9
 
 // OnGroupFrame hands a group meter one moment of the group without
 // waiting (f.Hz is copied): if the screen has fallen behind, the frame is

@@ -22,6 +22,9 @@ import (
 // playersMeter shows the group meter fed by the players' channels of src
 // (package ensemble), until q, the end of ctx, or a failing input.
 func playersMeter(ctx context.Context, src source.Multi, tunings *session.Tunings, po playerOptions, j *journalSink, ms meterSource) error {
+	if len(po.players) > ui.MaxRows {
+		return usagef("the group meter shows up to %d players (a digit key each); for %d, use --plain", ui.MaxRows, len(po.players))
+	}
 	names := make([]string, len(po.players))
 	for i, p := range po.players {
 		names[i] = p.Name
