@@ -6,6 +6,12 @@
 // glyphs, readable from a music stand; below it runs a ±50 ¢ trace of the
 // last seconds and a status line.
 //
+// With Options.Group the meter shows a group instead (group.go, groupview.go):
+// a row per player or voice with its spelled note, its cents against the
+// temperament and, in the chord the rows make, against just above the
+// sounding root; the chord, the group's drift, and the chord's members on
+// one line by their just cents. It is fed by OnGroupFrame.
+//
 // The screen is a thin edge: model holds what the meter knows, the region
 // functions (bigLines, words, fifthsRows, trace, …) turn it into plain text
 // lines with roles, and only Meter touches tview and tcell. Tuning logic

@@ -33,51 +33,66 @@ type section struct {
 // wide once clipped. On short screens the least needed parts go first
 // (spacing, the "from ET" row, the keys hint, the large glyphs), so the
 // spelled note, its cents and the status stay.
-func layout(m *model, w, h int) (out []screenLine) {
+func layout(m *model, w, h int) []screenLine {
+	var help func() []screenLine
+	if m.Help {
+		help = helpLines
+	}
+	return compose(w, h, m.ASCII, help, func(bw int) []section {
+		fifths := fifthsRows(m, bw)
+		return []section{
+			{[]screenLine{tuningLine(m)}, 10, false},
+			gap(2),
+			{bigLines(m, bw, bigScale(h)), 5, false},
+			{[]screenLine{words(m)}, 9, false},
+			gap(2),
+			{fifths[:2], 8, false},
+			{fifths[2:], 3, false},
+			gap(2),
+			{trace(m, bw, minTraceRows), 6, true},
+			{[]screenLine{heldLine(m)}, 7, false},
+			gap(1),
+			{[]screenLine{inputLine(m)}, 9, false},
+			{[]screenLine{journalLine(m)}, 8, false},
+			// The caution stands with the drone line it is about: both stay or go together.
+			{append(lines(soundLine(m)), cautionLines(m, bw)...), 9, false},
+			{[]screenLine{hintLine(m)}, 4, false},
+		}
+	}, func(bw, spare int) []screenLine { return trace(m, bw, min(minTraceRows+spare, maxTraceRows)) })
+}
+
+// compose is a screen of w × h cells: help's lines when help is set, else
+// the sections parts gives for a body bw wide, fitted to h lines, the one
+// that grows (if any kept) redrawn by grow with the spare rows; in ASCII
+// if asked.
+func compose(w, h int, ascii bool, help func() []screenLine, parts func(bw int) []section, grow func(bw, spare int) []screenLine) (out []screenLine) {
 	if w <= 0 || h <= 0 {
 		return nil
 	}
 	bw := min(w, maxBody)
-	if m.ASCII {
+	if ascii {
 		defer func() { asciiLines(out) }()
 	}
-	if m.Help {
-		return frame(helpLines(), w, bw, h)
+	if help != nil {
+		return frame(help(), w, bw, h)
 	}
-	fifths := fifthsRows(m, bw)
-	gap := func(keep int) section { return section{[]screenLine{nil}, keep, false} }
-	parts := []section{
-		{[]screenLine{tuningLine(m)}, 10, false},
-		gap(2),
-		{bigLines(m, bw, bigScale(h)), 5, false},
-		{[]screenLine{words(m)}, 9, false},
-		gap(2),
-		{fifths[:2], 8, false},
-		{fifths[2:], 3, false},
-		gap(2),
-		{trace(m, bw, minTraceRows), 6, true},
-		{[]screenLine{heldLine(m)}, 7, false},
-		gap(1),
-		{[]screenLine{inputLine(m)}, 9, false},
-		{[]screenLine{journalLine(m)}, 8, false},
-		// The caution stands with the drone line it is about: both stay or go together.
-		{append(lines(soundLine(m)), cautionLines(m, bw)...), 9, false},
-		{[]screenLine{hintLine(m)}, 4, false},
-	}
-	parts = fit(parts, h)
+	kept := fit(parts(bw), h)
 	total := 0
-	for _, p := range parts {
+	for _, p := range kept {
 		total += len(p.lines)
 	}
 	var body []screenLine
-	for _, p := range parts {
+	for _, p := range kept {
 		if p.grow && total < h {
-			p.lines = trace(m, bw, min(minTraceRows+h-total, maxTraceRows))
+			p.lines = grow(bw, h-total)
 		}
 		body = append(body, p.lines...)
 	}
 	return frame(body, w, bw, h)
 }
+
+// gap is an empty line, kept as keep says.
+func gap(keep int) section { return section{[]screenLine{nil}, keep, false} }
 
 // lines is l as a section's lines: none for an empty line.
 func lines(l screenLine) []screenLine {

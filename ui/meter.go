@@ -3,6 +3,7 @@ package ui
 import (
 	"context"
 	"os"
+	"slices"
 	"sync"
 	"sync/atomic"
 	"time"
@@ -45,6 +46,12 @@ type Options struct {
 	// ASCII writes ## and bb for accidentals and ASCII marks, for
 	// terminals whose locale is not UTF-8 (ASCIILocale) or on request.
 	ASCII bool
+	// Group, when set, makes the meter a group meter with one row per
+	// name (at most MaxRows), fed by OnGroupFrame.
+	Group []string
+	// Seventh is the just ratio a chord's minor seventh is read against;
+	// 0 means target.DefaultSeventh.
+	Seventh float64
 }
 
 // Meter is the live screen. Feed it from session.Run with OnFrame and
@@ -58,8 +65,11 @@ type Meter struct {
 	ended   atomic.Bool
 	quit    chan struct{}
 	once    sync.Once
-	model   *model             // touched only on tview's goroutine once Run starts
+	model   *model      // touched only on tview's goroutine once Run starts
+	group   *groupModel // nil for one player; shares model
+	groupFr chan GroupFrame
 	drawn   func(tcell.Screen) // tests: called on tview's goroutine after each draw
+	closing bool               // tview's goroutine: the screen is being let go
 }
 
 // New makes a meter for the tuning opt.Tunings holds.
@@ -68,13 +78,44 @@ func New(opt Options) *Meter {
 	model := newModel(tu, opt.Source)
 	model.HasSound, model.SoundLevel, model.Caution = opt.Sound != nil, opt.SoundLevel, opt.Caution
 	model.ASCII = opt.ASCII
-	return &Meter{
+	m := &Meter{
 		opt: opt, start: tu,
 		frames: make(chan session.Frame, frameBuffer),
 		notes:  make(chan session.Event, frameBuffer),
 		quit:   make(chan struct{}),
 		model:  model,
 	}
+	if opt.Group != nil {
+		m.group = newGroupModel(model, opt.Group[:min(len(opt.Group), MaxRows)], opt.Seventh)
+		m.groupFr = make(chan GroupFrame, frameBuffer)
+	}
+	return m
+}
+
+// MaxRows is the most rows a group meter shows: one digit key each.
+const MaxRows = 9
+
+// OnGroupFrame hands a group meter one moment of the group without
+// waiting (f.Hz is copied): if the screen has fallen behind, the frame is
+// dropped and counted. A meter made without Options.Group ignores it.
+func (m *Meter) OnGroupFrame(f GroupFrame) {
+	if m.group == nil {
+		return
+	}
+	f.Hz, f.Levels = slices.Clone(f.Hz), slices.Clone(f.Levels)
+	select {
+	case m.groupFr <- f:
+	default:
+		m.dropped.Add(1)
+	}
+}
+
+// screen is the whole screen for w × h cells: the group's or one player's.
+func (m *Meter) screen(w, h int) []screenLine {
+	if m.group != nil {
+		return groupLayout(m.group, w, h)
+	}
+	return layout(m.model, w, h)
 }
 
 // OnFrame hands the meter one analysis frame without waiting: if the screen
@@ -116,7 +157,7 @@ func (m *Meter) Run(ctx context.Context) error {
 	var screen tcell.Screen
 	root := &view{Box: tview.NewBox(), draw: func(s tcell.Screen, x, y, w, h int) {
 		screen = s
-		paint.paint(s, layout(m.model, w, h), x, y, w, h, true)
+		paint.paint(s, m.screen(w, h), x, y, w, h, true)
 		if m.drawn != nil {
 			m.drawn(s)
 		}
@@ -124,10 +165,10 @@ func (m *Meter) Run(ctx context.Context) error {
 	// The periodic redraw: new frames in, changed cells out.
 	redraw := func() {
 		m.drain()
-		if screen == nil {
-			return // tview has not drawn yet
+		if screen == nil || m.closing {
+			return // tview has not drawn yet, or has let the terminal go
 		}
-		paint.paint(screen, layout(m.model, paint.w, paint.h), paint.x, paint.y, paint.w, paint.h, false)
+		paint.paint(screen, m.screen(paint.w, paint.h), paint.x, paint.y, paint.w, paint.h, false)
 		screen.Show()
 		if m.drawn != nil {
 			m.drawn(screen)
@@ -139,7 +180,7 @@ func (m *Meter) Run(ctx context.Context) error {
 	// Stop from inside tview's loop: called before Run has made its
 	// screen, app.Stop would do nothing and the meter would stay up; and
 	// once Run has returned, nothing is left to stop.
-	stop := func() { app.QueueUpdate(app.Stop) }
+	stop := func() { app.QueueUpdate(func() { m.close(app) }) }
 	done := make(chan struct{})
 	go func() {
 		tick := time.NewTicker(time.Second / frameRate)
@@ -183,6 +224,8 @@ func (m *Meter) drain() {
 			m.model.AddFrame(f)
 		case ev := <-m.notes:
 			m.model.AddNote(ev)
+		case f := <-m.groupFr: // nil (never ready) for one player
+			m.group.AddFrame(f)
 		default:
 			more = false
 		}
@@ -203,6 +246,13 @@ func (m *Meter) drain() {
 	m.model.Finished = m.ended.Load()
 }
 
+// close stops tview, on its goroutine. Nothing is painted after: tcell
+// would still write to a terminal it has given back.
+func (m *Meter) close(app *tview.Application) {
+	m.closing = true
+	app.Stop()
+}
+
 // key handles one key press on tview's goroutine.
 func (m *Meter) key(app *tview.Application, ev *tcell.EventKey) *tcell.EventKey {
 	name := tcell.KeyNames[ev.Key()]
@@ -211,7 +261,7 @@ func (m *Meter) key(app *tview.Application, ev *tcell.EventKey) *tcell.EventKey 
 	}
 	switch name {
 	case "q", "Q":
-		app.Stop()
+		m.close(app)
 		return nil
 	case "?", "h":
 		m.model.Help = !m.model.Help
@@ -219,6 +269,11 @@ func (m *Meter) key(app *tview.Application, ev *tcell.EventKey) *tcell.EventKey 
 	case "Esc":
 		m.model.Help = false
 		return nil
+	case "1", "2", "3", "4", "5", "6", "7", "8", "9":
+		if m.group != nil {
+			m.group.Toggle(int(name[0] - '1'))
+			return nil
+		}
 	case "d":
 		m.model.CycleDrone(m.opt.Sound)
 		return nil

@@ -27,6 +27,7 @@ func runDemo(e *env, args []string) error {
 	sf := addSoundFlags(fs)
 	oldName(fs, "drone-level", "level")
 	ascii := addScreenFlags(fs)
+	group := fs.Bool("group", false, "the group meter, fed by a consort of four players on four channels")
 	pos, err := parseFlags(e, fs, args)
 	if err != nil {
 		return err
@@ -50,9 +51,13 @@ func runDemo(e *env, args []string) error {
 		return err
 	}
 	defer restore()
-	src := capture.NewPerformance(demoRate, demoScoreTones(score), true)
 	opts := session.Options{Name: "demo", Tunings: session.NewTunings(tu)}
-	err = runMeter(e.ctx, src, opts, j, meterSource{name: "the demo performance", journal: jf.log, sound: newMeterSound(sf), ascii: *ascii})
+	if *group {
+		err = playersMeter(e.ctx, newConsort(score), opts.Tunings, consortPlayers(), j, meterSource{name: "the demo consort", journal: jf.log, ascii: *ascii})
+	} else {
+		src := capture.NewPerformance(demoRate, demoScoreTones(score), true)
+		err = runMeter(e.ctx, src, opts, j, meterSource{name: "the demo performance", journal: jf.log, sound: newMeterSound(sf), ascii: *ascii})
+	}
 	if err = errors.Join(stopped(err), j.close()); err == nil {
 		mf.say(e.stderr, tu) // the screen showed it; this keeps it in the terminal
 	}
@@ -64,9 +69,14 @@ func runDemo(e *env, args []string) error {
 // the player's cents. Nothing is played aloud; the voice only feeds the
 // meter.
 func demoScoreTones(tu target.Tuning) []capture.Tone {
-	beat := 60 / demoScore.bpm
+	return scoreTones(demoScore.notes, demoScore.bpm, tu)
+}
+
+// scoreTones are a score's notes as tones at bpm beats a minute.
+func scoreTones(notes []scoreNote, bpm float64, tu target.Tuning) []capture.Tone {
+	beat := 60 / bpm
 	var tones []capture.Tone
-	for _, sn := range demoScore.notes {
+	for _, sn := range notes {
 		t := capture.Tone{Seconds: sn.beats * beat, Gain: demoGain}
 		note, err := target.ParseNote(sn.note)
 		if sn.note == "" || err != nil { // rests; the score is ours and parses

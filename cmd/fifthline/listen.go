@@ -57,14 +57,10 @@ func runListen(e *env, args []string) error {
 	vo, voices, err := vf.options()
 	if err != nil {
 		return err
-	} else if voices && !*plain {
-		return usagef("listen --voices needs --plain: the meter has no chord view yet")
 	}
 	po, group, err := playersOptions(fs, *players)
 	if err != nil {
 		return err
-	} else if group && !*plain {
-		return usagef("listen --players needs --plain: the meter has no view of the group yet")
 	}
 	ctx := e.ctx
 	if *duration > 0 {
@@ -86,7 +82,12 @@ func runListen(e *env, args []string) error {
 		return errors.Join(err, j.close())
 	}
 	opts := session.Options{Name: in.Device().Name, Tunings: session.NewTunings(tu)}
-	if group {
+	ms := meterSource{name: in.Device().Name, stats: in.Stats, journal: jf.log, ascii: *ascii}
+	if group && !*plain {
+		err = playersMeter(ctx, in, opts.Tunings, po, j, ms)
+	} else if voices && !*plain {
+		err = voicesMeter(ctx, in, opts.Tunings, vo, j, ms)
+	} else if group {
 		mf.say(e.stderr, tu)
 		err = listenPlayers(ctx, e, in, opts.Name, tu, po, j)
 	} else if voices {
@@ -100,7 +101,8 @@ func runListen(e *env, args []string) error {
 		// with the player's partials taken out (nothing while silent).
 		sound := newMeterSound(sf)
 		src := drone.Cancel(in, nil).Follow(sound)
-		err = runMeter(ctx, src, opts, j, meterSource{name: in.Device().Name, stats: in.Stats, journal: jf.log, sound: sound, hearsSound: true, ascii: *ascii})
+		ms.sound, ms.hearsSound = sound, true
+		err = runMeter(ctx, src, opts, j, ms)
 	}
 	// Close before reporting, the journal first: it is complete even if a
 	// vanished device will not close.
@@ -155,13 +157,9 @@ func addScreenFlags(fs *flag.FlagSet) *bool {
 // runMeter shows the meter fed by src until q, the end of ctx, or a failing
 // source. A source that simply ends (the demo) leaves the meter up.
 func runMeter(ctx context.Context, src source.Source, opts session.Options, j *journalSink, ms meterSource) error {
-	j.quiet = true // the screen shows the journal's state instead
-	m := ui.New(ui.Options{Tunings: opts.Tunings, Source: ms.name, Stats: ms.stats, Journal: func() string {
-		if s := j.status(); s != "" {
-			return strings.Replace(s, ms.journal, filepath.Base(ms.journal), 1) // the screen is narrow
-		}
-		return "journal: off"
-	}, Sound: ms.sound, SoundLevel: ms.sound.opt.Level, Caution: "caution: " + hearingAdvice, ASCII: ms.ascii || ui.ASCIILocale()})
+	uo := screenOptions(opts.Tunings, j, ms)
+	uo.Sound, uo.SoundLevel, uo.Caution = ms.sound, ms.sound.opt.Level, "caution: "+hearingAdvice
+	m := ui.New(uo)
 	defer ms.sound.Close() // fades out; the meter has stopped asking
 	// Runs before the sound's close: the journal is complete (closing it
 	// again later is harmless) before any device is stopped.
@@ -179,6 +177,25 @@ func runMeter(ctx context.Context, src source.Source, opts session.Options, j *j
 		j.note(ev)
 		return m.OnNote(ev)
 	}
+	return showMeter(ctx, m, func(ctx context.Context) error { return session.Run(ctx, src, opts) })
+}
+
+// screenOptions are the meter's options for ms, with the journal's state
+// from j on the screen (and so not on stderr).
+func screenOptions(tunings *session.Tunings, j *journalSink, ms meterSource) ui.Options {
+	j.quiet = true // the screen shows the journal's state instead
+	return ui.Options{Tunings: tunings, Source: ms.name, Stats: ms.stats, Journal: func() string {
+		if s := j.status(); s != "" {
+			return strings.Replace(s, ms.journal, filepath.Base(ms.journal), 1) // the screen is narrow
+		}
+		return "journal: off"
+	}, ASCII: ms.ascii || ui.ASCIILocale()}
+}
+
+// showMeter runs hear (which feeds m) while m is on the screen, until q,
+// the end of ctx, or a failing hear; a hear that simply ends leaves the
+// meter up.
+func showMeter(ctx context.Context, m *ui.Meter, hear func(context.Context) error) error {
 	ctx, cancel := context.WithCancel(ctx)
 	defer cancel()
 	done := make(chan error, 1)
@@ -190,7 +207,7 @@ func runMeter(ctx context.Context, src source.Source, opts session.Options, j *j
 				done <- fmt.Errorf("internal error: %v", r)
 			}
 		}()
-		err := session.Run(ctx, src, opts)
+		err := hear(ctx)
 		if err == nil {
 			m.Ended()
 		} else {

@@ -169,10 +169,14 @@ func TestListenMeterInTmuxShowsTheOtherSpellingTheInputAndALostDevice(t *testing
 // core over 10 s and the largest VmRSS (as in BenchmarkListenPlainLive).
 //
 //	go test -run XXX -bench DemoMeterInTmux ./cmd/fifthline/
-func BenchmarkDemoMeterInTmux(b *testing.B) {
+func BenchmarkDemoMeterInTmux(b *testing.B) { benchMeterInTmux(b, heldWords, "demo") }
+
+// benchMeterInTmux measures `fifthline args…` at 80 × 24 for 10 s once
+// the screen shows ready.
+func benchMeterInTmux(b *testing.B, ready string, args ...string) {
 	for range b.N {
-		m := startTmux(b, 80, 24, nil, "demo")
-		m.waitFor(heldWords)
+		m := startTmux(b, 80, 24, nil, args...)
+		m.waitFor(ready)
 		reportCost(b, meterPid(b, m), func() { time.Sleep(10 * time.Second) })
 		m.tmux("send-keys", "-t", "meter", "q")
 		m.exitStatus()

@@ -51,6 +51,7 @@ type voiceOptions struct {
 	max     int // most voices at once
 	chords  bool
 	seventh float64
+	onFrame func(multipitch.Frame) // if set, sees every frame (the meter)
 }
 
 // options checks the flags; ok is false when --voices was not given.
@@ -197,7 +198,12 @@ func hearVoices(ctx context.Context, src source.Source, name string, tu target.T
 		n, rerr := src.Read(block)
 		read += n
 		at(float64(read) / rate)
-		est.Feed(block[:n], tr.push)
+		est.Feed(block[:n], func(f multipitch.Frame) {
+			tr.push(f)
+			if vo.onFrame != nil {
+				vo.onFrame(f)
+			}
+		})
 		if rerr != nil {
 			if !errors.Is(rerr, io.EOF) {
 				err = rerr

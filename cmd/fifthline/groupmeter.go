@@ -1,0 +1,102 @@
+package main
+
+import (
+	"context"
+	"fmt"
+	"math"
+	"slices"
+
+	"fifthline/ensemble"
+	"fifthline/multipitch"
+	"fifthline/pitchdetect"
+	"fifthline/session"
+	"fifthline/source"
+	"fifthline/ui"
+)
+
+// The group meter: listen --players and --voices without --plain, and
+// demo --group. One row per player (or voice) on the screen; every note
+// goes to the journal as with --plain. It plays nothing, so it has no
+// sound keys.
+
+// playersMeter shows the group meter fed by the players' channels of src
+// (package ensemble), until q, the end of ctx, or a failing input.
+func playersMeter(ctx context.Context, src source.Multi, tunings *session.Tunings, po playerOptions, j *journalSink, ms meterSource) error {
+	if len(po.players) > ui.MaxRows {
+		return usagef("the group meter shows up to %d players (a digit key each); for %d, use --plain", ui.MaxRows, len(po.players))
+	}
+	names := make([]string, len(po.players))
+	for i, p := range po.players {
+		names[i] = p.Name
+	}
+	m := groupMeter(names, tunings, po.seventh, j, ms)
+	defer j.close() // complete before the device is stopped
+	var frame groupFrame
+	o := ensemble.Options{Name: ms.name, Players: po.players, Tunings: tunings,
+		OnNote: func(n ensemble.Note) error {
+			j.note(n.Event)
+			return nil
+		},
+		// Run hands every player's frame of a moment in player order.
+		OnFrame: func(i int, e pitchdetect.Estimate) {
+			frame.add(i, len(names), e.Hz, e.Level)
+			if i == len(names)-1 {
+				frame.send(m, e.Time)
+			}
+		}}
+	return showMeter(ctx, m, func(ctx context.Context) error { return ensemble.Run(ctx, src, o) })
+}
+
+// voicesMeter shows the group meter fed by the voices heard on src's one
+// channel (package multipitch), a row per voice, lowest first.
+func voicesMeter(ctx context.Context, src source.Source, tunings *session.Tunings, vo voiceOptions, j *journalSink, ms meterSource) error {
+	names := make([]string, vo.max)
+	for i := range names {
+		names[i] = fmt.Sprintf("voice %d", i+1)
+	}
+	m := groupMeter(names, tunings, vo.seventh, j, ms)
+	defer j.close()
+	var frame groupFrame
+	vo.onFrame = func(f multipitch.Frame) {
+		for i := range names {
+			hz, level := 0.0, math.Inf(-1)
+			if i < len(f.Voices) {
+				hz, level = f.Voices[i].Hz, 20*math.Log10(f.Voices[i].Amplitude)
+			}
+			frame.add(i, len(names), hz, level)
+		}
+		frame.send(m, f.Time)
+	}
+	// The voices' notes are read in the tuning the meter started in: the
+	// tracker keeps one.
+	return showMeter(ctx, m, func(ctx context.Context) error {
+		return hearVoices(ctx, src, ms.name, tunings.Get(), vo, func(float64) {}, func(n voiceNote) error {
+			j.note(n.Event)
+			return nil
+		})
+	})
+}
+
+// groupMeter makes the meter with a row per name.
+func groupMeter(names []string, tunings *session.Tunings, seventh float64, j *journalSink, ms meterSource) *ui.Meter {
+	opt := screenOptions(tunings, j, ms)
+	opt.Group, opt.Seventh = names, seventh
+	return ui.New(opt)
+}
+
+// groupFrame gathers one moment of the group, row by row.
+type groupFrame struct {
+	hz, levels []float64
+}
+
+func (g *groupFrame) add(i, rows int, hz, level float64) {
+	if len(g.hz) != rows {
+		g.hz, g.levels = make([]float64, rows), make([]float64, rows)
+	}
+	g.hz[i], g.levels[i] = hz, level
+}
+
+// send hands the moment to the meter (which copies it).
+func (g *groupFrame) send(m *ui.Meter, t float64) {
+	m.OnGroupFrame(ui.GroupFrame{Time: t, Hz: g.hz, Levels: g.levels, Level: slices.Max(g.levels)})
+}

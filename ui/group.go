@@ -1,0 +1,265 @@
+package ui
+
+import (
+	"math"
+
+	"fifthline/target"
+)
+
+// GroupFrame is one moment of a group, as the meter's rows hear it: several
+// players on their own channels (package ensemble) or several voices on one
+// (package multipitch, rows low to high).
+type GroupFrame struct {
+	Time   float64   // stream seconds
+	Hz     []float64 // each row's pitch, indexed like Options.Group; 0: silent
+	Levels []float64 // each row's level, dBFS, indexed like Hz
+	Level  float64   // the loudest row's level, dBFS
+	// Drift is how far the whole group has moved from the reference, in
+	// cents, apart from each chord's own tuning; the screen shows "—"
+	// while DriftKnown is false.
+	Drift      float64
+	DriftKnown bool
+}
+
+// Rows hold a pitch once it has stayed within rowCents of itself over the
+// last rowSeconds, for at least rowFrames frames, and drop it rowBridge
+// seconds after its last frame: steady enough to read a chord by, quick
+// enough to follow a change of chord within a beat. Frames rowFallDB below
+// the loudest of them are left out: a note's release is not its pitch.
+const (
+	rowFallDB  = 6
+	rowSeconds = 0.5 // more than two cycles of a 5 Hz vibrato: its centre
+	rowCents   = 50
+	rowFrames  = 3
+	rowBridge  = 0.15
+)
+
+// chordsKept is how many earlier chords the screen recalls.
+const chordsKept = 4
+
+// chordSettle is how long a new chord must sound before the screen names
+// it: players never change at quite the same moment, and the half-changed
+// chords between are not the group's.
+const chordSettle = 0.2
+
+// groupModel is what the group meter knows. Like model it keeps pitches,
+// not readings: chords and cents are read at render time in the current
+// tuning, so a key press re-reads everything at once.
+type groupModel struct {
+	*model  // the tuning, the time and the status lines are the single meter's
+	Names   []string
+	Seventh float64 // the just ratio a minor seventh is read against
+	Off     []bool  // rows switched off: shown as off, kept out of chords
+
+	Drift      float64
+	DriftKnown bool
+
+	rows []groupRow
+	// chord is the pitches (per row, 0 for no member) of the chord sounding
+	// now or last; before holds the ones before it, oldest first.
+	chord     []float64
+	sounding  bool // chord is sounding now
+	before    [][]float64
+	left      []bool // rows that have played another note since chord
+	chordName string // chord's name when it was heard, to tell a change
+	// next is a chord heard since nextAt that differs from chord's; it
+	// replaces it once it has lasted chordSettle.
+	next   string
+	nextAt float64
+}
+
+// groupRow is one player's or voice's recent frames and what they hold.
+type groupRow struct {
+	times, hz []float64 // voiced frames of the last rowSeconds
+	levels    []float64 // their levels, dBFS
+	Hz        float64   // the pitch held now, 0 when none
+	Last      float64   // the last pitch held
+}
+
+func newGroupModel(m *model, names []string, seventh float64) *groupModel {
+	if seventh == 0 {
+		seventh = target.DefaultSeventh
+	}
+	return &groupModel{model: m, Names: names, Seventh: seventh, Off: make([]bool, len(names)), left: make([]bool, len(names)), rows: make([]groupRow, len(names))}
+}
+
+// AddFrame takes one moment of the group.
+func (g *groupModel) AddFrame(f GroupFrame) {
+	g.Now, g.Level = f.Time, f.Level
+	g.Voiced = false
+	for i := range g.rows {
+		hz, level := 0.0, 0.0
+		if i < len(f.Hz) {
+			hz = f.Hz[i]
+		}
+		if i < len(f.Levels) {
+			level = f.Levels[i]
+		}
+		g.Voiced = g.Voiced || hz > 0
+		g.rows[i].add(f.Time, hz, level)
+	}
+	g.Drift, g.DriftKnown = f.Drift, f.DriftKnown
+	g.followChord(false)
+}
+
+// add keeps the row's voiced frames of the last rowSeconds and decides what
+// it holds: the mean (in cents) of those within rowCents of the newest and
+// within rowFallDB of the loudest of these.
+func (r *groupRow) add(t, hz, level float64) {
+	if hz > 0 && !math.IsInf(hz, 0) {
+		r.times, r.hz, r.levels = append(r.times, t), append(r.hz, hz), append(r.levels, level)
+	}
+	cut := 0
+	for cut < len(r.times) && r.times[cut] < t-rowSeconds {
+		cut++
+	}
+	r.times, r.hz, r.levels = r.times[cut:], r.hz[cut:], r.levels[cut:]
+	r.Hz = 0
+	n := len(r.hz)
+	if n == 0 || t-r.times[n-1] > rowBridge {
+		return
+	}
+	newest, loudest := r.hz[n-1], math.Inf(-1)
+	near := func(f float64) bool { return math.Abs(1200*math.Log2(f/newest)) <= rowCents }
+	for i, f := range r.hz {
+		if near(f) {
+			loudest = max(loudest, r.levels[i])
+		}
+	}
+	sum, k := 0.0, 0
+	for i, f := range r.hz {
+		if near(f) && r.levels[i] >= loudest-rowFallDB {
+			sum += math.Log2(f)
+			k++
+		}
+	}
+	if k >= rowFrames {
+		r.Hz = math.Exp2(sum / float64(k))
+		r.Last = r.Hz
+	}
+}
+
+// holding is the pitches the rows switched on hold now, per row.
+func (g *groupModel) holding() []float64 {
+	hz := make([]float64, len(g.rows))
+	for i, r := range g.rows {
+		if !g.Off[i] {
+			hz[i] = r.Hz
+		}
+	}
+	return hz
+}
+
+// followChord notes the chord the group holds now, once it has settled
+// (at once when forced: a key changed the rows); a new chord pushes the
+// last one into before.
+func (g *groupModel) followChord(force bool) {
+	hz := g.holding()
+	c, _, ok := g.name(hz)
+	name := ""
+	if ok {
+		name = c.Root.PrettyName() + " " + c.Quality
+	}
+	if name != g.next {
+		g.next, g.nextAt = name, g.Now
+	}
+	if !ok || name != g.chordName && !force && g.Now-g.nextAt < chordSettle {
+		g.sounding = false
+		for i, f := range hz {
+			if f > 0 && (i >= len(g.chord) || !(math.Abs(1200*math.Log2(f/g.chord[i])) <= rowCents)) {
+				g.left[i] = true
+			}
+		}
+		return
+	}
+	g.sounding = true
+	if name == g.chordName {
+		// A player who stops while the others hold the chord on is still
+		// heard in it: their last note stays a member, dim.
+		for i, f := range hz {
+			if f == 0 && !g.Off[i] && i < len(g.chord) && g.chord[i] > 0 {
+				hz[i] = g.chord[i]
+			}
+		}
+	} else {
+		if g.chord != nil {
+			g.before = append(g.before, g.chord)
+			if len(g.before) > chordsKept {
+				g.before = g.before[1:]
+			}
+		}
+		g.chordName = name
+	}
+	g.chord = hz
+	clear(g.left)
+}
+
+// name names the chord the per-row pitches make in the current tuning;
+// rows[i] is the row of the chord's i-th given pitch.
+func (g *groupModel) name(perRow []float64) (target.HeardChord, []int, bool) {
+	var hz []float64
+	var rows []int
+	for i, f := range perRow {
+		if f > 0 {
+			hz, rows = append(hz, f), append(rows, i)
+		}
+	}
+	if len(hz) < 2 {
+		return target.HeardChord{}, nil, false
+	}
+	c, ok := g.Tuning.NameChord(hz, g.Seventh)
+	return c, rows, ok
+}
+
+// rowReading is one row as the screen shows it.
+type rowReading struct {
+	Name    string
+	On      bool
+	Holding bool        // a pitch is held now (else: the last one, or none)
+	Heard   bool        // a pitch has been held at all
+	Note    target.Note // spelled from the chord's root when in a chord
+	Cents   float64     // against the temperament
+	InChord bool
+	Role    string  // root, third, fifth, seventh
+	Just    float64 // cents against just above the sounding root
+}
+
+// readings reads every row in the current tuning: members of the chord
+// sounding now are spelled from its root and read against just.
+func (g *groupModel) readings() []rowReading {
+	out := make([]rowReading, len(g.rows))
+	members := map[int]target.HeardMember{}
+	if c, rows, ok := g.name(g.chord); ok {
+		for _, m := range c.Members {
+			members[rows[m.Index]] = m
+		}
+	}
+	for i, r := range g.rows {
+		rr := rowReading{Name: g.Names[i], On: !g.Off[i], Holding: r.Hz > 0, Heard: r.Last > 0}
+		// After the chord: a row still reads in it until it plays on.
+		m, member := members[i]
+		member = member && rr.On && (g.sounding || !rr.Holding && !g.left[i])
+		if member {
+			rr.Note, rr.Cents, rr.InChord, rr.Role, rr.Just = m.Note, m.Cents, true, m.Role, m.JustCents
+		} else if rr.Heard {
+			rd := g.Tuning.Classify(r.Last)
+			rr.Note, rr.Cents = rd.Note, rd.Deviation
+		}
+		out[i] = rr
+	}
+	return out
+}
+
+// Toggle switches row i (from 0) off or on and says so.
+func (g *groupModel) Toggle(i int) {
+	if i < 0 || i >= len(g.Off) {
+		return
+	}
+	g.Off[i] = !g.Off[i]
+	if g.Off[i] {
+		g.Say(g.Names[i] + " off: left out of the chords")
+	} else {
+		g.Say(g.Names[i] + " on again")
+	}
+	g.followChord(true)
+}
