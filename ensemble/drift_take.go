@@ -1,0 +1,94 @@
+package ensemble
+
+import (
+	"cmp"
+	"math"
+	"slices"
+
+	"fifthline/target"
+)
+
+// Sounding is a held note as the drift over a take needs it.
+type Sounding struct{ Start, End, Hz float64 }
+
+// DriftPoint is the group's drift around a time (seconds): the median of
+// the samples of the DriftSeconds centred there.
+type DriftPoint struct{ Time, Cents float64 }
+
+// TakeDrift is the group's drift over a whole take, and how its chords
+// were tuned inside themselves.
+type TakeDrift struct {
+	Points []DriftPoint // in time order
+	Inside Inside
+}
+
+// DriftOver reads the drift over a take from its held notes (any order):
+// a moment every DriftTick seconds holding the notes sounding then, less
+// each note's first and last chordEdge (an attack or a release is not the
+// group's pitch), through the same estimator the live reading uses. Each
+// point stands at the middle of the moments it is the median of, so a
+// steady sag is read where it happened, not DriftSeconds/2 late, from
+// the take's start to its end.
+func DriftOver(notes []Sounding, tu target.Tuning, seventh float64) TakeDrift {
+	if len(notes) == 0 {
+		return TakeDrift{}
+	}
+	notes = slices.Clone(notes)
+	slices.SortFunc(notes, func(a, b Sounding) int { return cmp.Compare(a.Start, b.Start) })
+	end := math.Inf(-1)
+	for _, n := range notes {
+		end = max(end, n.End)
+	}
+	d := NewDrift(tu, seventh)
+	var out TakeDrift
+	var active []Sounding
+	var hz []float64
+	next := 0
+	for k := 0; ; k++ {
+		t := notes[0].Start + (float64(k)+0.5)*DriftTick
+		if t > end+DriftSeconds { // the last windows, shrinking, reach the take's end
+			break
+		}
+		for ; next < len(notes) && notes[next].Start <= t; next++ {
+			active = append(active, notes[next])
+		}
+		active = slices.DeleteFunc(active, func(n Sounding) bool { return n.End < t })
+		hz = hz[:0]
+		for _, n := range active {
+			if t >= n.Start+chordEdge && t <= n.End-chordEdge && n.Hz > 0 {
+				hz = append(hz, n.Hz)
+			}
+		}
+		d.Moment(t, hz)
+		if c, centre, ok := d.window(); ok {
+			out.Points = append(out.Points, DriftPoint{centre, c})
+		}
+	}
+	out.Inside = d.Chords()
+	return out
+}
+
+// At is the drift around t: the point nearest t, if one lies within
+// DriftSeconds/2 of it.
+func (td TakeDrift) At(t float64) (float64, bool) {
+	i, _ := slices.BinarySearchFunc(td.Points, t, func(p DriftPoint, t float64) int { return cmp.Compare(p.Time, t) })
+	best, found := 0, false
+	for _, k := range []int{i - 1, i} {
+		if k >= 0 && k < len(td.Points) && (!found || math.Abs(td.Points[k].Time-t) < math.Abs(td.Points[best].Time-t)) {
+			best, found = k, true
+		}
+	}
+	if !found || math.Abs(td.Points[best].Time-t) > DriftSeconds/2 {
+		return 0, false
+	}
+	return td.Points[best].Cents, true
+}
+
+// Ends are the first and last points: where the group started and where it
+// ended up.
+func (td TakeDrift) Ends() (first, last DriftPoint, ok bool) {
+	if len(td.Points) == 0 {
+		return first, last, false
+	}
+	return td.Points[0], td.Points[len(td.Points)-1], true
+}
