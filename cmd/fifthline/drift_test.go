@@ -42,7 +42,6 @@ const (
 	driftSag          = -10.0 // cents over the take
 )
 
-
 // sagAt is the group's pitch, in cents, at t seconds.
 func sagAt(t float64) float64 { return driftSag * t / driftTakeSeconds }
 
