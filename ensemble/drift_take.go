@@ -2,8 +2,10 @@ package ensemble
 
 import (
 	"cmp"
+	"fmt"
 	"math"
 	"slices"
+	"strings"
 
 	"fifthline/target"
 )
@@ -91,4 +93,37 @@ func (td TakeDrift) Ends() (first, last DriftPoint, ok bool) {
 		return first, last, false
 	}
 	return td.Points[0], td.Points[len(td.Points)-1], true
+}
+
+// Words state the drift over the take, start to end, apart from how its
+// chords were tuned inside themselves, in one line.
+func (td TakeDrift) Words() string {
+	first, last, ok := td.Ends()
+	if !ok {
+		return "group drift: not known (too little sounded)"
+	}
+	s := fmt.Sprintf("group drift %s → %s over %.1f min (moved %s)", flatSharp(first.Cents), flatSharp(last.Cents),
+		(last.Time-first.Time)/60, flatSharp(last.Cents-first.Cents))
+	var inside []string
+	if in := td.Inside; in.NThirds > 0 {
+		inside = append(inside, fmt.Sprintf("thirds %.1f ¢", in.Thirds))
+	}
+	if in := td.Inside; in.NFifths > 0 {
+		inside = append(inside, fmt.Sprintf("fifths %.1f ¢", in.Fifths))
+	}
+	if len(inside) == 0 {
+		return s + "; no thirds or fifths in chords heard"
+	}
+	return s + "; inside the chords, apart from it: " + strings.Join(inside, ", ") + " from just (mean size)"
+}
+
+// flatSharp says cents in words: "3.2 ¢ flat", "0.0 ¢".
+func flatSharp(c float64) string {
+	switch {
+	case c <= -0.05:
+		return fmt.Sprintf("%.1f ¢ flat", -c)
+	case c >= 0.05:
+		return fmt.Sprintf("%.1f ¢ sharp", c)
+	}
+	return "0.0 ¢"
 }

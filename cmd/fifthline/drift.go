@@ -73,33 +73,6 @@ func driftNotes(notes []ensemble.Note, td ensemble.TakeDrift, tu target.Tuning, 
 	return out
 }
 
-// driftSummary is the table's line on the group's drift over a take, apart
-// from how its chords were tuned inside themselves.
-func driftSummary(td ensemble.TakeDrift) string {
-	first, last, ok := td.Ends()
-	if !ok {
-		return "group drift: not known (too little sounded)"
-	}
-	s := fmt.Sprintf("group drift %s → %s over %.1f min (moved %s)", flatSharp(first.Cents), flatSharp(last.Cents),
-		(last.Time-first.Time)/60, flatSharp(last.Cents-first.Cents))
-	in := td.Inside
-	if in.NThirds+in.NFifths == 0 {
-		return s + "; no chords heard"
-	}
-	return s + fmt.Sprintf("; inside the chords, apart from it: thirds %.1f ¢, fifths %.1f ¢ from just (mean size)", in.Thirds, in.Fifths)
-}
-
-// flatSharp says cents in words: "3.2 ¢ flat", "0.0 ¢".
-func flatSharp(c float64) string {
-	switch {
-	case c <= -0.05:
-		return fmt.Sprintf("%.1f ¢ flat", -c)
-	case c >= 0.05:
-		return fmt.Sprintf("%.1f ¢ sharp", c)
-	}
-	return "0.0 ¢"
-}
-
 // tableLines ends a table with lines of its own (a blank line first);
 // other formats carry none.
 func tableLines(e *env, format string, lines []string) error {

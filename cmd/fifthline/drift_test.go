@@ -8,6 +8,8 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"fifthline/report"
 )
 
 // A quartet of our own writing (C, F, G and A minor, twice over, in C
@@ -99,8 +101,9 @@ var quartetPlayers = map[string]int{"vc": 0, "vla": 1, "vl2": 2, "vl1": 3}
 func TestGroupDriftFollowsTheSagApartFromTheChords(t *testing.T) {
 	take := soxSaggingQuartet(t)
 	tableSummary(t, take)
+	log := filepath.Join(t.TempDir(), "rehearsal.csv")
 	for _, ref := range []string{"a4", "group"} {
-		code, out, stderr := runCLI(t, "analyze", "--players", "vc,vla,vl2,vl1", "--reference", ref, take)
+		code, out, stderr := runCLI(t, "analyze", "--players", "vc,vla,vl2,vl1", "--reference", ref, "--log", log, take)
 		if code != 0 {
 			t.Fatalf("--reference %s: exit %d: %s", ref, code, stderr)
 		}
@@ -144,6 +147,44 @@ func TestGroupDriftFollowsTheSagApartFromTheChords(t *testing.T) {
 	t.Logf("chord members within %.2f ¢ of just", worst)
 	if len(rows) != 32 {
 		t.Errorf("%d chord members, want 32:\n%s", len(rows), out)
+	}
+	reportedDrift(t, log)
+}
+
+// reportedDrift: report reads the same drift back from the journal the two
+// analyses wrote (two takes, as two sessions), apart from the per-note
+// tables: a group_drift row per take in the CSV, under the report's own
+// header, its drift_cents the sag between the first and the last chords'
+// middles within 0.5 ¢, and a line per take in the text.
+func reportedDrift(t *testing.T, log string) {
+	t.Helper()
+	held := driftChordSeconds - driftGap
+	want := sagAt(driftTakeSeconds-driftChordSeconds+held/2) - sagAt(held/2)
+	code, out, stderr := runCLI(t, "report", "--format", "csv", log)
+	if code != 0 {
+		t.Fatalf("report: exit %d: %s", code, stderr)
+	}
+	header, rows := readCSV(t, out)
+	if strings.Join(header, ",") != strings.Join(report.CSVHeader(report.Options{}), ",") {
+		t.Errorf("report header %v", header)
+	}
+	takes := 0
+	for _, r := range rows {
+		if r["level"] != report.GroupLevel {
+			continue
+		}
+		takes++
+		d, err := strconv.ParseFloat(r["drift_cents"], 64)
+		if err != nil || math.Abs(d-want) > 0.5 || r["player"] != "vc+vl1+vl2+vla" || r["count"] != "32" {
+			t.Errorf("group row %v: want drift %+.2f ¢ over 32 notes", r, want)
+		}
+	}
+	if takes != 2 {
+		t.Errorf("%d group rows, want one per take (2):\n%s", takes, out)
+	}
+	code, out, stderr = runCLI(t, "report", log)
+	if code != 0 || strings.Count(out, "(vc vl1 vl2 vla): group drift") != 2 {
+		t.Errorf("report: exit %d (%s), want a group line per take:\n%s", code, stderr, out)
 	}
 }
 

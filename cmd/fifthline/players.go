@@ -125,7 +125,7 @@ func analyzePlayers(e *env, po playerOptions, files []string, tu target.Tuning, 
 	for i, path := range files {
 		notes, chords, err := readPlayers(e, path, tu, po, opt, j)
 		td := takeDrift(notes, tu, po.seventh)
-		drifts = append(drifts, path+": "+driftSummary(td))
+		drifts = append(drifts, path+": "+td.Words())
 		// What was heard before an interruption is written all the same.
 		if po.chords {
 			for _, c := range chords {
