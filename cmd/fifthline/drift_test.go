@@ -2,13 +2,17 @@ package main
 
 import (
 	"math"
+	"os"
 	"os/exec"
 	"path/filepath"
 	"regexp"
 	"strconv"
 	"strings"
 	"testing"
+	"time"
 
+	"fifthline/ensemble"
+	"fifthline/internal/vmic"
 	"fifthline/report"
 )
 
@@ -226,5 +230,64 @@ func TestReferenceUsageErrors(t *testing.T) {
 		if out != "" {
 			t.Errorf("%v: stdout %q", args, out)
 		}
+	}
+}
+
+// Live, through a four-channel interface (a PulseAudio null sink of this
+// test's own, its monitor the input): listen --plain --players
+// --reference group reads the group's drift as it goes, from the frames of
+// the last DriftSeconds, so at a note's end it stands within 1 ¢ of where
+// the sag was in the middle of those seconds (of all since the start, in
+// the first); each note's cents, against the moved
+// reference, keep the chord's just tuning and no more than 1.5 ¢ of the
+// sag. start_s counts from the start of capture: the take's first note
+// gives the offset.
+func TestListenPlayersDriftLive(t *testing.T) {
+	mic := vmic.IsolateChannels(t, "front-left", "front-right", "rear-left", "rear-right")
+	take := soxSaggingQuartet(t)
+	wait, proc := startPlainProcess(t, nil, "--players", "vc,vla,vl2,vl1", "--reference", "group", "--duration", "120s")
+	if err := mic.PlayChannels(take)(); err != nil {
+		t.Fatal(err)
+	}
+	time.Sleep(700 * time.Millisecond) // the last notes' release reaches the input
+	if err := proc.Signal(os.Interrupt); err != nil {
+		t.Fatal(err)
+	}
+	code, out, stderr := wait()
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	_, rows := readCSV(t, out)
+	if len(rows) < 28 {
+		t.Fatalf("%d notes, want 32:\n%s", len(rows), out)
+	}
+	offset := math.Inf(1)
+	for _, r := range rows {
+		s, _ := strconv.ParseFloat(r["start_s"], 64)
+		offset = math.Min(offset, s)
+	}
+	known, worstDrift, worstCents := 0, 0.0, 0.0
+	for _, r := range rows {
+		start, _ := strconv.ParseFloat(r["start_s"], 64)
+		end, _ := strconv.ParseFloat(r["end_s"], 64)
+		cents, _ := strconv.ParseFloat(r["cents"], 64)
+		start, end = start-offset, end-offset
+		c, v := chordAt((start+end)/2, quartetPlayers[r["player"]])
+		drift, err := strconv.ParseFloat(r["group_drift_cents"], 64)
+		if err != nil {
+			continue // not known yet: the first chord
+		}
+		known++
+		lagged := sagAt(end - math.Min(end, ensemble.DriftSeconds)/2)
+		dd, dc := math.Abs(drift-lagged), math.Abs(cents-justOffset(c, v))
+		worstDrift, worstCents = max(worstDrift, dd), max(worstCents, dc)
+		if dd > 1 || dc > 1.5 {
+			t.Errorf("%s %s at %.2f–%.2f s: drift %+.2f ¢, cents %+.2f; want drift %+.2f, cents %+.2f",
+				r["player"], r["note"], start, end, drift, cents, lagged, justOffset(c, v))
+		}
+	}
+	t.Logf("live: %d notes with a drift, within %.2f ¢ of the sag; cents within %.2f ¢ of the chords' just tuning", known, worstDrift, worstCents)
+	if known < len(rows)-4 {
+		t.Errorf("a drift with %d of %d notes, want all but the first chord's", known, len(rows))
 	}
 }
