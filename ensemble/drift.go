@@ -92,6 +92,11 @@ func (d *Drift) moment(t float64, hz []float64) {
 
 // samples appends one sample per pitch (see the package's definition).
 func (d *Drift) samples(hz []float64, out []float64) []float64 {
+	for _, f := range hz {
+		if !(f > 0) || math.IsInf(f, 0) {
+			return out // not a pitch: the moment says nothing
+		}
+	}
 	if len(hz) >= 2 {
 		if c, ok := d.tu.NameChord(hz, d.seventh); ok {
 			root := c.Members[slices.IndexFunc(c.Members, func(m target.HeardMember) bool { return m.Role == "root" })]

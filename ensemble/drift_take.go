@@ -32,32 +32,38 @@ type TakeDrift struct {
 // steady sag is read where it happened, not DriftSeconds/2 late, from
 // the take's start to its end.
 func DriftOver(notes []Sounding, tu target.Tuning, seventh float64) TakeDrift {
+	notes = slices.DeleteFunc(slices.Clone(notes), func(n Sounding) bool {
+		return !(n.Hz > 0 && n.End >= n.Start && n.End-n.Start <= maxHeldSeconds && math.Abs(n.Start) < maxTakeSeconds) || math.IsInf(n.Hz, 0)
+	})
 	if len(notes) == 0 {
 		return TakeDrift{}
 	}
-	notes = slices.Clone(notes)
 	slices.SortFunc(notes, func(a, b Sounding) int { return cmp.Compare(a.Start, b.Start) })
-	end := math.Inf(-1)
-	for _, n := range notes {
-		end = max(end, n.End)
-	}
 	d := NewDrift(tu, seventh)
 	var out TakeDrift
 	var active []Sounding
 	var hz []float64
-	next := 0
+	t0, heard, next := notes[0].Start, math.Inf(-1), 0 // heard: the latest end among the notes begun
 	for k := 0; ; k++ {
-		t := notes[0].Start + (float64(k)+0.5)*DriftTick
-		if t > end+DriftSeconds { // the last windows, shrinking, reach the take's end
-			break
+		t := t0 + (float64(k)+0.5)*DriftTick
+		if len(active) == 0 && t > heard+DriftSeconds { // silence for a whole window
+			if next == len(notes) {
+				break // the last windows, shrinking, have reached the take's end
+			}
+			// On to the first moment of the next note (never back).
+			k = max(k, int(math.Ceil((notes[next].Start-t0)/DriftTick-0.5)))
+			for t = t0 + (float64(k)+0.5)*DriftTick; t < notes[next].Start; t = t0 + (float64(k)+0.5)*DriftTick {
+				k++
+			}
 		}
 		for ; next < len(notes) && notes[next].Start <= t; next++ {
 			active = append(active, notes[next])
+			heard = max(heard, notes[next].End)
 		}
 		active = slices.DeleteFunc(active, func(n Sounding) bool { return n.End < t })
 		hz = hz[:0]
 		for _, n := range active {
-			if t >= n.Start+chordEdge && t <= n.End-chordEdge && n.Hz > 0 {
+			if t >= n.Start+chordEdge && t <= n.End-chordEdge {
 				hz = append(hz, n.Hz)
 			}
 		}
@@ -69,6 +75,14 @@ func DriftOver(notes []Sounding, tu target.Tuning, seventh float64) TakeDrift {
 	out.Inside = d.Chords()
 	return out
 }
+
+// maxHeldSeconds: a journal row held longer than this is damaged, not a
+// note (and would keep the reading busy for nothing).
+const maxHeldSeconds = 600
+
+// maxTakeSeconds bounds a note's time within its take (a year): beyond
+// it, a tenth of a second is lost in the float's rounding.
+const maxTakeSeconds = 365 * 24 * 3600
 
 // At is the drift around t: the point nearest t, if one lies within
 // DriftSeconds/2 of it.

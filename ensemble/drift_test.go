@@ -144,3 +144,20 @@ func TestDriftOverATake(t *testing.T) {
 		t.Error("a drift far after the take")
 	}
 }
+
+// Whatever a journal holds — notes out of order, overlapping, empty, of
+// no pitch or at infinity — the drift over it is read without a panic and
+// every point is a number of cents.
+func FuzzDriftOver(f *testing.F) {
+	f.Add(0.0, 2.0, 130.81, 0.0, 2.0, 196.2, 2.1, 4.0, 440.0)
+	f.Add(5.0, 1.0, -1.0, math.Inf(1), 0.0, 0.0, 1e9, 1e9+1, 1e-300)
+	f.Add(1e300, 1e300, 440.0, -1e300, -1e300, 220.0, 1e17, 1e17+2, 330.0)
+	f.Fuzz(func(t *testing.T, s1, e1, h1, s2, e2, h2, s3, e3, h3 float64) {
+		notes := []Sounding{{s1, e1, h1}, {s2, e2, h2}, {s3, e3, h3}}
+		for _, p := range DriftOver(notes, target.Default(), target.DefaultSeventh).Points {
+			if math.IsNaN(p.Cents) || math.IsInf(p.Cents, 0) {
+				t.Fatalf("%v: point %v", notes, p)
+			}
+		}
+	})
+}
