@@ -229,15 +229,17 @@ func ifAny(n int, values ...string) []string {
 	return make([]string, len(values))
 }
 
-// WriteJSON writes the groups with the tolerance they were judged by.
-func WriteJSON(w io.Writer, groups []Group, opt Options) error {
+// WriteJSON writes the groups with the tolerance they were judged by, and
+// the group's drift over each take that has one (GroupDrifts).
+func WriteJSON(w io.Writer, groups []Group, opt Options, drifts ...GroupDrift) error {
 	enc := json.NewEncoder(w)
 	enc.SetIndent("", "  ")
 	return enc.Encode(struct {
-		Tolerance   float64 `json:"tolerance_cents"`
-		ByRehearsal bool    `json:"by_rehearsal"`
-		Groups      []Group `json:"groups"`
-	}{opt.Tolerance, opt.ByRehearsal, groups})
+		Tolerance   float64      `json:"tolerance_cents"`
+		ByRehearsal bool         `json:"by_rehearsal"`
+		Groups      []Group      `json:"groups"`
+		GroupDrift  []GroupDrift `json:"group_drift,omitempty"`
+	}{opt.Tolerance, opt.ByRehearsal, groups, drifts})
 }
 
 // plural counts things in words: "1 note", "4 notes".

@@ -4,6 +4,7 @@ import (
 	"cmp"
 	"context"
 	"encoding/csv"
+	"encoding/json"
 	"errors"
 	"flag"
 	"fmt"
@@ -24,11 +25,12 @@ import (
 // ensemble), and with --chords the chords they make.
 
 // playerColumns follow the held-note columns.
-var playerColumns = []string{"player", "channel"}
+var playerColumns = []string{driftColumn, "player", "channel"}
 
 // addPlayersFlag defines --players; call it before addVoiceFlags, which
 // shares --chords and --seventh with it.
 func addPlayersFlag(fs *flag.FlagSet) *string {
+	addReferenceFlag(fs)
 	return fs.String("players", "", "one player per channel, in channel order (vc,vla,vl2,vl1; an empty name skips a channel) or picked (3=vla,1=vc); notes gain player and channel columns")
 }
 
@@ -37,13 +39,14 @@ type playerOptions struct {
 	players []ensemble.Player
 	chords  bool
 	seventh float64
+	group   bool // --reference group
 }
 
 // playersOptions checks --players and the chord flags; ok is false when
 // --players was not given.
 func playersOptions(fs *flag.FlagSet, value string) (opt playerOptions, ok bool, err error) {
-	if !wasSet(fs, "players") {
-		return opt, false, nil
+	if opt.group, err = groupReference(fs, wasSet(fs, "players")); err != nil || !wasSet(fs, "players") {
+		return opt, false, err
 	}
 	if opt.players, err = ensemble.ParsePlayers(value); err != nil {
 		return opt, false, usagef("%v", err)
@@ -58,21 +61,29 @@ func playersOptions(fs *flag.FlagSet, value string) (opt playerOptions, ok bool,
 // playerNote is one player's note with the columns --players adds.
 type playerNote struct {
 	ensemble.Note
+	drift float64 // the group's drift at the note, cents
+	known bool
 }
 
 func (n playerNote) record(withFile bool) []string {
-	return append(n.Record(withFile), n.Player.Name, strconv.Itoa(n.Player.Channel+1))
+	return append(n.Record(withFile), n.driftField(), n.Player.Name, strconv.Itoa(n.Player.Channel+1))
 }
 
 // playerNoteJSON is a player's note in JSON: the note's fields and whose.
 type playerNoteJSON struct {
 	noteJSON
-	Player  string `json:"player"`
-	Channel int    `json:"channel"`
+	GroupDrift *json.Number `json:"group_drift_cents"` // null where not known
+	Player     string       `json:"player"`
+	Channel    int          `json:"channel"`
 }
 
 func (n playerNote) json(withFile bool) playerNoteJSON {
-	return playerNoteJSON{newNoteJSON(n.Event, withFile), n.Player.Name, n.Player.Channel + 1}
+	var drift *json.Number
+	if n.known {
+		d := number(n.drift, 2)
+		drift = &d
+	}
+	return playerNoteJSON{newNoteJSON(n.Event, withFile), drift, n.Player.Name, n.Player.Channel + 1}
 }
 
 // chordRecords are a chord's rows, one per member, lowest first, as the
@@ -119,8 +130,11 @@ func analyzePlayers(e *env, po playerOptions, files []string, tu target.Tuning, 
 	if opt.format == "table" {
 		out.title = tu.String()
 	}
+	var drifts []string // the table's line per take
 	for i, path := range files {
 		notes, chords, err := readPlayers(e, path, tu, po, opt, j)
+		td := takeDrift(notes, tu, po.seventh)
+		drifts = append(drifts, path+": "+td.Words())
 		// What was heard before an interruption is written all the same.
 		if po.chords {
 			for _, c := range chords {
@@ -129,8 +143,8 @@ func analyzePlayers(e *env, po playerOptions, files []string, tu target.Tuning, 
 				}
 			}
 		} else {
-			for _, n := range notes {
-				out.write(playerNote{n}.record(withFile), playerNote{n}.json(withFile))
+			for _, n := range driftNotes(notes, td, tu, po.group) {
+				out.write(n.record(withFile), n.json(withFile))
 			}
 		}
 		if err != nil && i == 0 && notes == nil {
@@ -141,7 +155,7 @@ func analyzePlayers(e *env, po playerOptions, files []string, tu target.Tuning, 
 		}
 	}
 	opt.sayTuning()
-	return errors.Join(out.close(), j.close())
+	return errors.Join(out.close(), tableLines(e, opt.format, drifts), j.close())
 }
 
 // readPlayers hears one file's players twice: once to learn what each
@@ -251,6 +265,7 @@ func listenPlayers(ctx context.Context, e *env, src *capture.Input, name string,
 	interface_ := src.Carried()
 	var notes []ensemble.Note
 	tracks := make([]harmony.Track, len(po.players))
+	drift := ensemble.NewDrift(tu, po.seventh)
 	o := ensemble.Options{Name: name, Players: po.players, Tunings: session.NewTunings(tu),
 		OnNote: func(n ensemble.Note) error {
 			j.note(n.Event)
@@ -258,14 +273,19 @@ func listenPlayers(ctx context.Context, e *env, src *capture.Input, name string,
 			if po.chords {
 				return nil
 			}
-			n.Player.Channel = interface_[n.Player.Channel] - 1 // as printed on the interface
-			w.Write(playerNote{n}.record(false))
+			c, known := drift.Cents()
+			pn := withDrift(n, tu, c, known, po.group)
+			pn.Player.Channel = interface_[n.Player.Channel] - 1 // as printed on the interface
+			w.Write(pn.record(false))
 			w.Flush()
 			return w.Error()
+		},
+		OnFrame: func(i int, est pitchdetect.Estimate) {
+			drift.Frame(i, est)
+			if po.chords {
+				tracks[i].Add(est.Time, est.Hz)
+			}
 		}}
-	if po.chords {
-		o.OnFrame = func(i int, est pitchdetect.Estimate) { tracks[i].Add(est.Time, est.Hz) }
-	}
 	err := ensemble.Run(ctx, src, o)
 	if po.chords {
 		sortPlayerNotes(notes)

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"errors"
 	"fmt"
 	"path/filepath"
 	"strings"
@@ -65,13 +66,14 @@ func runReport(e *env, args []string) error {
 			return err
 		}
 	}
+	drifts := report.GroupDrifts(entries) // the group's drift, apart from each note's tuning
 	switch *format {
 	case "csv":
-		err = report.WriteCSV(e.stdout, groups, opt)
+		err = errors.Join(report.WriteCSV(e.stdout, groups, opt), report.WriteGroupCSV(e.stdout, drifts, opt))
 	case "json":
-		err = report.WriteJSON(e.stdout, groups, opt)
+		err = report.WriteJSON(e.stdout, groups, opt, drifts...)
 	default:
-		err = report.WriteText(e.stdout, groups, opt)
+		err = errors.Join(report.WriteText(e.stdout, groups, opt), report.WriteGroupText(e.stdout, drifts))
 	}
 	return err
 }
