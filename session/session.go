@@ -49,6 +49,16 @@ func (ts *Tunings) Get() target.Tuning { return *ts.p.Load() }
 // Set makes t the current tuning.
 func (ts *Tunings) Set(t target.Tuning) { ts.p.Store(&t) }
 
+// Current returns the current tuning and whether it is the one last seen
+// (*seen, updated): a reader that derives state from the tuning (the
+// group's drift) starts that state afresh when a key has changed it.
+func (ts *Tunings) Current(seen **target.Tuning) (t target.Tuning, same bool) {
+	p := ts.p.Load()
+	same = p == *seen
+	*seen = p
+	return *p, same
+}
+
 // Options configure Run. Window and Hop are in samples; 0 lets the detector
 // choose. OnFrame and OnNote may be nil. An error from OnNote stops Run.
 type Options struct {

@@ -11,6 +11,7 @@ import (
 	"fifthline/pitchdetect"
 	"fifthline/session"
 	"fifthline/source"
+	"fifthline/target"
 	"fifthline/ui"
 )
 
@@ -31,7 +32,7 @@ func playersMeter(ctx context.Context, src source.Multi, tunings *session.Tuning
 	}
 	m := groupMeter(names, tunings, po.seventh, j, ms)
 	defer j.close() // complete before the device is stopped
-	var frame groupFrame
+	frame := groupFrame{tunings: tunings, seventh: po.seventh}
 	o := ensemble.Options{Name: ms.name, Players: po.players, Tunings: tunings,
 		OnNote: func(n ensemble.Note) error {
 			j.note(n.Event)
@@ -40,6 +41,7 @@ func playersMeter(ctx context.Context, src source.Multi, tunings *session.Tuning
 		// Run hands every player's frame of a moment in player order.
 		OnFrame: func(i int, e pitchdetect.Estimate) {
 			frame.add(i, len(names), e.Hz, e.Level)
+			frame.drift().Frame(i, e)
 			if i == len(names)-1 {
 				frame.send(m, e.Time)
 			}
@@ -56,8 +58,14 @@ func voicesMeter(ctx context.Context, src source.Source, tunings *session.Tuning
 	}
 	m := groupMeter(names, tunings, vo.seventh, j, ms)
 	defer j.close()
-	var frame groupFrame
+	frame := groupFrame{tunings: tunings, seventh: vo.seventh}
+	var sounding []float64
 	vo.onFrame = func(f multipitch.Frame) {
+		sounding = sounding[:0]
+		for _, v := range f.Voices {
+			sounding = append(sounding, v.Hz)
+		}
+		frame.drift().Moment(f.Time, sounding)
 		for i := range names {
 			hz, level := 0.0, math.Inf(-1)
 			if i < len(f.Voices) {
@@ -84,9 +92,24 @@ func groupMeter(names []string, tunings *session.Tunings, seventh float64, j *jo
 	return ui.New(opt)
 }
 
-// groupFrame gathers one moment of the group, row by row.
+// groupFrame gathers one moment of the group, row by row, and the
+// group's drift so far.
 type groupFrame struct {
 	hz, levels []float64
+
+	tunings *session.Tunings
+	seventh float64
+	seen    *target.Tuning // the tuning the drift is read against
+	drifts  *ensemble.Drift
+}
+
+// drift is the group's drift, started afresh when a key changes the
+// tuning (a new key or temperament moves every target it is read against).
+func (g *groupFrame) drift() *ensemble.Drift {
+	if tu, same := g.tunings.Current(&g.seen); !same || g.drifts == nil {
+		g.drifts = ensemble.NewDrift(tu, g.seventh)
+	}
+	return g.drifts
 }
 
 func (g *groupFrame) add(i, rows int, hz, level float64) {
@@ -98,5 +121,6 @@ func (g *groupFrame) add(i, rows int, hz, level float64) {
 
 // send hands the moment to the meter (which copies it).
 func (g *groupFrame) send(m *ui.Meter, t float64) {
-	m.OnGroupFrame(ui.GroupFrame{Time: t, Hz: g.hz, Levels: g.levels, Level: slices.Max(g.levels)})
+	drift, known := g.drift().Cents()
+	m.OnGroupFrame(ui.GroupFrame{Time: t, Hz: g.hz, Levels: g.levels, Level: slices.Max(g.levels), Drift: drift, DriftKnown: known})
 }
