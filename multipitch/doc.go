@@ -39,5 +39,7 @@
 // It is pure (no I/O, no cgo) and knows nothing of notes or keys: pruning by
 // a key's window is the caller's Accept function. It is not a transcriber of
 // fast polyphonic passages: windows are long (a third of a second) because
-// held chords are what it is for.
+// held chords are what it is for; only after an onset, until a whole window
+// holds the chord, is the newest half window read, so that a chord's first
+// reading comes within 300 ms.
 package multipitch

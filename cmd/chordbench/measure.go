@@ -32,7 +32,6 @@ func measure(m mixture, wav string) (string, error) {
 	if err != nil {
 		return "", err
 	}
-	half := float64(est.Window()) / 2 / rate
 	var errs, steady []float64
 	means := make([]float64, len(m.voices))
 	counts := make([]int, len(m.voices))
@@ -45,9 +44,9 @@ func measure(m mixture, wav string) (string, error) {
 	t0 := cpu()
 	est.Feed(block, func(f multipitch.Frame) {
 		if math.IsNaN(first) && allFound(f.Voices, m.voices) {
-			first = f.Time + half - lead
+			first = f.Time + f.Span/2 - lead
 		}
-		if f.Time-half < lead || f.Time+half > lead+seconds {
+		if f.Time-f.Span/2 < lead || f.Time+f.Span/2 > lead+seconds {
 			return
 		}
 		frames++
