@@ -21,7 +21,7 @@ type Voice struct {
 // Frame is the estimator's reading for one hop.
 type Frame struct {
 	Time   float64 // seconds from the first sample fed; centre of the window
-	Span   float64 // seconds the window read covers (half the window at an onset)
+	Span   float64 // seconds the window read covers (half the window: see Feed)
 	Level  float64 // RMS of the window in dBFS
 	Voices []Voice // lowest first; valid until the next call
 }
@@ -71,6 +71,7 @@ type Estimator struct {
 	floor  float64   // the spectrum's median power: its noise floor
 	sorted []float64 // scratch for it
 	out    []Voice
+	alt    []Voice // the half window's reading beside it
 
 	// The onset's half window: see onset.go.
 	short   *Estimator
@@ -150,7 +151,8 @@ func (e *Estimator) Hop() int { return e.hop }
 // every hop once a window is full; until a whole window holds the sound
 // since an onset (and at the stream's start) they are read on the newest
 // half window instead, so a chord's first reading does not wait for a
-// window of it (onset.go).
+// window of it, and a frame whose half window hears more voices than its
+// whole one takes the half window's reading (onset.go).
 func (e *Estimator) Feed(block []float32, emit func(Frame)) {
 	for len(block) > 0 {
 		n := min(len(block), e.due()-e.fill)
@@ -176,9 +178,8 @@ func (e *Estimator) Feed(block []float32, emit func(Frame)) {
 		} else if t := (float64(e.fed) - float64(e.window)/2) / e.rate; t > e.last {
 			// (The first whole window after the half ones is centred
 			// where the last half one was: it is skipped.)
-			e.out = e.Analyze(e.buf, e.out[:0])
 			e.last = t
-			emit(Frame{Time: t, Span: float64(e.window) / e.rate, Level: rmsDB(e.buf), Voices: e.out})
+			emit(e.whole(t))
 		}
 		copy(e.buf, e.buf[e.hop:])
 		e.fill = e.window - e.hop

@@ -50,3 +50,23 @@ func (e *Estimator) emitShort(x []float64, emit func(Frame)) {
 	e.last = t
 	emit(Frame{Time: t, Span: float64(len(x)) / e.rate, Level: rmsDB(x), Voices: e.out})
 }
+
+// whole reads the full window as the frame centred at t. Where the half
+// window around the same centre hears more voices, its reading stands: a
+// voice with a wide vibrato (a choir's, a section's) or a wandering pitch
+// is smeared over a whole window until its partials explain too little to
+// pass for a voice, while half the window still holds it nearly steady.
+func (e *Estimator) whole(t float64) Frame {
+	e.out = e.Analyze(e.buf, e.out[:0])
+	if e.short == nil {
+		return Frame{Time: t, Span: float64(e.window) / e.rate, Level: rmsDB(e.buf), Voices: e.out}
+	}
+	q := e.window / 4
+	mid := e.buf[q : e.window-q]
+	e.alt = e.short.Analyze(mid, e.alt[:0])
+	if len(e.alt) > len(e.out) {
+		e.out, e.alt = e.alt, e.out
+		return Frame{Time: t, Span: float64(len(mid)) / e.rate, Level: rmsDB(mid), Voices: e.out}
+	}
+	return Frame{Time: t, Span: float64(e.window) / e.rate, Level: rmsDB(e.buf), Voices: e.out}
+}
