@@ -69,7 +69,7 @@ bench: deps
 	$(GO) run ./cmd/chordbench
 	$(GO) test -run XXX -bench ReadQuartet ./ensemble/
 	@scripts/vmic-start
-	$(GO) test -run XXX -bench 'ListenPlainLive|ListenMeter|DemoMeterInTmux' -benchtime 1x ./cmd/fifthline/
+	$(GO) test -run XXX -bench 'ListenPlainLive|ListenVoicesLive|ListenMeter|DemoMeterInTmux' -benchtime 1x ./cmd/fifthline/
 	$(GO) test -run XXX -bench 'PlayerDroneUnderMicrophone' -benchtime 1x ./playback/
 
 clean:

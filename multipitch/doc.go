@@ -39,5 +39,10 @@
 // It is pure (no I/O, no cgo) and knows nothing of notes or keys: pruning by
 // a key's window is the caller's Accept function. It is not a transcriber of
 // fast polyphonic passages: windows are long (a third of a second) because
-// held chords are what it is for.
+// held chords are what it is for. Half windows are read beside them: after
+// an onset, until a whole window holds the chord, the newest half window is
+// read instead, so that a chord's first reading comes within 300 ms; and
+// where the half window around a frame's centre hears more voices than the
+// whole one, its reading stands (a wide vibrato smears a voice over a whole
+// window until it explains too little to pass for one).
 package multipitch

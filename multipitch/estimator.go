@@ -21,6 +21,7 @@ type Voice struct {
 // Frame is the estimator's reading for one hop.
 type Frame struct {
 	Time   float64 // seconds from the first sample fed; centre of the window
+	Span   float64 // seconds the window read covers (half the window: see Feed)
 	Level  float64 // RMS of the window in dBFS
 	Voices []Voice // lowest first; valid until the next call
 }
@@ -70,6 +71,13 @@ type Estimator struct {
 	floor  float64   // the spectrum's median power: its noise floor
 	sorted []float64 // scratch for it
 	out    []Voice
+	alt    []Voice // the half window's reading beside it
+
+	// The onset's half window: see onset.go.
+	short   *Estimator
+	onsetAt int     // sample count fed at the last onset
+	full    bool    // a whole window has been read
+	last    float64 // time of the last frame emitted
 }
 
 // New returns an Estimator for the sample rate with window and hop in
@@ -120,6 +128,15 @@ func New(rate float64, window, hop int, cfg Config) (*Estimator, error) {
 	e.search = newSearcher(window/2+1, binHz, ceil, cfg.MinHz, cfg.MaxHz)
 	e.fitter = newFitter(window, binHz, ceil, maxPartials)
 	e.fitter.spec = e.spec
+	e.last = math.Inf(-1)
+	if window/2 >= 1024 {
+		// A range the half window cannot hold (a low MinHz) has no onset
+		// window: chords are then read on whole windows only.
+		e.short, _ = New(rate, window/2, hop, Config{MaxVoices: cfg.MaxVoices, MinHz: cfg.MinHz, MaxHz: cfg.MaxHz, Accept: cfg.Accept})
+		if e.short != nil {
+			e.short.short = nil
+		}
+	}
 	return e, nil
 }
 
@@ -130,22 +147,40 @@ func (e *Estimator) Window() int { return e.window }
 func (e *Estimator) Hop() int { return e.hop }
 
 // Feed takes the next block of samples and calls emit for every frame it
-// completes; the frame's Voices are reused by the next call.
+// completes; the frame's Voices are reused by the next call. Frames come
+// every hop once a window is full; until a whole window holds the sound
+// since an onset (and at the stream's start) they are read on the newest
+// half window instead, so a chord's first reading does not wait for a
+// window of it, and a frame whose half window hears more voices than its
+// whole one takes the half window's reading (onset.go).
 func (e *Estimator) Feed(block []float32, emit func(Frame)) {
 	for len(block) > 0 {
-		n := min(len(block), e.window-e.fill)
+		n := min(len(block), e.due()-e.fill)
 		for i := range n {
 			e.buf[e.fill+i] = float64(block[i])
 		}
 		e.fill += n
 		e.fed += n
 		block = block[n:]
-		if e.fill < e.window {
+		if e.fill < e.due() {
 			continue
 		}
-		level := rmsDB(e.buf)
-		e.out = e.Analyze(e.buf, e.out[:0])
-		emit(Frame{Time: (float64(e.fed) - float64(e.window)/2) / e.rate, Level: level, Voices: e.out})
+		if e.fill < e.window { // the stream's start: the half window so far
+			e.emitShort(e.buf[e.fill-e.short.window:e.fill], emit)
+			continue
+		}
+		e.full = true
+		if e.onset() {
+			e.onsetAt = e.fed - e.hop
+		}
+		if e.short != nil && e.fed-e.onsetAt < e.window {
+			e.emitShort(e.buf[e.window-e.short.window:], emit)
+		} else if t := (float64(e.fed) - float64(e.window)/2) / e.rate; t > e.last {
+			// (The first whole window after the half ones is centred
+			// where the last half one was: it is skipped.)
+			e.last = t
+			emit(e.whole(t))
+		}
 		copy(e.buf, e.buf[e.hop:])
 		e.fill = e.window - e.hop
 	}

@@ -22,7 +22,7 @@ func runCLI(t *testing.T, args ...string) (code int, stdout, stderr string) {
 }
 
 // readCSV parses CSV output into header-keyed rows.
-func readCSV(t *testing.T, text string) (header []string, rows []map[string]string) {
+func readCSV(t testing.TB, text string) (header []string, rows []map[string]string) {
 	t.Helper()
 	recs, err := csv.NewReader(strings.NewReader(text)).ReadAll()
 	if err != nil || len(recs) == 0 {

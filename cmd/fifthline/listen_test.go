@@ -107,7 +107,7 @@ func startPlain(t *testing.T, env []string, args ...string) (wait func() (code i
 	return wait
 }
 
-func startPlainProcess(t *testing.T, env []string, args ...string) (wait func() (code int, csv, stderr string), proc *os.Process) {
+func startPlainProcess(t testing.TB, env []string, args ...string) (wait func() (code int, csv, stderr string), proc *os.Process) {
 	t.Helper()
 	cmd := exec.Command(fifthlineBinary(t), append([]string{"listen", "--plain"}, args...)...)
 	cmd.Env = append(os.Environ(), env...)

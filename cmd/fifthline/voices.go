@@ -179,10 +179,11 @@ func sortVoiceNotes(notes []voiceNote) {
 // interruption loses none; an error from emit stops the reading.
 func hearVoices(ctx context.Context, src source.Source, name string, tu target.Tuning, vo voiceOptions, at func(seconds float64), emit func(voiceNote) error) error {
 	rate := src.SampleRate()
-	est, err := multipitch.New(rate, 0, 0, multipitch.Config{MaxVoices: vo.max})
+	est, err := multipitch.New(rate, 0, 0, multipitch.Config{MaxVoices: vo.max, Accept: inKey(tu)})
 	if err != nil {
 		return err
 	}
+	keep := reported(tu)
 	var emitErr error
 	tr := newTracker(name, tu, float64(est.Hop())/rate, float64(est.Window())/rate, func(n voiceNote) {
 		if emitErr == nil {
@@ -199,6 +200,7 @@ func hearVoices(ctx context.Context, src source.Source, name string, tu target.T
 		read += n
 		at(float64(read) / rate)
 		est.Feed(block[:n], func(f multipitch.Frame) {
+			f.Voices = keep(f.Voices)
 			tr.push(f)
 			if vo.onFrame != nil {
 				vo.onFrame(f)

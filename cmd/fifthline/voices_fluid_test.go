@@ -2,10 +2,7 @@ package main
 
 import (
 	"math"
-	"os"
 	"os/exec"
-	"path/filepath"
-	"strconv"
 	"testing"
 
 	"fifthline/internal/testsignal"
@@ -25,9 +22,7 @@ import (
 // render than the other costs about a cent). Each chord must be named and
 // its members spelled.
 func TestVoicesOfRenderedProgression(t *testing.T) {
-	const sf2 = "/usr/share/sounds/sf2/FluidR3_GM.sf2"
-	fluid, err := exec.LookPath("fluidsynth")
-	if err != nil {
+	if _, err := exec.LookPath("fluidsynth"); err != nil {
 		t.Fatalf("fluidsynth not found (make test installs it): %v", err)
 	}
 	// C major (C3 G3 E4), then A major (A2 E3 C♯4): root, fifth, third.
@@ -42,13 +37,7 @@ func TestVoicesOfRenderedProgression(t *testing.T) {
 	bends := []float64{0, 1.96, -13.69}
 	dir := t.TempDir()
 	read := func(name string) map[string]map[string]string {
-		mid, wav := filepath.Join(dir, name+".mid"), filepath.Join(dir, name+".wav")
-		if err := os.WriteFile(mid, testsignal.MIDIParts(parts), 0o644); err != nil {
-			t.Fatal(err)
-		}
-		if out, err := exec.Command(fluid, "-ni", "-q", "-R", "0", "-C", "0", "-g", "0.5", "-r", "44100", "-F", wav, sf2, mid).CombinedOutput(); err != nil {
-			t.Fatalf("fluidsynth: %v\n%s", err, out)
-		}
+		wav := renderMIDI(t, dir, name, testsignal.MIDIParts(parts))
 		code, out, stderr := runCLI(t, "analyze", "--voices", "3", "--chords", wav)
 		if code != 0 {
 			t.Fatalf("exit %d: %s", code, stderr)
@@ -74,7 +63,6 @@ func TestVoicesOfRenderedProgression(t *testing.T) {
 		parts[p].Cents = bends[p]
 	}
 	bent := read("bent")
-	num := func(r map[string]string, k string) float64 { v, _ := strconv.ParseFloat(r[k], 64); return v }
 	for _, c := range []struct {
 		chord string
 		notes [3]string // root, fifth, third: the parts' order

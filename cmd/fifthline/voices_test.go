@@ -67,6 +67,11 @@ func TestVoicesUsageErrors(t *testing.T) {
 		code, _, stderr := runCLI(t, append(append([]string{"analyze"}, args...), path)...)
 		checkError(t, code, 2, stderr)
 	}
+	// listen refuses the same before it opens any device.
+	for _, args := range [][]string{{"--voices", "0"}, {"--voices", "9"}, {"--voices", "abc"}, {"--voices", "2", "--players", "vc,vla"}} {
+		code, _, stderr := runCLI(t, append([]string{"listen", "--plain"}, args...)...)
+		checkError(t, code, 2, stderr)
+	}
 	// Files it cannot read are one line, exit 1, nothing on stdout: a
 	// missing file, an empty one, a rate the estimator cannot work at.
 	slow := sox(t, "slow.wav", "-r", "4000", "-b", "16", "synth 0.5 sine 220")
