@@ -298,19 +298,12 @@ func renderMIDI(t *testing.T, dir, name string, mid []byte) string {
 func noisyMono(t *testing.T, dir, wav string, snr float64) string {
 	t.Helper()
 	mono, noise, out := filepath.Join(dir, "mono.wav"), filepath.Join(dir, "noise.wav"), filepath.Join(dir, "mix.wav")
-	soxRun(t, wav, "-b", "32", "-e", "floating-point", mono, "remix", "1v0.5,2v0.5")
+	soxRun(t)("-R", wav, "-b", "32", "-e", "floating-point", mono, "remix", "1v0.5,2v0.5")
 	secs := soxStat(t, mono, "Length (seconds)")
-	soxRun(t, "-n", "-r", "44100", "-c", "1", "-b", "32", "-e", "floating-point", noise, "synth", strconv.FormatFloat(secs, 'f', 6, 64), "whitenoise", "vol", "0.1")
+	soxRun(t)("-R", "-n", "-r", "44100", "-c", "1", "-b", "32", "-e", "floating-point", noise, "synth", strconv.FormatFloat(secs, 'f', 6, 64), "whitenoise", "vol", "0.1")
 	gain := soxStat(t, mono, "RMS     amplitude") * math.Pow(10, -snr/20) / soxStat(t, noise, "RMS     amplitude")
-	soxRun(t, "-m", "-v", "1", mono, "-v", strconv.FormatFloat(gain, 'g', 8, 64), noise, "-b", "32", "-e", "floating-point", out)
+	soxRun(t)("-R", "-m", "-v", "1", mono, "-v", strconv.FormatFloat(gain, 'g', 8, 64), noise, "-b", "32", "-e", "floating-point", out)
 	return out
-}
-
-func soxRun(t *testing.T, args ...string) {
-	t.Helper()
-	if out, err := exec.Command("sox", append([]string{"-R"}, args...)...).CombinedOutput(); err != nil {
-		t.Fatalf("sox %v: %v\n%s", args, err, out)
-	}
 }
 
 // soxStat is one figure of sox's stat effect for the file.
