@@ -283,7 +283,7 @@ func (s *Segmenter) summarise(live, slurred bool) Held {
 		s.t = append(s.t, e.Time)
 		s.c = append(s.c, 1200*math.Log2(e.Hz/ref))
 	}
-	mean, sd := meanStd(s.c)
+	mean, sd := meanStd(s.c[glide(s.c):])
 	h.Spread = sd
 	h.Hz = ref * math.Pow(2, mean/1200)
 	if n := len(s.frames); !live || n >= s.vibAt+vibratoRefresh || n < s.vibAt {
@@ -332,4 +332,43 @@ func meanStd(x []float64) (mean, sd float64) {
 		sd += (v - mean) * (v - mean)
 	}
 	return mean, math.Sqrt(sd / float64(len(x)))
+}
+
+// A note's attack may glide into its pitch: a trumpet's rises some 20 ¢ over
+// its first 0.15 s, an oboe's falls 10 ¢. What the note settles on is what
+// a musician hears as its pitch, so the glide is left out of the mean when
+// the rest of the note is enough to read it.
+const (
+	glideStep  = 0.5 // cents a hop the track must keep moving one way
+	glideCents = 3.0 // a smaller movement is no glide
+	glideRest  = 3   // frames the note needs after its glide
+)
+
+// glide returns how many of the first frames of a steady-part track c
+// (cents) are an attack's glide: the track moves one way by at least
+// glideStep a frame and glideCents in all, and then settles: every later
+// frame stays beyond the middle of that movement, within half of it of the
+// others (a vibrato's first half-cycle swings back and is no glide). It returns 0 when there is no such glide or fewer
+// than glideRest frames would remain.
+func glide(c []float64) int {
+	if len(c) < glideRest+2 {
+		return 0
+	}
+	dir := math.Copysign(1, c[1]-c[0])
+	g := 1
+	for g < len(c) && (c[g]-c[g-1])*dir >= glideStep {
+		g++
+	}
+	moved := (c[g-1] - c[0]) * dir
+	if moved < glideCents || len(c)-(g-1) < glideRest {
+		return 0
+	}
+	lo, hi := c[g-1], c[g-1]
+	for _, v := range c[g-1:] {
+		lo, hi = min(lo, v), max(hi, v)
+	}
+	if (min(lo*dir, hi*dir)-c[0]*dir) < moved/2 || hi-lo > moved/2 {
+		return 0
+	}
+	return g - 1
 }
