@@ -244,15 +244,6 @@ func (d *Detector) frame() Estimate {
 			needShare = onsetShare
 		}
 		ft = d.fitComb(f, tol, lobe)
-		if ft.share < needShare && ft.partials > 0 && !tracking {
-			// The NSDF's period is an average over the whole span, the
-			// comb's partials are weighted to its middle: at the top of a
-			// wide vibrato the two differ by more than tol, the lowest
-			// partials are left out and the share falls. Seeded with the
-			// partials it did keep, the comb finds them again; the
-			// agreement test below still holds it to the NSDF.
-			ft = d.fitComb(ft.hz, tol, lobe)
-		}
 	} else {
 		// Partials closer than the window resolves: the comb fit would
 		// follow leakage, while the long period makes the NSDF lag
