@@ -347,9 +347,10 @@ const (
 // glide returns how many of the first frames of a steady-part track c
 // (cents) are an attack's glide: the track moves one way by at least
 // glideStep a frame and glideCents in all, and then settles: every later
-// frame stays beyond the middle of that movement, within half of it of the
-// others (a vibrato's first half-cycle swings back and is no glide). It returns 0 when there is no such glide or fewer
-// than glideRest frames would remain.
+// frame stays beyond the middle of that movement and within a quarter of it
+// of the others. A vibrato swings back, or is still moving when a quick note
+// ends on its crest: no glide. It returns 0 when there is no such glide or
+// fewer than glideRest frames would remain.
 func glide(c []float64) int {
 	if len(c) < glideRest+2 {
 		return 0
@@ -367,7 +368,7 @@ func glide(c []float64) int {
 	for _, v := range c[g-1:] {
 		lo, hi = min(lo, v), max(hi, v)
 	}
-	if (min(lo*dir, hi*dir)-c[0]*dir) < moved/2 || hi-lo > moved/2 {
+	if (min(lo*dir, hi*dir)-c[0]*dir) < moved/2 || hi-lo > moved/4 {
 		return 0
 	}
 	return g - 1
