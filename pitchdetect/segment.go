@@ -339,37 +339,39 @@ func meanStd(x []float64) (mean, sd float64) {
 // a musician hears as its pitch, so the glide is left out of the mean when
 // the rest of the note is enough to read it.
 const (
-	glideStep  = 0.5 // cents a hop the track must keep moving one way
 	glideCents = 3.0 // a smaller movement is no glide
-	glideRest  = 3   // frames the note needs after its glide
+	glideSlack = 0.3 // cents a glide may step back (the detector's jitter)
+	glideRest  = 5   // frames the note needs after its glide (50 ms at the default hop)
 )
 
 // glide returns how many of the first frames of a steady-part track c
-// (cents) are an attack's glide: the track moves one way by at least
-// glideStep a frame and glideCents in all, and then settles: every later
-// frame stays beyond the middle of that movement and within a quarter of it
-// of the others. A vibrato swings back, or is still moving when a quick note
-// ends on its crest: no glide. It returns 0 when there is no such glide or
-// fewer than glideRest frames would remain.
+// (cents) are an attack's glide into the pitch the rest settles on: the
+// earliest g such that c[g:] lies within a quarter of its distance (at
+// least glideCents) from c[0], c[:g+1] moves one way only, and the settled
+// rest lasts at least half as long as the glide. A vibrato moves both ways;
+// a steady drift never settles within a quarter of its movement for that
+// long. It returns 0 when there is no such glide.
 func glide(c []float64) int {
-	if len(c) < glideRest+2 {
+	n := len(c)
+	if n < glideRest+2 {
 		return 0
 	}
-	dir := math.Copysign(1, c[1]-c[0])
-	g := 1
-	for g < len(c) && (c[g]-c[g-1])*dir >= glideStep {
-		g++
+	lo, hi := make([]float64, n), make([]float64, n) // of c[i:]
+	lo[n-1], hi[n-1] = c[n-1], c[n-1]
+	for i := n - 2; i >= 0; i-- {
+		lo[i], hi[i] = min(c[i], lo[i+1]), max(c[i], hi[i+1])
 	}
-	moved := (c[g-1] - c[0]) * dir
-	if moved < glideCents || len(c)-(g-1) < glideRest {
-		return 0
+	up, down := true, true // c[:g+1] only rises, only falls
+	for g := 1; n-g >= max(glideRest, (g+1)/2); g++ {
+		step := c[g] - c[g-1]
+		up, down = up && step >= -glideSlack, down && step <= glideSlack
+		if !up && !down {
+			return 0
+		}
+		moved := (lo[g]+hi[g])/2 - c[0]
+		if math.Abs(moved) >= glideCents && hi[g]-lo[g] <= math.Abs(moved)/4 && (moved > 0 && up || moved < 0 && down) {
+			return g
+		}
 	}
-	lo, hi := c[g-1], c[g-1]
-	for _, v := range c[g-1:] {
-		lo, hi = min(lo, v), max(hi, v)
-	}
-	if (min(lo*dir, hi*dir)-c[0]*dir) < moved/2 || hi-lo > moved/4 {
-		return 0
-	}
-	return g - 1
+	return 0
 }
