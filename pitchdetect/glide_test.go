@@ -29,7 +29,7 @@ func TestGlideRule(t *testing.T) {
 		{"too little after it", []float64{-10, -7, -4, -1, 0}, 0},
 		{"a steady drift", []float64{-12, -11, -10, -9, -8, -7, -6, -5, -4, -3, -2, -1, 0}, 0},
 	} {
-		if got := glide(c.track); got != c.glide {
+		if got := new(Segmenter).glide(c.track); got != c.glide {
 			t.Errorf("%s: glide of %d frames, want %d", c.name, got, c.glide)
 		}
 	}

@@ -47,6 +47,7 @@ type Segmenter struct {
 	from    slurFrom // the note the open one was slurred from; zero after silence
 	hasOut  bool
 	t, c    []float64 // scratch for summaries
+	lohi    []float64 // scratch for glide
 	vib     vibrato   // the last vibrato fit, made at vibAt frames
 	vibAt   int
 	vibHz   float64
@@ -283,7 +284,7 @@ func (s *Segmenter) summarise(live, slurred bool) Held {
 		s.t = append(s.t, e.Time)
 		s.c = append(s.c, 1200*math.Log2(e.Hz/ref))
 	}
-	mean, sd := meanStd(s.c[glide(s.c):])
+	mean, sd := meanStd(s.c[s.glide(s.c):])
 	h.Spread = sd
 	h.Hz = ref * math.Pow(2, mean/1200)
 	if n := len(s.frames); !live || n >= s.vibAt+vibratoRefresh || n < s.vibAt {
@@ -351,12 +352,13 @@ const (
 // rest lasts at least half as long as the glide. A vibrato moves both ways;
 // a steady drift never settles within a quarter of its movement for that
 // long. It returns 0 when there is no such glide.
-func glide(c []float64) int {
+func (s *Segmenter) glide(c []float64) int {
 	n := len(c)
 	if n < glideRest+2 {
 		return 0
 	}
-	lo, hi := make([]float64, n), make([]float64, n) // of c[i:]
+	s.lohi = slices.Grow(s.lohi[:0], 2*n)[:2*n]
+	lo, hi := s.lohi[:n], s.lohi[n:] // of c[i:]
 	lo[n-1], hi[n-1] = c[n-1], c[n-1]
 	for i := n - 2; i >= 0; i-- {
 		lo[i], hi[i] = min(c[i], lo[i+1]), max(c[i], hi[i+1])
