@@ -47,6 +47,7 @@ type Segmenter struct {
 	from    slurFrom // the note the open one was slurred from; zero after silence
 	hasOut  bool
 	t, c    []float64 // scratch for summaries
+	lohi    []float64 // scratch for glide
 	vib     vibrato   // the last vibrato fit, made at vibAt frames
 	vibAt   int
 	vibHz   float64
@@ -283,7 +284,7 @@ func (s *Segmenter) summarise(live, slurred bool) Held {
 		s.t = append(s.t, e.Time)
 		s.c = append(s.c, 1200*math.Log2(e.Hz/ref))
 	}
-	mean, sd := meanStd(s.c)
+	mean, sd := meanStd(s.c[s.glide(s.c):])
 	h.Spread = sd
 	h.Hz = ref * math.Pow(2, mean/1200)
 	if n := len(s.frames); !live || n >= s.vibAt+vibratoRefresh || n < s.vibAt {
@@ -332,4 +333,47 @@ func meanStd(x []float64) (mean, sd float64) {
 		sd += (v - mean) * (v - mean)
 	}
 	return mean, math.Sqrt(sd / float64(len(x)))
+}
+
+// A note's attack may glide into its pitch: a trumpet's rises some 20 ¢ over
+// its first 0.15 s, an oboe's falls 10 ¢. What the note settles on is what
+// a musician hears as its pitch, so the glide is left out of the mean when
+// the rest of the note is enough to read it.
+const (
+	glideCents = 3.0 // a smaller movement is no glide
+	glideSlack = 0.3 // cents a glide may step back (the detector's jitter)
+	glideRest  = 5   // frames the note needs after its glide (50 ms at the default hop)
+)
+
+// glide returns how many of the first frames of a steady-part track c
+// (cents) are an attack's glide into the pitch the rest settles on: the
+// earliest g such that c[g:] lies within a quarter of its distance (at
+// least glideCents) from c[0], c[:g+1] moves one way only, and the settled
+// rest lasts at least half as long as the glide. A vibrato moves both ways;
+// a steady drift never settles within a quarter of its movement for that
+// long. It returns 0 when there is no such glide.
+func (s *Segmenter) glide(c []float64) int {
+	n := len(c)
+	if n < glideRest+2 {
+		return 0
+	}
+	s.lohi = slices.Grow(s.lohi[:0], 2*n)[:2*n]
+	lo, hi := s.lohi[:n], s.lohi[n:] // of c[i:]
+	lo[n-1], hi[n-1] = c[n-1], c[n-1]
+	for i := n - 2; i >= 0; i-- {
+		lo[i], hi[i] = min(c[i], lo[i+1]), max(c[i], hi[i+1])
+	}
+	up, down := true, true // c[:g+1] only rises, only falls
+	for g := 1; n-g >= max(glideRest, (g+1)/2); g++ {
+		step := c[g] - c[g-1]
+		up, down = up && step >= -glideSlack, down && step <= glideSlack
+		if !up && !down {
+			return 0
+		}
+		moved := (lo[g]+hi[g])/2 - c[0]
+		if math.Abs(moved) >= glideCents && hi[g]-lo[g] <= math.Abs(moved)/4 && (moved > 0 && up || moved < 0 && down) {
+			return g
+		}
+	}
+	return 0
 }
