@@ -117,8 +117,13 @@ func (td TakeDrift) Words() string {
 	if !ok {
 		return "group drift: not known (too little sounded)"
 	}
-	s := fmt.Sprintf("group drift %s → %s over %.1f min (moved %s)", flatSharp(first.Cents), flatSharp(last.Cents),
-		(last.Time-first.Time)/60, flatSharp(last.Cents-first.Cents))
+	span := last.Time - first.Time
+	over := fmt.Sprintf("%.1f min", span/60)
+	if span < 90 {
+		over = fmt.Sprintf("%.0f s", span)
+	}
+	s := fmt.Sprintf("group drift %s → %s over %s (moved %s)", flatSharp(first.Cents), flatSharp(last.Cents),
+		over, flatSharp(last.Cents-first.Cents))
 	var inside []string
 	if in := td.Inside; in.NThirds > 0 {
 		inside = append(inside, fmt.Sprintf("thirds %.1f ¢", in.Thirds))
@@ -129,7 +134,7 @@ func (td TakeDrift) Words() string {
 	if len(inside) == 0 {
 		return s + "; no thirds or fifths in chords heard"
 	}
-	return s + "; inside the chords, apart from it: " + strings.Join(inside, ", ") + " from just (mean size)"
+	return s + "; inside the chords, apart from it: " + strings.Join(inside, ", ") + " from just on average, either way"
 }
 
 // flatSharp says cents in words: "3.2 ¢ flat", "0.0 ¢".

@@ -205,7 +205,7 @@ func tableSummary(t *testing.T, take string) {
 	}
 	lines := strings.Split(strings.TrimSpace(out), "\n")
 	last := lines[len(lines)-1]
-	m := regexp.MustCompile(`group drift ([\d.]+) ¢ flat → ([\d.]+) ¢ flat over 0\.3 min \(moved ([\d.]+) ¢ flat\); inside the chords, apart from it: thirds ([\d.]+) ¢, fifths ([\d.]+) ¢`).FindStringSubmatch(last)
+	m := regexp.MustCompile(`group drift ([\d.]+) ¢ flat → ([\d.]+) ¢ flat over \d+ s \(moved ([\d.]+) ¢ flat\); inside the chords, apart from it: thirds ([\d.]+) ¢, fifths ([\d.]+) ¢`).FindStringSubmatch(last)
 	if m == nil || !strings.HasPrefix(last, take+": ") {
 		t.Fatalf("last line %q", last)
 	}
