@@ -193,5 +193,28 @@ func (d *Detector) noFundamental(f float64) int {
 			best, stray = k, off
 		}
 	}
+	if best == 2 && d.oddPartials(f, all) >= 2 {
+		return 1 // a weak fundamental, not a slur's common period
+	}
 	return best
+}
+
+// guardOddPresent is the share of the comb's power that makes one of the
+// partials 3F, 5F, 7F present.
+const guardOddPresent = 0.005
+
+// oddPartials counts which of 3F, 5F and 7F are present. A tone whose
+// fundamental is filtered away (a low voice or a bassoon through a small
+// loudspeaker or a thin sample) keeps them, and its pitch is still F (the
+// missing fundamental; common practice in psychoacoustics). A slur's two
+// notes that repeat together at F hold 2F's and 3F's series, where 5F and
+// 7F have nothing.
+func (d *Detector) oddPartials(f, all float64) int {
+	n := 0
+	for _, j := range []float64{3, 5, 7} {
+		if j*f <= d.maxHz && d.peakNear(j*f) >= guardOddPresent*all {
+			n++
+		}
+	}
+	return n
 }

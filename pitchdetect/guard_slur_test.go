@@ -44,3 +44,25 @@ func TestASlurIsNotReadAtItsNotesSharedPeriod(t *testing.T) {
 		}
 	}
 }
+
+// A low voice whose fundamental is all but gone (a thin sample, a small
+// loudspeaker) is still heard at its fundamental while its odd partials
+// sound (the missing fundamental: common practice in psychoacoustics):
+// partials 3, 5 and 7 are F's alone, where a slur's two notes that repeat
+// together at F (2F and 3F) have nothing. FluidR3's choir aahs C3 was read
+// an octave high for a third of its frames before (fifthbench's rendered
+// clips). Tones equal-tempered at A4 = 440 Hz (ISO 16); fundamental −40 dB,
+// odd partials 10 dB under the even ones.
+func TestAWeakFundamentalWithOddPartialsIsNotAnOctaveUp(t *testing.T) {
+	rate := 48000.0
+	voice := testsignal.Spectrum{Name: "fundamental -40 dB, odd partials -10 dB",
+		Amps: []float64{0.01, 1, 0.3, 0.8, 0.3, 0.5, 0.2, 0.3, 0.1, 0.1}}
+	for _, hz := range []float64{97.99886, 130.81278, 174.61412} { // G2, C3, F3
+		x := testsignal.Tone(rate, int(0.6*rate), voice, 0.3, testsignal.Steady(hz))
+		for _, e := range run(t, rate, x) {
+			if e.Voiced && math.Abs(testsignal.Cents(e.Hz, hz)) > 50 {
+				t.Errorf("%.2f Hz: the frame at %.3f s reads %.2f Hz", hz, e.Time, e.Hz)
+			}
+		}
+	}
+}
