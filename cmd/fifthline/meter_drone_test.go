@@ -35,7 +35,7 @@ func TestListenDroneKeySoundsTheTargetsAndTheMeterStillReadsTheNote(t *testing.T
 	m.waitFor(`drone: G3\+D4 at −18 dBFS`, `caution: keep your headphone`)
 
 	// The drone as the sink carries it, measured apart from the detector
-	// (peakHz), past the fades (the drone's 0.5 s, the recording's own).
+	// (steadyHz), past the fades (the drone's 0.5 s, the recording's own).
 	time.Sleep(600 * time.Millisecond)
 	rate, stop := recording(t)
 	time.Sleep(2600 * time.Millisecond)
@@ -45,7 +45,7 @@ func TestListenDroneKeySoundsTheTargetsAndTheMeterStillReadsTheNote(t *testing.T
 	}
 	x = x[int(0.5*rate):]
 	for _, f := range []float64{g3, d4} {
-		if c := 1200 * math.Log2(peakHz(x, rate, f)/f); math.Abs(c) > 0.1 {
+		if c := 1200 * math.Log2(steadyHz(x, rate, f)/f); math.Abs(c) > 0.1 {
 			t.Errorf("drone partial %.4f Hz sounds %+.3f ¢ away", f, c)
 		} else {
 			t.Logf("drone partial %.4f Hz: %+.4f ¢", f, c)
@@ -65,7 +65,7 @@ func TestListenDroneKeySoundsTheTargetsAndTheMeterStillReadsTheNote(t *testing.T
 	m.tmux("send-keys", "-t", "meter", "s")
 	m.waitFor(`reference: B3 at 245\.97 Hz`)
 	time.Sleep(1800 * time.Millisecond)
-	if f, c := b3, 1200*math.Log2(peakHz(stop(), rate, b3)/b3); math.Abs(c) > 0.1 {
+	if f, c := b3, 1200*math.Log2(steadyHz(stop(), rate, b3)/b3); math.Abs(c) > 0.1 {
 		t.Errorf("reference %.4f Hz sounds %+.3f ¢ away", f, c)
 	} else {
 		t.Logf("reference %.4f Hz: %+.4f ¢", f, c)
