@@ -3,10 +3,12 @@ package journal
 import "fifthline/session"
 
 // runClock places each run of start_s (one file, one capture) on the
-// journal's wall clock. A new run begins when the source changes or start_s
-// goes back; it starts where the last run ended, or at the wall time it
-// really began if that is later (live capture), so files analysed in a row
-// lie end to end and live notes keep their real time.
+// journal's wall clock. A new run begins when the source changes or end_s
+// goes back (notes are written as they end; players heard together overlap,
+// so a start before the last end is no new run); it starts where the last
+// run ended, or at the wall time it really began if that is later (live
+// capture), so files analysed in a row lie end to end and live notes keep
+// their real time.
 type runClock struct {
 	started      bool
 	source       string
@@ -14,7 +16,7 @@ type runClock struct {
 }
 
 func (c *runClock) offset(ev session.Event, wallElapsed float64) float64 {
-	if !c.started || ev.Source != c.source || ev.Start < c.maxEnd-1 {
+	if !c.started || ev.Source != c.source || ev.End < c.maxEnd-1 {
 		next := c.base + c.maxEnd
 		if !c.started {
 			next = 0

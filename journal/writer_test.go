@@ -82,6 +82,33 @@ func TestWriterPlacesFilesAnalysedInARowEndToEnd(t *testing.T) {
 	}
 }
 
+// Players heard together live overlap: a chord's notes start together and
+// each is written as it ends, a player at a time. Each keeps its place in
+// the capture (the run's clock does not restart because one note began
+// before the last one ended).
+func TestWriterKeepsOverlappingPlayersNotesOnOneClock(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "j.csv")
+	c := &clock{opening}
+	w, _ := Open(path, Meta{Now: c.now})
+	c.t = opening.Add(3 * time.Second) // the chord ends 3 s after opening
+	for _, start := range []float64{1.008, 1.019, 1.029} { // each ends at 3 s
+		ev := heldAt(0, start, 3, "interface")
+		ev.Player = "p"
+		w.Write(ev)
+	}
+	c.t = opening.Add(5 * time.Second)
+	w.Write(heldAt(0, 3.05, 5, "interface"))
+	w.Close()
+	entries, _, _ := ReadFile(path)
+	var offsets []float64
+	for _, e := range entries {
+		offsets = append(offsets, e.Time.Sub(opening).Seconds())
+	}
+	if want := []float64{1.008, 1.019, 1.029, 3.05}; !equalFloats(offsets, want) {
+		t.Errorf("seconds after opening %v, want %v", offsets, want)
+	}
+}
+
 // A take analysed weeks after it was played keeps its own time: each note
 // is the recording's start plus its offset, whatever the clock says now.
 func TestWriterPlacesARecordingAtItsOwnTime(t *testing.T) {
