@@ -90,7 +90,7 @@ func TestWriterKeepsOverlappingPlayersNotesOnOneClock(t *testing.T) {
 	path := filepath.Join(t.TempDir(), "j.csv")
 	c := &clock{opening}
 	w, _ := Open(path, Meta{Now: c.now})
-	c.t = opening.Add(3 * time.Second) // the chord ends 3 s after opening
+	c.t = opening.Add(3 * time.Second)                     // the chord ends 3 s after opening
 	for _, start := range []float64{1.008, 1.019, 1.029} { // each ends at 3 s
 		ev := heldAt(0, start, 3, "interface")
 		ev.Player = "p"
