@@ -105,7 +105,7 @@ func chordLine(g *groupModel) screenLine {
 	case ok:
 		return screenLine{text("last chord ", dim), text(c.Root.PrettyName()+" "+c.Quality, dim)}
 	}
-	return dimLine("no chord yet: two or more players holding notes make one")
+	return dimLine("no chord yet: two or more notes held together make one")
 }
 
 // driftLine is the group's drift from the reference.
