@@ -2,17 +2,14 @@ package main
 
 import (
 	"math"
-	"os"
 	"os/exec"
 	"path/filepath"
 	"regexp"
 	"strconv"
 	"strings"
 	"testing"
-	"time"
 
 	"fifthline/ensemble"
-	"fifthline/internal/vmic"
 	"fifthline/report"
 )
 
@@ -243,20 +240,7 @@ func TestReferenceUsageErrors(t *testing.T) {
 // sag. start_s counts from the start of capture: the take's first note
 // gives the offset.
 func TestListenPlayersDriftLive(t *testing.T) {
-	mic := vmic.IsolateChannels(t, "front-left", "front-right", "rear-left", "rear-right")
-	take := soxSaggingQuartet(t)
-	wait, proc := startPlainProcess(t, nil, "--players", "vc,vla,vl2,vl1", "--reference", "group", "--duration", "120s")
-	if err := mic.PlayChannels(take)(); err != nil {
-		t.Fatal(err)
-	}
-	time.Sleep(700 * time.Millisecond) // the last notes' release reaches the input
-	if err := proc.Signal(os.Interrupt); err != nil {
-		t.Fatal(err)
-	}
-	code, out, stderr := wait()
-	if code != 0 {
-		t.Fatalf("exit %d: %s", code, stderr)
-	}
+	out := playQuartetLive(t, soxSaggingQuartet(t), "--players", "vc,vla,vl2,vl1", "--reference", "group")
 	_, rows := readCSV(t, out)
 	if len(rows) < 28 {
 		t.Fatalf("%d notes, want 32:\n%s", len(rows), out)
