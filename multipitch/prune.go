@@ -46,13 +46,12 @@ func (e *Estimator) prune() {
 		f.broad = false
 		if worst < 0 && len(e.f0) > e.cfg.MaxVoices {
 			// More voices explain something than were asked for: the
-			// weakest goes.
-			worst = 0
-			for v := range e.f0 {
-				if e.energyOf(v) < e.energyOf(worst) {
-					worst = v
-				}
-			}
+			// candidate found last goes, the least salient in the
+			// whitened spectrum. (Not the least energy in the fit: that
+			// drops a quiet real voice before a vibrato voice's octave,
+			// which takes its energy from the voice's smeared partials —
+			// the rendered choir lost a part and gained a phantom.)
+			worst = len(e.f0) - 1
 		}
 		if worst < 0 {
 			break
