@@ -31,7 +31,10 @@
 //
 // A voice whose partials explain nothing the others do not (an octave
 // above another voice, a subharmonic guess, a guess on noise) is dropped,
-// the lowest first. A voice whose even partials stand above their odd
+// the lowest first; in that decision each partial may also widen (the
+// second-order term of a pitch moving within the window, as in harmonic
+// chirp estimation), so that a wandering voice's smeared upper partials
+// are its own and not another voice's. A voice whose even partials stand above their odd
 // neighbours, as a smooth spectral envelope would not have them, is marked
 // Doubled: another voice sounds an octave above it (a unison double leaves
 // no mark). A voice is never invented to fill a requested count.

@@ -21,10 +21,12 @@ const support = 8
 // between them and the fundamentals still see the partial's position.
 const ridge = 1e-4
 
-// column is one partial of one voice: the kernel over its bins.
+// column is one partial of one voice: the kernel over its bins, or (broad)
+// the kernel's curvature there.
 type column struct {
 	voice, k int
 	lo       int // first bin
+	broad    bool
 	w, dw    [2*support + 1]float64
 }
 
@@ -35,6 +37,7 @@ type fitter struct {
 	binHz  float64
 	ceilHz float64 // highest partial fitted
 	maxK   int
+	broad  bool         // partials widen (broadened): while deciding which voices stand
 	spec   []complex128 // the frame's spectrum, bins 0..n/2
 
 	cols  []column
@@ -83,9 +86,47 @@ func (f *fitter) build(f0 []float64, kcap int, skip int) {
 			}
 			if v != skip { // its bins still count, so residuals compare
 				f.cols = append(f.cols, c)
+				if f.broad {
+					f.cols = append(f.cols, f.broadened(&c, pos))
+				}
 			}
 		}
 	}
+}
+
+// broadened is the column beside partial c (at pos bins) that lets it
+// widen: the kernel's second derivative, with its own free amplitude. A
+// partial whose frequency moves within the window — a linear chirp, a
+// wandering or vibrato pitch — has, to second order in the movement, its
+// kernel plus a multiple of the kernel's second derivative (the transform
+// of t²·window: the harmonic chirp model's quadratic phase, Y. Doweck,
+// A. Amar and I. Cohen, "Joint model order selection and parameter
+// estimation of chirps with harmonic components", IEEE Trans. Signal
+// Processing 63(7), 2015, from memory; here its first-order Taylor term,
+// linear in the columns). Without it a moving
+// voice leaves its smeared upper partials to the fit as the partials of
+// another "voice" an octave or a twelfth up. Even about the partial, it
+// takes nothing from the odd slope the fundamental is measured by, and it
+// does not steer the Gauss–Newton step (dw zero).
+func (f *fitter) broadened(c *column, pos float64) column {
+	b := column{voice: c.voice, k: c.k, lo: c.lo, broad: true}
+	for j := range b.w {
+		if bin := c.lo + j; bin >= 1 {
+			b.w[j] = f.kern.curvature(float64(bin) - pos)
+		}
+	}
+	return b
+}
+
+// partials counts the columns that are partials, not their broadening.
+func (f *fitter) partials() int {
+	n := 0
+	for i := range f.cols {
+		if !f.cols[i].broad {
+			n++
+		}
+	}
+	return n
 }
 
 // overlap returns the bin range two columns share.

@@ -48,6 +48,14 @@ func (h *hannKernel) value(x float64) (w, dw float64) {
 	return w, h.dw[i] + t*(h.dw[i+1]-h.dw[i])
 }
 
+// curvature returns d²W/dx² at x bins from the partial, from the slope's
+// table (a column shape for a partial's widening: a part in 10^3 is ample).
+func (h *hannKernel) curvature(x float64) float64 {
+	u := (x + h.reach) * h.perBin
+	i := min(max(int(u), 0), len(h.dw)-2)
+	return (h.dw[i+1] - h.dw[i]) * h.perBin
+}
+
 // exact evaluates W and dW/dx in closed form.
 func (h *hannKernel) exact(x float64) (w, dw float64) {
 	step := 2 * math.Pi / h.n

@@ -10,16 +10,24 @@ import (
 // that explains least that the others cannot, while it explains too little
 // to be a voice: an octave or unison above a voice (its partials are that
 // voice's), a subharmonic guess, a candidate on noise. Twins the fit has
-// drawn together become one.
+// drawn together become one. Fundamentals are fitted on the plain model,
+// and so is the bar (noise); whether a voice explains enough that the others
+// cannot is judged with every partial free to widen (fitter.broadened), so
+// that a voice whose pitch moves within the window keeps what it smears of
+// its own partials instead of leaving it to a "voice" above. The voices
+// kept are then fitted afresh from their lowest partials up: after a drop,
+// the warm steps leave the dropped voice's pull in the shared partials.
 func (e *Estimator) prune() {
 	f := e.fitter
 	for steps := coldSteps; len(e.f0) > 0; steps = warmSteps {
-		resid := f.refine(e.f0, -1, steps)
+		noise, total := e.noise(f.refine(e.f0, -1, steps))
 		if i, j, ok := e.twins(); ok {
 			e.remove(e.weaker(i, j))
 			continue
 		}
-		noise, total := e.noise(resid)
+		f.broad = true
+		f.build(e.f0, f.maxK, -1)
+		resid := f.solve()
 		// Of the voices that fall short, the lowest goes first: a
 		// subharmonic guess that covers two real voices (C2 under C3 and
 		// G3) explains as little that they do not as they do that it does
@@ -27,31 +35,32 @@ func (e *Estimator) prune() {
 		// the most partials). A real voice under its octave double does
 		// not fall short: the double cannot explain its odd partials.
 		worst := -1
-		cols := len(f.cols)
+		cols := f.partials()
 		for v := range e.f0 {
 			f.build(e.f0, f.maxK, v)
-			short := f.solve()-resid < e.needed(cols-len(f.cols), noise, total)
+			short := f.solve()-resid < e.needed(cols-f.partials(), noise, total)
 			if short && (worst < 0 || e.f0[v] < e.f0[worst]) {
 				worst = v
 			}
 		}
+		f.broad = false
 		if worst < 0 && len(e.f0) > e.cfg.MaxVoices {
 			// More voices explain something than were asked for: the
-			// weakest goes.
-			worst = 0
-			for v := range e.f0 {
-				if e.energyOf(v) < e.energyOf(worst) {
-					worst = v
-				}
-			}
+			// candidate found last goes, the least salient in the
+			// whitened spectrum. (Not the least energy in the fit: that
+			// drops a quiet real voice before a vibrato voice's octave,
+			// which takes its energy from the voice's smeared partials —
+			// the rendered choir lost a part and gained a phantom.)
+			worst = len(e.f0) - 1
 		}
 		if worst < 0 {
 			break
 		}
 		e.remove(worst)
 	}
-	f.build(e.f0, f.maxK, -1)
-	f.solve()
+	if len(e.f0) > 0 {
+		f.refine(e.f0, -1, coldSteps)
+	}
 	for v := range e.f0 {
 		for range 2 {
 			if !e.lower(v) {
@@ -99,7 +108,7 @@ func (e *Estimator) lower(v int) bool {
 	e.trial = append(append(e.trial[:0], e.f0...), down)
 	resid := f.refine(e.trial, len(e.f0), warmSteps)
 	noise, total := e.noise(resid)
-	cols := len(f.cols)
+	cols := f.partials()
 	e.trial = append(e.trial[:0], e.f0...)
 	e.trial[v] = down
 	after := f.fit(e.trial, -1)
@@ -107,7 +116,7 @@ func (e *Estimator) lower(v int) bool {
 	for u, hz := range e.trial {
 		twin = twin || (u != v && math.Abs(cents(hz, e.trial[v])) < twinCents)
 	}
-	if twin || resid-after < e.needed(len(f.cols)-cols, noise, total) {
+	if twin || resid-after < e.needed(f.partials()-cols, noise, total) {
 		return false
 	}
 	copy(e.f0, e.trial)
@@ -139,7 +148,7 @@ func (e *Estimator) weaker(i, j int) int {
 func (e *Estimator) energyOf(v int) float64 {
 	s := 0.0
 	for i, a := range e.fitter.amp {
-		if e.fitter.cols[i].voice == v {
+		if c := &e.fitter.cols[i]; c.voice == v && !c.broad {
 			s += real(a)*real(a) + imag(a)*imag(a)
 		}
 	}
@@ -184,7 +193,7 @@ const doubleGain = 2.0
 func (e *Estimator) evenExcess(v int) float64 {
 	var pow [maxPartials + 2]float64
 	for i, a := range e.fitter.amp {
-		if c := e.fitter.cols[i]; c.voice == v {
+		if c := e.fitter.cols[i]; c.voice == v && !c.broad {
 			pow[c.k] = real(a)*real(a) + imag(a)*imag(a)
 		}
 	}
