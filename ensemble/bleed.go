@@ -57,6 +57,7 @@ type pairBleed struct {
 	a      []complex128 // accumulated X_c·conj(X_d) at d's clear partials
 	b      float64      // accumulated |X_d|² there
 	frames int
+	fresh  bool    // evidence added since the last estimate
 	gain   float64 // 0 until estimated
 	delay  float64 // samples
 }
@@ -124,6 +125,7 @@ func (m *bleedModel) observe(o *Owner, hz []float64, steady []bool) {
 			}
 			if used {
 				p.frames++
+				p.fresh = true
 			}
 		}
 	}
@@ -164,9 +166,12 @@ func (m *bleedModel) estimate(fs float64) {
 	maxLag := min(int(maxBleedMs/1000*fs), m.n/2-2)
 	for i := range m.pairs {
 		p := &m.pairs[i]
-		if p.frames < minBleedFrames || p.b < minBleedPower {
+		// Evidence that only faded since the last estimate gives the same
+		// gain and delay (numerator and denominator fade alike).
+		if !p.fresh || p.frames < minBleedFrames || p.b < minBleedPower {
 			continue
 		}
+		p.fresh = false
 		// corr[τ] = Σ_b a_b·e^{+iω_bτ}: the inverse transform of a.
 		copy(m.spec, p.a)
 		m.ifft.Sequence(m.corr, m.spec)
@@ -188,6 +193,9 @@ func (m *bleedModel) estimate(fs float64) {
 		var sum complex128
 		mag := 0.0
 		for b, a := range p.a {
+			if a == 0 {
+				continue // no evidence at this bin: adds nothing
+			}
 			w := 2 * math.Pi * float64(b) / float64(m.n)
 			sum += a * cmplx.Rect(1, w*delay)
 			mag += cmplx.Abs(a)
