@@ -4,7 +4,7 @@ import (
 	"math"
 	"math/cmplx"
 
-	"gonum.org/v1/gonum/dsp/fourier"
+	"fifthline/internal/rfft"
 )
 
 // Bleed estimation: what channel c hears of player d is modelled as d's own
@@ -67,7 +67,7 @@ type pairBleed struct {
 type bleedModel struct {
 	n, k  int // window length, channels
 	pairs []pairBleed
-	ifft  *fourier.FFT
+	ifft  *rfft.FFT
 	corr  []float64
 	spec  []complex128
 	hops  int
@@ -75,7 +75,7 @@ type bleedModel struct {
 
 func newBleedModel(n, channels int) *bleedModel {
 	m := &bleedModel{n: n, k: channels, pairs: make([]pairBleed, channels*channels),
-		ifft: fourier.NewFFT(n), corr: make([]float64, n), spec: make([]complex128, n/2+1)}
+		ifft: rfft.New(n), corr: make([]float64, n), spec: make([]complex128, n/2+1)}
 	for i := range m.pairs {
 		m.pairs[i].a = make([]complex128, n/2+1)
 	}
