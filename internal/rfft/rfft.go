@@ -130,19 +130,9 @@ func (f *FFT) Sequence(dst []float64, src []complex128) []float64 {
 	x0, xh := real(src[0]), real(src[h])
 	put := func(k int, v complex128) { z[f.rev[k]] = conj(v) }
 	put(0, complex(x0+xh, x0-xh))
-	for k := 1; k <= h/2; k++ {
+	for k := 1; k < h; k++ {
 		a, b := src[k], conj(src[h-k])
-		e := a + b
-		o := (a - b) * conj(f.split[k])
-		put(k, e+complex(0, 1)*o)
-		// For h-k: its E is conj(e), its O is conj of the same o turned:
-		// 2E[h-k] = conj(2E[k]), 2O[h-k] = conj(2O[k])·(−1)... computed directly.
-		if k != h-k {
-			a2, b2 := src[h-k], conj(src[k])
-			e2 := a2 + b2
-			o2 := (a2 - b2) * conj(f.splitAt(h-k))
-			put(h-k, e2+complex(0, 1)*o2)
-		}
+		put(k, a+b+complex(0, 1)*((a-b)*conj(f.splitAt(k))))
 	}
 	f.transform(z)
 	for i, v := range z {
