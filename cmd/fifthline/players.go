@@ -228,14 +228,21 @@ func listenPlayers(ctx context.Context, e *env, src *capture.Input, name string,
 	if err := w.Error(); err != nil {
 		return err
 	}
+	timing, err := openTiming(src.SampleRate())
+	if err != nil {
+		return err
+	}
+	defer timing.close()
 	interface_ := src.Carried()
+	// Only chords need the notes and frames kept: a long session without
+	// --chords holds nothing but the players' current notes.
 	var notes []ensemble.Note
 	tracks := make([]ensemble.Track, len(po.players))
 	o := ensemble.Options{Name: name, Players: po.players, Tunings: session.NewTunings(tu),
 		OnNote: func(n ensemble.Note) error {
 			j.note(n.Event)
-			notes = append(notes, n)
 			if po.chords {
+				notes = append(notes, n)
 				return nil
 			}
 			n.Player.Channel = interface_[n.Player.Channel] - 1 // as printed on the interface
@@ -243,10 +250,13 @@ func listenPlayers(ctx context.Context, e *env, src *capture.Input, name string,
 			w.Flush()
 			return w.Error()
 		}}
-	if po.chords {
-		o.OnFrame = func(i int, est pitchdetect.Estimate) { tracks[i].Add(est.Time, est.Hz) }
+	o.OnFrame = func(i int, est pitchdetect.Estimate) {
+		timing.playerFrame(po.players[i].Name, est)
+		if po.chords {
+			tracks[i].Add(est.Time, est.Hz)
+		}
 	}
-	err := ensemble.Run(ctx, src, o)
+	err = ensemble.Run(ctx, src, o)
 	if po.chords {
 		sortPlayerNotes(notes)
 		for _, c := range ensemble.Chords(notes, tracks, po.players, tu, po.seventh) {

@@ -4,7 +4,6 @@ import (
 	"encoding/json"
 	"math"
 	"os"
-	"os/exec"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -24,16 +23,11 @@ import (
 func soxQuartet(t *testing.T) string {
 	t.Helper()
 	dir := t.TempDir()
-	run := func(args ...string) {
-		if out, err := exec.Command("sox", args...).CombinedOutput(); err != nil {
-			t.Fatalf("sox %v: %v\n%s", args, err, out)
-		}
-	}
 	// note renders one note of seconds at hz, with silence before and after.
 	note := func(name string, hz, before, seconds, after float64) string {
 		p := filepath.Join(dir, name+".wav")
 		f := func(x float64) string { return strconv.FormatFloat(x, 'f', 4, 64) }
-		run("-n", "-r", "48000", "-b", "24", p, "synth", f(seconds), "sawtooth", f(hz), "fade", "0.02", f(seconds), "0.02",
+		soxTB(t, "-n", "-r", "48000", "-b", "24", p, "synth", f(seconds), "sawtooth", f(hz), "fade", "0.02", f(seconds), "0.02",
 			"vol", "0.25", "pad", f(before), f(after))
 		return p
 	}
@@ -43,27 +37,40 @@ func soxQuartet(t *testing.T) string {
 		{note("vl21", 329.6276, 0.2, 1.5, 0.1), note("vl22", 293.6648, 0, 1.5, 0.2)},
 		{note("vl11", 523.2511, 0.8, 0.9, 0.1), note("vl12", 493.8833, 0, 1.5, 0.2)},
 	}
-	var dry, late []string
+	var dry []string
 	for i, notes := range parts {
 		p := filepath.Join(dir, "part"+strconv.Itoa(i)+".wav")
-		run(append(notes, p)...)
-		d := filepath.Join(dir, "late"+strconv.Itoa(i)+".wav")
-		run(p, d, "pad", "0.003")
-		dry, late = append(dry, p), append(late, d)
+		soxTB(t, append(notes, p)...)
+		dry = append(dry, p)
 	}
 	out := filepath.Join(dir, "quartet.wav")
+	soxBleed(t, dir, dry, out)
+	return out
+}
+
+// soxBleed mixes one part per channel into a multichannel take, each
+// channel hearing every other part 20 dB down (×0.1) and 3 ms late, as
+// close microphones hear their neighbours (15–25 dB down, a few
+// milliseconds late: the ensemble issue's measurements).
+func soxBleed(t testing.TB, dir string, dry []string, out string) {
+	t.Helper()
+	var late []string
+	for i, p := range dry {
+		d := filepath.Join(dir, "late"+strconv.Itoa(i)+".wav")
+		soxTB(t, p, d, "pad", "0.003")
+		late = append(late, d)
+	}
 	args := append(append(append([]string{"-M"}, dry...), late...), "-b", "24", out, "remix")
-	for c := range 4 {
+	for c := range dry {
 		mix := []string{strconv.Itoa(c + 1)}
-		for o := range 4 {
+		for o := range dry {
 			if o != c {
-				mix = append(mix, strconv.Itoa(5+o)+"v0.1")
+				mix = append(mix, strconv.Itoa(len(dry)+1+o)+"v0.1")
 			}
 		}
 		args = append(args, strings.Join(mix, ","))
 	}
-	run(args...)
-	return out
+	soxTB(t, args...)
 }
 
 // Each player is read from their own channel: every note spelled right
