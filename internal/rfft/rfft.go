@@ -11,9 +11,9 @@
 // samples as real parts, odd as imaginary) and a split of its result into
 // the even and odd samples' spectra (the standard packing, e.g. Sorensen,
 // Jones, Heideman & Burrus, IEEE TASSP 35, 1987). The complex transform is
-// the iterative radix-2 decimation-in-time Cooley–Tukey algorithm (Math.
-// Comp. 19, 1965), its twiddle factors stored stage by stage so that each
-// stage reads them in order.
+// the iterative decimation-in-time Cooley–Tukey algorithm (Math. Comp. 19,
+// 1965) in radix-4 passes, its twiddle factors stored pass by pass so that
+// each pass reads them in order.
 package rfft
 
 import (
@@ -48,11 +48,7 @@ func New(n int) *FFT {
 	for i := range f.rev {
 		f.rev[i] = int32(bits.Reverse64(uint64(i)) >> shift)
 	}
-	for s := 2; s <= h; s *= 2 {
-		for j := range s / 2 {
-			f.tw = append(f.tw, cis(-2*math.Pi*float64(j)/float64(s)))
-		}
-	}
+	f.tw = plan(h)
 	f.split = make([]complex128, h/2+1)
 	for k := range f.split {
 		f.split[k] = cis(-2 * math.Pi * float64(k) / float64(n))
@@ -153,34 +149,68 @@ func (f *FFT) splitAt(k int) complex128 {
 
 func conj(z complex128) complex128 { return complex(real(z), -imag(z)) }
 
+// plan lists the twiddle factors of transform's passes over h points: a
+// radix-4 pass from blocks of q points to blocks of 4q takes, for each j <
+// q, w^j, w^2j and w^3j with w = e^{-2πi/4q}; a last radix-2 pass to h
+// points (when log₂ h is odd) takes e^{-2πij/h}, j < h/2.
+func plan(h int) []complex128 {
+	var tw []complex128
+	q := 4
+	for ; 4*q <= h; q *= 4 {
+		for j := range q {
+			x := -2 * math.Pi * float64(j) / float64(4*q)
+			tw = append(tw, cis(x), cis(2*x), cis(3*x))
+		}
+	}
+	if 2*q == h {
+		for j := range q {
+			tw = append(tw, cis(-2*math.Pi*float64(j)/float64(h)))
+		}
+	}
+	return tw
+}
+
 // transform is the in-place complex transform of z, already in bit-reversed
-// order.
+// order: the first two radix-2 stages (no multiplications), then radix-4
+// passes (three multiplications for four points where two radix-2 stages
+// take four, and half the passes over memory), then one radix-2 stage if
+// the number of stages is odd.
 func (f *FFT) transform(z []complex128) {
 	n := len(z)
-	// Stages of size 2 and 4 need no multiplications.
-	for i := 0; i+1 < n; i += 2 {
-		a, b := z[i], z[i+1]
-		z[i], z[i+1] = a+b, a-b
-	}
 	for i := 0; i+3 < n; i += 4 {
 		a, b, c, d := z[i], z[i+1], z[i+2], z[i+3]
+		a, b = a+b, a-b
+		c, d = c+d, c-d
 		d = complex(imag(d), -real(d)) // d·(−i)
 		z[i], z[i+2] = a+c, a-c
 		z[i+1], z[i+3] = b+d, b-d
 	}
-	tw := f.tw[1+2:] // past the stages of size 2 and 4
-	for s := 8; s <= n; s *= 2 {
-		half := s / 2
-		w := tw[:half]
-		for start := 0; start < n; start += s {
-			lo, hi := z[start:start+half], z[start+half:start+s]
-			hi, w := hi[:len(lo)], w[:len(lo)] // one bounds check, not three per butterfly
-			for j := range lo {
-				t := hi[j] * w[j]
-				a := lo[j]
-				lo[j], hi[j] = a+t, a-t
+	tw := f.tw
+	q := 4
+	for ; 4*q <= n; q *= 4 {
+		w := tw[:3*q]
+		for start := 0; start < n; start += 4 * q {
+			b0, b1, b2, b3 := z[start:start+q], z[start+q:start+2*q], z[start+2*q:start+3*q], z[start+3*q:start+4*q]
+			b1, b2, b3 = b1[:len(b0)], b2[:len(b0)], b3[:len(b0)] // one bounds check per block
+			for j := range b0 {
+				t := w[3*j : 3*j+3 : 3*j+3]
+				t1, t2, t3 := b1[j]*t[1], b2[j]*t[0], b3[j]*t[2]
+				a0, a1 := b0[j]+t1, b0[j]-t1
+				c0, c1 := t2+t3, t2-t3
+				c1 = complex(imag(c1), -real(c1)) // c1·(−i)
+				b0[j], b2[j] = a0+c0, a0-c0
+				b1[j], b3[j] = a1+c1, a1-c1
 			}
 		}
-		tw = tw[half:]
+		tw = tw[3*q:]
+	}
+	if 2*q == n {
+		lo, hi := z[:q], z[q:2*q]
+		hi, w := hi[:len(lo)], tw[:len(lo)]
+		for j := range lo {
+			t := hi[j] * w[j]
+			a := lo[j]
+			lo[j], hi[j] = a+t, a-t
+		}
 	}
 }

@@ -15,7 +15,7 @@ import (
 // conventions), to rounding.
 func TestMatchesTheDefinitionAndGonum(t *testing.T) {
 	r := rand.New(rand.NewSource(1))
-	for _, n := range []int{8, 16, 64, 256, 4096, 6144, 12} {
+	for _, n := range []int{8, 16, 32, 64, 128, 256, 4096, 8192, 6144, 12} {
 		x := make([]float64, n)
 		for i := range x {
 			x[i] = r.NormFloat64()
