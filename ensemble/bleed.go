@@ -284,9 +284,17 @@ func (h *history) at(c int, t float64) float64 {
 		}
 		return 0
 	}
-	// Lagrange's cubic through the samples at i-1 … i+2.
-	xm, x0, x1, x2 := b[i-1], b[i], b[i+1], b[i+2]
-	return -xm*f*(f-1)*(f-2)/6 + x0*(f+1)*(f-1)*(f-2)/2 - x1*(f+1)*f*(f-2)/2 + x2*(f+1)*f*(f-1)/6
+	w := newLagrange(f)
+	return b[i-1]*w[0] + b[i]*w[1] + b[i+1]*w[2] + b[i+2]*w[3]
+}
+
+// lagrange is the cubic Lagrange interpolator through four samples at -1,
+// 0, 1, 2 evaluated at f in [0, 1): its weights, which depend on the
+// fraction alone, so one delay's weights serve a whole block.
+type lagrange [4]float64
+
+func newLagrange(f float64) lagrange {
+	return lagrange{-f * (f - 1) * (f - 2) / 6, (f + 1) * (f - 1) * (f - 2) / 2, -(f + 1) * f * (f - 2) / 2, (f + 1) * f * (f - 1) / 6}
 }
 
 // clean writes into dst channel c's current block less what it hears of
@@ -302,8 +310,26 @@ func (m *bleedModel) clean(h *history, c int, dst []float32) {
 		if d == c || p.gain == 0 {
 			continue
 		}
+		// Channel d's sample at keep+i-delay, interpolated between the
+		// samples around it (the delay is shorter than keep by historyPad).
+		whole := math.Floor(p.delay)
+		if whole < 2 {
+			// The block's last samples lack a sample after them.
+			for i := range n {
+				dst[i] -= float32(p.gain * h.at(d, float64(h.keep+i)-p.delay))
+			}
+			continue
+		}
+		// The four samples around keep+i-delay, from keep-whole-2+i, or
+		// the one at keep-whole+i when the delay is whole.
+		w := newLagrange(math.Ceil(p.delay) - p.delay)
+		b := h.buf[d][h.keep-int(whole)-2:]
+		if whole == p.delay {
+			w, b = lagrange{0, 1, 0, 0}, h.buf[d][h.keep-int(whole)-1:]
+		}
 		for i := range n {
-			dst[i] -= float32(p.gain * h.at(d, float64(h.keep+i)-p.delay))
+			x := b[i : i+4 : i+4]
+			dst[i] -= float32(p.gain * (x[0]*w[0] + x[1]*w[1] + x[2]*w[2] + x[3]*w[3]))
 		}
 	}
 }
