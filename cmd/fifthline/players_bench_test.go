@@ -214,11 +214,13 @@ func measurePlayersLive(b *testing.B, meter bool) {
 	b.ReportMetric(slices.Max(detection), "detection_max_ms")
 }
 
-// playerLatencies finds, for every note of every cycle, the first frame of
-// its player read within 50 ¢ of it, and returns how long after the note's
-// onset that frame left the pipeline (total) and how long after the first
-// frame of the player's channel louder than -30 dBFS (detection), in ms.
-// The notes sound at -17 dBFS, the others' bleed at -35 dBFS or less.
+// playerLatencies follows each player's frames through their notes in
+// order: every note is preceded by at least 0.3 s in which the channel is
+// quieter than -30 dBFS (the notes sound at -17 dBFS, the others' bleed at
+// -35 dBFS or less), then comes its first loud frame, then the first frame
+// read within 50 ¢ of it. It returns how long after the note's onset that
+// frame left the pipeline (total) and how long after the first loud frame
+// (detection), in ms.
 func playerLatencies(b *testing.B, path string, played time.Time, cycles int) (total, detection []float64) {
 	f, err := os.Open(path)
 	if err != nil {
@@ -229,34 +231,43 @@ func playerLatencies(b *testing.B, path string, played time.Time, cycles int) (t
 	if err != nil {
 		b.Fatal(err)
 	}
+	type frame struct {
+		wall      time.Time
+		hz, level float64
+		voiced    bool
+	}
 	names := strings.Split(cyclePlayers, ",")
+	frames := make([][]frame, len(names))
+	for _, r := range recs[2:] {
+		if p := slices.Index(names, r[7]); p >= 0 {
+			ns, _ := strconv.ParseInt(r[0], 10, 64)
+			hz, _ := strconv.ParseFloat(r[2], 64)
+			level, _ := strconv.ParseFloat(r[3], 64)
+			frames[p] = append(frames[p], frame{time.Unix(0, ns), hz, level, r[4] == "true"})
+		}
+	}
 	ms := func(d time.Duration) float64 { return float64(d) / float64(time.Millisecond) }
+	next := make([]int, len(names)) // each player's next frame to look at
 	for k := range cycles {
 		for _, n := range quartetCycle {
 			onset := played.Add(time.Duration((float64(k)*cycleSeconds + n.start) * float64(time.Second)))
-			var loud, held time.Time
-			for _, r := range recs[2:] {
-				ns, _ := strconv.ParseInt(r[0], 10, 64)
-				hz, _ := strconv.ParseFloat(r[2], 64)
-				level, _ := strconv.ParseFloat(r[3], 64)
-				// The player was silent for at least 0.3 s before: earlier
-				// frames are the previous note's.
-				wall := time.Unix(0, ns)
-				if r[7] != names[n.player] || wall.Before(onset.Add(-150*time.Millisecond)) {
-					continue
-				}
-				if loud.IsZero() && level > -30 {
-					loud = wall
-				}
-				if r[4] == "true" && math.Abs(1200*math.Log2(hz/n.hz)) <= 50 {
-					held = wall
-					break
-				}
+			fs, i := frames[n.player], next[n.player]
+			for i < len(fs) && fs[i].level > -30 { // the previous note's end
+				i++
 			}
-			if held.IsZero() {
+			for i < len(fs) && fs[i].level <= -30 { // the silence before
+				i++
+			}
+			loud := i
+			for i < len(fs) && !(fs[i].voiced && math.Abs(1200*math.Log2(fs[i].hz/n.hz)) <= 50) {
+				i++
+			}
+			if i == len(fs) {
 				b.Fatalf("cycle %d: %s's %s never read", k+1, names[n.player], n.note)
 			}
-			total, detection = append(total, ms(held.Sub(onset))), append(detection, ms(held.Sub(loud)))
+			next[n.player] = i
+			total = append(total, ms(fs[i].wall.Sub(onset)))
+			detection = append(detection, ms(fs[i].wall.Sub(fs[loud].wall)))
 		}
 	}
 	return total, detection
