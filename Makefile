@@ -60,16 +60,19 @@ fuzz:
 
 # Speed, memory and accuracy, side by side with aubio on the same files; then
 # the live path's CPU, memory and onset-to-reading time through the virtual
-# microphone, and the meter's cost on screen.
+# microphone, and the meter's cost on screen; four players offline on one
+# core, live on a 4-channel virtual interface, and a soak of continuous
+# 4-channel input lasting SOAK (make bench SOAK=1h for the full one).
+SOAK ?= 3m
 bench: deps
 	$(GO) test -run XXX -bench . -benchmem ./pitchdetect/
 	$(GO) test -run XXX -bench RecordingRead ./capture/
 	$(GO) run ./cmd/fifthbench
 	$(GO) test -run XXX -bench . ./multipitch/
 	$(GO) run ./cmd/chordbench
-	$(GO) test -run XXX -bench ReadQuartet ./ensemble/
+	GOMAXPROCS=1 $(GO) test -run XXX -bench ReadQuartet ./ensemble/
 	@scripts/vmic-start
-	$(GO) test -run XXX -bench 'ListenPlainLive|ListenVoicesLive|ListenMeter|DemoMeterInTmux' -benchtime 1x ./cmd/fifthline/
+	$(GO) test -run XXX -bench 'ListenPlainLive|ListenVoicesLive|ListenMeter|DemoMeterInTmux|AnalyzePlayers|ListenPlayers' -benchtime 1x -timeout 0 ./cmd/fifthline/ -soak $(SOAK)
 	$(GO) test -run XXX -bench 'PlayerDroneUnderMicrophone' -benchtime 1x ./playback/
 
 clean:

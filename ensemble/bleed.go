@@ -4,7 +4,7 @@ import (
 	"math"
 	"math/cmplx"
 
-	"gonum.org/v1/gonum/dsp/fourier"
+	"fifthline/internal/rfft"
 )
 
 // Bleed estimation: what channel c hears of player d is modelled as d's own
@@ -57,6 +57,7 @@ type pairBleed struct {
 	a      []complex128 // accumulated X_c·conj(X_d) at d's clear partials
 	b      float64      // accumulated |X_d|² there
 	frames int
+	fresh  bool    // evidence added since the last estimate
 	gain   float64 // 0 until estimated
 	delay  float64 // samples
 }
@@ -66,7 +67,7 @@ type pairBleed struct {
 type bleedModel struct {
 	n, k  int // window length, channels
 	pairs []pairBleed
-	ifft  *fourier.FFT
+	ifft  *rfft.FFT
 	corr  []float64
 	spec  []complex128
 	hops  int
@@ -74,7 +75,7 @@ type bleedModel struct {
 
 func newBleedModel(n, channels int) *bleedModel {
 	m := &bleedModel{n: n, k: channels, pairs: make([]pairBleed, channels*channels),
-		ifft: fourier.NewFFT(n), corr: make([]float64, n), spec: make([]complex128, n/2+1)}
+		ifft: rfft.New(n), corr: make([]float64, n), spec: make([]complex128, n/2+1)}
 	for i := range m.pairs {
 		m.pairs[i].a = make([]complex128, n/2+1)
 	}
@@ -124,6 +125,7 @@ func (m *bleedModel) observe(o *Owner, hz []float64, steady []bool) {
 			}
 			if used {
 				p.frames++
+				p.fresh = true
 			}
 		}
 	}
@@ -164,9 +166,12 @@ func (m *bleedModel) estimate(fs float64) {
 	maxLag := min(int(maxBleedMs/1000*fs), m.n/2-2)
 	for i := range m.pairs {
 		p := &m.pairs[i]
-		if p.frames < minBleedFrames || p.b < minBleedPower {
+		// Evidence that only faded since the last estimate gives the same
+		// gain and delay (numerator and denominator fade alike).
+		if !p.fresh || p.frames < minBleedFrames || p.b < minBleedPower {
 			continue
 		}
+		p.fresh = false
 		// corr[τ] = Σ_b a_b·e^{+iω_bτ}: the inverse transform of a.
 		copy(m.spec, p.a)
 		m.ifft.Sequence(m.corr, m.spec)
@@ -188,6 +193,9 @@ func (m *bleedModel) estimate(fs float64) {
 		var sum complex128
 		mag := 0.0
 		for b, a := range p.a {
+			if a == 0 {
+				continue // no evidence at this bin: adds nothing
+			}
 			w := 2 * math.Pi * float64(b) / float64(m.n)
 			sum += a * cmplx.Rect(1, w*delay)
 			mag += cmplx.Abs(a)
@@ -276,9 +284,17 @@ func (h *history) at(c int, t float64) float64 {
 		}
 		return 0
 	}
-	// Lagrange's cubic through the samples at i-1 … i+2.
-	xm, x0, x1, x2 := b[i-1], b[i], b[i+1], b[i+2]
-	return -xm*f*(f-1)*(f-2)/6 + x0*(f+1)*(f-1)*(f-2)/2 - x1*(f+1)*f*(f-2)/2 + x2*(f+1)*f*(f-1)/6
+	w := newLagrange(f)
+	return b[i-1]*w[0] + b[i]*w[1] + b[i+1]*w[2] + b[i+2]*w[3]
+}
+
+// lagrange is the cubic Lagrange interpolator through four samples at -1,
+// 0, 1, 2 evaluated at f in [0, 1): its weights, which depend on the
+// fraction alone, so one delay's weights serve a whole block.
+type lagrange [4]float64
+
+func newLagrange(f float64) lagrange {
+	return lagrange{-f * (f - 1) * (f - 2) / 6, (f + 1) * (f - 1) * (f - 2) / 2, -(f + 1) * f * (f - 2) / 2, (f + 1) * f * (f - 1) / 6}
 }
 
 // clean writes into dst channel c's current block less what it hears of
@@ -294,8 +310,26 @@ func (m *bleedModel) clean(h *history, c int, dst []float32) {
 		if d == c || p.gain == 0 {
 			continue
 		}
+		// Channel d's sample at keep+i-delay, interpolated between the
+		// samples around it (the delay is shorter than keep by historyPad).
+		whole := math.Floor(p.delay)
+		if whole < 2 {
+			// The block's last samples lack a sample after them.
+			for i := range n {
+				dst[i] -= float32(p.gain * h.at(d, float64(h.keep+i)-p.delay))
+			}
+			continue
+		}
+		// The four samples around keep+i-delay, from keep-whole-2+i, or
+		// the one at keep-whole+i when the delay is whole.
+		w := newLagrange(math.Ceil(p.delay) - p.delay)
+		b := h.buf[d][h.keep-int(whole)-2:]
+		if whole == p.delay {
+			w, b = lagrange{0, 1, 0, 0}, h.buf[d][h.keep-int(whole)-1:]
+		}
 		for i := range n {
-			dst[i] -= float32(p.gain * h.at(d, float64(h.keep+i)-p.delay))
+			x := b[i : i+4 : i+4]
+			dst[i] -= float32(p.gain * (x[0]*w[0] + x[1]*w[1] + x[2]*w[2] + x[3]*w[3]))
 		}
 	}
 }

@@ -4,7 +4,7 @@ import (
 	"math"
 	"math/cmplx"
 
-	"gonum.org/v1/gonum/dsp/fourier"
+	"fifthline/internal/rfft"
 )
 
 // DefaultOwnDB is how much louder a pitch's harmonics must sound on another
@@ -28,7 +28,7 @@ const (
 type Owner struct {
 	fs   float64
 	win  []float64
-	fft  *fourier.FFT
+	fft  *rfft.FFT
 	buf  []float64
 	spec [][]complex128 // per channel, the latest window's spectrum
 	have []bool         // spec[c] belongs to the current frame
@@ -37,7 +37,7 @@ type Owner struct {
 // NewOwner plans the comparison for channels windows of n samples at the
 // sample rate fs.
 func NewOwner(fs float64, n, channels int) *Owner {
-	o := &Owner{fs: fs, win: make([]float64, n), fft: fourier.NewFFT(n), buf: make([]float64, n),
+	o := &Owner{fs: fs, win: make([]float64, n), fft: rfft.New(n), buf: make([]float64, n),
 		spec: make([][]complex128, channels), have: make([]bool, channels)}
 	// Blackman–Harris, 4 terms (Harris, Proc. IEEE 1978): sidelobes 92 dB
 	// down, so a loud partial of one player does not leak into the bins

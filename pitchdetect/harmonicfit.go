@@ -64,6 +64,13 @@ func (d *Detector) fitComb(f0, tolCents float64, lobe int) fit {
 			continue
 		}
 		za, zb := d.specA[b], d.specB[b]
+		if za == 0 {
+			// The older frame is digital silence (a note starting after
+			// it): no phase to measure the advance from. (Its angle
+			// would come from the signs of zeros, which differ between
+			// FFT implementations.)
+			continue
+		}
 		re := real(zb)*real(za) + imag(zb)*imag(za)
 		im := imag(zb)*real(za) - real(zb)*imag(za)
 		adv := math.Atan2(im, re)

@@ -42,7 +42,7 @@ func fluidChordTake(t *testing.T, bends [4]float64) (multi, mono string) {
 		if out, err := exec.Command(fluid, "-ni", "-q", "-R", "0", "-C", "0", "-g", "0.5", "-r", "48000", "-F", name+".stereo.wav", sf2, name+".mid").CombinedOutput(); err != nil {
 			t.Fatalf("fluidsynth: %v\n%s", err, out)
 		}
-		soxRun(t)(name+".stereo.wav", name+".wav", "remix", "1")
+		soxTB(t, name+".stereo.wav", name+".wav", "remix", "1")
 		dry = append(dry, name+".wav")
 	}
 	return soxMix(t, dir, dry)

@@ -216,7 +216,8 @@ func rssMB(b *testing.B, pid int) float64 {
 	return 0
 }
 
-func soxTB(b *testing.B, args ...string) {
+func soxTB(b testing.TB, args ...string) {
+	b.Helper()
 	if out, err := exec.Command("sox", args...).CombinedOutput(); err != nil {
 		b.Fatalf("sox %v: %v\n%s", args, err, out)
 	}

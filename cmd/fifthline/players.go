@@ -262,15 +262,22 @@ func listenPlayers(ctx context.Context, e *env, src *capture.Input, name string,
 	if err := w.Error(); err != nil {
 		return err
 	}
+	timing, err := openTiming(src.SampleRate())
+	if err != nil {
+		return err
+	}
+	defer timing.close()
 	interface_ := src.Carried()
+	// Only chords need the notes and frames kept: a long session without
+	// --chords holds nothing but the players' current notes.
 	var notes []ensemble.Note
 	tracks := make([]harmony.Track, len(po.players))
 	drift := ensemble.NewDrift(tu, po.seventh)
 	o := ensemble.Options{Name: name, Players: po.players, Tunings: session.NewTunings(tu),
 		OnNote: func(n ensemble.Note) error {
 			j.note(n.Event)
-			notes = append(notes, n)
 			if po.chords {
+				notes = append(notes, n)
 				return nil
 			}
 			c, known := drift.Cents()
@@ -281,12 +288,13 @@ func listenPlayers(ctx context.Context, e *env, src *capture.Input, name string,
 			return w.Error()
 		},
 		OnFrame: func(i int, est pitchdetect.Estimate) {
+			timing.playerFrame(po.players[i].Name, est)
 			drift.Frame(i, est)
 			if po.chords {
 				tracks[i].Add(est.Time, est.Hz)
 			}
 		}}
-	err := ensemble.Run(ctx, src, o)
+	err = ensemble.Run(ctx, src, o)
 	if po.chords {
 		sortPlayerNotes(notes)
 		chords := ensemble.Chords(notes, tracks, po.players, tu, po.seventh)

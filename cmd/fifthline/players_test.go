@@ -4,7 +4,6 @@ import (
 	"encoding/json"
 	"math"
 	"os"
-	"os/exec"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -36,61 +35,58 @@ type soxNote struct{ hz, before, seconds, after float64 }
 func soxParts(t *testing.T, parts [][]soxNote) (multi, mono string) {
 	t.Helper()
 	dir := t.TempDir()
-	run := soxRun(t)
 	f := func(x float64) string { return strconv.FormatFloat(x, 'f', 4, 64) }
 	var dry []string
 	for i, notes := range parts {
 		var files []string
 		for k, n := range notes {
 			p := filepath.Join(dir, strconv.Itoa(i)+"-"+strconv.Itoa(k)+".wav")
-			run("-n", "-r", "48000", "-b", "24", p, "synth", f(n.seconds), "sawtooth", f(n.hz), "fade", "0.02", f(n.seconds), "0.02",
+			soxTB(t, "-n", "-r", "48000", "-b", "24", p, "synth", f(n.seconds), "sawtooth", f(n.hz), "fade", "0.02", f(n.seconds), "0.02",
 				"vol", "0.25", "pad", f(n.before), f(n.after))
 			files = append(files, p)
 		}
 		p := filepath.Join(dir, "part"+strconv.Itoa(i)+".wav")
-		run(append(files, p)...)
+		soxTB(t, append(files, p)...)
 		dry = append(dry, p)
 	}
 	return soxMix(t, dir, dry)
 }
 
-func soxRun(t *testing.T) func(args ...string) {
-	return func(args ...string) {
-		t.Helper()
-		if out, err := exec.Command("sox", args...).CombinedOutput(); err != nil {
-			t.Fatalf("sox %v: %v\n%s", args, err, out)
-		}
-	}
+// soxMix writes a multichannel take of mono parts (the dry files, one a
+// channel) with the others' bleed (soxBleed), and the dry parts summed
+// onto one channel, as one microphone hears them.
+func soxMix(t testing.TB, dir string, dry []string) (multi, mono string) {
+	t.Helper()
+	multi, mono = filepath.Join(dir, "quartet.wav"), filepath.Join(dir, "mono.wav")
+	soxBleed(t, dir, dry, multi)
+	soxTB(t, append(append([]string{"-m"}, dry...), "-b", "24", mono)...)
+	return multi, mono
 }
 
-// soxMix writes a 4-channel take of four mono parts (the dry files, one a
-// channel), each channel also hearing the other three 20 dB down (×0.1)
-// and 3 ms late, as close microphones hear their neighbours (the ensemble
-// issue's 15–25 dB and a few milliseconds); and the four dry parts summed
-// onto one channel, as one microphone hears them. sox does the mixing.
-func soxMix(t *testing.T, dir string, dry []string) (multi, mono string) {
+// soxBleed mixes one part per channel into a multichannel take, each
+// channel hearing every other part 20 dB down (×0.1) and 3 ms late, as
+// close microphones hear their neighbours (15–25 dB down, a few
+// milliseconds late: the ensemble issue's measurements). sox does the
+// mixing.
+func soxBleed(t testing.TB, dir string, dry []string, out string) {
 	t.Helper()
-	run := soxRun(t)
 	var late []string
 	for i, p := range dry {
 		d := filepath.Join(dir, "late"+strconv.Itoa(i)+".wav")
-		run(p, d, "pad", "0.003")
+		soxTB(t, p, d, "pad", "0.003")
 		late = append(late, d)
 	}
-	multi, mono = filepath.Join(dir, "quartet.wav"), filepath.Join(dir, "mono.wav")
-	args := append(append(append([]string{"-M"}, dry...), late...), "-b", "24", multi, "remix")
-	for c := range 4 {
+	args := append(append(append([]string{"-M"}, dry...), late...), "-b", "24", out, "remix")
+	for c := range dry {
 		mix := []string{strconv.Itoa(c + 1)}
-		for o := range 4 {
+		for o := range dry {
 			if o != c {
-				mix = append(mix, strconv.Itoa(5+o)+"v0.1")
+				mix = append(mix, strconv.Itoa(len(dry)+1+o)+"v0.1")
 			}
 		}
 		args = append(args, strings.Join(mix, ","))
 	}
-	run(args...)
-	run(append(append([]string{"-m"}, dry...), "-b", "24", mono)...)
-	return multi, mono
+	soxTB(t, args...)
 }
 
 // Each player is read from their own channel: every note spelled right

@@ -323,11 +323,11 @@ func renderMIDI(t *testing.T, dir, name string, mid []byte) string {
 func noisyMono(t *testing.T, dir, wav string, snr float64) string {
 	t.Helper()
 	mono, noise, out := filepath.Join(dir, "mono.wav"), filepath.Join(dir, "noise.wav"), filepath.Join(dir, "mix.wav")
-	soxRun(t)("-R", wav, "-b", "32", "-e", "floating-point", mono, "remix", "1v0.5,2v0.5")
+	soxTB(t, "-R", wav, "-b", "32", "-e", "floating-point", mono, "remix", "1v0.5,2v0.5")
 	secs := soxStat(t, mono, "Length (seconds)")
-	soxRun(t)("-R", "-n", "-r", "44100", "-c", "1", "-b", "32", "-e", "floating-point", noise, "synth", strconv.FormatFloat(secs, 'f', 6, 64), "whitenoise", "vol", "0.1")
+	soxTB(t, "-R", "-n", "-r", "44100", "-c", "1", "-b", "32", "-e", "floating-point", noise, "synth", strconv.FormatFloat(secs, 'f', 6, 64), "whitenoise", "vol", "0.1")
 	gain := soxStat(t, mono, "RMS     amplitude") * math.Pow(10, -snr/20) / soxStat(t, noise, "RMS     amplitude")
-	soxRun(t)("-R", "-m", "-v", "1", mono, "-v", strconv.FormatFloat(gain, 'g', 8, 64), noise, "-b", "32", "-e", "floating-point", out)
+	soxTB(t, "-R", "-m", "-v", "1", mono, "-v", strconv.FormatFloat(gain, 'g', 8, 64), noise, "-b", "32", "-e", "floating-point", out)
 	return out
 }
 

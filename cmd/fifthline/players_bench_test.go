@@ -1,0 +1,398 @@
+package main
+
+import (
+	"encoding/csv"
+	"flag"
+	"fmt"
+	"math"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"slices"
+	"strconv"
+	"strings"
+	"testing"
+	"time"
+
+	"fifthline/internal/vmic"
+)
+
+// Four players live: `listen --players` on a 4-channel virtual interface (a
+// PulseAudio null sink of four channels, each player's channel carrying the
+// others 20 dB down and 3 ms late), side by side with the one-player
+// figures of BenchmarkListenPlainLive; cpu_%core and rss_MB are measured
+// the same way.
+//
+//	go test -run XXX -bench ListenPlayersPlainLive -benchtime 1x ./cmd/fifthline/
+//
+// onset→reading: from the moment a player's note starts at the virtual
+// interface (paplay's start plus the note's offset in the file, so an upper
+// bound) to the first frame of that player's channel read at the note's
+// pitch (within 50 ¢), as FIFTHLINE_TIMING logs it.
+func BenchmarkListenPlayersPlainLive(b *testing.B) {
+	for range b.N {
+		measurePlayersLive(b, false)
+	}
+}
+
+// BenchmarkAnalyzePlayers is the whole command on one core: `analyze
+// --players` (which reads the file twice, learning the bleed first) on 40 s
+// of the quartet's cycle, a 4-channel 24-bit 48 kHz WAV, with GOMAXPROCS=1.
+// x-realtime is seconds of audio per second of the clock, x-realtime-cpu
+// per second of the process's CPU time (unaffected by other work on the
+// machine). Every note must be read.
+func BenchmarkAnalyzePlayers(b *testing.B) {
+	const cycles = 10
+	take := quartetCycleWAV(b, cycles)
+	bin := fifthlineBinary(b)
+	b.ResetTimer()
+	cpu := 0.0
+	for range b.N {
+		cmd := exec.Command(bin, "analyze", "--players", cyclePlayers, take)
+		cmd.Env = append(os.Environ(), "GOMAXPROCS=1")
+		out, err := cmd.Output()
+		if err != nil {
+			b.Fatalf("analyze --players: %v", err)
+		}
+		cpu += (cmd.ProcessState.UserTime() + cmd.ProcessState.SystemTime()).Seconds()
+		if rows := strings.Count(string(out), "\n") - 1; rows != cycles*len(quartetCycle) {
+			b.Errorf("%d notes read, %d played", rows, cycles*len(quartetCycle))
+		}
+	}
+	audio := cycles * cycleSeconds * float64(b.N)
+	b.ReportMetric(audio/b.Elapsed().Seconds(), "x-realtime")
+	b.ReportMetric(audio/cpu, "x-realtime-cpu")
+}
+
+// The group meter's variant is measurePlayersLive(b, true): the same take
+// with `listen --players` on screen in an 80×24 tmux window.
+
+// soakLength is how long BenchmarkListenPlayersSoak plays:
+//
+//	go test -run XXX -bench ListenPlayersSoak -benchtime 1x -timeout 2h ./cmd/fifthline/ -soak 1h
+var soakLength = flag.Duration("soak", 3*time.Minute, "how long BenchmarkListenPlayersSoak plays continuous 4-channel input")
+
+// BenchmarkListenPlayersSoak plays the quartet's cycle without a break for
+// -soak into `listen --plain --players --log`, samples the process's CPU
+// and resident memory every minute (both should stay flat), and checks the
+// journal against the notes sent: every player's every note, spelled.
+func BenchmarkListenPlayersSoak(b *testing.B) {
+	for range b.N {
+		soakPlayers(b, *soakLength, false)
+	}
+}
+
+// cycleNote is one note of the benchmark's quartet cycle.
+type cycleNote struct {
+	player     int
+	note       string
+	hz         float64
+	start, end float64 // seconds into the cycle
+}
+
+// The cycle, a cadence of our own: C major then G major, equal temperament
+// at A4 = 440 Hz (ISO 16). Each player enters at a moment of their own, so
+// every onset is timed on one channel.
+const (
+	cycleSeconds = 4.0
+	cyclePlayers = "vc,vla,vl2,vl1"
+)
+
+var quartetCycle = []cycleNote{
+	{0, "C3", 130.8128, 0.20, 1.70}, {0, "G2", 97.9989, 2.00, 3.60},
+	{1, "G3", 195.9977, 0.45, 3.60},
+	{2, "E4", 329.6276, 0.70, 1.70}, {2, "D4", 293.6648, 2.25, 3.60},
+	{3, "C5", 523.2511, 0.95, 1.70}, {3, "B4", 493.8833, 2.50, 3.60},
+}
+
+// quartetCycleWAV renders the cycle repeated cycles times: sox sawtooth
+// notes, one player per channel, mixed with the others' bleed (soxBleed).
+func quartetCycleWAV(b *testing.B, cycles int) string {
+	dir := b.TempDir()
+	f := func(x float64) string { return strconv.FormatFloat(x, 'f', 4, 64) }
+	var dry []string
+	for p := range strings.Split(cyclePlayers, ",") {
+		mix := []string{"-m"}
+		for i, n := range quartetCycle {
+			if n.player != p {
+				continue
+			}
+			w := filepath.Join(dir, fmt.Sprintf("note%d.wav", i))
+			soxTB(b, "-n", "-r", "48000", "-b", "24", w, "synth", f(n.end-n.start), "sawtooth", f(n.hz),
+				"fade", "0.02", f(n.end-n.start), "0.02", "vol", "0.25", "pad", f(n.start), f(cycleSeconds-n.end))
+			mix = append(mix, "-v", "1", w)
+		}
+		part := filepath.Join(dir, fmt.Sprintf("part%d.wav", p))
+		if len(mix) == 4 { // one note: nothing to mix
+			mix = mix[3:]
+		}
+		soxTB(b, append(mix, part)...)
+		dry = append(dry, part)
+	}
+	mixed, cycle := filepath.Join(dir, "mixed.wav"), filepath.Join(dir, "cycle.wav")
+	soxBleed(b, dir, dry, mixed)
+	soxTB(b, mixed, cycle, "trim", "0", f(cycleSeconds)) // the bleed's 3 ms tail is silence
+	if cycles == 1 {
+		return cycle
+	}
+	take := filepath.Join(dir, "take.wav")
+	soxTB(b, cycle, take, "repeat", strconv.Itoa(cycles-1))
+	return take
+}
+
+// fourChannels is the virtual interface's channel map, one per player.
+var fourChannels = []string{"front-left", "front-right", "rear-left", "rear-right"}
+
+// playersListener is `listen --players` running on the virtual interface:
+// with --plain (its stdout in a file), or as the meter in tmux.
+type playersListener struct {
+	pid  int
+	stop func() // interrupt it (q for the meter) and wait for it to end
+}
+
+func startPlayersListener(b *testing.B, meter bool, env []string, args ...string) playersListener {
+	args = append([]string{"listen", "--players", cyclePlayers}, args...)
+	if meter {
+		m := startTmux(b, 80, 24, env, args...)
+		m.waitFor(`vc`)
+		return playersListener{meterPid(b, m), func() {
+			m.tmux("send-keys", "-t", "meter", "q")
+			m.exitStatus()
+		}}
+	}
+	out := filepath.Join(b.TempDir(), "stdout.csv")
+	f, err := os.Create(out)
+	if err != nil {
+		b.Fatal(err)
+	}
+	cmd := exec.Command(fifthlineBinary(b), append(args, "--plain")...)
+	cmd.Env, cmd.Stdout = append(os.Environ(), env...), f
+	if err := cmd.Start(); err != nil {
+		b.Fatal(err)
+	}
+	f.Close()
+	b.Cleanup(func() { _ = cmd.Process.Kill(); _ = cmd.Wait() })
+	// The header comes once the interface is open.
+	for deadline := time.Now().Add(hangPatience); ; time.Sleep(50 * time.Millisecond) {
+		if text, _ := os.ReadFile(out); strings.Contains(string(text), "\n") {
+			break
+		}
+		if time.Now().After(deadline) {
+			b.Fatalf("listen --players wrote no header in %v", hangPatience)
+		}
+	}
+	return playersListener{cmd.Process.Pid, func() {
+		_ = cmd.Process.Signal(os.Interrupt)
+		_ = cmd.Wait()
+	}}
+}
+
+func measurePlayersLive(b *testing.B, meter bool) {
+	const cycles = 5
+	mic := vmic.IsolateChannels(b, fourChannels...)
+	take := quartetCycleWAV(b, cycles)
+	timing := filepath.Join(b.TempDir(), "timing.csv")
+	l := startPlayersListener(b, meter, []string{"FIFTHLINE_TIMING=" + timing, "PULSE_SOURCE=" + mic.Source, "PULSE_SINK=" + mic.Sink})
+	time.Sleep(500 * time.Millisecond) // the stream settles
+	started := time.Now()
+	reportCost(b, l.pid, func() {
+		if err := mic.PlayChannels(take)(); err != nil {
+			b.Fatal(err)
+		}
+	})
+	time.Sleep(700 * time.Millisecond) // the last notes' release reaches the input
+	l.stop()
+	if meter {
+		return // the meter logs no frames
+	}
+	total, detection := playerLatencies(b, timing, started, cycles)
+	b.Logf("onset→reading per note, ms: %.0f", total)
+	b.Logf("of which detection (first loud frame → first reading), ms: %.0f", detection)
+	b.ReportMetric(median(total), "onset→reading_ms")
+	b.ReportMetric(slices.Max(total), "onset→reading_max_ms")
+	b.ReportMetric(median(detection), "detection_ms")
+	b.ReportMetric(slices.Max(detection), "detection_max_ms")
+}
+
+// playerLatencies follows each player's frames through their notes in
+// order: every note is preceded by at least 0.3 s in which the channel is
+// quieter than -30 dBFS (the notes sound at -17 dBFS, the others' bleed at
+// -35 dBFS or less), then comes its first loud frame, then the first frame
+// read within 50 ¢ of it. It returns how long after the note's onset that
+// frame left the pipeline (total) and how long after the first loud frame
+// (detection), in ms.
+func playerLatencies(b *testing.B, path string, played time.Time, cycles int) (total, detection []float64) {
+	f, err := os.Open(path)
+	if err != nil {
+		b.Fatal(err)
+	}
+	defer f.Close()
+	recs, err := csv.NewReader(f).ReadAll()
+	if err != nil {
+		b.Fatal(err)
+	}
+	type frame struct {
+		wall      time.Time
+		hz, level float64
+		voiced    bool
+	}
+	names := strings.Split(cyclePlayers, ",")
+	frames := make([][]frame, len(names))
+	for _, r := range recs[2:] {
+		if p := slices.Index(names, r[7]); p >= 0 {
+			ns, _ := strconv.ParseInt(r[0], 10, 64)
+			hz, _ := strconv.ParseFloat(r[2], 64)
+			level, _ := strconv.ParseFloat(r[3], 64)
+			frames[p] = append(frames[p], frame{time.Unix(0, ns), hz, level, r[4] == "true"})
+		}
+	}
+	ms := func(d time.Duration) float64 { return float64(d) / float64(time.Millisecond) }
+	next := make([]int, len(names)) // each player's next frame to look at
+	for k := range cycles {
+		for _, n := range quartetCycle {
+			onset := played.Add(time.Duration((float64(k)*cycleSeconds + n.start) * float64(time.Second)))
+			fs, i := frames[n.player], next[n.player]
+			for i < len(fs) && fs[i].level > -30 { // the previous note's end
+				i++
+			}
+			for i < len(fs) && fs[i].level <= -30 { // the silence before
+				i++
+			}
+			loud := i
+			for i < len(fs) && !(fs[i].voiced && math.Abs(1200*math.Log2(fs[i].hz/n.hz)) <= 50) {
+				i++
+			}
+			if i == len(fs) {
+				b.Fatalf("cycle %d: %s's %s never read", k+1, names[n.player], n.note)
+			}
+			next[n.player] = i
+			total = append(total, ms(fs[i].wall.Sub(onset)))
+			detection = append(detection, ms(fs[i].wall.Sub(fs[loud].wall)))
+		}
+	}
+	return total, detection
+}
+
+// soakPlayers streams the cycle without a break (sox's repeat into pacat,
+// whose channel map is the sink's, so nothing is remixed) for length.
+func soakPlayers(b *testing.B, length time.Duration, meter bool) {
+	cycles := int(math.Ceil(length.Seconds() / cycleSeconds))
+	mic := vmic.IsolateChannels(b, fourChannels...)
+	cycle := quartetCycleWAV(b, 1)
+	journal := filepath.Join(b.TempDir(), "journal.csv")
+	l := startPlayersListener(b, meter, []string{"PULSE_SOURCE=" + mic.Source, "PULSE_SINK=" + mic.Sink},
+		"--log", journal, "--duration", (length + 5*time.Minute).String())
+	time.Sleep(500 * time.Millisecond)
+	src := exec.Command("sox", cycle, "-t", "raw", "-e", "signed-integer", "-b", "16", "-", "repeat", strconv.Itoa(cycles-1))
+	sink := exec.Command("pacat", "--playback", "--device="+mic.Sink, "--raw", "--format=s16le", "--rate=48000",
+		"--channels=4", "--channel-map="+strings.Join(fourChannels, ","))
+	pipe, err := src.StdoutPipe()
+	if err != nil {
+		b.Fatal(err)
+	}
+	sink.Stdin = pipe
+	if err := sink.Start(); err != nil {
+		b.Fatalf("pacat: %v", err)
+	}
+	if err := src.Start(); err != nil {
+		b.Fatalf("sox: %v", err)
+	}
+	b.Cleanup(func() { _ = src.Process.Kill(); _ = sink.Process.Kill() })
+	done := make(chan error, 1)
+	go func() { _ = src.Wait(); done <- sink.Wait() }()
+
+	// Every minute: the CPU share since the last sample and the resident
+	// memory now.
+	cpu0, wall0 := cpuSeconds(b, l.pid), time.Now()
+	var cpu, rss []float64
+	tick := time.NewTicker(time.Minute)
+	defer tick.Stop()
+	for playing := true; playing; {
+		select {
+		case err := <-done:
+			if err != nil {
+				b.Fatalf("pacat: %v", err)
+			}
+			playing = false
+		case <-tick.C:
+			c, w := cpuSeconds(b, l.pid), time.Now()
+			cpu, rss = append(cpu, 100*(c-cpu0)/w.Sub(wall0).Seconds()), append(rss, rssMB(b, l.pid))
+			cpu0, wall0 = c, w
+			b.Logf("minute %d: %.1f %% of a core, %.1f MB resident", len(cpu), cpu[len(cpu)-1], rss[len(rss)-1])
+		}
+	}
+	time.Sleep(time.Second) // the last notes' release reaches the input
+	l.stop()
+	if len(cpu) > 0 {
+		b.ReportMetric(cpu[0], "cpu_first_min_%core")
+		b.ReportMetric(cpu[len(cpu)-1], "cpu_last_min_%core")
+		b.ReportMetric(rss[0], "rss_first_min_MB")
+		b.ReportMetric(rss[len(rss)-1], "rss_last_min_MB")
+		b.ReportMetric(slices.Max(rss), "rss_max_MB")
+	}
+	missing, extra := checkSoakJournal(b, journal, cycles)
+	b.ReportMetric(float64(cycles*len(quartetCycle)), "notes_sent")
+	b.ReportMetric(float64(missing), "notes_missing")
+	b.ReportMetric(float64(extra), "notes_extra")
+}
+
+// checkSoakJournal compares each player's notes in the journal, in order,
+// with the cycle's notes sent cycles times, and reports what is missing
+// and what was never sent.
+func checkSoakJournal(b *testing.B, path string, cycles int) (missing, extra int) {
+	f, err := os.Open(path)
+	if err != nil {
+		b.Fatal(err)
+	}
+	defer f.Close()
+	recs, err := csv.NewReader(f).ReadAll()
+	if err != nil || len(recs) == 0 {
+		b.Fatalf("journal: %v", err)
+	}
+	col := func(name string) int {
+		i := slices.Index(recs[0], name)
+		if i < 0 {
+			b.Fatalf("journal has no %s column: %v", name, recs[0])
+		}
+		return i
+	}
+	pc, nc := col("player"), col("note")
+	heard := map[string][]string{}
+	for _, r := range recs[1:] {
+		heard[r[pc]] = append(heard[r[pc]], r[nc])
+	}
+	for p, name := range strings.Split(cyclePlayers, ",") {
+		var sent []string
+		for range cycles {
+			for _, n := range quartetCycle {
+				if n.player == p {
+					sent = append(sent, n.note)
+				}
+			}
+		}
+		m, e := noteDiff(sent, heard[name])
+		if m+e > 0 {
+			b.Errorf("%s: %d notes sent, %d in the journal; %d missing, %d never sent", name, len(sent), len(heard[name]), m, e)
+		}
+		missing, extra = missing+m, extra+e
+	}
+	return missing, extra
+}
+
+// noteDiff counts what a longest common subsequence of sent and heard
+// leaves out of each.
+func noteDiff(sent, heard []string) (missing, extra int) {
+	prev, cur := make([]int, len(heard)+1), make([]int, len(heard)+1)
+	for i := range sent {
+		for j := range heard {
+			if sent[i] == heard[j] {
+				cur[j+1] = prev[j] + 1
+			} else {
+				cur[j+1] = max(prev[j+1], cur[j])
+			}
+		}
+		prev, cur = cur, prev
+	}
+	common := prev[len(heard)]
+	return len(sent) - common, len(heard) - common
+}
