@@ -8,6 +8,7 @@ import (
 	"errors"
 	"flag"
 	"fmt"
+	"io"
 	"slices"
 	"strconv"
 	"time"
@@ -158,9 +159,16 @@ func analyzePlayers(e *env, po playerOptions, files []string, tu target.Tuning, 
 	return errors.Join(out.close(), tableLines(e, opt.format, drifts), j.close())
 }
 
-// readPlayers hears one file's players twice: once to learn what each
-// microphone hears of the others, then to read every note with that
-// known from the first on. Notes come back ordered by start, then channel.
+// learnSeconds is how much of a take the learning pass reads: enough for
+// every pair of microphones a player's steady notes to learn from, and the
+// reading pass goes on learning (as live listening does), so a long
+// rehearsal is not read twice over.
+const learnSeconds = 60
+
+// readPlayers hears one file's players twice: once (its first
+// learnSeconds) to learn what each microphone hears of the others, then to
+// read every note with that known from the first on. Notes come back
+// ordered by start, then channel.
 func readPlayers(e *env, path string, tu target.Tuning, po playerOptions, opt analyzeOptions, j *journalSink) ([]ensemble.Note, []ensemble.Chord, error) {
 	var learned ensemble.Bleed
 	var notes []ensemble.Note
@@ -178,8 +186,9 @@ func readPlayers(e *env, path string, tu target.Tuning, po playerOptions, opt an
 			return nil, nil, usagef("%v", err)
 		}
 		start = takeStart(opt.recorded, rec)
+		learn := min(rec.Duration(), learnSeconds)
 		if progress == nil {
-			progress = newProgress(e.stderr, path, 2*rec.Duration())
+			progress = newProgress(e.stderr, path, learn+rec.Duration())
 		}
 		o := ensemble.Options{Name: path, Players: po.players, Tunings: session.NewTunings(tu), Bleed: &learned}
 		if pass == 1 {
@@ -190,7 +199,11 @@ func readPlayers(e *env, path string, tu target.Tuning, po playerOptions, opt an
 			}
 			o.OnFrame = func(i int, est pitchdetect.Estimate) { tracks[i].Add(est.Time, est.Hz) }
 		}
-		err = ensemble.Run(e.ctx, &progressMulti{Recording: rec, p: progress, from: float64(pass) * rec.Duration()}, o)
+		pm := &progressMulti{Recording: rec, p: progress, from: float64(pass) * learn, upTo: -1}
+		if pass == 0 {
+			pm.upTo = int(learn * rec.SampleRate())
+		}
+		err = ensemble.Run(e.ctx, pm, o)
 		rec.Close()
 		if pass == 1 || err != nil {
 			progress.Done()
@@ -220,15 +233,29 @@ func sortPlayerNotes(notes []ensemble.Note) {
 	})
 }
 
-// progressMulti reports how far the reading is as it reads.
+// progressMulti reports how far the reading is as it reads, and ends the
+// recording early at upTo frames (-1: its end).
 type progressMulti struct {
 	*capture.Recording
 	p    *progress
 	from float64 // seconds of the bar already done (the learning pass)
 	read int
+	upTo int
 }
 
 func (pm *progressMulti) ReadChannels(dst [][]float32) (int, error) {
+	if pm.upTo >= 0 {
+		if pm.read >= pm.upTo {
+			return 0, io.EOF
+		}
+		if left := pm.upTo - pm.read; left < len(dst[0]) {
+			short := make([][]float32, len(dst))
+			for c := range dst {
+				short[c] = dst[c][:left]
+			}
+			dst = short
+		}
+	}
 	n, err := pm.Recording.ReadChannels(dst)
 	pm.read += n
 	pm.p.At(pm.from + float64(pm.read)/pm.SampleRate())

@@ -36,13 +36,13 @@ func BenchmarkListenPlayersPlainLive(b *testing.B) {
 }
 
 // BenchmarkAnalyzePlayers is the whole command on one core: `analyze
-// --players` (which reads the file twice, learning the bleed first) on 40 s
-// of the quartet's cycle, a 4-channel 24-bit 48 kHz WAV, with GOMAXPROCS=1.
+// --players` (which reads the first minute twice, learning the bleed first)
+// on five minutes of the quartet's cycle, a 4-channel 24-bit 48 kHz WAV, with GOMAXPROCS=1.
 // x-realtime is seconds of audio per second of the clock, x-realtime-cpu
 // per second of the process's CPU time (unaffected by other work on the
 // machine). Every note must be read.
 func BenchmarkAnalyzePlayers(b *testing.B) {
-	const cycles = 10
+	const cycles = 75
 	take := quartetCycleWAV(b, cycles)
 	bin := fifthlineBinary(b)
 	b.ResetTimer()
@@ -64,8 +64,14 @@ func BenchmarkAnalyzePlayers(b *testing.B) {
 	b.ReportMetric(audio/cpu, "x-realtime-cpu")
 }
 
-// The group meter's variant is measurePlayersLive(b, true): the same take
-// with `listen --players` on screen in an 80×24 tmux window.
+// BenchmarkListenPlayersMeterLive is the same take with the group meter on
+// screen (`listen --players` in an 80×24 tmux window): CPU and memory (the
+// meter logs no frames, so onset→reading is the plain variant's).
+func BenchmarkListenPlayersMeterLive(b *testing.B) {
+	for range b.N {
+		measurePlayersLive(b, true)
+	}
+}
 
 // soakLength is how long BenchmarkListenPlayersSoak plays:
 //
@@ -79,6 +85,14 @@ var soakLength = flag.Duration("soak", 3*time.Minute, "how long BenchmarkListenP
 func BenchmarkListenPlayersSoak(b *testing.B) {
 	for range b.N {
 		soakPlayers(b, *soakLength, false)
+	}
+}
+
+// BenchmarkListenPlayersMeterSoak is the soak with the group meter on
+// screen.
+func BenchmarkListenPlayersMeterSoak(b *testing.B) {
+	for range b.N {
+		soakPlayers(b, *soakLength, true)
 	}
 }
 
