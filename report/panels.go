@@ -36,13 +36,18 @@ func newPanel(title, x, y string) *plot.Plot {
 }
 
 // wholeCents ticks a cents axis at whole cents, 1, 2, 5, 10, 20 … apart so
-// that there are at most 11 ticks, signed ("+5", "0", "−5").
-type wholeCents struct{}
+// that there are at most 11 ticks (most+1 where most is set: a narrow
+// panel's labels would run together), signed ("+5", "0", "−5").
+type wholeCents struct{ most int }
 
-func (wholeCents) Ticks(lo, hi float64) []plot.Tick {
+func (c wholeCents) Ticks(lo, hi float64) []plot.Tick {
+	most := 10.0
+	if c.most > 0 {
+		most = float64(c.most)
+	}
 	step := 1.0
 	for _, s := range []float64{1, 2, 5, 10, 20, 50, 100, 200, 500, 1000} {
-		if step = s; (hi-lo)/s <= 10 {
+		if step = s; (hi-lo)/s <= most {
 			break
 		}
 	}
@@ -284,6 +289,19 @@ func rehearsalPanel(g Group, opt Options) (*plot.Plot, error) {
 	return p, nil
 }
 
+// centBars counts the values into n bars width cents wide from lo (the
+// last bar takes what lies beyond).
+func centBars(vs plotter.Values, lo, width float64, n int) []plotter.HistogramBin {
+	bars := make([]plotter.HistogramBin, n)
+	for i := range bars {
+		bars[i].Min, bars[i].Max = lo+float64(i)*width, lo+float64(i+1)*width
+	}
+	for _, v := range vs {
+		bars[max(0, min(n-1, int((v-lo)/width)))].Weight++
+	}
+	return bars
+}
+
 func histogramPanel(es []journal.Entry, opt Options) (*plot.Plot, error) {
 	const title = "How far the notes sat"
 	if len(es) == 0 {
@@ -303,22 +321,20 @@ func histogramPanel(es []journal.Entry, opt Options) (*plot.Plot, error) {
 	if err != nil {
 		return nil, err
 	}
-	// NewHist spreads the bins over the data's own range; lay them on
-	// whole cents instead.
-	counts := make([]float64, bins)
-	for _, v := range vs {
-		counts[min(bins-1, int((v-lo)/width))]++
-	}
-	for i := range h.Bins {
-		h.Bins[i].Min, h.Bins[i].Max, h.Bins[i].Weight = lo+float64(i)*width, lo+float64(i+1)*width, counts[i]
+	// NewHist spreads the bins over the data's own range (one bin when
+	// every note sat at the same cent); lay them on whole cents instead.
+	h.Bins = centBars(vs, lo, width, bins)
+	tallest := 0.0
+	for _, b := range h.Bins {
+		tallest = max(tallest, b.Weight)
 	}
 	h.FillColor = color.Gray{Y: 160}
 	h.LineStyle.Width = vg.Points(0.5)
 	p.Add(h)
-	tallest := slices.Max(counts)
 	band(p, opt.Tolerance, true, tallest)
 	p.X.Min, p.X.Max = lo, hi+width
 	p.Y.Min, p.Y.Max = 0, tallest*1.1
-	p.X.Tick.Marker, p.Y.Tick.Marker = wholeCents{}, wholeCounts{}
+	// The histogram is the row's narrowest panel: a few labels.
+	p.X.Tick.Marker, p.Y.Tick.Marker = wholeCents{most: 4}, wholeCounts{}
 	return p, nil
 }
