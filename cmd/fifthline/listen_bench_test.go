@@ -111,9 +111,9 @@ func measureMeter(b *testing.B, withDrone bool) {
 	}
 }
 
-// onsetLatencies reads the timing log and finds, for each tone, the first
-// loud frame and the first frame holding a note after the tone's onset.
-func onsetLatencies(b *testing.B, path string, played time.Time) (transport, detection, total []float64) {
+// timingRows are the FIFTHLINE_TIMING log's frame rows (its two heading
+// lines left out).
+func timingRows(b *testing.B, path string) [][]string {
 	f, err := os.Open(path)
 	if err != nil {
 		b.Fatal(err)
@@ -123,13 +123,20 @@ func onsetLatencies(b *testing.B, path string, played time.Time) (transport, det
 	if err != nil {
 		b.Fatal(err)
 	}
+	return recs[min(2, len(recs)):]
+}
+
+// onsetLatencies reads the timing log and finds, for each tone, the first
+// loud frame and the first frame holding a note after the tone's onset.
+func onsetLatencies(b *testing.B, path string, played time.Time) (transport, detection, total []float64) {
+	recs := timingRows(b, path)
 	type fr struct {
 		wall           time.Time
 		level          float64
 		holding, quiet bool
 	}
 	var frames []fr
-	for _, r := range recs[2:] {
+	for _, r := range recs {
 		ns, _ := strconv.ParseInt(r[0], 10, 64)
 		lvl, _ := strconv.ParseFloat(r[3], 64)
 		frames = append(frames, fr{wall: time.Unix(0, ns), level: lvl, holding: r[5] == "true"})

@@ -236,15 +236,7 @@ func measurePlayersLive(b *testing.B, meter bool) {
 // frame left the pipeline (total) and how long after the first loud frame
 // (detection), in ms.
 func playerLatencies(b *testing.B, path string, played time.Time, cycles int) (total, detection []float64) {
-	f, err := os.Open(path)
-	if err != nil {
-		b.Fatal(err)
-	}
-	defer f.Close()
-	recs, err := csv.NewReader(f).ReadAll()
-	if err != nil {
-		b.Fatal(err)
-	}
+	recs := timingRows(b, path)
 	type frame struct {
 		wall      time.Time
 		hz, level float64
@@ -252,7 +244,7 @@ func playerLatencies(b *testing.B, path string, played time.Time, cycles int) (t
 	}
 	names := strings.Split(cyclePlayers, ",")
 	frames := make([][]frame, len(names))
-	for _, r := range recs[2:] {
+	for _, r := range recs {
 		if p := slices.Index(names, r[7]); p >= 0 {
 			ns, _ := strconv.ParseInt(r[0], 10, 64)
 			hz, _ := strconv.ParseFloat(r[2], 64)
