@@ -35,7 +35,14 @@ demo: build
 
 # Everything CI checks: formatting, vet, the virtual microphone, the race-
 # enabled test suite (with its real PortAudio, PulseAudio, sox, aubio and
-# tmux paths).
+# tmux paths). Under -race, cmd/fifthline's long analyses of rendered takes
+# (runLong: the fluidsynth scales, legato runs, ensemble takes, voices
+# mixes, the sagging quartet) run the command built without the race
+# detector, which would only slow them some tenfold: an analysis is one
+# goroutine, and its one concurrent path, the journal's background fsync
+# (--log), stays raced by journal's tests and the shorter in-process analyze
+# tests (players_test, chordreport_test, recorded_test). Their checks are
+# the same either way; fluidsynth renders each take once per test binary.
 test: deps vet
 	@scripts/vmic-start
 	$(GO) test -race -count=1 -timeout 20m ./...

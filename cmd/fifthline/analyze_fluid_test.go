@@ -2,9 +2,6 @@ package main
 
 import (
 	"fmt"
-	"os"
-	"os/exec"
-	"path/filepath"
 	"strings"
 	"testing"
 
@@ -20,10 +17,8 @@ import (
 // good to about a cent and FluidR3's samples are tuned by ear, so only the
 // spelling (within ±50 ¢ in equal temperament at ISO 16's 440 Hz) is checked.
 func TestAnalyzeHearsEachNoteOfRenderedScales(t *testing.T) {
-	fluid, sf2 := fluidSynth(t)
 	scale := []string{"C", "D", "E", "F", "G", "A", "B", "C"}
 	steps := []int{0, 2, 4, 5, 7, 9, 11, 12}
-	dir := t.TempDir()
 	for _, in := range []struct {
 		name          string
 		program, base int // General MIDI program (0-based), MIDI key of the first C
@@ -41,14 +36,8 @@ func TestAnalyzeHearsEachNoteOfRenderedScales(t *testing.T) {
 				phrase = append(phrase, n)
 			}
 			name := fmt.Sprintf("%s-legato=%v", in.name, legato)
-			mid, wav := filepath.Join(dir, name+".mid"), filepath.Join(dir, name+".wav")
-			if err := os.WriteFile(mid, testsignal.MIDI(in.program, phrase), 0o644); err != nil {
-				t.Fatal(err)
-			}
-			if out, err := exec.Command(fluid, "-ni", "-q", "-g", "0.6", "-r", "48000", "-F", wav, sf2, mid).CombinedOutput(); err != nil {
-				t.Fatalf("fluidsynth: %v\n%s", err, out)
-			}
-			code, out, stderr := runCLI(t, "analyze", wav)
+			wav := fluidWAV(t, testsignal.MIDI(in.program, phrase), "-ni", "-q", "-g", "0.6", "-r", "48000")
+			code, out, stderr := runLong(t, "analyze", wav)
 			if code != 0 {
 				t.Fatalf("%s: exit %d: %s", name, code, stderr)
 			}

@@ -2,8 +2,6 @@ package main
 
 import (
 	"math"
-	"os"
-	"os/exec"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -21,11 +19,6 @@ import (
 // cello, 71 clarinet, 73 flute.
 func fluidChordTake(t *testing.T, bends [4]float64) (multi, mono string) {
 	t.Helper()
-	const sf2 = "/usr/share/sounds/sf2/FluidR3_GM.sf2"
-	fluid, err := exec.LookPath("fluidsynth")
-	if err != nil {
-		t.Fatalf("fluidsynth not found (make test installs it): %v", err)
-	}
 	dir := t.TempDir()
 	programs := []int{42, 71, 71, 73}
 	roots := []int{48, 53, 43, 48} // C3 F3 G2 C3
@@ -36,13 +29,8 @@ func fluidChordTake(t *testing.T, bends [4]float64) (multi, mono string) {
 			part.Notes = append(part.Notes, testsignal.TimedNote{Key: r + above, Start: 0.2 + 1.5*float64(i), Seconds: 1.2})
 		}
 		name := filepath.Join(dir, "part"+strconv.Itoa(p))
-		if err := os.WriteFile(name+".mid", testsignal.MIDIParts([]testsignal.MIDIPart{part}), 0o644); err != nil {
-			t.Fatal(err)
-		}
-		if out, err := exec.Command(fluid, "-ni", "-q", "-R", "0", "-C", "0", "-g", "0.5", "-r", "48000", "-F", name+".stereo.wav", sf2, name+".mid").CombinedOutput(); err != nil {
-			t.Fatalf("fluidsynth: %v\n%s", err, out)
-		}
-		soxTB(t, name+".stereo.wav", name+".wav", "remix", "1")
+		stereo := fluidWAV(t, testsignal.MIDIParts([]testsignal.MIDIPart{part}), "-ni", "-q", "-R", "0", "-C", "0", "-g", "0.5", "-r", "48000")
+		soxTB(t, stereo, name+".wav", "remix", "1")
 		dry = append(dry, name+".wav")
 	}
 	return soxMix(t, dir, dry)
@@ -72,7 +60,7 @@ func TestReportOfRenderedChords(t *testing.T) {
 	bentMulti, bentMono := fluidChordTake(t, bends)
 	roles := func(how ...string) string {
 		log := filepath.Join(t.TempDir(), "j.csv")
-		code, out, stderr := runCLI(t, append([]string{"analyze", "--chords", "--log", log}, how...)...)
+		code, out, stderr := runLong(t, append([]string{"analyze", "--chords", "--log", log}, how...)...)
 		if code != 0 {
 			t.Fatalf("%v: exit %d: %s", how, code, stderr)
 		}

@@ -104,7 +104,7 @@ func TestGroupDriftFollowsTheSagApartFromTheChords(t *testing.T) {
 	tableSummary(t, take)
 	log := filepath.Join(t.TempDir(), "rehearsal.csv")
 	for _, ref := range []string{"a4", "group"} {
-		code, out, stderr := runCLI(t, "analyze", "--players", "vc,vla,vl2,vl1", "--reference", ref, "--log", log, take)
+		code, out, stderr := runLong(t, "analyze", "--players", "vc,vla,vl2,vl1", "--reference", ref, "--log", log, take)
 		if code != 0 {
 			t.Fatalf("--reference %s: exit %d: %s", ref, code, stderr)
 		}
@@ -132,7 +132,7 @@ func TestGroupDriftFollowsTheSagApartFromTheChords(t *testing.T) {
 		}
 		t.Logf("--reference %s: drift within %.2f ¢ of the sag, cents within %.2f ¢", ref, worstDrift, worstCents)
 	}
-	code, out, stderr := runCLI(t, "analyze", "--players", "vc,vla,vl2,vl1", "--chords", take)
+	code, out, stderr := runLong(t, "analyze", "--players", "vc,vla,vl2,vl1", "--chords", take)
 	if code != 0 {
 		t.Fatalf("--chords: exit %d: %s", code, stderr)
 	}
@@ -196,7 +196,7 @@ func reportedDrift(t *testing.T, log string) {
 // 0.5 ¢.
 func tableSummary(t *testing.T, take string) {
 	t.Helper()
-	code, out, stderr := runCLI(t, "analyze", "--players", "vc,vla,vl2,vl1", "--format", "table", take)
+	code, out, stderr := runLong(t, "analyze", "--players", "vc,vla,vl2,vl1", "--format", "table", take)
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
@@ -240,6 +240,7 @@ func TestReferenceUsageErrors(t *testing.T) {
 // sag. start_s counts from the start of capture: the take's first note
 // gives the offset.
 func TestListenPlayersDriftLive(t *testing.T) {
+	t.Parallel()
 	out := playQuartetLive(t, soxSaggingQuartet(t), "--players", "vc,vla,vl2,vl1", "--reference", "group")
 	_, rows := readCSV(t, out)
 	if len(rows) < 28 {

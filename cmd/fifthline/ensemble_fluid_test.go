@@ -62,7 +62,7 @@ func TestAnalyzePlayersReadsRenderedTakes(t *testing.T) {
 		t.Run(take.name, func(t *testing.T) {
 			r := renderTake(t, take)
 			lone := r.loneNotes(t)
-			code, out, stderr := runCLI(t, "analyze", "--key", r.key, "--players", strings.Join(r.players, ","), r.wet)
+			code, out, stderr := runLong(t, "analyze", "--key", r.key, "--players", strings.Join(r.players, ","), r.wet)
 			if code != 0 {
 				t.Fatalf("exit %d: %s", code, stderr)
 			}
@@ -81,7 +81,7 @@ type chordRow struct {
 
 func readChords(t *testing.T, r renderedTake, path string) []chordRow {
 	t.Helper()
-	code, out, stderr := runCLI(t, "analyze", "--key", r.key, "--players", strings.Join(r.players, ","), "--chords", path)
+	code, out, stderr := runLong(t, "analyze", "--key", r.key, "--players", strings.Join(r.players, ","), "--chords", path)
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
@@ -151,7 +151,7 @@ func checkJustChord(t *testing.T, r renderedTake, chord chordRow) {
 	offset := func(i int) float64 {
 		m := chord.members[r.players[i]]
 		from, to := parseF(m["start_s"])+harmony.Edge, parseF(m["end_s"])-harmony.Edge
-		code, out, stderr := runCLI(t, "analyze", "--key", r.key, "--frames", r.lone[i])
+		code, out, stderr := runLong(t, "analyze", "--key", r.key, "--frames", r.lone[i])
 		if code != 0 {
 			t.Fatalf("%s alone: exit %d: %s", r.players[i], code, stderr)
 		}
@@ -183,6 +183,7 @@ func checkJustChord(t *testing.T, r renderedTake, chord chordRow) {
 // the input) and heard by listen --plain --players: every note found once
 // by its player, spelled, and within 1 ¢ of its part's reading alone.
 func TestListenPlayersHearsRenderedWindsLive(t *testing.T) {
+	t.Parallel()
 	r := renderTake(t, ensembleTakes[0])
 	lone := r.loneNotes(t)
 	out := playQuartetLive(t, r.wet, "--key", r.key, "--players", strings.Join(r.players, ","))

@@ -1,8 +1,8 @@
 package main
 
 import (
+	"fmt"
 	"math"
-	"os"
 	"os/exec"
 	"path/filepath"
 	"strconv"
@@ -117,8 +117,11 @@ type renderedTake struct {
 // with and without bleed (sox).
 func renderTake(t *testing.T, take ensembleTake) renderedTake {
 	t.Helper()
-	fluid, sf2 := fluidSynth(t)
-	dir := t.TempDir()
+	// Shared by the tests that read the same take (sharedOnce).
+	return sharedOnce(t, fmt.Sprintf("ensemble take %#v", take), func(dir string) renderedTake { return renderTakeIn(t, dir, take) })
+}
+
+func renderTakeIn(t *testing.T, dir string, take ensembleTake) renderedTake {
 	r := renderedTake{ensembleTake: take, wet: filepath.Join(dir, "wet.wav"), dry: filepath.Join(dir, "dry.wav")}
 	soxRun := func(args ...string) {
 		if out, err := exec.Command("sox", args...).CombinedOutput(); err != nil {
@@ -128,13 +131,8 @@ func renderTake(t *testing.T, take ensembleTake) renderedTake {
 	f := func(x float64) string { return strconv.FormatFloat(x, 'f', 4, 64) }
 	for i, p := range take.parts {
 		name := filepath.Join(dir, take.players[i])
-		if err := os.WriteFile(name+".mid", testsignal.MIDIParts([]testsignal.MIDIPart{p}), 0o644); err != nil {
-			t.Fatal(err)
-		}
-		if out, err := exec.Command(fluid, "-ni", "-q", "-R", "0", "-C", "0", "-g", "0.5", "-r", "48000", "-F", name+".raw.wav", sf2, name+".mid").CombinedOutput(); err != nil {
-			t.Fatalf("fluidsynth: %v\n%s", err, out)
-		}
-		soxRun(name+".raw.wav", "-b", "24", "-c", "1", name+".wav", "pad", f(leadIn), "0.3")
+		raw := fluidWAV(t, testsignal.MIDIParts([]testsignal.MIDIPart{p}), "-ni", "-q", "-R", "0", "-C", "0", "-g", "0.5", "-r", "48000")
+		soxRun(raw, "-b", "24", "-c", "1", name+".wav", "pad", f(leadIn), "0.3")
 		r.lone = append(r.lone, name+".wav")
 	}
 	// Channel c of the wet take is part c plus every other part o, bleedDB
@@ -167,7 +165,7 @@ func (r renderedTake) loneNotes(t *testing.T) [][]map[string]string {
 	t.Helper()
 	var all [][]map[string]string
 	for i, path := range r.lone {
-		code, out, stderr := runCLI(t, "analyze", "--key", r.key, path)
+		code, out, stderr := runLong(t, "analyze", "--key", r.key, path)
 		if code != 0 {
 			t.Fatalf("%s %s alone: exit %d: %s", r.name, r.players[i], code, stderr)
 		}

@@ -20,23 +20,11 @@ import (
 // take every other format is converted from.
 func violinTake(t *testing.T) string {
 	t.Helper()
-	const sf2 = "/usr/share/sounds/sf2/FluidR3_GM.sf2"
-	if _, err := os.Stat(sf2); err != nil {
-		t.Fatalf("FluidR3 soundfont missing (make test installs fluid-soundfont-gm): %v", err)
-	}
-	dir := t.TempDir()
 	var phrase []testsignal.MIDINote
 	for _, key := range []int{67, 74, 70, 66, 67, 62} { // G4 D5 B♭4 F♯4 G4 D4
 		phrase = append(phrase, testsignal.MIDINote{Key: key, Seconds: 0.6, Rest: 0.15})
 	}
-	mid, wav := filepath.Join(dir, "take.mid"), filepath.Join(dir, "take.wav")
-	if err := os.WriteFile(mid, testsignal.MIDI(40, phrase), 0o644); err != nil {
-		t.Fatal(err)
-	}
-	if out, err := exec.Command("fluidsynth", "-ni", "-q", "-g", "0.6", "-r", "48000", "-F", wav, sf2, mid).CombinedOutput(); err != nil {
-		t.Fatalf("fluidsynth (make test installs it): %v\n%s", err, out)
-	}
-	return wav
+	return fluidWAV(t, testsignal.MIDI(40, phrase), "-ni", "-q", "-g", "0.6", "-r", "48000")
 }
 
 // heldNotes is what the analysis hears in a recording, in G minor.

@@ -5,7 +5,6 @@ import (
 	"math"
 	"os"
 	"os/exec"
-	"path/filepath"
 	"strconv"
 	"strings"
 	"testing"
@@ -38,15 +37,8 @@ func withPhrase(t *testing.T, tool []byte, program int, phrase []testsignal.MIDI
 // `period` seconds apart: the longest held note starting near each onset.
 func renderAndMeasure(t *testing.T, name string, mid []byte, notes int, period float64) []float64 {
 	t.Helper()
-	dir := t.TempDir()
-	midPath, wav := filepath.Join(dir, name+".mid"), filepath.Join(dir, name+".wav")
-	if err := os.WriteFile(midPath, mid, 0o644); err != nil {
-		t.Fatal(err)
-	}
-	if out, err := exec.Command("fluidsynth", "-ni", "-q", "-R", "0", "-C", "0", "-g", "0.6", "-r", "48000", "-F", wav, fluidSoundfont, midPath).CombinedOutput(); err != nil {
-		t.Fatalf("fluidsynth: %v\n%s", err, out)
-	}
-	code, out, stderr := runCLI(t, "analyze", "--format", "csv", wav)
+	wav := fluidWAV(t, mid, "-ni", "-q", "-R", "0", "-C", "0", "-g", "0.6", "-r", "48000")
+	code, out, stderr := runLong(t, "analyze", "--format", "csv", wav)
 	if code != 0 {
 		t.Fatalf("analyze %s: exit %d: %s", name, code, stderr)
 	}

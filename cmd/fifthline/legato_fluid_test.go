@@ -61,18 +61,12 @@ func fluidSynth(t testing.TB) (fluid, sf2 string) {
 // off unless reverb) and pads it with leadIn seconds of silence (sox).
 func fluidRender(t testing.TB, dir, name string, program int, phrase []testsignal.MIDINote, reverb bool) string {
 	t.Helper()
-	fluid, sf2 := fluidSynth(t)
-	mid, raw, wav := filepath.Join(dir, name+".mid"), filepath.Join(dir, name+".raw.wav"), filepath.Join(dir, name+".wav")
-	if err := os.WriteFile(mid, testsignal.MIDI(program, phrase), 0o644); err != nil {
-		t.Fatal(err)
-	}
+	wav := filepath.Join(dir, name+".wav")
 	args := []string{"-ni", "-q", "-g", "0.6", "-r", "48000"}
 	if !reverb {
 		args = append(args, "-R", "0", "-C", "0")
 	}
-	if out, err := exec.Command(fluid, append(args, "-F", raw, sf2, mid)...).CombinedOutput(); err != nil {
-		t.Fatalf("fluidsynth: %v\n%s", err, out)
-	}
+	raw := fluidWAV(t, testsignal.MIDI(program, phrase), args...)
 	if out, err := exec.Command("sox", raw, wav, "pad", strconv.FormatFloat(leadIn, 'f', 3, 64), "0").CombinedOutput(); err != nil {
 		t.Fatalf("sox: %v\n%s", err, out)
 	}
@@ -131,7 +125,7 @@ func renderedPitch(t *testing.T, dir string, program int, keys []int) map[float6
 		}
 	}
 	wav := fluidRender(t, dir, fmt.Sprintf("alone-%d", program), program, phrase, false)
-	code, out, stderr := runCLI(t, "analyze", "--frames", wav)
+	code, out, stderr := runLong(t, "analyze", "--frames", wav)
 	if code != 0 {
 		t.Fatalf("analyze --frames: exit %d: %s", code, stderr)
 	}
@@ -227,10 +221,14 @@ type legatoRun struct {
 	truth     []soundedPitch // each note's
 }
 
-// renderLegatoRuns renders every run at every speed with its truth.
+// renderLegatoRuns renders every run at every speed with its truth, once
+// for the tests that read them (sharedOnce).
 func renderLegatoRuns(t *testing.T) []legatoRun {
 	t.Helper()
-	dir := t.TempDir()
+	return sharedOnce(t, "legato runs", func(dir string) []legatoRun { return renderLegatoRunsIn(t, dir) })
+}
+
+func renderLegatoRunsIn(t *testing.T, dir string) []legatoRun {
 	var runs []legatoRun
 	for _, in := range legatoRuns {
 		truth := renderedPitch(t, dir, in.program, in.keys)
@@ -297,7 +295,7 @@ func checkLegato(t *testing.T, how string, run legatoRun, rows []map[string]stri
 
 func TestAnalyzeHearsEveryNoteOfQuickLegatoRuns(t *testing.T) {
 	for _, run := range renderLegatoRuns(t) {
-		code, out, stderr := runCLI(t, "analyze", run.wav)
+		code, out, stderr := runLong(t, "analyze", run.wav)
 		if code != 0 {
 			t.Fatalf("%s: exit %d: %s", run.name, code, stderr)
 		}

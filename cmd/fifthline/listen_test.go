@@ -35,6 +35,7 @@ func TestMain(m *testing.M) {
 	}
 	code := m.Run()
 	os.RemoveAll(config)
+	removeShared()
 	if built.dir != "" {
 		os.RemoveAll(built.dir)
 	}

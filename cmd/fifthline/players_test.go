@@ -211,6 +211,7 @@ func TestAnalyzePlayersUsageErrors(t *testing.T) {
 // the test holds is every player's notes spelled and within 1 ¢ and the
 // resting violin silent until she enters.
 func TestListenPlayersHearsTheQuartetLive(t *testing.T) {
+	t.Parallel()
 	out := playQuartetLive(t, soxQuartet(t), "--players", "vc,vla,vl2,vl1")
 	header, rows := readCSV(t, out)
 	if strings.Join(header[len(header)-2:], ",") != "player,channel" {
@@ -234,11 +235,11 @@ func TestListenPlayersHearsTheQuartetLive(t *testing.T) {
 // playQuartetLive plays a 4-channel take into a four-channel null sink of
 // the test's own (its monitor the input) while listen --plain runs with
 // args, stops it with Ctrl-C once the take has played and returns what it
-// wrote.
+// wrote. It leaves the environment alone, so its tests run in parallel.
 func playQuartetLive(t *testing.T, take string, args ...string) string {
 	t.Helper()
-	mic := vmic.IsolateChannels(t, "front-left", "front-right", "rear-left", "rear-right")
-	wait, proc := startPlainProcess(t, nil, append(args, "--duration", "120s")...)
+	mic := vmic.PrivateChannels(t, "front-left", "front-right", "rear-left", "rear-right")
+	wait, proc := startPlainProcess(t, mic.Env(), append(args, "--duration", "120s")...)
 	if err := mic.PlayChannels(take)(); err != nil { // returns once the take has played
 		t.Fatal(err)
 	}

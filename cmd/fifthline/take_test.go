@@ -4,7 +4,6 @@ import (
 	"bytes"
 	"fmt"
 	"math"
-	"os"
 	"os/exec"
 	"path/filepath"
 	"strings"
@@ -146,20 +145,13 @@ func TestAnalyzeReadsTheFoldersTuning(t *testing.T) {
 // A4 ≈ 415 Hz, within the cent or so to which fluidsynth and FluidR3's
 // samples are tuned (TestAnalyzeHearsEachNoteOfRenderedScales).
 func TestAForgottenReferenceIsNoticedOnARenderedViolin(t *testing.T) {
-	const sf2 = "/usr/share/sounds/sf2/FluidR3_GM.sf2" // fluid-soundfont-gm
-	dir := t.TempDir()
 	var phrase []testsignal.MIDINote
 	for _, st := range []int{0, 2, 4, 5, 7, 9, 11, 12} {
 		// MIDI key 67 is G4 (MIDI 1.0 with scientific pitch notation; common practice).
 		phrase = append(phrase, testsignal.MIDINote{Key: 67 + st, Seconds: 0.5, Rest: 0.15})
 	}
-	mid, at440, at415 := filepath.Join(dir, "g.mid"), filepath.Join(dir, "g440.wav"), filepath.Join(dir, "g415.wav")
-	if err := os.WriteFile(mid, testsignal.MIDI(40, phrase), 0o644); err != nil {
-		t.Fatal(err)
-	}
-	if out, err := exec.Command("fluidsynth", "-ni", "-q", "-g", "0.6", "-r", "48000", "-F", at440, sf2, mid).CombinedOutput(); err != nil {
-		t.Fatalf("fluidsynth (make test installs it): %v\n%s", err, out)
-	}
+	at440 := fluidWAV(t, testsignal.MIDI(40, phrase), "-ni", "-q", "-g", "0.6", "-r", "48000")
+	at415 := filepath.Join(t.TempDir(), "g415.wav")
 	if out, err := exec.Command("sox", at440, at415, "speed", fmt.Sprint(415.0/440)).CombinedOutput(); err != nil {
 		t.Fatalf("sox: %v\n%s", err, out)
 	}

@@ -38,7 +38,7 @@ func TestVoicesOfRenderedProgression(t *testing.T) {
 	dir := t.TempDir()
 	read := func(name string) map[string]map[string]string {
 		wav := renderMIDI(t, dir, name, testsignal.MIDIParts(parts))
-		code, out, stderr := runCLI(t, "analyze", "--voices", "3", "--chords", wav)
+		code, out, stderr := runLong(t, "analyze", "--voices", "3", "--chords", wav)
 		if code != 0 {
 			t.Fatalf("exit %d: %s", code, stderr)
 		}

@@ -3,7 +3,6 @@ package main
 import (
 	"fmt"
 	"math"
-	"os"
 	"os/exec"
 	"path/filepath"
 	"slices"
@@ -137,7 +136,7 @@ func hearScene(t *testing.T, sc scene) (got figures) {
 	alone := make([][]float64, len(sc.parts)) // --voices on the lone part: cents from its truth
 	for p, part := range sc.parts {
 		wav := renderMIDI(t, dir, fmt.Sprintf("part%d", p), testsignal.MIDIParts([]testsignal.MIDIPart{part}))
-		code, out, stderr := runCLI(t, "analyze", wav)
+		code, out, stderr := runLong(t, "analyze", wav)
 		if code != 0 {
 			t.Fatalf("%s part %d: exit %d: %s", sc.name, p, code, stderr)
 		}
@@ -162,7 +161,7 @@ func hearScene(t *testing.T, sc scene) (got figures) {
 	}
 	mix := noisyMono(t, dir, renderMIDI(t, dir, "all", testsignal.MIDIParts(sc.parts)), sc.snr)
 
-	code, out, stderr := runCLI(t, "analyze", "--voices", "auto", mix)
+	code, out, stderr := runLong(t, "analyze", "--voices", "auto", mix)
 	if code != 0 {
 		t.Fatalf("%s: exit %d: %s", sc.name, code, stderr)
 	}
@@ -211,7 +210,7 @@ func hearScene(t *testing.T, sc scene) (got figures) {
 // of the sample, not the mixture's.
 func voicesAlone(t *testing.T, wav string, part testsignal.MIDIPart, truth []float64) []float64 {
 	t.Helper()
-	code, out, stderr := runCLI(t, "analyze", "--voices", "auto", wav)
+	code, out, stderr := runLong(t, "analyze", "--voices", "auto", wav)
 	if code != 0 {
 		t.Fatalf("%s --voices: exit %d: %s", wav, code, stderr)
 	}
@@ -259,7 +258,7 @@ func partNear(sc scene, truth [][]float64, r map[string]string) (int, int) {
 // parts' truths make.
 func justReadings(t *testing.T, sc scene, mix string, truth [][]float64) (worst float64) {
 	t.Helper()
-	code, out, stderr := runCLI(t, "analyze", "--voices", "auto", "--chords", mix)
+	code, out, stderr := runLong(t, "analyze", "--voices", "auto", "--chords", mix)
 	if code != 0 {
 		t.Fatalf("%s --chords: exit %d: %s", sc.name, code, stderr)
 	}
@@ -305,17 +304,11 @@ func justReadings(t *testing.T, sc scene, mix string, truth [][]float64) (worst 
 func num(r map[string]string, k string) float64 { v, _ := strconv.ParseFloat(r[k], 64); return v }
 
 // renderMIDI renders a MIDI file with fluidsynth and FluidR3 at 44.1 kHz,
-// reverb and chorus off, and returns the WAV's path.
-func renderMIDI(t *testing.T, dir, name string, mid []byte) string {
+// reverb and chorus off, and returns the WAV's path (a shared take,
+// fluidWAV: the folder and name it once took are not needed).
+func renderMIDI(t *testing.T, _, _ string, mid []byte) string {
 	t.Helper()
-	midPath, wav := filepath.Join(dir, name+".mid"), filepath.Join(dir, name+".wav")
-	if err := os.WriteFile(midPath, mid, 0o644); err != nil {
-		t.Fatal(err)
-	}
-	if out, err := exec.Command("fluidsynth", "-ni", "-q", "-R", "0", "-C", "0", "-g", "0.5", "-r", "44100", "-F", wav, fluidSoundfont, midPath).CombinedOutput(); err != nil {
-		t.Fatalf("fluidsynth: %v\n%s", err, out)
-	}
-	return wav
+	return fluidWAV(t, mid, "-ni", "-q", "-R", "0", "-C", "0", "-g", "0.5", "-r", "44100")
 }
 
 // noisyMono sums a stereo render onto one channel and adds sox's white

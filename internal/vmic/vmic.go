@@ -85,7 +85,7 @@ var privateCount atomic.Int64
 // and Record follow it. Not for parallel tests: it sets the environment.
 func Isolate(t testing.TB) *Private {
 	t.Helper()
-	return isolate(t)
+	return isolate(t, private(t))
 }
 
 // IsolateChannels is Isolate with a sink of several channels, named in
@@ -94,12 +94,34 @@ func Isolate(t testing.TB) *Private {
 // a multichannel interface's inputs.
 func IsolateChannels(t testing.TB, channelMap ...string) *Private {
 	t.Helper()
-	p := isolate(t, fmt.Sprintf("channels=%d", len(channelMap)), "channel_map="+strings.Join(channelMap, ","))
+	return isolate(t, PrivateChannels(t, channelMap...))
+}
+
+// isolate makes p this process's default sink and source until the test
+// ends.
+func isolate(t testing.TB, p *Private) *Private {
+	t.Setenv("PULSE_SINK", p.Sink)
+	t.Setenv("PULSE_SOURCE", p.Source)
+	return p
+}
+
+// PrivateChannels is IsolateChannels for parallel tests: it leaves this
+// process's environment alone, and the test hands Env to the processes
+// that are to use the sink.
+func PrivateChannels(t testing.TB, channelMap ...string) *Private {
+	t.Helper()
+	p := private(t, fmt.Sprintf("channels=%d", len(channelMap)), "channel_map="+strings.Join(channelMap, ","))
 	p.ChannelMap = channelMap
 	return p
 }
 
-func isolate(t testing.TB, args ...string) *Private {
+// Env makes a process's default sink and source the private sink and its
+// monitor (for exec.Cmd.Env, after os.Environ()).
+func (p *Private) Env() []string {
+	return []string{"PULSE_SINK=" + p.Sink, "PULSE_SOURCE=" + p.Source}
+}
+
+func private(t testing.TB, args ...string) *Private {
 	t.Helper()
 	Ensure(t)
 	p := &Private{t: t, Sink: fmt.Sprintf("%s_%d_%d", Sink, os.Getpid(), privateCount.Add(1))}
@@ -107,8 +129,6 @@ func isolate(t testing.TB, args ...string) *Private {
 	load := append([]string{"load-module", "module-null-sink", "sink_name=" + p.Sink, "rate=48000"}, args...)
 	p.module = strings.TrimSpace(pactl(t, load...))
 	t.Cleanup(p.Remove)
-	t.Setenv("PULSE_SINK", p.Sink)
-	t.Setenv("PULSE_SOURCE", p.Source)
 	return p
 }
 
