@@ -36,13 +36,17 @@ demo: build
 # Everything CI checks: formatting, vet, the virtual microphone, the race-
 # enabled test suite (with its real PortAudio, PulseAudio, sox, aubio and
 # tmux paths). Under -race, cmd/fifthline's long analyses of rendered takes
-# (runLong: the fluidsynth scales, legato runs, ensemble takes, voices
-# mixes, the sagging quartet) run the command built without the race
-# detector, which would only slow them some tenfold: an analysis is one
-# goroutine, and its one concurrent path, the journal's background fsync
-# (--log), stays raced by journal's tests and the shorter in-process analyze
-# tests (players_test, chordreport_test, recorded_test). Their checks are
-# the same either way; fluidsynth renders each take once per test binary.
+# (runLong in render_test.go: the fluidsynth scales and keyboard, legato
+# runs, ensemble takes, voices mixes, the sagging quartet, the chord
+# reports) run the command built without the race detector, which made them
+# five times slower and finds nothing there: an analysis is one goroutine.
+# Its one concurrent path, the journal's background fsync (--log), stays
+# raced by journal's own tests and the in-process analyze tests
+# (TestAnalyzePlayersReadsEachFromTheirOwnChannel, recorded_test,
+# report_test), as do --players, --voices and --chords on short sox takes.
+# The checks are the same either way. fluidsynth renders each take once per
+# test binary, and the tests that wait on those analyses or on sound playing
+# in real time run in parallel.
 test: deps vet
 	@scripts/vmic-start
 	$(GO) test -race -count=1 -timeout 20m ./...

@@ -17,6 +17,7 @@ import (
 // good to about a cent and FluidR3's samples are tuned by ear, so only the
 // spelling (within ±50 ¢ in equal temperament at ISO 16's 440 Hz) is checked.
 func TestAnalyzeHearsEachNoteOfRenderedScales(t *testing.T) {
+	t.Parallel()
 	scale := []string{"C", "D", "E", "F", "G", "A", "B", "C"}
 	steps := []int{0, 2, 4, 5, 7, 9, 11, 12}
 	for _, in := range []struct {

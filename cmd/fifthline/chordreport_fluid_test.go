@@ -55,6 +55,7 @@ func fluidChordTake(t *testing.T, bends [4]float64) (multi, mono string) {
 // then has the three chords words need, so the pooled mean's sign is
 // checked instead.
 func TestReportOfRenderedChords(t *testing.T) {
+	t.Parallel()
 	bends := [4]float64{0, -0.04, -7.69, 0}
 	plainMulti, plainMono := fluidChordTake(t, [4]float64{})
 	bentMulti, bentMono := fluidChordTake(t, bends)

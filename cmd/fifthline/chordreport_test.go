@@ -81,6 +81,7 @@ func roleOf(t *testing.T, out, who, member string) (count int, mean float64, wor
 // is where it was played, within 1 ¢, and said in words (a third above
 // just is sharp; a fifth whose upper note is flat of 3/2 is narrow).
 func TestReportSaysWhereEachPlayerSitsInTheChords(t *testing.T) {
+	t.Parallel()
 	multi, mono := chordRoleTake(t)
 	for _, c := range []struct {
 		how                 []string
@@ -93,7 +94,7 @@ func TestReportSaysWhereEachPlayerSitsInTheChords(t *testing.T) {
 		{[]string{"--voices", "4", mono}, "voice 2", "voice 3", ""},
 	} {
 		log := filepath.Join(t.TempDir(), "rehearsal.csv")
-		code, out, stderr := runCLI(t, append([]string{"analyze", "--chords", "--log", log, "--recorded", "2026-11-24 19:30"}, c.how...)...)
+		code, out, stderr := runLong(t, append([]string{"analyze", "--chords", "--log", log, "--recorded", "2026-11-24 19:30"}, c.how...)...)
 		if code != 0 {
 			t.Fatalf("%v: exit %d: %s", c.how[0], code, stderr)
 		}

@@ -100,6 +100,7 @@ var quartetPlayers = map[string]int{"vc": 0, "vla": 1, "vl2": 2, "vl1": 3}
 // are against the moved reference, so only the chords' own just tuning
 // remains in them (within 1 ¢), and the column says how far it moved.
 func TestGroupDriftFollowsTheSagApartFromTheChords(t *testing.T) {
+	t.Parallel()
 	take := soxSaggingQuartet(t)
 	tableSummary(t, take)
 	log := filepath.Join(t.TempDir(), "rehearsal.csv")

@@ -58,6 +58,7 @@ func parseF(s string) float64 {
 // analyze --players reads every player of each rendered take from their
 // own channel as they read alone.
 func TestAnalyzePlayersReadsRenderedTakes(t *testing.T) {
+	t.Parallel()
 	for _, take := range ensembleTakes {
 		t.Run(take.name, func(t *testing.T) {
 			r := renderTake(t, take)
@@ -102,6 +103,7 @@ func readChords(t *testing.T, r renderedTake, path string) []chordRow {
 // without bleed (the held-out check's figure); the chord written just
 // reads just within the samples' own tuning, as the parts alone read it.
 func TestAnalyzePlayersChordsOfRenderedTakes(t *testing.T) {
+	t.Parallel()
 	for _, take := range ensembleTakes {
 		t.Run(take.name, func(t *testing.T) {
 			r := renderTake(t, take)

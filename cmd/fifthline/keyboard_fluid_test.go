@@ -78,6 +78,7 @@ func renderAndMeasure(t *testing.T, name string, mid []byte, notes int, period f
 // (the fraction is dropped), so a key lands up to 1 ¢ below its offset:
 // measured, between 0.2 and 1.1 ¢ below.
 func TestKeyboardTuningPlaysInFluidsynth(t *testing.T) {
+	t.Parallel()
 	if _, err := exec.LookPath("fluidsynth"); err != nil {
 		t.Fatalf("fluidsynth not found (make test installs it): %v", err)
 	}

@@ -294,6 +294,7 @@ func checkLegato(t *testing.T, how string, run legatoRun, rows []map[string]stri
 }
 
 func TestAnalyzeHearsEveryNoteOfQuickLegatoRuns(t *testing.T) {
+	t.Parallel()
 	for _, run := range renderLegatoRuns(t) {
 		code, out, stderr := runLong(t, "analyze", run.wav)
 		if code != 0 {

@@ -257,9 +257,10 @@ func playQuartetLive(t *testing.T, take string, args ...string) string {
 // JSON rows are the CSV's columns, typed: numbers as numbers, the player
 // and channel with every note, the player with every chord member.
 func TestAnalyzePlayersJSON(t *testing.T) {
+	t.Parallel()
 	path := soxQuartet(t)
 	for _, args := range [][]string{{}, {"--chords"}} {
-		code, out, stderr := runCLI(t, append([]string{"analyze", "--players", "vc,vla,vl2,vl1", "--format", "json"}, append(args, path)...)...)
+		code, out, stderr := runLong(t, append([]string{"analyze", "--players", "vc,vla,vl2,vl1", "--format", "json"}, append(args, path)...)...)
 		if code != 0 {
 			t.Fatalf("exit %d: %s", code, stderr)
 		}

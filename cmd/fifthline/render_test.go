@@ -98,11 +98,11 @@ func fluidWAV(t testing.TB, mid []byte, options ...string) string {
 
 // runLong is runCLI for the long analyses of rendered takes, whose checks
 // are the same either way. Under the race detector it runs the built
-// command (fifthlineBinary, built without it) instead, at full speed: the
-// race detector finds nothing in analyze's single goroutine, and the one
-// concurrent path of an analysis, the journal's background fsync (--log),
-// is raced by the shorter analyze tests that call runCLI (players_test,
-// chordreport_test, recorded_test) and by journal's own tests.
+// command (fifthlineBinary, built without it) instead, at full speed: an
+// analysis is one goroutine, where the race detector finds nothing. Its one
+// concurrent path, the journal's background fsync (--log), stays raced by
+// the analyze tests that call runCLI and by journal's own tests (see the
+// Makefile's test target).
 func runLong(t *testing.T, args ...string) (code int, stdout, stderr string) {
 	t.Helper()
 	if !raceDetector {

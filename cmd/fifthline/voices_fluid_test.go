@@ -22,6 +22,7 @@ import (
 // render than the other costs about a cent). Each chord must be named and
 // its members spelled.
 func TestVoicesOfRenderedProgression(t *testing.T) {
+	t.Parallel()
 	if _, err := exec.LookPath("fluidsynth"); err != nil {
 		t.Fatalf("fluidsynth not found (make test installs it): %v", err)
 	}

@@ -33,6 +33,7 @@ import (
 // the truths make; phantom notes (heard, but no part's) ≤ 10 %. A scene
 // that falls short of them today is held to what it reaches, and says so.
 func TestVoicesOfRenderedEnsembles(t *testing.T) {
+	t.Parallel()
 	if _, err := exec.LookPath("fluidsynth"); err != nil {
 		t.Fatalf("fluidsynth not found (make test installs it): %v", err)
 	}
