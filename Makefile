@@ -39,7 +39,8 @@ demo: build
 # (runLong in render_test.go: the fluidsynth scales and keyboard, legato
 # runs, ensemble takes, voices mixes, the sagging quartet, the chord
 # reports) run the command built without the race detector, which made them
-# five times slower and finds nothing there: an analysis is one goroutine.
+# eight to ten times slower (analyze --players on a 16 s quartet: 30 s, not
+# 2.9 s) and finds nothing there: an analysis is one goroutine.
 # Its one concurrent path, the journal's background fsync (--log), stays
 # raced by journal's own tests and the in-process analyze tests
 # (TestAnalyzePlayersReadsEachFromTheirOwnChannel, recorded_test,
