@@ -62,7 +62,7 @@ func TestAnalyzePlayersReadsRenderedTakes(t *testing.T) {
 		t.Run(take.name, func(t *testing.T) {
 			r := renderTake(t, take)
 			lone := r.loneNotes(t)
-			code, out, stderr := runCLI(t, "analyze", "--key", r.key, "--players", strings.Join(r.players, ","), r.wet)
+			code, out, stderr := runCLI(t, append(append([]string{"analyze"}, r.musical()...), "--players", strings.Join(r.players, ","), r.wet)...)
 			if code != 0 {
 				t.Fatalf("exit %d: %s", code, stderr)
 			}
@@ -81,7 +81,7 @@ type chordRow struct {
 
 func readChords(t *testing.T, r renderedTake, path string) []chordRow {
 	t.Helper()
-	code, out, stderr := runCLI(t, "analyze", "--key", r.key, "--players", strings.Join(r.players, ","), "--chords", path)
+	code, out, stderr := runCLI(t, append(append([]string{"analyze"}, r.musical()...), "--players", strings.Join(r.players, ","), "--chords", path)...)
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
@@ -150,20 +150,7 @@ func checkJustChord(t *testing.T, r renderedTake, chord chordRow) {
 	t.Helper()
 	offset := func(i int) float64 {
 		m := chord.members[r.players[i]]
-		from, to := parseF(m["start_s"])+harmony.Edge, parseF(m["end_s"])-harmony.Edge
-		code, out, stderr := runCLI(t, "analyze", "--key", r.key, "--frames", r.lone[i])
-		if code != 0 {
-			t.Fatalf("%s alone: exit %d: %s", r.players[i], code, stderr)
-		}
-		_, rows := readCSV(t, out)
-		sum, n := 0.0, 0
-		for _, f := range rows {
-			if at := parseF(f["time_s"]); at >= from && at <= to && parseF(f["hz"]) > 0 {
-				sum += math.Log2(parseF(f["hz"]))
-				n++
-			}
-		}
-		return testsignal.Cents(math.Exp2(sum/float64(max(n, 1))), r.asked(i, len(r.parts[i].Notes)-1))
+		return testsignal.Cents(r.loneOver(t, i, parseF(m["start_s"])+harmony.Edge, parseF(m["end_s"])-harmony.Edge), r.asked(i, len(r.parts[i].Notes)-1))
 	}
 	for i, p := range r.players {
 		m, ok := chord.members[p]
@@ -178,6 +165,29 @@ func checkJustChord(t *testing.T, r renderedTake, chord chordRow) {
 	}
 }
 
+// loneOver is the pitch part i alone holds from one time to another: the
+// geometric mean of its frames there (read once per part).
+func (r renderedTake) loneOver(t *testing.T, i int, from, to float64) float64 {
+	t.Helper()
+	rows, ok := r.frames[i]
+	if !ok {
+		code, out, stderr := runCLI(t, append(append([]string{"analyze"}, r.musical()...), "--frames", r.lone[i])...)
+		if code != 0 {
+			t.Fatalf("%s alone: exit %d: %s", r.players[i], code, stderr)
+		}
+		_, rows = readCSV(t, out)
+		r.frames[i] = rows
+	}
+	sum, n := 0.0, 0
+	for _, f := range rows {
+		if at := parseF(f["time_s"]); at >= from && at <= to && parseF(f["hz"]) > 0 {
+			sum += math.Log2(parseF(f["hz"]))
+			n++
+		}
+	}
+	return math.Exp2(sum / float64(max(n, 1)))
+}
+
 // The wind quartet played live into a four-channel interface (a
 // PulseAudio null sink of four channels of this test's own, its monitor
 // the input) and heard by listen --plain --players: every note found once
@@ -185,7 +195,7 @@ func checkJustChord(t *testing.T, r renderedTake, chord chordRow) {
 func TestListenPlayersHearsRenderedWindsLive(t *testing.T) {
 	r := renderTake(t, ensembleTakes[0])
 	lone := r.loneNotes(t)
-	out := playQuartetLive(t, r.wet, "--key", r.key, "--players", strings.Join(r.players, ","))
+	out := playQuartetLive(t, r.wet, append(r.musical(), "--players", strings.Join(r.players, ","))...)
 	_, rows := readCSV(t, out)
 	checkPlayerNotes(t, "listen", r, lone, rows, false)
 	if t.Failed() {

@@ -27,7 +27,8 @@ import (
 // FluidR3's samples carry their own tuning (set by ear) and, for strings
 // and voices, their own vibrato, so the truth of each note is what the
 // same part reads alone, without bleed; the chords' truth is the same
-// multitrack read without bleed.
+// multitrack read without bleed. (tempered_takes_test.go has takes tuned
+// through the MIDI Tuning Standard instead.)
 
 // ensembleTake is one take's writing.
 type ensembleTake struct {
@@ -36,6 +37,19 @@ type ensembleTake struct {
 	parts     []testsignal.MIDIPart // one per player
 	chords    []string              // the chords written, in order
 	cents     float64               // how far a note may read from its lone part's reading
+	flags     []string              // musical flags beyond the key (temperament, A4)
+	written   [][]string            // each part's notes as spelled, where spelledInC would not
+}
+
+// musical is the take's musical flags for fifthline.
+func (e ensembleTake) musical() []string { return append([]string{"--key", e.key}, e.flags...) }
+
+// spelled is part i's note j as written.
+func (e ensembleTake) spelled(i, j int) string {
+	if e.written != nil {
+		return e.written[i][j]
+	}
+	return spelledInC(e.parts[i].Notes[j].Key)
 }
 
 // justThird and justFifth are the bends that make a third or fifth just
@@ -110,6 +124,7 @@ type renderedTake struct {
 	ensembleTake
 	wet, dry string
 	lone     []string
+	frames   map[int][]map[string]string // each part alone, frame by frame, once read
 }
 
 // renderTake renders each part alone (fluidsynth), pads it with leadIn
@@ -119,7 +134,7 @@ func renderTake(t *testing.T, take ensembleTake) renderedTake {
 	t.Helper()
 	fluid, sf2 := fluidSynth(t)
 	dir := t.TempDir()
-	r := renderedTake{ensembleTake: take, wet: filepath.Join(dir, "wet.wav"), dry: filepath.Join(dir, "dry.wav")}
+	r := renderedTake{ensembleTake: take, wet: filepath.Join(dir, "wet.wav"), dry: filepath.Join(dir, "dry.wav"), frames: map[int][]map[string]string{}}
 	soxRun := func(args ...string) {
 		if out, err := exec.Command("sox", args...).CombinedOutput(); err != nil {
 			t.Fatalf("sox %v: %v\n%s", args, err, out)
@@ -167,7 +182,7 @@ func (r renderedTake) loneNotes(t *testing.T) [][]map[string]string {
 	t.Helper()
 	var all [][]map[string]string
 	for i, path := range r.lone {
-		code, out, stderr := runCLI(t, "analyze", "--key", r.key, path)
+		code, out, stderr := runCLI(t, append(append([]string{"analyze"}, r.musical()...), path)...)
 		if code != 0 {
 			t.Fatalf("%s %s alone: exit %d: %s", r.name, r.players[i], code, stderr)
 		}
@@ -176,9 +191,10 @@ func (r renderedTake) loneNotes(t *testing.T) [][]map[string]string {
 			t.Fatalf("%s %s alone: %d notes, %d written:\n%s", r.name, r.players[i], len(rows), len(r.parts[i].Notes), out)
 		}
 		for j, row := range rows {
-			// Every note the takes write is spelled alike in C, D and F
-			// major (C♯, F♯ and B♭ included), as spelledInC spells it.
-			if want := spelledInC(r.parts[i].Notes[j].Key); row["note"] != want {
+			// Every note the bent takes write is spelled alike in C, D
+			// and F major (C♯, F♯ and B♭ included), as spelledInC spells
+			// it; the tempered takes say how each is written.
+			if want := r.spelled(i, j); row["note"] != want {
 				t.Fatalf("%s %s alone: note %d read %s, written %s", r.name, r.players[i], j+1, row["note"], want)
 			}
 			// The sample's own tuning, as the lone part reads it.
@@ -190,8 +206,12 @@ func (r renderedTake) loneNotes(t *testing.T) [][]map[string]string {
 }
 
 // asked is the pitch the render of part i's note j was asked for: its key
-// in equal temperament at A4 = 440 Hz (ISO 16), bent as written.
+// where the part's MIDI Tuning Standard tuning puts it, else in equal
+// temperament at A4 = 440 Hz (ISO 16), bent as written.
 func (r renderedTake) asked(i, j int) float64 {
 	n := r.parts[i].Notes[j]
+	if tu := r.parts[i].Tuning; tu != nil {
+		return tu[n.Key].Hz()
+	}
 	return 440 * math.Exp2((float64(n.Key-69)+testsignal.BendCents(r.parts[i].Cents+n.Cents)/100)/12)
 }

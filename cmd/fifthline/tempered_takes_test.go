@@ -1,0 +1,158 @@
+package main
+
+import (
+	"math"
+	"strings"
+	"testing"
+
+	"fifthline/internal/testsignal"
+	"fifthline/mts"
+)
+
+// Multitrack takes of our own four-part writing tempered through the MIDI
+// Tuning Standard: each part's keys are tuned (real-time single-note
+// changes, in the part's own tuning program, which its channel selects) to
+// the pitches a published temperament gives its written notes, then
+// rendered and mixed with bleed as the bent takes are (renderTake).
+//
+// The truth is each temperament's published definition, worked out here
+// from its fifths and never from fifthline's own target package:
+//   - ¼-comma meantone: every fifth narrowed by a quarter of the syntonic
+//     comma 81/80, so four fifths make a pure 5/4 third: fifth =
+//     1200·log2(5)/4 = 696.578 ¢ (Pietro Aron, 1523; common practice).
+//   - Werckmeister III: the fifths C–G, G–D, D–A and B–F♯ narrowed by a
+//     quarter of the Pythagorean comma (531441/524288, 23.460 ¢), the other
+//     eight pure 3/2 (Andreas Werckmeister, Musicalische Temperatur, 1691).
+//
+// fluidsynth sounds each note a little away from its MIDI Tuning Standard
+// pitch: the FluidR3 sample's own tuning, and fluidsynth's whole cents
+// (TestFluidsynthTuningLandsOnWholeCents). So, as for the bent takes, each
+// part rendered alone and read alone gives the instrument's own offset from
+// the MIDI Tuning Standard pitch, and every check allows for it.
+
+// Published sizes, in cents.
+var (
+	pureFifth       = 1200 * math.Log2(1.5)                           // 3/2: 701.955 ¢
+	pureMajorThird  = 1200 * math.Log2(1.25)                          // 5/4: 386.314 ¢
+	pureMinorThird  = 1200 * math.Log2(1.2)                           // 6/5: 315.641 ¢
+	syntonicComma   = 1200 * math.Log2(81.0/80)                       // 21.506 ¢
+	pythagComma     = 1200 * math.Log2(531441.0/524288)               // 23.460 ¢
+	quarterComma    = pureFifth - syntonicComma/4                     // 696.578 ¢ = 1200·log2(5)/4
+	werckmeisterIII = [12]float64{1, 1, 1, 0, 0, 1, 0, 0, 0, 0, 0, 0} // quarter commas off each fifth from C up
+)
+
+// temperament gives a written note's pitch class in cents above C from
+// its place on the line of fifths (C = 0, G = 1, F = −1).
+type temperament func(fifths int) float64
+
+// regular is a temperament of one fifth size (meantone, EDOs).
+func regular(fifth float64) temperament {
+	return func(n int) float64 { return math.Mod(math.Mod(float64(n)*fifth, 1200)+1200, 1200) }
+}
+
+// werckmeister3 walks up the circle of fifths from C, each fifth pure or
+// narrowed as the definition says; it closes on C because the four narrow
+// fifths take out one Pythagorean comma. Enharmonic notes share a pitch.
+func werckmeister3(n int) float64 {
+	steps, c := (n%12+12)%12, 0.0
+	for i := range steps {
+		c += pureFifth - werckmeisterIII[i]*pythagComma/4
+	}
+	return math.Mod(c, 1200)
+}
+
+// writtenPitch is a written note ("Ab2", "F#4") in a temperament with A4 at
+// a4 Hz: its key (MIDI 60 = C4, the octave number the letter's; common
+// practice) and pitch, in the octave its key says.
+func writtenPitch(t testing.TB, name string, tm temperament, a4 float64) (key int, hz float64) {
+	t.Helper()
+	letters := map[byte][2]int{'F': {-1, 5}, 'C': {0, 0}, 'G': {1, 7}, 'D': {2, 2}, 'A': {3, 9}, 'E': {4, 4}, 'B': {5, 11}}
+	l, ok := letters[name[0]]
+	if !ok || len(name) < 2 {
+		t.Fatalf("written note %q", name)
+	}
+	acc := strings.Count(name, "#") - strings.Count(name, "b")
+	octave := int(name[len(name)-1] - '0')
+	key = 12*(octave+1) + l[1] + acc
+	above := tm(l[0]+7*acc) - tm(3) // cents above A within an octave
+	wrap := math.Round((float64(key-69)*100 - above) / 1200)
+	return key, a4 * math.Exp2((above+1200*wrap)/1200)
+}
+
+// The temperaments as worked out here agree with their published tables
+// (from memory: ¼-comma meantone's G♯ 772.6 ¢ and A♭ 813.7 ¢ above C, the
+// diesis 41.1 ¢ between them; Werckmeister III's C♯ 90.2, E 390.2, F♯ 588.3,
+// A 888.3 and B♭ 996.1 ¢ above C).
+func TestPublishedTemperamentsAsWorkedOut(t *testing.T) {
+	mt, w := regular(quarterComma), temperament(werckmeister3)
+	for _, c := range []struct {
+		name      string
+		got, want float64
+	}{
+		{"¼-comma fifth", quarterComma, 696.578},
+		{"¼-comma major third (4 fifths less 2 octaves)", mt(4), pureMajorThird},
+		{"¼-comma G♯", mt(8), 772.627},
+		{"¼-comma A♭", mt(-4), 813.686},
+		{"¼-comma diesis A♭ − G♯ (128/125)", mt(-4) - mt(8), 1200 * math.Log2(128.0/125)},
+		{"Werckmeister III C♯", w(7), 90.225},
+		{"Werckmeister III E", w(4), 390.225},
+		{"Werckmeister III F♯", w(6), 588.270},
+		{"Werckmeister III A", w(3), 888.270},
+		{"Werckmeister III B♭ (= A♯)", w(-2), 996.090},
+		{"Werckmeister III closes: B♯ = C", w(12), 0},
+	} {
+		if math.Abs(c.got-c.want) > 0.001 {
+			t.Errorf("%s: %.3f ¢, published %.3f ¢", c.name, c.got, c.want)
+		}
+	}
+	if _, hz := writtenPitch(t, "A4", regular(quarterComma), 415); hz != 415 {
+		t.Errorf("A4 at 415 Hz sounds %.3f Hz", hz)
+	}
+	if _, hz := writtenPitch(t, "C4", temperament(werckmeister3), 440); math.Abs(hz-440*math.Exp2(-888.27/1200)) > 0.001 {
+		t.Errorf("Werckmeister III C4 at A4 = 440 Hz: %.3f Hz", hz)
+	}
+}
+
+// The MIDI Tuning Standard as fluidsynth plays it, measured: six channels
+// of one file, each selecting its own tuning program (registered parameter
+// 3) that lays every key a given offset from equal temperament, play A4 in
+// turn on the square lead (General MIDI program 81, whose keys follow a
+// tuning exactly; TestKeyboardTuningPlaysInFluidsynth). Each channel sounds
+// its own program's tuning, and a fraction of a cent is dropped: fluidsynth
+// turns a voice's pitch into hertz from whole cents (its sample's own
+// tuning is whole cents too, as the SoundFont 2.01 generators are), so
+// a key lands on the whole cent at or below its tuning. Pitch bends of a
+// fraction of a cent moved these renders by a fraction of that fraction for
+// the same reason (measured with the bent takes: 0.3, 0.6, 0.9 ¢ moved
+// 0.04, 0.09, 0.15 ¢).
+func TestFluidsynthTuningLandsOnWholeCents(t *testing.T) {
+	const squareLead, period = 80, 1.2
+	offsets := []float64{0, 0.3, 0.6, 0.9, 1.2, -0.3, 30.5}
+	var tr mts.Track
+	for ch, off := range offsets {
+		var keys mts.Keys
+		for k := range keys {
+			keys[k] = mts.FromHz(equalHz(k) * math.Exp2(off/1200))
+		}
+		for _, m := range mts.SingleNoteChanges(mts.AllDevices, byte(ch), &keys) {
+			tr.SysEx(0, m)
+		}
+		tr.SelectChannelTuning(0, ch, 0, ch)
+		tr.Channel(0, 0xC0|byte(ch), squareLead)
+	}
+	wait := 0
+	for ch := range offsets {
+		tr.Channel(wait, 0x90|byte(ch), 69, 96)
+		tr.Channel(int(0.6*mts.TicksPerSecond), 0x80|byte(ch), 69, 0)
+		wait = int((period - 0.6) * mts.TicksPerSecond)
+	}
+	hz := renderAndMeasure(t, "programs", tr.File(mts.TicksPerSecond/2), len(offsets), period)
+	for ch, off := range offsets {
+		moved := testsignal.Cents(hz[ch], hz[0])
+		t.Logf("channel %d, tuning program %d at %+.1f ¢: moved %+.3f ¢", ch+1, ch, off, moved)
+		// A quarter cent either way for the measurement.
+		if want := math.Floor(off); math.Abs(moved-want) > 0.25 {
+			t.Errorf("channel %d's tuning of %+.1f ¢ moved A4 %+.2f ¢, not to the whole cent %+.0f ¢ below", ch+1, off, moved, want)
+		}
+	}
+}
