@@ -2,6 +2,7 @@ package main
 
 import (
 	"math"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -81,8 +82,9 @@ func writtenPitch(t testing.TB, name string, tm temperament, a4 float64) (key in
 
 // The temperaments as worked out here agree with their published tables
 // (from memory: ¼-comma meantone's G♯ 772.6 ¢ and A♭ 813.7 ¢ above C, the
-// diesis 41.1 ¢ between them; Werckmeister III's C♯ 90.2, E 390.2, F♯ 588.3,
-// A 888.3 and B♭ 996.1 ¢ above C).
+// diesis 41.1 ¢ between them, its pure thirds and fifths 5.38 ¢ narrow;
+// Werckmeister III's C♯ 90.2, E 390.2, F♯ 588.3, A 888.3 and B♭ 996.1 ¢
+// above C; 31-EDO's thirds of 10 and 8 steps, 387.1 and 309.7 ¢).
 func TestPublishedTemperamentsAsWorkedOut(t *testing.T) {
 	mt, w := regular(quarterComma), temperament(werckmeister3)
 	for _, c := range []struct {
@@ -100,6 +102,11 @@ func TestPublishedTemperamentsAsWorkedOut(t *testing.T) {
 		{"Werckmeister III A", w(3), 888.270},
 		{"Werckmeister III B♭ (= A♯)", w(-2), 996.090},
 		{"Werckmeister III closes: B♯ = C", w(12), 0},
+		{"¼-comma: major thirds from just", regularFromJust(quarterComma, "C major")["C major third"], 0},
+		{"¼-comma: fifths from just", regularFromJust(quarterComma, "C major")["C major fifth"], -5.377},
+		{"¼-comma: minor thirds from just", regularFromJust(quarterComma, "A minor")["A minor third"], -5.377},
+		{"31-EDO major third (10 steps) from just", regularFromJust(edo31Fifth, "C major")["C major third"], 387.097 - 386.314},
+		{"31-EDO minor third (8 steps) from just", regularFromJust(edo31Fifth, "A minor")["A minor third"], 309.677 - 315.641},
 	} {
 		if math.Abs(c.got-c.want) > 0.001 {
 			t.Errorf("%s: %.3f ¢, published %.3f ¢", c.name, c.got, c.want)
@@ -155,4 +162,139 @@ func TestFluidsynthTuningLandsOnWholeCents(t *testing.T) {
 			t.Errorf("channel %d's tuning of %+.1f ¢ moved A4 %+.2f ¢, not to the whole cent %+.0f ¢ below", ch+1, off, moved, want)
 		}
 	}
+}
+
+// temperedTake is a take of our own writing in a published temperament.
+type temperedTake struct {
+	name, key, temperament string // fifthline's --key and --temperament
+	a4                     float64
+	tm                     temperament // the published definition
+	players                []string    // channel order, lowest part first
+	programs               []int       // General MIDI, 0-based
+	notes                  [][]writtenNote
+	chords                 []string
+	// fromJust is each chord member's published distance from just above
+	// the root, in cents, by "chord member" (a temperament's property).
+	fromJust map[string]float64
+}
+
+// writtenNote is a note as written, sounding from start for seconds.
+type writtenNote struct {
+	name           string
+	start, seconds float64
+}
+
+// wn is a writtenNote.
+func wn(name string, start, seconds float64) writtenNote { return writtenNote{name, start, seconds} }
+
+// regularFromJust is a regular temperament's chords as its fifth makes
+// them: a major third is four fifths less two octaves, a minor third a
+// fifth less a major third; each member's distance from 5/4, 6/5 or 3/2 by
+// "ROOT QUALITY member" for the chords given.
+func regularFromJust(fifth float64, chords ...string) map[string]float64 {
+	major := 4*fifth - 2400
+	out := map[string]float64{}
+	for _, c := range chords {
+		out[c+" fifth"] = fifth - pureFifth
+		if strings.HasSuffix(c, " minor") {
+			out[c+" third"] = fifth - major - pureMinorThird
+		} else {
+			out[c+" third"] = major - pureMajorThird
+		}
+	}
+	return out
+}
+
+// gMinorWinds is the meantone takes' writing: G minor at A4 = 415 Hz,
+// i – ♭II – V – I with B♭, E♭, A♭ and F♯, B♮, each 41 ¢ (¼-comma) or 39 ¢
+// (31-EDO: two steps) from its enharmonic. The bassoon's G is G3: the
+// FluidR3 bassoon's G2 glides up some 10 ¢ into its vibrato over its first
+// 0.2 s, which alone is sometimes cut off by a misread attack and with the
+// others' bleed not (measured), so its two readings differ by 2 ¢.
+func gMinorWinds(name, temperament string, fifth float64) temperedTake {
+	chords := []string{"G minor", "Ab major", "D major", "G major"}
+	return temperedTake{
+		name: name, key: "G minor", temperament: temperament, a4: 415, tm: regular(fifth),
+		players: []string{"bn", "cl", "ob", "fl"}, programs: []int{70, 71, 68, 73},
+		chords: chords,
+		notes: [][]writtenNote{
+			{wn("G3", 0, 1.4), wn("Ab3", 1.5, 1.4), wn("D3", 3, 1.4), wn("G3", 4.5, 1.4)},
+			// D4 held from D major (its root) into G major (its fifth).
+			{wn("D4", 0, 1.4), wn("Eb4", 1.5, 1.4), wn("D4", 3, 2.9)},
+			{wn("G4", 0, 1.4), wn("C5", 1.5, 1.4), wn("F#4", 3, 1.4), wn("B4", 4.5, 1.4)},
+			// The flute rests through the A♭ major chord.
+			{wn("Bb4", 0, 1.4), wn("A4", 3, 1.4), wn("G5", 4.5, 1.4)},
+		},
+		fromJust: regularFromJust(fifth, chords...),
+	}
+}
+
+// edo31Fifth is 31-EDO's fifth, 18 of 31 equal steps to the octave
+// (common practice).
+const edo31Fifth = 1200.0 * 18 / 31
+
+// temperedTakes: a wind quartet (General MIDI 70 bassoon, 71 clarinet,
+// 68 oboe, 73 flute) in each temperament; each take has a common tone held
+// across a chord change and a player resting for a chord.
+var temperedTakes = []temperedTake{
+	gMinorWinds("meantone", "meantone:1/4", quarterComma),
+	gMinorWinds("31-EDO", "edo:31", edo31Fifth),
+	{
+		// C major at A4 = 440 Hz: I – V/vi – vi. Werckmeister III's thirds
+		// grow with the key's distance from C; from its table: C–E 390.2 ¢
+		// (+3.9 from 5/4), E–G♯ 402.0 ¢ (+15.6, Pythagorean), A–C 311.7 ¢
+		// (−3.9 from 6/5); C–G 696.1 ¢ (−5.9), E–B and A–E pure.
+		name: "werckmeister3", key: "C major", temperament: "werckmeister3", a4: 440, tm: werckmeister3,
+		players: []string{"bn", "cl", "ob", "fl"}, programs: []int{70, 71, 68, 73},
+		chords: []string{"C major", "E major", "A minor"},
+		notes: [][]writtenNote{
+			{wn("C3", 0, 1.4), wn("E2", 1.5, 1.4), wn("A2", 3, 1.4)},
+			// E4 held from C major (its third) into E major (its root).
+			{wn("E4", 0, 2.9), wn("C4", 3, 1.4)},
+			{wn("G4", 0, 1.4), wn("G#4", 1.5, 1.4), wn("A4", 3, 1.4)},
+			// The flute rests through the C major chord.
+			{wn("B4", 1.5, 1.4), wn("E5", 3, 1.4)},
+		},
+		fromJust: map[string]float64{
+			"C major third": 3.911, "C major fifth": -5.865,
+			"E major third": 15.641, "E major fifth": 0,
+			"A minor third": -3.911, "A minor fifth": 0,
+		},
+	},
+}
+
+// ensemble makes the take's parts: each written note played on the key
+// nearest its pitch (at A4 = 415 Hz mostly the key a semitone below its
+// name's, as on a transposing keyboard), so that every sample sounds near
+// its own pitch, and that key tuned to the note's pitch (the other keys
+// left in equal temperament); one key may stand for one written note in a
+// part. It returns each note's published pitch beside.
+func (tt temperedTake) ensemble(t *testing.T) (ensembleTake, [][]float64) {
+	t.Helper()
+	take := ensembleTake{name: tt.name, key: tt.key, players: tt.players, chords: tt.chords, cents: 1,
+		flags: []string{"--temperament", tt.temperament, "--a4", strconv.FormatFloat(tt.a4, 'f', -1, 64)}}
+	pub := make([][]float64, len(tt.notes))
+	for i, notes := range tt.notes {
+		keys := new(mts.Keys)
+		for k := range keys {
+			keys[k] = mts.FromHz(equalHz(k))
+		}
+		part := testsignal.MIDIPart{Program: tt.programs[i], Tuning: keys}
+		var written []string
+		tuned := map[int]string{}
+		for _, n := range notes {
+			_, hz := writtenPitch(t, n.name, tt.tm, tt.a4)
+			k := int(math.Round(69 + 12*math.Log2(hz/440)))
+			if was, ok := tuned[k]; ok && was != n.name {
+				t.Fatalf("%s %s: key %d written both %s and %s", tt.name, tt.players[i], k, was, n.name)
+			}
+			tuned[k], keys[k] = n.name, mts.FromHz(hz)
+			part.Notes = append(part.Notes, testsignal.TimedNote{Key: k, Start: n.start, Seconds: n.seconds})
+			written = append(written, n.name)
+			pub[i] = append(pub[i], hz)
+		}
+		take.parts = append(take.parts, part)
+		take.written = append(take.written, written)
+	}
+	return take, pub
 }
