@@ -137,3 +137,21 @@ func checkTemperedChords(t *testing.T, tt temperedTake, r renderedTake, pub [][]
 	}
 	t.Logf("%s: chords %s; members within %.3f ¢ of their offsets, thirds and fifths within %.3f ¢ of the published distances from just", r.name, strings.Join(names, ", "), worstCents, worstJust)
 }
+
+// The ¼-comma meantone take played live into a four-channel interface (a
+// PulseAudio null sink of this test's own, its monitor the input) and
+// heard by listen --plain --players: every note found once by its player,
+// spelled as written, within 1 ¢ of its part's reading alone and its cents
+// against the temperament within 1 ¢ of where the tuning put it.
+func TestListenPlayersHearsTemperedTakeLive(t *testing.T) {
+	take, pub := temperedTakes[0].ensemble(t)
+	r := renderTake(t, take)
+	lone := r.loneNotes(t)
+	out := playQuartetLive(t, r.wet, append(r.musical(), "--players", strings.Join(r.players, ","))...)
+	_, rows := readCSV(t, out)
+	checkPlayerNotes(t, "listen", r, lone, rows, false)
+	checkTemperedCents(t, r, pub, lone, rows)
+	if t.Failed() {
+		t.Log(out)
+	}
+}

@@ -207,23 +207,23 @@ func regularFromJust(fifth float64, chords ...string) map[string]float64 {
 
 // gMinorWinds is the meantone takes' writing: G minor at A4 = 415 Hz,
 // i – ♭II – V – I with B♭, E♭, A♭ and F♯, B♮, each 41 ¢ (¼-comma) or 39 ¢
-// (31-EDO: two steps) from its enharmonic. The bassoon's G is G3: the
-// FluidR3 bassoon's G2 glides up some 10 ¢ into its vibrato over its first
-// 0.2 s, which alone is sometimes cut off by a misread attack and with the
-// others' bleed not (measured), so its two readings differ by 2 ¢.
+// (31-EDO: two steps) from its enharmonic, for trombone (General MIDI 57),
+// clarinet, oboe and flute. (The FluidR3 bassoon's G2 and G3 glide up some
+// 10 ¢ into their vibrato from an attack misread an octave low, which
+// listening took for a note of its own: measured.)
 func gMinorWinds(name, temperament string, fifth float64) temperedTake {
 	chords := []string{"G minor", "Ab major", "D major", "G major"}
 	return temperedTake{
 		name: name, key: "G minor", temperament: temperament, a4: 415, tm: regular(fifth),
-		players: []string{"bn", "cl", "ob", "fl"}, programs: []int{70, 71, 68, 73},
+		players: []string{"tbn", "cl", "ob", "fl"}, programs: []int{57, 71, 68, 73},
 		chords: chords,
 		notes: [][]writtenNote{
 			{wn("G3", 0, 1.4), wn("Ab3", 1.5, 1.4), wn("D3", 3, 1.4), wn("G3", 4.5, 1.4)},
 			// D4 held from D major (its root) into G major (its fifth).
 			{wn("D4", 0, 1.4), wn("Eb4", 1.5, 1.4), wn("D4", 3, 2.9)},
-			{wn("G4", 0, 1.4), wn("C5", 1.5, 1.4), wn("F#4", 3, 1.4), wn("B4", 4.5, 1.4)},
-			// The flute rests through the A♭ major chord.
-			{wn("Bb4", 0, 1.4), wn("A4", 3, 1.4), wn("G5", 4.5, 1.4)},
+			{wn("Bb4", 0, 1.4), wn("C5", 1.5, 1.4), wn("F#4", 3, 1.4), wn("B4", 4.5, 1.4)},
+			// The flute rests through the first two chords.
+			{wn("A4", 3, 1.4), wn("G5", 4.5, 1.4)},
 		},
 		fromJust: regularFromJust(fifth, chords...),
 	}
@@ -233,9 +233,9 @@ func gMinorWinds(name, temperament string, fifth float64) temperedTake {
 // (common practice).
 const edo31Fifth = 1200.0 * 18 / 31
 
-// temperedTakes: a wind quartet (General MIDI 70 bassoon, 71 clarinet,
-// 68 oboe, 73 flute) in each temperament; each take has a common tone held
-// across a chord change and a player resting for a chord.
+// temperedTakes: a wind quartet (General MIDI 70 bassoon or 57 trombone,
+// 71 clarinet, 68 oboe, 73 flute) in each temperament; each take has a
+// common tone held across a chord change and a player resting.
 var temperedTakes = []temperedTake{
 	gMinorWinds("meantone", "meantone:1/4", quarterComma),
 	gMinorWinds("31-EDO", "edo:31", edo31Fifth),
