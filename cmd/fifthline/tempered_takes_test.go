@@ -120,46 +120,60 @@ func TestPublishedTemperamentsAsWorkedOut(t *testing.T) {
 	}
 }
 
-// The MIDI Tuning Standard as fluidsynth plays it, measured: six channels
-// of one file, each selecting its own tuning program (registered parameter
-// 3) that lays every key a given offset from equal temperament, play A4 in
-// turn on the square lead (General MIDI program 81, whose keys follow a
-// tuning exactly; TestKeyboardTuningPlaysInFluidsynth). Each channel sounds
-// its own program's tuning, and a fraction of a cent is dropped: fluidsynth
-// turns a voice's pitch into hertz from whole cents (its sample's own
-// tuning is whole cents too, as the SoundFont 2.01 generators are), so
-// a key lands on the whole cent at or below its tuning. Pitch bends of a
-// fraction of a cent moved these renders by a fraction of that fraction for
-// the same reason (measured with the bent takes: 0.3, 0.6, 0.9 ¢ moved
-// 0.04, 0.09, 0.15 ¢).
+// The MIDI Tuning Standard as fluidsynth plays it, measured: channels of
+// one file, each selecting its own tuning program (registered parameter 3)
+// that lays every key a given offset from equal temperament, and channels
+// bent instead (no tuning), play A4 in turn on the square lead (General
+// MIDI program 81, whose keys follow a tuning exactly;
+// TestKeyboardTuningPlaysInFluidsynth). Each channel sounds its own
+// program's tuning, and a fraction of a cent is dropped: fluidsynth turns a
+// voice's pitch into hertz from whole cents (its sample's own tuning is
+// whole cents too, as the SoundFont 2.01 generators are), so a key lands on
+// the whole cent at or below its tuning, and a bend likewise.
 func TestFluidsynthTuningLandsOnWholeCents(t *testing.T) {
 	const squareLead, period = 80, 1.2
-	offsets := []float64{0, 0.3, 0.6, 0.9, 1.2, -0.3, 30.5}
+	cases := []struct {
+		cents float64
+		bend  bool // a pitch bend, else a tuning program
+	}{
+		{0, false}, {0.3, false}, {0.6, false}, {0.9, false}, {1.2, false}, {-0.3, false}, {30.5, false},
+		{0.3, true}, {0.6, true}, {0.9, true}, {1.2, true}, {-0.3, true},
+	}
+	channel := func(i int) byte { return byte(i + i/9) } // not channel 10, General MIDI's drums
 	var tr mts.Track
-	for ch, off := range offsets {
-		var keys mts.Keys
-		for k := range keys {
-			keys[k] = mts.FromHz(equalHz(k) * math.Exp2(off/1200))
+	for i, c := range cases {
+		ch := channel(i)
+		if c.bend {
+			b := testsignal.BendValue(c.cents)
+			tr.Channel(0, 0xE0|ch, byte(b&0x7f), byte(b>>7))
+		} else {
+			var keys mts.Keys
+			for k := range keys {
+				keys[k] = mts.FromHz(equalHz(k) * math.Exp2(c.cents/1200))
+			}
+			for _, m := range mts.SingleNoteChanges(mts.AllDevices, byte(i), &keys) {
+				tr.SysEx(0, m)
+			}
+			tr.SelectChannelTuning(0, int(ch), 0, i)
 		}
-		for _, m := range mts.SingleNoteChanges(mts.AllDevices, byte(ch), &keys) {
-			tr.SysEx(0, m)
-		}
-		tr.SelectChannelTuning(0, ch, 0, ch)
-		tr.Channel(0, 0xC0|byte(ch), squareLead)
+		tr.Channel(0, 0xC0|ch, squareLead)
 	}
 	wait := 0
-	for ch := range offsets {
-		tr.Channel(wait, 0x90|byte(ch), 69, 96)
-		tr.Channel(int(0.6*mts.TicksPerSecond), 0x80|byte(ch), 69, 0)
+	for i := range cases {
+		tr.Channel(wait, 0x90|channel(i), 69, 96)
+		tr.Channel(int(0.6*mts.TicksPerSecond), 0x80|channel(i), 69, 0)
 		wait = int((period - 0.6) * mts.TicksPerSecond)
 	}
-	hz := renderAndMeasure(t, "programs", tr.File(mts.TicksPerSecond/2), len(offsets), period)
-	for ch, off := range offsets {
-		moved := testsignal.Cents(hz[ch], hz[0])
-		t.Logf("channel %d, tuning program %d at %+.1f ¢: moved %+.3f ¢", ch+1, ch, off, moved)
+	hz := renderAndMeasure(t, "programs", tr.File(mts.TicksPerSecond/2), len(cases), period)
+	for i, c := range cases {
+		moved, how := testsignal.Cents(hz[i], hz[0]), "tuning program"
+		if c.bend {
+			how = "bend"
+		}
+		t.Logf("channel %d, %s %+.1f ¢: moved %+.3f ¢", channel(i)+1, how, c.cents, moved)
 		// A quarter cent either way for the measurement.
-		if want := math.Floor(off); math.Abs(moved-want) > 0.25 {
-			t.Errorf("channel %d's tuning of %+.1f ¢ moved A4 %+.2f ¢, not to the whole cent %+.0f ¢ below", ch+1, off, moved, want)
+		if want := math.Floor(c.cents); math.Abs(moved-want) > 0.25 {
+			t.Errorf("channel %d's %s of %+.1f ¢ moved A4 %+.2f ¢, not to the whole cent %+.0f ¢ below", channel(i)+1, how, c.cents, moved, want)
 		}
 	}
 }
