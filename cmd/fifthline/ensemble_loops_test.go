@@ -86,9 +86,7 @@ func playLoopTake(t *testing.T, lt loopTake, timbres map[string][]sf2.Timbre) re
 			}
 		}
 		name := filepath.Join(dir, r.players[i])
-		writeF32(t, name+".f32", x)
-		soxTB(t, "-t", "raw", "-e", "floating-point", "-b", "32", "-r", "48000", "-c", "1", name+".f32", "-b", "24", name+".wav")
-		r.lone = append(r.lone, name+".wav")
+		r.lone = append(r.lone, monoWAV(t, name, x))
 		w := testsignal.White(rng, total)
 		g := testsignal.RMS(x) / testsignal.RMS(w) / math.Pow(10, lt.snr/20)
 		for k := range w {
@@ -100,6 +98,11 @@ func playLoopTake(t *testing.T, lt loopTake, timbres map[string][]sf2.Timbre) re
 	r.mix(t, dir, noise)
 	if lt.vibrato > 0 {
 		r.name += " with vibrato"
+	}
+	for i, p := range r.parts {
+		for j, n := range p.Notes {
+			t.Logf("%s %s %s: %.4f Hz written", r.name, r.players[i], spelledInC(n.Key), r.asked(i, j))
+		}
 	}
 	return r
 }
@@ -115,6 +118,14 @@ func writeF32(t *testing.T, path string, x []float64) {
 	if err := os.WriteFile(path, b, 0o644); err != nil {
 		t.Fatal(err)
 	}
+}
+
+// monoWAV writes x as name.wav, 24-bit at 48 kHz (sox, from name.f32).
+func monoWAV(t *testing.T, name string, x []float64) string {
+	t.Helper()
+	writeF32(t, name+".f32", x)
+	soxTB(t, "-t", "raw", "-e", "floating-point", "-b", "32", "-r", "48000", "-c", "1", name+".f32", "-b", "24", name+".wav")
+	return name + ".wav"
 }
 
 // loopTimbres are FluidR3's profiles of the instruments the takes use.
@@ -193,14 +204,27 @@ func TestAnalyzePlayersReadsLoopVoicesExactly(t *testing.T) {
 	timbres := loopTimbres(t)
 	var notes, justs []float64
 	for _, lt := range loopTakes {
-		r := playLoopTake(t, lt, timbres)
-		t.Run(r.name, func(t *testing.T) {
+		name := ensembleTakes[lt.take].name
+		if lt.vibrato > 0 {
+			name += " with vibrato"
+		}
+		t.Run(name, func(t *testing.T) {
+			r := playLoopTake(t, lt, timbres)
 			code, out, stderr := runCLI(t, "analyze", "--key", r.key, "--players", strings.Join(r.players, ","), r.wet)
 			if code != 0 {
 				t.Fatalf("exit %d: %s", code, stderr)
 			}
 			_, rows := readCSV(t, out)
-			offs := checkPlayerNotes(t, "analyze", r, r.exactNotes(), rows, true)
+			exact := r.exactNotes()
+			offs := checkPlayerNotes(t, "analyze", r, exact, rows, true)
+			for _, row := range rows {
+				i := slices.Index(r.players, row["player"])
+				for _, e := range exact[max(i, 0)] {
+					if e["note"] == row["note"] && math.Abs(parseF(e["start_s"])-parseF(row["start_s"])) < 0.1 {
+						t.Logf("%s %s %s: %s Hz, %+.3f ¢ from written", r.name, row["player"], row["note"], row["hz"], testsignal.Cents(parseF(row["hz"]), parseF(e["hz"])))
+					}
+				}
+			}
 			chords := readChords(t, r, r.wet)
 			var names []string
 			for _, c := range chords {
