@@ -91,10 +91,7 @@ func (m *bleedModel) pair(c, d int) *pairBleed { return &m.pairs[c*m.k+d] }
 // bin where d's bleed dominates is far quieter on c than on d. Only the
 // latter are weighed, and none near a partial of c's own pitch (where the
 // two beat slowly and would not average out), so c's own partials,
-// attacks and releases do not pass for bleed. c too must be steady: the
-// tail of c's own note, no longer voiced but still sounding its partials
-// a few dB under d's (a bass's fifth partial under a soprano's fundamental
-// a few hertz away), would otherwise pass for d's bleed and be learned.
+// attacks and releases do not pass for bleed.
 func (m *bleedModel) observe(o *Owner, hz []float64, steady []bool) {
 	binHz := o.fs / float64(m.n)
 	for d, pd := range hz {
@@ -102,7 +99,7 @@ func (m *bleedModel) observe(o *Owner, hz []float64, steady []bool) {
 			continue
 		}
 		for c := range hz {
-			if c == d || !o.have[c] || !steady[c] {
+			if c == d || !o.have[c] {
 				continue
 			}
 			p := m.pair(c, d)
