@@ -39,22 +39,12 @@ type loopTake struct {
 	take    int
 	vibrato float64 // peak-to-peak cents, 0 for steady
 	snr     float64 // dB
-	short   float64 // where a note misses the bar: what it reaches, ¢
-	why     string  // and why, measured
 }
 
 // Vibrato widths: bowed strings and voices some ±15–25 ¢ at 5–6 Hz
 // (common practice); every player at a rate of their own, so no two
 // players' vibratos keep in step.
-var loopTakes = []loopTake{{0, 0, 40, 0, ""}, {0, 30, 45, 0, ""}, {1, 0, 35, 0, ""}, {1, 40, 40, 0, ""},
-	{2, 0, 45, 1.6, "the bass's F2 reads +1.45 ¢ (+0.72 ¢ in the same take without bleed, +0.00 ¢ alone): " +
-		"its fifth partial lies 2 Hz from the soprano's A4, and when both release together the bass's tail, " +
-		"read unvoiced, is learned as the soprano's bleed (−23 dB at 25 samples, where none was mixed in), " +
-		"whose subtraction pulls the F2. Leaving the tail's partials out of the bleed evidence reads it within " +
-		"0.02 ¢, but then the fluidsynth choir (TestAnalyzePlayersReadsRenderedTakes) learns the alto's bleed " +
-		"on the bass one F4 period early: its tails are the only frames where the alto's partials lie clear " +
-		"of the bass's, so the fix waits on the delay learning"},
-	{2, 40, 35, 0, ""}}
+var loopTakes = []loopTake{{0, 0, 40}, {0, 30, 45}, {1, 0, 35}, {1, 40, 40}, {2, 0, 45}, {2, 40, 35}}
 
 const loopRate = 48000.0
 
@@ -67,10 +57,6 @@ func playLoopTake(t *testing.T, lt loopTake, timbres map[string][]sf2.Timbre) re
 	r.cents = 1
 	if lt.vibrato > 0 {
 		r.cents = 1.5
-	}
-	if lt.short > 0 {
-		r.cents = lt.short
-		t.Logf("%s: held to %g ¢, short of the issue's bar: %s", r.name, lt.short, lt.why)
 	}
 	end := 0.0
 	for _, p := range r.parts {
