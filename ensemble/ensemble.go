@@ -118,7 +118,7 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 	hist := newHistory(len(voices), src.SampleRate())
 	heard := make([][]float32, len(voices)) // each player's channel, this block
 	hz, steady := make([]float64, len(voices)), make([]bool, len(voices))
-	own := make([]float64, len(voices)) // each player's sounding pitch (voice.sounding)
+	own := make([]float64, len(voices))  // each player's sounding pitch (voice.sounding)
 	read := make([]float64, len(voices)) // each detector's pitch this frame, before the ownership test
 	frame := 0
 	blocks, view := make([][]float32, src.Channels()), make([][]float32, src.Channels())
