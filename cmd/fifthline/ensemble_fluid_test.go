@@ -14,8 +14,9 @@ import (
 // alone: every lone note heard once, by its player, spelled the same and
 // within the take's cents; nothing else heard (a resting player stays
 // silent). With at, notes are matched by start time too (a file's
-// times are the take's; live, only the order is).
-func checkPlayerNotes(t *testing.T, how string, r renderedTake, lone [][]map[string]string, rows []map[string]string, at bool) {
+// times are the take's; live, only the order is). It returns how far each
+// note matched read from its part alone, ¢.
+func checkPlayerNotes(t *testing.T, how string, r renderedTake, lone [][]map[string]string, rows []map[string]string, at bool) (offs []float64) {
 	t.Helper()
 	heard := map[string][]map[string]string{}
 	for _, row := range rows {
@@ -42,12 +43,14 @@ func checkPlayerNotes(t *testing.T, how string, r renderedTake, lone [][]map[str
 			}
 			off := testsignal.Cents(parseF(g["hz"]), parseF(l["hz"]))
 			worst = max(worst, math.Abs(off))
+			offs = append(offs, off)
 			if math.Abs(off) > r.cents {
 				t.Errorf("%s %s: %s's %s at %s Hz, %+.2f ¢ from its reading alone (%s Hz); allowed ±%g ¢", how, r.name, p, g["note"], g["hz"], off, l["hz"], r.cents)
 			}
 		}
 	}
 	t.Logf("%s %s: %d notes, largest error %.3f ¢ against the parts alone", how, r.name, len(rows), worst)
+	return offs
 }
 
 func parseF(s string) float64 {

@@ -129,18 +129,12 @@ type renderedTake struct {
 
 // renderTake renders each part alone (fluidsynth), pads it with leadIn
 // seconds of silence and makes it mono (sox), then mixes the multitracks
-// with and without bleed (sox).
+// with and without bleed (mix).
 func renderTake(t *testing.T, take ensembleTake) renderedTake {
 	t.Helper()
 	fluid, sf2 := fluidSynth(t)
 	dir := t.TempDir()
-	r := renderedTake{ensembleTake: take, wet: filepath.Join(dir, "wet.wav"), dry: filepath.Join(dir, "dry.wav"), frames: map[int][]map[string]string{}}
-	soxRun := func(args ...string) {
-		if out, err := exec.Command("sox", args...).CombinedOutput(); err != nil {
-			t.Fatalf("sox %v: %v\n%s", args, err, out)
-		}
-	}
-	f := func(x float64) string { return strconv.FormatFloat(x, 'f', 4, 64) }
+	r := renderedTake{ensembleTake: take, frames: map[int][]map[string]string{}}
 	for i, p := range take.parts {
 		name := filepath.Join(dir, take.players[i])
 		if err := os.WriteFile(name+".mid", testsignal.MIDIParts([]testsignal.MIDIPart{p}), 0o644); err != nil {
@@ -149,12 +143,28 @@ func renderTake(t *testing.T, take ensembleTake) renderedTake {
 		if out, err := exec.Command(fluid, "-ni", "-q", "-R", "0", "-C", "0", "-g", "0.5", "-r", "48000", "-F", name+".raw.wav", sf2, name+".mid").CombinedOutput(); err != nil {
 			t.Fatalf("fluidsynth: %v\n%s", err, out)
 		}
-		soxRun(name+".raw.wav", "-b", "24", "-c", "1", name+".wav", "pad", f(leadIn), "0.3")
+		soxTB(t, name+".raw.wav", "-b", "24", "-c", "1", name+".wav", "pad", strconv.FormatFloat(leadIn, 'f', 4, 64), "0.3")
 		r.lone = append(r.lone, name+".wav")
 	}
-	// Channel c of the wet take is part c plus every other part o, bleedDB
-	// down and bleedMs late.
+	r.mix(t, dir, nil)
+	return r
+}
+
+// mix writes the multitracks of the lone parts into dir (sox): channel c
+// of the wet take is part c plus every other part o, bleedDB[c][o] down
+// and bleedMs[c][o] late, plus noise[c] when noise is given (raw 32-bit
+// float files at 48 kHz, one per channel); the dry take is the parts alone.
+func (r *renderedTake) mix(t *testing.T, dir string, noise []string) {
+	t.Helper()
+	r.wet, r.dry = filepath.Join(dir, "wet.wav"), filepath.Join(dir, "dry.wav")
+	f := func(x float64) string { return strconv.FormatFloat(x, 'f', 4, 64) }
 	wet := append([]string{"-M"}, r.lone...)
+	inputs := len(r.lone) // sox -M numbers the merged inputs' channels from 1
+	add := func(file ...string) string {
+		wet = append(wet, file...)
+		inputs++
+		return strconv.Itoa(inputs)
+	}
 	var remix []string
 	for c := range r.lone {
 		mix := []string{strconv.Itoa(c + 1)}
@@ -163,15 +173,16 @@ func renderTake(t *testing.T, take ensembleTake) renderedTake {
 				continue
 			}
 			late := filepath.Join(dir, "late"+strconv.Itoa(c)+strconv.Itoa(o)+".wav")
-			soxRun(r.lone[o], late, "pad", f(bleedMs[c][o]/1000))
-			wet = append(wet, late)
-			mix = append(mix, strconv.Itoa(len(wet)-1)+"v"+strconv.FormatFloat(math.Pow(10, -bleedDB[c][o]/20), 'f', 6, 64))
+			soxTB(t, r.lone[o], late, "pad", f(bleedMs[c][o]/1000))
+			mix = append(mix, add(late)+"v"+strconv.FormatFloat(math.Pow(10, -bleedDB[c][o]/20), 'f', 6, 64))
+		}
+		if noise != nil {
+			mix = append(mix, add("-t", "raw", "-e", "floating-point", "-b", "32", "-r", "48000", "-c", "1", noise[c])+"v1")
 		}
 		remix = append(remix, strings.Join(mix, ","))
 	}
-	soxRun(append(append(wet, "-b", "24", r.wet, "remix"), remix...)...)
-	soxRun(append(append([]string{"-M"}, r.lone...), "-b", "24", r.dry)...)
-	return r
+	soxTB(t, append(append(wet, "-b", "24", r.wet, "remix"), remix...)...)
+	soxTB(t, append(append([]string{"-M"}, r.lone...), "-b", "24", r.dry)...)
 }
 
 // loneNotes reads each part alone, one channel at a time, with the
