@@ -86,13 +86,18 @@ func (m *bleedModel) pair(c, d int) *pairBleed { return &m.pairs[c*m.k+d] }
 
 // observe adds one frame's evidence: hz[d] is player d's pitch this frame
 // (0 when unvoiced or bleed), steady[d] whether d has held it for a whole
-// window, o the frame's spectra. At d's partials, a bin of c where c's own
-// sound dominates is louder on c than on d (d hears c 15–25 dB down); a
-// bin where d's bleed dominates is far quieter on c than on d. Only the
-// latter are weighed, and none near a partial of c's own pitch (where the
-// two beat slowly and would not average out), so c's own partials,
-// attacks and releases do not pass for bleed.
-func (m *bleedModel) observe(o *Owner, hz []float64, steady []bool) {
+// window, own[c] the pitch whose partials c's channel may still sound
+// (hz[c], or the note c last held until c has been silent for a window),
+// o the frame's spectra. At d's partials, a bin of c where c's own sound
+// dominates is louder on c than on d (d hears c 15–25 dB down); a bin
+// where d's bleed dominates is far quieter on c than on d. Only the latter
+// are weighed, and none near a partial of c's own pitch (where the two
+// beat slowly and would not average out), so c's own partials, attacks
+// and releases do not pass for bleed. The tail of c's note, no longer
+// voiced but still sounding its partials a few dB under d's (a bass's
+// fifth partial under a soprano's fundamental a few hertz away), is c's
+// own too: hence own rather than hz.
+func (m *bleedModel) observe(o *Owner, hz, own []float64, steady []bool) {
 	binHz := o.fs / float64(m.n)
 	for d, pd := range hz {
 		if pd == 0 || !steady[d] || !o.have[d] {
@@ -109,7 +114,7 @@ func (m *bleedModel) observe(o *Owner, hz []float64, steady []bool) {
 				if bin+1 >= len(p.a) || float64(h)*pd > maxBleedHz {
 					break
 				}
-				if nearPartial(float64(bin)*binHz, hz[c], clearBins*binHz) {
+				if nearPartial(float64(bin)*binHz, own[c], clearBins*binHz) {
 					continue // c's own partial may sit here, slowly beating with d's
 				}
 				for b := bin - 1; b <= bin+1; b++ {
@@ -181,6 +186,7 @@ func (m *bleedModel) estimate(fs float64) {
 				best = lag
 			}
 		}
+		best = m.reciprocal(i, best, maxLag)
 		// A parabola through the peak and its neighbours for the fraction.
 		frac := 0.0
 		if best > 0 {
@@ -207,6 +213,32 @@ func (m *bleedModel) estimate(fs float64) {
 		}
 		p.gain, p.delay = gain, delay
 	}
+}
+
+// rivalPeak is how high, against the highest, a correlation peak must
+// stand to be as likely the delay: evidence from one held pitch fits
+// delays a period apart about equally well.
+const rivalPeak = 0.9
+
+// reciprocal picks, among pair i's correlation peaks (m.corr) up to maxLag
+// nearly as high as the one at best, the one nearest the delay learned the
+// other way round: sound crosses between two players and their close
+// microphones in about the same time either way (a mic a hand's breadth
+// from its player, the players a metre or two apart).
+func (m *bleedModel) reciprocal(i, best, maxLag int) int {
+	rev := m.pair(i%m.k, i/m.k)
+	if rev.gain == 0 {
+		return best
+	}
+	top := m.corr[best]
+	for lag := 1; lag < maxLag; lag++ {
+		c := m.corr[lag]
+		if c >= rivalPeak*top && c >= m.corr[lag-1] && c >= m.corr[lag+1] &&
+			math.Abs(float64(lag)-rev.delay) < math.Abs(float64(best)-rev.delay) {
+			best = lag
+		}
+	}
+	return best
 }
 
 // refineDelay polishes the delay between whole lags by Newton's method on

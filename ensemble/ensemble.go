@@ -50,6 +50,7 @@ type voice struct {
 	est   []pitchdetect.Estimate
 	last  float64 // the previous frame's pitch, 0 when unvoiced
 	same  int     // frames in a row at that pitch (or silent)
+	held  float64 // the pitch last read, until a window of silence
 }
 
 // ownEvery: the channels' spectra for the ownership test and the bleed
@@ -75,6 +76,16 @@ func (v *voice) steady(hz float64) bool {
 	}
 	v.last = hz
 	return v.same >= steadyFrames
+}
+
+// sounding is the pitch whose partials the player's channel may still
+// sound: this frame's, else the one last read until the player has been
+// silent for a window (a release tail, quiet enough to read unvoiced).
+func (v *voice) sounding(hz float64, steady bool) float64 {
+	if hz > 0 || steady {
+		v.held = hz
+	}
+	return v.held
 }
 
 // Run reads src until it ends (io.EOF) or ctx is cancelled, delivering each
@@ -107,6 +118,7 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 	hist := newHistory(len(voices), src.SampleRate())
 	heard := make([][]float32, len(voices)) // each player's channel, this block
 	hz, steady := make([]float64, len(voices)), make([]bool, len(voices))
+	own := make([]float64, len(voices))  // each player's sounding pitch (voice.sounding)
 	read := make([]float64, len(voices)) // each detector's pitch this frame, before the ownership test
 	frame := 0
 	blocks, view := make([][]float32, src.Channels()), make([][]float32, src.Channels())
@@ -169,6 +181,7 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 					e.Voiced, e.Hz, e.Confidence = false, 0, 0
 				}
 				hz[i], steady[i] = e.Hz, v.steady(e.Hz)
+				own[i] = v.sounding(hz[i], steady[i])
 				if opt.OnFrame != nil {
 					opt.OnFrame(i, e)
 				}
@@ -179,7 +192,7 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 				}
 			}
 			if fresh {
-				bleed.observe(owner, hz, steady)
+				bleed.observe(owner, hz, own, steady)
 			}
 		}
 		if rerr != nil {

@@ -45,16 +45,24 @@ const (
 // SelectTuning makes every channel play tuning program of bank, then sets the
 // parameter number to "none" (127, 127) so a stray data entry changes nothing.
 func (t *Track) SelectTuning(delta, bank, program int) {
-	for ch := byte(0); ch < 16; ch++ {
-		for _, p := range [][2]int{{rpnTuningBank, bank}, {rpnTuningProgram, program}} {
-			t.Channel(delta, 0xB0|ch, ccRPNHigh, 0)
-			delta = 0
-			t.Channel(0, 0xB0|ch, ccRPNLow, byte(p[0]))
-			t.Channel(0, 0xB0|ch, ccDataEntry, byte(p[1])&0x7F)
-		}
-		t.Channel(0, 0xB0|ch, ccRPNHigh, 127)
-		t.Channel(0, 0xB0|ch, ccRPNLow, 127)
+	for ch := 0; ch < 16; ch++ {
+		t.SelectChannelTuning(delta, ch, bank, program)
+		delta = 0
 	}
+}
+
+// SelectChannelTuning makes one channel (0–15) play tuning program of bank,
+// as SelectTuning does for all: parts of one file can each have their own.
+func (t *Track) SelectChannelTuning(delta, channel, bank, program int) {
+	ch := byte(channel) & 0x0F
+	for _, p := range [][2]int{{rpnTuningBank, bank}, {rpnTuningProgram, program}} {
+		t.Channel(delta, 0xB0|ch, ccRPNHigh, 0)
+		delta = 0
+		t.Channel(0, 0xB0|ch, ccRPNLow, byte(p[0]))
+		t.Channel(0, 0xB0|ch, ccDataEntry, byte(p[1])&0x7F)
+	}
+	t.Channel(0, 0xB0|ch, ccRPNHigh, 127)
+	t.Channel(0, 0xB0|ch, ccRPNLow, 127)
 }
 
 // File ends the track ringOut ticks after its last event (time for a

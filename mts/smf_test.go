@@ -50,6 +50,26 @@ func TestTrackWritesAStandardMIDIFile(t *testing.T) {
 	}
 }
 
+// One channel alone: the same eight events on that channel only (MIDI 1.0
+// registered parameters 4 and 3, then the null parameter).
+func TestSelectChannelTuningTouchesOneChannel(t *testing.T) {
+	var tr Track
+	tr.SelectChannelTuning(5, 9, 1, 7)
+	events, err := ReadFile(tr.File(0))
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := [][3]byte{{101, 0}, {100, 4}, {6, 1}, {101, 0}, {100, 3}, {6, 7}, {101, 127}, {100, 127}}
+	if len(events) != len(want) {
+		t.Fatalf("%d events, want %d", len(events), len(want))
+	}
+	for i, w := range want {
+		if e := events[i]; e.Tick != 5 || !bytes.Equal(e.Msg, []byte{0xB9, w[0], w[1]}) {
+			t.Errorf("event %d: tick %d % X, want tick 5 B9 %02X %02X", i, e.Tick, e.Msg, w[0], w[1])
+		}
+	}
+}
+
 // Variable-length quantities (Standard MIDI Files 1.0's own examples).
 func TestVariableLengthQuantities(t *testing.T) {
 	for _, c := range []struct {

@@ -14,8 +14,9 @@ import (
 // alone: every lone note heard once, by its player, spelled the same and
 // within the take's cents; nothing else heard (a resting player stays
 // silent). With at, notes are matched by start time too (a file's
-// times are the take's; live, only the order is).
-func checkPlayerNotes(t *testing.T, how string, r renderedTake, lone [][]map[string]string, rows []map[string]string, at bool) {
+// times are the take's; live, only the order is). It returns how far each
+// note matched read from its part alone, ¢.
+func checkPlayerNotes(t *testing.T, how string, r renderedTake, lone [][]map[string]string, rows []map[string]string, at bool) (offs []float64) {
 	t.Helper()
 	heard := map[string][]map[string]string{}
 	for _, row := range rows {
@@ -42,12 +43,14 @@ func checkPlayerNotes(t *testing.T, how string, r renderedTake, lone [][]map[str
 			}
 			off := testsignal.Cents(parseF(g["hz"]), parseF(l["hz"]))
 			worst = max(worst, math.Abs(off))
+			offs = append(offs, off)
 			if math.Abs(off) > r.cents {
 				t.Errorf("%s %s: %s's %s at %s Hz, %+.2f ¢ from its reading alone (%s Hz); allowed ±%g ¢", how, r.name, p, g["note"], g["hz"], off, l["hz"], r.cents)
 			}
 		}
 	}
 	t.Logf("%s %s: %d notes, largest error %.3f ¢ against the parts alone", how, r.name, len(rows), worst)
+	return offs
 }
 
 func parseF(s string) float64 {
@@ -63,7 +66,7 @@ func TestAnalyzePlayersReadsRenderedTakes(t *testing.T) {
 		t.Run(take.name, func(t *testing.T) {
 			r := renderTake(t, take)
 			lone := r.loneNotes(t)
-			code, out, stderr := runLong(t, "analyze", "--key", r.key, "--players", strings.Join(r.players, ","), r.wet)
+			code, out, stderr := runLong(t, append(append([]string{"analyze"}, r.musical()...), "--players", strings.Join(r.players, ","), r.wet)...)
 			if code != 0 {
 				t.Fatalf("exit %d: %s", code, stderr)
 			}
@@ -82,7 +85,7 @@ type chordRow struct {
 
 func readChords(t *testing.T, r renderedTake, path string) []chordRow {
 	t.Helper()
-	code, out, stderr := runLong(t, "analyze", "--key", r.key, "--players", strings.Join(r.players, ","), "--chords", path)
+	code, out, stderr := runLong(t, append(append([]string{"analyze"}, r.musical()...), "--players", strings.Join(r.players, ","), "--chords", path)...)
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
@@ -152,20 +155,7 @@ func checkJustChord(t *testing.T, r renderedTake, chord chordRow) {
 	t.Helper()
 	offset := func(i int) float64 {
 		m := chord.members[r.players[i]]
-		from, to := parseF(m["start_s"])+harmony.Edge, parseF(m["end_s"])-harmony.Edge
-		code, out, stderr := runLong(t, "analyze", "--key", r.key, "--frames", r.lone[i])
-		if code != 0 {
-			t.Fatalf("%s alone: exit %d: %s", r.players[i], code, stderr)
-		}
-		_, rows := readCSV(t, out)
-		sum, n := 0.0, 0
-		for _, f := range rows {
-			if at := parseF(f["time_s"]); at >= from && at <= to && parseF(f["hz"]) > 0 {
-				sum += math.Log2(parseF(f["hz"]))
-				n++
-			}
-		}
-		return testsignal.Cents(math.Exp2(sum/float64(max(n, 1))), r.asked(i, len(r.parts[i].Notes)-1))
+		return testsignal.Cents(r.loneOver(t, i, parseF(m["start_s"])+harmony.Edge, parseF(m["end_s"])-harmony.Edge), r.asked(i, len(r.parts[i].Notes)-1))
 	}
 	for i, p := range r.players {
 		m, ok := chord.members[p]
@@ -180,6 +170,29 @@ func checkJustChord(t *testing.T, r renderedTake, chord chordRow) {
 	}
 }
 
+// loneOver is the pitch part i alone holds from one time to another: the
+// geometric mean of its frames there (read once per part).
+func (r renderedTake) loneOver(t *testing.T, i int, from, to float64) float64 {
+	t.Helper()
+	rows, ok := r.frames[i]
+	if !ok {
+		code, out, stderr := runLong(t, append(append([]string{"analyze"}, r.musical()...), "--frames", r.lone[i])...)
+		if code != 0 {
+			t.Fatalf("%s alone: exit %d: %s", r.players[i], code, stderr)
+		}
+		_, rows = readCSV(t, out)
+		r.frames[i] = rows
+	}
+	sum, n := 0.0, 0
+	for _, f := range rows {
+		if at := parseF(f["time_s"]); at >= from && at <= to && parseF(f["hz"]) > 0 {
+			sum += math.Log2(parseF(f["hz"]))
+			n++
+		}
+	}
+	return math.Exp2(sum / float64(max(n, 1)))
+}
+
 // The wind quartet played live into a four-channel interface (a
 // PulseAudio null sink of four channels of this test's own, its monitor
 // the input) and heard by listen --plain --players: every note found once
@@ -188,7 +201,7 @@ func TestListenPlayersHearsRenderedWindsLive(t *testing.T) {
 	t.Parallel()
 	r := renderTake(t, ensembleTakes[0])
 	lone := r.loneNotes(t)
-	out := playQuartetLive(t, r.wet, "--key", r.key, "--players", strings.Join(r.players, ","))
+	out := playQuartetLive(t, r.wet, append(r.musical(), "--players", strings.Join(r.players, ","))...)
 	_, rows := readCSV(t, out)
 	checkPlayerNotes(t, "listen", r, lone, rows, false)
 	if t.Failed() {

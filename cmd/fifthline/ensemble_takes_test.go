@@ -3,7 +3,6 @@ package main
 import (
 	"fmt"
 	"math"
-	"os/exec"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -27,7 +26,8 @@ import (
 // FluidR3's samples carry their own tuning (set by ear) and, for strings
 // and voices, their own vibrato, so the truth of each note is what the
 // same part reads alone, without bleed; the chords' truth is the same
-// multitrack read without bleed.
+// multitrack read without bleed. (tempered_takes_test.go has takes tuned
+// through the MIDI Tuning Standard instead.)
 
 // ensembleTake is one take's writing.
 type ensembleTake struct {
@@ -36,6 +36,19 @@ type ensembleTake struct {
 	parts     []testsignal.MIDIPart // one per player
 	chords    []string              // the chords written, in order
 	cents     float64               // how far a note may read from its lone part's reading
+	flags     []string              // musical flags beyond the key (temperament, A4)
+	written   [][]string            // each part's notes as spelled, where spelledInC would not
+}
+
+// musical is the take's musical flags for fifthline.
+func (e ensembleTake) musical() []string { return append([]string{"--key", e.key}, e.flags...) }
+
+// spelled is part i's note j as written.
+func (e ensembleTake) spelled(i, j int) string {
+	if e.written != nil {
+		return e.written[i][j]
+	}
+	return spelledInC(e.parts[i].Notes[j].Key)
 }
 
 // justThird and justFifth are the bends that make a third or fifth just
@@ -110,34 +123,48 @@ type renderedTake struct {
 	ensembleTake
 	wet, dry string
 	lone     []string
+	frames   map[int][]map[string]string // each part alone, frame by frame, once read
 }
 
 // renderTake renders each part alone (fluidsynth), pads it with leadIn
 // seconds of silence and makes it mono (sox), then mixes the multitracks
-// with and without bleed (sox).
+// with and without bleed (mix).
 func renderTake(t *testing.T, take ensembleTake) renderedTake {
 	t.Helper()
-	// Shared by the tests that read the same take (sharedOnce).
-	return sharedOnce(t, fmt.Sprintf("ensemble take %#v", take), func(dir string) renderedTake { return renderTakeIn(t, dir, take) })
+	// The files are shared by the tests that read the same take
+	// (sharedOnce); the frames read from them are each test's own.
+	r := sharedOnce(t, fmt.Sprintf("ensemble take %#v", take), func(dir string) renderedTake { return renderTakeIn(t, dir, take) })
+	r.frames = map[int][]map[string]string{}
+	return r
 }
 
 func renderTakeIn(t *testing.T, dir string, take ensembleTake) renderedTake {
-	r := renderedTake{ensembleTake: take, wet: filepath.Join(dir, "wet.wav"), dry: filepath.Join(dir, "dry.wav")}
-	soxRun := func(args ...string) {
-		if out, err := exec.Command("sox", args...).CombinedOutput(); err != nil {
-			t.Fatalf("sox %v: %v\n%s", args, err, out)
-		}
-	}
-	f := func(x float64) string { return strconv.FormatFloat(x, 'f', 4, 64) }
+	r := renderedTake{ensembleTake: take}
 	for i, p := range take.parts {
 		name := filepath.Join(dir, take.players[i])
 		raw := fluidWAV(t, testsignal.MIDIParts([]testsignal.MIDIPart{p}), "-ni", "-q", "-R", "0", "-C", "0", "-g", "0.5", "-r", "48000")
-		soxRun(raw, "-b", "24", "-c", "1", name+".wav", "pad", f(leadIn), "0.3")
+		soxTB(t, raw, "-b", "24", "-c", "1", name+".wav", "pad", strconv.FormatFloat(leadIn, 'f', 4, 64), "0.3")
 		r.lone = append(r.lone, name+".wav")
 	}
-	// Channel c of the wet take is part c plus every other part o, bleedDB
-	// down and bleedMs late.
+	r.mix(t, dir, nil)
+	return r
+}
+
+// mix writes the multitracks of the lone parts into dir (sox): channel c
+// of the wet take is part c plus every other part o, bleedDB[c][o] down
+// and bleedMs[c][o] late, plus noise[c] when noise is given (raw 32-bit
+// float files at 48 kHz, one per channel); the dry take is the parts alone.
+func (r *renderedTake) mix(t *testing.T, dir string, noise []string) {
+	t.Helper()
+	r.wet, r.dry = filepath.Join(dir, "wet.wav"), filepath.Join(dir, "dry.wav")
+	f := func(x float64) string { return strconv.FormatFloat(x, 'f', 4, 64) }
 	wet := append([]string{"-M"}, r.lone...)
+	inputs := len(r.lone) // sox -M numbers the merged inputs' channels from 1
+	add := func(file ...string) string {
+		wet = append(wet, file...)
+		inputs++
+		return strconv.Itoa(inputs)
+	}
 	var remix []string
 	for c := range r.lone {
 		mix := []string{strconv.Itoa(c + 1)}
@@ -146,15 +173,16 @@ func renderTakeIn(t *testing.T, dir string, take ensembleTake) renderedTake {
 				continue
 			}
 			late := filepath.Join(dir, "late"+strconv.Itoa(c)+strconv.Itoa(o)+".wav")
-			soxRun(r.lone[o], late, "pad", f(bleedMs[c][o]/1000))
-			wet = append(wet, late)
-			mix = append(mix, strconv.Itoa(len(wet)-1)+"v"+strconv.FormatFloat(math.Pow(10, -bleedDB[c][o]/20), 'f', 6, 64))
+			soxTB(t, r.lone[o], late, "pad", f(bleedMs[c][o]/1000))
+			mix = append(mix, add(late)+"v"+strconv.FormatFloat(math.Pow(10, -bleedDB[c][o]/20), 'f', 6, 64))
+		}
+		if noise != nil {
+			mix = append(mix, add("-t", "raw", "-e", "floating-point", "-b", "32", "-r", "48000", "-c", "1", noise[c])+"v1")
 		}
 		remix = append(remix, strings.Join(mix, ","))
 	}
-	soxRun(append(append(wet, "-b", "24", r.wet, "remix"), remix...)...)
-	soxRun(append(append([]string{"-M"}, r.lone...), "-b", "24", r.dry)...)
-	return r
+	soxTB(t, append(append(wet, "-b", "24", r.wet, "remix"), remix...)...)
+	soxTB(t, append(append([]string{"-M"}, r.lone...), "-b", "24", r.dry)...)
 }
 
 // loneNotes reads each part alone, one channel at a time, with the
@@ -165,7 +193,7 @@ func (r renderedTake) loneNotes(t *testing.T) [][]map[string]string {
 	t.Helper()
 	var all [][]map[string]string
 	for i, path := range r.lone {
-		code, out, stderr := runLong(t, "analyze", "--key", r.key, path)
+		code, out, stderr := runLong(t, append(append([]string{"analyze"}, r.musical()...), path)...)
 		if code != 0 {
 			t.Fatalf("%s %s alone: exit %d: %s", r.name, r.players[i], code, stderr)
 		}
@@ -174,9 +202,10 @@ func (r renderedTake) loneNotes(t *testing.T) [][]map[string]string {
 			t.Fatalf("%s %s alone: %d notes, %d written:\n%s", r.name, r.players[i], len(rows), len(r.parts[i].Notes), out)
 		}
 		for j, row := range rows {
-			// Every note the takes write is spelled alike in C, D and F
-			// major (C♯, F♯ and B♭ included), as spelledInC spells it.
-			if want := spelledInC(r.parts[i].Notes[j].Key); row["note"] != want {
+			// Every note the bent takes write is spelled alike in C, D
+			// and F major (C♯, F♯ and B♭ included), as spelledInC spells
+			// it; the tempered takes say how each is written.
+			if want := r.spelled(i, j); row["note"] != want {
 				t.Fatalf("%s %s alone: note %d read %s, written %s", r.name, r.players[i], j+1, row["note"], want)
 			}
 			// The sample's own tuning, as the lone part reads it.
@@ -188,8 +217,12 @@ func (r renderedTake) loneNotes(t *testing.T) [][]map[string]string {
 }
 
 // asked is the pitch the render of part i's note j was asked for: its key
-// in equal temperament at A4 = 440 Hz (ISO 16), bent as written.
+// where the part's MIDI Tuning Standard tuning puts it, else in equal
+// temperament at A4 = 440 Hz (ISO 16), bent as written.
 func (r renderedTake) asked(i, j int) float64 {
 	n := r.parts[i].Notes[j]
+	if tu := r.parts[i].Tuning; tu != nil {
+		return tu[n.Key].Hz()
+	}
 	return 440 * math.Exp2((float64(n.Key-69)+testsignal.BendCents(r.parts[i].Cents+n.Cents)/100)/12)
 }

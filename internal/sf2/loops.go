@@ -85,19 +85,22 @@ func (f *Font) Loops(names []string, perInstrument, maxFrames int) ([]Loop, erro
 // multiples of k, and less under k-1 or k+1.
 func HoldsCycles(loop []float64, k int) bool {
 	c := fourier.NewFFT(len(loop)).Coefficients(nil, loop)
-	share := func(k int) float64 {
-		var on, all float64
-		for i, z := range c[1:] {
-			p := real(z)*real(z) + imag(z)*imag(z)
-			all += p
-			if (i+1)%k == 0 {
-				on += p
-			}
+	s := combShare(c, k)
+	return s > 0.8 && s > combShare(c, k+1) && (k == 1 || s > combShare(c, k-1))
+}
+
+// combShare is the share of a loop's energy (DC left out) in its DFT bins
+// c that are multiples of k: the harmonics of k cycles per loop.
+func combShare(c []complex128, k int) float64 {
+	var on, all float64
+	for i, z := range c[1:] {
+		p := real(z)*real(z) + imag(z)*imag(z)
+		all += p
+		if (i+1)%k == 0 {
+			on += p
 		}
-		return on / all
 	}
-	s := share(k)
-	return s > 0.8 && s > share(k+1) && (k == 1 || s > share(k-1))
+	return on / all
 }
 
 // Seamless reports whether the step from a loop's last sample back to its

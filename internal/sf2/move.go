@@ -6,20 +6,27 @@ import (
 	"fifthline/internal/testsignal"
 )
 
-// Nearest is the loop whose fundamental lies nearest hz (false when there
-// are none).
-func Nearest(loops []Loop, hz float64) (Loop, bool) {
-	if len(loops) == 0 {
-		return Loop{}, false
+// Nearest is the loop or timbre whose fundamental lies nearest hz (false
+// when there are none).
+func Nearest[T interface{ Fundamental() float64 }](xs []T, hz float64) (T, bool) {
+	var best T
+	if len(xs) == 0 {
+		return best, false
 	}
-	best := loops[0]
-	for _, l := range loops {
-		if math.Abs(math.Log(l.Hz/hz)) < math.Abs(math.Log(best.Hz/hz)) {
-			best = l
+	best = xs[0]
+	for _, x := range xs {
+		if math.Abs(math.Log(x.Fundamental()/hz)) < math.Abs(math.Log(best.Fundamental()/hz)) {
+			best = x
 		}
 	}
 	return best, true
 }
+
+// Fundamental is the loop's exact fundamental, Hz.
+func (l Loop) Fundamental() float64 { return l.Hz }
+
+// Fundamental is the loop's mean fundamental, Hz.
+func (t Timbre) Fundamental() float64 { return t.Hz }
 
 // At plays the loop for n samples at rate with its fundamental moved to
 // about hz, by re-periodising it (testsignal.Reperiod, band-limited: its k

@@ -2,9 +2,12 @@ package sf2
 
 import (
 	"bytes"
+	"math"
 	"os"
 	"strings"
 	"testing"
+
+	"fifthline/internal/testsignal"
 )
 
 // fluid-soundfont-gm (Debian) installs the FluidR3 General MIDI font here.
@@ -97,4 +100,63 @@ func FuzzOpen(f *testing.F) {
 			}
 		}
 	})
+}
+
+// FluidR3's loops give a harmonic profile for each instrument the ensemble
+// takes use, and a profile is the loop's own sound: played at the loop's
+// exact fundamental (a whole-cycle clarinet loop, E3), one cycle of it
+// matches the loop's average cycle, and its even partials are weak, as a
+// clarinet's low register has them (odd partials dominate: Fletcher &
+// Rossing, "The Physics of Musical Instruments", from memory).
+func TestTimbresAreTheLoopsOwnSpectra(t *testing.T) {
+	f := openFluid(t)
+	names := []string{"Bassoon", "Clarinet", "Oboe", "Flute", "Cello", "Viola", "Violin", "Ohh Voices"}
+	timbres, err := f.Timbres(names, 20000)
+	if err != nil {
+		t.Fatal(err)
+	}
+	per := map[string]int{}
+	for _, tb := range timbres {
+		per[tb.Instrument]++
+	}
+	for _, n := range names {
+		if per[n] == 0 {
+			t.Errorf("no profile of FluidR3's %s", n)
+		}
+	}
+	loops, err := f.Loops([]string{"Clarinet"}, 20, 4096)
+	if err != nil {
+		t.Fatal(err)
+	}
+	loop, _ := Nearest(loops, 165)
+	var tb Timbre
+	for _, x := range timbres {
+		if x.Sample == loop.Sample {
+			tb = x
+		}
+	}
+	if tb.Hz != loop.Hz {
+		t.Fatalf("profile of %s at %.3f Hz, its loop at %.3f Hz", loop.Sample, tb.Hz, loop.Hz)
+	}
+	// The loop's k cycles averaged into one, and one cycle of the profile,
+	// both as testsignal.Reperiod lays them on 512 samples.
+	avg := make([]float64, 512)
+	for i, v := range testsignal.Reperiod(loop.Frames, 512*loop.Cycles) {
+		avg[i%512] += v / float64(loop.Cycles)
+	}
+	one := testsignal.Tone(512*loop.Hz, 512, tb.Spectrum, 1, testsignal.Steady(loop.Hz))
+	testsignal.Normalize(avg, 1)
+	a := tb.Spectrum.Amps
+	var dot, aa, bb float64
+	for i := range avg {
+		dot, aa, bb = dot+avg[i]*one[i], aa+avg[i]*avg[i], bb+one[i]*one[i]
+	}
+	r := dot / math.Sqrt(aa*bb)
+	t.Logf("%s (%d cycles, %.3f Hz): one cycle of its profile correlates with the loop's average cycle at %.4f; partials 1–4 %.3f", loop.Sample, loop.Cycles, loop.Hz, r, a[:4])
+	if r < 0.99 {
+		t.Errorf("%s: profile and loop correlate at %.3f", loop.Sample, r)
+	}
+	if !(a[1] < a[0]/4 && a[3] < a[2]/4) {
+		t.Errorf("%s: partials %v; a clarinet's low register has weak even partials", loop.Sample, a[:4])
+	}
 }

@@ -1,8 +1,9 @@
 package testsignal
 
 import (
-	"encoding/binary"
 	"slices"
+
+	"fifthline/mts"
 )
 
 // MIDIPart is one player of a multi-part MIDI file: a General MIDI program
@@ -12,6 +13,11 @@ type MIDIPart struct {
 	Program int
 	Cents   float64 // pitch bend, within the default ±200 ¢ range (General MIDI)
 	Notes   []TimedNote
+	// Tuning, when set, is the part's keyboard as MIDI Tuning Standard
+	// real-time single-note changes of all 128 keys, sent at time 0 as
+	// tuning program i (bank 0) of part i, which its channel selects: each
+	// part its own tuning.
+	Tuning *mts.Keys
 }
 
 // TimedNote is a MIDI key (60 = C4) sounding from Start for Seconds, bent
@@ -33,15 +39,27 @@ func BendCents(cents float64) float64 { return float64(BendValue(cents)-8192) * 
 func BendValue(cents float64) int { return min(max(8192+int(cents*8192/200+0.5), 0), 16383) }
 
 // MIDIParts builds a Standard MIDI File (format 0, 960 ticks a second as
-// MIDI builds) with each part on channel i: its program and bend at time 0,
-// then its notes; the last release rings for half a second. A part with a
-// note of its own bend sets the bend again at each of its notes' starts.
+// MIDI builds) with each part on channel i: its tuning, program and bend at
+// time 0, then its notes; the last release rings for half a second. A part
+// with a note of its own bend sets the bend again at each of its notes'
+// starts.
 func MIDIParts(parts []MIDIPart) []byte {
 	type event struct {
 		tick int
 		msg  []byte
 	}
-	ticks := func(s float64) int { return int(s*960 + 0.5) }
+	ticks := func(s float64) int { return int(s*mts.TicksPerSecond + 0.5) }
+	// The tunings come first, then the channels select them (as the
+	// keyboard command's files do).
+	var t mts.Track
+	for ch, p := range parts {
+		if p.Tuning != nil {
+			for _, m := range mts.SingleNoteChanges(mts.AllDevices, byte(ch), p.Tuning) {
+				t.SysEx(0, m)
+			}
+			t.SelectChannelTuning(0, ch, 0, ch)
+		}
+	}
 	var evs []event
 	for ch, p := range parts {
 		b := BendValue(p.Cents)
@@ -58,28 +76,10 @@ func MIDIParts(parts []MIDIPart) []byte {
 		}
 	}
 	slices.SortStableFunc(evs, func(a, b event) int { return a.tick - b.tick })
-	var trk []byte
 	at := 0
 	for _, e := range evs {
-		trk = appendVLQ(trk, e.tick-at)
-		trk = append(trk, e.msg...)
+		t.Channel(e.tick-at, e.msg...)
 		at = e.tick
 	}
-	trk = appendVLQ(trk, 480)
-	trk = append(trk, 0xFF, 0x2F, 0)
-	out := []byte("MThd\x00\x00\x00\x06\x00\x00\x00\x01\x01\xe0MTrk")
-	out = binary.BigEndian.AppendUint32(out, uint32(len(trk)))
-	return append(out, trk...)
-}
-
-// appendVLQ appends a MIDI variable-length quantity.
-func appendVLQ(b []byte, v int) []byte {
-	var tmp [5]byte
-	i := len(tmp) - 1
-	tmp[i] = byte(v & 0x7f)
-	for v >>= 7; v > 0; v >>= 7 {
-		i--
-		tmp[i] = byte(v&0x7f | 0x80)
-	}
-	return append(b, tmp[i:]...)
+	return t.File(mts.TicksPerSecond / 2)
 }

@@ -9,14 +9,17 @@ package testsignal
 import (
 	"math"
 	"math/rand/v2"
+	"slices"
 
 	"gonum.org/v1/gonum/dsp/fourier"
 )
 
-// Spectrum is a named list of partial amplitudes, partial 1 first.
+// Spectrum is a named list of partial amplitudes, partial 1 first, and
+// optionally their phases (radians of a sine; nil: fixed, unrelated ones).
 type Spectrum struct {
-	Name string
-	Amps []float64
+	Name   string
+	Amps   []float64
+	Phases []float64
 }
 
 // Spectra used across the accuracy tests. The shapes follow textbook
@@ -25,11 +28,11 @@ type Spectrum struct {
 // odd partials only for a clarinet's low register, a fundamental far below
 // partials 2..5 for bassoon and low brass, and a dominant second partial.
 var (
-	Sine         = Spectrum{"sine", []float64{1}}
-	Saw          = Spectrum{"saw 1/k", sawAmps(24)}
-	OddOnly      = Spectrum{"odd-only 1/k", oddAmps(24)}
-	WeakFund     = Spectrum{"weak fundamental -26 dB", []float64{0.05, 1, 0.8, 0.6, 0.5, 0.3, 0.2, 0.15, 0.1, 0.05}}
-	StrongSecond = Spectrum{"strong 2nd partial", []float64{0.3, 1, 0.1, 0.35, 0.05, 0.15, 0.03, 0.08}}
+	Sine         = Spectrum{Name: "sine", Amps: []float64{1}}
+	Saw          = Spectrum{Name: "saw 1/k", Amps: sawAmps(24)}
+	OddOnly      = Spectrum{Name: "odd-only 1/k", Amps: oddAmps(24)}
+	WeakFund     = Spectrum{Name: "weak fundamental -26 dB", Amps: []float64{0.05, 1, 0.8, 0.6, 0.5, 0.3, 0.2, 0.15, 0.1, 0.05}}
+	StrongSecond = Spectrum{Name: "strong 2nd partial", Amps: []float64{0.3, 1, 0.1, 0.35, 0.05, 0.15, 0.03, 0.08}}
 	All          = []Spectrum{Sine, Saw, OddOnly, WeakFund, StrongSecond}
 )
 
@@ -51,7 +54,8 @@ func oddAmps(n int) []float64 {
 
 // Tone renders a harmonic tone of n samples whose instantaneous fundamental
 // is hz(t) (t in seconds), partials above 0.45·rate dropped, peak-normalised
-// to level (linear). Phases start at fixed, unrelated values.
+// to level (linear). Phases start at the spectrum's, else at fixed,
+// unrelated values.
 func Tone(rate float64, n int, s Spectrum, level float64, hz func(t float64) float64) []float64 {
 	x := make([]float64, n)
 	phase := 0.0 // cycles of the fundamental
@@ -64,7 +68,7 @@ func Tone(rate float64, n int, s Spectrum, level float64, hz func(t float64) flo
 			if a == 0 || kk*f > 0.45*rate {
 				continue
 			}
-			v += a * math.Sin(2*math.Pi*kk*phase+1.3*kk*kk)
+			v += a * math.Sin(2*math.Pi*kk*phase+s.phase(k))
 		}
 		x[i] = v
 		phase += f / rate
@@ -74,6 +78,14 @@ func Tone(rate float64, n int, s Spectrum, level float64, hz func(t float64) flo
 	}
 	Normalize(x, level)
 	return x
+}
+
+// phase is partial k+1's starting phase.
+func (s Spectrum) phase(k int) float64 {
+	if k < len(s.Phases) {
+		return s.Phases[k]
+	}
+	return 1.3 * float64((k+1)*(k+1))
 }
 
 // Steady is a constant fundamental.
@@ -211,6 +223,14 @@ func FadeIn(x []float64, rate, seconds float64) {
 	for i := range n {
 		x[i] *= 0.5 - 0.5*math.Cos(math.Pi*float64(i)/float64(n))
 	}
+}
+
+// FadeOut shapes the last seconds of x with a raised-cosine release, the
+// mirror of FadeIn.
+func FadeOut(x []float64, rate, seconds float64) {
+	slices.Reverse(x)
+	FadeIn(x, rate, seconds)
+	slices.Reverse(x)
 }
 
 // Repeat plays one period over and over for n samples.
