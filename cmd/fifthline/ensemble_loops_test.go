@@ -201,6 +201,7 @@ func (r renderedTake) exactJust(chord chordRow, player string) (just, hz float64
 // analyze --players and --chords on the loop voices' takes, against exact
 // truth: the bar, with the measured worst and median logged.
 func TestAnalyzePlayersReadsLoopVoicesExactly(t *testing.T) {
+	t.Parallel()
 	timbres := loopTimbres(t)
 	var notes, justs []float64
 	for _, lt := range loopTakes {
@@ -210,7 +211,7 @@ func TestAnalyzePlayersReadsLoopVoicesExactly(t *testing.T) {
 		}
 		t.Run(name, func(t *testing.T) {
 			r := playLoopTake(t, lt, timbres)
-			code, out, stderr := runCLI(t, "analyze", "--key", r.key, "--players", strings.Join(r.players, ","), r.wet)
+			code, out, stderr := runLong(t, "analyze", "--key", r.key, "--players", strings.Join(r.players, ","), r.wet)
 			if code != 0 {
 				t.Fatalf("exit %d: %s", code, stderr)
 			}

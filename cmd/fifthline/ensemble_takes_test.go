@@ -132,7 +132,8 @@ type renderedTake struct {
 func renderTake(t *testing.T, take ensembleTake) renderedTake {
 	t.Helper()
 	// The files are shared by the tests that read the same take
-	// (sharedOnce); the frames read from them are each test's own.
+	// (sharedOnce; a part's tuning counts by its address, so the same
+	// written take); the frames read from them are each test's own.
 	r := sharedOnce(t, fmt.Sprintf("ensemble take %#v", take), func(dir string) renderedTake { return renderTakeIn(t, dir, take) })
 	r.frames = map[int][]map[string]string{}
 	return r

@@ -20,12 +20,13 @@ import (
 // from just within 1.5 ¢ (¼-comma meantone: major thirds 0, fifths
 // −5.38 ¢).
 func TestAnalyzePlayersReadsTemperedTakes(t *testing.T) {
+	t.Parallel()
 	for _, tt := range temperedTakes {
 		t.Run(tt.name, func(t *testing.T) {
 			take, pub := tt.ensemble(t)
 			r := renderTake(t, take)
 			lone := r.loneNotes(t)
-			code, out, stderr := runCLI(t, append(append([]string{"analyze"}, r.musical()...), "--players", strings.Join(r.players, ","), r.wet)...)
+			code, out, stderr := runLong(t, append(append([]string{"analyze"}, r.musical()...), "--players", strings.Join(r.players, ","), r.wet)...)
 			if code != 0 {
 				t.Fatalf("exit %d: %s", code, stderr)
 			}
@@ -144,6 +145,7 @@ func checkTemperedChords(t *testing.T, tt temperedTake, r renderedTake, pub [][]
 // spelled as written, within 1 ¢ of its part's reading alone and its cents
 // against the temperament within 1 ¢ of where the tuning put it.
 func TestListenPlayersHearsTemperedTakeLive(t *testing.T) {
+	t.Parallel()
 	take, pub := temperedTakes[0].ensemble(t)
 	r := renderTake(t, take)
 	lone := r.loneNotes(t)
