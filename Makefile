@@ -47,10 +47,12 @@ demo: build
 # report_test), as do --players, --voices and --chords on short sox takes.
 # The checks are the same either way. fluidsynth renders each take once per
 # test binary, and the tests that wait on those analyses or on sound playing
-# in real time run in parallel.
+# in real time run in parallel, four at a time (-parallel 4; only
+# cmd/fifthline has parallel tests): most of the live ones wait on playback,
+# not the two cores.
 test: deps vet
 	@scripts/vmic-start
-	$(GO) test -race -count=1 -timeout 20m ./...
+	$(GO) test -race -count=1 -parallel 4 -timeout 20m ./...
 
 # The pure core builds without cgo (and so without PortAudio's headers).
 CORE := ./source/ ./target/ ./pitchdetect/ ./session/ ./journal/ ./report/ ./drone/ ./ui/ ./harmony/

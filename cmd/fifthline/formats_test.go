@@ -66,6 +66,7 @@ func heldNotes(t *testing.T, path string) []session.Event {
 // newMP3), so notes start at the same time; a lossy attack may move a
 // note's start by one analysis hop.
 func TestAnalyzeReadsEveryFormatAsTheWAV(t *testing.T) {
+	t.Parallel()
 	if _, err := exec.LookPath("ffmpeg"); err != nil {
 		t.Fatalf("ffmpeg not found (make test installs it): %v", err)
 	}

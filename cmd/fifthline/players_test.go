@@ -94,6 +94,7 @@ func soxBleed(t testing.TB, dir string, dry []string, out string) {
 // the resting first violin silent until she enters, rows ordered by
 // start_s with player and channel columns (interface contract).
 func TestAnalyzePlayersReadsEachFromTheirOwnChannel(t *testing.T) {
+	t.Parallel()
 	path := soxQuartet(t)
 	log := filepath.Join(t.TempDir(), "rehearsal.csv")
 	code, out, stderr := runCLI(t, "analyze", "--players", "vc,vla,vl2,vl1", "--log", log, path)
@@ -159,6 +160,7 @@ func TestAnalyzePlayersReadsEachFromTheirOwnChannel(t *testing.T) {
 // (equal temperament's third and fifth against 5/4 and 3/2: 400 − 386.31
 // and 700 − 701.96 ¢, from the definitions).
 func TestAnalyzePlayersChords(t *testing.T) {
+	t.Parallel()
 	code, out, stderr := runCLI(t, "analyze", "--players", "vc,vla,vl2,vl1", "--chords", soxQuartet(t))
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, stderr)

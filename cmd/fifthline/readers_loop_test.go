@@ -24,6 +24,7 @@ import (
 // 1.3 s a swing of ±4.5 ¢ at about 0.8 Hz), whose centre each reader takes
 // over a different stretch.
 func TestBothReadersHearASteadyClarinetLoopExactly(t *testing.T) {
+	t.Parallel()
 	_, path := fluidSynth(t)
 	font, fh, err := sf2.OpenFile(path)
 	if err != nil {

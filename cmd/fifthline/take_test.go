@@ -28,6 +28,7 @@ func equalScale(a4 float64) []float64 {
 // but analysed at the default 440 reads as F♯, G♯, B♭…: analyze says so and
 // names the key and reference that fit.
 func TestAForgottenReferenceIsNoticed(t *testing.T) {
+	t.Parallel()
 	take := toneWAV(t, equalScale(415)...)
 	code, out, stderr := runCLI(t, "analyze", "--key", "G major", take)
 	if code != 0 {

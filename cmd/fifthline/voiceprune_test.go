@@ -9,6 +9,7 @@ import (
 // chord. sox sums sawtooths onto one channel: equal-tempered C4 E4 G4
 // (261.63, 329.63, 392.00 Hz; ISO 16, common practice) and a fourth voice.
 func TestVoicesPrunedByKeyAndChord(t *testing.T) {
+	t.Parallel()
 	notes := func(out string) string {
 		_, rows := readCSV(t, out)
 		var n []string

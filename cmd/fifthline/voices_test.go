@@ -15,6 +15,7 @@ import (
 // Each voice is one held note with its voice number, lowest first, read
 // within 0.5 ¢ of what sox was asked for.
 func TestAnalyzeVoicesFromSoxChord(t *testing.T) {
+	t.Parallel()
 	path, out := soxVoices(t, "synth 2 sawtooth 261.63 sawtooth 327.0375 sawtooth 392.445 remix 1,2,3 gain -8")
 	header, rows := readCSV(t, out)
 	if strings.Join(header[len(header)-2:], ",") != "voice,doubled" || len(rows) != 3 {
