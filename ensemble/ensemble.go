@@ -106,8 +106,7 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 	bleed := opt.Bleed.model(voices[0].det.Window(), len(voices))
 	hist := newHistory(len(voices), src.SampleRate())
 	heard := make([][]float32, len(voices)) // each player's channel, this block
-	hz, steady := make([]float64, len(voices)), make([]bool, len(voices))
-	read := make([]float64, len(voices)) // each detector's pitch this frame, before the ownership test
+	fr := newFrameReadings(len(voices))
 	frame := 0
 	blocks, view := make([][]float32, src.Channels()), make([][]float32, src.Channels())
 	for c := range blocks {
@@ -161,14 +160,14 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 				fresh = true
 			}
 			for i, v := range voices {
-				read[i] = v.est[j].Hz
+				fr.read[i], fr.level[i] = v.est[j].Hz, v.est[j].Level
 			}
 			for i, v := range voices {
 				e := v.est[j]
-				if e.Voiced && owner.Bleed(i, e.Hz, read, ownDB) {
+				if e.Voiced && owner.Bleed(i, e.Hz, fr.read, ownDB) {
 					e.Voiced, e.Hz, e.Confidence = false, 0, 0
 				}
-				hz[i], steady[i] = e.Hz, v.steady(e.Hz)
+				fr.hz[i], fr.steady[i] = e.Hz, v.steady(e.Hz)
 				if opt.OnFrame != nil {
 					opt.OnFrame(i, e)
 				}
@@ -179,7 +178,7 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 				}
 			}
 			if fresh {
-				bleed.observe(owner, hz, steady)
+				bleed.observe(owner, fr)
 			}
 		}
 		if rerr != nil {
