@@ -42,14 +42,16 @@ type Options struct {
 // voice is one player's reading chain.
 type voice struct {
 	Player
-	det   *pitchdetect.Detector
-	seg   *pitchdetect.Segmenter
-	ring  []float64 // the latest window of the player's channel, as heard
-	w     int       // next write position in ring
-	clean []float32 // this block less what the channel hears of the others
-	est   []pitchdetect.Estimate
-	last  float64 // the previous frame's pitch, 0 when unvoiced
-	same  int     // frames in a row at that pitch (or silent)
+	det    *pitchdetect.Detector
+	seg    *pitchdetect.Segmenter
+	ring   []float64 // the latest window of the player's channel, as heard
+	w      int       // next write position in ring
+	clean  []float32 // this block less what the channel hears of the others
+	est    []pitchdetect.Estimate
+	last   float64                // the previous frame's pitch, 0 when unvoiced
+	same   int                    // frames in a row at that pitch (or silent)
+	held   []pitchdetect.Estimate // frames given away as bleed, held back (attack.go)
+	inNote bool                   // the held frames began within a note, not at an onset
 }
 
 // ownEvery: the channels' spectra for the ownership test and the bleed
@@ -122,6 +124,7 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 	finish := func() error {
 		var errs []error
 		for _, v := range voices {
+			errs = append(errs, v.release(deliver))
 			if h, ok := v.seg.Flush(); ok {
 				errs = append(errs, deliver(v, h))
 			}
@@ -164,17 +167,18 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 			}
 			for i, v := range voices {
 				e := v.est[j]
-				if e.Voiced && owner.Bleed(i, e.Hz, fr.read, ownDB) {
-					e.Voiced, e.Hz, e.Confidence = false, 0, 0
+				blanked := e.Voiced && owner.Bleed(i, e.Hz, fr.read, ownDB)
+				heard := e
+				if blanked {
+					heard = unvoiced(e)
 				}
-				fr.hz[i], fr.steady[i] = e.Hz, v.steady(e.Hz)
+				prev := v.last
+				fr.hz[i], fr.steady[i] = heard.Hz, v.steady(heard.Hz)
 				if opt.OnFrame != nil {
-					opt.OnFrame(i, e)
+					opt.OnFrame(i, heard)
 				}
-				if h, done := v.seg.Push(e); done {
-					if err := deliver(v, h); err != nil {
-						return err
-					}
+				if err := v.push(e, blanked, prev, deliver); err != nil {
+					return err
 				}
 			}
 			if fresh {
