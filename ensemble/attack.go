@@ -34,12 +34,13 @@ const attackFrames = 4
 func (v *voice) push(e pitchdetect.Estimate, blanked bool, prev float64, deliver func(*voice, pitchdetect.Held) error) error {
 	if blanked && (len(v.held) > 0 || prev == 0 || sameNote(e.Hz, prev)) {
 		if len(v.held) == 0 {
-			v.inNote = prev > 0
+			v.note, v.spilled = prev, false
 		}
 		var err error
 		if len(v.held) == attackFrames {
 			err = v.feed1(unvoiced(v.held[0]), deliver)
 			v.held = append(v.held[:0], v.held[1:]...)
+			v.spilled = true
 		}
 		v.held = append(v.held, e)
 		return err
@@ -64,16 +65,19 @@ func (v *voice) push(e pitchdetect.Estimate, blanked bool, prev float64, deliver
 }
 
 // takesBack tells whether the held frame h is the player's own, given
-// the frame e that follows the held ones: their own note related to it,
-// or, for frames held within a note, the silence after its release.
+// the frame e that follows the held ones. Held at an onset: the player's
+// own note follows, at h's pitch or an octave or a twelfth above it. Held
+// within a note: h is at the note's pitch and the note was not given up
+// meanwhile (more than attackFrames held: the segmenter has bridged or
+// ended it), whatever follows.
 func (v *voice) takesBack(h, e pitchdetect.Estimate, blanked bool) bool {
 	switch {
 	case blanked:
 		return false
-	case e.Voiced:
-		return attackOf(h.Hz, e.Hz)
+	case v.note > 0:
+		return !v.spilled && sameNote(h.Hz, v.note)
 	}
-	return v.inNote
+	return e.Voiced && attackOf(h.Hz, e.Hz)
 }
 
 // release gives away the frames still held back (the stream ended).

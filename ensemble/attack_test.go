@@ -93,6 +93,23 @@ func TestFramesGivenAwayAtAnOnsetOrReleaseAreTakenBack(t *testing.T) {
 	}
 }
 
+// A clarinet's last frame given away, then two frames of a neighbour's
+// G3 attack read on its channel: the note ends as alone, the G3 frames
+// stay the neighbour's.
+func TestAReleaseUnderANeighboursAttackIsTakenBack(t *testing.T) {
+	const g3 = 195.998
+	track := frames(nil, 60, g5)
+	for _, i := range []int{80, 81} {
+		track[i] = pitchdetect.Estimate{Time: track[i].Time, Hz: g3, Voiced: true, Confidence: 0.9, Level: -30}
+	}
+	alone := append([]pitchdetect.Estimate(nil), track...)
+	alone[80], alone[81] = unvoiced(alone[80]), unvoiced(alone[81])
+	got, want := readTrack(track, map[int]bool{79: true, 80: true, 81: true}), readTrack(alone, nil)
+	if len(got) != 1 || len(want) != 1 || got[0] != want[0] {
+		t.Errorf("read %+v; alone %+v", got, want)
+	}
+}
+
 // A resting player's channel reading a neighbour's note, every frame given
 // away, stays silent; a player whose unison partner holds on after them
 // ends where their own frames end.

@@ -42,16 +42,17 @@ type Options struct {
 // voice is one player's reading chain.
 type voice struct {
 	Player
-	det    *pitchdetect.Detector
-	seg    *pitchdetect.Segmenter
-	ring   []float64 // the latest window of the player's channel, as heard
-	w      int       // next write position in ring
-	clean  []float32 // this block less what the channel hears of the others
-	est    []pitchdetect.Estimate
-	last   float64                // the previous frame's pitch, 0 when unvoiced
-	same   int                    // frames in a row at that pitch (or silent)
-	held   []pitchdetect.Estimate // frames given away as bleed, held back (attack.go)
-	inNote bool                   // the held frames began within a note, not at an onset
+	det     *pitchdetect.Detector
+	seg     *pitchdetect.Segmenter
+	ring    []float64 // the latest window of the player's channel, as heard
+	w       int       // next write position in ring
+	clean   []float32 // this block less what the channel hears of the others
+	est     []pitchdetect.Estimate
+	last    float64                // the previous frame's pitch, 0 when unvoiced
+	same    int                    // frames in a row at that pitch (or silent)
+	held    []pitchdetect.Estimate // frames given away as bleed, held back (attack.go)
+	note    float64                // the pitch of the note the held frames began in; 0: at an onset
+	spilled bool                   // held frames were given away for want of room
 }
 
 // ownEvery: the channels' spectra for the ownership test and the bleed
