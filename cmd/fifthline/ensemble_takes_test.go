@@ -36,6 +36,9 @@ type ensembleTake struct {
 	parts     []testsignal.MIDIPart // one per player
 	chords    []string              // the chords written, in order
 	cents     float64               // how far a note may read from its lone part's reading
+	// chordCents is how far a third or fifth may read from its reading
+	// without bleed; 0 is the ensemble issue's 1.5 ¢.
+	chordCents float64
 }
 
 // justThird and justFifth are the bends that make a third or fifth just
