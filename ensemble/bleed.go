@@ -20,9 +20,11 @@ import (
 const (
 	maxBleedMs        = 12.0  // farther apart than ~4 m is not a close-microphone neighbour
 	maxBleedGain      = 0.5   // −6 dB: louder than that is not bleed but a shared microphone
+	minBleedGain      = 0.01  // −40 dB: quieter moves no reading, and its delay is noise
 	bleedMemory       = 0.999 // per frame: evidence halves in about 700 frames (7 s at the default hop)
 	clearBins         = 2     // and none of c's partials within this many bins
 	bleedDominates    = 0.1   // a bin −10 dB or more below d's is d's bleed on c
+	ownOverBleed      = 4     // or, once learned, up to 6 dB above the bleed
 	bleedEvery        = 4     // hops between re-estimates while learning,
 	bleedSettle       = 200   // the first 200 hops (about 2 s),
 	bleedEverySettled = 32    // and then: the microphones do not move much
@@ -71,6 +73,7 @@ type bleedModel struct {
 	corr  []float64
 	spec  []complex128
 	hops  int
+	peaks [2][]lagPeak // the two directions' candidate delays, reused
 }
 
 func newBleedModel(n, channels int) *bleedModel {
@@ -84,43 +87,50 @@ func newBleedModel(n, channels int) *bleedModel {
 
 func (m *bleedModel) pair(c, d int) *pairBleed { return &m.pairs[c*m.k+d] }
 
-// observe adds one frame's evidence: hz[d] is player d's pitch this frame
-// (0 when unvoiced or bleed), steady[d] whether d has held it for a whole
-// window, own[c] the pitch whose partials c's channel may still sound
-// (hz[c], or the note c last held until c has been silent for a window),
-// o the frame's spectra. At d's partials, a bin of c where c's own sound
-// dominates is louder on c than on d (d hears c 15–25 dB down); a bin
-// where d's bleed dominates is far quieter on c than on d. Only the latter
-// are weighed, and none near a partial of c's own pitch (where the two
-// beat slowly and would not average out), so c's own partials, attacks
-// and releases do not pass for bleed. The tail of c's note, no longer
-// voiced but still sounding its partials a few dB under d's (a bass's
-// fifth partial under a soprano's fundamental a few hertz away), is c's
-// own too: hence own rather than hz.
-func (m *bleedModel) observe(o *Owner, hz, own []float64, steady []bool) {
+// observe adds one frame's evidence: f.hz[d] is player d's pitch this
+// frame (0 when unvoiced or bleed), f.steady[d] whether d has held it (or
+// silence) for a whole window, o the frame's spectra. At d's partials, a
+// bin of c where c's own sound dominates is louder on c than on d (d hears
+// c 15–25 dB down); a bin where d's bleed dominates is far quieter on c
+// than on d. Only the latter are weighed (once a gain is learned, no more
+// than 6 dB above it), none near a partial of c's own pitch (where the two
+// beat slowly and would not average out) or of a third player's, and only
+// while c is steady and its own sound known: its pitch read, or silent. So
+// c's own partials, attacks and releases do not pass for bleed: a choir's
+// soprano A4 heard on the bass's channel read 17 samples late while the
+// bass's soft F2, unread, sounded its fifth harmonic under her.
+func (m *bleedModel) observe(o *Owner, f *frameReadings) {
+	hz, steady := f.hz, f.steady
 	binHz := o.fs / float64(m.n)
 	for d, pd := range hz {
 		if pd == 0 || !steady[d] || !o.have[d] {
 			continue
 		}
 		for c := range hz {
-			if c == d || !o.have[c] {
+			own, unread := f.own(c)
+			if c == d || !o.have[c] || !steady[c] || unread && f.level[c] > f.level[d]-quietDB {
 				continue
 			}
 			p := m.pair(c, d)
 			used := false
+			// A bin much louder on c than the bleed learned so far holds
+			// c's own sound (a partial of a soft note not yet read).
+			dominates := bleedDominates
+			if p.gain > 0 {
+				dominates = min(dominates, ownOverBleed*p.gain*p.gain)
+			}
 			for h := 1; h <= bleedHarmonics; h++ {
 				bin := int(math.Round(float64(h) * pd / binHz))
 				if bin+1 >= len(p.a) || float64(h)*pd > maxBleedHz {
 					break
 				}
-				if nearPartial(float64(bin)*binHz, own[c], clearBins*binHz) {
-					continue // c's own partial may sit here, slowly beating with d's
+				if at := float64(bin) * binHz; nearPartial(at, own, clearBins*binHz) || othersPartial(at, hz, c, d, clearBins*binHz) {
+					continue
 				}
 				for b := bin - 1; b <= bin+1; b++ {
 					xc, xd := o.spec[c][b], o.spec[d][b]
 					pc, pd := power(xc), power(xd)
-					if pd < minBleedPower || pc > bleedDominates*pd {
+					if pd < minBleedPower || pc > dominates*pd {
 						continue
 					}
 					p.a[b] += xc * cmplx.Conj(xd)
@@ -155,6 +165,18 @@ func (m *bleedModel) observe(o *Owner, hz, own []float64, steady []bool) {
 	}
 }
 
+// othersPartial tells whether f lies within tol of a partial of a third
+// player's pitch (neither c's nor d's), whose bleed reaches c and d at its
+// own delays and would pull the delay toward them.
+func othersPartial(f float64, hz []float64, c, d int, tol float64) bool {
+	for e, p := range hz {
+		if e != c && e != d && nearPartial(f, p, tol) {
+			return true
+		}
+	}
+	return false
+}
+
 // nearPartial tells whether f lies within tol of a partial of pitch hz.
 func nearPartial(f, hz, tol float64) bool {
 	if hz == 0 {
@@ -165,109 +187,6 @@ func nearPartial(f, hz, tol float64) bool {
 }
 
 func power(z complex128) float64 { return real(z)*real(z) + imag(z)*imag(z) }
-
-// estimate turns each pair's evidence into a gain and delay.
-func (m *bleedModel) estimate(fs float64) {
-	maxLag := min(int(maxBleedMs/1000*fs), m.n/2-2)
-	for i := range m.pairs {
-		p := &m.pairs[i]
-		// Evidence that only faded since the last estimate gives the same
-		// gain and delay (numerator and denominator fade alike).
-		if !p.fresh || p.frames < minBleedFrames || p.b < minBleedPower {
-			continue
-		}
-		p.fresh = false
-		// corr[τ] = Σ_b a_b·e^{+iω_bτ}: the inverse transform of a.
-		copy(m.spec, p.a)
-		m.ifft.Sequence(m.corr, m.spec)
-		best := 0
-		for lag := 1; lag <= maxLag; lag++ {
-			if m.corr[lag] > m.corr[best] {
-				best = lag
-			}
-		}
-		best = m.reciprocal(i, best, maxLag)
-		// A parabola through the peak and its neighbours for the fraction.
-		frac := 0.0
-		if best > 0 {
-			l, c, r := m.corr[best-1], m.corr[best], m.corr[best+1]
-			if den := l - 2*c + r; den < 0 {
-				frac = 0.5 * (l - r) / den
-			}
-		}
-		delay := refineDelay(p.a, m.n, float64(best)+frac)
-		var sum complex128
-		mag := 0.0
-		for b, a := range p.a {
-			if a == 0 {
-				continue // no evidence at this bin: adds nothing
-			}
-			w := 2 * math.Pi * float64(b) / float64(m.n)
-			sum += a * cmplx.Rect(1, w*delay)
-			mag += cmplx.Abs(a)
-		}
-		gain := real(sum) / p.b
-		if mag == 0 || cmplx.Abs(sum)/mag < minCoherence || gain <= 0 || gain > maxBleedGain {
-			p.gain = 0
-			continue
-		}
-		p.gain, p.delay = gain, delay
-	}
-}
-
-// rivalPeak is how high, against the highest, a correlation peak must
-// stand to be as likely the delay: evidence from one held pitch fits
-// delays a period apart about equally well.
-const rivalPeak = 0.9
-
-// reciprocal picks, among pair i's correlation peaks (m.corr) up to maxLag
-// nearly as high as the one at best, the one nearest the delay learned the
-// other way round: sound crosses between two players and their close
-// microphones in about the same time either way (a mic a hand's breadth
-// from its player, the players a metre or two apart).
-func (m *bleedModel) reciprocal(i, best, maxLag int) int {
-	rev := m.pair(i%m.k, i/m.k)
-	if rev.gain == 0 {
-		return best
-	}
-	top := m.corr[best]
-	for lag := 1; lag < maxLag; lag++ {
-		c := m.corr[lag]
-		if c >= rivalPeak*top && c >= m.corr[lag-1] && c >= m.corr[lag+1] &&
-			math.Abs(float64(lag)-rev.delay) < math.Abs(float64(best)-rev.delay) {
-			best = lag
-		}
-	}
-	return best
-}
-
-// refineDelay polishes the delay between whole lags by Newton's method on
-// the correlation's real part, Re Σ a_b·e^{iω_bτ}, which peaks at the
-// delay: the parabola through three lags is biased when the evidence
-// sits on a few partials.
-func refineDelay(a []complex128, n int, tau float64) float64 {
-	start := tau
-	for range 6 {
-		var d1, d2 float64
-		for b, x := range a {
-			if x == 0 {
-				continue
-			}
-			w := 2 * math.Pi * float64(b) / float64(n)
-			z := x * cmplx.Rect(1, w*tau)
-			d1 -= w * imag(z)
-			d2 -= w * w * real(z)
-		}
-		if d2 >= 0 {
-			return start // not at a maximum: keep the lag found
-		}
-		tau -= d1 / d2
-	}
-	if math.Abs(tau-start) > 1 {
-		return start
-	}
-	return tau
-}
 
 // history keeps each channel's recent raw samples, so a block can be
 // cleaned of the others' bleed at their delays.

@@ -42,15 +42,17 @@ type Options struct {
 // voice is one player's reading chain.
 type voice struct {
 	Player
-	det   *pitchdetect.Detector
-	seg   *pitchdetect.Segmenter
-	ring  []float64 // the latest window of the player's channel, as heard
-	w     int       // next write position in ring
-	clean []float32 // this block less what the channel hears of the others
-	est   []pitchdetect.Estimate
-	last  float64 // the previous frame's pitch, 0 when unvoiced
-	same  int     // frames in a row at that pitch (or silent)
-	held  float64 // the pitch last read, until a window of silence
+	det     *pitchdetect.Detector
+	seg     *pitchdetect.Segmenter
+	ring    []float64 // the latest window of the player's channel, as heard
+	w       int       // next write position in ring
+	clean   []float32 // this block less what the channel hears of the others
+	est     []pitchdetect.Estimate
+	last    float64                // the previous frame's pitch, 0 when unvoiced
+	same    int                    // frames in a row at that pitch (or silent)
+	held    []pitchdetect.Estimate // frames given away as bleed, held back (attack.go)
+	note    float64                // the pitch of the note the held frames began in; 0: at an onset
+	spilled bool                   // held frames were given away for want of room
 }
 
 // ownEvery: the channels' spectra for the ownership test and the bleed
@@ -76,16 +78,6 @@ func (v *voice) steady(hz float64) bool {
 	}
 	v.last = hz
 	return v.same >= steadyFrames
-}
-
-// sounding is the pitch whose partials the player's channel may still
-// sound: this frame's, else the one last read until the player has been
-// silent for a window (a release tail, quiet enough to read unvoiced).
-func (v *voice) sounding(hz float64, steady bool) float64 {
-	if hz > 0 || steady {
-		v.held = hz
-	}
-	return v.held
 }
 
 // Run reads src until it ends (io.EOF) or ctx is cancelled, delivering each
@@ -117,9 +109,7 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 	bleed := opt.Bleed.model(voices[0].det.Window(), len(voices))
 	hist := newHistory(len(voices), src.SampleRate())
 	heard := make([][]float32, len(voices)) // each player's channel, this block
-	hz, steady := make([]float64, len(voices)), make([]bool, len(voices))
-	own := make([]float64, len(voices))  // each player's sounding pitch (voice.sounding)
-	read := make([]float64, len(voices)) // each detector's pitch this frame, before the ownership test
+	fr := newFrameReadings(len(voices))
 	frame := 0
 	blocks, view := make([][]float32, src.Channels()), make([][]float32, src.Channels())
 	for c := range blocks {
@@ -135,6 +125,7 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 	finish := func() error {
 		var errs []error
 		for _, v := range voices {
+			errs = append(errs, v.release(deliver))
 			if h, ok := v.seg.Flush(); ok {
 				errs = append(errs, deliver(v, h))
 			}
@@ -173,26 +164,26 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 				fresh = true
 			}
 			for i, v := range voices {
-				read[i] = v.est[j].Hz
+				fr.read[i], fr.level[i] = v.est[j].Hz, v.est[j].Level
 			}
 			for i, v := range voices {
 				e := v.est[j]
-				if e.Voiced && owner.Bleed(i, e.Hz, read, ownDB) {
-					e.Voiced, e.Hz, e.Confidence = false, 0, 0
+				blanked := e.Voiced && owner.Bleed(i, e.Hz, fr.read, ownDB)
+				heard := e
+				if blanked {
+					heard = unvoiced(e)
 				}
-				hz[i], steady[i] = e.Hz, v.steady(e.Hz)
-				own[i] = v.sounding(hz[i], steady[i])
+				prev := v.last
+				fr.hz[i], fr.steady[i] = heard.Hz, v.steady(heard.Hz)
 				if opt.OnFrame != nil {
-					opt.OnFrame(i, e)
+					opt.OnFrame(i, heard)
 				}
-				if h, done := v.seg.Push(e); done {
-					if err := deliver(v, h); err != nil {
-						return err
-					}
+				if err := v.push(e, blanked, prev, deliver); err != nil {
+					return err
 				}
 			}
 			if fresh {
-				bleed.observe(owner, hz, own, steady)
+				bleed.observe(owner, fr)
 			}
 		}
 		if rerr != nil {

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"cmp"
 	"math"
 	"strconv"
 	"strings"
@@ -103,7 +104,8 @@ func readChords(t *testing.T, r renderedTake, path string) []chordRow {
 
 // analyze --players --chords names each written chord, and every third
 // and fifth reads within 1.5 ¢ of its just reading in the same take
-// without bleed (the held-out check's figure); the chord written just
+// without bleed (the held-out check's figure; a take may say otherwise,
+// and why, in chordCents); the chord written just
 // reads just within the samples' own tuning, as the parts alone read it.
 func TestAnalyzePlayersChordsOfRenderedTakes(t *testing.T) {
 	t.Parallel()
@@ -121,6 +123,7 @@ func TestAnalyzePlayersChordsOfRenderedTakes(t *testing.T) {
 			if names(wet) != strings.Join(r.chords, ", ") || names(dry) != names(wet) {
 				t.Fatalf("chords %s; without bleed %s; written %s", names(wet), names(dry), strings.Join(r.chords, ", "))
 			}
+			bar := cmp.Or(r.chordCents, 1.5)
 			worst := 0.0
 			for i := range wet {
 				for p, m := range wet[i].members {
@@ -134,8 +137,8 @@ func TestAnalyzePlayersChordsOfRenderedTakes(t *testing.T) {
 					}
 					off := parseF(m["just_cents"]) - parseF(d["just_cents"])
 					worst = max(worst, math.Abs(off))
-					if math.Abs(off) > 1.5 {
-						t.Errorf("%s: %s's %s %s %+.2f ¢ from just, without bleed %+.2f ¢", wet[i].name, p, m["member"], m["note"], parseF(m["just_cents"]), parseF(d["just_cents"]))
+					if math.Abs(off) > bar {
+						t.Errorf("%s: %s's %s %s %+.2f ¢ from just, without bleed %+.2f ¢; allowed ±%g ¢", wet[i].name, p, m["member"], m["note"], parseF(m["just_cents"]), parseF(d["just_cents"]), bar)
 					}
 				}
 			}

@@ -38,6 +38,9 @@ type ensembleTake struct {
 	cents     float64               // how far a note may read from its lone part's reading
 	flags     []string              // musical flags beyond the key (temperament, A4)
 	written   [][]string            // each part's notes as spelled, where spelledInC would not
+	// chordCents is how far a third or fifth may read from its reading
+	// without bleed; 0 is the ensemble issue's 1.5 ¢.
+	chordCents float64
 }
 
 // musical is the take's musical flags for fifthline.
