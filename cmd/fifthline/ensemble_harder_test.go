@@ -85,6 +85,7 @@ func init() { ensembleTakes = append(ensembleTakes, harderTakes...) }
 // the period it makes with the viola's A3 bleed; the bass's first F2
 // 1.9 ¢ from alone.)
 func TestListenPlayersHearsHarderWindsLive(t *testing.T) {
+	t.Parallel()
 	r := renderTake(t, harderTakes[0])
 	lone := r.loneNotes(t)
 	out := playQuartetLive(t, r.wet, "--key", r.key, "--players", strings.Join(r.players, ","))
