@@ -70,7 +70,7 @@ func (f *fitter) build(f0 []float64, kcap int, skip int) {
 	f.used = f.used[:0]
 	top := len(f.spec) - 1
 	for v, hz := range f0 {
-		under := f.judged >= 0 && f.judged != v && octaveAbove(f0[f.judged], hz)
+		under := f.judged >= 0 && f.judged != v && OctaveAbove(f0[f.judged], hz)
 		for k := 1; k <= min(kcap, f.maxK); k++ {
 			pos := float64(k) * hz / f.binHz
 			if float64(k)*hz > f.ceilHz || pos+support >= float64(top) {
@@ -145,8 +145,10 @@ func shifted(c *column) column {
 // even partials.
 const octaveCents = 35.0
 
-// octaveAbove reports whether hz lies within octaveCents of lo's octave.
-func octaveAbove(hz, lo float64) bool { return math.Abs(cents(hz, 2*lo)) < octaveCents }
+// OctaveAbove reports whether hz lies within 35 ¢ of lo's octave, where a
+// voice lies on the even partials of the one below: from one channel, an
+// octave doubling and a lower voice's moving even partials are one.
+func OctaveAbove(hz, lo float64) bool { return math.Abs(cents(hz, 2*lo)) < octaveCents }
 
 // partials counts the columns that are partials, not their broadening.
 func (f *fitter) partials() int {

@@ -89,7 +89,7 @@ func (e *Estimator) prune() {
 
 // octaveOfAnother reports whether voice v lies an octave above another.
 func (e *Estimator) octaveOfAnother(v int) bool {
-	return slices.ContainsFunc(e.f0, func(lo float64) bool { return octaveAbove(e.f0[v], lo) })
+	return slices.ContainsFunc(e.f0, func(lo float64) bool { return OctaveAbove(e.f0[v], lo) })
 }
 
 // noise is the residual energy per real degree of freedom after the fit
