@@ -199,13 +199,17 @@ func meanNear(track []pitchFrame, from, to, near float64) (float64, bool) {
 // analyze reads (Debian aubio-tools; sox takes the channel out, as aubio
 // would mix both). Its frames are timed differently from ours by a fraction
 // of a window, which does not matter to a mean over more than a second.
-func aubioYin(t *testing.T, wav string) []pitchFrame {
+func aubioYin(t *testing.T, wav string) []pitchFrame { return aubioTrack(t, wav, "yin") }
+
+// aubioTrack is aubio's pitch track by method (yin, yinfft) of a file's
+// first channel, as aubioYin.
+func aubioTrack(t *testing.T, wav, method string) []pitchFrame {
 	t.Helper()
 	first := strings.TrimSuffix(wav, ".wav") + ".ch1.wav"
 	if out, err := exec.Command("sox", wav, first, "remix", "1").CombinedOutput(); err != nil {
 		t.Fatalf("sox: %v\n%s", err, out)
 	}
-	out, err := exec.Command("aubiopitch", "-i", first, "-p", "yin", "-B", "2048", "-H", "256").Output()
+	out, err := exec.Command("aubiopitch", "-i", first, "-p", method, "-B", "2048", "-H", "256").Output()
 	if err != nil {
 		t.Fatalf("aubiopitch (make test installs aubio-tools): %v", err)
 	}
