@@ -11,8 +11,9 @@ import "math"
 // own (the model of a gain and a delay per pair, bleed.go, solved for the
 // players' own sounds rather than to first order). Measured on the
 // rendered harder wind quartet, what remained of the others fell from
-// 54–60 dB below full scale to 59–69 dB, and a bassoon's release no
-// longer read as F3 and F4 over the clarinet's soft attack. It is a
+// 53–60 dB below full scale to 59–69 dB, and the rest before the
+// clarinet's soft attack no longer read F4 and F3 from the chord before
+// (nor a choir bass's dip, unvoiced alone, a pitch). It is a
 // recursion sample by sample, causal because a delay spans at least two
 // samples (a pair closer than that is cleaned of the channel as heard),
 // and it converges while each channel's gains sum below maxUnmixGain (the
