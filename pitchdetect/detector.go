@@ -31,7 +31,11 @@ const (
 	minClarity    = 0.75  // NSDF peak value
 	minClarityLow = 0.85  // the same when partials are too close to check their spread
 	minShare      = 0.3   // share of spectral power in the harmonic comb
-	residualScale = 6.0   // cents of partial disagreement that halve confidence
+	// Cents of partial disagreement that halve confidence: a violin's wide
+	// vibrato spreads its partials' readings by 4–6 ¢ while the pitch moves
+	// within the span (its partials' levels move with it; FluidR3 violin
+	// C6–D6, measured), which at 6 left most quick high notes unvoiced.
+	residualScale = 10.0
 	minConfidence = 0.5
 	floorDB       = -80.0 // partials this far below the strongest are ignored
 	floorMedian   = 20.0  // and partials less than this times the median bin power
@@ -246,6 +250,14 @@ func (d *Detector) frame() Estimate {
 			needShare = onsetShare
 		}
 		ft = d.fitComb(f, tol, lobe)
+		if ft.share < needShare {
+			// The seed lags a pitch that moved (see sweep.go).
+			if g := d.strongestPartial(f, tol); g > 0 {
+				if re := d.fitComb(g, tol, lobe); re.share > ft.share {
+					ft = re
+				}
+			}
+		}
 	} else {
 		// Partials closer than the window resolves: the comb fit would
 		// follow leakage, while the long period makes the NSDF lag
@@ -259,6 +271,12 @@ func (d *Detector) frame() Estimate {
 	tol := agreeCents + lagCents
 	hz := ft.hz
 	apart := math.Abs(1200 * math.Log2(ft.hz*period/d.fs))
+	if apart > tol && !onset && f >= resolvedBins*d.binHz && ft.partials > 0 {
+		// A pitch moving within the span (see sweep.go).
+		if c, ok := d.centreApart(ft.hz); ok {
+			apart = min(apart, c)
+		}
+	}
 	if onset && (apart > tol || lagCents < coarseCents) {
 		// The truncated frames bend the comb (by up to its onset search);
 		// the NSDF's interpolated lag is the better first reading unless
