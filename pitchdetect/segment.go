@@ -284,7 +284,23 @@ func (s *Segmenter) summarise(live, slurred bool) Held {
 		s.t = append(s.t, e.Time)
 		s.c = append(s.c, 1200*math.Log2(e.Hz/ref))
 	}
-	mean, sd := meanStd(s.c[s.glide(s.c):])
+	// Whether the note settled after a glide is judged on its frames up to
+	// half a Window before its end, beyond the steady part: a quick note's
+	// steady part may end in a vibrato's trough, where half a cycle looks
+	// like a glide that settled (a violin's 0.3 s C6 read 11 ¢ low: FluidR3,
+	// measured), while the frames after it rise again.
+	n := len(s.c)
+	for _, e := range fr[j:] {
+		if e.Time > h.End-s.Window/2 {
+			break
+		}
+		s.c = append(s.c, 1200*math.Log2(e.Hz/ref))
+	}
+	g := s.glide(s.c)
+	if s.c = s.c[:n]; g >= n {
+		g = 0
+	}
+	mean, sd := meanStd(s.c[g:])
 	h.Spread = sd
 	h.Hz = ref * math.Pow(2, mean/1200)
 	if n := len(s.frames); !live || n >= s.vibAt+vibratoRefresh || n < s.vibAt {
