@@ -76,18 +76,7 @@ func TestQuickVibratoIsNoGlide(t *testing.T) {
 	for i := range 24 {
 		track = append(track, 1196.6-float64(i)) // D6
 	}
-	s := NewSegmenter(512.0 / 48000)
-	s.Window = 4608.0 / 48000
-	var notes []Held
-	for i, hz := range track {
-		e := Estimate{Time: float64(i) * 512 / 48000, Hz: hz, Voiced: hz > 0, Level: -30}
-		if h, ok := s.Push(e); ok {
-			notes = append(notes, h)
-		}
-	}
-	if h, ok := s.Flush(); ok {
-		notes = append(notes, h)
-	}
+	notes := pushTrack(track)
 	if len(notes) != 3 {
 		t.Fatalf("%d notes, want 3: %+v", len(notes), notes)
 	}

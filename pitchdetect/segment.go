@@ -85,7 +85,10 @@ func (s *Segmenter) Push(e Estimate) (Held, bool) {
 		if e.Level < s.level-dropoutDB {
 			s.dips++
 		}
-		if s.hasOut { // an outlier followed by silence was noise
+		if s.hasOut && e.Level < s.level-dropoutDB {
+			// An outlier followed by silence was noise; one followed by a
+			// frame the detector missed at the note's level may be the
+			// next note, sparsely voiced after a slur.
 			s.hasOut = false
 		}
 		if s.dips > s.MaxGap || s.gap > s.MaxDropout {
@@ -203,7 +206,15 @@ func (s *Segmenter) finish(next float64) (Held, bool) {
 	if next > 0 && s.from.hz != 0 { // from the middle of the slur into it
 		length = next - (h.Start+s.from.last)/2
 	}
-	ok := len(s.frames) >= s.MinFrames && length >= s.MinSeconds
+	minFrames := s.MinFrames
+	if next > 0 && s.from.hz != 0 {
+		// Slurred from one note into the next: the frames around both
+		// slurs hold two notes and are often read as neither (a violin's
+		// C♯6 sixteenth between B5 and D6 kept 3: FluidR3, measured), and
+		// its length from slur to slur already says it is a note.
+		minFrames--
+	}
+	ok := len(s.frames) >= minFrames && length >= s.MinSeconds
 	first, peak := s.frames[0].Level, s.frames[0].Level
 	for _, e := range s.frames {
 		peak = max(peak, e.Level)
