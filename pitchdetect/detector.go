@@ -251,9 +251,11 @@ func (d *Detector) frame() Estimate {
 		}
 		ft = d.fitComb(f, tol, lobe)
 		if ft.share < needShare {
-			// The seed lags a pitch that moved (see sweep.go).
+			// The seed lags a pitch that moved (see sweep.go). The new
+			// comb must find a series (three partials): a lone sine's
+			// peak in a slur lies between its two notes.
 			if g := d.strongestPartial(f, tol); g > 0 {
-				if re := d.fitComb(g, tol, lobe); re.share > ft.share {
+				if re := d.fitComb(g, tol, lobe); re.share > ft.share && re.partials >= 3 {
 					ft = re
 				}
 			}
