@@ -250,8 +250,11 @@ func (d *Detector) frame() Estimate {
 			needShare = onsetShare
 		}
 		ft = d.fitComb(f, tol, lobe)
-		if ft.share < needShare {
-			// The seed lags a pitch that moved (see sweep.go). The new
+		if ft.share < needShare && tracking {
+			// The last frame's pitch lags a pitch that moved (see
+			// sweep.go). Only while tracking a note: at a note's start the
+			// strongest partial may be another's (a choir's bass entering
+			// under the other parts' bleed began 0.13 s late). The new
 			// comb must find a series (three partials): a lone sine's
 			// peak in a slur lies between its two notes.
 			if g := d.strongestPartial(f, tol); g > 0 {

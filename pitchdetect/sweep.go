@@ -8,8 +8,8 @@ import "math"
 // middle by the window. At the crest of a violin's ±25 ¢ vibrato the two
 // differ by 10 ¢ (FluidR3 violin G4 and C6, measured), and a comb seeded
 // from the NSDF (or, while tracking, from the last frame) loses the partials
-// it should find. So a comb that finds too little is reseeded from its
-// strongest partial, and a comb that disagrees with the whole span's NSDF
+// it should find. So a tracked comb that finds too little is reseeded from
+// its strongest partial, and a comb that disagrees with the whole span's NSDF
 // is held to the NSDF of the span's middle half instead, which weights the
 // span as the comb's windows do. Narrow-band noise, which the agreement test
 // is for, still disagrees with both.
