@@ -360,7 +360,7 @@ func TestAnalyzeHearsEveryNoteOfQuickLegatoRuns(t *testing.T) {
 // microphone (PulseAudio null sink, PortAudio capture) and heard by
 // `listen --plain`: together they must be heard note for note. All but the
 // violin's high run: live, its sixteenths start at any phase of the
-// detector's hop, and at 3 of 8 phases (offline, the render delayed by
+// detector's hop, and at 4 of 8 phases (offline, the render delayed by
 // 0–448 samples) a C6 or C♯6 sixteenth keeps only two voiced frames and is
 // lost (measured), a flaw of the detector this test would only show by
 // chance.
