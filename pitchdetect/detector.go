@@ -31,11 +31,14 @@ const (
 	minClarity    = 0.75  // NSDF peak value
 	minClarityLow = 0.85  // the same when partials are too close to check their spread
 	minShare      = 0.3   // share of spectral power in the harmonic comb
-	// Cents of partial disagreement that halve confidence: a violin's wide
-	// vibrato spreads its partials' readings by 4–6 ¢ while the pitch moves
-	// within the span (its partials' levels move with it; FluidR3 violin
-	// C6–D6, measured), which at 6 left most quick high notes unvoiced.
-	residualScale = 10.0
+	residualScale = 6.0   // cents of partial disagreement that halve confidence
+	// and the same for a note whose fundamental a wide vibrato (sweptCents)
+	// sweeps across more than a bin within the window: its partials' readings
+	// spread by 4–6 ¢ while the pitch moves (their levels move with it;
+	// FluidR3 violin C6–D6, measured), which at 6 left most quick high notes
+	// unvoiced.
+	residualSwept = 10.0
+	sweptCents    = 25.0
 	minConfidence = 0.5
 	floorDB       = -80.0 // partials this far below the strongest are ignored
 	floorMedian   = 20.0  // and partials less than this times the median bin power
@@ -291,7 +294,11 @@ func (d *Detector) frame() Estimate {
 	dis := apart / tol
 	conf := clarity / (1 + dis*dis)
 	if !onset {
-		r := ft.residual / residualScale
+		scale := residualScale
+		if hz*sweptCents/centsPerUnit > d.binHz {
+			scale = residualSwept
+		}
+		r := ft.residual / scale
 		conf *= math.Sqrt(ft.share) / (1 + r*r)
 	}
 	e.Confidence = math.Max(0, math.Min(conf, 1))
