@@ -86,9 +86,8 @@ func (s *Segmenter) Push(e Estimate) (Held, bool) {
 			s.dips++
 		}
 		if s.hasOut && e.Level < s.level-dropoutDB {
-			// An outlier followed by silence was noise; one followed by a
-			// frame the detector missed at the note's level may be the
-			// next note, sparsely voiced after a slur.
+			// An outlier followed by silence was noise (one followed by a
+			// frame missed at the note's level may be a slurred next note).
 			s.hasOut = false
 		}
 		if s.dips > s.MaxGap || s.gap > s.MaxDropout {
@@ -208,10 +207,9 @@ func (s *Segmenter) finish(next float64) (Held, bool) {
 	}
 	minFrames := s.MinFrames
 	if next > 0 && s.from.hz != 0 {
-		// Slurred from one note into the next: the frames around both
-		// slurs hold two notes and are often read as neither (a violin's
-		// C♯6 sixteenth between B5 and D6 kept 3: FluidR3, measured), and
-		// its length from slur to slur already says it is a note.
+		// Slurred between two notes, whose frames around both slurs are
+		// often read as neither (a violin's C♯6 sixteenth kept 3: FluidR3,
+		// measured): its length from slur to slur says it is a note.
 		minFrames--
 	}
 	ok := len(s.frames) >= minFrames && length >= s.MinSeconds
@@ -296,10 +294,9 @@ func (s *Segmenter) summarise(live, slurred bool) Held {
 		s.c = append(s.c, 1200*math.Log2(e.Hz/ref))
 	}
 	// Whether the note settled after a glide is judged on its frames up to
-	// half a Window before its end, beyond the steady part: a quick note's
-	// steady part may end in a vibrato's trough, where half a cycle looks
-	// like a glide that settled (a violin's 0.3 s C6 read 11 ¢ low: FluidR3,
-	// measured), while the frames after it rise again.
+	// half a Window before its end: a quick note's steady part may end in a
+	// vibrato's trough, where half a cycle looks like a settled glide (a
+	// violin's 0.3 s C6 read 11 ¢ low: FluidR3, measured).
 	n := len(s.c)
 	for _, e := range fr[j:] {
 		if e.Time > h.End-s.Window/2 {
