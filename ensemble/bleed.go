@@ -87,6 +87,10 @@ func newBleedModel(n, channels int) *bleedModel {
 
 func (m *bleedModel) pair(c, d int) *pairBleed { return &m.pairs[c*m.k+d] }
 
+// learned tells whether what channel c hears of d is known (and so
+// subtracted).
+func (m *bleedModel) learned(c, d int) bool { return m.pair(c, d).gain > 0 }
+
 // observe adds one frame's evidence: f.hz[d] is player d's pitch this
 // frame (0 when unvoiced or bleed), f.steady[d] whether d has held it (or
 // silence) for a whole window, o the frame's spectra. At d's partials, a
