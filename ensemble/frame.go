@@ -12,16 +12,15 @@ const quietDB = 15.0
 // frameReadings is what the players' detectors made of one frame, by
 // player, for the bleed evidence.
 type frameReadings struct {
-	hz      []float64 // the pitch after the ownership test: 0 when unvoiced or another's bleed
-	read    []float64 // the detector's pitch before it
-	level   []float64 // the level of the window the detector read (cleaned), dBFS
-	steady  []bool    // the player has held hz, or silence, for a window
-	scratch []float64
+	hz     []float64 // the pitch after the ownership test: 0 when unvoiced or another's bleed
+	read   []float64 // the detector's pitch before it
+	level  []float64 // the level of the window the detector read (cleaned), dBFS
+	steady []bool    // the player has held hz, or silence, for a window
 }
 
 func newFrameReadings(players int) *frameReadings {
 	return &frameReadings{hz: make([]float64, players), read: make([]float64, players),
-		level: make([]float64, players), steady: make([]bool, players), scratch: make([]float64, players)}
+		level: make([]float64, players), steady: make([]bool, players)}
 }
 
 // own is player c's own pitch this frame as the bleed evidence needs it:

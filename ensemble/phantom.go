@@ -2,7 +2,7 @@ package ensemble
 
 import "math"
 
-// A phantom below: before the bleed between two channels is learned,
+// A phantom below: before the bleed between two channels is weighed,
 // nothing of the neighbour is subtracted, and a player's note together
 // with a neighbour's bleed repeats at the period both share. A cello's D3
 // entering under the viola's A3 (2:3) is read as D2 on the cello's own
@@ -23,41 +23,42 @@ import "math"
 const phantomDB = 20.0
 
 // phantom tells whether a pitch hz read on channel c is the period its
-// own note, an octave or a twelfth above, shares with the bleed of a
-// neighbour whose bleed on c is not learned yet (unlearned(d)). pitches
-// are the players' readings this frame, by channel; scratch is as long.
-func (o *Owner) phantom(c int, hz float64, pitches, scratch []float64, unlearned func(d int) bool) int {
+// own note, an octave or a twelfth above (k·hz), shares with the bleed of
+// a neighbour whose bleed on c is not weighed yet (unweighed(d)): the
+// neighbour's pitch is m·hz, m prime to k, and of hz's harmonics those
+// that are neither the note's nor the neighbour's are silent. It returns
+// k, or 0. pitches are the players' readings this frame, by channel.
+func (o *Owner) phantom(c int, hz float64, pitches []float64, unweighed func(d int) bool) int {
 	if !o.have[c] || !(hz > 0) {
 		return 0
 	}
-	any := false
-	for d, p := range pitches {
-		scratch[d] = 0
-		if d != c && unlearned(d) {
-			scratch[d], any = p, any || p > 0
-		}
-	}
-	if !any {
-		return 0
-	}
-	shared := sharedHarmonics(c, hz, scratch, o.fs/float64(len(o.win)))
 	const all = 1<<ownHarmonics - 1
 	for k := 2; k <= 3; k++ {
-		var above uint16 // the harmonics of hz that are the note k·hz's
-		for h := k; h <= ownHarmonics; h += k {
-			above |= 1 << (h - 1)
+		above := multiples(k) // the harmonics of hz that are the note k·hz's
+		var next uint16       // those that are a neighbour's m·hz's
+		for d, p := range pitches {
+			m := math.Round(p / hz)
+			if d == c || !(p > 0) || m < 2 || int(m)%k == 0 || !unweighed(d) || math.Abs(1200*math.Log2(p/(m*hz))) > partialCents {
+				continue
+			}
+			next |= multiples(int(m))
 		}
-		below := all &^ above // the phantom's own
-		if shared&below == 0 {
-			continue // no neighbour sounds on them: nothing to share a period with
-		}
-		alone := below &^ shared
-		if alone == 0 {
-			continue
+		alone := all &^ above &^ next
+		if next == 0 || alone == 0 {
+			continue // no neighbour shares the period, or nothing left to tell
 		}
 		if o.power(c, hz, all&^alone)*math.Pow(10, phantomDB/10) < o.power(c, hz, all&^above) {
 			return k
 		}
 	}
 	return 0
+}
+
+// multiples marks (bit h−1) the harmonics h of a pitch, up to
+// ownHarmonics, that are harmonics of its k-th.
+func multiples(k int) (mask uint16) {
+	for h := k; h <= ownHarmonics; h += k {
+		mask |= 1 << (h - 1)
+	}
+	return mask
 }

@@ -29,7 +29,7 @@ func TestAPhantomBelowIsThePlayersNoteAbove(t *testing.T) {
 	for _, c := range []struct {
 		name      string
 		own, next float64 // the player's pitch and the neighbour's
-		learned   bool    // the neighbour's bleed on the player is known
+		weighed   bool    // the neighbour's bleed on the player is estimated
 		want      int
 	}{
 		// The cello's D3 under the viola's A3 (2:3): read as D2, it is D3.
@@ -38,15 +38,15 @@ func TestAPhantomBelowIsThePlayersNoteAbove(t *testing.T) {
 		{"a twelfth above", 3 * d2, 2 * d2, false, 3},
 		// A real D2 under the viola's A3 sounds its own odd harmonics.
 		{"a real note", d2, 3 * d2, false, 0},
-		// Once the bleed is learned it is subtracted before the detector
-		// reads: a D2 read then is no shared period.
-		{"bleed learned", 2 * d2, 3 * d2, true, 0},
+		// Once the bleed is estimated it is subtracted before the detector
+		// reads (or there is none): a D2 read then is no shared period.
+		{"bleed weighed", 2 * d2, 3 * d2, true, 0},
 	} {
 		o := NewOwner(rate, n, 2)
 		ch0, ch1 := mix(saw(c.own, 0.15), saw(c.next, 0.15)), mix(saw(c.next, 0.15), saw(c.own, 0.15))
 		o.Set(0, ch0, nil)
 		o.Set(1, ch1, nil)
-		got := o.phantom(0, d2, []float64{d2, c.next}, make([]float64, 2), func(int) bool { return !c.learned })
+		got := o.phantom(0, d2, []float64{d2, c.next}, func(int) bool { return !c.weighed })
 		if got != c.want {
 			t.Errorf("%s: D2 read on the player's channel is harmonic %d of their note, want %d", c.name, got, c.want)
 		}
