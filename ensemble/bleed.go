@@ -62,6 +62,8 @@ type pairBleed struct {
 	fresh  bool    // evidence added since the last estimate
 	gain   float64 // 0 until estimated
 	delay  float64 // samples
+
+	weighed bool // estimated at least once, whatever the gain
 }
 
 // bleedModel holds every ordered pair's estimate and the plan for turning
@@ -87,6 +89,12 @@ func newBleedModel(n, channels int) *bleedModel {
 }
 
 func (m *bleedModel) pair(c, d int) *pairBleed { return &m.pairs[c*m.k+d] }
+
+// weighed tells whether what channel c hears of d has been estimated:
+// a gain learned (and so subtracted), or none found in the evidence (on
+// microphones that hear nothing of each other, a take mixed without
+// bleed, there is none to find).
+func (m *bleedModel) weighed(c, d int) bool { return m.pair(c, d).weighed }
 
 // observe adds one frame's evidence: f.hz[d] is player d's pitch this
 // frame (0 when unvoiced or bleed), f.steady[d] whether d has held it (or

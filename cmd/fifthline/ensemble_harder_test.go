@@ -82,11 +82,8 @@ func init() { ensembleTakes = append(ensembleTakes, harderTakes...) }
 
 // The harder winds played live, as the winds are in
 // TestListenPlayersHearsRenderedWindsLive: listen learns the bleed as it
-// hears it, with no second pass. (The strings and voices are not held to
-// it live, nor are those of ensembleTakes: their first notes sound before
-// the bleed is learned. Measured: the cello's first D3 heard first as D2,
-// the period it makes with the viola's A3 bleed; the bass's first F2
-// 1.9 ¢ from alone.)
+// hears it, with no second pass. (The strings and voices live:
+// ensemble_live_test.go; the harder choir's bass is not held to it.)
 func TestListenPlayersHearsHarderWindsLive(t *testing.T) {
 	r := renderTake(t, harderTakes[0])
 	lone := r.loneNotes(t)
