@@ -62,6 +62,8 @@ type pairBleed struct {
 	fresh  bool    // evidence added since the last estimate
 	gain   float64 // 0 until estimated
 	delay  float64 // samples
+
+	weighed bool // estimated at least once, whatever the gain
 }
 
 // bleedModel holds every ordered pair's estimate and the plan for turning
@@ -74,6 +76,7 @@ type bleedModel struct {
 	spec  []complex128
 	hops  int
 	peaks [2][]lagPeak // the two directions' candidate delays, reused
+	terms []unmixTerm  // cleanAll's plan for the block, reused
 }
 
 func newBleedModel(n, channels int) *bleedModel {
@@ -86,6 +89,12 @@ func newBleedModel(n, channels int) *bleedModel {
 }
 
 func (m *bleedModel) pair(c, d int) *pairBleed { return &m.pairs[c*m.k+d] }
+
+// weighed tells whether what channel c hears of d has been estimated:
+// a gain learned (and so subtracted), or none found in the evidence (on
+// microphones that hear nothing of each other, a take mixed without
+// bleed, there is none to find).
+func (m *bleedModel) weighed(c, d int) bool { return m.pair(c, d).weighed }
 
 // observe adds one frame's evidence: f.hz[d] is player d's pitch this
 // frame (0 when unvoiced or bleed), f.steady[d] whether d has held it (or
@@ -189,17 +198,19 @@ func nearPartial(f, hz, tol float64) bool {
 func power(z complex128) float64 { return real(z)*real(z) + imag(z)*imag(z) }
 
 // history keeps each channel's recent raw samples, so a block can be
-// cleaned of the others' bleed at their delays.
+// cleaned of the others' bleed at their delays, and the cleaned samples
+// (unmix.go).
 type history struct {
 	keep int         // samples kept before the current block
 	buf  [][]float64 // per channel: keep samples, then the current block
+	out  [][]float64 // per channel: the same, cleaned
 }
 
 func newHistory(channels int, fs float64) *history {
 	keep := int(maxBleedMs/1000*fs) + historyPad
-	h := &history{keep: keep, buf: make([][]float64, channels)}
+	h := &history{keep: keep, buf: make([][]float64, channels), out: make([][]float64, channels)}
 	for c := range h.buf {
-		h.buf[c] = make([]float64, keep)
+		h.buf[c], h.out[c] = make([]float64, keep), make([]float64, keep)
 	}
 	return h
 }
@@ -217,26 +228,12 @@ func (h *history) push(blocks [][]float32) {
 
 // shift keeps the last keep samples for the next block.
 func (h *history) shift() {
-	for c, b := range h.buf {
-		copy(b, b[len(b)-h.keep:])
-		h.buf[c] = b[:h.keep]
-	}
-}
-
-// at is channel c's sample at position t (keep + index into the block),
-// interpolated for a fractional t by a cubic Lagrange polynomial.
-func (h *history) at(c int, t float64) float64 {
-	b := h.buf[c]
-	i := int(math.Floor(t))
-	f := t - float64(i)
-	if i < 1 || i+2 >= len(b) {
-		if i >= 0 && i < len(b) {
-			return b[i]
+	for _, bufs := range [][][]float64{h.buf, h.out} {
+		for c, b := range bufs {
+			copy(b, b[len(b)-h.keep:])
+			bufs[c] = b[:h.keep]
 		}
-		return 0
 	}
-	w := newLagrange(f)
-	return b[i-1]*w[0] + b[i]*w[1] + b[i+1]*w[2] + b[i+2]*w[3]
 }
 
 // lagrange is the cubic Lagrange interpolator through four samples at -1,
@@ -246,41 +243,4 @@ type lagrange [4]float64
 
 func newLagrange(f float64) lagrange {
 	return lagrange{-f * (f - 1) * (f - 2) / 6, (f + 1) * (f - 1) * (f - 2) / 2, -(f + 1) * f * (f - 2) / 2, (f + 1) * f * (f - 1) / 6}
-}
-
-// clean writes into dst channel c's current block less what it hears of
-// every other channel.
-func (m *bleedModel) clean(h *history, c int, dst []float32) {
-	n := len(h.buf[c]) - h.keep
-	dst = dst[:n]
-	for i := range n {
-		dst[i] = float32(h.buf[c][h.keep+i])
-	}
-	for d := range m.k {
-		p := m.pair(c, d)
-		if d == c || p.gain == 0 {
-			continue
-		}
-		// Channel d's sample at keep+i-delay, interpolated between the
-		// samples around it (the delay is shorter than keep by historyPad).
-		whole := math.Floor(p.delay)
-		if whole < 2 {
-			// The block's last samples lack a sample after them.
-			for i := range n {
-				dst[i] -= float32(p.gain * h.at(d, float64(h.keep+i)-p.delay))
-			}
-			continue
-		}
-		// The four samples around keep+i-delay, from keep-whole-2+i, or
-		// the one at keep-whole+i when the delay is whole.
-		w := newLagrange(math.Ceil(p.delay) - p.delay)
-		b := h.buf[d][h.keep-int(whole)-2:]
-		if whole == p.delay {
-			w, b = lagrange{0, 1, 0, 0}, h.buf[d][h.keep-int(whole)-1:]
-		}
-		for i := range n {
-			x := b[i : i+4 : i+4]
-			dst[i] -= float32(p.gain * (x[0]*w[0] + x[1]*w[1] + x[2]*w[2] + x[3]*w[3]))
-		}
-	}
 }

@@ -137,7 +137,7 @@ func highest(peaks []lagPeak) int {
 // the evidence at that delay; a delay the evidence does not agree on
 // (incoherent, or a gain no bleed has) leaves p without bleed.
 func (m *bleedModel) settle(p *pairBleed, lag float64) {
-	p.fresh = false
+	p.fresh, p.weighed = false, true
 	delay := refineDelay(p.a, m.n, lag)
 	var sum complex128
 	mag := 0.0

@@ -32,6 +32,13 @@ const (
 	minClarityLow = 0.85  // the same when partials are too close to check their spread
 	minShare      = 0.3   // share of spectral power in the harmonic comb
 	residualScale = 6.0   // cents of partial disagreement that halve confidence
+	// and the same for a note whose fundamental a wide vibrato (sweptCents)
+	// sweeps across more than a bin within the window: its partials' readings
+	// spread by 4–6 ¢ while the pitch moves (their levels move with it;
+	// FluidR3 violin C6–D6, measured), which at 6 left most quick high notes
+	// unvoiced.
+	residualSwept = 10.0
+	sweptCents    = 25.0
 	minConfidence = 0.5
 	floorDB       = -80.0 // partials this far below the strongest are ignored
 	floorMedian   = 20.0  // and partials less than this times the median bin power
@@ -246,6 +253,19 @@ func (d *Detector) frame() Estimate {
 			needShare = onsetShare
 		}
 		ft = d.fitComb(f, tol, lobe)
+		if ft.share < needShare && tracking {
+			// The last frame's pitch lags a pitch that moved (see
+			// sweep.go). Only while tracking a note: at a note's start the
+			// strongest partial may be another's (a choir's bass entering
+			// under the other parts' bleed began 0.13 s late). The new
+			// comb must find a series (three partials): a lone sine's
+			// peak in a slur lies between its two notes.
+			if g := d.strongestPartial(f, tol); g > 0 {
+				if re := d.fitComb(g, tol, lobe); re.share > ft.share && re.partials >= 3 {
+					ft = re
+				}
+			}
+		}
 	} else {
 		// Partials closer than the window resolves: the comb fit would
 		// follow leakage, while the long period makes the NSDF lag
@@ -259,6 +279,12 @@ func (d *Detector) frame() Estimate {
 	tol := agreeCents + lagCents
 	hz := ft.hz
 	apart := math.Abs(1200 * math.Log2(ft.hz*period/d.fs))
+	if apart > tol && !onset && f >= resolvedBins*d.binHz && ft.partials > 0 {
+		// A pitch moving within the span (see sweep.go).
+		if c, ok := d.centreApart(ft.hz); ok {
+			apart = min(apart, c)
+		}
+	}
 	if onset && (apart > tol || lagCents < coarseCents) {
 		// The truncated frames bend the comb (by up to its onset search);
 		// the NSDF's interpolated lag is the better first reading unless
@@ -268,7 +294,11 @@ func (d *Detector) frame() Estimate {
 	dis := apart / tol
 	conf := clarity / (1 + dis*dis)
 	if !onset {
-		r := ft.residual / residualScale
+		scale := residualScale
+		if hz*sweptCents/centsPerUnit > d.binHz {
+			scale = residualSwept
+		}
+		r := ft.residual / scale
 		conf *= math.Sqrt(ft.share) / (1 + r*r)
 	}
 	e.Confidence = math.Max(0, math.Min(conf, 1))

@@ -28,11 +28,13 @@ const guardOddRatio = 0.01
 
 // guardAbsent: a partial below this share of the comb's power is absent;
 // guardStray: partials off the series of 2F or 3F below this share are the
-// other note of a slur, not F's own.
+// other note of a slur, not F's own; guardSweepCents: how far from F its
+// own partial may peak (see own).
 const (
-	guardAbsent = 1e-3
-	guardStray  = 0.25
-	guardMaxK   = 9 // a whole tone's notes repeat together at 1/8 and 1/9 of them
+	guardSweepCents = 50.0
+	guardAbsent     = 1e-3
+	guardStray      = 0.25
+	guardMaxK       = 9 // a whole tone's notes repeat together at 1/8 and 1/9 of them
 )
 
 var guardDown = [...]struct{ p, q int }{{1, 2}, {1, 3}, {2, 3}}
@@ -40,10 +42,15 @@ var guardDown = [...]struct{ p, q int }{{1, 2}, {1, 3}, {2, 3}}
 // peakNear returns the power of a spectral peak within a bin of f, or 0 if
 // the spectrum has no local maximum there above the floor.
 func (d *Detector) peakNear(f float64) float64 {
+	return d.peakWithin(f, 1)
+}
+
+// peakWithin is peakNear searching reach bins either side of f.
+func (d *Detector) peakWithin(f float64, reach int) float64 {
 	p := d.power
 	c := int(f/d.binHz + 0.5)
 	best := 0.0
-	for b := max(c-1, 1); b <= c+1 && b < len(p)-1; b++ {
+	for b := max(c-reach, 1); b <= c+reach && b < len(p)-1; b++ {
 		if p[b] >= p[b-1] && p[b] >= p[b+1] && p[b] > best {
 			best = p[b]
 		}
@@ -54,11 +61,20 @@ func (d *Detector) peakNear(f float64) float64 {
 	return best
 }
 
+// own is the power of f's own partial, the peak at f. A high note's
+// fundamental swept by a wide vibrato within the window peaks where it is
+// loudest, and its second partial where that one is: up to the vibrato's
+// full width apart (a violin's C♯6 and D6, ±25 ¢ at 5 Hz: 38 and 51 ¢ below
+// half the second partial; FluidR3, measured), so it is looked for that far.
+func (d *Detector) own(f float64) float64 {
+	return d.peakWithin(f, max(1, int(f*guardSweepCents/centsPerUnit/d.binHz+0.5)))
+}
+
 // combPower sums peak power at multiples j·g (j ≥ 1) below the analysis
 // ceiling; skip, if non-zero, leaves out every multiple j with j%skip == 0.
 func (d *Detector) combPower(g float64, skip int) float64 {
-	sum := 0.0
-	for j := 1; float64(j)*g < d.ceilHz && j <= maxPartials; j++ {
+	sum := d.own(g)
+	for j := 2; float64(j)*g < d.ceilHz && j <= maxPartials; j++ {
 		if skip > 0 && j%skip == 0 {
 			continue
 		}
@@ -184,7 +200,7 @@ func (d *Detector) oddEven(f float64) (odd, even float64) {
 // holding most of its comb's power holds all but a stray share; else 1.
 func (d *Detector) noFundamental(f float64) int {
 	all := d.combPower(f, 0)
-	if all <= 0 || d.peakNear(f) >= guardAbsent*all {
+	if all <= 0 || d.own(f) >= guardAbsent*all {
 		return 1
 	}
 	best, stray := 1, guardStray*all

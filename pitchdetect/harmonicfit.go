@@ -63,20 +63,14 @@ func (d *Detector) fitComb(f0, tolCents float64, lobe int) fit {
 		if b < 0 || pb < d.floor {
 			continue
 		}
-		za, zb := d.specA[b], d.specB[b]
-		if za == 0 {
+		if d.specA[b] == 0 {
 			// The older frame is digital silence (a note starting after
 			// it): no phase to measure the advance from. (Its angle
 			// would come from the signs of zeros, which differ between
 			// FFT implementations.)
 			continue
 		}
-		re := real(zb)*real(za) + imag(zb)*imag(za)
-		im := imag(zb)*real(za) - real(zb)*imag(za)
-		adv := math.Atan2(im, re)
-		exp := 2 * math.Pi * pred * float64(d.lag) / d.fs
-		dev := math.Remainder(adv-exp, 2*math.Pi)
-		fk := pred + dev*d.fs/(2*math.Pi*float64(d.lag))
+		fk := d.advanceHz(b, pred)
 		if math.Abs(fk-pred) > pred*tolCents/centsPerUnit {
 			continue
 		}
@@ -120,4 +114,14 @@ func (d *Detector) fitComb(f0, tolCents float64, lobe int) fit {
 		share = math.Min(comb/total, 1)
 	}
 	return fit{hz: f, residual: res, share: share, partials: used}
+}
+
+// advanceHz is the frequency of the partial at bin b from its phase advance
+// between the two frames, unwrapped about pred.
+func (d *Detector) advanceHz(b int, pred float64) float64 {
+	za, zb := d.specA[b], d.specB[b]
+	re := real(zb)*real(za) + imag(zb)*imag(za)
+	im := imag(zb)*real(za) - real(zb)*imag(za)
+	dev := math.Remainder(math.Atan2(im, re)-2*math.Pi*pred*float64(d.lag)/d.fs, 2*math.Pi)
+	return pred + dev*d.fs/(2*math.Pi*float64(d.lag))
 }

@@ -55,7 +55,7 @@ type tracker struct {
 	tu          target.Tuning
 	hop, window float64
 	tracks      []*track
-	done        []pitchdetect.Held // notes given out lately, to number voices by
+	done        []doneNote // notes given out lately, to number voices by
 	emit        func(voiceNote)
 	keepFrames  bool // for reading chords: each track's frames
 }
@@ -66,6 +66,7 @@ type track struct {
 	start   float64 // its first frame
 	count   int     // frames fed
 	doubled int     // frames marked doubled
+	power   float64 // its frames' power (amplitude squared), summed
 	missed  int     // frames in a row without its voice
 	frames  *harmony.Track
 	// delivered: its note is among tr.done (then it is not counted twice)
@@ -135,6 +136,7 @@ func (tr *tracker) push(f multipitch.Frame) {
 func (tr *tracker) feed(t *track, at float64, v multipitch.Voice) {
 	t.hz, t.missed = v.Hz, 0
 	t.count++
+	t.power += v.Amplitude * v.Amplitude
 	if t.frames != nil {
 		t.frames.Add(at, v.Hz)
 	}
@@ -164,6 +166,10 @@ func (tr *tracker) deliver(t *track, h pitchdetect.Held) {
 		// knows its window) gives nonsense widths. Its centre stands.
 		h.VibratoWidth, h.VibratoRate = 0, 0
 	}
+	if tr.foldOctave(t, h) {
+		t.delivered = true // no voice: not counted as one either
+		return
+	}
 	// Voice 1 is the lowest sounding at the note's start: among the notes
 	// given out and the tracks held long enough to be notes, not the
 	// passing readings of an onset.
@@ -182,6 +188,41 @@ func (tr *tracker) deliver(t *track, h pitchdetect.Held) {
 		}
 	}
 	t.delivered = true
-	tr.done = append(slices.DeleteFunc(tr.done, func(d pitchdetect.Held) bool { return d.End < h.Start-60 }), h)
+	tr.done = append(slices.DeleteFunc(tr.done, func(d doneNote) bool { return d.End < h.Start-60 }), doneNote{h, t.level()})
 	tr.emit(voiceNote{session.Event{Source: tr.name, Held: h, Reading: tr.tu.Classify(h.Hz), Tuning: tr.tu}, voice, 2*t.doubled > t.count, t.frames})
+}
+
+// doneNote is a note given out, with its track's mean power.
+type doneNote struct {
+	pitchdetect.Held
+	power float64
+}
+
+// level is the track's mean power over its frames.
+func (t *track) level() float64 { return t.power / float64(max(t.count, 1)) }
+
+// foldOctave reports whether note h of track t lies an octave above a
+// louder voice's note (multipitch.OctaveAbove) for at least half its
+// length: then it is that note's octave, doubled or its own even partials
+// moving with a vibrato (a bassoon's, a choir's), which the frames could
+// not tell apart, and it is not a voice. Frames fold an octave doubling
+// into the lower voice already; this is the same rule for the notes the
+// frames let through. The note below keeps the mark its frames give it
+// (doubled where its even partials stand out): folding cannot say which
+// the octave was. Only below a louder note: a flute's G5 over a bassoon's
+// C3 would otherwise fold into the quiet G4 read on the bassoon's 3rd
+// partial.
+func (tr *tracker) foldOctave(t *track, h pitchdetect.Held) bool {
+	half := (h.End - h.Start) / 2
+	for _, d := range tr.done {
+		if multipitch.OctaveAbove(h.Hz, d.Hz) && d.power > t.level() && min(d.End, h.End)-max(d.Start, h.Start) >= half {
+			return true
+		}
+	}
+	for _, o := range tr.tracks {
+		if o != t && !o.delivered && multipitch.OctaveAbove(h.Hz, o.hz) && o.level() > t.level() && h.End-max(o.start, h.Start) >= half {
+			return true
+		}
+	}
+	return false
 }

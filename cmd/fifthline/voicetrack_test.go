@@ -1,0 +1,52 @@
+package main
+
+import (
+	"strings"
+	"testing"
+
+	"fifthline/multipitch"
+	"fifthline/target"
+)
+
+// A note heard an octave above a louder voice's note for at least half its
+// length is that voice's octave — doubled, or its own even partials moving
+// with a vibrato — and no voice of its own; a louder note an octave up, or
+// one that outlasts the note below by more than its overlap, is a voice.
+// Frames at the estimator's default hop and window at 44.1 kHz (4096 and
+// 16384 samples); pitches in equal temperament from A4 = 440 Hz (ISO 16):
+// G3 196.00 Hz, its octave G4 392.00 Hz.
+func TestVoiceNoteAnOctaveAboveALouderOne(t *testing.T) {
+	type voice struct {
+		hz, amp    float64
+		from, till float64 // seconds
+	}
+	low, high := 196.0, 392.0
+	for _, tc := range []struct {
+		name   string
+		voices []voice
+		want   string
+	}{
+		{"quiet octave above throughout", []voice{{low, 0.1, 0, 2.5}, {high, 0.02, 0, 2.5}}, "G3"},
+		{"quiet octave above for a while", []voice{{low, 0.1, 0, 2.5}, {high, 0.02, 0.5, 1.5}}, "G3"},
+		{"louder octave above", []voice{{low, 0.02, 0, 2.5}, {high, 0.1, 0, 2.5}}, "G3 G4"},
+		{"quiet octave outlasting the note below", []voice{{low, 0.1, 0, 1}, {high, 0.02, 0, 2.5}}, "G3 G4"},
+	} {
+		var notes []string
+		hop, window := 4096/44100.0, 16384/44100.0
+		tr := newTracker("test", target.Default(), hop, window, func(n voiceNote) { notes = append(notes, n.Reading.Note.String()) })
+		for at := 0.0; at < 3; at += hop {
+			var f multipitch.Frame
+			f.Time = at
+			for _, v := range tc.voices {
+				if at >= v.from && at < v.till {
+					f.Voices = append(f.Voices, multipitch.Voice{Hz: v.hz, Amplitude: v.amp})
+				}
+			}
+			tr.push(f)
+		}
+		tr.flush()
+		if got := strings.Join(notes, " "); got != tc.want {
+			t.Errorf("%s: heard %q, want %q", tc.name, got, tc.want)
+		}
+	}
+}

@@ -1,0 +1,64 @@
+package ensemble
+
+import "math"
+
+// A phantom below: before the bleed between two channels is weighed,
+// nothing of the neighbour is subtracted, and a player's note together
+// with a neighbour's bleed repeats at the period both share. A cello's D3
+// entering under the viola's A3 (2:3) is read as D2 on the cello's own
+// channel until the cello is some 20 dB louder than the bleed: its
+// harmonics sound loudest on the cello's channel, so the ownership test
+// keeps it. The phantom shows in its harmonics: those that are the
+// player's note (the even ones, for an octave) sound, the others lie on
+// the neighbour's partials or are silent. A real D2 sounds its own odd
+// harmonics (its fundamental, fifth, seventh) wherever the neighbour is.
+
+// phantomDB is how far below the harmonics of the note above those of
+// the phantom alone must lie. Measured on a rendered cello's D3 under a
+// viola's A3 (FluidR3): 25–40 dB once the note has begun, the main lobes
+// of the note's own partials three bins away leaking into them. A real
+// note's odd harmonics lie well within 20 dB of its even ones (a saw's
+// fundamental and seventh: 1 and 1/49 in power against 1/4, 1/16, 1/36,
+// 1/64), and a note with no odd harmonics at all is the note above.
+const phantomDB = 20.0
+
+// phantom tells whether a pitch hz read on channel c is the period its
+// own note, an octave or a twelfth above (k·hz), shares with the bleed of
+// a neighbour whose bleed on c is not weighed yet (unweighed(d)): the
+// neighbour's pitch is m·hz, m prime to k, and of hz's harmonics those
+// that are neither the note's nor the neighbour's are silent. It returns
+// k, or 0. pitches are the players' readings this frame, by channel.
+func (o *Owner) phantom(c int, hz float64, pitches []float64, unweighed func(d int) bool) int {
+	if !o.have[c] || !(hz > 0) {
+		return 0
+	}
+	const all = 1<<ownHarmonics - 1
+	for k := 2; k <= 3; k++ {
+		above := multiples(k) // the harmonics of hz that are the note k·hz's
+		var next uint16       // those that are a neighbour's m·hz's
+		for d, p := range pitches {
+			m := math.Round(p / hz)
+			if d == c || !(p > 0) || m < 2 || int(m)%k == 0 || !unweighed(d) || math.Abs(1200*math.Log2(p/(m*hz))) > partialCents {
+				continue
+			}
+			next |= multiples(int(m))
+		}
+		alone := all &^ above &^ next
+		if next == 0 || alone == 0 {
+			continue // no neighbour shares the period, or nothing left to tell
+		}
+		if o.power(c, hz, all&^alone)*math.Pow(10, phantomDB/10) < o.power(c, hz, all&^above) {
+			return k
+		}
+	}
+	return 0
+}
+
+// multiples marks (bit h−1) the harmonics h of a pitch, up to
+// ownHarmonics, that are harmonics of its k-th.
+func multiples(k int) (mask uint16) {
+	for h := k; h <= ownHarmonics; h += k {
+		mask |= 1 << (h - 1)
+	}
+	return mask
+}

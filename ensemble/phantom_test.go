@@ -1,0 +1,54 @@
+package ensemble
+
+import (
+	"math"
+	"testing"
+
+	"fifthline/internal/testsignal"
+)
+
+// The period a player's note shares with a neighbour's bleed, read on the
+// player's channel before that bleed is learned, and a real note there.
+// Sawtooth tones (every harmonic, 1/k), a neighbour heard 18 dB down; the
+// detector's default window at 48 kHz (4096 samples). D2 in equal
+// temperament at A4 = 440 Hz (ISO 16); D3 an octave and A3 a just twelfth
+// (3/1, common practice) above it, so the three share D2's period exactly.
+func TestAPhantomBelowIsThePlayersNoteAbove(t *testing.T) {
+	d2 := 440 * math.Exp2(-31.0/12)
+	const n = 4096
+	saw := func(hz, level float64) []float64 {
+		return testsignal.Tone(rate, n, testsignal.Saw, level, testsignal.Steady(hz))
+	}
+	mix := func(a, b []float64) []float64 {
+		x := make([]float64, n)
+		for i := range x {
+			x[i] = a[i] + math.Pow(10, -18.0/20)*b[i]
+		}
+		return x
+	}
+	for _, c := range []struct {
+		name      string
+		own, next float64 // the player's pitch and the neighbour's
+		weighed   bool    // the neighbour's bleed on the player is estimated
+		want      int
+	}{
+		// The cello's D3 under the viola's A3 (2:3): read as D2, it is D3.
+		{"an octave above", 2 * d2, 3 * d2, false, 2},
+		// The viola's A3 over the cello's D3 bleed: read as D2, it is A3.
+		{"a twelfth above", 3 * d2, 2 * d2, false, 3},
+		// A real D2 under the viola's A3 sounds its own odd harmonics.
+		{"a real note", d2, 3 * d2, false, 0},
+		// Once the bleed is estimated it is subtracted before the detector
+		// reads (or there is none): a D2 read then is no shared period.
+		{"bleed weighed", 2 * d2, 3 * d2, true, 0},
+	} {
+		o := NewOwner(rate, n, 2)
+		ch0, ch1 := mix(saw(c.own, 0.15), saw(c.next, 0.15)), mix(saw(c.next, 0.15), saw(c.own, 0.15))
+		o.Set(0, ch0, nil)
+		o.Set(1, ch1, nil)
+		got := o.phantom(0, d2, []float64{d2, c.next}, func(int) bool { return !c.weighed })
+		if got != c.want {
+			t.Errorf("%s: D2 read on the player's channel is harmonic %d of their note, want %d", c.name, got, c.want)
+		}
+	}
+}
