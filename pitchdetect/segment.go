@@ -304,7 +304,13 @@ func (s *Segmenter) summarise(live, slurred bool) Held {
 		}
 		s.c = append(s.c, 1200*math.Log2(e.Hz/ref))
 	}
-	g := s.glide(s.c)
+	// The glide may start as late as a note after a rest starts its
+	// steady part (a Window after its first frame), past a wobble.
+	wobble := 0
+	for wobble < n && s.t[wobble] < h.Start+s.Window {
+		wobble++
+	}
+	g := s.glide(s.c, wobble)
 	if s.c = s.c[:n]; g >= n {
 		g = 0
 	}
@@ -372,11 +378,15 @@ const (
 // glide returns how many of the first frames of a steady-part track c
 // (cents) are an attack's glide into the pitch the rest settles on: the
 // earliest g such that c[g:] lies within a quarter of its distance (at
-// least glideCents) from c[0], c[:g+1] moves one way only, and the settled
+// least glideCents) from c[k], c[k:g+1] moves one way only, and the settled
 // rest lasts at least half as long as the glide. A vibrato moves both ways;
 // a steady drift never settles within a quarter of its movement for that
-// long. It returns 0 when there is no such glide.
-func (s *Segmenter) glide(c []float64) int {
+// long. The glide may start after a wobble of up to wobble frames (k > 0),
+// all short of the settled pitch on the glide's side: the frames of a
+// slurred note's steady part begin sooner than those of a note after a
+// rest, and the same attack must read the same either way. It returns 0
+// when there is no such glide.
+func (s *Segmenter) glide(c []float64, wobble int) int {
 	n := len(c)
 	if n < glideRest+2 {
 		return 0
@@ -387,15 +397,30 @@ func (s *Segmenter) glide(c []float64) int {
 	for i := n - 2; i >= 0; i-- {
 		lo[i], hi[i] = min(c[i], lo[i+1]), max(c[i], hi[i+1])
 	}
-	up, down := true, true // c[:g+1] only rises, only falls
-	for g := 1; n-g >= max(glideRest, (g+1)/2); g++ {
+	wlo, whi := math.Inf(1), math.Inf(-1) // of the wobble c[:k]
+	for k := 0; k <= wobble && k < n; k++ {
+		if g := glideFrom(c, k, lo, hi, wlo, whi); g > 0 {
+			return g
+		}
+		wlo, whi = min(wlo, c[k]), max(whi, c[k])
+	}
+	return 0
+}
+
+// glideFrom is glide's test of a glide starting at c[k] after a wobble
+// spanning wlo..whi; lo and hi are the extremes of c[i:].
+func glideFrom(c []float64, k int, lo, hi []float64, wlo, whi float64) int {
+	n := len(c)
+	up, down := true, true // c[k:g+1] only rises, only falls
+	for g := k + 1; n-g >= max(glideRest, (g+1)/2); g++ {
 		step := c[g] - c[g-1]
 		up, down = up && step >= -glideSlack, down && step <= glideSlack
 		if !up && !down {
 			return 0
 		}
-		moved := (lo[g]+hi[g])/2 - c[0]
-		if math.Abs(moved) >= glideCents && hi[g]-lo[g] <= math.Abs(moved)/4 && (moved > 0 && up || moved < 0 && down) {
+		moved := (lo[g]+hi[g])/2 - c[k]
+		if math.Abs(moved) >= glideCents && hi[g]-lo[g] <= math.Abs(moved)/4 &&
+			(moved > 0 && up && whi < lo[g] || moved < 0 && down && wlo > hi[g]) {
 			return g
 		}
 	}

@@ -15,26 +15,17 @@ import (
 // as in ensembleTakes. Their bar is the ensemble issue's: 1 ¢ for the
 // winds, whose FluidR3 samples hold a steady pitch, 1.5 ¢ for the strings
 // and voices, whose samples carry vibrato (the "with vibrato"),
-// and 1.5 ¢ for thirds and fifths against the take without bleed. One
-// reading misses it, by how much its bar says, and not for the bleed:
-// the clarinet's E4 of the third chord reads 329.93 Hz, 1.29 ¢ from alone
-// (329.68 Hz), though from its fourth frame on every frame reads as alone
-// within 0.05 ¢. The A4 before it ends, alone, on one release frame
-// (2.235 s; the detector's confidence 0.61 against its 0.5) whose window
-// holds 20 ms of the A4's tail and otherwise silence; what is left of the
-// neighbours after cleaning (some 70 dB below full scale) makes it read
-// no pitch. Three quiet frames then part the notes instead of two, so the
-// segmenter hears E4 begin after a rest rather than slurred from A4, its
-// steady part starts later, past a 0.9 ¢ wobble of the attack, and the
-// attack's rise from 328.4 Hz is left out as a glide. The part alone with
-// that one frame unvoiced reads 329.93 Hz too: the note's value, formed in
-// pitchdetect's segmenter, turns on that frame, and no cleaning of the
-// bleed brings it back honestly.
+// and 1.5 ¢ for thirds and fifths against the take without bleed. The
+// clarinet's E4 of the third chord holds it only since the segmenter reads
+// an attack's glide alike whether the note follows a rest or a slur: the
+// A4 before it ends, alone, on one quiet release frame that the bleed left
+// after cleaning makes read no pitch, so wet the E4 follows a rest and
+// alone a slur (pitchdetect's TestGlideReadsAlikeAfterARestOrASlur).
 //
 // General MIDI programs as in ensembleTakes.
 var harderTakes = []ensembleTake{
 	{
-		name: "winds-harder", key: "C major", players: []string{"bn", "cl", "ob", "fl"}, cents: 1.3,
+		name: "winds-harder", key: "C major", players: []string{"bn", "cl", "ob", "fl"}, cents: 1,
 		chords: []string{"C major", "F major", "F major", "C major", "G major"},
 		parts: []testsignal.MIDIPart{
 			{Program: 70, Cents: 0, Notes: []testsignal.TimedNote{note(48, 0, 0.9, 0), note(53, 1, 0.9, 0), note(48, 2, 0.9, 0), note(55, 3, 0.9, 0)}},
