@@ -29,6 +29,13 @@
 //     domain on the bins around each partial, with the Hann window's
 //     transform in closed form as each partial's shape.
 //
+// A voice whose pitch moves (a vibrato) is then read again on short
+// sub-windows, under half a vibrato cycle, with the others' partials in the
+// model and the partials it shares with them left out of its steering; its
+// frame pitch is the plain mean of those readings (timeavg.go): one long
+// fit weighs a vibrato by loudness, and an instrument loudest at the low
+// end of its cycle would read flat of the time average other readers give.
+//
 // A voice whose partials explain nothing the others do not (an octave
 // above another voice, a subharmonic guess, a guess on noise) is dropped,
 // the lowest first; in that decision each partial may also widen (the

@@ -71,7 +71,8 @@ type Estimator struct {
 	floor  float64   // the spectrum's median power: its noise floor
 	sorted []float64 // scratch for it
 	out    []Voice
-	alt    []Voice // the half window's reading beside it
+	alt    []Voice       // the half window's reading beside it
+	avg    *timeAverager // nil in the half window's own estimator
 
 	// The onset's half window: see onset.go.
 	short   *Estimator
@@ -134,9 +135,10 @@ func New(rate float64, window, hop int, cfg Config) (*Estimator, error) {
 		// window: chords are then read on whole windows only.
 		e.short, _ = New(rate, window/2, hop, Config{MaxVoices: cfg.MaxVoices, MinHz: cfg.MinHz, MaxHz: cfg.MaxHz, Accept: cfg.Accept})
 		if e.short != nil {
-			e.short.short = nil
+			e.short.short, e.short.avg = nil, nil
 		}
 	}
+	e.avg = newTimeAverager(rate, window, hop, cfg.MinHz)
 	return e, nil
 }
 
@@ -200,12 +202,7 @@ func (e *Estimator) Analyze(x []float64, dst []Voice) []Voice {
 	if len(x) != e.window || rmsDB(x) < silenceDBFS {
 		return dst
 	}
-	n := e.window
-	for i, v := range x {
-		c := i - n/2 // centred, so the window's transform is real
-		e.frame[(c+n)%n] = v * (0.5 + 0.5*math.Cos(2*math.Pi*float64(c)/float64(n)))
-	}
-	e.fft.Coefficients(e.spec, e.frame)
+	hannSpectrum(e.spec, e.frame, x, e.fft)
 	e.sorted = e.sorted[:0]
 	for b := 1; float64(b)*e.fitter.binHz < e.fitter.ceilHz; b += 4 {
 		e.sorted = append(e.sorted, real(e.spec[b])*real(e.spec[b])+imag(e.spec[b])*imag(e.spec[b]))
@@ -240,6 +237,17 @@ func (e *Estimator) Analyze(x []float64, dst []Voice) []Voice {
 	e.drop = e.drop[:0]
 	e.prune()
 	return e.voices(dst)
+}
+
+// hannSpectrum fills spec with the transform of x under a Hann window,
+// using frame (len x) as scratch.
+func hannSpectrum(spec []complex128, frame, x []float64, fft *fourier.FFT) {
+	n := len(x)
+	for i, v := range x {
+		c := i - n/2 // centred, so the window's transform is real
+		frame[(c+n)%n] = v * (0.5 + 0.5*math.Cos(2*math.Pi*float64(c)/float64(n)))
+	}
+	fft.Coefficients(spec, frame)
 }
 
 func cents(a, b float64) float64 { return 1200 * math.Log2(a/b) }

@@ -41,7 +41,12 @@ type fitter struct {
 	// judged (-1: none) is the voice being judged while broad: the even
 	// partials of a voice an octave below it may also move (shifted).
 	judged int
-	spec   []complex128 // the frame's spectrum, bins 0..n/2
+	// apart (bins; 0: none): a partial this near another voice's partial
+	// does not steer the fundamentals (timeavg.go); steer says which
+	// voices kept a partial that does, in the last build.
+	apart float64
+	steer []bool
+	spec  []complex128 // the frame's spectrum, bins 0..n/2
 
 	cols  []column
 	gram  []float64 // the columns' Gram matrix, then its Cholesky factor
@@ -69,7 +74,9 @@ func (f *fitter) build(f0 []float64, kcap int, skip int) {
 	f.gen++
 	f.used = f.used[:0]
 	top := len(f.spec) - 1
+	f.steer = f.steer[:0]
 	for v, hz := range f0 {
+		f.steer = append(f.steer, false)
 		under := f.judged >= 0 && f.judged != v && OctaveAbove(f0[f.judged], hz)
 		for k := 1; k <= min(kcap, f.maxK); k++ {
 			pos := float64(k) * hz / f.binHz
@@ -87,6 +94,11 @@ func (f *fitter) build(f0 []float64, kcap int, skip int) {
 					f.mark[b] = f.gen
 					f.used = append(f.used, b)
 				}
+			}
+			if f.apart > 0 && f.coincides(f0, v, float64(k)*hz) {
+				c.dw = [2*support + 1]float64{}
+			} else {
+				f.steer[v] = true
 			}
 			if v != skip { // its bins still count, so residuals compare
 				f.cols = append(f.cols, c)
@@ -149,6 +161,25 @@ const octaveCents = 35.0
 // voice lies on the even partials of the one below: from one channel, an
 // octave doubling and a lower voice's moving even partials are one.
 func OctaveAbove(hz, lo float64) bool { return math.Abs(cents(hz, 2*lo)) < octaveCents }
+
+// coincides reports whether a partial of voice v at hz lies within apart
+// bins of a partial of another voice in f0.
+func (f *fitter) coincides(f0 []float64, v int, hz float64) bool {
+	for u, g := range f0 {
+		if u == v {
+			continue
+		}
+		k := math.Max(1, math.Round(hz/g))
+		if math.Abs(hz-k*g) < f.apart*f.binHz {
+			return true
+		}
+	}
+	return false
+}
+
+// steers reports whether voice v kept a partial that steers its
+// fundamental in the last build.
+func (f *fitter) steers(v int) bool { return v < len(f.steer) && f.steer[v] }
 
 // partials counts the columns that are partials, not their broadening.
 func (f *fitter) partials() int {

@@ -109,20 +109,20 @@ func ensembleScenes() []scene {
 		// C3 under a just E4, then F3 under a just A4 (−13.69 ¢: 386.31 −
 		// 400, from the ratio 5/4).
 		{"duet: bassoon and clarinet", 40, false, progression([]int{70, 71}, []float64{0, -13.69}, []int{48, 64}, []int{53, 69}),
-			&figures{median: 0.65, worst: 0.7, just: 0.5, phantomPct: 35, why: "the bassoon's vibrato (about 15 ¢ at 4 Hz) smears its partials into voices: its 3rd partial (its strongest, 18 dB above its fundamental) read as G4 on a vibrato sideband 13 ¢ sharp, and F3's 3rd as C5: 2 phantom notes of 6; median 0.60 ¢, worst 0.68 ¢, the clarinet reading +0.5 to +0.6 ¢ where its three readers agree within 0.4 ¢"}},
+			&figures{median: 0.7, worst: 0.9, just: 0.8, phantomPct: 35, why: "the bassoon's vibrato (about 15 ¢ at 4 Hz) smears its partials into voices: its 3rd partial (its strongest, 18 dB above its fundamental) read as G4 on a vibrato sideband 13 ¢ sharp, and F3's 3rd as C5: 2 phantom notes of 6; median 0.68 ¢, worst 0.89 ¢, just readings within 0.78 ¢, the clarinet reading +0.5 to +0.7 ¢ where its three readers agree within 0.4 ¢. Looser than the 0.65/0.7/0.5 held before the vibrato's time average (multipitch/timeavg.go): the bassoon's C3 now reads -0.89 ¢ where its three readers lie 2.14 ¢ apart, within its truth's own uncertainty"}},
 		// Voices crossing: the clarinet's E4 over the trombone's held C4
 		// moves to A3 under it.
 		{"duet crossing: trombone and clarinet", 45, false, progression([]int{57, 71}, []float64{4, -13.69}, []int{60, 64}, []int{60, 57}),
 			&figures{median: 0.65, worst: 0.7, just: 0.5, phantomPct: 10, why: "median 0.62 ¢: the clarinet's E4 and A3 read +0.62 and +0.69 ¢, as --voices reads them alone, where the three readers of the truth agree within 0.23 ¢: the estimator's error on this sample, not the mixture's"}},
 		// C major (C3 E4 G5), then G major (G2 D4 B4).
 		{"trio: bassoon, clarinet, flute", 40, false, progression([]int{70, 71, 73}, []float64{-3, 5, -8}, []int{48, 64, 79}, []int{43, 62, 71}),
-			&figures{median: 0.75, worst: 1.15, just: 2, phantomPct: 15, why: "the bassoon's 3rd partial again (G4 over C3): 1 phantom note of 7; median 0.71 ¢, worst 1.09 ¢"}},
+			&figures{median: 0.5, worst: 1.1, just: 1.6, phantomPct: 15, why: "the bassoon's 3rd partial again (G4 over C3): 1 phantom note of 7; median 0.45 ¢, worst 1.05 ¢ (the flute's G5), just readings within 1.51 ¢"}},
 		// D minor seventh (D3 A3 F4 C5), then G7 (G2 B3 F4 D5).
 		{"string quartet", 35, true, progression([]int{42, 41, 40, 40}, []float64{0, 6, -4, 10}, []int{50, 57, 65, 72}, []int{43, 59, 65, 74}),
-			&figures{median: 2.25, worst: 4.4, just: 7, phantomPct: 10, why: "bowed vibrato (±13 ¢): the first violin's D5 reads 4.4 ¢ flat where its three readers agree within 0.2 ¢ (the estimator's error: the long window smears the vibrato), median 2.21 ¢ and just readings within 6.90 ¢ (the cello's G2 reads 3.5 ¢ sharp since the voices' final fit lets each partial widen, where it read 0.2 ¢: worse here, 1–2 ¢ better for the bassoon, the flute and the violin's D5)"}},
+			&figures{median: 1.5, worst: 5.1, just: 4.9, phantomPct: 10, why: "bowed vibrato (±13 ¢): median 1.43 ¢ and just readings within 4.85 ¢ (2.21 and 6.90 ¢ before the vibrato's time average, multipitch/timeavg.go), but the first violin's D5 reads 5.03 ¢ flat (4.36 ¢ before) where its three readers agree within 0.2 ¢: each of its partials lies within k·2.3 Hz of the cello's G2's 6k-th, which no sub-window short enough for the vibrato parts, so it keeps the long window's loudness-weighted reading"}},
 		// F major seventh (F3 C4 E4 A4), then E minor seventh (E3 B3 D4 G4).
 		{"choir, four parts", 40, true, progression([]int{52, 52, 52, 52}, []float64{0, 2, -12, -14}, []int{53, 60, 64, 69}, []int{52, 59, 62, 67}),
-			&figures{median: 1.7, worst: 6, just: 9.5, phantomPct: 10, why: "chorused aahs: the three readers of each lone part lie up to 2.25 ¢ apart, so its truth is that uncertain; median 1.68 ¢, worst 5.89 ¢ (the bass's F3), just readings within 9.31 ¢ (8.26 ¢ while the soprano's octave passed for a voice: without it a stretch of E minor without its seventh is a chord of its own, its third G4 read 9.3 ¢ from what the truths make)"}},
+			&figures{median: 2, worst: 4.1, just: 10.1, phantomPct: 10, why: "chorused aahs: the three readers of each lone part lie up to 2.25 ¢ apart, so its truth is that uncertain; median 1.99 ¢, worst 4.05 ¢ (the bass's E3, 4.3 ¢ sharp alone too), just readings within 10.07 ¢ (a stretch of E minor without its seventh is a chord of its own, its third G4 read about 10 ¢ from what the truths make). Before the vibrato's time average (multipitch/timeavg.go): median 1.68 ¢, worst 5.89 ¢, just 9.31 ¢; the median and the just reading are looser by less than the truths' own spread"}},
 	}
 }
 

@@ -1,0 +1,126 @@
+package multipitch
+
+import (
+	"math"
+
+	"gonum.org/v1/gonum/dsp/fourier"
+)
+
+// The time average of a voice with vibrato. One fit over a long window
+// weighs each moment of a vibrato cycle by how loud the voice is then: a
+// FluidR3 violin whose fundamental is loudest at the low end of its cycle
+// reads 4 to 7 ¢ flat over a third of a second, where readers of short
+// windows (YIN, our one-pitch detector) agree on the cycle's time average.
+// So once the long window has found the voices, each is read again on short
+// sub-windows, shorter than half a vibrato cycle, with the same joint model
+// (Christensen & Jakobsson 2009) started from the long window's fundamentals,
+// and the frame's pitch is the plain mean of the sub-windows' readings:
+// every moment counts once, however loud. A partial lying within apartBins
+// of another voice's is still fitted (its energy explained) but does not
+// move the fundamentals: a short window cannot part it.
+
+// apartBins: partials nearer than this to another voice's, in sub-window
+// bins, do not steer the sub-window fit (the Hann main lobe's half width).
+const apartBins = 2.0
+
+// timeAvgCents: a sub-window reading further than this from the long
+// window's is not the same voice (a voice silent there, a fit that slipped
+// a partial); the widest vibrato read here is about ±50 ¢.
+const timeAvgCents = 80.0
+
+// movingCents: a voice whose sub-window readings lie closer together than
+// this is steady, and the long window reads it more finely (the sub-windows'
+// coarser bins part close partials less well).
+const movingCents = 2.0
+
+// timeAverager reads the voices of a frame on sub-windows; one serves both
+// the whole and the half windows of an Estimator.
+type timeAverager struct {
+	n         int
+	frame     []float64
+	fft       *fourier.FFT
+	spec      []complex128
+	fitter    *fitter
+	f0        []float64
+	sum       []float64 // per voice: summed cents from the long reading
+	lo, hi    []float64 // per voice: the readings' range, cents
+	count     []int
+	subHop    int
+	subsFrame int // sub-windows per frame
+}
+
+// newTimeAverager returns one with sub-windows of the power of two nearest
+// rate/11 (4096 at 44.1 and 48 kHz: 85 to 93 ms, under half a cycle of a
+// 5–6 Hz vibrato), spaced so that the frames' sub-windows, hop after hop,
+// tile time evenly; nil where that window cannot hold the range minHz or
+// is not under half the estimator's window.
+func newTimeAverager(rate float64, window, hop int, minHz float64) *timeAverager {
+	n := 1 << int(math.Round(math.Log2(rate/subDiv)))
+	binHz := rate / float64(n)
+	if minHz < 2*binHz || n > window/2 {
+		return nil
+	}
+	// Hann sub-windows overlapping by half sum to a constant: the frame's
+	// hop is covered by subsFrame of them at n/2 apart.
+	subs := max(1, hop/(n/subOverlap))
+	ta := &timeAverager{n: n, subHop: hop / subs, subsFrame: subs}
+	ta.frame = make([]float64, n)
+	ta.fft = fourier.NewFFT(n)
+	ta.spec = make([]complex128, n/2+1)
+	ta.fitter = newFitter(n, binHz, math.Min(ceilingHz, 0.45*rate), maxPartials)
+	ta.fitter.spec = ta.spec
+	ta.fitter.apart = apartBins
+	return ta
+}
+
+// subCaps: the comb grows from the lowest partials, as from candidates: at
+// a vibrato's crest a voice lies tens of cents from the long reading, more
+// than an upper partial's main lobe.
+const subDiv, subOverlap = 11, 2
+
+var subCaps = []int{3, 6, 12, 0, 0}
+
+// average replaces each voice's Hz by the mean of its readings on the
+// sub-windows around the centre of x (the window the voices were read
+// from). A voice no sub-window could read, or that they find steady
+// (movingCents), keeps its long reading.
+func (ta *timeAverager) average(x []float64, voices []Voice) {
+	if ta == nil || len(voices) == 0 {
+		return
+	}
+	nv := len(voices)
+	ta.sum, ta.count = grow(ta.sum, nv), ta.count[:0]
+	for range nv {
+		ta.count = append(ta.count, 0)
+	}
+	clear(ta.sum)
+	ta.lo, ta.hi = grow(ta.lo, nv), grow(ta.hi, nv)
+	for v := range nv {
+		ta.lo[v], ta.hi[v] = math.Inf(1), math.Inf(-1)
+	}
+	first := len(x)/2 - ta.subHop*ta.subsFrame/2 + ta.subHop/2
+	for s := range ta.subsFrame {
+		lo := first + s*ta.subHop - ta.n/2
+		if lo < 0 || lo+ta.n > len(x) || rmsDB(x[lo:lo+ta.n]) < silenceDBFS {
+			continue
+		}
+		hannSpectrum(ta.spec, ta.frame, x[lo:lo+ta.n], ta.fft)
+		ta.f0 = ta.f0[:0]
+		for _, v := range voices {
+			ta.f0 = append(ta.f0, v.Hz)
+		}
+		ta.fitter.refine(ta.f0, -1, subCaps)
+		for v := range voices {
+			if c := cents(ta.f0[v], voices[v].Hz); ta.fitter.steers(v) && math.Abs(c) < timeAvgCents {
+				ta.sum[v] += c
+				ta.lo[v], ta.hi[v] = math.Min(ta.lo[v], c), math.Max(ta.hi[v], c)
+				ta.count[v]++
+			}
+		}
+	}
+	for v := range voices {
+		if ta.count[v] > 0 && ta.hi[v]-ta.lo[v] > movingCents {
+			voices[v].Hz *= math.Exp2(ta.sum[v] / float64(ta.count[v]) / 1200)
+		}
+	}
+}
