@@ -65,14 +65,7 @@ func TestAnalyzePlayersReadsRenderedTakes(t *testing.T) {
 	t.Parallel()
 	for _, take := range ensembleTakes {
 		t.Run(take.name, func(t *testing.T) {
-			r := renderTake(t, take)
-			lone := r.loneNotes(t)
-			code, out, stderr := runLong(t, append(append([]string{"analyze"}, r.musical()...), "--players", strings.Join(r.players, ","), r.wet)...)
-			if code != 0 {
-				t.Fatalf("exit %d: %s", code, stderr)
-			}
-			_, rows := readCSV(t, out)
-			checkPlayerNotes(t, "analyze", r, lone, rows, true)
+			readTakeOffline(t, renderTake(t, take))
 		})
 	}
 }
@@ -202,7 +195,29 @@ func (r renderedTake) loneOver(t *testing.T, i int, from, to float64) float64 {
 // by its player, spelled, and within 1 ¢ of its part's reading alone.
 func TestListenPlayersHearsRenderedWindsLive(t *testing.T) {
 	t.Parallel()
-	r := renderTake(t, ensembleTakes[0])
+	hearTakeLive(t, renderTake(t, ensembleTakes[0]))
+}
+
+// readTakeOffline reads the take's multitrack with analyze --players and
+// holds every player's notes to the parts read alone; it returns the parts'
+// lone readings and the take's note rows.
+func readTakeOffline(t *testing.T, r renderedTake) (lone [][]map[string]string, rows []map[string]string) {
+	t.Helper()
+	lone = r.loneNotes(t)
+	code, out, stderr := runLong(t, append(append([]string{"analyze"}, r.musical()...), "--players", strings.Join(r.players, ","), r.wet)...)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	_, rows = readCSV(t, out)
+	checkPlayerNotes(t, "analyze", r, lone, rows, true)
+	return lone, rows
+}
+
+// hearTakeLive plays the take's multitrack through a private 4-channel
+// null sink into listen --plain --players and holds every player's notes
+// to the parts read alone.
+func hearTakeLive(t *testing.T, r renderedTake) {
+	t.Helper()
 	lone := r.loneNotes(t)
 	out := playQuartetLive(t, r.wet, append(r.musical(), "--players", strings.Join(r.players, ","))...)
 	_, rows := readCSV(t, out)

@@ -25,13 +25,7 @@ func TestAnalyzePlayersReadsTemperedTakes(t *testing.T) {
 		t.Run(tt.name, func(t *testing.T) {
 			take, pub := tt.ensemble(t)
 			r := renderTake(t, take)
-			lone := r.loneNotes(t)
-			code, out, stderr := runLong(t, append(append([]string{"analyze"}, r.musical()...), "--players", strings.Join(r.players, ","), r.wet)...)
-			if code != 0 {
-				t.Fatalf("exit %d: %s", code, stderr)
-			}
-			_, rows := readCSV(t, out)
-			checkPlayerNotes(t, "analyze", r, lone, rows, true)
+			lone, rows := readTakeOffline(t, r)
 			checkTemperedCents(t, r, pub, lone, rows)
 			checkTemperedChords(t, tt, r, pub, lone, readChords(t, r, r.wet))
 		})
