@@ -75,10 +75,8 @@ func voicesMeter(ctx context.Context, src source.Source, tunings *session.Tuning
 		}
 		frame.send(m, f.Time)
 	}
-	// The voices' notes are read in the tuning the meter started in: the
-	// tracker keeps one.
 	return showMeter(ctx, m, func(ctx context.Context) error {
-		return hearVoices(ctx, src, ms.name, tunings.Get(), vo, func(float64) {}, func(n voiceNote) error {
+		return hearVoices(ctx, src, ms.name, tunings.Get, vo, func(float64) {}, func(n voiceNote) error {
 			j.note(n.Event)
 			return nil
 		})

@@ -27,7 +27,7 @@ func listenVoices(ctx context.Context, e *env, src source.Source, name string, t
 		return err
 	}
 	var notes []voiceNote
-	err := hearVoices(ctx, src, name, tu, vo, func(float64) {}, func(n voiceNote) error {
+	err := hearVoices(ctx, src, name, fixed(tu), vo, func(float64) {}, func(n voiceNote) error {
 		j.row(n.Event, n.extra(), time.Time{})
 		if vo.chords {
 			notes = append(notes, n)

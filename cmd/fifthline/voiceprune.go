@@ -20,8 +20,8 @@ const keyCents = 45.0
 // inKey is the estimator's candidate pruning for a tuning: fundamentals
 // within keyCents of a target of the key's spelling window. It prunes, it
 // does not correct: a voice kept is measured where it is.
-func inKey(tu target.Tuning) func(hz float64) bool {
-	return func(hz float64) bool { return math.Abs(tu.Classify(hz).Deviation) <= keyCents }
+func inKey(tuning func() target.Tuning) func(hz float64) bool {
+	return func(hz float64) bool { return math.Abs(tuning().Classify(hz).Deviation) <= keyCents }
 }
 
 // reported prunes a frame's voices in place to those in the key's window
@@ -30,14 +30,15 @@ func inKey(tu target.Tuning) func(hz float64) bool {
 // not taken for voices of the chord (an A4 over a declared C major's C4 E4
 // G4 would otherwise leave E5 and E6 from its 3rd and 6th partials); it is
 // only not reported.
-func reported(tu target.Tuning) func(vs []multipitch.Voice) []multipitch.Voice {
-	var members [12]bool
-	if tu.Chord != nil {
-		for _, m := range tu.Chord.Members() {
-			members[m.Note.PitchClass()] = true
-		}
-	}
+func reported(tuning func() target.Tuning) func(vs []multipitch.Voice) []multipitch.Voice {
 	return func(vs []multipitch.Voice) []multipitch.Voice {
+		tu := tuning() // the meter's keys may change it between frames
+		var members [12]bool
+		if tu.Chord != nil {
+			for _, m := range tu.Chord.Members() {
+				members[m.Note.PitchClass()] = true
+			}
+		}
 		return slices.DeleteFunc(vs, func(v multipitch.Voice) bool {
 			r := tu.Classify(v.Hz)
 			return math.Abs(r.Deviation) > keyCents || (tu.Chord != nil && !members[r.Note.PitchClass()])

@@ -144,7 +144,7 @@ func readVoices(e *env, path string, tu target.Tuning, vo voiceOptions, opt anal
 	progress := newProgress(e.stderr, path, w.Duration())
 	defer progress.Done()
 	var notes []voiceNote
-	err = hearVoices(e.ctx, w, path, tu, vo, progress.At, func(n voiceNote) error {
+	err = hearVoices(e.ctx, w, path, fixed(tu), vo, progress.At, func(n voiceNote) error {
 		j.row(n.Event, n.extra(), start)
 		notes = append(notes, n)
 		return nil
@@ -176,16 +176,17 @@ func sortVoiceNotes(notes []voiceNote) {
 // hearVoices reads src until it ends or ctx is done, handing each voice's
 // held note to emit as it ends (at seconds: how far the reading is). The
 // notes still held at the end are finished and handed on too, so an
-// interruption loses none; an error from emit stops the reading.
-func hearVoices(ctx context.Context, src source.Source, name string, tu target.Tuning, vo voiceOptions, at func(seconds float64), emit func(voiceNote) error) error {
+// interruption loses none; an error from emit stops the reading. Each frame
+// and note is read in the tuning then in force (the meter's keys change it).
+func hearVoices(ctx context.Context, src source.Source, name string, tuning func() target.Tuning, vo voiceOptions, at func(seconds float64), emit func(voiceNote) error) error {
 	rate := src.SampleRate()
-	est, err := multipitch.New(rate, 0, 0, multipitch.Config{MaxVoices: vo.max, Accept: inKey(tu)})
+	est, err := multipitch.New(rate, 0, 0, multipitch.Config{MaxVoices: vo.max, Accept: inKey(tuning)})
 	if err != nil {
 		return err
 	}
-	keep := reported(tu)
+	keep := reported(tuning)
 	var emitErr error
-	tr := newTracker(name, tu, float64(est.Hop())/rate, float64(est.Window())/rate, func(n voiceNote) {
+	tr := newTracker(name, tuning, float64(est.Hop())/rate, float64(est.Window())/rate, func(n voiceNote) {
 		if emitErr == nil {
 			emitErr = emit(n)
 		}
@@ -216,3 +217,6 @@ func hearVoices(ctx context.Context, src source.Source, name string, tu target.T
 	tr.flush()
 	return cmp.Or(emitErr, err)
 }
+
+// fixed is a tuning that stays as it is: a file's, or --plain's.
+func fixed(tu target.Tuning) func() target.Tuning { return func() target.Tuning { return tu } }

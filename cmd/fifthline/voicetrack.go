@@ -52,7 +52,7 @@ func (n voiceNote) extra() journal.Extra { return journal.Extra{Voice: strconv.I
 // the same rules as a single player's.
 type tracker struct {
 	name        string
-	tu          target.Tuning
+	tuning      func() target.Tuning // in force as each note ends
 	hop, window float64
 	tracks      []*track
 	done        []doneNote // notes given out lately, to number voices by
@@ -73,8 +73,8 @@ type track struct {
 	delivered bool
 }
 
-func newTracker(name string, tu target.Tuning, hop, window float64, emit func(voiceNote)) *tracker {
-	return &tracker{name: name, tu: tu, hop: hop, window: window, emit: emit}
+func newTracker(name string, tuning func() target.Tuning, hop, window float64, emit func(voiceNote)) *tracker {
+	return &tracker{name: name, tuning: tuning, hop: hop, window: window, emit: emit}
 }
 
 // push takes one frame's voices (lowest first).
@@ -189,7 +189,8 @@ func (tr *tracker) deliver(t *track, h pitchdetect.Held) {
 	}
 	t.delivered = true
 	tr.done = append(slices.DeleteFunc(tr.done, func(d doneNote) bool { return d.End < h.Start-60 }), doneNote{h, t.level()})
-	tr.emit(voiceNote{session.Event{Source: tr.name, Held: h, Reading: tr.tu.Classify(h.Hz), Tuning: tr.tu}, voice, 2*t.doubled > t.count, t.frames})
+	tu := tr.tuning()
+	tr.emit(voiceNote{session.Event{Source: tr.name, Held: h, Reading: tu.Classify(h.Hz), Tuning: tu}, voice, 2*t.doubled > t.count, t.frames})
 }
 
 // doneNote is a note given out, with its track's mean power.

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"math"
 	"strings"
 	"testing"
 
@@ -33,7 +34,7 @@ func TestVoiceNoteAnOctaveAboveALouderOne(t *testing.T) {
 	} {
 		var notes []string
 		hop, window := 4096/44100.0, 16384/44100.0
-		tr := newTracker("test", target.Default(), hop, window, func(n voiceNote) { notes = append(notes, n.Reading.Note.String()) })
+		tr := newTracker("test", fixed(target.Default()), hop, window, func(n voiceNote) { notes = append(notes, n.Reading.Note.String()) })
 		for at := 0.0; at < 3; at += hop {
 			var f multipitch.Frame
 			f.Time = at
@@ -47,6 +48,40 @@ func TestVoiceNoteAnOctaveAboveALouderOne(t *testing.T) {
 		tr.flush()
 		if got := strings.Join(notes, " "); got != tc.want {
 			t.Errorf("%s: heard %q, want %q", tc.name, got, tc.want)
+		}
+	}
+}
+
+// A voice's note is read in the tuning in force when it ends: the meter's
+// keys may move A4 between two notes. A4 held at 440 Hz reads 0 ¢ at A4 =
+// 440 Hz and 1200·log2(440/442) = −7.85 ¢ once A4 is 442 Hz (equal
+// temperament, ISO 16; the cents formula is common practice).
+func TestVoiceNotesFollowTheTuningInForce(t *testing.T) {
+	hop, window := 4096/44100.0, 16384/44100.0
+	now := 0.0
+	tuning := func() target.Tuning {
+		tu := target.Default()
+		if now > 1.3 {
+			tu.A4 = 442
+		}
+		return tu
+	}
+	var got []voiceNote
+	tr := newTracker("test", tuning, hop, window, func(n voiceNote) { got = append(got, n) })
+	for now = 0; now < 3; now += hop {
+		f := multipitch.Frame{Time: now}
+		if now < 1 || now >= 1.5 && now < 2.5 {
+			f.Voices = []multipitch.Voice{{Hz: 440, Amplitude: 0.1}}
+		}
+		tr.push(f)
+	}
+	tr.flush()
+	if len(got) != 2 {
+		t.Fatalf("%d notes, want 2", len(got))
+	}
+	for i, want := range []struct{ a4, cents float64 }{{440, 0}, {442, -7.85}} {
+		if n := got[i]; n.Tuning.A4 != want.a4 || math.Abs(n.Reading.Deviation-want.cents) > 0.01 {
+			t.Errorf("note %d read %+.2f ¢ at A4 = %g Hz, want %+.2f ¢ at %g Hz", i+1, n.Reading.Deviation, n.Tuning.A4, want.cents, want.a4)
 		}
 	}
 }
