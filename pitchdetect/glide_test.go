@@ -37,7 +37,9 @@ func TestGlideRule(t *testing.T) {
 
 // A 0.3 s note whose pitch rises 18 ¢ linearly over its first 0.12 s and
 // then holds reads as the pitch it holds, within 0.5 ¢ (with the glide in
-// its mean it read 1.6 ¢ flat: measured).
+// its mean it read 1.6 ¢ flat: measured), and says its reading settled
+// no sooner than 3 ¢ short of the glide's end, at 0.2 s (a chord reads
+// the note from there: harmony).
 func TestQuickNoteReadsThePitchItSettlesOn(t *testing.T) {
 	rate := 48000.0
 	hz := 349.2282 // F4, equal temperament from A4 = 440 Hz (ISO 16)
@@ -52,6 +54,9 @@ func TestQuickNoteReadsThePitchItSettlesOn(t *testing.T) {
 	}
 	if c := testsignal.Cents(notes[0].Hz, hz); math.Abs(c) > 0.5 {
 		t.Errorf("read %+.2f ¢ from the pitch the note settles on", c)
+	}
+	if n := notes[0]; n.Settled < 0.2 || n.Settled > n.End {
+		t.Errorf("settled at %.3f s; the glide is 3 ¢ short of its end at 0.200 s, the note ends at %.3f s", n.Settled, n.End)
 	}
 }
 

@@ -14,6 +14,9 @@ type Held struct {
 	VibratoWidth float64 // cents, peak-to-peak; 0 if no vibrato
 	VibratoRate  float64 // Hz; 0 if none
 	Frames       int
+	// Settled is the time of the first frame the reading weighs: past the
+	// onset's window and any glide into the pitch.
+	Settled float64
 }
 
 // Segmenter groups a stream of Estimates into held notes. A note starts on
@@ -316,6 +319,9 @@ func (s *Segmenter) summarise(live, slurred bool) Held {
 	}
 	mean, sd := meanStd(s.c[g:])
 	h.Spread = sd
+	if h.Settled = h.Start; g < n {
+		h.Settled = s.t[g]
+	}
 	h.Hz = ref * math.Pow(2, mean/1200)
 	if n := len(s.frames); !live || n >= s.vibAt+vibratoRefresh || n < s.vibAt {
 		s.vib, s.vibAt = findVibrato(s.t, s.c, s.Window), len(s.frames)
