@@ -29,7 +29,7 @@ func Chords(notes []Note, tracks []harmony.Track, players []Player, tu target.Tu
 			continue
 		}
 		hs = append(hs, harmony.Note{Start: n.Held.Start, End: n.Held.End, Who: n.Player.Name, Note: n.Reading.Note,
-			Frames: &tracks[p], Hz: n.Held.Hz})
+			Frames: &tracks[p], Hz: n.Held.Hz, Settled: n.Held.Settled})
 		who = append(who, n.Player)
 	}
 	var out []Chord

@@ -88,3 +88,39 @@ func TestCommonTonesAreJudgedInEachChord(t *testing.T) {
 		}
 	}
 }
+
+// A player entering on a chord already sounding is read from where the
+// note settled (its Held.Settled), not from its attack: with bleed a
+// detector may voice a frame or two fewer of a quiet attack, and the chord
+// must read the same either way. The soprano's G4 scoops 40 ¢ down for
+// 0.12 s over a bass's C3 a just twelfth below (3/1, common practice; C3
+// in equal temperament from A4 = 440 Hz, ISO 16).
+func TestChordsReadAnEntryFromWhereItSettled(t *testing.T) {
+	tu := target.Default()
+	c3 := 440 * math.Exp2(-21.0/12)
+	g4 := 3 * c3
+	players := []Player{{Name: "b", Channel: 0}, {Name: "s", Channel: 1}}
+	for _, first := range []float64{0.5, 0.52} { // the attack's first voiced frame
+		tracks := make([]harmony.Track, 2)
+		for t := 0.0; t <= 1; t += 0.01 {
+			tracks[0].Add(t, c3)
+			switch {
+			case t >= 0.63:
+				tracks[1].Add(t, g4)
+			case t >= first:
+				tracks[1].Add(t, g4*math.Exp2(40.0/1200))
+			}
+		}
+		note := func(p Player, h pitchdetect.Held) Note {
+			return Note{Player: p, Event: session.Event{Player: p.Name, Held: h, Reading: tu.Classify(h.Hz)}}
+		}
+		notes := []Note{
+			note(players[0], pitchdetect.Held{Start: 0, End: 1, Hz: c3, Settled: 0.1}),
+			note(players[1], pitchdetect.Held{Start: first, End: 1, Hz: g4, Settled: 0.63}),
+		}
+		chords := Chords(notes, tracks, players, tu, target.DefaultSeventh)
+		if len(chords) != 1 || len(chords[0].Members) != 2 || math.Abs(chords[0].Members[1].JustCents) > 0.01 {
+			t.Errorf("attack voiced from %.2f s: %+v, want the twelfth read just", first, chords)
+		}
+	}
+}

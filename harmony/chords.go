@@ -28,6 +28,9 @@ type Note struct {
 	// at least the note; nil reads Hz over the whole note instead.
 	Frames *Track
 	Hz     float64
+	// Settled is when the note's own reading begins (pitchdetect's
+	// Held.Settled, 0 for none): its attack's glide before is not read.
+	Settled float64
 }
 
 // Chord is a stretch in which two or more notes sound together, and what
@@ -99,7 +102,13 @@ func name(c Chord, notes []Note, tu target.Tuning, seventh float64) (Chord, bool
 	for i, k := range c.Notes {
 		n := notes[k]
 		if hz[i] = n.Hz; n.Frames != nil {
-			hz[i] = n.Frames.Mean(c.Start+Edge, c.End-Edge)
+			from, to := c.Start+Edge, c.End-Edge
+			// A note entering on the chord, from where it settled: its
+			// attack's glide is not its tuning (as for the note alone).
+			if n.Start >= c.Start && n.Settled > from && n.Settled < to {
+				from = n.Settled
+			}
+			hz[i] = n.Frames.Mean(from, to)
 		}
 		if hz[i] <= 0 {
 			return c, false
