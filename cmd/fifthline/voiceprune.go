@@ -31,12 +31,16 @@ func inKey(tuning func() target.Tuning) func(hz float64) bool {
 // G4 would otherwise leave E5 and E6 from its 3rd and 6th partials); it is
 // only not reported.
 func reported(tuning func() target.Tuning) func(vs []multipitch.Voice) []multipitch.Voice {
+	var members [12]bool
+	var of *target.Chord // the chord members holds
 	return func(vs []multipitch.Voice) []multipitch.Voice {
 		tu := tuning() // the meter's keys may change it between frames
-		var members [12]bool
-		if tu.Chord != nil {
-			for _, m := range tu.Chord.Members() {
-				members[m.Note.PitchClass()] = true
+		if tu.Chord != of {
+			of, members = tu.Chord, [12]bool{}
+			if tu.Chord != nil {
+				for _, m := range tu.Chord.Members() {
+					members[m.Note.PitchClass()] = true
+				}
 			}
 		}
 		return slices.DeleteFunc(vs, func(v multipitch.Voice) bool {
