@@ -5,6 +5,7 @@ import (
 	"encoding/json"
 	"fmt"
 	"io"
+	"slices"
 	"strconv"
 	"strings"
 	"text/tabwriter"
@@ -15,13 +16,93 @@ import (
 )
 
 // chordsOf finds the held chords among voice notes (harmony.Find), each
-// member read from its voice's frames within the chord.
+// member read from its voice's frames within the chord; a voice lost for a
+// moment under the chord is bridged first (bridgeLost).
 func chordsOf(notes []voiceNote, tu target.Tuning, seventh float64) []harmony.Chord {
 	hs := make([]harmony.Note, len(notes))
 	for i, n := range notes {
 		hs[i] = harmony.Note{Start: n.Start, End: n.End, Who: strconv.Itoa(n.voice), Note: n.Reading.Note, Frames: n.frames, Hz: n.Hz}
 	}
-	return harmony.Find(hs, tu, seventh)
+	hs, from := bridgeLost(hs)
+	chords := harmony.Find(hs, tu, seventh)
+	for _, c := range chords {
+		for i, k := range c.Notes {
+			c.Notes[i] = from[k]
+		}
+	}
+	return chords
+}
+
+// lostSeconds is the longest a voice's note may go unheard under a chord
+// that holds and still be the same note: one microphone under a choir's
+// chorused voices loses a voice for up to 0.84 s while it sings on
+// (TestVoicesOfRenderedEnsembles, "choir, four parts", measured).
+const lostSeconds = 1.0
+
+// bridgeLost joins a note to the same note heard again less than
+// lostSeconds after it ended, when every other note sounding as it ended
+// still sounds as it is heard again: the chord held and the voice went on
+// singing, so the chord is one row, not a row each side of the gap and the
+// stretch between. The joined note reads both pieces' frames. from[i] is
+// the index in notes of the first piece of the i-th note returned.
+func bridgeLost(notes []harmony.Note) (out []harmony.Note, from []int) {
+	out = slices.Clone(notes)
+	from = make([]int, len(notes))
+	for i := range from {
+		from[i] = i
+	}
+	holds := func(skip int, a, b float64) bool { // another note sounding over [a, b]?
+		some := false
+		for k, o := range out {
+			if k == skip || o.Start > a || o.End < a {
+				continue
+			}
+			if o.End < b {
+				return false
+			}
+			some = true
+		}
+		return some
+	}
+	for joined := true; joined; {
+		joined = false
+		for i := 0; i < len(out) && !joined; i++ {
+			for j := range out {
+				gap := out[j].Start - out[i].End
+				if j == i || out[j].Note != out[i].Note || gap <= 0 || gap >= lostSeconds || !holds(i, out[i].End, out[j].Start) {
+					continue
+				}
+				out[i].End, out[i].Frames = out[j].End, mergedFrames(out[i].Frames, out[j].Frames)
+				out = slices.Delete(out, j, j+1)
+				from = slices.Delete(from, j, j+1)
+				joined = true
+				break
+			}
+		}
+	}
+	return out, from
+}
+
+// mergedFrames are two pieces' frames in time order (either may be nil:
+// then the note is read from its Hz, and so is the joined one).
+func mergedFrames(a, b *harmony.Track) *harmony.Track {
+	if a == nil || b == nil {
+		return nil
+	}
+	if a == b {
+		return a
+	}
+	m := &harmony.Track{}
+	for i, j := 0, 0; i < len(a.Time) || j < len(b.Time); {
+		if j == len(b.Time) || (i < len(a.Time) && a.Time[i] <= b.Time[j]) {
+			m.Add(a.Time[i], a.Hz[i])
+			i++
+		} else {
+			m.Add(b.Time[j], b.Hz[j])
+			j++
+		}
+	}
+	return m
 }
 
 // logVoiceChords writes the chords' memberships to the journal, each with
