@@ -19,16 +19,18 @@ import (
 // measured). The readers: fifthline's single-voice detector, aubio's yin and
 // aubio's yinfft (Debian aubio-tools), the two aubio tracks averaged in
 // cents over the detector's note less 0.1 s at each end, over whole vibrato
-// cycles where the detector found a vibrato. The truth is their median; how
+// cycles where the detector found a vibrato; over a chord's stretch, the
+// detector's frames and the aubio tracks averaged over it, as the chord's
+// members are read (partReaders.over). The truth is their median; how
 // far they lie apart is logged, and is how far the truth itself can be
 // trusted. (The estimator under test, reading the lone part, is logged
 // beside them but is no reader of the truth.)
 
 // loneTruth renders part alone (file names its files in dir, name it in
-// the log) and returns its one-channel render and each
-// note's truth, with the widest disagreement of the readers over its notes
-// in cents.
-func loneTruth(t *testing.T, dir, file, name string, part testsignal.MIDIPart) (mono string, truth []float64, spread float64) {
+// the log) and returns its one-channel render, each note's truth, with the
+// widest disagreement of the readers over its notes in cents, and the
+// readers' tracks, for the truth over a stretch (partReaders.over).
+func loneTruth(t *testing.T, dir, file, name string, part testsignal.MIDIPart) (mono string, truth []float64, spread float64, readers partReaders) {
 	t.Helper()
 	wav := renderMIDI(t, dir, file, testsignal.MIDIParts([]testsignal.MIDIPart{part}))
 	mono = filepath.Join(dir, file+".mono.wav")
@@ -38,7 +40,7 @@ func loneTruth(t *testing.T, dir, file, name string, part testsignal.MIDIPart) (
 		t.Fatalf("%s alone: exit %d: %s", name, code, stderr)
 	}
 	_, rows := readCSV(t, out)
-	yin, yinfft := aubioTrack(t, mono, "yin"), aubioTrack(t, mono, "yinfft")
+	readers = partReaders{detector: detectorTrack(t, mono), yin: aubioTrack(t, mono, "yin"), yinfft: aubioTrack(t, mono, "yinfft")}
 	for _, n := range part.Notes {
 		// The longest note read while it sounds: an attack or a sample's
 		// release may read as a short note of its own.
@@ -54,15 +56,15 @@ func loneTruth(t *testing.T, dir, file, name string, part testsignal.MIDIPart) (
 		}
 		det := num(row, "hz")
 		from, to := num(row, "start_s")+0.1, num(row, "end_s")-0.1
-		if vr := num(row, "vibrato_hz"); vr > 0 {
-			to = from + math.Floor((to-from)*vr)/vr
-		}
+		vr := num(row, "vibrato_hz")
+		readers.vibrato = append(readers.vibrato, vr)
+		to = wholeCycles(from, to, vr)
 		readings := []float64{det}
 		words := fmt.Sprintf("detector %.4f Hz", det)
 		for _, tr := range []struct {
 			name  string
 			track []pitchFrame
-		}{{"yin", yin}, {"yinfft", yinfft}} {
+		}{{"yin", readers.yin}, {"yinfft", readers.yinfft}} {
 			if hz, ok := meanNear(tr.track, from, to, det); ok {
 				readings = append(readings, hz)
 				words += fmt.Sprintf(", aubio %s %+.2f ¢", tr.name, testsignal.Cents(hz, det))
@@ -70,18 +72,82 @@ func loneTruth(t *testing.T, dir, file, name string, part testsignal.MIDIPart) (
 				words += fmt.Sprintf(", aubio %s none", tr.name)
 			}
 		}
-		slices.Sort(readings)
-		hz := readings[len(readings)/2]
-		if len(readings) == 2 {
-			hz = math.Sqrt(readings[0] * readings[1])
-		}
-		apart := testsignal.Cents(readings[len(readings)-1], readings[0])
+		hz, apart := medianReading(readings)
 		spread = math.Max(spread, apart)
 		truth = append(truth, hz)
 		asked := 440 * math.Exp2(float64(n.Key-69)/12+testsignal.BendCents(part.Cents)/1200)
 		t.Logf("%s %s alone: %s; truth %.4f Hz (readers %.2f ¢ apart), %+.2f ¢ from the asked pitch", name, spelled(n.Key), words, hz, apart, testsignal.Cents(hz, asked))
 	}
-	return mono, truth, spread
+	return mono, truth, spread, readers
+}
+
+// medianReading is the readers' median (of two, their mean in cents) and
+// how far they lie apart in cents.
+func medianReading(readings []float64) (hz, apart float64) {
+	slices.Sort(readings)
+	hz = readings[len(readings)/2]
+	if len(readings) == 2 {
+		hz = math.Sqrt(readings[0] * readings[1])
+	}
+	return hz, testsignal.Cents(readings[len(readings)-1], readings[0])
+}
+
+// partReaders are the three readers' frame tracks of a lone part, and the
+// vibrato rate (Hz, 0 for none) the detector found in each of its notes.
+type partReaders struct {
+	detector, yin, yinfft []pitchFrame
+	vibrato               []float64
+}
+
+// wholeCycles ends from..to on a whole number of cycles of a vibrato of
+// rate Hz (none: to itself), so that a vibrato's part cycle does not pull
+// the mean.
+func wholeCycles(from, to, rate float64) float64 {
+	if rate <= 0 {
+		return to
+	}
+	return from + math.Floor((to-from)*rate)/rate
+}
+
+// over is the truth of note i over a stretch shorter than the note (a
+// chord's, whose members are read over it alone): the median of the
+// readers' means over from..to, on whole cycles of the note's vibrato, of
+// the frames within 50 ¢ of near, the note's truth. A chorused sample's
+// pitch wanders by cents within a note and its release reads sharper (the
+// choir's E3 +3.9 ¢ after its note-off by aubio's yin, measured), so a
+// stretch's truth is not its note's. 0 when no reader voiced a frame
+// there.
+func (pr partReaders) over(i int, from, to, near float64) float64 {
+	to = wholeCycles(from, to, pr.vibrato[i])
+	var readings []float64
+	for _, tr := range [][]pitchFrame{pr.detector, pr.yin, pr.yinfft} {
+		if hz, ok := meanNear(tr, from, to, near); ok {
+			readings = append(readings, hz)
+		}
+	}
+	if len(readings) == 0 {
+		return 0
+	}
+	hz, _ := medianReading(readings)
+	return hz
+}
+
+// detectorTrack is fifthline's single-voice frame track of a file (analyze
+// --frames), its voiced frames only.
+func detectorTrack(t *testing.T, wav string) []pitchFrame {
+	t.Helper()
+	code, out, stderr := runLong(t, "analyze", "--frames", wav)
+	if code != 0 {
+		t.Fatalf("%s --frames: exit %d: %s", wav, code, stderr)
+	}
+	_, rows := readCSV(t, out)
+	var track []pitchFrame
+	for _, r := range rows {
+		if r["voiced"] == "true" {
+			track = append(track, pitchFrame{num(r, "time_s"), num(r, "hz")})
+		}
+	}
+	return track
 }
 
 // monoSum sums a stereo render onto one channel, as a microphone between
