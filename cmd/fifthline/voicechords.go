@@ -46,15 +46,12 @@ const lostSeconds = 1.0
 // stretch between. The joined note reads both pieces' frames. from[i] is
 // the index in notes of the first piece of the i-th note returned.
 func bridgeLost(notes []harmony.Note) (out []harmony.Note, from []int) {
-	out = slices.Clone(notes)
-	from = make([]int, len(notes))
-	for i := range from {
-		from[i] = i
-	}
+	joined := slices.Clone(notes)
+	dead := make([]bool, len(notes))             // joined to an earlier piece
 	holds := func(skip int, a, b float64) bool { // another note sounding over [a, b]?
 		some := false
-		for k, o := range out {
-			if k == skip || o.Start > a || o.End < a {
+		for k, o := range joined {
+			if k == skip || dead[k] || o.Start > a || o.End < a {
 				continue
 			}
 			if o.End < b {
@@ -64,20 +61,25 @@ func bridgeLost(notes []harmony.Note) (out []harmony.Note, from []int) {
 		}
 		return some
 	}
-	for joined := true; joined; {
-		joined = false
-		for i := 0; i < len(out) && !joined; i++ {
-			for j := range out {
-				gap := out[j].Start - out[i].End
-				if j == i || out[j].Note != out[i].Note || gap <= 0 || gap >= lostSeconds || !holds(i, out[i].End, out[j].Start) {
+	// Pass after pass: one bridge can make another's chord hold (the
+	// choir's D4, bridged, holds over B3's gap). Only the few notes found
+	// again within lostSeconds are checked against the others.
+	for again := true; again; {
+		again = false
+		for i := range joined {
+			for j := range joined {
+				gap := joined[j].Start - joined[i].End
+				if dead[i] || dead[j] || joined[j].Note != joined[i].Note || gap <= 0 || gap >= lostSeconds || !holds(i, joined[i].End, joined[j].Start) {
 					continue
 				}
-				out[i].End, out[i].Frames = out[j].End, mergedFrames(out[i].Frames, out[j].Frames)
-				out = slices.Delete(out, j, j+1)
-				from = slices.Delete(from, j, j+1)
-				joined = true
-				break
+				joined[i].End, joined[i].Frames = joined[j].End, mergedFrames(joined[i].Frames, joined[j].Frames)
+				dead[j], again = true, true
 			}
+		}
+	}
+	for i, n := range joined {
+		if !dead[i] {
+			out, from = append(out, n), append(from, i)
 		}
 	}
 	return out, from

@@ -34,6 +34,8 @@ func TestAVoiceLostUnderAHeldChord(t *testing.T) {
 		starts []float64 // the chord rows' starts (C3 and G4 alone: C open fifth)
 	}{
 		{"lost for 0.6 s", []voiceNote{note(1, c3, 0, 3), note(2, c3*5/2, 0, 1.2), note(3, c3*3, 0, 3), note(2, c3*5/2, 1.8, 3)}, []float64{0}},
+		// G4's gap is bridged once E4's is, around it.
+		{"two lost in turn", []voiceNote{note(1, c3, 0, 3), note(3, c3*3, 0, 1), note(3, c3*3, 1.3, 3), note(2, c3*5/2, 0, 1.2), note(2, c3*5/2, 1.5, 3)}, []float64{0}},
 		{"silent for 1.2 s", []voiceNote{note(1, c3, 0, 3.4), note(2, c3*5/2, 0, 1), note(3, c3*3, 0, 3.4), note(2, c3*5/2, 2.2, 3.4)}, []float64{0, 1, 2.2}},
 		{"the chord changed meanwhile", []voiceNote{note(1, c3, 0, 1.5), note(2, c3*5/2, 0, 1.2), note(1, 110, 1.5, 3), note(2, 330, 1.8, 3)}, []float64{0, 1.8}},
 	} {
