@@ -53,6 +53,12 @@ type voice struct {
 	held    []pitchdetect.Estimate // frames given away as bleed, held back (attack.go)
 	note    float64                // the pitch of the note the held frames began in; 0: at an onset
 	spilled bool                   // held frames were given away for want of room
+	low     *lowBand               // the channel below the neighbours' partials (lowband.go)
+	cur     pitchdetect.Estimate   // this frame as read
+	cut     float64                // where cur was read below (Hz), 0: read whole
+	lowRead bool                   // the last frame was the player's, read from low
+	recent  float64                // the player's latest pitch heard within a window, 0: none
+	age     int                    // frames since it was heard
 }
 
 // ownEvery: the channels' spectra for the ownership test and the bleed
@@ -101,8 +107,12 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 		if err != nil {
 			return err
 		}
+		low, err := newLowBand(det)
+		if err != nil {
+			return err
+		}
 		voices[i] = &voice{Player: p, det: det, seg: pitchdetect.NewSegmenter(float64(det.Hop()) / src.SampleRate()),
-			ring: make([]float64, det.Window()), clean: make([]float32, det.Hop())}
+			ring: make([]float64, det.Window()), clean: make([]float32, det.Hop()), low: low}
 	}
 	hop := voices[0].det.Hop()
 	owner := NewOwner(src.SampleRate(), voices[0].det.Window(), len(voices))
@@ -114,6 +124,7 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 		cleaned[i] = v.clean
 	}
 	fr := newFrameReadings(len(voices))
+	recent := make([]float64, len(voices))
 	frame := 0
 	blocks, view := make([][]float32, src.Channels()), make([][]float32, src.Channels())
 	for c := range blocks {
@@ -168,15 +179,21 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 				fresh = true
 			}
 			for i, v := range voices {
-				fr.read[i], fr.level[i] = v.est[j].Hz, v.est[j].Level
+				fr.level[i] = v.est[j].Level
 			}
 			for i, v := range voices {
-				e := v.est[j]
-				// A period shared with bleed not yet weighed is the note above (phantom.go).
-				if k := owner.phantom(i, e.Hz, fr.read, func(d int) bool { return !bleed.weighed(i, d) }); k > 1 {
+				v.cur, v.cut = v.entry(v.est[j], i, fr.level, recent, func(d int) bool { return !bleed.weighed(i, d) })
+				fr.read[i] = v.cur.Hz
+			}
+			for i, v := range voices {
+				e := v.cur
+				// A period shared with bleed not yet weighed is the note above
+				// (phantom.go); below the neighbours' partials none is shared.
+				if k := owner.phantom(i, e.Hz, fr.read, func(d int) bool { return !bleed.weighed(i, d) }); k > 1 && v.cut == 0 {
 					e.Hz *= float64(k)
 				}
-				blanked := e.Voiced && owner.Bleed(i, e.Hz, fr.read, ownDB)
+				blanked := e.Voiced && owner.bleedOf(i, e.Hz, v.cut, fr.read, ownDB)
+				v.lowRead = v.cut > 0 && !blanked
 				heard := e
 				if blanked {
 					heard = unvoiced(e)
@@ -189,6 +206,9 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 				if err := v.push(e, blanked, prev, deliver); err != nil {
 					return err
 				}
+			}
+			for i, v := range voices {
+				recent[i] = v.heard(fr.hz[i])
 			}
 			if fresh {
 				bleed.observe(owner, fr)
@@ -218,6 +238,7 @@ func anyVoiced(voices []*voice, j int) bool {
 // ownership test and the bleed estimate.
 func (v *voice) feed(heard, cleaned []float32) {
 	v.est = v.det.Feed(cleaned, v.est[:0])
+	v.low.add(cleaned)
 	for _, s := range heard {
 		v.ring[v.w] = float64(s)
 		v.w++
