@@ -34,8 +34,12 @@ type Options struct {
 	OwnDB       float64
 	Bleed       *Bleed // nil: learn afresh
 	OnNote      func(Note) error
-	// OnFrame, if set, sees every player's frame as read: unvoiced where
-	// the pitch was another player's bleed. Index i is Players[i].
+	// OnFrame, if set, sees every player's frame as their notes are read
+	// from it: unvoiced where the pitch was another player's bleed. Index i
+	// is Players[i]; every player's frame of a moment comes, in player
+	// order, before the next moment's. A moment waits while a player's
+	// frame in it is held back (attack.go: up to attackFrames hops), so a
+	// frame taken back is seen with its pitch.
 	OnFrame func(i int, e pitchdetect.Estimate)
 }
 
@@ -51,6 +55,7 @@ type voice struct {
 	last    float64                // the previous frame's pitch, 0 when unvoiced
 	same    int                    // frames in a row at that pitch (or silent)
 	held    []pitchdetect.Estimate // frames given away as bleed, held back (attack.go)
+	decided []pitchdetect.Estimate // frames the segmenter has, not yet handed to OnFrame
 	note    float64                // the pitch of the note the held frames began in; 0: at an onset
 	spilled bool                   // held frames were given away for want of room
 	low     *lowBand               // the channel below the neighbours' partials (lowband.go)
@@ -145,6 +150,7 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 				errs = append(errs, deliver(v, h))
 			}
 		}
+		decided(voices, opt.OnFrame)
 		return errors.Join(errs...)
 	}
 	for {
@@ -200,9 +206,6 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 				}
 				prev := v.last
 				fr.hz[i], fr.steady[i] = heard.Hz, v.steady(heard.Hz)
-				if opt.OnFrame != nil {
-					opt.OnFrame(i, heard)
-				}
 				if err := v.push(e, blanked, prev, deliver); err != nil {
 					return err
 				}
@@ -213,6 +216,7 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 			if fresh {
 				bleed.observe(owner, fr)
 			}
+			decided(voices, opt.OnFrame)
 		}
 		if rerr != nil {
 			ferr := finish()
