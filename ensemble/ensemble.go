@@ -211,7 +211,7 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 				}
 			}
 			for i, v := range voices {
-				recent[i] = v.heard(fr.hz[i])
+				recent[i] = v.recentPitch(fr.hz[i])
 			}
 			if fresh {
 				bleed.observe(owner, fr)

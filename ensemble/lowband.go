@@ -176,9 +176,9 @@ func ownSound(i int, levels []float64) bool {
 	return levels[i] > loudest-quietDB
 }
 
-// heard notes the pitch the player's frame was heard at (0: none) and
+// recentPitch notes the pitch the player's frame was heard at (0: none) and
 // returns their latest pitch heard within a window of frames (0: none).
-func (v *voice) heard(hz float64) float64 {
+func (v *voice) recentPitch(hz float64) float64 {
 	if hz > 0 {
 		v.recent, v.age = hz, 0
 	} else if v.age++; v.age >= steadyFrames {
