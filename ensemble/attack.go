@@ -93,6 +93,7 @@ func (v *voice) release(deliver func(*voice, pitchdetect.Held) error) error {
 }
 
 func (v *voice) feed1(e pitchdetect.Estimate, deliver func(*voice, pitchdetect.Held) error) error {
+	v.decided = append(v.decided, e)
 	if h, done := v.seg.Push(e); done {
 		return deliver(v, h)
 	}
@@ -121,4 +122,27 @@ func sameNote(hz, pitch float64) bool {
 func unvoiced(e pitchdetect.Estimate) pitchdetect.Estimate {
 	e.Voiced, e.Hz, e.Confidence = false, 0, 0
 	return e
+}
+
+// decided hands onFrame (if set) every moment whose frames all players'
+// segmenters have had, oldest first, each in player order, and forgets
+// them: a frame held back is seen as it was finally read.
+func decided(voices []*voice, onFrame func(int, pitchdetect.Estimate)) {
+	n := len(voices[0].decided)
+	for _, v := range voices {
+		n = min(n, len(v.decided))
+	}
+	if n == 0 {
+		return
+	}
+	for k := range n {
+		for i, v := range voices {
+			if onFrame != nil {
+				onFrame(i, v.decided[k])
+			}
+		}
+	}
+	for _, v := range voices {
+		v.decided = append(v.decided[:0], v.decided[n:]...)
+	}
 }

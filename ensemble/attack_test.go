@@ -138,3 +138,50 @@ func TestFramesGivenAwayToOthersStayAway(t *testing.T) {
 		t.Errorf("held on after a unison partner: read %+v; own frames alone %+v", got, want)
 	}
 }
+
+// What OnFrame is handed is what the notes are read from: a violin
+// entering in unison, its first two frames given away and taken back, is
+// seen with its pitch from its first frame, as alone. Its moments wait
+// while those frames are held, so every player's frame of a moment still
+// comes before the next moment's, in player order.
+func TestFramesTakenBackAreSeenWithTheirPitch(t *testing.T) {
+	tracks := [][]pitchdetect.Estimate{frames(nil, 60, g5), frames(nil, 60, g4)}
+	blanked := []map[int]bool{{20: true, 21: true}, nil}
+	voices := []*voice{{seg: pitchdetect.NewSegmenter(512 / rate)}, {seg: pitchdetect.NewSegmenter(512 / rate)}}
+	deliver := func(*voice, pitchdetect.Held) error { return nil }
+	var seen [2][]pitchdetect.Estimate
+	var order []int
+	onFrame := func(i int, e pitchdetect.Estimate) {
+		seen[i] = append(seen[i], e)
+		order = append(order, i)
+	}
+	for k := range tracks[0] {
+		for i, v := range voices {
+			prev := v.last
+			v.steady(tracks[i][k].Hz)
+			if err := v.push(tracks[i][k], blanked[i][k], prev, deliver); err != nil {
+				t.Fatal(err)
+			}
+		}
+		decided(voices, onFrame)
+	}
+	for _, v := range voices {
+		v.release(deliver)
+	}
+	decided(voices, onFrame)
+	for i, track := range tracks {
+		if len(seen[i]) != len(track) {
+			t.Fatalf("player %d: %d frames seen, %d read", i, len(seen[i]), len(track))
+		}
+		for k, e := range seen[i] {
+			if e != track[k] {
+				t.Errorf("player %d, frame %d: seen %+v, read alone %+v", i, k, e, track[k])
+			}
+		}
+	}
+	for k, i := range order {
+		if i != k%2 {
+			t.Fatalf("frame %d of the stream is player %d's: not every moment in player order", k, i)
+		}
+	}
+}

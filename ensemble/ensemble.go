@@ -34,8 +34,12 @@ type Options struct {
 	OwnDB       float64
 	Bleed       *Bleed // nil: learn afresh
 	OnNote      func(Note) error
-	// OnFrame, if set, sees every player's frame as read: unvoiced where
-	// the pitch was another player's bleed. Index i is Players[i].
+	// OnFrame, if set, sees every player's frame as their notes are read
+	// from it: unvoiced where the pitch was another player's bleed. Index i
+	// is Players[i]; every player's frame of a moment comes, in player
+	// order, before the next moment's. A moment waits while a player's
+	// frame in it is held back (attack.go: up to attackFrames hops), so a
+	// frame taken back is seen with its pitch.
 	OnFrame func(i int, e pitchdetect.Estimate)
 }
 
@@ -51,8 +55,15 @@ type voice struct {
 	last    float64                // the previous frame's pitch, 0 when unvoiced
 	same    int                    // frames in a row at that pitch (or silent)
 	held    []pitchdetect.Estimate // frames given away as bleed, held back (attack.go)
+	decided []pitchdetect.Estimate // frames the segmenter has, not yet handed to OnFrame
 	note    float64                // the pitch of the note the held frames began in; 0: at an onset
 	spilled bool                   // held frames were given away for want of room
+	low     *lowBand               // the channel below the neighbours' partials (lowband.go)
+	cur     pitchdetect.Estimate   // this frame as read
+	cut     float64                // where cur was read below (Hz), 0: read whole
+	lowRead bool                   // the last frame was the player's, read from low
+	recent  float64                // the player's latest pitch heard within a window, 0: none
+	age     int                    // frames since it was heard
 }
 
 // ownEvery: the channels' spectra for the ownership test and the bleed
@@ -101,8 +112,12 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 		if err != nil {
 			return err
 		}
+		low, err := newLowBand(det)
+		if err != nil {
+			return err
+		}
 		voices[i] = &voice{Player: p, det: det, seg: pitchdetect.NewSegmenter(float64(det.Hop()) / src.SampleRate()),
-			ring: make([]float64, det.Window()), clean: make([]float32, det.Hop())}
+			ring: make([]float64, det.Window()), clean: make([]float32, det.Hop()), low: low}
 	}
 	hop := voices[0].det.Hop()
 	owner := NewOwner(src.SampleRate(), voices[0].det.Window(), len(voices))
@@ -114,6 +129,7 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 		cleaned[i] = v.clean
 	}
 	fr := newFrameReadings(len(voices))
+	recent := make([]float64, len(voices))
 	frame := 0
 	blocks, view := make([][]float32, src.Channels()), make([][]float32, src.Channels())
 	for c := range blocks {
@@ -134,6 +150,7 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 				errs = append(errs, deliver(v, h))
 			}
 		}
+		decided(voices, opt.OnFrame)
 		return errors.Join(errs...)
 	}
 	for {
@@ -168,31 +185,38 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 				fresh = true
 			}
 			for i, v := range voices {
-				fr.read[i], fr.level[i] = v.est[j].Hz, v.est[j].Level
+				fr.level[i] = v.est[j].Level
 			}
 			for i, v := range voices {
-				e := v.est[j]
-				// A period shared with bleed not yet weighed is the note above (phantom.go).
-				if k := owner.phantom(i, e.Hz, fr.read, func(d int) bool { return !bleed.weighed(i, d) }); k > 1 {
+				v.cur, v.cut = v.entry(v.est[j], i, fr.level, recent, func(d int) bool { return !bleed.weighed(i, d) })
+				fr.read[i] = v.cur.Hz
+			}
+			for i, v := range voices {
+				e := v.cur
+				// A period shared with bleed not yet weighed is the note above
+				// (phantom.go); below the neighbours' partials none is shared.
+				if k := owner.phantom(i, e.Hz, fr.read, func(d int) bool { return !bleed.weighed(i, d) }); k > 1 && v.cut == 0 {
 					e.Hz *= float64(k)
 				}
-				blanked := e.Voiced && owner.Bleed(i, e.Hz, fr.read, ownDB)
+				blanked := e.Voiced && owner.bleedOf(i, e.Hz, v.cut, fr.read, ownDB)
+				v.lowRead = v.cut > 0 && !blanked
 				heard := e
 				if blanked {
 					heard = unvoiced(e)
 				}
 				prev := v.last
 				fr.hz[i], fr.steady[i] = heard.Hz, v.steady(heard.Hz)
-				if opt.OnFrame != nil {
-					opt.OnFrame(i, heard)
-				}
 				if err := v.push(e, blanked, prev, deliver); err != nil {
 					return err
 				}
 			}
+			for i, v := range voices {
+				recent[i] = v.recentPitch(fr.hz[i])
+			}
 			if fresh {
 				bleed.observe(owner, fr)
 			}
+			decided(voices, opt.OnFrame)
 		}
 		if rerr != nil {
 			ferr := finish()
@@ -218,6 +242,7 @@ func anyVoiced(voices []*voice, j int) bool {
 // ownership test and the bleed estimate.
 func (v *voice) feed(heard, cleaned []float32) {
 	v.est = v.det.Feed(cleaned, v.est[:0])
+	v.low.add(cleaned)
 	for _, s := range heard {
 		v.ring[v.w] = float64(s)
 		v.w++

@@ -101,7 +101,28 @@ func sqr(x float64) float64 { return x * x }
 // out those on the partials of the others' own pitches this frame
 // (pitches, by channel; see sharedHarmonics).
 func (o *Owner) Bleed(c int, hz float64, pitches []float64, ownDB float64) bool {
-	skip := sharedHarmonics(c, hz, pitches, o.fs/float64(len(o.win)))
+	return o.louderElsewhere(c, hz, sharedHarmonics(c, hz, pitches, o.fs/float64(len(o.win))), ownDB)
+}
+
+// bleedOf is Bleed for a pitch read below cut Hz (lowband.go; 0: read
+// whole): only its harmonics below cut are weighed, the band where no
+// neighbour has a partial.
+func (o *Owner) bleedOf(c int, hz, cut float64, pitches []float64, ownDB float64) bool {
+	if cut == 0 {
+		return o.Bleed(c, hz, pitches, ownDB)
+	}
+	var skip uint16
+	for k := 1; k <= ownHarmonics; k++ {
+		if float64(k)*hz >= cut {
+			skip |= 1 << (k - 1)
+		}
+	}
+	return o.louderElsewhere(c, hz, skip, ownDB)
+}
+
+// louderElsewhere tells whether the harmonics of hz, less those marked in
+// skip, sound more than ownDB louder on another channel than on c.
+func (o *Owner) louderElsewhere(c int, hz float64, skip uint16, ownDB float64) bool {
 	mine := o.power(c, hz, skip)
 	limit := mine * math.Pow(10, ownDB/10)
 	for d := range o.spec {

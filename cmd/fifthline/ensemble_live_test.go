@@ -17,10 +17,13 @@ import (
 // the wind tests do: every note heard once, by its player, spelled and
 // within the take's cents of its part read alone (1.5 ¢ for these
 // vibrato parts, the ensemble issue's figure), resting players silent.
-// The harder choir is not held to it: its bass's first F2 enters under
-// the F major chord's bleed on its own harmonics, the detector hears no
-// pitch in it until the bleed is learned, and the note read from later
-// on is 1.9 ¢ from the part alone.
+// The harder choir is not held to it. Its bass's first F2, entering under
+// the F major chord's bleed before it is learned, is read from the band
+// below the tenor (ensemble/lowband.go: 0.25 ¢ from the part alone, was
+// 1.9 ¢); but its tenor's first C4 reads 1.6 ¢ low: alone, the C4's
+// attack 30 ¢ sharp is counted in its reading, since one frame after it
+// steps up 0.9 ¢ and the segmenter then sees no glide; with the alto's
+// bleed that frame reads no pitch, the glide is found and left out.
 var liveFirstTakes = []string{"strings", "choir", "strings-harder"}
 
 // takeNamed is the rendered take of that name.
