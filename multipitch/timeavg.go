@@ -108,8 +108,8 @@ var subCaps = []int{3, 6, 12, 0, 0}
 // sharedCaps: a voice steered by partials beside a lower voice's moves less
 // per step (the other partial's column takes part of each), so it is given
 // more: measured, subCaps' five steps leave the rendered quartet's D5
-// 2.1 ¢ flat and the synthetic one 3.9 ¢ (TestVibratoReadOverALowerVoicesPartials),
-// these eight 0.9 and 3.1 ¢.
+// 2.1 ¢ flat and the synthetic one 2.5 ¢
+// (TestVibratoReadOverALowerVoicesPartials), these eight 0.9 and 2.2 ¢.
 var sharedCaps = []int{3, 3, 3, 6, 6, 12, 0, 0}
 
 // average replaces each voice's Hz by the mean of its readings on the
