@@ -35,6 +35,10 @@
 // frame pitch is the plain mean of those readings (timeavg.go): one long
 // fit weighs a vibrato by loudness, and an instrument loudest at the low
 // end of its cycle would read flat of the time average other readers give.
+// A voice lying on a lower voice's harmonic, every partial of it shared, is
+// steered there by the partials it owns the larger part of, as the long
+// window's fit and the lower voice's spectral envelope both judge them
+// (collide.go).
 //
 // A voice whose partials explain nothing the others do not (an octave
 // above another voice, a subharmonic guess, a guess on noise) is dropped,

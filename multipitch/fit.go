@@ -45,6 +45,12 @@ type fitter struct {
 	// does not steer the fundamentals (timeavg.go); steer says which
 	// voices kept a partial that does, in the last build.
 	apart float64
+	// loose (per voice; nil: none): a voice steered by the partials it owns
+	// the larger part of even where they lie near a lower voice's
+	// (collide.go), judged from the long window's fit (long: per voice,
+	// per partial).
+	loose []bool
+	long  [][]complex128
 	steer []bool
 	spec  []complex128 // the frame's spectrum, bins 0..n/2
 
@@ -77,6 +83,7 @@ func (f *fitter) build(f0 []float64, kcap int, skip int) {
 	f.steer = f.steer[:0]
 	for v, hz := range f0 {
 		f.steer = append(f.steer, false)
+		loose := v < len(f.loose) && f.loose[v]
 		under := f.judged >= 0 && f.judged != v && OctaveAbove(f0[f.judged], hz)
 		for k := 1; k <= min(kcap, f.maxK); k++ {
 			pos := float64(k) * hz / f.binHz
@@ -95,7 +102,7 @@ func (f *fitter) build(f0 []float64, kcap int, skip int) {
 					f.used = append(f.used, b)
 				}
 			}
-			if f.apart > 0 && f.coincides(f0, v, float64(k)*hz) {
+			if f.apart > 0 && f.collides(f0, v, k, !loose) {
 				c.dw = [2*support + 1]float64{}
 			} else {
 				f.steer[v] = true
@@ -161,21 +168,6 @@ const octaveCents = 35.0
 // voice lies on the even partials of the one below: from one channel, an
 // octave doubling and a lower voice's moving even partials are one.
 func OctaveAbove(hz, lo float64) bool { return math.Abs(cents(hz, 2*lo)) < octaveCents }
-
-// coincides reports whether a partial of voice v at hz lies within apart
-// bins of a partial of another voice in f0.
-func (f *fitter) coincides(f0 []float64, v int, hz float64) bool {
-	for u, g := range f0 {
-		if u == v {
-			continue
-		}
-		k := math.Max(1, math.Round(hz/g))
-		if math.Abs(hz-k*g) < f.apart*f.binHz {
-			return true
-		}
-	}
-	return false
-}
 
 // steers reports whether voice v kept a partial that steers its
 // fundamental in the last build.

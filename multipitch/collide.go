@@ -1,0 +1,102 @@
+package multipitch
+
+import "math"
+
+// Partials of two voices that lie within a short window's main lobe of
+// each other (timeavg.go): which of them steer a sub-window fit.
+
+// collides reports whether partial k of voice v lies within apart bins of
+// a partial of another voice in f0: any other voice's, or (not any) a
+// lower voice's where v does not own the larger part of the power there
+// (split). Only lower voices count then: a voice above one that lies on a
+// lower voice's harmonic lies on the middle one's own harmonics in turn
+// (the octave and twelfth a vibrato's partials pass for), and there the
+// middle one's claim stands.
+func (f *fitter) collides(f0 []float64, v, k int, any bool) bool {
+	if !any {
+		own, other, near := f.split(f0, v, k)
+		return near && own < other
+	}
+	hz := float64(k) * f0[v]
+	for u, g := range f0 {
+		if u != v && math.Abs(hz-math.Max(1, math.Round(hz/g))*g) < f.apart*f.binHz {
+			return true
+		}
+	}
+	return false
+}
+
+// split divides the long window's power at partial k of voice v between v
+// and the lower voices with a partial within apart bins of it (near: any
+// has). Two estimates of the division must agree that v has the larger
+// part. The long fit's own amplitudes: where they give the lower voices
+// more, v owns nothing there; but for partials a bin or less apart, nearly
+// one column to that fit, they can swing far apart with opposite phases,
+// so v's part is then the pair's summed power less what the lower voices'
+// spectral envelopes predict there, the mean power of each one's
+// neighbouring partials (Klapuri 2003's spectral smoothness; a formant, a
+// bassoon's strong 6th partial, defeats that estimate alone).
+func (f *fitter) split(f0 []float64, v, k int) (own, other float64, near bool) {
+	hz := float64(k) * f0[v]
+	sum, theirs := f.longAmp(v, k), 0.0
+	for u, g := range f0 {
+		j := int(math.Max(1, math.Round(hz/g)))
+		if u == v || g > f0[v] || math.Abs(hz-float64(j)*g) >= f.apart*f.binHz {
+			continue
+		}
+		near = true
+		sum += f.longAmp(u, j)
+		theirs += power(f.longAmp(u, j))
+		other += (power(f.longAmp(u, j-1)) + power(f.longAmp(u, j+1))) / 2
+	}
+	if !near {
+		return power(sum), 0, false
+	}
+	if theirs > power(f.longAmp(v, k)) {
+		return 0, other, true
+	}
+	return math.Max(0, power(sum)-other), other, true
+}
+
+// longAmp is partial k of voice v in the long window's fit (0: not fitted).
+func (f *fitter) longAmp(v, k int) complex128 {
+	if v >= len(f.long) || k < 1 || k >= len(f.long[v]) {
+		return 0
+	}
+	return f.long[v][k]
+}
+
+func power(a complex128) float64 { return real(a)*real(a) + imag(a)*imag(a) }
+
+// onHarmonic reports whether voice v lies so near a harmonic of a lower
+// voice that each of its partials (of those build fits) lies within apart
+// bins of one of that voice's: a violin's D5 over a cello's G2.
+func (f *fitter) onHarmonic(f0 []float64, v int) bool {
+	hz, top := f0[v], 0.0
+	for k := 1.0; k*hz <= f.ceilHz && k*hz/f.binHz+support < float64(len(f.spec)-1) && k <= float64(f.maxK); k++ {
+		top = k
+	}
+	for _, g := range f0 {
+		if m := math.Round(hz / g); g < hz && top*math.Abs(hz-m*g) < f.apart*f.binHz {
+			return true
+		}
+	}
+	return false
+}
+
+// ownShare is the share of voice v's own power (split) held by the
+// partials that steer it loosely (those where it owns the larger part).
+func (f *fitter) ownShare(f0 []float64, v int) float64 {
+	if v >= len(f.long) {
+		return 0
+	}
+	steer, all := 0.0, 0.0
+	for k := 1; k < len(f.long[v]); k++ {
+		own, other, _ := f.split(f0, v, k)
+		all += own
+		if own >= other {
+			steer += own
+		}
+	}
+	return steer / math.Max(all, 1e-300)
+}
