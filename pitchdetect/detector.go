@@ -282,7 +282,11 @@ func (d *Detector) read(e *Estimate, period, clarity float64, tracking bool) boo
 	}
 	// A frame the comb leaves unvoiced is read again where its partials
 	// agree most, their strays counted while a note holds (see stray.go).
-	return d.judge(e, c, d.fitComb(d.consensus(c.f, tol), tol, lobe, d.holding))
+	// Again only a series counts (as the reseed's, above).
+	if re := d.fitComb(d.consensus(c.f, tol), tol, lobe, d.holding); re.partials >= 3 {
+		return d.judge(e, c, re)
+	}
+	return false
 }
 
 // cue is what a frame's reading is judged by besides its comb.
