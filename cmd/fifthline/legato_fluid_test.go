@@ -361,13 +361,10 @@ func TestAnalyzeHearsEveryNoteOfQuickLegatoRuns(t *testing.T) {
 
 // The same runs played live, one after another, into a private virtual
 // microphone (PulseAudio null sink, PortAudio capture) and heard by
-// `listen --plain`: together they must be heard note for note. Live, a
-// run's sixteenths start at any phase of the detector's hop; the violin's
-// high sixteenths are heard at all eight (offline:
-// TestAnalyzeHearsTheViolinsHighRunAtEveryHopPhase). All but the violin's
-// high eighths: live, its A5, which glides up 27 ¢ into its vibrato, read
-// 2.01 ¢ above the 90th percentile of its sound (measured once; offline at
-// most 1.0 ¢ at every phase), the held note weighing the end of the glide.
+// `listen --plain`: together they must be heard note for note, at whatever
+// phase of the hop (offline: TestAnalyzeHearsTheViolinsHighRunAtEveryHopPhase).
+// All but the violin's high eighths: live, its A5, gliding up 27 ¢, read
+// 2.01 ¢ above its sound's 90th percentile (once; offline ≤ 1.0 ¢).
 func TestListenHearsEveryNoteOfQuickLegatoRuns(t *testing.T) {
 	t.Parallel()
 	_, env, play := privateMic(t)
