@@ -76,6 +76,7 @@ type Detector struct {
 	haveB  bool // specB holds the previous frame's B spectrum
 
 	prevHz    float64 // last frame's pitch, 0 if unvoiced
+	holding   bool    // a note held at the last frame
 	sinceNSDF int     // hops since the NSDF last ran
 	clarity   float64 // its clarity then
 	nsdfFresh bool    // nsdfOut belongs to this frame
@@ -205,111 +206,140 @@ func (d *Detector) frame() Estimate {
 	// refreshed only every few hops; it always runs after an unvoiced
 	// frame and for low notes, whose final estimate it is.
 	tracking := d.prevHz >= resolvedBins*d.binHz && d.sinceNSDF < nsdfEvery
-	var period, clarity float64
+	d.holding = d.prevHz > 0
 	if tracking {
-		period, clarity = d.fs/d.prevHz, d.clarity
 		d.sinceNSDF++
 		d.nsdfFresh = false
-	} else {
-		var ok bool
-		period, clarity, ok = pickPeriod(d.nsdf(frameB), d.minLag)
-		d.sinceNSDF, d.clarity, d.nsdfFresh = 0, clarity, true
-		if !ok || clarity < minClarity/2 {
-			e.Confidence = math.Max(clarity, 0)
-			d.haveB, d.prevHz = false, 0
+		d.spectra(frameA, frameB)
+		if d.read(&e, d.fs/d.prevHz, d.clarity, true) {
 			return e
 		}
+		// The last pitch only saves the NSDF's time: a frame it leaves
+		// unvoiced is read again from its own NSDF. (A quick note's
+		// attack moves faster than tracking allows: FluidR3 violin C♯6
+		// slurred from B5, measured.)
 	}
-	if d.haveB && d.hop == d.lag {
-		// This frame's A is the previous frame's B: reuse its spectrum.
-		d.specA, d.specB = d.specB, d.specA
-	} else {
-		d.spectrum(frameA, d.specA)
+	period, clarity, ok := pickPeriod(d.nsdf(frameB), d.minLag)
+	d.sinceNSDF, d.clarity, d.nsdfFresh = 0, clarity, true
+	if !ok || clarity < minClarity/2 {
+		e.Confidence = math.Max(clarity, 0)
+		d.haveB, d.prevHz = false, 0
+		return e
 	}
-	d.spectrum(frameB, d.specB)
-	d.haveB = true
-	d.powerSpectrum()
+	if !tracking {
+		d.spectra(frameA, frameB)
+	}
+	d.read(&e, period, clarity, false)
+	return e
+}
 
-	f, period := d.guard(period)
-	lagCents := centsPerUnit * 0.15 / period // parabolic-lag resolution
+// read reads the frame's pitch from a coarse period (the NSDF's, or while
+// tracking the last pitch's) into e, and reports whether it is voiced.
+func (d *Detector) read(e *Estimate, period, clarity float64, tracking bool) bool {
+	c := cue{clarity: clarity, needClarity: minClarity, needShare: minShare}
+	c.f, c.period = d.guard(period)
+	c.lagCents = centsPerUnit * 0.15 / c.period // parabolic-lag resolution
 	if tracking {
 		// The seed is the last fine estimate; allow for the pitch moving
 		// between hops (a 25 ¢ vibrato at 6.5 Hz moves 6 ¢ a hop).
-		lagCents = trackCents
+		c.lagCents = trackCents
 	}
-	needClarity, needShare := minClarity, minShare
-	onset := false
-	var ft fit
-	if f >= resolvedBins*d.binHz {
-		tol, lobe := coarseCents+lagCents, mainLobeBins
-		if onset = d.onsetInSpan(); onset {
-			// A note starting inside the span truncates the two frames
-			// at different places under their windows, which bends each
-			// partial's phase advance, and fills only part of the
-			// window, which widens its peaks: accept a rougher comb for
-			// the first readings (the segmenter leaves them out of the
-			// steady part).
-			tol, lobe = onsetCents, max(mainLobeBins, int(f/(2*d.binHz)))
-			needShare = onsetShare
-		}
-		ft = d.fitComb(f, tol, lobe)
-		if ft.share < needShare && tracking {
-			// The last frame's pitch lags a pitch that moved (see
-			// sweep.go). Only while tracking a note: at a note's start the
-			// strongest partial may be another's (a choir's bass entering
-			// under the other parts' bleed began 0.13 s late). The new
-			// comb must find a series (three partials): a lone sine's
-			// peak in a slur lies between its two notes.
-			if g := d.strongestPartial(f, tol); g > 0 {
-				if re := d.fitComb(g, tol, lobe); re.share > ft.share && re.partials >= 3 {
-					ft = re
-				}
-			}
-		}
-	} else {
+	if c.resolved = c.f >= resolvedBins*d.binHz; !c.resolved {
 		// Partials closer than the window resolves: the comb fit would
 		// follow leakage, while the long period makes the NSDF lag
 		// precise. The comb (accepting every peak) only gives the share.
-		needClarity = minClarityLow
-		ft = d.fitComb(f, math.Inf(1), mainLobeBins)
-		ft.hz, ft.residual = d.fs/period, 0
+		c.needClarity = minClarityLow
+		ft := d.fitComb(c.f, math.Inf(1), mainLobeBins, false)
+		ft.hz, ft.residual = d.fs/c.period, 0
+		return d.judge(e, c, ft)
 	}
-	// A tone's comb fit lands within the NSDF's lag resolution of the coarse
-	// pick; narrow-band noise drifts between the two analyses.
-	tol := agreeCents + lagCents
-	hz := ft.hz
-	apart := math.Abs(1200 * math.Log2(ft.hz*period/d.fs))
-	if apart > tol && !onset && f >= resolvedBins*d.binHz && ft.partials > 0 {
-		// A pitch moving within the span (see sweep.go).
-		if c, ok := d.centreApart(ft.hz); ok {
-			apart = min(apart, c)
+	tol, lobe := coarseCents+c.lagCents, mainLobeBins
+	if c.onset = d.onsetInSpan(); c.onset {
+		// A note starting inside the span truncates the two frames at
+		// different places under their windows, which bends each
+		// partial's phase advance, and fills only part of the window,
+		// which widens its peaks: accept a rougher comb for the first
+		// readings (the segmenter leaves them out of the steady part).
+		tol, lobe = onsetCents, max(mainLobeBins, int(c.f/(2*d.binHz)))
+		c.needShare = onsetShare
+	}
+	ft := d.fitComb(c.f, tol, lobe, false)
+	if ft.share < c.needShare && tracking {
+		// The last frame's pitch lags a pitch that moved (see sweep.go).
+		// Only while tracking a note: at a note's start the strongest
+		// partial may be another's (a choir's bass entering under the
+		// other parts' bleed began 0.13 s late). The new comb must find a
+		// series (three partials): a lone sine's peak in a slur lies
+		// between its two notes.
+		if g := d.strongestPartial(c.f, tol); g > 0 {
+			if re := d.fitComb(g, tol, lobe, false); re.share > ft.share && re.partials >= 3 {
+				ft = re
+			}
 		}
 	}
-	if onset && (apart > tol || lagCents < coarseCents) {
+	if d.judge(e, c, ft) || c.onset {
+		return e.Voiced
+	}
+	// A frame the comb leaves unvoiced is read again where its partials
+	// agree most, their strays counted while a note holds (see stray.go).
+	// Again only a series counts (as the reseed's, above).
+	if re := d.fitComb(d.consensus(c.f, tol), tol, lobe, d.holding); re.partials >= 3 {
+		return d.judge(e, c, re)
+	}
+	return false
+}
+
+// cue is what a frame's reading is judged by besides its comb.
+type cue struct {
+	f, period, clarity float64 // the coarse stage's
+	lagCents           float64 // how far the coarse period may be off
+	needClarity        float64
+	needShare          float64
+	onset, resolved    bool
+}
+
+// judge sets e from the comb fit ft, voiced if ft and the coarse stage agree
+// on a pitch clearly enough, and reports whether it is.
+func (d *Detector) judge(e *Estimate, c cue, ft fit) bool {
+	// A tone's comb fit lands within the NSDF's lag resolution of the coarse
+	// pick; narrow-band noise drifts between the two analyses.
+	tol := agreeCents + c.lagCents
+	hz := ft.hz
+	apart := math.Abs(1200 * math.Log2(ft.hz*c.period/d.fs))
+	if apart > tol && !c.onset && c.resolved && ft.partials > 0 {
+		// A pitch moving within the span (see sweep.go).
+		if cents, ok := d.centreApart(ft.hz); ok {
+			apart = min(apart, cents)
+		}
+		// The NSDF weighs the stray partials the fit leaves out.
+		apart = min(apart, math.Abs(1200*math.Log2(ft.blend*c.period/d.fs)))
+	}
+	if c.onset && (apart > tol || c.lagCents < coarseCents) {
 		// The truncated frames bend the comb (by up to its onset search);
 		// the NSDF's interpolated lag is the better first reading unless
 		// its resolution is coarser still (very high notes).
-		hz, tol = d.fs/period, onsetCents+lagCents
+		hz, tol = d.fs/c.period, onsetCents+c.lagCents
 	}
 	dis := apart / tol
-	conf := clarity / (1 + dis*dis)
-	if !onset {
+	conf := c.clarity / (1 + dis*dis)
+	if !c.onset {
 		scale := residualScale
-		if hz*sweptCents/centsPerUnit > d.binHz {
+		if d.swept(hz) {
 			scale = residualSwept
 		}
 		r := ft.residual / scale
 		conf *= math.Sqrt(ft.share) / (1 + r*r)
 	}
 	e.Confidence = math.Max(0, math.Min(conf, 1))
-	d.last = analysis{clarity: clarity, fit: ft, disagree: dis, coarseHz: f}
+	e.Hz, e.Voiced = 0, false
+	d.last = analysis{clarity: c.clarity, fit: ft, disagree: dis, coarseHz: c.f}
 	d.prevHz = 0
-	if hz >= d.minHz && hz <= d.maxHz && clarity >= needClarity && ft.share >= needShare &&
+	if hz >= d.minHz && hz <= d.maxHz && c.clarity >= c.needClarity && ft.share >= c.needShare &&
 		e.Confidence >= minConfidence && ft.partials > 0 && dis < 1.5 {
 		e.Hz, e.Voiced = hz, true
 		d.prevHz = hz
 	}
-	return e
+	return e.Voiced
 }
 
 // levelDB is the RMS of x in dB relative to full scale 1.0.
@@ -319,61 +349,6 @@ func (d *Detector) levelDB(x []float64) float64 {
 		ss += v * v
 	}
 	return 10 * math.Log10(ss/float64(len(x))+1e-30)
-}
-
-// spectrum windows x and transforms it into dst.
-func (d *Detector) spectrum(x []float64, dst []complex128) {
-	for i, v := range x {
-		d.wx[i] = v * d.win[i]
-	}
-	d.fftWin.Coefficients(dst, d.wx)
-}
-
-// powerSpectrum fills d.power from frame B and sets the partial floor.
-func (d *Detector) powerSpectrum() {
-	peak := 0.0
-	for i, z := range d.specB {
-		p := real(z)*real(z) + imag(z)*imag(z)
-		d.power[i] = p
-		if p > peak {
-			peak = p
-		}
-	}
-	d.peak = peak
-	copy(d.scratch, d.power)
-	d.floor = max(peak*math.Pow(10, floorDB/10), floorMedian*median(d.scratch))
-}
-
-// median returns the median of x, reordering x (Hoare's quickselect).
-func median(x []float64) float64 {
-	k := len(x) / 2
-	lo, hi := 0, len(x)-1
-	for lo < hi {
-		p := x[(lo+hi)/2]
-		i, j := lo, hi
-		for i <= j {
-			for x[i] < p {
-				i++
-			}
-			for x[j] > p {
-				j--
-			}
-			if i <= j {
-				x[i], x[j] = x[j], x[i]
-				i++
-				j--
-			}
-		}
-		switch {
-		case k <= j:
-			hi = j
-		case k >= i:
-			lo = i
-		default:
-			return x[k]
-		}
-	}
-	return x[k]
 }
 
 // onsetInSpan reports whether the span's oldest eighth is more than 20 dB

@@ -30,14 +30,19 @@ type fit struct {
 	residual float64 // power-weighted RMS deviation of partials from k·hz, cents
 	share    float64 // fraction of the spectrum's power within the comb's peaks
 	partials int     // partials used
+	// blend is the fundamental the partials say weighted as the NSDF
+	// weighs them (power times k², strays included; see stray.go).
+	blend float64
 }
 
 // fitComb fits the comb starting from f0, which is trusted to tolCents:
 // a partial whose phase-advance frequency strays further from its place on
 // the comb (a noise peak, a neighbour's leakage) is left out rather than
 // allowed to drag the comb. lobe is the half-width in bins of the spectral
-// peak counted into the comb's share.
-func (d *Detector) fitComb(f0, tolCents float64, lobe int) fit {
+// peak counted into the comb's share. strays counts the partials that
+// stray less than strayCents in the share and the blend (see stray.go),
+// below the fundamentals a vibrato sweeps across bins.
+func (d *Detector) fitComb(f0, tolCents float64, lobe int, strays bool) fit {
 	f := f0
 	prior := priorShare * d.peak
 	var swk2, swkf, sw float64
@@ -46,23 +51,18 @@ func (d *Detector) fitComb(f0, tolCents float64, lobe int) fit {
 	var swr, swr2 float64
 	comb := 0.0
 	used := 0
+	var bk2, bkf float64 // the blend's moments
+	strays = strays && !d.swept(f0)
 	for k := 1; k <= maxPartials; k++ {
 		pred := float64(k) * f
 		if pred >= d.ceilHz {
 			break
 		}
-		c := int(pred/d.binHz + 0.5)
-		reach := min(2, int(f/(3*d.binHz)))
-		b, pb := -1, 0.0
-		for j := max(c-reach, 1); j <= c+reach && j < len(d.power)-1; j++ {
-			pj := d.power[j]
-			if pj > pb && pj >= d.power[j-1] && pj >= d.power[j+1] {
-				b, pb = j, pj
-			}
-		}
-		if b < 0 || pb < d.floor {
+		b := d.peakAround(pred, min(2, int(f/(3*d.binHz))))
+		if b < 0 {
 			continue
 		}
+		pb := d.power[b]
 		if d.specA[b] == 0 {
 			// The older frame is digital silence (a note starting after
 			// it): no phase to measure the advance from. (Its angle
@@ -71,11 +71,18 @@ func (d *Detector) fitComb(f0, tolCents float64, lobe int) fit {
 			continue
 		}
 		fk := d.advanceHz(b, pred)
-		if math.Abs(fk-pred) > pred*tolCents/centsPerUnit {
-			continue
-		}
 		kk := float64(k)
 		w := pb
+		if off := math.Abs(fk - pred); off > pred*tolCents/centsPerUnit {
+			if strays && off <= pred*strayCents/centsPerUnit {
+				bk2 += w * kk * kk
+				bkf += w * kk * fk
+				comb += d.lobePower(b, lobe)
+			}
+			continue
+		}
+		bk2 += w * kk * kk
+		bkf += w * kk * fk
 		swk2 += w * kk * kk
 		swkf += w * kk * fk
 		sw += w
@@ -83,9 +90,7 @@ func (d *Detector) fitComb(f0, tolCents float64, lobe int) fit {
 		swr += w * r
 		swr2 += w * r * r
 		used++
-		for j := max(b-lobe, 1); j <= b+lobe && j < len(d.power); j++ {
-			comb += d.power[j]
-		}
+		comb += d.lobePower(b, lobe)
 		// Predict with the coarse estimate as a weak prior so that one
 		// weak, noisy partial cannot steer the comb; report without it.
 		f = (swkf + prior*f0) / (swk2 + prior)
@@ -94,7 +99,7 @@ func (d *Detector) fitComb(f0, tolCents float64, lobe int) fit {
 		f = swkf / swk2
 	}
 	if used == 0 || sw == 0 {
-		return fit{hz: f0}
+		return fit{hz: f0, blend: f0}
 	}
 	mean := swr / sw
 	// Spread of the per-partial fundamentals about their weighted mean,
@@ -113,7 +118,16 @@ func (d *Detector) fitComb(f0, tolCents float64, lobe int) fit {
 	if total > 0 {
 		share = math.Min(comb/total, 1)
 	}
-	return fit{hz: f, residual: res, share: share, partials: used}
+	return fit{hz: f, residual: res, share: share, partials: used, blend: bkf / bk2}
+}
+
+// lobePower is the power within lobe bins of bin b.
+func (d *Detector) lobePower(b, lobe int) float64 {
+	sum := 0.0
+	for j := max(b-lobe, 1); j <= b+lobe && j < len(d.power); j++ {
+		sum += d.power[j]
+	}
+	return sum
 }
 
 // advanceHz is the frequency of the partial at bin b from its phase advance

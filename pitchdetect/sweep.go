@@ -53,3 +53,8 @@ func (d *Detector) centreApart(hz float64) (cents float64, ok bool) {
 	d.nsdfFresh = false // nsdfOut no longer holds the span's
 	return math.Abs(1200 * math.Log2(hz*p/d.fs)), true
 }
+
+// swept reports whether a wide vibrato (sweptCents) sweeps a fundamental
+// of hz across more than a bin within the window (from about 810 Hz at
+// 48 kHz).
+func (d *Detector) swept(hz float64) bool { return hz*sweptCents/centsPerUnit > d.binHz }

@@ -56,15 +56,14 @@ func fluidViolin(t *testing.T, keys []int) ([]float32, string) {
 // (measured). Held 2 s, each key is one held note and no frame is read more
 // than 50 ¢ from it (ISO 16 and equal temperament: the key only names the
 // note) — a high note's fundamental, swept within the window, peaks up to
-// 50 ¢ from half its second partial, and was read an octave high. From G5
-// up, where the vibrato sweeps the fundamental across more than a bin, the
-// mean of the frames over the steady stretch (0.5–1.7 s) is within 3 ¢ of
-// aubio's yin (Debian aubio-tools) over the same stretch: the crests are
-// read. (Measured: C6–D6 split into 14 notes with octave-high frames, C♯6
-// read 3.4 ¢ low; now within 2.3 ¢. Below, B3 reads +3.7 ¢, F♯4 −4.3 and
-// G4 −4.2 as before, logged: their crest frames stay unvoiced, and the
-// residual allowance that voices them moves the string quartet's truth in
-// the voices test.)
+// 50 ¢ from half its second partial, and was read an octave high. The mean
+// of the frames over the steady stretch (0.5–1.7 s) is within 3 ¢ of
+// aubio's yin (Debian aubio-tools) over the same stretch, and nine in ten
+// of its frames are voiced: the crests are read. (Measured: C6–D6 once split into 14 notes with octave-high frames;
+// B3 read +3.7 ¢, F♯4 −4.3 and G4 −4.2 with their crest frames unvoiced
+// (B3 48 of 113 voiced),
+// where a partial strays from the series, see stray.go; now all within
+// 2.5 ¢.)
 func TestViolinVibratoReadThroughItsCrests(t *testing.T) {
 	keys := []int{55, 59, 66, 67, 79, 84, 85, 86}
 	x, wav := fluidViolin(t, keys)
@@ -73,8 +72,11 @@ func TestViolinVibratoReadThroughItsCrests(t *testing.T) {
 	for i, k := range keys {
 		et := 440 * math.Exp2(float64(k-69)/12)
 		on := 2.5 * float64(i)
-		sum, n, off := 0.0, 0, 0
+		sum, n, off, all := 0.0, 0, 0, 0
 		for _, e := range est {
+			if e.Time >= on+0.5 && e.Time <= on+1.7 {
+				all++
+			}
 			switch {
 			case e.Time < on+0.3 || e.Time > on+1.9 || !e.Voiced:
 			case math.Abs(testsignal.Cents(e.Hz, et)) > 50:
@@ -85,10 +87,10 @@ func TestViolinVibratoReadThroughItsCrests(t *testing.T) {
 			}
 		}
 		mean := testsignal.Cents(et*math.Exp2(sum/float64(max(n, 1))/1200), theirs[i])
-		if off > 0 || n == 0 || (k >= 79 && math.Abs(mean) > 3) {
-			t.Errorf("key %d: %d frames more than 50 ¢ off; mean of %d frames %+.2f ¢ from aubio's yin", k, off, n, mean)
+		if off > 0 || n < all*9/10 || math.Abs(mean) > 3 {
+			t.Errorf("key %d: %d frames more than 50 ¢ off; mean of %d of %d frames %+.2f ¢ from aubio's yin", k, off, n, all, mean)
 		} else {
-			t.Logf("key %d: mean of %d frames %+.2f ¢ from aubio's yin", k, n, mean)
+			t.Logf("key %d: mean of %d of %d frames %+.2f ¢ from aubio's yin", k, n, all, mean)
 		}
 	}
 	if notes := segment(est, 48000); len(notes) != len(keys) {
