@@ -64,6 +64,7 @@ type voice struct {
 	lowRead bool                   // the last frame was the player's, read from low
 	recent  float64                // the player's latest pitch heard within a window, 0: none
 	age     int                    // frames since it was heard
+	run     int                    // frames in a row the player has been heard
 }
 
 // ownEvery: the channels' spectra for the ownership test and the bleed
@@ -212,6 +213,9 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 			}
 			for i, v := range voices {
 				recent[i] = v.recentPitch(fr.hz[i])
+				if v.run++; fr.hz[i] == 0 {
+					v.run = 0
+				}
 			}
 			if fresh {
 				bleed.observe(owner, fr)

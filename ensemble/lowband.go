@@ -15,10 +15,12 @@ import (
 // player's, and the detector reads no pitch until the chord settles on the
 // player's harmonics: measured on a rendered choir (FluidR3 voice oohs),
 // the bass's first 0.2 s, which the part alone reads, so its note read
-// 1.9 ¢ from the part alone. Below the lowest neighbour's pitch no
-// neighbour has a partial, so there the channel holds the player's own
-// sound only: where the detector hears no pitch at an entry under
-// unweighed bleed, it reads that band instead (the channel low-passed
+// 1.9 ¢ from the part alone. (A detector that does voice such a frame
+// reads it at the chord's period: 20–40 ¢ off, measured on the test's
+// synthetic choir.) Below the lowest neighbour's pitch no neighbour has a
+// partial, so there the channel holds the player's own sound only: at an
+// entry under unweighed bleed, whatever the detector heard, the band is
+// read, and its pitch stands where it has one (the channel low-passed
 // below the lowest neighbour; the same bass then read 0.25 ¢ from alone).
 // Whose that pitch is, only the harmonics in the band can tell
 // (Owner.bleedOf).
@@ -141,15 +143,17 @@ func lowCutoff(i int, recent []float64, unweighed func(d int) bool) float64 {
 	return lowest / lowBelow
 }
 
-// entry is the player's frame e as read, or, where the detector heard no
-// pitch as the player enters (the previous frame was silent, another's,
-// or read from the band itself) with sound of the player's own on the
-// channel (levels, by player: no more than quietDB under the loudest
-// neighbour's), and a neighbour's bleed not weighed yet (recent: the
-// pitches heard within a window, by player), the band's reading and its
-// cutoff (0: e as read).
+// entry is the player's frame e as read, or, as the player enters (within
+// attackFrames of a frame that was silent or another's, or after a frame
+// read from the band itself) with a neighbour's bleed not weighed yet
+// (recent: the pitches heard within a window, by player), the band's
+// reading and its cutoff (0: e as read). A frame the detector left
+// unvoiced is read from the band only where the channel has sound of the
+// player's own (levels, by player: no more than quietDB under the loudest
+// neighbour's); one it voiced may be the chord's period (see above), and
+// any pitch below the neighbours is the player's.
 func (v *voice) entry(e pitchdetect.Estimate, i int, levels, recent []float64, unweighed func(d int) bool) (pitchdetect.Estimate, float64) {
-	if e.Voiced || v.last > 0 && !v.lowRead || !ownSound(i, levels) {
+	if v.run >= attackFrames && !v.lowRead || !e.Voiced && !ownSound(i, levels) {
 		return e, 0
 	}
 	cut := lowCutoff(i, recent, unweighed)
