@@ -1,5 +1,7 @@
 package pitchdetect
 
+import "math"
+
 // The octave and fifth guard. A period pick can land on a multiple or a
 // fraction of the true period when the fundamental is weak (bassoon, low
 // brass, cello C string), when even partials dominate, or when a strong
@@ -20,7 +22,16 @@ package pitchdetect
 
 // guardExtraRatio is the share of F's harmonic power that unexplained
 // partials of a lower candidate must reach before the pitch moves down.
-const guardExtraRatio = 0.05
+// guardHeldRatio is the same for F that is the pitch of the note held in
+// the last frame: a note does not fall to its own subharmonic, and a
+// neighbour's bleed left on a player's channel makes a few per cent (a
+// flute's A4 over the bassoon's and clarinet's D3 and D4 read D4 for
+// 5–9 % of unexplained power: FluidR3, one pass with bleed, measured),
+// while a note slurred to under it soon has more power than the old one.
+const (
+	guardExtraRatio = 0.05
+	guardHeldRatio  = 0.25
+)
 
 // guardOddRatio: below this share of even-partial power, odd partials count
 // as missing and the pitch moves an octave up.
@@ -125,7 +136,11 @@ func (d *Detector) guard(period float64) (float64, float64) {
 			if f/float64(c.q) >= resolved {
 				// Multiples of g that are also multiples of f are those
 				// with j·p/q integral, i.e. j % q == 0 (p, q coprime).
-				down = d.combPower(g, c.q) > guardExtraRatio*d.combPower(f, 0)
+				ratio := guardExtraRatio
+				if d.holding(f) {
+					ratio = guardHeldRatio
+				}
+				down = d.combPower(g, c.q) > ratio*d.combPower(f, 0)
 			} else {
 				nl := d.nsdfAt(lower)
 				down = nl > d.nsdfAt(period)+nsdfDownMargin && nl >= nsdfDownClarity
@@ -141,6 +156,12 @@ func (d *Detector) guard(period float64) (float64, float64) {
 		}
 	}
 	return f, period
+}
+
+// holding reports whether f is the pitch the last frame read, within the
+// segmenter's notion of one pitch (50 ¢).
+func (d *Detector) holding(f float64) bool {
+	return d.prevHz > 0 && math.Abs(centsPerUnit*math.Log(f/d.prevHz)) < 50
 }
 
 // missingOdd reports whether f's odd partials are absent while its even ones
