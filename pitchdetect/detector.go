@@ -75,10 +75,11 @@ type Detector struct {
 	specB  []complex128
 	haveB  bool // specB holds the previous frame's B spectrum
 
-	prevHz    float64 // last frame's pitch, 0 if unvoiced
-	sinceNSDF int     // hops since the NSDF last ran
-	clarity   float64 // its clarity then
-	nsdfFresh bool    // nsdfOut belongs to this frame
+	prevHz    float64  // last frame's pitch, 0 if unvoiced
+	held      heldNote // the note the last frames read (guard.go)
+	sinceNSDF int      // hops since the NSDF last ran
+	clarity   float64  // its clarity then
+	nsdfFresh bool     // nsdfOut belongs to this frame
 	power     []float64
 	scratch   []float64
 	fftPad    *rfft.FFT
@@ -151,7 +152,7 @@ func New(sampleRate float64, window, hop int) (*Detector, error) {
 func (d *Detector) Reset() {
 	clear(d.ring)
 	d.w, d.fed = 0, 0
-	d.haveB, d.prevHz = false, 0
+	d.haveB, d.prevHz, d.held = false, 0, heldNote{}
 	d.untilFrame = d.span
 }
 
@@ -197,7 +198,8 @@ func (d *Detector) frame() Estimate {
 	frameA, frameB := d.lin[:d.window], d.lin[d.lag:]
 	e.Level = d.levelDB(frameB)
 	if e.Level < silenceDBFS {
-		d.haveB, d.prevHz = false, 0
+		d.haveB = false
+		d.read(0)
 		return e
 	}
 
@@ -216,7 +218,8 @@ func (d *Detector) frame() Estimate {
 		d.sinceNSDF, d.clarity, d.nsdfFresh = 0, clarity, true
 		if !ok || clarity < minClarity/2 {
 			e.Confidence = math.Max(clarity, 0)
-			d.haveB, d.prevHz = false, 0
+			d.haveB = false
+			d.read(0)
 			return e
 		}
 	}
@@ -303,12 +306,11 @@ func (d *Detector) frame() Estimate {
 	}
 	e.Confidence = math.Max(0, math.Min(conf, 1))
 	d.last = analysis{clarity: clarity, fit: ft, disagree: dis, coarseHz: f}
-	d.prevHz = 0
 	if hz >= d.minHz && hz <= d.maxHz && clarity >= needClarity && ft.share >= needShare &&
 		e.Confidence >= minConfidence && ft.partials > 0 && dis < 1.5 {
 		e.Hz, e.Voiced = hz, true
-		d.prevHz = hz
 	}
+	d.read(e.Hz)
 	return e
 }
 

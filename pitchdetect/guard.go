@@ -41,10 +41,18 @@ const guardOddRatio = 0.01
 // guardStray: partials off the series of 2F or 3F below this share are the
 // other note of a slur, not F's own; guardSweepCents: how far from F its
 // own partial may peak (see own).
+//
+// guardHeldStray is guardStray for the note held in the last frame: the
+// frames of a slur hold the old note fading as the new one sounds, but a
+// held note's own partials stay. FluidR3's bassoon D3, a few frames after
+// its attack, has its fundamental at 0.1 % of its power, 3F and 6F at
+// 81 %, 2F and 4F at 17 % (measured), and was read as the D4 and A4 of a
+// slur for 0.2 s.
 const (
 	guardSweepCents = 50.0
 	guardAbsent     = 1e-3
 	guardStray      = 0.25
+	guardHeldStray  = 0.05
 	guardMaxK       = 9 // a whole tone's notes repeat together at 1/8 and 1/9 of them
 )
 
@@ -114,13 +122,19 @@ const (
 func (d *Detector) guard(period float64) (float64, float64) {
 	f := d.fs / period
 	resolved := resolvedBins * d.binHz
+	if k := d.harmonicOfHeld(f); k > 1 && d.held.hz >= resolved &&
+		d.combPower(d.held.hz, k) > guardExtraRatio*d.combPower(f, 0) {
+		// The comb is seeded where the note was, as while tracking it:
+		// a partial of a note still settling need not lie at k·F.
+		f, period = d.held.hz, d.refineLag(d.fs/d.held.hz)
+	}
 	for range 3 { // a few moves at most: F/4 is two octave moves
 		moved := false
 		k := 1
 		if 2*f <= d.maxHz && d.missingOdd(f, period, resolved) {
 			k = 2
 		} else if f >= resolved {
-			k = d.noFundamental(f)
+			k = d.noFundamental(f, d.holding(f))
 		}
 		if k > 1 {
 			f, period = float64(k)*f, d.refineLag(period/float64(k))
@@ -128,7 +142,7 @@ func (d *Detector) guard(period float64) (float64, float64) {
 		}
 		for _, c := range guardDown {
 			g := f * float64(c.p) / float64(c.q)
-			if g < d.minHz || (g >= resolved && d.noFundamental(g) > 1) {
+			if g < d.minHz || (g >= resolved && d.noFundamental(g, false) > 1) {
 				continue
 			}
 			lower := period * float64(c.q) / float64(c.p)
@@ -158,10 +172,70 @@ func (d *Detector) guard(period float64) (float64, float64) {
 	return f, period
 }
 
-// holding reports whether f is the pitch the last frame read, within the
-// segmenter's notion of one pitch (50 ¢).
+// guardHeldFrames is how many frames must read one pitch (within the
+// segmenter's notion of one, 50 ¢), missing no more than guardHeldGap in a
+// row, before it is a held note to the guard: a misreading's run is
+// shorter (a slur's shared period lasts a frame or two), and a note
+// settling after its attack may lose a frame to the tracking pick
+// (FluidR3's bassoon D3: measured).
+const (
+	guardHeldFrames = 4
+	guardHeldGap    = 2
+)
+
+// heldNote is the note the last frames read: its pitch, how many frames
+// read it, and how many since have read nothing.
+type heldNote struct {
+	hz       float64
+	frames   int
+	unvoiced int
+}
+
+// holding reports whether f is the pitch of a held note.
 func (d *Detector) holding(f float64) bool {
-	return d.prevHz > 0 && math.Abs(centsPerUnit*math.Log(f/d.prevHz)) < 50
+	return d.held.frames >= guardHeldFrames && onePitch(f, d.held.hz)
+}
+
+// read notes the frame's pitch (0: unvoiced or silent) for the next.
+func (d *Detector) read(hz float64) {
+	d.prevHz = hz
+	h := &d.held
+	switch {
+	case hz <= 0:
+		if h.unvoiced++; h.unvoiced > guardHeldGap {
+			*h = heldNote{}
+		}
+		return
+	case onePitch(hz, h.hz):
+		h.frames++
+	default:
+		h.frames = 1
+	}
+	h.hz, h.unvoiced = hz, 0
+}
+
+// harmonicOfHeld returns k when f is the kth harmonic (2 ≤ k ≤ guardMaxK)
+// of a held note, else 1. A fresh period pick in a held note can land on a
+// strong partial whose period the note's own repeats (FluidR3's bassoon G2
+// read at its 5th partial, B4, for 0.1 s after its attack: measured), and
+// the guard's moves down reach F/3 at most; the held note is still
+// sounding while its partials off kF's series do (guardExtraRatio, as for
+// any move down).
+func (d *Detector) harmonicOfHeld(f float64) int {
+	h := d.held
+	if h.frames < guardHeldFrames {
+		return 1
+	}
+	k := math.Round(f / h.hz)
+	if k < 2 || k > guardMaxK || !onePitch(f, k*h.hz) {
+		return 1
+	}
+	return int(k)
+}
+
+// onePitch reports whether a and b lie within 50 ¢.
+func onePitch(a, b float64) bool {
+	return a > 0 && b > 0 && math.Abs(centsPerUnit*math.Log(a/b)) < 50
 }
 
 // missingOdd reports whether f's odd partials are absent while its even ones
@@ -218,13 +292,17 @@ func (d *Detector) oddEven(f float64) (odd, even float64) {
 
 // noFundamental returns k when a resolved f is no fundamental but kF is:
 // f has no partial of its own, and of the series of 2F … guardMaxK·F the one
-// holding most of its comb's power holds all but a stray share; else 1.
-func (d *Detector) noFundamental(f float64) int {
+// holding most of its comb's power holds all but a stray share (held: f is
+// the note the last frame read); else 1.
+func (d *Detector) noFundamental(f float64, held bool) int {
 	all := d.combPower(f, 0)
 	if all <= 0 || d.own(f) >= guardAbsent*all {
 		return 1
 	}
 	best, stray := 1, guardStray*all
+	if held {
+		stray = guardHeldStray * all
+	}
 	for k := 2; k <= guardMaxK && float64(k)*f <= d.maxHz; k++ {
 		if off := d.combPower(f, k); off < stray {
 			best, stray = k, off
