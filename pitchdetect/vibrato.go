@@ -85,16 +85,24 @@ const vibratoLate = 0.25
 // fits no one sinusoid over the whole track, and a glide moving both ways
 // is no glide to the segmenter, so the note read 1 ¢ lower where its
 // first frames were voiced than where they were not. The fit starts at the
-// first frame, up to vibratoLate seconds in, from which it holds; it
-// returns that fit and frame. A steady track (sd under that of the
-// narrowest vibrato) has none to find.
+// first frame, up to vibratoLate seconds in, from which it holds, the
+// frames before it moving one way (a glide, as glide has it); it returns
+// that fit and frame. A steady track (sd under that of the narrowest
+// vibrato) has none to find.
 func (s *Segmenter) lateVibrato(t, c []float64) (vibrato, int) {
 	if _, sd := meanStd(c); sd < vibratoMinWidth/(2*math.Sqrt2) {
 		return vibrato{}, 0
 	}
-	for k := 2; k < len(t) && t[k]-t[0] <= vibratoLate; k += 2 {
-		if v := findVibrato(t[k:], c[k:], s.Window); v.ok {
-			return v, k
+	up, down := true, true // c[:k+1] only rises, only falls
+	for k := 1; k < len(t) && t[k]-t[0] <= vibratoLate; k++ {
+		step := c[k] - c[k-1]
+		if up, down = up && step >= -glideSlack, down && step <= glideSlack; !up && !down {
+			break // the first frames move both ways: no glide into it
+		}
+		if k%2 == 0 {
+			if v := findVibrato(t[k:], c[k:], s.Window); v.ok {
+				return v, k
+			}
 		}
 	}
 	return vibrato{}, 0
