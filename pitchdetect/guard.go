@@ -22,15 +22,19 @@ import "math"
 
 // guardExtraRatio is the share of F's harmonic power that unexplained
 // partials of a lower candidate must reach before the pitch moves down.
-// guardHeldRatio is the same for F that is the pitch of the note held in
-// the last frame: a note does not fall to its own subharmonic, and a
-// neighbour's bleed left on a player's channel makes a few per cent (a
-// flute's A4 over the bassoon's and clarinet's D3 and D4 read D4 for
-// 5–9 % of unexplained power: FluidR3, one pass with bleed, measured),
-// while a note slurred to under it soon has more power than the old one.
+// guardHeldRatio is the same for F that is a held note's pitch when the
+// lower candidate's own partial is weak (under guardBleedOwn of F's
+// power): a note does not fall to its own subharmonic, and a neighbour's
+// bleed left on a player's channel makes a few per cent (a flute's A4 over
+// the bassoon's and clarinet's D3 and D4 read D4 for 5–9 % of unexplained
+// power, D4's own partial 0.05–0.5 %: FluidR3, one pass with bleed,
+// measured), while a note slurred to under it soon has more power than the
+// old one. A held misreading an octave high is left as before: the true
+// note's fundamental is strong (a violin's D6 read D7 across a slur).
 const (
 	guardExtraRatio = 0.05
 	guardHeldRatio  = 0.25
+	guardBleedOwn   = 0.01
 )
 
 // guardOddRatio: below this share of even-partial power, odd partials count
@@ -42,17 +46,17 @@ const guardOddRatio = 0.01
 // other note of a slur, not F's own; guardSweepCents: how far from F its
 // own partial may peak (see own).
 //
-// guardHeldStray is guardStray for the note held in the last frame: the
-// frames of a slur hold the old note fading as the new one sounds, but a
-// held note's own partials stay. FluidR3's bassoon D3, a few frames after
-// its attack, has its fundamental at 0.1 % of its power, 3F and 6F at
-// 81 %, 2F and 4F at 17 % (measured), and was read as the D4 and A4 of a
-// slur for 0.2 s.
+// guardHeldAbsent is guardAbsent for a held note: its fundamental may fade
+// under a strong formant and still be its own. FluidR3's bassoon D3, a few
+// frames after its attack, has its fundamental at 0.06–0.1 % of its power,
+// 3F and 6F at 81 %, 2F and 4F at 17 % (measured), and was read as the D4
+// and A4 of a slur for 0.2 s. A slur's shared period has no partial of its
+// own at all, held or not (a violin's G4 slurred to B4 at G2).
 const (
 	guardSweepCents = 50.0
 	guardAbsent     = 1e-3
+	guardHeldAbsent = 1e-4
 	guardStray      = 0.25
-	guardHeldStray  = 0.05
 	guardMaxK       = 9 // a whole tone's notes repeat together at 1/8 and 1/9 of them
 )
 
@@ -150,11 +154,11 @@ func (d *Detector) guard(period float64) (float64, float64) {
 			if f/float64(c.q) >= resolved {
 				// Multiples of g that are also multiples of f are those
 				// with j·p/q integral, i.e. j % q == 0 (p, q coprime).
-				ratio := guardExtraRatio
-				if d.holding(f) {
+				all, ratio := d.combPower(f, 0), guardExtraRatio
+				if d.holding(f) && d.own(g) < guardBleedOwn*all {
 					ratio = guardHeldRatio
 				}
-				down = d.combPower(g, c.q) > ratio*d.combPower(f, 0)
+				down = d.combPower(g, c.q) > ratio*all
 			} else {
 				nl := d.nsdfAt(lower)
 				down = nl > d.nsdfAt(period)+nsdfDownMargin && nl >= nsdfDownClarity
@@ -291,18 +295,19 @@ func (d *Detector) oddEven(f float64) (odd, even float64) {
 }
 
 // noFundamental returns k when a resolved f is no fundamental but kF is:
-// f has no partial of its own, and of the series of 2F … guardMaxK·F the one
-// holding most of its comb's power holds all but a stray share (held: f is
-// the note the last frame read); else 1.
+// f has no partial of its own (held: f is a held note's pitch), and of the
+// series of 2F … guardMaxK·F the one holding most of its comb's power holds
+// all but a stray share; else 1.
 func (d *Detector) noFundamental(f float64, held bool) int {
 	all := d.combPower(f, 0)
-	if all <= 0 || d.own(f) >= guardAbsent*all {
+	absent := guardAbsent
+	if held {
+		absent = guardHeldAbsent
+	}
+	if all <= 0 || d.own(f) >= absent*all {
 		return 1
 	}
 	best, stray := 1, guardStray*all
-	if held {
-		stray = guardHeldStray * all
-	}
 	for k := 2; k <= guardMaxK && float64(k)*f <= d.maxHz; k++ {
 		if off := d.combPower(f, k); off < stray {
 			best, stray = k, off
