@@ -75,11 +75,12 @@ type Detector struct {
 	specB  []complex128
 	haveB  bool // specB holds the previous frame's B spectrum
 
-	prevHz    float64 // last frame's pitch, 0 if unvoiced
-	holding   bool    // a note held at the last frame
-	sinceNSDF int     // hops since the NSDF last ran
-	clarity   float64 // its clarity then
-	nsdfFresh bool    // nsdfOut belongs to this frame
+	prevHz    float64  // last frame's pitch, 0 if unvoiced
+	holding   bool     // a note held at the last frame
+	held      heldNote // the note the last frames read (guard.go)
+	sinceNSDF int      // hops since the NSDF last ran
+	clarity   float64  // its clarity then
+	nsdfFresh bool     // nsdfOut belongs to this frame
 	power     []float64
 	scratch   []float64
 	fftPad    *rfft.FFT
@@ -152,7 +153,7 @@ func New(sampleRate float64, window, hop int) (*Detector, error) {
 func (d *Detector) Reset() {
 	clear(d.ring)
 	d.w, d.fed = 0, 0
-	d.haveB, d.prevHz = false, 0
+	d.haveB, d.prevHz, d.held = false, 0, heldNote{}
 	d.untilFrame = d.span
 }
 
@@ -190,15 +191,23 @@ func (d *Detector) Feed(block []float32, out []Estimate) []Estimate {
 	return out
 }
 
-// frame analyses the span now in the ring.
+// frame analyses the span now in the ring, and remembers its pitch for
+// the frames after (guard.go).
 func (d *Detector) frame() Estimate {
+	e := d.analyse()
+	d.remember(e.Hz) // 0 unless voiced
+	return e
+}
+
+// analyse is frame's reading of the span.
+func (d *Detector) analyse() Estimate {
 	n := copy(d.lin, d.ring[d.w:])
 	copy(d.lin[n:], d.ring[:d.w])
 	e := Estimate{Time: (float64(d.fed) - 0.5*float64(d.span)) / d.fs}
 	frameA, frameB := d.lin[:d.window], d.lin[d.lag:]
 	e.Level = d.levelDB(frameB)
 	if e.Level < silenceDBFS {
-		d.haveB, d.prevHz = false, 0
+		d.haveB = false
 		return e
 	}
 
@@ -337,7 +346,6 @@ func (d *Detector) judge(e *Estimate, c cue, ft fit) bool {
 	if hz >= d.minHz && hz <= d.maxHz && c.clarity >= c.needClarity && ft.share >= c.needShare &&
 		e.Confidence >= minConfidence && ft.partials > 0 && dis < 1.5 {
 		e.Hz, e.Voiced = hz, true
-		d.prevHz = hz
 	}
 	return e.Voiced
 }

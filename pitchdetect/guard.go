@@ -1,5 +1,7 @@
 package pitchdetect
 
+import "math"
+
 // The octave and fifth guard. A period pick can land on a multiple or a
 // fraction of the true period when the fundamental is weak (bassoon, low
 // brass, cello C string), when even partials dominate, or when a strong
@@ -20,7 +22,20 @@ package pitchdetect
 
 // guardExtraRatio is the share of F's harmonic power that unexplained
 // partials of a lower candidate must reach before the pitch moves down.
-const guardExtraRatio = 0.05
+// guardHeldRatio is the same for F that is a held note's pitch when the
+// lower candidate's own partial is weak (under guardBleedOwn of F's
+// power): a note does not fall to its own subharmonic, and a neighbour's
+// bleed left on a player's channel makes a few per cent (a flute's A4 over
+// the bassoon's and clarinet's D3 and D4 read D4 for 5–9 % of unexplained
+// power, D4's own partial 0.05–0.5 %: FluidR3, one pass with bleed,
+// measured), while a note slurred to under it soon has more power than the
+// old one. A held misreading an octave high is left as before: the true
+// note's fundamental is strong (a violin's D6 read D7 across a slur).
+const (
+	guardExtraRatio = 0.05
+	guardHeldRatio  = 0.25
+	guardBleedOwn   = 0.01
+)
 
 // guardOddRatio: below this share of even-partial power, odd partials count
 // as missing and the pitch moves an octave up.
@@ -30,9 +45,17 @@ const guardOddRatio = 0.01
 // guardStray: partials off the series of 2F or 3F below this share are the
 // other note of a slur, not F's own; guardSweepCents: how far from F its
 // own partial may peak (see own).
+//
+// guardHeldAbsent is guardAbsent for a held note: its fundamental may fade
+// under a strong formant and still be its own. FluidR3's bassoon D3, a few
+// frames after its attack, has its fundamental at 0.06–0.1 % of its power,
+// 3F and 6F at 81 %, 2F and 4F at 17 % (measured), and was read as the D4
+// and A4 of a slur for 0.2 s. A slur's shared period has no partial of its
+// own at all, held or not (a violin's G4 slurred to B4 at G2).
 const (
 	guardSweepCents = 50.0
 	guardAbsent     = 1e-3
+	guardHeldAbsent = 1e-4
 	guardStray      = 0.25
 	guardMaxK       = 9 // a whole tone's notes repeat together at 1/8 and 1/9 of them
 )
@@ -103,13 +126,19 @@ const (
 func (d *Detector) guard(period float64) (float64, float64) {
 	f := d.fs / period
 	resolved := resolvedBins * d.binHz
+	if k := d.harmonicOfHeld(f); k > 1 && d.held.hz >= resolved &&
+		d.combPower(d.held.hz, k) > guardExtraRatio*d.combPower(f, 0) {
+		// The comb is seeded where the note was, as while tracking it:
+		// a partial of a note still settling need not lie at k·F.
+		f, period = d.held.hz, d.refineLag(d.fs/d.held.hz)
+	}
 	for range 3 { // a few moves at most: F/4 is two octave moves
 		moved := false
 		k := 1
 		if 2*f <= d.maxHz && d.missingOdd(f, period, resolved) {
 			k = 2
 		} else if f >= resolved {
-			k = d.noFundamental(f)
+			k = d.noFundamental(f, d.heldAt(f))
 		}
 		if k > 1 {
 			f, period = float64(k)*f, d.refineLag(period/float64(k))
@@ -117,7 +146,7 @@ func (d *Detector) guard(period float64) (float64, float64) {
 		}
 		for _, c := range guardDown {
 			g := f * float64(c.p) / float64(c.q)
-			if g < d.minHz || (g >= resolved && d.noFundamental(g) > 1) {
+			if g < d.minHz || (g >= resolved && d.noFundamental(g, false) > 1) {
 				continue
 			}
 			lower := period * float64(c.q) / float64(c.p)
@@ -125,7 +154,11 @@ func (d *Detector) guard(period float64) (float64, float64) {
 			if f/float64(c.q) >= resolved {
 				// Multiples of g that are also multiples of f are those
 				// with j·p/q integral, i.e. j % q == 0 (p, q coprime).
-				down = d.combPower(g, c.q) > guardExtraRatio*d.combPower(f, 0)
+				all, ratio := d.combPower(f, 0), guardExtraRatio
+				if d.heldAt(f) && d.own(g) < guardBleedOwn*all {
+					ratio = guardHeldRatio
+				}
+				down = d.combPower(g, c.q) > ratio*all
 			} else {
 				nl := d.nsdfAt(lower)
 				down = nl > d.nsdfAt(period)+nsdfDownMargin && nl >= nsdfDownClarity
@@ -141,6 +174,72 @@ func (d *Detector) guard(period float64) (float64, float64) {
 		}
 	}
 	return f, period
+}
+
+// guardHeldFrames is how many frames must read one pitch (within the
+// segmenter's notion of one, 50 ¢), missing no more than guardHeldGap in a
+// row, before it is a held note to the guard: a misreading's run is
+// shorter (a slur's shared period lasts a frame or two), and a note
+// settling after its attack may lose a frame to the tracking pick
+// (FluidR3's bassoon D3: measured).
+const (
+	guardHeldFrames = 4
+	guardHeldGap    = 2
+)
+
+// heldNote is the note the last frames read: its pitch, how many frames
+// read it, and how many since have read nothing.
+type heldNote struct {
+	hz       float64
+	frames   int
+	unvoiced int
+}
+
+// heldAt reports whether f is the pitch of a held note.
+func (d *Detector) heldAt(f float64) bool {
+	return d.held.frames >= guardHeldFrames && onePitch(f, d.held.hz)
+}
+
+// remember notes the frame's pitch (0: unvoiced or silent) for the next.
+func (d *Detector) remember(hz float64) {
+	d.prevHz = hz
+	h := &d.held
+	switch {
+	case hz <= 0:
+		if h.unvoiced++; h.unvoiced > guardHeldGap {
+			*h = heldNote{}
+		}
+		return
+	case onePitch(hz, h.hz):
+		h.frames++
+	default:
+		h.frames = 1
+	}
+	h.hz, h.unvoiced = hz, 0
+}
+
+// harmonicOfHeld returns k when f is the kth harmonic (2 ≤ k ≤ guardMaxK)
+// of a held note, else 1. A fresh period pick in a held note can land on a
+// strong partial whose period the note's own repeats (FluidR3's bassoon G2
+// read at its 5th partial, B4, for 0.1 s after its attack: measured), and
+// the guard's moves down reach F/3 at most; the held note is still
+// sounding while its partials off kF's series do (guardExtraRatio, as for
+// any move down).
+func (d *Detector) harmonicOfHeld(f float64) int {
+	h := d.held
+	if h.frames < guardHeldFrames {
+		return 1
+	}
+	k := math.Round(f / h.hz)
+	if k < 2 || k > guardMaxK || !onePitch(f, k*h.hz) {
+		return 1
+	}
+	return int(k)
+}
+
+// onePitch reports whether a and b lie within 50 ¢.
+func onePitch(a, b float64) bool {
+	return a > 0 && b > 0 && math.Abs(centsPerUnit*math.Log(a/b)) < 50
 }
 
 // missingOdd reports whether f's odd partials are absent while its even ones
@@ -196,11 +295,16 @@ func (d *Detector) oddEven(f float64) (odd, even float64) {
 }
 
 // noFundamental returns k when a resolved f is no fundamental but kF is:
-// f has no partial of its own, and of the series of 2F … guardMaxK·F the one
-// holding most of its comb's power holds all but a stray share; else 1.
-func (d *Detector) noFundamental(f float64) int {
+// f has no partial of its own (held: f is a held note's pitch), and of the
+// series of 2F … guardMaxK·F the one holding most of its comb's power holds
+// all but a stray share; else 1.
+func (d *Detector) noFundamental(f float64, held bool) int {
 	all := d.combPower(f, 0)
-	if all <= 0 || d.own(f) >= guardAbsent*all {
+	absent := guardAbsent
+	if held {
+		absent = guardHeldAbsent
+	}
+	if all <= 0 || d.own(f) >= absent*all {
 		return 1
 	}
 	best, stray := 1, guardStray*all

@@ -325,6 +325,11 @@ func (s *Segmenter) summarise(live, slurred bool) Held {
 	h.Hz = ref * math.Pow(2, mean/1200)
 	if n := len(s.frames); !live || n >= s.vibAt+vibratoRefresh || n < s.vibAt {
 		s.vib, s.vibAt = findVibrato(s.t, s.c, s.Window), len(s.frames)
+		if k := 0; !s.vib.ok && !live {
+			if s.vib, k = s.lateVibrato(s.t, s.c); s.vib.ok {
+				h.Settled = max(h.Settled, s.t[k])
+			}
+		}
 		s.vibHz = ref * math.Pow(2, s.vib.centre/1200)
 	}
 	if s.vib.ok {

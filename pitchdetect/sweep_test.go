@@ -14,10 +14,17 @@ import (
 )
 
 // fluidViolin renders keys held 2 s each (then 0.5 s of silence) on the
-// FluidR3 violin (General MIDI program 40) with Debian's fluidsynth, reverb
-// and chorus off, and returns the first channel at 48 kHz, also as a WAV
-// file (sox) for aubio.
+// FluidR3 violin (General MIDI program 40), as fluidHeld does.
 func fluidViolin(t *testing.T, keys []int) ([]float32, string) {
+	t.Helper()
+	return fluidHeld(t, 40, keys)
+}
+
+// fluidHeld renders keys held 2 s each (then 0.5 s of silence) on a
+// FluidR3 instrument (0-based General MIDI program) with Debian's
+// fluidsynth, reverb and chorus off, and returns the first channel at
+// 48 kHz, also as a WAV file (sox) for aubio.
+func fluidHeld(t *testing.T, program int, keys []int) ([]float32, string) {
 	t.Helper()
 	fluid, err := exec.LookPath("fluidsynth")
 	if err != nil {
@@ -29,7 +36,7 @@ func fluidViolin(t *testing.T, keys []int) ([]float32, string) {
 	}
 	dir := t.TempDir()
 	mid, raw, wav := filepath.Join(dir, "v.mid"), filepath.Join(dir, "v.raw"), filepath.Join(dir, "v.wav")
-	if err := os.WriteFile(mid, testsignal.MIDI(40, phrase), 0o644); err != nil {
+	if err := os.WriteFile(mid, testsignal.MIDI(program, phrase), 0o644); err != nil {
 		t.Fatal(err)
 	}
 	if out, err := exec.Command(fluid, "-ni", "-q", "-g", "0.6", "-r", "48000", "-R", "0", "-C", "0",

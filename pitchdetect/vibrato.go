@@ -75,6 +75,39 @@ func findVibrato(t, c []float64, window float64) vibrato {
 	return vibrato{rate: best, width: width, centre: wholeCycleMean(t, c, best), ok: true}
 }
 
+// vibratoLate is how long after a steady part's start its vibrato may
+// settle.
+const vibratoLate = 0.25
+
+// lateVibrato finds a vibrato that settles after the steady part's first
+// frames: a vibrato whose centre still rises from the attack (FluidR3's
+// bassoon G2 and G3 glide some 10 ¢ up into theirs over 0.2 s: measured)
+// fits no one sinusoid over the whole track, and a glide moving both ways
+// is no glide to the segmenter, so the note read 1 ¢ lower where its
+// first frames were voiced than where they were not. The fit starts at the
+// first frame, up to vibratoLate seconds in, from which it holds, the
+// frames before it moving one way (a glide, as glide has it); it returns
+// that fit and frame. A steady track (sd under that of the narrowest
+// vibrato) has none to find.
+func (s *Segmenter) lateVibrato(t, c []float64) (vibrato, int) {
+	if _, sd := meanStd(c); sd < vibratoMinWidth/(2*math.Sqrt2) {
+		return vibrato{}, 0
+	}
+	up, down := true, true // c[:k+1] only rises, only falls
+	for k := 1; k < len(t) && t[k]-t[0] <= vibratoLate; k++ {
+		step := c[k] - c[k-1]
+		if up, down = up && step >= -glideSlack, down && step <= glideSlack; !up && !down {
+			break // the first frames move both ways: no glide into it
+		}
+		if k%2 == 0 {
+			if v := findVibrato(t[k:], c[k:], s.Window); v.ok {
+				return v, k
+			}
+		}
+	}
+	return vibrato{}, 0
+}
+
 // phasor walks cos and sin of 2πr(t[i]−t[0]) along a track: where the
 // spacing repeats (frames come a hop apart) one complex multiplication
 // steps it, and it is computed afresh where the spacing changes and every

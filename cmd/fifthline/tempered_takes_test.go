@@ -221,15 +221,16 @@ func regularFromJust(fifth float64, chords ...string) map[string]float64 {
 
 // gMinorWinds is the meantone takes' writing: G minor at A4 = 415 Hz,
 // i – ♭II – V – I with B♭, E♭, A♭ and F♯, B♮, each 41 ¢ (¼-comma) or 39 ¢
-// (31-EDO: two steps) from its enharmonic, for trombone (General MIDI 57),
-// clarinet, oboe and flute. (The FluidR3 bassoon's G2 and G3 glide up some
-// 10 ¢ into their vibrato from an attack misread an octave low, which
-// listening took for a note of its own: measured.)
+// (31-EDO: two steps) from its enharmonic, for bassoon, clarinet, oboe and
+// flute. The flute's A4 enters on the bassoon's D3, its third harmonic,
+// over the clarinet's D4 (pitchdetect's
+// TestAHeldNoteIsNotMovedToTheSubharmonicOfABleed); the FluidR3 bassoon's
+// G3 glides some 10 ¢ up into its vibrato (TestABassoonsAttackIsPartOfItsNote).
 func gMinorWinds(name, temperament string, fifth float64) temperedTake {
 	chords := []string{"G minor", "Ab major", "D major", "G major"}
 	return temperedTake{
 		name: name, key: "G minor", temperament: temperament, a4: 415, tm: regular(fifth),
-		players: []string{"tbn", "cl", "ob", "fl"}, programs: []int{57, 71, 68, 73},
+		players: []string{"bn", "cl", "ob", "fl"}, programs: []int{70, 71, 68, 73},
 		chords: chords,
 		notes: [][]writtenNote{
 			{wn("G3", 0, 1.4), wn("Ab3", 1.5, 1.4), wn("D3", 3, 1.4), wn("G3", 4.5, 1.4)},
