@@ -424,8 +424,11 @@ func glideFrom(c []float64, k int, lo, hi []float64, wlo, whi float64) int {
 	n := len(c)
 	up, down := true, true // c[k:g+1] only rises, only falls
 	for g := k + 1; n-g >= max(glideRest, (g+1)/2); g++ {
-		step := c[g] - c[g-1]
-		up, down = up && step >= -glideSlack, down && step <= glideSlack
+		// Once the glide has reached the range the rest of the note spans,
+		// the note's own wavering begins: its steps no longer count.
+		if step := c[g] - c[g-1]; c[g-1] < lo[g] || c[g-1] > hi[g] {
+			up, down = up && step >= -glideSlack, down && step <= glideSlack
+		}
 		if !up && !down {
 			return 0
 		}
