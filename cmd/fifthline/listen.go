@@ -31,6 +31,7 @@ func runListen(e *env, args []string) error {
 	vf := addVoiceFlags(fs)
 	device := fs.String("device", "", "input device: index or part of the name as 'fifthline devices' lists it (default: the system's default input)")
 	channel := fs.Int("channel", 1, "input channel to read, counted from 1")
+	inputs := fs.Int("input-channels", 0, "how many input channels the interface has, all opened: through a sound server (PulseAudio, PipeWire) a stream with fewer channels than its source is remixed, so give the count when the channels read leave some out; 0 opens up to the highest channel read")
 	plain := fs.Bool("plain", false, "no screen: a CSV header, then one line per held note as it ends")
 	duration := fs.Duration("duration", 0, "stop cleanly after this long (e.g. 12s, 2m); 0 listens until interrupted")
 	sf := addSoundFlags(fs)
@@ -47,6 +48,8 @@ func runListen(e *env, args []string) error {
 		return usagef("--channel %d: channels are counted from 1", *channel)
 	case *duration < 0:
 		return usagef("--duration %v is negative", *duration)
+	case *inputs < 0:
+		return usagef("--input-channels %d: give how many channels the interface has", *inputs)
 	}
 	if err := sf.check(); err != nil {
 		return err
@@ -63,6 +66,14 @@ func runListen(e *env, args []string) error {
 	if err != nil {
 		return err
 	}
+	if top := *channel; *inputs > 0 {
+		for _, p := range po.players {
+			top = max(top, p.Channel+1)
+		}
+		if *inputs < top {
+			return usagef("--input-channels %d: channel %d is read", *inputs, top)
+		}
+	}
 	ctx := e.ctx
 	if *duration > 0 {
 		var cancel context.CancelFunc
@@ -74,7 +85,7 @@ func runListen(e *env, args []string) error {
 		return err
 	}
 	defer restore()
-	inOpts := capture.InputOptions{Device: *device, Channel: *channel}
+	inOpts := capture.InputOptions{Device: *device, Channel: *channel, StreamChannels: *inputs}
 	if group {
 		inOpts.Channels = po.carried()
 	}

@@ -275,6 +275,9 @@ func TestListenUsageErrors(t *testing.T) {
 	for _, args := range [][]string{
 		{"listen", "--channel", "0"},
 		{"listen", "--duration", "-1s"},
+		{"listen", "--input-channels", "-1"},
+		{"listen", "--channel", "3", "--input-channels", "2"},
+		{"listen", "--players", "3=vla,1=vc", "--input-channels", "2"},
 		{"listen", "--duration", "soon"},
 		{"listen", "take.wav"},
 		{"listen", "--key", "H"},

@@ -234,6 +234,26 @@ func TestListenPlayersHearsTheQuartetLive(t *testing.T) {
 	}
 }
 
+// Three players on a four-channel interface: a sound server (PulseAudio
+// here) remixes a stream whose channel count differs from its source's,
+// and a three-channel stream of this four-channel sink heard nothing of
+// the third player's rear-left channel (measured), so it reads only when
+// the stream opens all four, which --input-channels asks for.
+func TestListenPlayersOpensTheInterfacesChannels(t *testing.T) {
+	t.Parallel()
+	out := playQuartetLive(t, soxQuartet(t), "--players", "vc,vla,vl2", "--input-channels", "4")
+	_, rows := readCSV(t, out)
+	var vl2 []string
+	for _, row := range rows {
+		if row["player"] == "vl2" {
+			vl2 = append(vl2, row["note"])
+		}
+	}
+	if strings.Join(vl2, " ") != "E4 D4" {
+		t.Errorf("vl2 on channel 3 played E4 D4, heard %v:\n%s", vl2, out)
+	}
+}
+
 // playQuartetLive plays a 4-channel take into a four-channel null sink of
 // the test's own (its monitor the input) while listen --plain runs with
 // args, stops it with Ctrl-C once the take has played and returns what it
