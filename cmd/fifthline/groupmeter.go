@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"time"
 
 	"fifthline/ensemble"
 	"fifthline/multipitch"
@@ -33,20 +34,29 @@ func playersMeter(ctx context.Context, src source.Multi, tunings *session.Tuning
 	m := groupMeter(names, tunings, po.seventh, j, ms)
 	defer j.close() // complete before the device is stopped
 	frame := groupFrame{tunings: tunings, seventh: po.seventh}
+	kept := po.keep()
 	o := ensemble.Options{Name: ms.name, Players: po.players, Tunings: tunings,
 		OnNote: func(n ensemble.Note) error {
 			j.note(n.Event)
+			if kept != nil {
+				kept.notes = append(kept.notes, n)
+			}
 			return nil
 		},
 		// Run hands every player's frame of a moment in player order.
 		OnFrame: func(i int, e pitchdetect.Estimate) {
 			frame.add(i, len(names), e.Hz, e.Level)
 			frame.drift().Frame(i, e)
+			kept.frame(i, e)
 			if i == len(names)-1 {
 				frame.send(m, e.Time)
 			}
 		}}
-	return showMeter(ctx, m, func(ctx context.Context) error { return ensemble.Run(ctx, src, o) })
+	err := showMeter(ctx, m, func(ctx context.Context) error { return ensemble.Run(ctx, src, o) })
+	if kept != nil { // in the tuning in force at the end
+		kept.chords(j, ms.name, tunings.Get())
+	}
+	return err
 }
 
 // voicesMeter shows the group meter fed by the voices heard on src's one
@@ -75,12 +85,20 @@ func voicesMeter(ctx context.Context, src source.Source, tunings *session.Tuning
 		}
 		frame.send(m, f.Time)
 	}
-	return showMeter(ctx, m, func(ctx context.Context) error {
+	var notes []voiceNote
+	err := showMeter(ctx, m, func(ctx context.Context) error {
 		return hearVoices(ctx, src, ms.name, tunings.Get, vo, func(float64) {}, func(n voiceNote) error {
-			j.note(n.Event)
+			j.row(n.Event, n.extra(), time.Time{})
+			if vo.chords {
+				notes = append(notes, n)
+			}
 			return nil
 		})
 	})
+	if vo.chords { // in the tuning in force at the end
+		logVoiceChordsOf(j, ms.name, tunings.Get(), vo.seventh, notes)
+	}
+	return err
 }
 
 // groupMeter makes the meter with a row per name.

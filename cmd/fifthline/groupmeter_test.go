@@ -2,7 +2,10 @@ package main
 
 import (
 	"fmt"
+	"math"
+	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -18,12 +21,14 @@ import (
 // player's note spelled, on its equal-tempered target (within 1 ¢, the
 // --plain reading's figure), the third (B4) 13.7 ¢ above just and the
 // fifth (D4) 2.0 ¢ below it (handbook: 400 − 386.31 ¢ and 700 − 701.96 ¢).
-// A digit key switches a player's row off.
+// A digit key switches a player's row off. With --chords the journal gets
+// each chord's members when q ends the session, as --plain writes them.
 func TestListenPlayersGroupMeterInTmux(t *testing.T) {
 	mic := vmic.IsolateChannels(t, "front-left", "front-right", "rear-left", "rear-right")
 	quartet := soxQuartet(t)
+	journal := filepath.Join(t.TempDir(), "rehearsal.csv")
 	m := startTmux(t, 80, 24, []string{"PULSE_SOURCE=" + mic.Source, "PULSE_SINK=" + mic.Sink},
-		"listen", "--players", "vc,vla,vl2,vl1", "--key", "C major", "--log", filepath.Join(t.TempDir(), "rehearsal.csv"))
+		"listen", "--players", "vc,vla,vl2,vl1", "--key", "C major", "--chords", "--log", journal)
 	m.waitFor(`no chord yet`, `lost: 0 overflows, 0 dropped`, ` 4 vl1 +·`)
 	if err := mic.PlayChannels(quartet)(); err != nil {
 		t.Fatal(err)
@@ -42,6 +47,27 @@ func TestListenPlayersGroupMeterInTmux(t *testing.T) {
 	if rc := m.exitStatus(); rc != "0" {
 		t.Errorf("q: exit status %s, want 0", rc)
 	}
+	checkJournalChord(t, journal, "G major", "third", "B4", 13.7)
+}
+
+// checkJournalChord holds that the journal has a row for that member of
+// that chord, its note spelled and its just_cents within 0.5 ¢ of want.
+func checkJournalChord(t *testing.T, journal, chord, member, note string, want float64) {
+	t.Helper()
+	data, err := os.ReadFile(journal)
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, rows := readCSV(t, string(data))
+	for _, r := range rows {
+		if r["heard_chord"] == chord && r["member"] == member {
+			if c, err := strconv.ParseFloat(r["just_cents"], 64); r["note"] != note || err != nil || math.Abs(c-want) > 0.5 {
+				t.Errorf("%s's %s in the journal: %s %s ¢ from just, want %s %+.1f", chord, member, r["note"], r["just_cents"], note, want)
+			}
+			return
+		}
+	}
+	t.Errorf("no %s row for %s's %s in the journal:\n%s", member, chord, note, data)
 }
 
 // demo --group: the consort's closing chord (the demo score's, G major with
@@ -106,7 +132,8 @@ func TestListenVoicesGroupMeterInTmux(t *testing.T) {
 	t.Parallel()
 	_, env, play := privateMic(t)
 	wav := sox(t, "chord.wav", "-r", "48000", "-b", "16", "synth 2 sawtooth 261.63 sawtooth 327.0375 sawtooth 392.445 remix 1,2,3 gain -8 pad 0.5 1")
-	m := startTmux(t, 80, 24, env, "listen", "--voices", "3", "--key", "C major")
+	journal := filepath.Join(t.TempDir(), "rehearsal.csv")
+	m := startTmux(t, 80, 24, env, "listen", "--voices", "3", "--key", "C major", "--chords", "--log", journal)
 	m.waitFor(`no chord yet`, `lost: 0 overflows, 0 dropped`)
 	play(wav)
 	const nearJust = `[−+]?0\.[0-5] ¢`
@@ -119,4 +146,5 @@ func TestListenVoicesGroupMeterInTmux(t *testing.T) {
 	if rc := m.exitStatus(); rc != "0" {
 		t.Errorf("q: exit status %s, want 0", rc)
 	}
+	checkJournalChord(t, journal, "C major", "third", "E4", 0)
 }

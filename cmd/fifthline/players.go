@@ -274,6 +274,39 @@ func (po *playerOptions) carried() []int {
 	return chans
 }
 
+// heardPlayers keeps what --chords needs while the players are heard: a
+// long session without it holds nothing but the players' current notes.
+type heardPlayers struct {
+	po     *playerOptions
+	notes  []ensemble.Note
+	tracks []harmony.Track
+}
+
+// keep is where the players' notes and frames are kept for --chords; nil
+// without it.
+func (po *playerOptions) keep() *heardPlayers {
+	if !po.chords {
+		return nil
+	}
+	return &heardPlayers{po: po, tracks: make([]harmony.Track, len(po.players))}
+}
+
+// frame keeps player i's frame (nothing on a nil keeper).
+func (h *heardPlayers) frame(i int, est pitchdetect.Estimate) {
+	if h != nil {
+		h.tracks[i].Add(est.Time, est.Hz)
+	}
+}
+
+// chords finds the chords among the notes kept, read in tu, and journals
+// them, as each chord is known only once its notes end.
+func (h *heardPlayers) chords(j *journalSink, name string, tu target.Tuning) []ensemble.Chord {
+	sortPlayerNotes(h.notes)
+	chords := ensemble.Chords(h.notes, h.tracks, h.po.players, tu, h.po.seventh)
+	logChords(j, name, tu, chords, time.Time{})
+	return chords
+}
+
 // listenPlayers is listen --plain --players: the CSV header, then each
 // player's held note as it ends, flushed at once; with --chords the
 // chord rows follow when listening stops, since a chord is known only
@@ -295,16 +328,13 @@ func listenPlayers(ctx context.Context, e *env, src *capture.Input, name string,
 	}
 	defer timing.close()
 	interface_ := src.Carried()
-	// Only chords need the notes and frames kept: a long session without
-	// --chords holds nothing but the players' current notes.
-	var notes []ensemble.Note
-	tracks := make([]harmony.Track, len(po.players))
+	kept := po.keep()
 	drift := ensemble.NewDrift(tu, po.seventh)
 	o := ensemble.Options{Name: name, Players: po.players, Tunings: session.NewTunings(tu),
 		OnNote: func(n ensemble.Note) error {
 			j.note(n.Event)
-			if po.chords {
-				notes = append(notes, n)
+			if kept != nil {
+				kept.notes = append(kept.notes, n)
 				return nil
 			}
 			c, known := drift.Cents()
@@ -317,15 +347,11 @@ func listenPlayers(ctx context.Context, e *env, src *capture.Input, name string,
 		OnFrame: func(i int, est pitchdetect.Estimate) {
 			timing.playerFrame(po.players[i].Name, est)
 			drift.Frame(i, est)
-			if po.chords {
-				tracks[i].Add(est.Time, est.Hz)
-			}
+			kept.frame(i, est)
 		}}
 	err = ensemble.Run(ctx, src, o)
-	if po.chords {
-		sortPlayerNotes(notes)
-		chords := ensemble.Chords(notes, tracks, po.players, tu, po.seventh)
-		logChords(j, name, tu, chords, time.Time{})
+	if kept != nil {
+		chords := kept.chords(j, name, tu)
 		for _, c := range chords {
 			for _, row := range chordRecords(c, "") {
 				w.Write(row.record(false))

@@ -15,6 +15,16 @@ import (
 	"fifthline/target"
 )
 
+// logVoiceChordsOf finds the chords among the voice notes heard live, read
+// in tu, and journals them, as each chord is known only once its notes
+// end.
+func logVoiceChordsOf(j *journalSink, name string, tu target.Tuning, seventh float64, notes []voiceNote) []harmony.Chord {
+	sortVoiceNotes(notes)
+	chords := chordsOf(notes, tu, seventh)
+	logVoiceChords(j, name, tu, chords, notes, time.Time{})
+	return chords
+}
+
 // chordsOf finds the held chords among voice notes (harmony.Find), each
 // member read from its voice's frames within the chord; a voice lost for a
 // moment under the chord is bridged first (bridgeLost).

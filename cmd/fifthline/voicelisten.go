@@ -38,9 +38,7 @@ func listenVoices(ctx context.Context, e *env, src source.Source, name string, t
 		return w.Error()
 	})
 	if vo.chords {
-		sortVoiceNotes(notes)
-		chords := chordsOf(notes, tu, vo.seventh)
-		logVoiceChords(j, name, tu, chords, notes, time.Time{})
+		chords := logVoiceChordsOf(j, name, tu, vo.seventh, notes)
 		for _, h := range chords {
 			for _, c := range voiceChordRecords(h, "", notes) {
 				w.Write(c.record(false))
