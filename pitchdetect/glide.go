@@ -1,0 +1,71 @@
+package pitchdetect
+
+import (
+	"math"
+	"slices"
+)
+
+// A note's attack may glide into its pitch: a trumpet's rises some 20 ¢ over
+// its first 0.15 s, an oboe's falls 10 ¢. What the note settles on is what
+// a musician hears as its pitch, so the glide is left out of the mean when
+// the rest of the note is enough to read it.
+const (
+	glideCents = 3.0 // a smaller movement is no glide
+	glideSlack = 0.3 // cents a glide may step back (the detector's jitter)
+	glideRest  = 5   // frames the note needs after its glide (50 ms at the default hop)
+)
+
+// glide returns how many of the first frames of a steady-part track c
+// (cents) are an attack's glide into the pitch the rest settles on: the
+// earliest g such that c[g:] lies within a quarter of its distance (at
+// least glideCents) from c[k], c[k:g+1] moves one way only, and the settled
+// rest lasts at least half as long as the glide. A vibrato moves both ways;
+// a steady drift never settles within a quarter of its movement for that
+// long. The glide may start after a wobble of up to wobble frames (k > 0),
+// all short of the settled pitch on the glide's side: the frames of a
+// slurred note's steady part begin sooner than those of a note after a
+// rest, and the same attack must read the same either way. It returns 0
+// when there is no such glide.
+func (s *Segmenter) glide(c []float64, wobble int) int {
+	n := len(c)
+	if n < glideRest+2 {
+		return 0
+	}
+	s.lohi = slices.Grow(s.lohi[:0], 2*n)[:2*n]
+	lo, hi := s.lohi[:n], s.lohi[n:] // of c[i:]
+	lo[n-1], hi[n-1] = c[n-1], c[n-1]
+	for i := n - 2; i >= 0; i-- {
+		lo[i], hi[i] = min(c[i], lo[i+1]), max(c[i], hi[i+1])
+	}
+	wlo, whi := math.Inf(1), math.Inf(-1) // of the wobble c[:k]
+	for k := 0; k <= wobble && k < n; k++ {
+		if g := glideFrom(c, k, lo, hi, wlo, whi); g > 0 {
+			return g
+		}
+		wlo, whi = min(wlo, c[k]), max(whi, c[k])
+	}
+	return 0
+}
+
+// glideFrom is glide's test of a glide starting at c[k] after a wobble
+// spanning wlo..whi; lo and hi are the extremes of c[i:].
+func glideFrom(c []float64, k int, lo, hi []float64, wlo, whi float64) int {
+	n := len(c)
+	up, down := true, true // c[k:g+1] only rises, only falls
+	for g := k + 1; n-g >= max(glideRest, (g+1)/2); g++ {
+		// Once the glide has reached the range the rest of the note spans,
+		// the note's own wavering begins: its steps no longer count.
+		if step := c[g] - c[g-1]; c[g-1] < lo[g] || c[g-1] > hi[g] {
+			up, down = up && step >= -glideSlack, down && step <= glideSlack
+		}
+		if !up && !down {
+			return 0
+		}
+		moved := (lo[g]+hi[g])/2 - c[k]
+		if math.Abs(moved) >= glideCents && hi[g]-lo[g] <= math.Abs(moved)/4 &&
+			(moved > 0 && up && whi < lo[g] || moved < 0 && down && wlo > hi[g]) {
+			return g
+		}
+	}
+	return 0
+}
