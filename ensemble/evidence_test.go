@@ -21,11 +21,7 @@ import (
 // −23 dB, and then pulled the bass's F2 0.65 ¢ sharp). Read twice, as
 // analyze does: nothing learned above −40 dB, every note as sung.
 func TestAReleaseTailIsNotLearnedAsBleed(t *testing.T) {
-	font, fh, err := sf2.OpenFile("/usr/share/sounds/sf2/FluidR3_GM.sf2")
-	if err != nil {
-		t.Fatalf("FluidR3 SoundFont (Debian package fluid-soundfont-gm): %v", err)
-	}
-	defer fh.Close()
+	font := sf2.OpenForTest(t, "/usr/share/sounds/sf2/FluidR3_GM.sf2")
 	voices, err := font.Timbres([]string{"Ohh Voices"}, 20000)
 	if err != nil || len(voices) == 0 {
 		t.Fatalf("no profiles of FluidR3's Ohh Voices: %v", err)

@@ -14,11 +14,7 @@ const fluidR3 = "/usr/share/sounds/sf2/FluidR3_GM.sf2"
 // instruments: one waveform repeated, so every frame has exact truth.
 func loopsOf(t *testing.T, names ...string) map[string][]sf2.Loop {
 	t.Helper()
-	font, fh, err := sf2.OpenFile(fluidR3)
-	if err != nil {
-		t.Fatalf("FluidR3 SoundFont (Debian package fluid-soundfont-gm): %v", err)
-	}
-	defer fh.Close()
+	font := sf2.OpenForTest(t, fluidR3)
 	loops, err := font.Loops(names, 12, 4096)
 	if err != nil {
 		t.Fatal(err)

@@ -14,11 +14,7 @@ const fluidR3 = "/usr/share/sounds/sf2/FluidR3_GM.sf2"
 // fluidLoops returns up to perInstrument loops for each named instrument.
 func fluidLoops(t testing.TB, names []string, perInstrument int) []sf2.Loop {
 	t.Helper()
-	font, fh, err := sf2.OpenFile(fluidR3)
-	if err != nil {
-		t.Fatalf("FluidR3 SoundFont (Debian package fluid-soundfont-gm): %v", err)
-	}
-	defer fh.Close()
+	font := sf2.OpenForTest(t, fluidR3)
 	// Long loops (a second or more) are slow to check and wander.
 	loops, err := font.Loops(names, perInstrument, 16384)
 	if err != nil {

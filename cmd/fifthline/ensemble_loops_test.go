@@ -132,11 +132,7 @@ func monoWAV(t *testing.T, name string, x []float64) string {
 func loopTimbres(t *testing.T) map[string][]sf2.Timbre {
 	t.Helper()
 	_, path := fluidSynth(t)
-	font, fh, err := sf2.OpenFile(path)
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer fh.Close()
+	font := sf2.OpenForTest(t, path)
 	var names []string
 	for _, n := range loopInstrument {
 		names = append(names, n)

@@ -26,11 +26,7 @@ import (
 func TestBothReadersHearASteadyClarinetLoopExactly(t *testing.T) {
 	t.Parallel()
 	_, path := fluidSynth(t)
-	font, fh, err := sf2.OpenFile(path)
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer fh.Close()
+	font := sf2.OpenForTest(t, path)
 	loops, err := font.Loops([]string{"Clarinet", "Trombone"}, 20, 8192)
 	if err != nil {
 		t.Fatal(err)
