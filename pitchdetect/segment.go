@@ -40,6 +40,12 @@ type Segmenter struct {
 	MinFrames  int     // shorter notes are dropped as blips
 	MinSeconds float64 // and so are notes shorter than this
 	OnsetBlip  float64 // seconds: a note's attack read this briefly a subharmonic low is merged into it
+	// Margin, when set, is what each end of a note sets aside from its
+	// steady part in place of Window, the end counted from its last frame
+	// within releaseDB of its median level: for a reader whose first
+	// frame lies at the onset and whose window goes on hearing a release
+	// (the multi-pitch estimator's; see the voice tracker in cmd/fifthline).
+	Margin float64
 
 	frames  []Estimate
 	gap     int      // unvoiced frames since the last voiced one
@@ -50,7 +56,7 @@ type Segmenter struct {
 	from    slurFrom // the note the open one was slurred from; zero after silence
 	hasOut  bool
 	t, c    []float64 // scratch for summaries
-	lohi    []float64 // scratch for glide
+	lohi    []float64 // scratch for glide and released
 	vib     vibrato   // the last vibrato fit, made at vibAt frames
 	vibAt   int
 	vibHz   float64
@@ -281,8 +287,9 @@ func (s *Segmenter) summarise(live, slurred bool) Held {
 	// frame (whose window then holds some of the new): the new note's own
 	// frames begin half a Window after that frame, and the old note's end
 	// a Window before it, or, in a quick note that would leave none, half
-	// a Window before it.
-	lo, hi := h.Start+s.Window, h.End-s.Window
+	// a Window before it. (Margin, where set, replaces the Window at the
+	// note's ends.)
+	lo, hi := s.ends(fr, h)
 	if s.from.hz != 0 {
 		lo = s.from.last + s.Window/2
 	}
@@ -308,9 +315,9 @@ func (s *Segmenter) summarise(live, slurred bool) Held {
 		s.c = append(s.c, 1200*math.Log2(e.Hz/ref))
 	}
 	// The glide may start as late as a note after a rest starts its
-	// steady part (a Window after its first frame), past a wobble.
+	// steady part (a Window, or Margin, after its first frame), past a wobble.
 	wobble := 0
-	for wobble < n && s.t[wobble] < h.Start+s.Window {
+	for wobble < n && s.t[wobble] < h.Start+s.margin() {
 		wobble++
 	}
 	g := s.glide(s.c, wobble)
