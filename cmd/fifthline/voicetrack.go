@@ -123,6 +123,14 @@ func (tr *tracker) push(f multipitch.Frame) {
 		if !taken[vi] {
 			s := pitchdetect.NewSegmenter(tr.hop)
 			s.Window = tr.window
+			// A note's first frame is the estimator's onset half window,
+			// centred near the onset (multipitch/onset.go), and its last
+			// is heard while the whole window's share of the note still
+			// explains a voice: half a window at each end sets aside the
+			// frames reaching past it. Measured: a whole window trimmed
+			// the rendered clarinet's last 0.2 s, which falls 5 ¢, from
+			// its reading but not from its truth's (+0.62 ¢; +0.11 so).
+			s.Margin = tr.window / 2
 			t := &track{seg: s, hz: v.Hz, start: f.Time}
 			if tr.keepFrames {
 				t.frames = &harmony.Track{}
