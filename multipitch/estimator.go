@@ -16,6 +16,10 @@ type Voice struct {
 	// Doubled: another voice an octave above it cannot be told apart from
 	// its own partials, but stands out of their envelope: both are this one.
 	Doubled bool
+	// OnPartials: it lies on a lower voice's partials 3k (or 4k, 5k, 6k),
+	// which do not stand out of that voice's envelope: likely those
+	// partials, not a voice (smoothness.go).
+	OnPartials bool
 }
 
 // Frame is the estimator's reading for one hop.
@@ -236,7 +240,10 @@ func (e *Estimator) Analyze(x []float64, dst []Voice) []Voice {
 	}
 	e.drop = e.drop[:0]
 	e.prune()
-	return e.voices(dst)
+	start := len(dst)
+	dst = e.voices(dst)
+	e.markPartials(dst[start:])
+	return dst
 }
 
 // hannSpectrum fills spec with the transform of x under a Hann window,

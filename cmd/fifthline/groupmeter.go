@@ -71,6 +71,10 @@ func voicesMeter(ctx context.Context, src source.Source, tunings *session.Tuning
 	frame := groupFrame{tunings: tunings, seventh: vo.seventh}
 	var sounding []float64
 	vo.onFrame = func(f multipitch.Frame) {
+		// A voice on a lower one's partials is most likely those partials
+		// (its notes are dropped the same way, voicetrack.go); a real
+		// voice there misses a frame now and then.
+		f.Voices = slices.DeleteFunc(slices.Clone(f.Voices), func(v multipitch.Voice) bool { return v.OnPartials })
 		sounding = sounding[:0]
 		for _, v := range f.Voices {
 			sounding = append(sounding, v.Hz)

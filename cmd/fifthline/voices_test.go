@@ -139,6 +139,19 @@ func TestAnalyzeVoicesMarksAnOctaveDoubling(t *testing.T) {
 	}
 }
 
+// A real voice a just twelfth above the bass (sox: sawtooths on C3, E4 =
+// 5/2 and G4 = 3/1 of it, from the ratios), every partial of G4 on one of
+// C3's, is a voice: C3's partials 3k stand out of their envelope
+// (multipitch/smoothness.go), where a lone voice's own 3rd partial would
+// not. (C3 is marked doubled: G4's even partials lift C3's even ones.)
+func TestAnalyzeVoicesHearsATwelfthAbove(t *testing.T) {
+	_, out := soxVoices(t, "synth 2 sawtooth 130.81 sawtooth 327.025 sawtooth 392.43 remix 1,2,3 gain -8")
+	_, rows := readCSV(t, out)
+	if len(rows) != 3 || rows[0]["note"] != "C3" || rows[1]["note"] != "E4" || rows[2]["note"] != "G4" {
+		t.Errorf("want C3, E4 and G4:\n%s", out)
+	}
+}
+
 // soxVoices makes a 44.1 kHz WAV from sox synth arguments and returns it
 // with what analyze --voices auto prints for it.
 func soxVoices(t *testing.T, synth string) (path, out string) {

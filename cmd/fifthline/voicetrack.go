@@ -66,6 +66,7 @@ type track struct {
 	start   float64 // its first frame
 	count   int     // frames fed
 	doubled int     // frames marked doubled
+	partial int     // frames marked on a lower voice's partials
 	power   float64 // its frames' power (amplitude squared), summed
 	missed  int     // frames in a row without its voice
 	frames  *harmony.Track
@@ -151,6 +152,9 @@ func (tr *tracker) feed(t *track, at float64, v multipitch.Voice) {
 	if v.Doubled {
 		t.doubled++
 	}
+	if v.OnPartials {
+		t.partial++
+	}
 	e := pitchdetect.Estimate{Time: at, Hz: v.Hz, Confidence: 1, Voiced: true, Level: 20 * math.Log10(v.Amplitude+1e-12)}
 	if h, ok := t.seg.Push(e); ok {
 		tr.deliver(t, h)
@@ -174,7 +178,10 @@ func (tr *tracker) deliver(t *track, h pitchdetect.Held) {
 		// knows its window) gives nonsense widths. Its centre stands.
 		h.VibratoWidth, h.VibratoRate = 0, 0
 	}
-	if tr.foldOctave(t, h) {
+	// A note most of whose frames lie on a lower voice's partials, which
+	// stand no higher than that voice's envelope allows, is those partials
+	// (multipitch.Voice.OnPartials): no voice either.
+	if tr.foldOctave(t, h) || t.onPartials() {
 		t.delivered = true // no voice: not counted as one either
 		return
 	}
@@ -191,7 +198,7 @@ func (tr *tracker) deliver(t *track, h pitchdetect.Held) {
 		}
 	}
 	for _, o := range tr.tracks {
-		if o != t && !o.delivered && o.start <= h.Start+together && o.count >= o.seg.MinFrames && o.hz < h.Hz {
+		if o != t && !o.delivered && o.start <= h.Start+together && o.count >= o.seg.MinFrames && o.hz < h.Hz && !o.onPartials() {
 			voice++
 		}
 	}
@@ -206,6 +213,9 @@ type doneNote struct {
 	pitchdetect.Held
 	power float64
 }
+
+// onPartials: most of the track's frames lie on a lower voice's partials.
+func (t *track) onPartials() bool { return 2*t.partial > t.count }
 
 // level is the track's mean power over its frames.
 func (t *track) level() float64 { return t.power / float64(max(t.count, 1)) }

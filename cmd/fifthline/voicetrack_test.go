@@ -2,6 +2,7 @@ package main
 
 import (
 	"math"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -82,6 +83,40 @@ func TestVoiceNotesFollowTheTuningInForce(t *testing.T) {
 	for i, want := range []struct{ a4, cents float64 }{{440, 0}, {442, -7.85}} {
 		if n := got[i]; n.Tuning.A4 != want.a4 || math.Abs(n.Reading.Deviation-want.cents) > 0.01 {
 			t.Errorf("note %d read %+.2f ¢ at A4 = %g Hz, want %+.2f ¢ at %g Hz", i+1, n.Reading.Deviation, n.Tuning.A4, want.cents, want.a4)
+		}
+	}
+}
+
+// A note most of whose frames the estimator marked as lying on a lower
+// voice's partials (multipitch.Voice.OnPartials) is those partials: no
+// note, and no voice in the numbering of the voices above it; one marked
+// in fewer than half its frames is a voice. Frames as above; C3 130.81 Hz,
+// G4 on its 3rd partial 392.44 Hz, E5 659.26 Hz (equal temperament, A4 =
+// 440 Hz, ISO 16).
+func TestVoiceNoteOnALowerVoicesPartials(t *testing.T) {
+	for _, tc := range []struct {
+		name   string
+		marked float64 // share of G4's frames marked
+		want   string
+	}{
+		{"marked in most frames", 0.7, "C3/1 E5/2"},
+		{"marked in a few frames", 0.3, "C3/1 G4/2 E5/3"},
+	} {
+		var notes []string
+		hop, window := 4096/44100.0, 16384/44100.0
+		tr := newTracker("test", fixed(target.Default()), hop, window, func(n voiceNote) {
+			notes = append(notes, n.Reading.Note.String()+"/"+strconv.Itoa(n.voice))
+		})
+		for i := range 30 {
+			tr.push(multipitch.Frame{Time: float64(i) * hop, Voices: []multipitch.Voice{
+				{Hz: 130.81, Amplitude: 0.1},
+				{Hz: 392.44, Amplitude: 0.05, OnPartials: float64(i%10) < 10*tc.marked},
+				{Hz: 659.26, Amplitude: 0.05},
+			}})
+		}
+		tr.flush() // the notes in the order their tracks began
+		if got := strings.Join(notes, " "); got != tc.want {
+			t.Errorf("%s: heard %q, want %q", tc.name, got, tc.want)
 		}
 	}
 }
