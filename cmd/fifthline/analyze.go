@@ -45,6 +45,9 @@ func runAnalyze(e *env, args []string) error {
 	if opt.channel < 1 {
 		return usagef("--channel %d: channels count from 1", opt.channel)
 	}
+	if err := channelOrPlayers(fs); err != nil {
+		return err
+	}
 	tu, err := mf.tuning()
 	if err != nil {
 		return err

@@ -41,7 +41,7 @@ func moved(tu target.Tuning, cents float64) target.Tuning {
 func withDrift(n ensemble.Note, tu target.Tuning, cents float64, known, group bool) playerNote {
 	if known && group {
 		n.Tuning = moved(tu, cents)
-		n.Reading = n.Tuning.Classify(n.Held.Hz)
+		n.Reading = n.Tuning.ReadAs(n.Reading.Note, n.Held.Hz) // spelled as before, its chord's spelling kept
 	}
 	return playerNote{Note: n, drift: cents, known: known}
 }

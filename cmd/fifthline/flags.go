@@ -170,3 +170,14 @@ func orList(words []string) string {
 	}
 	return strings.Join(words[:len(words)-1], ", ") + " or " + words[len(words)-1]
 }
+
+// channelOrPlayers refuses --channel beside --players: the contract's listen
+// takes one of --channel N, --players NAMES and --voices N|auto, and
+// --players already says each player's channel (3=vla,1=vc), so a --channel
+// beside it would be silently ignored.
+func channelOrPlayers(fs *flag.FlagSet) error {
+	if wasSet(fs, "channel") && wasSet(fs, "players") {
+		return usagef("--channel and --players cannot go together: --players says each player's channel (3=vla,1=vc)")
+	}
+	return nil
+}

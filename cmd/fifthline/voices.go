@@ -127,6 +127,7 @@ func analyzeVoices(e *env, vo voiceOptions, files []string, tu target.Tuning, op
 			return errors.Join(err, out.close(), j.close())
 		}
 	}
+	opt.sayTuning()
 	return errors.Join(out.close(), j.close())
 }
 
@@ -145,16 +146,20 @@ func readVoices(e *env, path string, tu target.Tuning, vo voiceOptions, opt anal
 	defer progress.Done()
 	var notes []voiceNote
 	err = hearVoices(e.ctx, w, path, fixed(tu), vo, progress.At, func(n voiceNote) error {
-		j.row(n.Event, n.extra(), start)
 		notes = append(notes, n)
 		return nil
 	})
 	sortVoiceNotes(notes)
-	var chords []harmony.Chord
-	if vo.chords {
-		chords = chordsOf(notes, tu, vo.seventh)
-		logVoiceChords(j, path, tu, chords, notes, start)
+	// The chords spell their members' notes before the notes are journaled.
+	chords := chordsOf(notes, tu, vo.seventh)
+	spellVoicesFromChords(notes, chords)
+	for _, n := range notes {
+		j.row(n.Event, n.extra(), start)
 	}
+	if !vo.chords {
+		chords = nil
+	}
+	logVoiceChords(j, path, tu, chords, notes, start)
 	switch {
 	case errors.Is(err, context.Canceled):
 		return notes, chords, fmt.Errorf("%s: interrupted; the notes before it are written", path)
