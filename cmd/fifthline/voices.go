@@ -106,8 +106,16 @@ func analyzeVoices(e *env, vo voiceOptions, files []string, tu target.Tuning, op
 	if opt.format == "table" {
 		out.title = tu.String()
 	}
+	var drifts []string // the table's line per take
 	for i, path := range files {
 		notes, chords, err := readVoices(e, path, tu, vo, opt, j)
+		evs := make([]session.Event, len(notes))
+		for k, n := range notes {
+			evs[k] = n.Event
+		}
+		// As --players says it: a chord's just thirds are not the take's
+		// drift.
+		drifts = append(drifts, path+": "+eventsDrift(evs, tu, vo.seventh).Words())
 		// What was heard before an interruption is written all the same.
 		if vo.chords {
 			for _, row := range chords {
@@ -128,7 +136,7 @@ func analyzeVoices(e *env, vo voiceOptions, files []string, tu target.Tuning, op
 		}
 	}
 	opt.sayTuning()
-	return errors.Join(out.close(), j.close())
+	return errors.Join(out.close(), tableLines(e, opt.format, drifts), j.close())
 }
 
 // readVoices hears one file's voices, logging each note at the take's start
