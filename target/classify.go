@@ -96,10 +96,17 @@ func (t Tuning) reading(hz, h float64, n Note, target, shift float64) Reading {
 	if r.Alt, r.HasAlt = Alternative(n); !r.HasAlt {
 		return r
 	}
-	altTarget := t.targetPitch(r.Alt, shift)
+	// The other spelling lies the temperament's gap between the two from
+	// the note's target: under a declared chord the member's target is just
+	// above the root, and in equal temperament the G♯ of E major and A♭ are
+	// still one pitch (interface contract, "Alternative spelling").
+	gap := t.tempered(r.Alt) - t.tempered(n)
+	if r.SamePitch = math.Abs(gap) < samePitchCents; r.SamePitch {
+		gap = 0
+	}
+	altTarget := target + gap
 	r.AltHz, r.AltDeviation = t.hz(altTarget), h-altTarget
 	r.AltWritten = t.Transpose.Written(r.Alt)
-	r.SamePitch = math.Abs(altTarget-target) < samePitchCents
 	r.OnOther = !r.SamePitch && SitsOnOther(r.Deviation, r.AltDeviation)
 	return r
 }

@@ -38,3 +38,35 @@ func TestReadAsSpellsTheChordMember(t *testing.T) {
 		t.Errorf("ReadAs of no pitch: %+v", r)
 	}
 }
+
+// Under a declared chord the member's target is just above the root, and
+// its other spelling keeps the temperament's gap from it (interface
+// contract, "Alternative spelling": "in a temperament where both spellings
+// share one pitch it never does"). In equal temperament an equal-tempered
+// G♯4 over a declared E major is 13.69 ¢ above its just target (5/4 =
+// 386.31 ¢ against 400 ¢, from the definitions) and not on A♭4; in ¼-comma
+// meantone A♭4 lies the lesser diesis, 41.059 ¢ (Barbour 1951), above the
+// just G♯4.
+func TestDeclaredChordKeepsTheOtherSpellingsGap(t *testing.T) {
+	chord, err := ParseChord("E major")
+	if err != nil {
+		t.Fatal(err)
+	}
+	tu := tuning(t, "F major", "equal", 440)
+	tu.Chord = chord
+	r := tu.Classify(415.3047)
+	if r.Note.String() != "G#4" || !r.SamePitch || r.OnOther || r.AltDeviation != r.Deviation {
+		t.Errorf("equal: %+v, want G#4 sharing its pitch with Ab4", r)
+	}
+	near(t, "equal-tempered G#4 against just", r.Deviation, 400-Cents(5.0/4), 0.001)
+
+	tu = tuning(t, "F major", "meantone:1/4", 440)
+	tu.Chord = chord
+	just := tu.Target(note(t, "G#4"))
+	r = tu.Classify(just * math.Exp2(41.059/1200))
+	if !r.OnOther || r.SamePitch {
+		t.Errorf("¼-comma, a diesis above the just G#4: %+v, want it on Ab4", r)
+	}
+	near(t, "against Ab4", r.AltDeviation, 0, 0.001)
+	near(t, "against G#4", r.Deviation, 41.059, 0.001)
+}
