@@ -11,6 +11,7 @@ import (
 	"io"
 	"runtime/debug"
 	"strings"
+	"time"
 
 	"fifthline/target"
 	"fifthline/tuningfile"
@@ -52,7 +53,7 @@ func parseFlags(e *env, fs *flag.FlagSet, args []string) ([]string, error) {
 				printUsage(e.stdout, fs)
 				return nil, errHelp
 			}
-			return nil, usagef("%s: %s", fs.Name(), doubleDash.Replace(err.Error()))
+			return nil, usagef("%s: %s", fs.Name(), doubleDash.Replace(withHint(fs, err.Error())))
 		}
 		args = fs.Args()
 		if len(args) == 0 {
@@ -180,4 +181,33 @@ func channelOrPlayers(fs *flag.FlagSet) error {
 		return usagef("--channel and --players cannot go together: --players says each player's channel (3=vla,1=vc)")
 	}
 	return nil
+}
+
+// withHint replaces the flag package's bare "parse error" with what the flag
+// takes: "--duration 5" is refused with "give a duration like 12s or 2m".
+func withHint(fs *flag.FlagSet, msg string) string {
+	rest, ok := strings.CutSuffix(msg, ": parse error")
+	if !ok {
+		return msg
+	}
+	_, name, _ := strings.Cut(rest, " for flag -")
+	f := fs.Lookup(name)
+	if f == nil {
+		return msg
+	}
+	g, ok := f.Value.(flag.Getter)
+	if !ok {
+		return msg
+	}
+	switch g.Get().(type) {
+	case time.Duration:
+		return rest + ": give a duration like 12s or 2m"
+	case float64:
+		return rest + ": give a number"
+	case int, int64, uint, uint64:
+		return rest + ": give a whole number"
+	case bool:
+		return rest + ": give true or false"
+	}
+	return msg
 }
