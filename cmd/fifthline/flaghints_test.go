@@ -16,6 +16,7 @@ func TestBadFlagValuesSayWhatTheFlagTakes(t *testing.T) {
 		{[]string{"listen", "--duration", "5"}, `invalid value "5" for flag --duration: give a duration like 12s or 2m`},
 		{[]string{"drone", "--level", "loud"}, `for flag --level: give a number`},
 		{[]string{"analyze", "--channel", "left", "x.wav"}, `for flag --channel: give a whole number`},
+		{[]string{"listen", "--plain=maybe"}, `invalid boolean value "maybe" for --plain: give true or false`},
 	} {
 		code, out, stderr := runCLI(t, c.args...)
 		checkError(t, code, 2, stderr)

@@ -41,7 +41,7 @@ func newFlags(name string) *flag.FlagSet {
 
 // doubleDash spells flag names in the flag package's messages the way this
 // program documents them, with two dashes.
-var doubleDash = strings.NewReplacer("flag -", "flag --", "argument: -", "argument: --", "defined: -", "defined: --")
+var doubleDash = strings.NewReplacer("flag -", "flag --", "argument: -", "argument: --", "defined: -", "defined: --", "\" for -", "\" for --")
 
 // parseFlags parses flags that may come before, between or after positional
 // arguments, and returns the positional ones. -h prints the command's flags.
@@ -190,7 +190,10 @@ func withHint(fs *flag.FlagSet, msg string) string {
 	if !ok {
 		return msg
 	}
-	_, name, _ := strings.Cut(rest, " for flag -")
+	_, name, ok := strings.Cut(rest, " for flag -")
+	if !ok { // a boolean's: invalid boolean value "maybe" for -plain
+		_, name, _ = strings.Cut(rest, " for -")
+	}
 	f := fs.Lookup(name)
 	if f == nil {
 		return msg
