@@ -75,6 +75,9 @@ func runAnalyze(e *env, args []string) error {
 		return err
 	}
 	for i, path := range files {
+		if tb, ok := out.(interface{ beginTake(string) }); ok {
+			tb.beginTake(path) // its summary line, notes or none
+		}
 		if err := analyzeFile(e, path, tu, opt, out, j); err != nil {
 			if i > 0 || errors.Is(err, errInterrupted) {
 				out.Close() // what was heard before still reaches stdout

@@ -22,3 +22,19 @@ func TestAnalyzeVoicesTableEndsWithTheGroupsDrift(t *testing.T) {
 		t.Errorf("the CSV carries no such line:\n%s", out)
 	}
 }
+
+// analyze --format table ends with one line per take (docs/interface.md,
+// "Additions of this repository"), a take without a held note too: sox's
+// second of silence says so under its name, beside sox's A4 = 440 Hz sine.
+func TestAnalyzeTableHasALineForEveryTake(t *testing.T) {
+	silence := sox(t, "silence.wav", "-r", "48000", "-b", "16", "trim 0 1")
+	a4 := sox(t, "a4.wav", "-r", "48000", "-b", "16", "synth 0.8 sine 440 pad 0.2 0.3")
+	code, out, stderr := runCLI(t, "analyze", "--format", "table", silence, a4)
+	if code != 0 || !strings.HasSuffix(out, "\n"+silence+": no held notes\n"+a4+": 1 of 1 note within ±5 ¢; 0 on the other spelling\n") {
+		t.Errorf("exit %d (%s):\n%s", code, stderr, out)
+	}
+	code, out, _ = runCLI(t, "analyze", "--format", "table", silence)
+	if code != 0 || out != silence+": no held notes\n" {
+		t.Errorf("silence alone: exit %d:\n%s", code, out)
+	}
+}
