@@ -3,7 +3,6 @@ package journal
 import (
 	"math"
 	"slices"
-	"strconv"
 	"time"
 
 	"fifthline/session"
@@ -59,7 +58,7 @@ func (w *Writer) WriteExtra(ev session.Event, x Extra, start time.Time) error {
 func (x Extra) record() []string {
 	just := ""
 	if x.HeardChord != "" && !x.Reference {
-		just = strconv.FormatFloat(x.JustCents, 'f', 2, 64)
+		just = target.Decimal(x.JustCents, 2)
 	}
 	return []string{x.Voice, x.HeardChord, x.Member, just}
 }

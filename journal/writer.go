@@ -303,7 +303,8 @@ func (w *Writer) line(ev session.Event, x Extra, at time.Time) []byte {
 		player = ev.Player // one of several players heard at once
 	}
 	rec := append([]string{
-		at.Format(TimeLayout), w.meta.Session, ev.Source, player, tu.Key.String(), temperament,
+		at.Round(time.Millisecond).Format(TimeLayout), // rounded, as start_s is
+		w.meta.Session, ev.Source, player, tu.Key.String(), temperament,
 		strconv.FormatFloat(tu.A4, 'f', -1, 64), tu.Transpose.Name, chord,
 	}, ev.Record(false)...)
 	rec = append(rec, x.record()...)

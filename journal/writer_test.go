@@ -243,3 +243,18 @@ func TestStatusCountsNotes(t *testing.T) {
 	}
 	w.Close()
 }
+
+// The time column agrees with start_s to the millisecond: both are rounded,
+// so a note 2.3946 s into a take is at .395 in each (a script that joins
+// them finds the same instant).
+func TestWriterTimeRoundsAsStartDoes(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "j.csv")
+	w, _ := Open(path, Meta{Now: (&clock{opening}).now})
+	played := time.Date(2026, 2, 3, 19, 30, 5, 0, time.UTC)
+	w.WriteAt(heldAt(0, 2.3946, 4, "take.wav"), played)
+	w.Close()
+	data, _ := os.ReadFile(path)
+	if !strings.Contains(string(data), "2026-02-03T19:30:07.395Z,") || !strings.Contains(string(data), ",2.395,") {
+		t.Errorf("want time .395 beside start_s 2.395:\n%s", data)
+	}
+}

@@ -163,12 +163,16 @@ func plotTitle(entries []journal.Entry, groups []Group, opt Options) [2]string {
 		return [2]string{groups[0].Title(), sub}
 	}
 	players, tunings := map[string]bool{}, map[tuningOf]bool{}
+	who := "voice" // one microphone's voices are not players; any player named makes them players
 	for _, g := range groups {
 		players[g.Who()] = true
 		tunings[tuningOf{key: g.Key, temperament: g.Temperament, a4: g.A4, transpose: g.Transpose, chord: g.Chord}] = true
+		if g.Voice == "" || g.Player != "" {
+			who = "player"
+		}
 	}
-	return [2]string{fmt.Sprintf("Rehearsal report: %s, %s (a row for each player in each tuning)",
-		plural(len(players), "player"), plural(len(tunings), "tuning")), sub}
+	return [2]string{fmt.Sprintf("Rehearsal report: %s, %s (a row for each %s in each tuning)",
+		plural(len(players), who), plural(len(tunings), "tuning"), who), sub}
 }
 
 // rowTitle is the height of the line naming a row's player and tuning.

@@ -12,6 +12,9 @@ import (
 	"regexp"
 	"strings"
 	"testing"
+	"time"
+
+	"fifthline/journal"
 )
 
 func sampleGroups() ([]Group, Options) {
@@ -243,5 +246,19 @@ func TestPlotRefusesOtherFormats(t *testing.T) {
 	groups, opt := sampleGroups()
 	if err := Plot(io.Discard, "gif", sampleEntries(), groups, opt); err == nil {
 		t.Error("drew a gif")
+	}
+}
+
+// One microphone's voices are voices, not players, in the plot's title:
+// "2 voices" for a duet read with --voices; with a player named, players.
+func TestPlotTitleCountsVoicesAsVoices(t *testing.T) {
+	es := []journal.Entry{{Time: time.Date(2026, 11, 24, 19, 30, 0, 0, time.UTC)}}
+	voices := []Group{{Voice: "1", Key: "C major"}, {Voice: "2", Key: "C major"}}
+	if got := plotTitle(es, voices, Options{Tolerance: 5})[0]; got != "Rehearsal report: 2 voices, 1 tuning (a row for each voice in each tuning)" {
+		t.Errorf("voices: %q", got)
+	}
+	players := []Group{{Player: "vc", Key: "C major"}, {Voice: "2", Key: "C major"}}
+	if got := plotTitle(es, players, Options{Tolerance: 5})[0]; got != "Rehearsal report: 2 players, 1 tuning (a row for each player in each tuning)" {
+		t.Errorf("players: %q", got)
 	}
 }

@@ -1,6 +1,8 @@
 package report
 
 import (
+	"strings"
+
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/plotter"
 )
@@ -13,11 +15,7 @@ func rolesPanel(g Group, opt Options) (*plot.Plot, error) {
 	var m meanScatter
 	labels := make([]string, len(g.Roles))
 	for i, r := range g.Roles {
-		name := r.Member
-		if name == "root" {
-			name = "doubled root" // an octave of the lowest
-		}
-		labels[i] = name + "\n" + r.Quality + "\n" + plural(r.Count, "chord")
+		labels[i] = roleLabel(r)
 		m.XYs = append(m.XYs, plotter.XY{X: float64(i), Y: r.Mean})
 		m.err = append(m.err, r.Scatter)
 	}
@@ -25,4 +23,14 @@ func rolesPanel(g Group, opt Options) (*plot.Plot, error) {
 		return nil, err
 	}
 	return p, nil
+}
+
+// roleLabel is a role's tick label, a word a line: on one line each,
+// "dominant seventh" beside "doubled root" ran into its neighbour.
+func roleLabel(r Role) string {
+	name := r.Member
+	if name == "root" {
+		name = "doubled root" // an octave of the lowest
+	}
+	return strings.ReplaceAll(name+"\n"+r.Quality, " ", "\n") + "\n" + plural(r.Count, "chord")
 }

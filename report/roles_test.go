@@ -99,3 +99,22 @@ func TestPlotShowsChordRoles(t *testing.T) {
 		}
 	}
 }
+
+// The plot's chord-role labels put a word on each line, so that two roles
+// side by side ("doubled root" of a major chord beside the seventh of a
+// dominant seventh) do not run into each other (issue: the plot "does not
+// overlap its labels").
+func TestRoleLabelsAWordALine(t *testing.T) {
+	for _, c := range []struct {
+		r    Role
+		want string
+	}{
+		{Role{Member: "root", Quality: "major", Count: 1}, "doubled\nroot\nmajor\n1 chord"},
+		{Role{Member: "seventh", Quality: "dominant seventh", Count: 3}, "seventh\ndominant\nseventh\n3 chords"},
+		{Role{Member: "third", Quality: "half-diminished seventh", Count: 2}, "third\nhalf-diminished\nseventh\n2 chords"},
+	} {
+		if got := roleLabel(c.r); got != c.want {
+			t.Errorf("%+v: %q, want %q", c.r, got, c.want)
+		}
+	}
+}

@@ -67,15 +67,46 @@ func (t Tuning) Classify(hz float64) Reading {
 			best, bestTarget, bestDist = n, c, d
 		}
 	}
-	r := Reading{Hz: hz, Note: best, TargetHz: t.hz(bestTarget), Deviation: h - bestTarget}
+	return t.reading(hz, h, best, bestTarget, shift)
+}
+
+// ReadAs reads a measured frequency (hertz, > 0) as the note n is spelled,
+// in n's octave nearest the pitch, with its other spelling as Classify
+// gives it: a chord member spelled from its root (G♯ as the third of E major
+// in F major, interface contract, "Spelling window") rather than as the
+// window spells its pitch class. A non-positive or non-finite frequency
+// gives the zero Reading.
+func (t Tuning) ReadAs(n Note, hz float64) Reading {
+	if !(hz > 0) || math.IsInf(hz, 0) {
+		return Reading{}
+	}
+	h := Cents(hz / t.c4())
+	shift := t.shift()
+	c := t.targetPitch(n, shift)
+	k := math.Round((h - c) / 1200)
+	n.Octave += int(k)
+	return t.reading(hz, h, n, c+1200*k, shift)
+}
+
+// reading is the Reading of the pitch h (cents above the reference's
+// equal-tempered C4) read as note n, whose target is at pitch target.
+func (t Tuning) reading(hz, h float64, n Note, target, shift float64) Reading {
+	r := Reading{Hz: hz, Note: n, TargetHz: t.hz(target), Deviation: h - target}
 	r.Written = t.Transpose.Written(r.Note)
-	if r.Alt, r.HasAlt = Alternative(best); !r.HasAlt {
+	if r.Alt, r.HasAlt = Alternative(n); !r.HasAlt {
 		return r
 	}
-	altTarget := t.targetPitch(r.Alt, shift)
+	// The other spelling lies the temperament's gap between the two from
+	// the note's target: under a declared chord the member's target is just
+	// above the root, and in equal temperament the G♯ of E major and A♭ are
+	// still one pitch (interface contract, "Alternative spelling").
+	gap := t.tempered(r.Alt) - t.tempered(n)
+	if r.SamePitch = math.Abs(gap) < samePitchCents; r.SamePitch {
+		gap = 0
+	}
+	altTarget := target + gap
 	r.AltHz, r.AltDeviation = t.hz(altTarget), h-altTarget
 	r.AltWritten = t.Transpose.Written(r.Alt)
-	r.SamePitch = math.Abs(altTarget-bestTarget) < samePitchCents
 	r.OnOther = !r.SamePitch && SitsOnOther(r.Deviation, r.AltDeviation)
 	return r
 }

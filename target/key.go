@@ -53,6 +53,13 @@ func ParseKey(s string) (Key, error) {
 	}
 	tonic, err := ParseName(fields[0])
 	if err != nil {
+		// Chord-symbol shorthand ("F#m", "Bbm") is a common way to write a
+		// minor key; point to the words rather than guess at the mode.
+		if head, ok := strings.CutSuffix(fields[0], "m"); ok && len(fields) == 1 {
+			if n, err := ParseName(head); err == nil {
+				return Key{}, fmt.Errorf("key %q: write the mode as a word: %q", s, n.Name()+" minor")
+			}
+		}
 		return Key{}, fmt.Errorf("key %q: %v", s, err)
 	}
 	if tonic.Accidental < -1 || tonic.Accidental > 1 {

@@ -157,3 +157,17 @@ func TestABareSmallLetterAsksWhichMode(t *testing.T) {
 		}
 	}
 }
+
+// Chord-symbol shorthand for a minor key ("F#m", "Bbm"; common practice in
+// lead sheets) is refused, as the contract's key is a tonic then a mode
+// word, with a hint that names the key in words.
+func TestChordSymbolKeyAsksForTheModeInWords(t *testing.T) {
+	for in, hint := range map[string]string{
+		"F#m": `write the mode as a word: "F# minor"`, "Bbm": `write the mode as a word: "Bb minor"`, "Cm": `"C minor"`,
+	} {
+		_, err := ParseKey(in)
+		if err == nil || !strings.Contains(err.Error(), hint) {
+			t.Errorf("ParseKey(%q): %v, want the hint %s", in, err, hint)
+		}
+	}
+}

@@ -31,7 +31,7 @@ func runAnalyze(e *env, args []string) error {
 	format := choiceFlag(fs, "format", "what to print", "csv", "table", "json")
 	fs.BoolVar(&opt.frames, "frames", false, "print the frame track (time_s,hz,confidence…) instead of held notes")
 	fs.IntVar(&opt.channel, "channel", 1, "channel to read, counted from 1")
-	fs.Var(&opt.recorded, "recorded", "when the take was played (2026-11-24, \"2026-11-24 19:30\" or RFC 3339), for the journal; with several files, each began then; default: each file's Broadcast Wave bext time, else its modification time")
+	fs.Var(&opt.recorded, "recorded", "when the take was played (2026-11-24, 19:30 on the file's own date, \"2026-11-24 19:30\" or RFC 3339), for the journal; with several files, each began then; default: each file's Broadcast Wave bext time, else its modification time")
 	jf := addJournalFlags(fs)
 	players := addPlayersFlag(fs)
 	vf := addVoiceFlags(fs)
@@ -44,6 +44,9 @@ func runAnalyze(e *env, args []string) error {
 	}
 	if opt.channel < 1 {
 		return usagef("--channel %d: channels count from 1", opt.channel)
+	}
+	if err := channelOrPlayers(fs); err != nil {
+		return err
 	}
 	tu, err := mf.tuning()
 	if err != nil {
@@ -72,6 +75,9 @@ func runAnalyze(e *env, args []string) error {
 		return err
 	}
 	for i, path := range files {
+		if tb, ok := out.(interface{ beginTake(string) }); ok {
+			tb.beginTake(path) // its summary line, notes or none
+		}
 		if err := analyzeFile(e, path, tu, opt, out, j); err != nil {
 			if i > 0 || errors.Is(err, errInterrupted) {
 				out.Close() // what was heard before still reaches stdout

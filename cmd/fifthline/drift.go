@@ -6,6 +6,7 @@ import (
 	"math"
 
 	"fifthline/ensemble"
+	"fifthline/session"
 	"fifthline/target"
 )
 
@@ -41,7 +42,7 @@ func moved(tu target.Tuning, cents float64) target.Tuning {
 func withDrift(n ensemble.Note, tu target.Tuning, cents float64, known, group bool) playerNote {
 	if known && group {
 		n.Tuning = moved(tu, cents)
-		n.Reading = n.Tuning.Classify(n.Held.Hz)
+		n.Reading = n.Tuning.ReadAs(n.Reading.Note, n.Held.Hz) // spelled as before, its chord's spelling kept
 	}
 	return playerNote{Note: n, drift: cents, known: known}
 }
@@ -56,9 +57,19 @@ func (n playerNote) driftField() string {
 
 // takeDrift reads the group's drift over one take's notes.
 func takeDrift(notes []ensemble.Note, tu target.Tuning, seventh float64) ensemble.TakeDrift {
-	s := make([]ensemble.Sounding, len(notes))
+	evs := make([]session.Event, len(notes))
 	for i, n := range notes {
-		s[i] = ensemble.Sounding{Start: n.Held.Start, End: n.Held.End, Hz: n.Held.Hz}
+		evs[i] = n.Event
+	}
+	return eventsDrift(evs, tu, seventh)
+}
+
+// eventsDrift reads the group's drift over held notes, whoever played them
+// (players' or voices').
+func eventsDrift(evs []session.Event, tu target.Tuning, seventh float64) ensemble.TakeDrift {
+	s := make([]ensemble.Sounding, len(evs))
+	for i, ev := range evs {
+		s[i] = ensemble.Sounding{Start: ev.Held.Start, End: ev.Held.End, Hz: ev.Held.Hz}
 	}
 	return ensemble.DriftOver(s, tu, seventh)
 }

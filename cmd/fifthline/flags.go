@@ -11,6 +11,7 @@ import (
 	"io"
 	"runtime/debug"
 	"strings"
+	"time"
 
 	"fifthline/target"
 	"fifthline/tuningfile"
@@ -40,7 +41,7 @@ func newFlags(name string) *flag.FlagSet {
 
 // doubleDash spells flag names in the flag package's messages the way this
 // program documents them, with two dashes.
-var doubleDash = strings.NewReplacer("flag -", "flag --", "argument: -", "argument: --", "defined: -", "defined: --")
+var doubleDash = strings.NewReplacer("flag -", "flag --", "argument: -", "argument: --", "defined: -", "defined: --", "\" for -", "\" for --")
 
 // parseFlags parses flags that may come before, between or after positional
 // arguments, and returns the positional ones. -h prints the command's flags.
@@ -52,7 +53,7 @@ func parseFlags(e *env, fs *flag.FlagSet, args []string) ([]string, error) {
 				printUsage(e.stdout, fs)
 				return nil, errHelp
 			}
-			return nil, usagef("%s: %s", fs.Name(), doubleDash.Replace(err.Error()))
+			return nil, usagef("%s: %s", fs.Name(), doubleDash.Replace(withHint(fs, err.Error())))
 		}
 		args = fs.Args()
 		if len(args) == 0 {
@@ -169,4 +170,47 @@ func orList(words []string) string {
 		return strings.Join(words, "")
 	}
 	return strings.Join(words[:len(words)-1], ", ") + " or " + words[len(words)-1]
+}
+
+// channelOrPlayers refuses --channel beside --players: the contract's listen
+// takes one of --channel N, --players NAMES and --voices N|auto, and
+// --players already says each player's channel (3=vla,1=vc), so a --channel
+// beside it would be silently ignored.
+func channelOrPlayers(fs *flag.FlagSet) error {
+	if wasSet(fs, "channel") && wasSet(fs, "players") {
+		return usagef("--channel and --players cannot go together: --players says each player's channel (3=vla,1=vc)")
+	}
+	return nil
+}
+
+// withHint replaces the flag package's bare "parse error" with what the flag
+// takes: "--duration 5" is refused with "give a duration like 12s or 2m".
+func withHint(fs *flag.FlagSet, msg string) string {
+	rest, ok := strings.CutSuffix(msg, ": parse error")
+	if !ok {
+		return msg
+	}
+	_, name, ok := strings.Cut(rest, " for flag -")
+	if !ok { // a boolean's: invalid boolean value "maybe" for -plain
+		_, name, _ = strings.Cut(rest, " for -")
+	}
+	f := fs.Lookup(name)
+	if f == nil {
+		return msg
+	}
+	g, ok := f.Value.(flag.Getter)
+	if !ok {
+		return msg
+	}
+	switch g.Get().(type) {
+	case time.Duration:
+		return rest + ": give a duration like 12s or 2m"
+	case float64:
+		return rest + ": give a number"
+	case int, int64, uint, uint64:
+		return rest + ": give a whole number"
+	case bool:
+		return rest + ": give true or false"
+	}
+	return msg
 }

@@ -8,6 +8,7 @@ import (
 	"strconv"
 
 	"fifthline/session"
+	"fifthline/target"
 )
 
 // frameColumns is the frame track's header: the contract's time_s, hz,
@@ -54,7 +55,7 @@ func (c *csvFrames) Frame(path string, f session.Frame) {
 	if f.Voiced {
 		rec[1] = strconv.FormatFloat(f.Hz, 'f', 4, 64)
 		rec[5] = f.Reading.Written.String()
-		rec[6] = strconv.FormatFloat(f.Reading.Deviation, 'f', 2, 64)
+		rec[6] = target.Decimal(f.Reading.Deviation, 2)
 	}
 	if c.withFile {
 		rec = append([]string{path}, rec...)
@@ -108,7 +109,7 @@ func (t *tableFrames) Frame(_ string, f session.Frame) {
 	}
 	hz, note, cents := "", "", ""
 	if f.Voiced {
-		hz, note, cents = strconv.FormatFloat(f.Hz, 'f', 4, 64), f.Reading.Written.String(), strconv.FormatFloat(f.Reading.Deviation, 'f', 2, 64)
+		hz, note, cents = strconv.FormatFloat(f.Hz, 'f', 4, 64), f.Reading.Written.String(), target.Decimal(f.Reading.Deviation, 2)
 	}
 	t.row(strconv.FormatFloat(f.Time, 'f', 4, 64), hz, strconv.FormatFloat(f.Confidence, 'f', 3, 64), note, cents)
 }

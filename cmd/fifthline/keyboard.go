@@ -30,7 +30,10 @@ func runKeyboard(e *env, args []string) error {
 		return usagef("keyboard takes no file arguments (got %q); the file goes after --output", pos[0])
 	}
 	ext := strings.ToLower(filepath.Ext(*output))
-	if *output == "" || (ext != ".syx" && ext != ".mid") {
+	// --format alone asks for the table alone: a player checking what the
+	// keys will play before writing the file.
+	tableOnly := *output == "" && *format != ""
+	if !tableOnly && (*output == "" || (ext != ".syx" && ext != ".mid")) {
 		return usagef("--output %q: name a .syx or .mid file", *output)
 	}
 	tu, err := mf.tuning()
@@ -49,12 +52,14 @@ func runKeyboard(e *env, args []string) error {
 	if ext == ".mid" {
 		data = keyboardFile(msgs, *form != "octave")
 	}
-	if err := os.WriteFile(*output, data, 0o644); err != nil {
-		var pe *os.PathError
-		if errors.As(err, &pe) {
-			err = pe.Err
+	if !tableOnly {
+		if err := os.WriteFile(*output, data, 0o644); err != nil {
+			var pe *os.PathError
+			if errors.As(err, &pe) {
+				err = pe.Err
+			}
+			return fmt.Errorf("cannot write %s: %v", *output, err)
 		}
-		return fmt.Errorf("cannot write %s: %v", *output, err)
 	}
 	// Said once it worked, so an error stays the only line on stderr.
 	mf.say(e.stderr, tu)
@@ -64,7 +69,9 @@ func runKeyboard(e *env, args []string) error {
 	if lo, hi := kb.clamped(); lo+hi > 0 {
 		fmt.Fprintf(e.stderr, "%d of the 128 keys (%d at the bottom, %d at the top) lie outside the standard's 8.18–13289.73 Hz and sound at its nearest end\n", lo+hi, lo, hi)
 	}
-	fmt.Fprintf(e.stderr, "wrote %s: %s\n", *output, describeForm(*form, len(msgs), ext == ".mid"))
+	if !tableOnly {
+		fmt.Fprintf(e.stderr, "wrote %s: %s\n", *output, describeForm(*form, len(msgs), ext == ".mid"))
+	}
 	return nil
 }
 

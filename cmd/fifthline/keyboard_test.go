@@ -187,7 +187,8 @@ func TestKeyboardTableNamesEachKeysSpelling(t *testing.T) {
 }
 
 // Without --format the table goes to stderr, beside the file; with --format
-// table to stdout.
+// table to stdout; with --format and no --output, the table alone
+// (docs/interface.md, "Additions of this repository").
 func TestKeyboardTableGoesToStderrUnlessAsked(t *testing.T) {
 	path := filepath.Join(t.TempDir(), "organ.syx")
 	musical := []string{"--key", "G major", "--temperament", "meantone:1/4", "--a4", "415"}
@@ -198,6 +199,12 @@ func TestKeyboardTableGoesToStderrUnlessAsked(t *testing.T) {
 	code, out, stderr = runCLI(t, append([]string{"keyboard", "--format", "table", "--output", path}, musical...)...)
 	if code != 0 || !strings.Contains(out, "D#4") || strings.Contains(stderr, "D#4") {
 		t.Errorf("--format table: exit %d, stdout:\n%s\nstderr:\n%s", code, out, stderr)
+	}
+	// --format without --output: the table alone, no file written.
+	os.Remove(path)
+	code, out, stderr = runCLI(t, append([]string{"keyboard", "--format", "csv"}, musical...)...)
+	if _, err := os.Stat(path); code != 0 || !strings.Contains(out, ",D#4,") || strings.Contains(stderr, "wrote") || err == nil {
+		t.Errorf("--format csv alone: exit %d, stdout:\n%s\nstderr:\n%s", code, out, stderr)
 	}
 }
 

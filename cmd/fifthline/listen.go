@@ -54,6 +54,9 @@ func runListen(e *env, args []string) error {
 	if err := sf.check(); err != nil {
 		return err
 	}
+	if err := channelOrPlayers(fs); err != nil {
+		return err
+	}
 	tu, err := mf.tuning()
 	if err != nil {
 		return err

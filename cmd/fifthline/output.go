@@ -11,6 +11,7 @@ import (
 	"encoding/json"
 	"fmt"
 	"io"
+	"slices"
 	"strconv"
 	"text/tabwriter"
 
@@ -216,9 +217,7 @@ func (t *tableNotes) Note(ev session.Event) error {
 		fmt.Fprintln(t.tab, head)
 		t.notes = map[string][]session.Event{}
 	}
-	if _, ok := t.notes[ev.Source]; !ok {
-		t.takes = append(t.takes, ev.Source)
-	}
+	t.beginTake(ev.Source)
 	t.notes[ev.Source] = append(t.notes[ev.Source], ev)
 	r := ev.Reading
 	line := fmt.Sprintf("%7.2f\t%7.2f\t%s\t%.2f\t%s\t%s\t", ev.Start, ev.End, r.Written, r.Hz, target.FormatCents(r.Deviation, 1), r.OtherWords())
@@ -229,15 +228,25 @@ func (t *tableNotes) Note(ev session.Event) error {
 	return err
 }
 
+// beginTake registers a take before its notes, so that a take with none
+// still gets its line ("FILE: no held notes").
+func (t *tableNotes) beginTake(src string) {
+	if !slices.Contains(t.takes, src) {
+		t.takes = append(t.takes, src)
+	}
+}
+
 func (t *tableNotes) Close() error {
-	if t.notes == nil {
+	switch {
+	case t.notes == nil && len(t.takes) == 0:
 		_, err := fmt.Fprintln(t.out, "no held notes")
 		return err
+	case t.notes != nil:
+		if err := t.tab.Flush(); err != nil {
+			return err
+		}
+		fmt.Fprintln(t.out)
 	}
-	if err := t.tab.Flush(); err != nil {
-		return err
-	}
-	fmt.Fprintln(t.out)
 	for _, src := range t.takes {
 		if _, err := fmt.Fprintf(t.out, "%s: %s\n", src, takeSummary(t.notes[src])); err != nil {
 			return err

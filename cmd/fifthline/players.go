@@ -193,7 +193,6 @@ func readPlayers(e *env, path string, tu target.Tuning, po playerOptions, opt an
 		o := ensemble.Options{Name: path, Players: po.players, Tunings: session.NewTunings(tu), Bleed: &learned}
 		if pass == 1 {
 			o.OnNote = func(n ensemble.Note) error {
-				j.noteAt(n.Event, start)
 				notes = append(notes, n)
 				return nil
 			}
@@ -213,11 +212,17 @@ func readPlayers(e *env, path string, tu target.Tuning, po playerOptions, opt an
 		}
 	}
 	sortPlayerNotes(notes)
-	var chords []ensemble.Chord
-	if po.chords { // the chords heard before an interruption too
-		chords = ensemble.Chords(notes, tracks, po.players, tu, po.seventh)
-		logChords(j, path, tu, chords, start)
+	// The chords heard before an interruption too; they spell their
+	// members' notes before the notes are journaled.
+	chords := ensemble.Chords(notes, tracks, po.players, tu, po.seventh)
+	spellPlayersFromChords(notes, chords)
+	for _, n := range notes {
+		j.noteAt(n.Event, start)
 	}
+	if !po.chords {
+		chords = nil
+	}
+	logChords(j, path, tu, chords, start)
 	switch {
 	case errors.Is(runErr, context.Canceled):
 		return notes, chords, fmt.Errorf("%s: interrupted; the notes before it are written", path)

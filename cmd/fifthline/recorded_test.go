@@ -103,11 +103,15 @@ func TestAnalyzeLogsAPlainTakeAtItsFileTime(t *testing.T) {
 	}
 	starts, offsets := loggedTimes(t, take)
 	checkStarts(t, "modification time", starts, offsets, mtime)
+	// A time of day alone (the contract's --recorded DATE|TIME) is on the
+	// file's own date: a take analysed the evening it was played.
+	starts, offsets = loggedTimes(t, "--recorded", "19:05", take)
+	checkStarts(t, "--recorded 19:05", starts, offsets, time.Date(2026, 10, 6, 19, 5, 0, 0, time.Local))
 }
 
 func TestAnalyzeRecordedThatIsNoTimeIsAUsageError(t *testing.T) {
 	take := twoNotes(t)
-	for _, bad := range []string{"yesterday", "24.11.2026", "2026-11-31", "2026-11-24 25:00"} {
+	for _, bad := range []string{"yesterday", "24.11.2026", "2026-11-31", "2026-11-24 25:00", "25:00", "19:30 tonight"} {
 		code, stdout, stderr := runCLI(t, "analyze", "--recorded", bad, take)
 		checkError(t, code, 2, stderr)
 		if stdout != "" || !strings.Contains(stderr, "--recorded") {

@@ -106,8 +106,16 @@ func analyzeVoices(e *env, vo voiceOptions, files []string, tu target.Tuning, op
 	if opt.format == "table" {
 		out.title = tu.String()
 	}
+	var drifts []string // the table's line per take
 	for i, path := range files {
 		notes, chords, err := readVoices(e, path, tu, vo, opt, j)
+		evs := make([]session.Event, len(notes))
+		for k, n := range notes {
+			evs[k] = n.Event
+		}
+		// As --players says it: a chord's just thirds are not the take's
+		// drift.
+		drifts = append(drifts, path+": "+eventsDrift(evs, tu, vo.seventh).Words())
 		// What was heard before an interruption is written all the same.
 		if vo.chords {
 			for _, row := range chords {
@@ -127,7 +135,8 @@ func analyzeVoices(e *env, vo voiceOptions, files []string, tu target.Tuning, op
 			return errors.Join(err, out.close(), j.close())
 		}
 	}
-	return errors.Join(out.close(), j.close())
+	opt.sayTuning()
+	return errors.Join(out.close(), tableLines(e, opt.format, drifts), j.close())
 }
 
 // readVoices hears one file's voices, logging each note at the take's start
@@ -145,16 +154,20 @@ func readVoices(e *env, path string, tu target.Tuning, vo voiceOptions, opt anal
 	defer progress.Done()
 	var notes []voiceNote
 	err = hearVoices(e.ctx, w, path, fixed(tu), vo, progress.At, func(n voiceNote) error {
-		j.row(n.Event, n.extra(), start)
 		notes = append(notes, n)
 		return nil
 	})
 	sortVoiceNotes(notes)
-	var chords []harmony.Chord
-	if vo.chords {
-		chords = chordsOf(notes, tu, vo.seventh)
-		logVoiceChords(j, path, tu, chords, notes, start)
+	// The chords spell their members' notes before the notes are journaled.
+	chords := chordsOf(notes, tu, vo.seventh)
+	spellVoicesFromChords(notes, chords)
+	for _, n := range notes {
+		j.row(n.Event, n.extra(), start)
 	}
+	if !vo.chords {
+		chords = nil
+	}
+	logVoiceChords(j, path, tu, chords, notes, start)
 	switch {
 	case errors.Is(err, context.Canceled):
 		return notes, chords, fmt.Errorf("%s: interrupted; the notes before it are written", path)

@@ -1,0 +1,40 @@
+package main
+
+import (
+	"strings"
+	"testing"
+)
+
+// analyze --voices --format table ends, as --players does, with the take's
+// group-drift line (docs/interface.md, "Additions of this repository"): a
+// just chord's thirds, 13.7 ¢ off equal temperament (386.31 − 400 ¢, from the
+// definitions), are the chord's tuning, not the take's drift. sox's chord is
+// C4, a just E4 (327.0375 = 261.63·5/4) and G4 (392.445 = 261.63·3/2).
+func TestAnalyzeVoicesTableEndsWithTheGroupsDrift(t *testing.T) {
+	path := sox(t, "chord.wav", "-r", "44100", "-b", "16", "synth 2 sawtooth 261.63 sawtooth 327.0375 sawtooth 392.445 remix 1,2,3 gain -8")
+	code, out, stderr := runCLI(t, "analyze", "--voices", "auto", "--format", "table", path)
+	lines := strings.Split(strings.TrimRight(out, "\n"), "\n")
+	if last := lines[len(lines)-1]; code != 0 || !strings.HasPrefix(last, path+": group drift ") || !strings.Contains(last, "thirds 0.0 ¢") {
+		t.Errorf("exit %d (%s), last line %q, want the group's drift with thirds 0.0 ¢ from just:\n%s", code, stderr, last, out)
+	}
+	code, out, _ = runCLI(t, "analyze", "--voices", "auto", "--format", "csv", path)
+	if code != 0 || strings.Contains(out, "group drift") {
+		t.Errorf("the CSV carries no such line:\n%s", out)
+	}
+}
+
+// analyze --format table ends with one line per take (docs/interface.md,
+// "Additions of this repository"), a take without a held note too: sox's
+// second of silence says so under its name, beside sox's A4 = 440 Hz sine.
+func TestAnalyzeTableHasALineForEveryTake(t *testing.T) {
+	silence := sox(t, "silence.wav", "-r", "48000", "-b", "16", "trim 0 1")
+	a4 := sox(t, "a4.wav", "-r", "48000", "-b", "16", "synth 0.8 sine 440 pad 0.2 0.3")
+	code, out, stderr := runCLI(t, "analyze", "--format", "table", silence, a4)
+	if code != 0 || !strings.HasSuffix(out, "\n"+silence+": no held notes\n"+a4+": 1 of 1 note within ±5 ¢; 0 on the other spelling\n") {
+		t.Errorf("exit %d (%s):\n%s", code, stderr, out)
+	}
+	code, out, _ = runCLI(t, "analyze", "--format", "table", silence)
+	if code != 0 || out != silence+": no held notes\n" {
+		t.Errorf("silence alone: exit %d:\n%s", code, out)
+	}
+}
