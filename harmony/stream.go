@@ -15,9 +15,9 @@ type Stream struct {
 	Seventh float64 // the minor seventh's just ratio
 	// Join, if set, joins notes before their chords are found (a voice
 	// lost for a moment under a chord), a note to one starting less than
-	// Reach seconds after it ends: notes are kept that long past what the
-	// chords to come need, and horizons given to Ready must be that much
-	// earlier than the earliest start to come.
+	// Reach seconds after it ends: a note still to come may then change
+	// the chords Reach seconds before it, and notes are kept that long
+	// past what the chords to come need.
 	Join  func([]Note) []Note
 	Reach float64
 	notes []Note
@@ -48,6 +48,7 @@ func (s *Stream) Ready(horizon float64, tuning func(at float64) target.Tuning) (
 	if !s.begun {
 		s.from, s.begun = math.Inf(-1), true
 	}
+	horizon -= s.Reach
 	if horizon <= s.from {
 		return nil, nil
 	}
@@ -81,5 +82,10 @@ func (s *Stream) Ready(horizon float64, tuning func(at float64) target.Tuning) (
 	}
 	s.from = next
 	s.notes = slices.DeleteFunc(slices.Clone(s.notes), func(n Note) bool { return n.End <= next-s.Reach })
+	for _, n := range s.notes {
+		if n.Frames != nil {
+			n.Frames.Forget(next)
+		}
+	}
 	return out, notes
 }
