@@ -1,6 +1,7 @@
 package harmony
 
 import (
+	"cmp"
 	"math"
 	"math/rand/v2"
 	"slices"
@@ -44,7 +45,7 @@ func TestStreamGivesTheChordsFindGives(t *testing.T) {
 		t.Fatalf("only %d chords in the scenario", len(want))
 	}
 	byEnd := slices.Clone(notes)
-	slices.SortFunc(byEnd, func(a, b Note) int { return cmpFloat(a.End, b.End) })
+	slices.SortFunc(byEnd, func(a, b Note) int { return cmp.Compare(a.End, b.End) })
 	s := Stream{Seventh: target.DefaultSeventh}
 	var got []Chord
 	var members [][]string
@@ -91,16 +92,6 @@ func TestStreamGivesTheChordsFindGives(t *testing.T) {
 	if most > 12 {
 		t.Errorf("the stream kept up to %d of the %d notes; it needs only those of open chords", most, len(notes))
 	}
-}
-
-func cmpFloat(a, b float64) int {
-	switch {
-	case a < b:
-		return -1
-	case a > b:
-		return 1
-	}
-	return 0
 }
 
 // Each chord is named in the tuning in force at its end, however late it

@@ -280,14 +280,15 @@ func playerLatencies(b *testing.B, path string, played time.Time, cycles int) (t
 }
 
 // soakPlayers streams the cycle without a break (sox's repeat into pacat,
-// whose channel map is the sink's, so nothing is remixed) for length.
-func soakPlayers(b *testing.B, length time.Duration, meter bool) {
+// whose channel map is the sink's, so nothing is remixed) for length; args
+// are listen's further flags.
+func soakPlayers(b *testing.B, length time.Duration, meter bool, args ...string) {
 	cycles := int(math.Ceil(length.Seconds() / cycleSeconds))
 	mic := vmic.IsolateChannels(b, fourChannels...)
 	cycle := quartetCycleWAV(b, 1)
 	journal := filepath.Join(b.TempDir(), "journal.csv")
 	l := startPlayersListener(b, meter, []string{"PULSE_SOURCE=" + mic.Source, "PULSE_SINK=" + mic.Sink},
-		"--log", journal, "--duration", (length + 5*time.Minute).String())
+		append(args, "--log", journal, "--duration", (length+5*time.Minute).String())...)
 	time.Sleep(500 * time.Millisecond)
 	src := exec.Command("sox", cycle, "-t", "raw", "-e", "signed-integer", "-b", "16", "-", "repeat", strconv.Itoa(cycles-1))
 	sink := exec.Command("pacat", "--playback", "--device="+mic.Sink, "--raw", "--format=s16le", "--rate=48000",
@@ -336,7 +337,10 @@ func soakPlayers(b *testing.B, length time.Duration, meter bool) {
 		b.ReportMetric(rss[len(rss)-1], "rss_last_min_MB")
 		b.ReportMetric(slices.Max(rss), "rss_max_MB")
 	}
-	missing, extra := checkSoakJournal(b, journal, cycles)
+	missing, extra, memberships := checkSoakJournal(b, journal, cycles)
+	if slices.Contains(args, "--chords") {
+		b.ReportMetric(float64(memberships), "chord_rows")
+	}
 	b.ReportMetric(float64(cycles*len(quartetCycle)), "notes_sent")
 	b.ReportMetric(float64(missing), "notes_missing")
 	b.ReportMetric(float64(extra), "notes_extra")
@@ -344,8 +348,8 @@ func soakPlayers(b *testing.B, length time.Duration, meter bool) {
 
 // checkSoakJournal compares each player's notes in the journal, in order,
 // with the cycle's notes sent cycles times, and reports what is missing
-// and what was never sent.
-func checkSoakJournal(b *testing.B, path string, cycles int) (missing, extra int) {
+// and what was never sent, and how many chord membership rows it holds.
+func checkSoakJournal(b *testing.B, path string, cycles int) (missing, extra, memberships int) {
 	f, err := os.Open(path)
 	if err != nil {
 		b.Fatal(err)
@@ -362,9 +366,13 @@ func checkSoakJournal(b *testing.B, path string, cycles int) (missing, extra int
 		}
 		return i
 	}
-	pc, nc := col("player"), col("note")
+	pc, nc, hc := col("player"), col("note"), col("heard_chord")
 	heard := map[string][]string{}
 	for _, r := range recs[1:] {
+		if r[hc] != "" {
+			memberships++
+			continue
+		}
 		heard[r[pc]] = append(heard[r[pc]], r[nc])
 	}
 	for p, name := range strings.Split(cyclePlayers, ",") {
@@ -382,7 +390,7 @@ func checkSoakJournal(b *testing.B, path string, cycles int) (missing, extra int
 		}
 		missing, extra = missing+m, extra+e
 	}
-	return missing, extra
+	return missing, extra, memberships
 }
 
 // noteDiff counts what a longest common subsequence of sent and heard
