@@ -76,8 +76,10 @@ fuzz:
 # the live path's CPU, memory and onset-to-reading time through the virtual
 # microphone, and the meter's cost on screen; four players offline on one
 # core, live on a 4-channel virtual interface, and a soak of continuous
-# 4-channel input lasting SOAK (make bench SOAK=1h for the full one).
+# 4-channel input lasting SOAK (make bench SOAK=1h for the full one), and
+# the memory --chords keeps over CHORDS_SOAK of 4-channel input read from memory.
 SOAK ?= 3m
+CHORDS_SOAK ?= 10m
 bench: deps
 	$(GO) test -run XXX -bench . -benchmem ./pitchdetect/
 	$(GO) test -run XXX -bench RecordingRead ./capture/
@@ -88,6 +90,7 @@ bench: deps
 	@scripts/vmic-start
 	$(GO) test -run XXX -bench 'ListenPlainLive|ListenVoicesLive|ListenMeter|DemoMeterInTmux|AnalyzePlayers|ListenPlayers' -benchtime 1x -timeout 0 ./cmd/fifthline/ -soak $(SOAK)
 	$(GO) test -run XXX -bench 'PlayerDroneUnderMicrophone' -benchtime 1x ./playback/
+	$(GO) test -run XXX -bench 'LiveChordsMemory' -benchtime 1x -timeout 0 ./cmd/fifthline/ -chords-soak $(CHORDS_SOAK)
 
 clean:
 	rm -rf bin

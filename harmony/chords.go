@@ -57,9 +57,22 @@ func Find(notes []Note, tu target.Tuning, seventh float64) []Chord {
 	for _, n := range notes {
 		cuts = append(cuts, n.Start, n.End)
 	}
+	var out []Chord
+	for _, c := range stretches(notes, cuts) {
+		if named, ok := name(c, notes, tu, seventh); ok {
+			out = append(out, named)
+		}
+	}
+	return out
+}
+
+// stretches are the stretches between the cuts (sorted here) in which two
+// or more notes sound, each joined with the next while the same players
+// hold the same notes.
+func stretches(notes []Note, cuts []float64) []Chord {
 	slices.Sort(cuts)
 	cuts = slices.Compact(cuts)
-	var stretches []Chord
+	var out []Chord
 	var prev []string // the previous stretch's players and notes
 	for i := 0; i+1 < len(cuts); i++ {
 		from, to := cuts[i], cuts[i+1]
@@ -76,18 +89,12 @@ func Find(notes []Note, tu target.Tuning, seventh float64) []Chord {
 			continue
 		}
 		slices.Sort(key)
-		if last := len(stretches) - 1; last >= 0 && stretches[last].End == from && slices.Equal(key, prev) {
-			stretches[last].End = to
+		if last := len(out) - 1; last >= 0 && out[last].End == from && slices.Equal(key, prev) {
+			out[last].End = to
 			continue
 		}
 		prev = key
-		stretches = append(stretches, Chord{Start: from, End: to, Notes: idx})
-	}
-	var out []Chord
-	for _, c := range stretches {
-		if named, ok := name(c, notes, tu, seventh); ok {
-			out = append(out, named)
-		}
+		out = append(out, Chord{Start: from, End: to, Notes: idx})
 	}
 	return out
 }

@@ -33,3 +33,14 @@ func (tr *Track) Mean(from, to float64) float64 {
 	}
 	return math.Exp2(sum / float64(n))
 }
+
+// Forget drops the frames before a time, once no chord still to be read
+// needs them. The frames are moved down only once they are half the
+// track, so a long session's track stays as long as what it still needs
+// at a cost that does not grow with it.
+func (tr *Track) Forget(before float64) {
+	i, _ := slices.BinarySearch(tr.Time, before)
+	if i > 0 && 2*i >= len(tr.Time) {
+		tr.Time, tr.Hz = slices.Delete(tr.Time, 0, i), slices.Delete(tr.Hz, 0, i)
+	}
+}

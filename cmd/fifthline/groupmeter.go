@@ -8,6 +8,7 @@ import (
 	"time"
 
 	"fifthline/ensemble"
+	"fifthline/harmony"
 	"fifthline/multipitch"
 	"fifthline/pitchdetect"
 	"fifthline/session"
@@ -34,12 +35,15 @@ func playersMeter(ctx context.Context, src source.Multi, tunings *session.Tuning
 	m := groupMeter(names, tunings, po.seventh, j, ms)
 	defer j.close() // complete before the device is stopped
 	frame := groupFrame{tunings: tunings, seventh: po.seventh}
-	kept := po.keep()
+	chords := po.liveChords(tunings, func(c ensemble.Chord, tu target.Tuning) error {
+		logChords(j, ms.name, tu, []ensemble.Chord{c}, time.Time{})
+		return nil
+	})
 	o := ensemble.Options{Name: ms.name, Players: po.players, Tunings: tunings,
 		OnNote: func(n ensemble.Note) error {
 			j.note(n.Event)
-			if kept != nil {
-				kept.notes = append(kept.notes, n)
+			if chords != nil {
+				return chords.note(n)
 			}
 			return nil
 		},
@@ -47,14 +51,14 @@ func playersMeter(ctx context.Context, src source.Multi, tunings *session.Tuning
 		OnFrame: func(i int, e pitchdetect.Estimate) {
 			frame.add(i, len(names), e.Hz, e.Level)
 			frame.drift().Frame(i, e)
-			kept.frame(i, e)
+			chords.frame(i, e)
 			if i == len(names)-1 {
 				frame.send(m, e.Time)
 			}
 		}}
 	err := showMeter(ctx, m, func(ctx context.Context) error { return ensemble.Run(ctx, src, o) })
-	if kept != nil { // in the tuning in force at the end
-		kept.chords(j, ms.name, tunings.Get())
+	if chords != nil { // those still open when listening stopped
+		chords.ready(true)
 	}
 	return err
 }
@@ -89,18 +93,24 @@ func voicesMeter(ctx context.Context, src source.Source, tunings *session.Tuning
 		}
 		frame.send(m, f.Time)
 	}
-	var notes []voiceNote
+	chords := vo.liveChords(tunings, func(c harmony.Chord, voices []int, tu target.Tuning) error {
+		journalVoiceChord(j, ms.name, tu, c, voices)
+		return nil
+	})
+	if chords != nil {
+		vo.onMoment = func(at, earliest float64) { chords.ready(at, earliest) }
+	}
 	err := showMeter(ctx, m, func(ctx context.Context) error {
 		return hearVoices(ctx, src, ms.name, tunings.Get, vo, func(float64) {}, func(n voiceNote) error {
 			j.row(n.Event, n.extra(), time.Time{})
-			if vo.chords {
-				notes = append(notes, n)
+			if chords != nil {
+				return chords.note(n)
 			}
 			return nil
 		})
 	})
-	if vo.chords { // in the tuning in force at the end
-		logVoiceChordsOf(j, ms.name, tunings.Get(), vo.seventh, notes)
+	if chords != nil { // those still open when listening stopped
+		chords.ready(math.Inf(1), math.Inf(1))
 	}
 	return err
 }

@@ -22,7 +22,8 @@ import (
 // --plain reading's figure), the third (B4) 13.7 ¢ above just and the
 // fifth (D4) 2.0 ¢ below it (handbook: 400 − 386.31 ¢ and 700 − 701.96 ¢).
 // A digit key switches a player's row off. With --chords the journal gets
-// each chord's members when q ends the session, as --plain writes them.
+// each chord's members, as --plain writes them, by the time q has ended
+// the session (TestGroupMeterChordsKeepTheirTuning: as each chord ends).
 func TestListenPlayersGroupMeterInTmux(t *testing.T) {
 	mic := vmic.IsolateChannels(t, "front-left", "front-right", "rear-left", "rear-right")
 	quartet := soxQuartet(t)

@@ -279,43 +279,10 @@ func (po *playerOptions) carried() []int {
 	return chans
 }
 
-// heardPlayers keeps what --chords needs while the players are heard: a
-// long session without it holds nothing but the players' current notes.
-type heardPlayers struct {
-	po     *playerOptions
-	notes  []ensemble.Note
-	tracks []harmony.Track
-}
-
-// keep is where the players' notes and frames are kept for --chords; nil
-// without it.
-func (po *playerOptions) keep() *heardPlayers {
-	if !po.chords {
-		return nil
-	}
-	return &heardPlayers{po: po, tracks: make([]harmony.Track, len(po.players))}
-}
-
-// frame keeps player i's frame (nothing on a nil keeper).
-func (h *heardPlayers) frame(i int, est pitchdetect.Estimate) {
-	if h != nil {
-		h.tracks[i].Add(est.Time, est.Hz)
-	}
-}
-
-// chords finds the chords among the notes kept, read in tu, and journals
-// them, as each chord is known only once its notes end.
-func (h *heardPlayers) chords(j *journalSink, name string, tu target.Tuning) []ensemble.Chord {
-	sortPlayerNotes(h.notes)
-	chords := ensemble.Chords(h.notes, h.tracks, h.po.players, tu, h.po.seventh)
-	logChords(j, name, tu, chords, time.Time{})
-	return chords
-}
-
 // listenPlayers is listen --plain --players: the CSV header, then each
-// player's held note as it ends, flushed at once; with --chords the
-// chord rows follow when listening stops, since a chord is known only
-// once its notes end. start_s counts from the start of capture.
+// player's held note as it ends, flushed at once; with --chords each
+// chord's rows instead, as soon as no note still sounding can change the
+// chord. start_s counts from the start of capture.
 func listenPlayers(ctx context.Context, e *env, src *capture.Input, name string, tu target.Tuning, po playerOptions, j *journalSink) error {
 	w := csv.NewWriter(e.stdout)
 	head := append(session.Header(false), playerColumns...)
@@ -333,14 +300,20 @@ func listenPlayers(ctx context.Context, e *env, src *capture.Input, name string,
 	}
 	defer timing.close()
 	interface_ := src.Carried()
-	kept := po.keep()
+	chords := po.liveChords(session.NewTunings(tu), func(c ensemble.Chord, tu target.Tuning) error {
+		logChords(j, name, tu, []ensemble.Chord{c}, time.Time{})
+		for _, row := range chordRecords(c, "") {
+			w.Write(row.record(false))
+		}
+		w.Flush()
+		return w.Error()
+	})
 	drift := ensemble.NewDrift(tu, po.seventh)
 	o := ensemble.Options{Name: name, Players: po.players, Tunings: session.NewTunings(tu),
 		OnNote: func(n ensemble.Note) error {
 			j.note(n.Event)
-			if kept != nil {
-				kept.notes = append(kept.notes, n)
-				return nil
+			if chords != nil {
+				return chords.note(n)
 			}
 			c, known := drift.Cents()
 			pn := withDrift(n, tu, c, known, po.group)
@@ -352,17 +325,11 @@ func listenPlayers(ctx context.Context, e *env, src *capture.Input, name string,
 		OnFrame: func(i int, est pitchdetect.Estimate) {
 			timing.playerFrame(po.players[i].Name, est)
 			drift.Frame(i, est)
-			kept.frame(i, est)
+			chords.frame(i, est)
 		}}
 	err = ensemble.Run(ctx, src, o)
-	if kept != nil {
-		chords := kept.chords(j, name, tu)
-		for _, c := range chords {
-			for _, row := range chordRecords(c, "") {
-				w.Write(row.record(false))
-			}
-		}
-		w.Flush()
+	if chords != nil { // those still open when listening stopped
+		return cmp.Or(err, chords.ready(true))
 	}
 	return cmp.Or(err, w.Error())
 }

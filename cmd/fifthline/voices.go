@@ -52,6 +52,9 @@ type voiceOptions struct {
 	chords  bool
 	seventh float64
 	onFrame func(multipitch.Frame) // if set, sees every frame (the meter)
+	// onMoment, if set, follows every frame: its time, and the earliest a
+	// note still to come can start (for the chords heard live).
+	onMoment func(at, earliest float64)
 }
 
 // options checks the flags; ok is false when --voices was not given.
@@ -218,6 +221,9 @@ func hearVoices(ctx context.Context, src source.Source, name string, tuning func
 			tr.push(f)
 			if vo.onFrame != nil {
 				vo.onFrame(f)
+			}
+			if vo.onMoment != nil {
+				vo.onMoment(f.Time, tr.earliest(f.Time))
 			}
 		})
 		if rerr != nil {

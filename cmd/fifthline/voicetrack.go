@@ -70,6 +70,7 @@ type track struct {
 	power   float64 // its frames' power (amplitude squared), summed
 	missed  int     // frames in a row without its voice
 	frames  *harmony.Track
+	ended   float64 // its last note's end: its next note starts after it
 	// delivered: its note is among tr.done (then it is not counted twice)
 	delivered bool
 }
@@ -181,6 +182,7 @@ func (tr *tracker) deliver(t *track, h pitchdetect.Held) {
 	// A note most of whose frames lie on a lower voice's partials, which
 	// stand no higher than that voice's envelope allows, is those partials
 	// (multipitch.Voice.OnPartials): no voice either.
+	t.ended = h.End
 	if tr.foldOctave(t, h) || t.onPartials() {
 		t.delivered = true // no voice: not counted as one either
 		return
@@ -206,6 +208,17 @@ func (tr *tracker) deliver(t *track, h pitchdetect.Held) {
 	tr.done = append(slices.DeleteFunc(tr.done, func(d doneNote) bool { return d.End < h.Start-60 }), doneNote{h, t.level()})
 	tu := tr.tuning()
 	tr.emit(voiceNote{session.Event{Source: tr.name, Held: h, Reading: tu.Classify(h.Hz), Tuning: tu}, voice, 2*t.doubled > t.count, t.frames})
+}
+
+// earliest is the earliest a note still to come can start, at frame time
+// now: a track's next note starts at or after its first frame and after
+// its last note, and a track still to come starts after now.
+func (tr *tracker) earliest(now float64) float64 {
+	e := now
+	for _, t := range tr.tracks {
+		e = min(e, max(t.start, t.ended))
+	}
+	return e
 }
 
 // doneNote is a note given out, with its track's mean power.

@@ -1,0 +1,247 @@
+package main
+
+import (
+	"math"
+	"slices"
+	"strconv"
+	"time"
+
+	"fifthline/ensemble"
+	"fifthline/harmony"
+	"fifthline/pitchdetect"
+	"fifthline/session"
+	"fifthline/target"
+)
+
+// --chords while a group is heard (listen --players or --voices, with the
+// meter or --plain): each chord is written as soon as no note still to
+// come can change it, named in the tuning in force when it ended (the
+// meter's keys change it mid-session), and only the notes and frames of
+// chords not yet written are kept: a long session's memory stays flat, and
+// an interruption finds every chord already ended written.
+
+// readyEvery is how much stream time passes between looks for chords
+// that are ready: a row comes at most this late, and a look costs little.
+const readyEvery = 0.1
+
+// tuningLog remembers when the tuning changed, in the stream's time.
+type tuningLog struct {
+	src  *session.Tunings
+	seen *target.Tuning
+	at   []float64 // at[0] is -Inf: the tuning the session began in
+	tus  []target.Tuning
+}
+
+func newTuningLog(src *session.Tunings) *tuningLog {
+	l := &tuningLog{src: src}
+	tu, _ := src.Current(&l.seen)
+	l.at, l.tus = []float64{math.Inf(-1)}, []target.Tuning{tu}
+	return l
+}
+
+// moment notes a key that changed the tuning before the moment at t.
+func (l *tuningLog) moment(t float64) {
+	if tu, same := l.src.Current(&l.seen); !same {
+		l.at, l.tus = append(l.at, t), append(l.tus, tu)
+	}
+}
+
+// in is the tuning in force at t.
+func (l *tuningLog) in(t float64) target.Tuning {
+	i, found := slices.BinarySearch(l.at, t)
+	if !found {
+		i--
+	}
+	return l.tus[i]
+}
+
+// forget drops the changes no chord from before on needs.
+func (l *tuningLog) forget(before float64) {
+	i, found := slices.BinarySearch(l.at, before)
+	if !found {
+		i--
+	}
+	if i > 0 {
+		l.at, l.tus = slices.Delete(l.at, 0, i), slices.Delete(l.tus, 0, i)
+	}
+}
+
+// quietFrames is how many unvoiced frames in a row end a note whatever
+// its level (pitchdetect.Segmenter's MaxDropout, which ensemble keeps).
+var quietFrames = pitchdetect.NewSegmenter(1).MaxDropout
+
+// nextStart follows one player's frames and notes, to know the earliest
+// their note still to come can start: after their last note's end (one
+// player's notes follow each other), after a silence long enough to end
+// any note, and not before a frame not yet seen.
+type nextStart struct {
+	lastEnd, quietAt, seen float64
+	quiet                  int // unvoiced frames in a row
+}
+
+func (n *nextStart) frame(t, hz float64) {
+	n.seen = t
+	if hz > 0 {
+		n.quiet = 0
+		return
+	}
+	if n.quiet++; n.quiet > quietFrames {
+		n.quietAt = t
+	}
+}
+
+func (n *nextStart) earliest() float64 { return min(max(n.lastEnd, n.quietAt), n.seen) }
+
+// playerChords finds the players' chords as they are heard.
+type playerChords struct {
+	players []ensemble.Player
+	stream  harmony.Stream
+	tracks  []harmony.Track // each player's frames, indexed like players
+	next    []nextStart
+	tunings *tuningLog
+	asked   float64 // the horizon of the last look
+	emit    func(ensemble.Chord, target.Tuning) error
+	err     error // the first from emit
+}
+
+// liveChords keeps what --chords needs while the players are heard, and
+// hands each chord to emit in the tuning it was named in; nil without
+// --chords.
+func (po *playerOptions) liveChords(tunings *session.Tunings, emit func(ensemble.Chord, target.Tuning) error) *playerChords {
+	if !po.chords {
+		return nil
+	}
+	h := &playerChords{players: po.players, tracks: make([]harmony.Track, len(po.players)), next: make([]nextStart, len(po.players)),
+		tunings: newTuningLog(tunings), asked: math.Inf(-1), emit: emit}
+	h.stream.Seventh = po.seventh
+	return h
+}
+
+// frame takes player i's frame (ensemble.Options.OnFrame: every player's
+// frame of a moment in player order); nothing on a nil keeper.
+func (h *playerChords) frame(i int, est pitchdetect.Estimate) {
+	if h == nil {
+		return
+	}
+	if i == 0 {
+		h.tunings.moment(est.Time)
+	}
+	h.tracks[i].Add(est.Time, est.Hz)
+	h.next[i].frame(est.Time, est.Hz)
+	if i == len(h.players)-1 {
+		h.ready(false)
+	}
+}
+
+// note takes a player's note as it ends, and gives back the first error
+// emit met, to stop the reading.
+func (h *playerChords) note(n ensemble.Note) error {
+	p := slices.Index(h.players, n.Player)
+	if p < 0 {
+		return h.err
+	}
+	h.next[p].lastEnd = max(h.next[p].lastEnd, n.Held.End)
+	h.stream.Add(harmony.Note{Start: n.Held.Start, End: n.Held.End, Who: n.Player.Name, Note: n.Reading.Note,
+		Frames: &h.tracks[p], Hz: n.Held.Hz, Settled: n.Held.Settled})
+	return h.err
+}
+
+// ready emits the chords nothing to come can change; at the end of the
+// stream, all that are left.
+func (h *playerChords) ready(end bool) error {
+	horizon := math.Inf(1)
+	if !end {
+		for _, n := range h.next {
+			horizon = min(horizon, n.earliest())
+		}
+		if horizon < h.asked+readyEvery {
+			return h.err
+		}
+	}
+	h.asked = horizon
+	chords, notes := h.stream.Ready(horizon, h.tunings.in)
+	for _, c := range chords {
+		ps := make([]ensemble.Player, len(c.Notes))
+		for i, k := range c.Notes {
+			ps[i] = h.players[slices.IndexFunc(h.players, func(p ensemble.Player) bool { return p.Name == notes[k].Who })]
+		}
+		if err := h.emit(ensemble.Chord{Start: c.Start, End: c.End, HeardChord: c.HeardChord, Players: ps}, h.tunings.in(c.End)); err != nil && h.err == nil {
+			h.err = err
+		}
+	}
+	from := h.stream.From()
+	for p := range h.tracks {
+		h.tracks[p].Forget(from)
+	}
+	h.tunings.forget(from)
+	return h.err
+}
+
+// voiceChords finds the chords of the voices heard on one channel as they
+// are heard.
+type voiceChords struct {
+	stream  harmony.Stream
+	tunings *tuningLog
+	asked   float64
+	emit    func(c harmony.Chord, voices []int, tu target.Tuning) error
+	err     error
+}
+
+// liveChords keeps what --chords needs while the voices are heard, and
+// hands each chord (with its members' voices) to emit; nil without
+// --chords. A voice lost for a moment under a chord is bridged as the
+// file analysis bridges it (bridgeLost).
+func (vo *voiceOptions) liveChords(tunings *session.Tunings, emit func(harmony.Chord, []int, target.Tuning) error) *voiceChords {
+	if !vo.chords {
+		return nil
+	}
+	v := &voiceChords{tunings: newTuningLog(tunings), asked: math.Inf(-1), emit: emit}
+	v.stream = harmony.Stream{Seventh: vo.seventh, Reach: lostSeconds, Join: func(ns []harmony.Note) []harmony.Note {
+		joined, _ := bridgeLost(ns)
+		return joined
+	}}
+	return v
+}
+
+func (v *voiceChords) note(n voiceNote) error {
+	v.stream.Add(harmony.Note{Start: n.Start, End: n.End, Who: strconv.Itoa(n.voice), Note: n.Reading.Note, Frames: n.frames, Hz: n.Hz})
+	return v.err
+}
+
+// ready emits the chords of the notes that no note to come (starting at
+// or after earliest; +Inf at the end) can change.
+func (v *voiceChords) ready(at, earliest float64) error {
+	v.tunings.moment(at)
+	if !math.IsInf(earliest, 1) && earliest < v.asked+readyEvery {
+		return v.err
+	}
+	v.asked = earliest
+	chords, notes := v.stream.Ready(earliest, v.tunings.in)
+	for _, c := range chords {
+		voices := make([]int, len(c.Notes))
+		for i, k := range c.Notes {
+			voices[i], _ = strconv.Atoi(notes[k].Who)
+		}
+		if err := v.emit(c, voices, v.tunings.in(c.End)); err != nil && v.err == nil {
+			v.err = err
+		}
+	}
+	v.tunings.forget(v.stream.From())
+	return v.err
+}
+
+// journalVoiceChord writes a voices' chord's memberships to the journal.
+func journalVoiceChord(j *journalSink, source string, tu target.Tuning, c harmony.Chord, voices []int) {
+	j.chord(source, tu, c.Start, c.End, c.HeardChord, func(i int) (string, string) { return "", strconv.Itoa(voices[i]) }, time.Time{})
+}
+
+// voiceChordRows are a voices' chord's rows, one per member, lowest first.
+func voiceChordRows(c harmony.Chord, voices []int) []chordJSON {
+	var out []chordJSON
+	for i, m := range c.Members {
+		row := newChordJSON("", c.Start, c.End, c.HeardChord, m)
+		row.Voice = voices[i]
+		out = append(out, row)
+	}
+	return out
+}

@@ -1,0 +1,116 @@
+package harmony
+
+import (
+	"cmp"
+	"math"
+	"math/rand/v2"
+	"slices"
+	"testing"
+
+	"fifthline/target"
+)
+
+// Chords found as notes end are the chords found from all the notes at
+// once: the same stretches, members and pitches, though the stream keeps
+// only what its open chords need. Three players wander over the notes of
+// C major's triad in equal temperament at A4 = 440 Hz (ISO 16;
+// 440·2^(n/12)), each a little off, entering and leaving at random (our own
+// scenario); each note is given as it ends, with the earliest start still
+// to come as the horizon, as a live reading gives them.
+func TestStreamGivesTheChordsFindGives(t *testing.T) {
+	tu := target.Default()
+	parse := func(s string) target.Note { n, _ := target.ParseNote(s); return n }
+	pool := []string{"C3", "E3", "G3", "C4", "E4", "G4", "A3", "F3"}
+	rng := rand.New(rand.NewPCG(13, 1))
+	var notes []Note
+	tracks := make([]Track, 3)
+	whole := make([]Track, 3) // the same frames, never forgotten, for Find
+	who := []string{"vc", "vla", "vl"}
+	for p := range 3 {
+		at := rng.Float64()
+		for at < 60 {
+			n := parse(pool[rng.IntN(len(pool))])
+			hz := tu.Target(n) * math.Exp2((rng.Float64()*10-5)/1200)
+			length := 0.2 + 2*rng.Float64()
+			for f := at; f <= at+length; f += 0.01 {
+				tracks[p].Add(f, hz*math.Exp2(math.Sin(f*30)*3/1200))
+				whole[p].Add(f, hz*math.Exp2(math.Sin(f*30)*3/1200))
+			}
+			notes = append(notes, Note{Start: at, End: at + length, Who: who[p], Note: n, Hz: hz, Frames: &whole[p]})
+			at += length + 0.5*rng.Float64()*float64(rng.IntN(2))
+		}
+	}
+	want := Find(notes, tu, target.DefaultSeventh)
+	if len(want) < 20 {
+		t.Fatalf("only %d chords in the scenario", len(want))
+	}
+	byEnd := slices.Clone(notes)
+	slices.SortFunc(byEnd, func(a, b Note) int { return cmp.Compare(a.End, b.End) })
+	s := Stream{Seventh: target.DefaultSeventh}
+	var got []Chord
+	var members [][]string
+	take := func(cs []Chord, ns []Note) {
+		for _, c := range cs {
+			var m []string
+			for _, k := range c.Notes {
+				m = append(m, ns[k].Who)
+			}
+			got, members = append(got, c), append(members, m)
+		}
+	}
+	most := 0
+	for i, n := range byEnd {
+		n.Frames = &tracks[slices.Index(who, n.Who)]
+		s.Add(n)
+		horizon := math.Inf(1)
+		for _, later := range byEnd[i+1:] {
+			horizon = min(horizon, later.Start)
+		}
+		take(s.Ready(min(horizon, n.End), func(float64) target.Tuning { return tu }))
+		for p := range tracks {
+			tracks[p].Forget(s.From())
+		}
+		most = max(most, len(s.notes))
+	}
+	take(s.Ready(math.Inf(1), func(float64) target.Tuning { return tu }))
+	if len(got) != len(want) {
+		t.Fatalf("%d chords as the notes end, %d from all at once", len(got), len(want))
+	}
+	for i, w := range want {
+		g := got[i]
+		if g.Start != w.Start || g.End != w.End || g.Name() != w.Name() {
+			t.Errorf("chord %d: %s %.3f–%.3f s, want %s %.3f–%.3f s", i, g.Name(), g.Start, g.End, w.Name(), w.Start, w.End)
+			continue
+		}
+		for j, m := range w.Members {
+			if g.Members[j].Hz != m.Hz || members[i][j] != notes[w.Notes[j]].Who {
+				t.Errorf("chord %d member %d: %s at %.4f Hz, want %s at %.4f Hz", i, j, members[i][j], g.Members[j].Hz, notes[w.Notes[j]].Who, m.Hz)
+			}
+		}
+	}
+	t.Logf("kept at most %d of %d notes", most, len(notes))
+	if most > 12 {
+		t.Errorf("the stream kept up to %d of the %d notes; it needs only those of open chords", most, len(notes))
+	}
+}
+
+// Each chord is named in the tuning in force at its end, however late it
+// is given: a key changed after a chord does not re-read it (the readings
+// themselves are checked against published temperaments in
+// cmd/fifthline's TestGroupMeterChordsKeepTheirTuning). Pitches in equal
+// temperament at A4 = 440 Hz (ISO 16).
+func TestStreamNamesEachChordInItsOwnTuning(t *testing.T) {
+	tu := target.Default()
+	parse := func(s string) target.Note { n, _ := target.ParseNote(s); return n }
+	var s Stream
+	s.Seventh = target.DefaultSeventh
+	for _, at := range []float64{0, 2} {
+		s.Add(Note{Start: at, End: at + 1, Who: "vc", Note: parse("C3"), Hz: tu.Target(parse("C3"))})
+		s.Add(Note{Start: at, End: at + 1, Who: "vl", Note: parse("E4"), Hz: tu.Target(parse("E4"))})
+	}
+	var asked []float64
+	got, _ := s.Ready(math.Inf(1), func(at float64) target.Tuning { asked = append(asked, at); return tu })
+	if len(got) != 2 || !slices.Equal(asked, []float64{1, 3}) {
+		t.Errorf("%d chords, tunings asked at %v s; want 2, asked at their ends 1 and 3 s", len(got), asked)
+	}
+}
