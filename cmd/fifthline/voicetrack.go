@@ -179,10 +179,10 @@ func (tr *tracker) deliver(t *track, h pitchdetect.Held) {
 		// knows its window) gives nonsense widths. Its centre stands.
 		h.VibratoWidth, h.VibratoRate = 0, 0
 	}
+	t.ended = h.End
 	// A note most of whose frames lie on a lower voice's partials, which
 	// stand no higher than that voice's envelope allows, is those partials
 	// (multipitch.Voice.OnPartials): no voice either.
-	t.ended = h.End
 	if tr.foldOctave(t, h) || t.onPartials() {
 		t.delivered = true // no voice: not counted as one either
 		return
