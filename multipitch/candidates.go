@@ -27,6 +27,7 @@ type searcher struct {
 	white  []float64 // whitened magnitude spectrum
 	resid  []float64 // what cancellation has left of it
 	prefix []float64 // prefix sums of power, for whitening
+	top    int       // the highest bin a search reads (whiten's last)
 	amps   []float64 // partial amplitudes of the voice being cancelled
 	peaks  []int
 }
@@ -39,6 +40,10 @@ func newSearcher(bins int, binHz, ceilHz, lo, hi float64) *searcher {
 	s.white = make([]float64, bins)
 	s.resid = make([]float64, bins)
 	s.prefix = make([]float64, bins+1)
+	// Partials are looked for below ceilHz, each within the grid's
+	// uncertainty (bins), and cancelled two bins each side of its peak.
+	pos := ceilHz / binHz
+	s.top = min(bins-1, int(math.Ceil(pos+math.Max(1, pos*halfWidth)))+2)
 	for _, f := range s.grid {
 		var sp []span
 		for k := 1; float64(k)*f < ceilHz && k <= salienceParts; k++ {
@@ -61,7 +66,7 @@ func (s *searcher) whiten(spec []complex128) {
 	for b, z := range spec {
 		s.prefix[b+1] = s.prefix[b] + real(z)*real(z) + imag(z)*imag(z)
 	}
-	for b, z := range spec {
+	for b, z := range spec[:s.top+1] { // (the bins above are never read)
 		lo := max(1, int(float64(b)/1.12))
 		hi := min(len(spec)-1, max(int(float64(b)*1.12), lo+2))
 		rms := math.Sqrt((s.prefix[hi+1]-s.prefix[lo])/float64(hi-lo+1)) + 1e-12
