@@ -315,17 +315,20 @@ func (f *fitter) step(f0 []float64, maxStep float64) {
 		}
 	}
 	// The normal equations of the step, nv × nv.
+	// (One pass over the bins, each sum still taken in the bins' order.)
 	h, g := make([]float64, nv*nv), make([]float64, nv)
-	for u := range nv {
-		for _, b := range f.used {
-			r := f.spec[b] - f.model[b]
-			g[u] += real(f.jac[u][b])*real(r) + imag(f.jac[u][b])*imag(r)
-		}
-		for v := u; v < nv; v++ {
-			for _, b := range f.used {
-				h[u*nv+v] += real(f.jac[u][b])*real(f.jac[v][b]) + imag(f.jac[u][b])*imag(f.jac[v][b])
+	for _, b := range f.used {
+		r := f.spec[b] - f.model[b]
+		for u := range nv {
+			ju := f.jac[u][b]
+			g[u] += real(ju)*real(r) + imag(ju)*imag(r)
+			for v := u; v < nv; v++ {
+				jv := f.jac[v][b]
+				h[u*nv+v] += real(ju)*real(jv) + imag(ju)*imag(jv)
 			}
 		}
+	}
+	for u := range nv {
 		if h[u*nv+u] == 0 { // a voice left out: it has no direction to move in
 			h[u*nv+u] = 1
 		}
