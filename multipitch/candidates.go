@@ -1,6 +1,9 @@
 package multipitch
 
-import "math"
+import (
+	"math"
+	"math/bits"
+)
 
 // Candidates: Klapuri's iterative estimation and cancellation over a
 // whitened magnitude spectrum (ISMIR 2006; IEEE TSAP 2003).
@@ -27,6 +30,11 @@ type searcher struct {
 	white  []float64 // whitened magnitude spectrum
 	resid  []float64 // what cancellation has left of it
 	prefix []float64 // prefix sums of power, for whitening
+	top    int       // the highest bin a search reads (whiten's last)
+	// runMax[j][b] is the residual's largest value over bins b to
+	// b+2^j−1 (runMax[0] is resid): a span's peak in two looks, not one
+	// per bin, at every grid point for every candidate.
+	runMax [][]float64
 	amps   []float64 // partial amplitudes of the voice being cancelled
 	peaks  []int
 }
@@ -39,6 +47,11 @@ func newSearcher(bins int, binHz, ceilHz, lo, hi float64) *searcher {
 	s.white = make([]float64, bins)
 	s.resid = make([]float64, bins)
 	s.prefix = make([]float64, bins+1)
+	s.runMax = [][]float64{s.resid}
+	// Partials are looked for below ceilHz, each within the grid's
+	// uncertainty (bins), and cancelled two bins each side of its peak.
+	pos := ceilHz / binHz
+	s.top = min(bins-1, int(math.Ceil(pos+math.Max(1, pos*halfWidth)))+2)
 	for _, f := range s.grid {
 		var sp []span
 		for k := 1; float64(k)*f < ceilHz && k <= salienceParts; k++ {
@@ -46,7 +59,10 @@ func newSearcher(bins int, binHz, ceilHz, lo, hi float64) *searcher {
 			if !ok {
 				break
 			}
-			sp = append(sp, span{lo, hi, (f + alpha) / (float64(k)*f + beta)})
+			sp = append(sp, span{lo, hi, bits.Len(uint(hi-lo+1)) - 1, (f + alpha) / (float64(k)*f + beta)})
+			for len(s.runMax) <= sp[len(sp)-1].level {
+				s.runMax = append(s.runMax, make([]float64, bins))
+			}
 		}
 		s.spans = append(s.spans, sp)
 	}
@@ -61,7 +77,7 @@ func (s *searcher) whiten(spec []complex128) {
 	for b, z := range spec {
 		s.prefix[b+1] = s.prefix[b] + real(z)*real(z) + imag(z)*imag(z)
 	}
-	for b, z := range spec {
+	for b, z := range spec[:s.top+1] { // (the bins above are never read)
 		lo := max(1, int(float64(b)/1.12))
 		hi := min(len(spec)-1, max(int(float64(b)*1.12), lo+2))
 		rms := math.Sqrt((s.prefix[hi+1]-s.prefix[lo])/float64(hi-lo+1)) + 1e-12
@@ -74,6 +90,7 @@ func (s *searcher) whiten(spec []complex128) {
 // weight.
 type span struct {
 	lo, hi int
+	level  int // of runMax: the widest power of two within the span
 	w      float64
 }
 
@@ -102,13 +119,20 @@ func (s *searcher) salience(f float64) float64 {
 func (s *searcher) gridSalience(i int) float64 {
 	sum := 0.0
 	for _, sp := range s.spans[i] {
-		m := s.resid[sp.lo]
-		for _, v := range s.resid[sp.lo+1 : sp.hi+1] {
-			m = math.Max(m, v)
-		}
-		sum += sp.w * m
+		p := s.runMax[sp.level]
+		sum += sp.w * max(p[sp.lo], p[sp.hi+1-1<<sp.level])
 	}
 	return sum
+}
+
+// tabulate fills runMax from the residual, up to the highest bin read.
+func (s *searcher) tabulate() {
+	for j := 1; j < len(s.runMax); j++ {
+		lo, hi, h := s.runMax[j-1], s.runMax[j], 1<<(j-1)
+		for b := range max(0, s.top+2-2*h) {
+			hi[b] = max(lo[b], lo[b+h])
+		}
+	}
 }
 
 // bins is where the grid's uncertainty about hz lies.
@@ -138,6 +162,7 @@ func (s *searcher) peak(hz float64) (int, float64) {
 // and its salience, refined to a tenth of the grid step.
 func (s *searcher) next(accept func(float64) bool) (float64, float64) {
 	best, bs := 0.0, 0.0
+	s.tabulate()
 	for i, f := range s.grid {
 		if accept != nil && !accept(f) {
 			continue

@@ -65,6 +65,7 @@ type Estimator struct {
 	fill   int
 	fed    int
 	frame  []float64 // windowed and centred
+	win    []float64 // the Hann window (hannWindow)
 	fft    *fourier.FFT
 	spec   []complex128
 	search *searcher
@@ -129,6 +130,7 @@ func New(rate float64, window, hop int, cfg Config) (*Estimator, error) {
 	e.buf = make([]float64, window)
 	e.frame = make([]float64, window)
 	e.fft = fourier.NewFFT(window)
+	e.win = hannWindow(window)
 	e.spec = make([]complex128, window/2+1)
 	e.search = newSearcher(window/2+1, binHz, ceil, cfg.MinHz, cfg.MaxHz)
 	e.fitter = newFitter(window, binHz, ceil, maxPartials)
@@ -206,7 +208,7 @@ func (e *Estimator) Analyze(x []float64, dst []Voice) []Voice {
 	if len(x) != e.window || rmsDB(x) < silenceDBFS {
 		return dst
 	}
-	hannSpectrum(e.spec, e.frame, x, e.fft)
+	hannSpectrum(e.spec, e.frame, x, e.win, e.fft)
 	e.sorted = e.sorted[:0]
 	for b := 1; float64(b)*e.fitter.binHz < e.fitter.ceilHz; b += 4 {
 		e.sorted = append(e.sorted, real(e.spec[b])*real(e.spec[b])+imag(e.spec[b])*imag(e.spec[b]))
@@ -246,15 +248,28 @@ func (e *Estimator) Analyze(x []float64, dst []Voice) []Voice {
 	return dst
 }
 
-// hannSpectrum fills spec with the transform of x under a Hann window,
-// using frame (len x) as scratch.
-func hannSpectrum(spec []complex128, frame, x []float64, fft *fourier.FFT) {
-	n := len(x)
-	for i, v := range x {
-		c := i - n/2 // centred, so the window's transform is real
-		frame[(c+n)%n] = v * (0.5 + 0.5*math.Cos(2*math.Pi*float64(c)/float64(n)))
+// hannSpectrum fills spec with the transform of x under the Hann window
+// win (hannWindow(len x)), using frame (len x) as scratch.
+func hannSpectrum(spec []complex128, frame, x, win []float64, fft *fourier.FFT) {
+	h := len(x) / 2
+	for i, v := range x[:h] { // centred, so the window's transform is real
+		frame[i+h] = v * win[i]
+	}
+	for i, v := range x[h:] {
+		frame[i] = v * win[i+h]
 	}
 	fft.Coefficients(spec, frame)
+}
+
+// hannWindow is the Hann window of length n as hannSpectrum centres it,
+// sample i at i−n/2: computed once, not a cosine per sample per frame.
+func hannWindow(n int) []float64 {
+	w := make([]float64, n)
+	for i := range w {
+		c := i - n/2
+		w[i] = 0.5 + 0.5*math.Cos(2*math.Pi*float64(c)/float64(n))
+	}
+	return w
 }
 
 func cents(a, b float64) float64 { return 1200 * math.Log2(a/b) }

@@ -55,8 +55,7 @@ type fitter struct {
 	spec  []complex128 // the frame's spectrum, bins 0..n/2
 
 	cols  []column
-	gram  []float64 // the columns' Gram matrix, then its Cholesky factor
-	fac   blas64.Triangular
+	chol  bandChol     // the columns' Gram matrix, then its Cholesky factor
 	rhs   []float64    // right-hand sides: real and imaginary parts, or projections
 	amp   []complex128 // fitted complex amplitude per column
 	model []complex128 // per bin; only bins in used are meaningful
@@ -197,9 +196,8 @@ func (f *fitter) solve() float64 {
 	if p == 0 {
 		return f.energy(nil)
 	}
-	f.gram = grow(f.gram, p*p)
+	f.chol.order(f.cols)
 	f.rhs = grow(f.rhs, 2*p)
-	diag := 0.0
 	for i := range f.cols {
 		a := &f.cols[i]
 		var re, im float64
@@ -210,19 +208,21 @@ func (f *fitter) solve() float64 {
 			}
 		}
 		f.rhs[2*i], f.rhs[2*i+1] = re, im
-		for q := i; q < p; q++ {
-			f.gram[i*p+q] = f.dot(a, &f.cols[q])
+	}
+	diag := 0.0
+	for r, i := range f.chol.ord {
+		for q := f.chol.first[r]; q <= r; q++ {
+			*f.chol.at(r, q) = f.dot(&f.cols[i], &f.cols[f.chol.ord[q]])
 		}
-		diag = math.Max(diag, f.gram[i*p+i])
+		diag = max(diag, *f.chol.at(r, r))
 	}
-	for i := range p {
-		f.gram[i*p+i] += ridge * diag
+	for r := range p {
+		*f.chol.at(r, r) += ridge * diag
 	}
-	var ok bool
-	if f.fac, ok = lapack64.Potrf(blas64.Symmetric{Uplo: blas.Upper, N: p, Stride: p, Data: f.gram}); !ok {
+	if !f.chol.factor() {
 		return math.Inf(1)
 	}
-	lapack64.Potrs(f.fac, blas64.General{Rows: p, Cols: 2, Stride: 2, Data: f.rhs})
+	f.chol.solve(f.rhs, 2)
 	for i := range p {
 		f.amp = append(f.amp, complex(f.rhs[2*i], f.rhs[2*i+1]))
 	}
@@ -302,7 +302,7 @@ func (f *fitter) step(f0 []float64, maxStep float64) {
 			f.rhs[i*w2+2*v], f.rhs[i*w2+2*v+1] = sr, si
 		}
 	}
-	lapack64.Potrs(f.fac, blas64.General{Rows: p, Cols: w2, Stride: w2, Data: f.rhs})
+	f.chol.solve(f.rhs, w2)
 	for i := range f.cols {
 		c := &f.cols[i]
 		for v := range nv {
@@ -315,17 +315,20 @@ func (f *fitter) step(f0 []float64, maxStep float64) {
 		}
 	}
 	// The normal equations of the step, nv × nv.
+	// (One pass over the bins, each sum still taken in the bins' order.)
 	h, g := make([]float64, nv*nv), make([]float64, nv)
-	for u := range nv {
-		for _, b := range f.used {
-			r := f.spec[b] - f.model[b]
-			g[u] += real(f.jac[u][b])*real(r) + imag(f.jac[u][b])*imag(r)
-		}
-		for v := u; v < nv; v++ {
-			for _, b := range f.used {
-				h[u*nv+v] += real(f.jac[u][b])*real(f.jac[v][b]) + imag(f.jac[u][b])*imag(f.jac[v][b])
+	for _, b := range f.used {
+		r := f.spec[b] - f.model[b]
+		for u := range nv {
+			ju := f.jac[u][b]
+			g[u] += real(ju)*real(r) + imag(ju)*imag(r)
+			for v := u; v < nv; v++ {
+				jv := f.jac[v][b]
+				h[u*nv+v] += real(ju)*real(jv) + imag(ju)*imag(jv)
 			}
 		}
+	}
+	for u := range nv {
 		if h[u*nv+u] == 0 { // a voice left out: it has no direction to move in
 			h[u*nv+u] = 1
 		}

@@ -61,6 +61,7 @@ const movingCents = 2.0
 type timeAverager struct {
 	n         int
 	frame     []float64
+	win       []float64 // hannWindow(n)
 	fft       *fourier.FFT
 	spec      []complex128
 	fitter    *fitter
@@ -91,6 +92,7 @@ func newTimeAverager(rate float64, window, hop int, minHz float64) *timeAverager
 	ta := &timeAverager{n: n, subHop: hop / subs, subsFrame: subs}
 	ta.frame = make([]float64, n)
 	ta.fft = fourier.NewFFT(n)
+	ta.win = hannWindow(n)
 	ta.spec = make([]complex128, n/2+1)
 	ta.fitter = newFitter(n, binHz, math.Min(ceilingHz, 0.45*rate), maxPartials)
 	ta.fitter.spec = ta.spec
@@ -154,7 +156,7 @@ func (ta *timeAverager) average(x []float64, voices []Voice, long *Estimator) {
 		if lo < 0 || lo+ta.n > len(x) || rmsDB(x[lo:lo+ta.n]) < silenceDBFS {
 			continue
 		}
-		hannSpectrum(ta.spec, ta.frame, x[lo:lo+ta.n], ta.fft)
+		hannSpectrum(ta.spec, ta.frame, x[lo:lo+ta.n], ta.win, ta.fft)
 		ta.f0 = ta.f0[:0]
 		for _, v := range voices {
 			ta.f0 = append(ta.f0, v.Hz)
