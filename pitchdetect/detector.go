@@ -91,6 +91,7 @@ type Detector struct {
 	peak      float64 // strongest bin's power in this frame
 	last      analysis
 	under     float64 // power of the quieter sound the span began with (entry.go)
+	entryRun  int     // frames in a row, this one included, whose span holds an entry
 }
 
 // New returns a Detector for the sample rate with the given window and hop
@@ -205,6 +206,9 @@ func (d *Detector) analyse() Estimate {
 	n := copy(d.lin, d.ring[d.w:])
 	copy(d.lin[n:], d.ring[:d.w])
 	e := Estimate{Time: (float64(d.fed) - 0.5*float64(d.span)) / d.fs}
+	if d.entryRun++; !d.entering() {
+		d.entryRun = 0
+	}
 	frameA, frameB := d.lin[:d.window], d.lin[d.lag:]
 	e.Level = d.levelDB(frameB)
 	if e.Level < silenceDBFS {
@@ -215,8 +219,8 @@ func (d *Detector) analyse() Estimate {
 	// While a note holds, the last pitch seeds the comb and the NSDF is
 	// refreshed only every few hops; it always runs after an unvoiced
 	// frame, for low notes, whose final estimate it is, and at an entry
-	// (entry.go), where the last pitch may be the quieter sound's.
-	tracking := d.prevHz >= resolvedBins*d.binHz && d.sinceNSDF < nsdfEvery && !d.entering()
+	// over a pitch read before it began (entry.go): the quieter sound's.
+	tracking := d.prevHz >= resolvedBins*d.binHz && d.sinceNSDF < nsdfEvery && !d.overOlderPitch()
 	d.holding = d.prevHz > 0
 	if tracking {
 		d.sinceNSDF++

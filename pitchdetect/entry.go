@@ -15,8 +15,9 @@ import "math"
 // C3 and its sub-octaves (FluidR3 voice oohs with bleed, measured: two
 // frames late), and a G4 swelling in over a steady C3 20–40 dB under it
 // began 53 ms late (TestAQuietEntryOverLeftoverBleedStartsOnTime). So at
-// an entry the NSDF is read afresh, and partials no stronger than the
-// older sound could make by itself move no pitch.
+// an entry over a pitch read before it the NSDF is read afresh, and
+// partials no stronger than the older sound could make by itself move no
+// pitch.
 
 // entryDB: a span whose oldest eighth is this much quieter than its newest
 // holds a sound entering over whatever the oldest eighth holds (the
@@ -39,6 +40,13 @@ func (d *Detector) spanEnds() (first, last float64) {
 func (d *Detector) entering() bool {
 	first, last := d.spanEnds()
 	return first < last*math.Pow(10, -entryDB/10)
+}
+
+// overOlderPitch reports whether the span holds an entry and the last
+// frames' pitch was read before the entry began: the quieter sound's, not
+// the entering note's (which, read at its own first frames, is tracked).
+func (d *Detector) overOlderPitch() bool {
+	return d.entryRun > 0 && d.held.frames >= d.entryRun
 }
 
 // onsetInSpan reports whether the span's oldest eighth is more than 20 dB
