@@ -274,3 +274,30 @@ func TestTheChordAxisPlacesEachMemberByItsJustCents(t *testing.T) {
 		t.Errorf("labels: %q", lines[2:])
 	}
 }
+
+// One microphone's voices are read on long windows, a frame every 85 ms
+// (package multipitch: the half window of 171 ms after an onset, then the
+// whole of 341 ms): each frame has heard that much of the chord, so a row
+// holds its pitch from its first frame and the chord is named once the
+// frames have covered chordSettle of it, at the second frame. Counted as
+// the players' 10.7 ms frames, the rows wanted three frames and the chord
+// 0.2 s of frames after that. C4 and the just E4 and G4
+// above it (5/4, 3/2: common practice).
+func TestVoicesOnLongWindowsAreNamedFromTheirSecondFrame(t *testing.T) {
+	g := newGroupModel(newModel(keyOf(t, "C major"), "test tones"), []string{"voice 1", "voice 2", "voice 3"}, 0)
+	c4 := et(-9)
+	frame := func(at float64) {
+		g.AddFrame(GroupFrame{Time: at, Hz: []float64{c4, c4 * 5 / 4, c4 * 3 / 2}, Levels: []float64{-20, -20, -20}, Level: -20, Span: 0.171})
+	}
+	frame(1.024)
+	if r := g.readings()[0]; !r.Holding {
+		t.Errorf("after the first frame, voice 1 holds nothing: %+v", r)
+	}
+	if got := chordLine(g).Text(); !strings.HasPrefix(got, "no chord yet") {
+		t.Errorf("after the first frame: %q", got)
+	}
+	frame(1.109)
+	if got := chordLine(g).Text(); got != "chord C major over C4" {
+		t.Errorf("after the second frame: %q", got)
+	}
+}
