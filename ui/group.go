@@ -27,9 +27,7 @@ type GroupFrame struct {
 }
 
 // Rows hold a pitch once it has stayed within rowCents of itself over the
-// last rowSeconds, for at least rowFrames frames or, where one frame reads
-// a long window (GroupFrame.Span), for frames covering rowSteady seconds of
-// sound (the players' rowFrames at their 10.7 ms hop), and drop it rowBridge
+// last rowSeconds, for at least rowFrames frames, and drop it rowBridge
 // seconds after its last frame: steady enough to read a chord by, quick
 // enough to follow a change of chord within a beat. Frames rowFallDB below
 // the loudest of them are left out: a note's release is not its pitch.
@@ -38,9 +36,17 @@ const (
 	rowSeconds = 0.5 // more than two cycles of a 5 Hz vibrato: its centre
 	rowCents   = 50
 	rowFrames  = 3
-	rowSteady  = 0.03
 	rowBridge  = 0.15
 )
+
+// A voice's frames on one microphone read long windows (GroupFrame.Span),
+// a frame every 85 ms: rowLongFrames of them hold its pitch (one alone may
+// be the estimator's passing misreading, an octave low at a sawtooth's
+// abrupt end: measured), and their levels are not compared (the
+// estimator's first frame after an onset reads the voices 11 dB louder
+// than the next, measured, which kept a chord's steady frames out for
+// rowSeconds).
+const rowLongFrames = 2
 
 // chordsKept is how many earlier chords the screen recalls.
 const chordsKept = 4
@@ -48,12 +54,12 @@ const chordsKept = 4
 // chordSettle is how long a new chord must sound before the screen names
 // it: players never change at quite the same moment, and the half-changed
 // chords between are not the group's. A frame that reads a long window
-// (GroupFrame.Span) has heard that much of the chord already: one
+// (GroupFrame.Span) just after silence has heard that much of it: one
 // microphone's voices are first read 0.11 s after a chord starts, a
-// frame every 85 ms, and counted as the players' short frames (three for
-// a row, then 0.2 s) the chord was named 0.96 s after it started, now
-// 0.2 s (TestAChordFromOneMicrophoneIsNamedWithin300ms; the voices issue
-// asks 0.3 s).
+// frame every 85 ms; read as the players' short frames the chord was named
+// 0.96 s after it started (on the stream's clock), now 0.28 s
+// (TestAChordFromOneMicrophoneIsNamedWithin300ms; the voices issue asks
+// 0.3 s).
 const chordSettle = 0.2
 
 // groupModel is what the group meter knows. Like model it keeps pitches,
@@ -81,6 +87,9 @@ type groupModel struct {
 	next   string
 	nextAt float64
 	span   float64 // the latest frame's GroupFrame.Span
+	heard  float64 // seconds of next heard before nextAt: see followChord
+	// silentAt is the time of the latest frame in which no row was voiced.
+	silentAt float64
 }
 
 // groupRow is one player's or voice's recent frames and what they hold.
@@ -113,6 +122,9 @@ func (g *groupModel) AddFrame(f GroupFrame) {
 		g.Voiced = g.Voiced || hz > 0
 		g.rows[i].add(f.Time, hz, level, f.Span)
 	}
+	if !g.Voiced {
+		g.silentAt = f.Time
+	}
 	g.Drift, g.DriftKnown = f.Drift, f.DriftKnown
 	g.followChord(false)
 }
@@ -134,6 +146,10 @@ func (r *groupRow) add(t, hz, level, span float64) {
 	if n == 0 || t-r.times[n-1] > rowBridge {
 		return
 	}
+	need, fall := rowFrames, float64(rowFallDB)
+	if span > 0 {
+		need, fall = rowLongFrames, math.Inf(1)
+	}
 	newest, loudest := r.hz[n-1], math.Inf(-1)
 	near := func(f float64) bool { return math.Abs(1200*math.Log2(f/newest)) <= rowCents }
 	for i, f := range r.hz {
@@ -141,15 +157,14 @@ func (r *groupRow) add(t, hz, level, span float64) {
 			loudest = max(loudest, r.levels[i])
 		}
 	}
-	sum, k, first := 0.0, 0, t
+	sum, k := 0.0, 0
 	for i, f := range r.hz {
-		if near(f) && r.levels[i] >= loudest-rowFallDB {
+		if near(f) && r.levels[i] >= loudest-fall {
 			sum += math.Log2(f)
 			k++
-			first = min(first, r.times[i])
 		}
 	}
-	if k >= rowFrames || k > 0 && span > 0 && r.times[n-1]-first+span >= rowSteady {
+	if k >= need {
 		r.Hz = math.Exp2(sum / float64(k))
 		r.Last = r.Hz
 	}
@@ -177,9 +192,16 @@ func (g *groupModel) followChord(force bool) {
 		name = c.Root.PrettyName() + " " + c.Quality
 	}
 	if name != g.next {
+		// Just after silence, a long window's reading of this chord has
+		// heard only it (multipitch reads an onset's newest half window);
+		// at a change it has heard the chord before as well.
+		g.heard = 0
+		if g.Now-g.silentAt <= rowSeconds {
+			g.heard = g.span
+		}
 		g.next, g.nextAt = name, g.Now
 	}
-	if !ok || name != g.chordName && !force && g.Now-g.nextAt+g.span < chordSettle {
+	if !ok || name != g.chordName && !force && g.Now-g.nextAt+g.heard < chordSettle {
 		g.sounding = false
 		for i, f := range hz {
 			if f > 0 && (i >= len(g.chord) || !(math.Abs(1200*math.Log2(f/g.chord[i])) <= rowCents)) {
