@@ -90,6 +90,8 @@ type Detector struct {
 	floor     float64 // absolute power floor for partial peaks in this frame
 	peak      float64 // strongest bin's power in this frame
 	last      analysis
+	under     float64 // power of the quieter sound the span began with (entry.go)
+	entryRun  int     // frames in a row, this one included, whose span holds an entry
 }
 
 // New returns a Detector for the sample rate with the given window and hop
@@ -204,6 +206,9 @@ func (d *Detector) analyse() Estimate {
 	n := copy(d.lin, d.ring[d.w:])
 	copy(d.lin[n:], d.ring[:d.w])
 	e := Estimate{Time: (float64(d.fed) - 0.5*float64(d.span)) / d.fs}
+	if d.entryRun++; !d.entering() {
+		d.entryRun = 0
+	}
 	frameA, frameB := d.lin[:d.window], d.lin[d.lag:]
 	e.Level = d.levelDB(frameB)
 	if e.Level < silenceDBFS {
@@ -213,8 +218,9 @@ func (d *Detector) analyse() Estimate {
 
 	// While a note holds, the last pitch seeds the comb and the NSDF is
 	// refreshed only every few hops; it always runs after an unvoiced
-	// frame and for low notes, whose final estimate it is.
-	tracking := d.prevHz >= resolvedBins*d.binHz && d.sinceNSDF < nsdfEvery
+	// frame, for low notes, whose final estimate it is, and at an entry
+	// over a pitch read before it began (entry.go): the quieter sound's.
+	tracking := d.prevHz >= resolvedBins*d.binHz && d.sinceNSDF < nsdfEvery && !d.overOlderPitch()
 	d.holding = d.prevHz > 0
 	if tracking {
 		d.sinceNSDF++
@@ -246,6 +252,7 @@ func (d *Detector) analyse() Estimate {
 // tracking the last pitch's) into e, and reports whether it is voiced.
 func (d *Detector) read(e *Estimate, period, clarity float64, tracking bool) bool {
 	c := cue{clarity: clarity, needClarity: minClarity, needShare: minShare}
+	d.under = d.underlay()
 	c.f, c.period = d.guard(period)
 	c.lagCents = centsPerUnit * 0.15 / c.period // parabolic-lag resolution
 	if tracking {
@@ -357,19 +364,6 @@ func (d *Detector) levelDB(x []float64) float64 {
 		ss += v * v
 	}
 	return 10 * math.Log10(ss/float64(len(x))+1e-30)
-}
-
-// onsetInSpan reports whether the span's oldest eighth is more than 20 dB
-// quieter than its newest: a note has started inside it.
-func (d *Detector) onsetInSpan() bool {
-	n := len(d.lin) / 8
-	var first, last float64
-	for i, v := range d.lin[:n] {
-		w := d.lin[len(d.lin)-n+i]
-		first += v * v
-		last += w * w
-	}
-	return first < 0.01*last
 }
 
 // analysis keeps the last voiced-candidate frame's evidence, for tests.

@@ -127,7 +127,7 @@ func (d *Detector) guard(period float64) (float64, float64) {
 	f := d.fs / period
 	resolved := resolvedBins * d.binHz
 	if k := d.harmonicOfHeld(f); k > 1 && d.held.hz >= resolved &&
-		d.combPower(d.held.hz, k) > guardExtraRatio*d.combPower(f, 0) {
+		d.moreThanUnder(d.combPower(d.held.hz, k), guardExtraRatio*d.combPower(f, 0)) {
 		// The comb is seeded where the note was, as while tracking it:
 		// a partial of a note still settling need not lie at k·F.
 		f, period = d.held.hz, d.refineLag(d.fs/d.held.hz)
@@ -158,7 +158,7 @@ func (d *Detector) guard(period float64) (float64, float64) {
 				if d.heldAt(f) && d.own(g) < guardBleedOwn*all {
 					ratio = guardHeldRatio
 				}
-				down = d.combPower(g, c.q) > ratio*all
+				down = d.moreThanUnder(d.combPower(g, c.q), ratio*all)
 			} else {
 				nl := d.nsdfAt(lower)
 				down = nl > d.nsdfAt(period)+nsdfDownMargin && nl >= nsdfDownClarity

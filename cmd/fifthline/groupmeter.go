@@ -91,6 +91,7 @@ func voicesMeter(ctx context.Context, src source.Source, tunings *session.Tuning
 			}
 			frame.add(i, len(names), hz, level)
 		}
+		frame.span = f.Span // a long window's reading: see ui.GroupFrame
 		frame.send(m, f.Time)
 	}
 	chords := vo.liveChords(tunings, func(c harmony.Chord, voices []int, tu target.Tuning) error {
@@ -126,6 +127,7 @@ func groupMeter(names []string, tunings *session.Tunings, seventh float64, j *jo
 // group's drift so far.
 type groupFrame struct {
 	hz, levels []float64
+	span       float64 // seconds each reading covers (ui.GroupFrame.Span)
 
 	tunings *session.Tunings
 	seventh float64
@@ -152,5 +154,5 @@ func (g *groupFrame) add(i, rows int, hz, level float64) {
 // send hands the moment to the meter (which copies it).
 func (g *groupFrame) send(m *ui.Meter, t float64) {
 	drift, known := g.drift().Cents()
-	m.OnGroupFrame(ui.GroupFrame{Time: t, Hz: g.hz, Levels: g.levels, Level: slices.Max(g.levels), Drift: drift, DriftKnown: known})
+	m.OnGroupFrame(ui.GroupFrame{Time: t, Hz: g.hz, Levels: g.levels, Level: slices.Max(g.levels), Drift: drift, DriftKnown: known, Span: g.span})
 }

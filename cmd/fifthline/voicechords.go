@@ -26,12 +26,14 @@ func logVoiceChordsOf(j *journalSink, name string, tu target.Tuning, seventh flo
 }
 
 // chordsOf finds the held chords among voice notes (harmony.Find), each
-// member read from its voice's frames within the chord; a voice lost for a
-// moment under the chord is bridged first (bridgeLost).
+// member read from its voice's frames within the chord, from where its note
+// settled when it enters on the chord (its segmenter's Held.Settled: past
+// the attack's glide, as the note alone is read and as a player's is); a
+// voice lost for a moment under the chord is bridged first (bridgeLost).
 func chordsOf(notes []voiceNote, tu target.Tuning, seventh float64) []harmony.Chord {
 	hs := make([]harmony.Note, len(notes))
 	for i, n := range notes {
-		hs[i] = harmony.Note{Start: n.Start, End: n.End, Who: strconv.Itoa(n.voice), Note: n.Reading.Note, Frames: n.frames, Hz: n.Hz}
+		hs[i] = harmony.Note{Start: n.Start, End: n.End, Who: strconv.Itoa(n.voice), Note: n.Reading.Note, Frames: n.frames, Hz: n.Hz, Settled: n.Settled}
 	}
 	hs, from := bridgeLost(hs)
 	chords := harmony.Find(hs, tu, seventh)
