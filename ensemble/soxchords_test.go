@@ -47,11 +47,12 @@ func soxLine(t *testing.T, pitches []float64) []float64 {
 
 // Chords of four-harmonic tones from sox, whose partials meet across the
 // channels: E♭3's 3rd and 6th fall on B♭3's 2nd and 4th, D4's 2nd on G3's
-// 3rd. Each player's note holds its pitch on its own channel alone, yet
-// with no bleed at all the ownership test once gave E♭3 under G3 B♭3 D4,
-// and D4 in G3 B♭3 D4 F4, away: every harmonic it sounds was left out as
-// shared, and what stayed weighed (its silent 7th and 8th, or 5th) held on
-// a neighbour's channel the edge of a partial. Truth: the frequencies sox
+// 3rd; A3 doubles A2 an octave down beside B♭3. Each player's note holds
+// its pitch on its own channel alone, yet with no bleed at all the
+// ownership test once gave E♭3 under G3 B♭3 D4, D4 in G3 B♭3 D4 F4, and A3
+// over A2 away: every harmonic it sounds was left out as shared, and what
+// stayed weighed (E♭3's silent 7th and 8th, D4's 5th) held on a
+// neighbour's channel the edge of a partial. Truth: the frequencies sox
 // was given, equal temperament from A4 = 440 Hz (ISO 16), spelled in
 // G minor (common practice). Read clean, then with the neighbours mixed
 // in 15–25 dB down and 1–6 ms late (the ensemble issue's measurements of
@@ -68,6 +69,7 @@ func TestSoxChordsSharingPartialsKeepEveryNote(t *testing.T) {
 		{et("Bb3", -11), et("D4", -7), et("F#4", -3), rest},
 		{et("Eb3", -18), et("G3", -14), et("Bb3", -11), et("D4", -7)},
 		{et("G3", -14), et("Bb3", -11), et("D4", -7), et("F4", -4)},
+		{et("A2", -24), et("A3", -12), et("Bb3", -11), et("G4", -2)},
 	}
 	src := make([][]float64, 4)
 	for c := range src {
