@@ -96,12 +96,33 @@ func (o *Owner) power(c int, hz float64, skip uint16) float64 {
 
 func sqr(x float64) float64 { return x * x }
 
+// unsharedFloorDB is how far below a note's power at all its harmonics the
+// power at its unshared ones may lie before they are taken to hold none of
+// it: the main lobe's edge of a partial three bins off (Blackman–Harris,
+// 4 terms: a₃/2 against a₀, 36 dB down) is all a channel with no partial
+// there hears, so below 40 dB the unshared harmonics hold only that.
+const unsharedFloorDB = 40
+
 // Bleed tells whether a pitch heard on channel c is another channel's:
 // its harmonics sound more than ownDB louder on one of the others, leaving
 // out those on the partials of the others' own pitches this frame
 // (pitches, by channel; see sharedHarmonics).
+//
+// When the harmonics left weighed hold nothing of the note on c (below
+// unsharedFloorDB of its power at all of them), they are weighed all
+// instead, as when every harmonic is shared: a note with few partials
+// under a chord has its sounding ones all on the others' partials, and
+// the rest hold on c only noise and on a neighbour's channel the edge of
+// a partial's main lobe (ownBins+4 bins reach it, the mask only ownBins+2),
+// so the note would go as that neighbour's. Measured on four-harmonic
+// tones (sox) in a G minor chord: E♭3 under G3 B♭3 D4 weighed only its
+// silent 7th and 8th, −80 dB on its own channel against 0 dB on D4's.
 func (o *Owner) Bleed(c int, hz float64, pitches []float64, ownDB float64) bool {
-	return o.louderElsewhere(c, hz, sharedHarmonics(c, hz, pitches, o.fs/float64(len(o.win))), ownDB)
+	skip := sharedHarmonics(c, hz, pitches, o.fs/float64(len(o.win)))
+	if skip != 0 && o.power(c, hz, skip) < o.power(c, hz, 0)*math.Pow(10, -unsharedFloorDB/10) {
+		skip = 0
+	}
+	return o.louderElsewhere(c, hz, skip, ownDB)
 }
 
 // bleedOf is Bleed for a pitch read below cut Hz (lowband.go; 0: read

@@ -73,3 +73,34 @@ func TestASoftBassUnderTheOthersIsTheBass(t *testing.T) {
 		}
 	}
 }
+
+// E♭3 under G3 B♭3 D4, four harmonics each at equal amplitude (as sox's
+// sines, summed), equal temperament at A4 = 440 Hz (ISO 16): every
+// harmonic E♭3 sounds lies near a partial of the others (its 3rd and 6th
+// on B♭3's 2nd and 4th), and those left weighed, its 7th and 8th, hold
+// nothing of it. On close microphones that hear nothing of each other the
+// note is its player's; heard on another channel 20 dB down beside that
+// player's own E♭3, it is that player's bleed.
+func TestANoteWhoseSoundingHarmonicsAreAllSharedIsWeighedWhole(t *testing.T) {
+	et := func(semitones float64) float64 { return 440 * math.Exp2(semitones/12) }
+	four := testsignal.Spectrum{Name: "four equal harmonics", Amps: []float64{1, 1, 1, 1}}
+	eb3, chord := et(-18), []float64{et(-14), et(-11), et(-7)} // G3, B♭3, D4
+	const n = 4096                                             // the detector's window at 48 kHz
+	tone := func(hz, level float64) []float64 { return testsignal.Tone(rate, n, four, level, testsignal.Steady(hz)) }
+	o := NewOwner(rate, n, 5)
+	o.Set(0, tone(eb3, 0.15), nil)
+	for i, hz := range chord {
+		o.Set(i+1, tone(hz, 0.15), nil)
+	}
+	pitches := []float64{eb3, chord[0], chord[1], chord[2], 0}
+	if o.Bleed(0, eb3, pitches, DefaultOwnDB) {
+		t.Errorf("E♭3 on its own channel under G3 B♭3 D4 given away as bleed")
+	}
+	// Channel 4 plays E♭3; channel 0 rests and hears it 20 dB down.
+	o.Set(0, tone(eb3, 0.015), nil)
+	o.Set(4, tone(eb3, 0.15), nil)
+	pitches[4] = eb3
+	if !o.Bleed(0, eb3, pitches, DefaultOwnDB) {
+		t.Errorf("E♭3 heard 20 dB down beside its player's channel kept as a note")
+	}
+}
