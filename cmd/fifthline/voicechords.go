@@ -15,16 +15,6 @@ import (
 	"fifthline/target"
 )
 
-// logVoiceChordsOf finds the chords among the voice notes heard live, read
-// in tu, and journals them, as each chord is known only once its notes
-// end.
-func logVoiceChordsOf(j *journalSink, name string, tu target.Tuning, seventh float64, notes []voiceNote) []harmony.Chord {
-	sortVoiceNotes(notes)
-	chords := chordsOf(notes, tu, seventh)
-	logVoiceChords(j, name, tu, chords, notes, time.Time{})
-	return chords
-}
-
 // chordsOf finds the held chords among voice notes (harmony.Find), each
 // member read from its voice's frames within the chord, from where its note
 // settled when it enters on the chord (its segmenter's Held.Settled: past
