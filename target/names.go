@@ -108,6 +108,8 @@ var named = func() map[string]Temperament {
 		"just": Just{}, "justintonation": Just{}, "5limitjust": Just{},
 		"werckmeister": circulating["werckmeister3"], "kirnberger": circulating["kirnberger3"],
 	}
+	// "Meantone" unqualified is the quarter-comma kind (common practice).
+	m["meantone"], _ = Meantone(1, 4)
 	for spec, c := range circulating {
 		m[spec] = c
 	}

@@ -10,7 +10,8 @@ import (
 
 // The names the meter and the reports show, and the usual ways musicians
 // write them, are accepted as --temperament values (the examples:
-// "Werckmeister III", "¼-comma meantone", "quarter-comma", "edo31").
+// "Werckmeister III", "¼-comma meantone", "quarter-comma", "edo31"); plain
+// "meantone" is the quarter-comma kind (common practice).
 func TestTemperamentNamesAsMusiciansWriteThem(t *testing.T) {
 	for in, want := range map[string]string{
 		"Werckmeister III": "werckmeister3", "werckmeister-iii": "werckmeister3", "Kirnberger III": "kirnberger3",
@@ -21,7 +22,7 @@ func TestTemperamentNamesAsMusiciansWriteThem(t *testing.T) {
 		"2/7-comma meantone": "meantone:2/7", "third-comma": "meantone:1/3", "meantone 1/5": "meantone:1/5",
 		"edo31": "edo:31", "31-EDO": "edo:31", "19-tet": "edo:19", "EDO 53": "edo:53",
 		"regular, fifth 696.5¢": "fifth:696.5", "Meantone:1/4": "meantone:1/4",
-		"meantone quarter-comma": "meantone:1/4", " Meantone : 1/6 ": "meantone:1/6", "Two-sevenths comma": "meantone:2/7",
+		"meantone quarter-comma": "meantone:1/4", "meantone": "meantone:1/4", "Meantone": "meantone:1/4", " Meantone : 1/6 ": "meantone:1/6", "Two-sevenths comma": "meantone:2/7",
 	} {
 		tm, err := ParseTemperament(in)
 		if err != nil || tm.Spec() != want {
@@ -44,7 +45,7 @@ func TestUnknownTemperamentSuggestsTheNearest(t *testing.T) {
 	for in, want := range map[string]string{
 		"werkmeister3": "did you mean werckmeister3?", "Werkmeister": "did you mean werckmeister3?",
 		"kirnberger 2": "did you mean kirnberger3?", "valotti": "did you mean vallotti?",
-		"pythagorian": "did you mean pythagorean?", "meantone": "did you mean meantone:1/4?",
+		"pythagorian": "did you mean pythagorean?", "meanton": "did you mean meantone:1/4?",
 		"juts": "did you mean just?", "wobbly": "try equal, meantone:1/4",
 	} {
 		_, err := ParseTemperament(in)
