@@ -289,22 +289,36 @@ func (s *Segmenter) summarise(live, slurred bool) Held {
 	if s.from.hz != 0 {
 		lo = s.from.last + s.Window/2
 	}
+	quick := hi // a quick note with none such: to half a Window before a slur
 	if slurred {
-		hi = h.End - s.Window/2
+		quick = h.End - s.Window/2
 	}
-	i, j := steady(fr, lo, hi)
+	// Where the note settles is found within fr[i:j], as for a note
+	// that ends in a rest; the reading takes a slurred note on to fr[k-1].
+	i, j := steady(fr, lo, hi, quick)
+	k := j
+	for slurred && k < len(fr) && fr[k].Time <= quick {
+		k++
+	}
 	s.t, s.c = s.t[:0], s.c[:0]
-	for _, e := range fr[i:j] {
+	for _, e := range fr[i:k] {
 		s.t = append(s.t, e.Time)
 		s.c = append(s.c, 1200*math.Log2(e.Hz/ref))
 	}
 	// Whether the note settled after a glide is judged on its frames up to
 	// half a Window before its end: a quick note's steady part may end in a
 	// vibrato's trough, where half a cycle looks like a settled glide (a
-	// violin's 0.3 s C6 read 11 ¢ low: FluidR3, measured).
-	n := len(s.c)
-	for _, e := range fr[j:] {
-		if e.Time > h.End-s.Window/2 {
+	// violin's 0.3 s C6 read 11 ¢ low: FluidR3, measured). A slurred note
+	// whose steady part ends a Window before its end is judged on all its
+	// frames: the same C6, read on, settled in a trough five frames long at
+	// one phase of the hop, and read 22 ¢ low.
+	n, m := len(s.c), j-i
+	until := h.End - s.Window/2
+	if slurred && fr[j-1].Time <= hi {
+		until = h.End
+	}
+	for _, e := range fr[k:] {
+		if e.Time > until {
 			break
 		}
 		s.c = append(s.c, 1200*math.Log2(e.Hz/ref))
@@ -312,11 +326,11 @@ func (s *Segmenter) summarise(live, slurred bool) Held {
 	// The glide may start as late as a note after a rest starts its
 	// steady part (a Window after its first frame), past a wobble.
 	wobble := 0
-	for wobble < n && s.t[wobble] < h.Start+s.Window {
+	for wobble < m && s.t[wobble] < h.Start+s.Window {
 		wobble++
 	}
 	g := s.glide(s.c, wobble)
-	if s.c = s.c[:n]; g >= n {
+	if s.c = s.c[:n]; g >= m {
 		g = 0
 	}
 	mean, sd := meanStd(s.c[g:])
@@ -340,23 +354,29 @@ func (s *Segmenter) summarise(live, slurred bool) Held {
 	return h
 }
 
-// steady returns the frames fr[i:j] timed within lo..hi, or for a note
-// too short to have three such frames, the three nearest the middle of
-// lo..hi.
-func steady(fr []Estimate, lo, hi float64) (i, j int) {
+// steady returns the frames fr[i:j] timed within lo..hi, else within
+// lo..quick, or for a note too short to have three such frames, the three
+// nearest the middle of lo..quick.
+func steady(fr []Estimate, lo, hi, quick float64) (i, j int) {
 	byTime := func(e Estimate, t float64) int { return cmp.Compare(e.Time, t) }
+	within := func(hi float64) (int, int) {
+		i, _ := slices.BinarySearchFunc(fr, lo, byTime)
+		j, _ := slices.BinarySearchFunc(fr, hi, byTime)
+		for j < len(fr) && fr[j].Time <= hi {
+			j++
+		}
+		return i, j
+	}
 	if len(fr) <= 3 {
 		return 0, len(fr)
 	}
-	i, _ = slices.BinarySearchFunc(fr, lo, byTime)
-	j, _ = slices.BinarySearchFunc(fr, hi, byTime)
-	for j < len(fr) && fr[j].Time <= hi {
-		j++
-	}
-	if j-i >= 3 {
+	if i, j = within(hi); j-i >= 3 {
 		return i, j
 	}
-	m, _ := slices.BinarySearchFunc(fr, (lo+hi)/2, byTime)
+	if i, j = within(quick); j-i >= 3 {
+		return i, j
+	}
+	m, _ := slices.BinarySearchFunc(fr, (lo+quick)/2, byTime)
 	i = min(max(m-1, 0), len(fr)-3)
 	return i, i + 3
 }
