@@ -293,15 +293,15 @@ func (s *Segmenter) summarise(live, slurred bool) Held {
 	if slurred {
 		quick = h.End - s.Window/2
 	}
-	// Where the note settles is found within fr[i:j], as for a note
-	// that ends in a rest; the reading takes a slurred note on to fr[k-1].
 	i, j := steady(fr, lo, hi, quick)
-	k := j
-	for slurred && k < len(fr) && fr[k].Time <= quick {
-		k++
+	// A slurred note with a steady part by the rule above is read on to
+	// half a Window before its end.
+	long := slurred && fr[j-1].Time <= hi
+	for long && j < len(fr) && fr[j].Time <= quick {
+		j++
 	}
 	s.t, s.c = s.t[:0], s.c[:0]
-	for _, e := range fr[i:k] {
+	for _, e := range fr[i:j] {
 		s.t = append(s.t, e.Time)
 		s.c = append(s.c, 1200*math.Log2(e.Hz/ref))
 	}
@@ -309,15 +309,15 @@ func (s *Segmenter) summarise(live, slurred bool) Held {
 	// half a Window before its end: a quick note's steady part may end in a
 	// vibrato's trough, where half a cycle looks like a settled glide (a
 	// violin's 0.3 s C6 read 11 ¢ low: FluidR3, measured). A slurred note
-	// whose steady part ends a Window before its end is judged on all its
-	// frames: the same C6, read on, settled in a trough five frames long at
-	// one phase of the hop, and read 22 ¢ low.
-	n, m := len(s.c), j-i
+	// read on to there, if its steady part lasts less than the slowest
+	// vibrato's cycle, is judged on all its frames: the same C6 settled in
+	// a trough five frames long at one phase of the hop, and read 22 ¢ low.
+	n := len(s.c)
 	until := h.End - s.Window/2
-	if slurred && fr[j-1].Time <= hi {
+	if long && s.t[n-1]-s.t[0] < 1/vibratoMinRate {
 		until = h.End
 	}
-	for _, e := range fr[k:] {
+	for _, e := range fr[j:] {
 		if e.Time > until {
 			break
 		}
@@ -326,11 +326,11 @@ func (s *Segmenter) summarise(live, slurred bool) Held {
 	// The glide may start as late as a note after a rest starts its
 	// steady part (a Window after its first frame), past a wobble.
 	wobble := 0
-	for wobble < m && s.t[wobble] < h.Start+s.Window {
+	for wobble < n && s.t[wobble] < h.Start+s.Window {
 		wobble++
 	}
 	g := s.glide(s.c, wobble)
-	if s.c = s.c[:n]; g >= m {
+	if s.c = s.c[:n]; g >= n {
 		g = 0
 	}
 	mean, sd := meanStd(s.c[g:])

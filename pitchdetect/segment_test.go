@@ -305,8 +305,8 @@ func BenchmarkCurrentOnALongNote(b *testing.B) {
 // A note slurred on to the next is read up to half a window before its last
 // frame: the slur lies after that frame (the frames whose window holds both
 // notes are read as neither), and each frame's window reaches half a window
-// either side of it. A quick note whose pitch still rises (FluidR3's
-// trumpet, in cmd/fifthline's TestAnalyzeHearsEveryNoteOfQuickLegatoRuns)
+// either side of it. A note whose pitch still moves (FluidR3's violin's
+// high eighths, in cmd/fifthline's TestAnalyzeHearsEveryNoteOfQuickLegatoRuns)
 // is read from all of those frames, not only its first ones.
 func TestASlurredNoteIsReadToHalfAWindowBeforeItsLastFrame(t *testing.T) {
 	const hop, rise = 0.01, 0.5 // seconds; cents a frame
