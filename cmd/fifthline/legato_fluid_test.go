@@ -25,10 +25,8 @@ var legatoRuns = []struct {
 	name    string
 	program int   // General MIDI program, 0-based
 	keys    []int // MIDI keys, 60 = C4
-	// nearMedian is how many of the run's notes, sixteenths then eighths,
-	// analyze reads within legatoCents of the median pitch of their own
-	// sound (see checkLegato): measured, a floor for what must not get
-	// worse, not a target.
+	// nearMedian: how many notes (sixteenths, eighths) analyze reads within
+	// legatoCents of their sound's median (checkLegato); measured, a floor.
 	nearMedian [2]int
 }{
 	{"clarinet", 71, []int{55, 57, 59, 60, 62, 67, 74, 72, 71, 69, 67, 64, 62, 59, 62, 67}, [2]int{16, 16}},
@@ -297,21 +295,16 @@ func renderLegatoRunsIn(t *testing.T, dir string) []legatoRun {
 // from the key's settled pitch is logged beside it, for each run.
 //
 // The stricter truth is their median, the pitch a listener assigns to the
-// note; checkLegato returns, for each run, how many notes read within
-// legatoCents of it. Where they do not, measured beside aubio's yin on the
-// run itself: our frames agree with aubio's frame by frame within about
-// 1 ¢ (clarinet, flute, oboe, trumpet, the violin's low run), but they
-// see less of the note than the truth does. Frames whose window holds a
-// slur are read as neither note, so a sixteenth is read over its middle
-// 0.08 s, while the truth's frames are those of the key alone whose
-// window starts within the note: they take in an oboe's sharp attack,
-// which the run hides under the last note's tail, a trumpet's rise past
-// the next note-on, and a violin's first 60–80 ms, where its slow attack
-// leaves the last note louder; over a third of a vibrato cycle, a
-// different part of the cycle is a different median. The violin's high
-// sixteenths (C6, C♯6, D6: five to seven voiced frames, the next note's
-// attack within each window) are read up to 18 ¢ from aubio's own
-// frames: the detector's, not the summary's.
+// note: checkLegato returns, per run, how many notes read within
+// legatoCents of it. Where not (measured beside aubio's yin on the run
+// itself), our frames agree with aubio's within about 1 ¢ but see less of
+// the note: frames whose window holds a slur are read as neither note,
+// while the truth (the key alone) takes in an oboe's sharp attack that the
+// run hides under the last note's tail, a trumpet's rise past the next
+// note-on, a violin's first 60–80 ms (its slow attack leaves the last
+// note louder) and so another part of its vibrato. The violin's high
+// sixteenths (C6, C♯6, D6) are read up to 18 ¢ from aubio's own frames:
+// the detector's, not the summary's.
 func checkLegato(t *testing.T, how string, runs []legatoRun, rows []map[string]string) (nearMedian []int) {
 	t.Helper()
 	var got, want []string
@@ -400,19 +393,4 @@ func TestListenHearsEveryNoteOfQuickLegatoRuns(t *testing.T) {
 	}
 	_, rows := readCSV(t, interruptPlain(t, proc, wait))
 	checkLegato(t, "listen", runs, rows)
-}
-
-// interruptPlain stops `listen --plain` with Ctrl-C (SIGINT), checks that it
-// ended cleanly, saying nothing but the tuning in force, and returns its
-// output.
-func interruptPlain(t *testing.T, proc *os.Process, wait func() (int, string, string)) string {
-	t.Helper()
-	if err := proc.Signal(os.Interrupt); err != nil {
-		t.Fatal(err)
-	}
-	code, out, stderr := wait()
-	if code != 0 || (stderr != "" && (strings.Count(stderr, "\n") != 1 || !strings.HasPrefix(stderr, "fifthline: tuning "))) {
-		t.Errorf("exit %d, stderr %q", code, stderr)
-	}
-	return out
 }
