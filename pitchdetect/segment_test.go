@@ -301,3 +301,53 @@ func BenchmarkCurrentOnALongNote(b *testing.B) {
 		s.Current()
 	}
 }
+
+// A note slurred on to the next is read up to half a window before its last
+// frame: the slur lies after that frame (the frames whose window holds both
+// notes are read as neither), and each frame's window reaches half a window
+// either side of it. A note whose pitch still moves (FluidR3's violin's
+// high eighths, in cmd/fifthline's TestAnalyzeHearsEveryNoteOfQuickLegatoRuns)
+// is read from all of those frames, not only its first ones.
+func TestASlurredNoteIsReadToHalfAWindowBeforeItsLastFrame(t *testing.T) {
+	const hop, rise = 0.01, 0.5 // seconds; cents a frame
+	s := NewSegmenter(hop)
+	var got []Held
+	var times, frames []float64 // the middle note's frames: seconds, cents above B4
+	n := 0
+	add := func(count int, hz func(i int) float64) {
+		for i := range count {
+			h := hz(i)
+			if h, ok := s.Push(Estimate{Time: float64(n) * hop, Hz: h, Voiced: h > 0, Confidence: 1, Level: -20}); ok {
+				got = append(got, h)
+			}
+			n++
+		}
+	}
+	b4 := 493.88 // B4, equal-tempered at A4 = 440 Hz (common practice)
+	add(20, func(int) float64 { return 440 })
+	add(4, func(int) float64 { return 0 })
+	add(30, func(i int) float64 {
+		times = append(times, float64(n)*hop)
+		frames = append(frames, rise*float64(i))
+		return b4 * math.Exp2(rise*float64(i)/1200)
+	})
+	add(4, func(int) float64 { return 0 })
+	add(20, func(int) float64 { return 523.25 })
+	if h, ok := s.Flush(); ok {
+		got = append(got, h)
+	}
+	if len(got) != 3 {
+		t.Fatalf("%d notes, want 3", len(got))
+	}
+	var sum float64
+	var k int
+	for i, c := range frames {
+		if times[i] <= times[len(times)-1]-s.Window/2+1e-9 {
+			sum += c
+			k++
+		}
+	}
+	if c, want := testsignal.Cents(got[1].Hz, b4), sum/float64(k); math.Abs(c-want) > 0.01 {
+		t.Errorf("the slurred note reads %+.3f ¢, want %+.3f (the mean of its frames to half a window before its last)", c, want)
+	}
+}

@@ -25,13 +25,16 @@ var legatoRuns = []struct {
 	name    string
 	program int   // General MIDI program, 0-based
 	keys    []int // MIDI keys, 60 = C4
+	// nearMedian: how many notes (sixteenths, eighths) analyze reads within
+	// legatoCents of their sound's median (checkLegato); measured, a floor.
+	nearMedian [2]int
 }{
-	{"clarinet", 71, []int{55, 57, 59, 60, 62, 67, 74, 72, 71, 69, 67, 64, 62, 59, 62, 67}},
-	{"flute", 73, []int{74, 76, 78, 79, 81, 83, 86, 84, 81, 79, 76, 74, 72, 76, 79, 84}},
-	{"oboe", 68, []int{62, 64, 66, 67, 69, 71, 73, 74, 69, 66, 62, 67, 71, 74, 76, 74}},
-	{"violin", 40, []int{55, 59, 62, 67, 71, 74, 79, 76, 72, 69, 66, 62, 64, 66, 67, 71}},
-	{"violin-high", 40, []int{79, 81, 83, 84, 86, 84, 83, 85, 86, 84, 81, 84, 86, 85, 86, 84}},
-	{"trumpet", 56, []int{58, 60, 62, 63, 65, 67, 69, 70, 65, 62, 58, 65, 70, 74, 72, 70}},
+	{"clarinet", 71, []int{55, 57, 59, 60, 62, 67, 74, 72, 71, 69, 67, 64, 62, 59, 62, 67}, [2]int{16, 16}},
+	{"flute", 73, []int{74, 76, 78, 79, 81, 83, 86, 84, 81, 79, 76, 74, 72, 76, 79, 84}, [2]int{12, 15}},
+	{"oboe", 68, []int{62, 64, 66, 67, 69, 71, 73, 74, 69, 66, 62, 67, 71, 74, 76, 74}, [2]int{14, 13}},
+	{"violin", 40, []int{55, 59, 62, 67, 71, 74, 79, 76, 72, 69, 66, 62, 64, 66, 67, 71}, [2]int{8, 8}},
+	{"violin-high", 40, []int{79, 81, 83, 84, 86, 84, 83, 85, 86, 84, 81, 84, 86, 85, 86, 84}, [2]int{3, 4}},
+	{"trumpet", 56, []int{58, 60, 62, 63, 65, 67, 69, 70, 65, 62, 58, 65, 70, 74, 72, 70}, [2]int{3, 15}},
 }
 
 // legatoSeconds: sixteenths at ♩ = 100 last 60/100/4 = 0.15 s, eighths 0.3 s.
@@ -238,9 +241,10 @@ func aubioTrack(t *testing.T, wav, method string) []pitchFrame {
 
 // legatoRun is one rendered run with what it must be heard as.
 type legatoRun struct {
-	name, wav string
-	keys      []int
-	truth     []soundedPitch // each note's
+	name, wav  string
+	keys       []int
+	truth      []soundedPitch // each note's
+	nearMedian int            // legatoRuns' floor for this speed
 }
 
 // renderLegatoRuns renders every run at every speed with its truth, once
@@ -254,13 +258,13 @@ func renderLegatoRunsIn(t *testing.T, dir string) []legatoRun {
 	var runs []legatoRun
 	for _, in := range legatoRuns {
 		truth := renderedPitch(t, dir, in.program, in.keys)
-		for _, sec := range legatoSeconds {
+		for speed, sec := range legatoSeconds {
 			var phrase []testsignal.MIDINote
 			for _, k := range in.keys {
 				phrase = append(phrase, testsignal.MIDINote{Key: k, Seconds: sec})
 			}
 			name := fmt.Sprintf("%s-%gs", in.name, sec)
-			run := legatoRun{name: name, keys: in.keys, wav: fluidRender(t, dir, name, in.program, phrase, false)}
+			run := legatoRun{name: name, keys: in.keys, wav: fluidRender(t, dir, name, in.program, phrase, false), nearMedian: in.nearMedian[speed]}
 			for _, k := range in.keys {
 				run.truth = append(run.truth, truth[sec][k])
 			}
@@ -289,7 +293,19 @@ func renderLegatoRunsIn(t *testing.T, dir string) []legatoRun {
 // legatoCents of the middle 80 % of those frames (10th to 90th percentile).
 // How far each note reads from their middle half, from their median and
 // from the key's settled pitch is logged beside it, for each run.
-func checkLegato(t *testing.T, how string, runs []legatoRun, rows []map[string]string) {
+//
+// The stricter truth is their median, the pitch a listener assigns to the
+// note: checkLegato returns, per run, how many notes read within
+// legatoCents of it. Where not (measured beside aubio's yin on the run
+// itself), our frames agree with aubio's within about 1 ¢ but see less of
+// the note: frames whose window holds a slur are read as neither note,
+// while the truth (the key alone) takes in an oboe's sharp attack that the
+// run hides under the last note's tail, a trumpet's rise past the next
+// note-on, a violin's first 60–80 ms (its slow attack leaves the last
+// note louder) and so another part of its vibrato. The violin's high
+// sixteenths (C6, C♯6, D6) are read up to 18 ¢ from aubio's own frames:
+// the detector's, not the summary's.
+func checkLegato(t *testing.T, how string, runs []legatoRun, rows []map[string]string) (nearMedian []int) {
 	t.Helper()
 	var got, want []string
 	for _, r := range rows {
@@ -322,7 +338,9 @@ func checkLegato(t *testing.T, how string, runs []legatoRun, rows []map[string]s
 			t.Errorf("%s %s: read more than %g ¢ from the pitch its sound has over the note: %s", how, run.name, legatoCents, strings.Join(off, "; "))
 		}
 		t.Logf("%s %s: outside 10–90 %% of its sound's pitches %s; outside their middle half %s; from their median %s; from the settled pitch %s", how, run.name, most, middle, span, settled)
+		nearMedian = append(nearMedian, span.within)
 	}
+	return nearMedian
 }
 
 // legatoTally counts readings within legatoCents of a truth.
@@ -355,7 +373,9 @@ func TestAnalyzeHearsEveryNoteOfQuickLegatoRuns(t *testing.T) {
 			t.Fatalf("%s: exit %d: %s", run.name, code, stderr)
 		}
 		_, rows := readCSV(t, out)
-		checkLegato(t, "analyze", []legatoRun{run}, rows)
+		if near := checkLegato(t, "analyze", []legatoRun{run}, rows); len(near) == 1 && near[0] < run.nearMedian {
+			t.Errorf("%s: %d notes read within %g ¢ of their sound's median pitch, was %d", run.name, near[0], legatoCents, run.nearMedian)
+		}
 	}
 }
 
@@ -363,36 +383,14 @@ func TestAnalyzeHearsEveryNoteOfQuickLegatoRuns(t *testing.T) {
 // microphone (PulseAudio null sink, PortAudio capture) and heard by
 // `listen --plain`: together they must be heard note for note, at whatever
 // phase of the hop (offline: TestAnalyzeHearsTheViolinsHighRunAtEveryHopPhase).
-// All but the violin's high eighths: live, its A5, gliding up 27 ¢, read
-// 2.01 ¢ above its sound's 90th percentile (once; offline ≤ 1.0 ¢).
 func TestListenHearsEveryNoteOfQuickLegatoRuns(t *testing.T) {
 	t.Parallel()
 	_, env, play := privateMic(t)
-	var runs []legatoRun
-	for _, run := range renderLegatoRuns(t) {
-		if run.name != "violin-high-0.3s" {
-			runs = append(runs, run)
-		}
-	}
+	runs := renderLegatoRuns(t)
 	wait, proc := startPlainProcess(t, env, "--duration", "5m")
 	for _, run := range runs {
 		play(run.wav)
 	}
 	_, rows := readCSV(t, interruptPlain(t, proc, wait))
 	checkLegato(t, "listen", runs, rows)
-}
-
-// interruptPlain stops `listen --plain` with Ctrl-C (SIGINT), checks that it
-// ended cleanly, saying nothing but the tuning in force, and returns its
-// output.
-func interruptPlain(t *testing.T, proc *os.Process, wait func() (int, string, string)) string {
-	t.Helper()
-	if err := proc.Signal(os.Interrupt); err != nil {
-		t.Fatal(err)
-	}
-	code, out, stderr := wait()
-	if code != 0 || (stderr != "" && (strings.Count(stderr, "\n") != 1 || !strings.HasPrefix(stderr, "fifthline: tuning "))) {
-		t.Errorf("exit %d, stderr %q", code, stderr)
-	}
-	return out
 }

@@ -306,3 +306,18 @@ func TestDevicesMarksTheDefaultInput(t *testing.T) {
 		t.Errorf("exit %d, stderr %q:\n%s", code, stderr, out)
 	}
 }
+
+// interruptPlain stops `listen --plain` with Ctrl-C (SIGINT), checks that it
+// ended cleanly, saying nothing but the tuning in force, and returns its
+// output.
+func interruptPlain(t *testing.T, proc *os.Process, wait func() (int, string, string)) string {
+	t.Helper()
+	if err := proc.Signal(os.Interrupt); err != nil {
+		t.Fatal(err)
+	}
+	code, out, stderr := wait()
+	if code != 0 || (stderr != "" && (strings.Count(stderr, "\n") != 1 || !strings.HasPrefix(stderr, "fifthline: tuning "))) {
+		t.Errorf("exit %d, stderr %q", code, stderr)
+	}
+	return out
+}
