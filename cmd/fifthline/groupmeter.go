@@ -93,7 +93,7 @@ func voicesMeter(ctx context.Context, src source.Source, tunings *session.Tuning
 		}
 		frame.send(m, f.Time)
 	}
-	chords := vo.liveChords(tunings, func(c harmony.Chord, voices []int, tu target.Tuning) error {
+	chords := vo.liveChords(tunings, func(c harmony.Chord, voices []int, _ []bool, tu target.Tuning) error {
 		journalVoiceChord(j, ms.name, tu, c, voices)
 		return nil
 	})

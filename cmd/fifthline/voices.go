@@ -103,7 +103,7 @@ func analyzeVoices(e *env, vo voiceOptions, files []string, tu target.Tuning, op
 	withFile := len(files) > 1
 	head := append(session.Header(withFile), voiceColumns...)
 	if vo.chords {
-		head = chordHeader(withFile)
+		head = voiceChordHeader(withFile)
 	}
 	out := newRowWriter(e.stdout, opt.format, head)
 	if opt.format == "table" {
