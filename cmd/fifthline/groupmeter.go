@@ -49,7 +49,7 @@ func playersMeter(ctx context.Context, src source.Multi, tunings *session.Tuning
 		},
 		// Run hands every player's frame of a moment in player order.
 		OnFrame: func(i int, e pitchdetect.Estimate) {
-			frame.add(i, len(names), e.Hz, e.Level)
+			frame.add(i, len(names), e.Hz, e.Level, false)
 			frame.drift().Frame(i, e)
 			chords.frame(i, e)
 			if i == len(names)-1 {
@@ -85,11 +85,11 @@ func voicesMeter(ctx context.Context, src source.Source, tunings *session.Tuning
 		}
 		frame.drift().Moment(f.Time, sounding)
 		for i := range names {
-			hz, level := 0.0, math.Inf(-1)
+			hz, level, doubled := 0.0, math.Inf(-1), false
 			if i < len(f.Voices) {
-				hz, level = f.Voices[i].Hz, 20*math.Log10(f.Voices[i].Amplitude)
+				hz, level, doubled = f.Voices[i].Hz, 20*math.Log10(f.Voices[i].Amplitude), f.Voices[i].Doubled
 			}
-			frame.add(i, len(names), hz, level)
+			frame.add(i, len(names), hz, level, doubled)
 		}
 		frame.send(m, f.Time)
 	}
@@ -126,6 +126,7 @@ func groupMeter(names []string, tunings *session.Tunings, seventh float64, j *jo
 // group's drift so far.
 type groupFrame struct {
 	hz, levels []float64
+	doubled    []bool
 
 	tunings *session.Tunings
 	seventh float64
@@ -142,15 +143,15 @@ func (g *groupFrame) drift() *ensemble.Drift {
 	return g.drifts
 }
 
-func (g *groupFrame) add(i, rows int, hz, level float64) {
+func (g *groupFrame) add(i, rows int, hz, level float64, doubled bool) {
 	if len(g.hz) != rows {
-		g.hz, g.levels = make([]float64, rows), make([]float64, rows)
+		g.hz, g.levels, g.doubled = make([]float64, rows), make([]float64, rows), make([]bool, rows)
 	}
-	g.hz[i], g.levels[i] = hz, level
+	g.hz[i], g.levels[i], g.doubled[i] = hz, level, doubled
 }
 
 // send hands the moment to the meter (which copies it).
 func (g *groupFrame) send(m *ui.Meter, t float64) {
 	drift, known := g.drift().Cents()
-	m.OnGroupFrame(ui.GroupFrame{Time: t, Hz: g.hz, Levels: g.levels, Level: slices.Max(g.levels), Drift: drift, DriftKnown: known})
+	m.OnGroupFrame(ui.GroupFrame{Time: t, Hz: g.hz, Levels: g.levels, Doubled: g.doubled, Level: slices.Max(g.levels), Drift: drift, DriftKnown: known})
 }
