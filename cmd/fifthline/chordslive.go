@@ -189,6 +189,7 @@ type voiceChords struct {
 	// doubled holds the doubled notes added (by voice and start) until the
 	// stream has forgotten them.
 	doubled map[voiceStart]bool
+	left    *leftOut // the voices left out beyond --voices N, for the names
 }
 
 // voiceStart names a voice's note: its voice's number and its start.
@@ -206,7 +207,10 @@ func (vo *voiceOptions) liveChords(tunings *session.Tunings, emit func(harmony.C
 	if !vo.chords {
 		return nil
 	}
-	v := &voiceChords{tunings: newTuningLog(tunings), asked: math.Inf(-1), emit: emit, doubled: map[voiceStart]bool{}}
+	if vo.left == nil { // kept from the frames hearVoices caps
+		vo.left = &leftOut{asked: vo.max, record: true}
+	}
+	v := &voiceChords{tunings: newTuningLog(tunings), asked: math.Inf(-1), emit: emit, doubled: map[voiceStart]bool{}, left: vo.left}
 	v.stream = harmony.Stream{Seventh: vo.seventh, Reach: lostSeconds, Join: func(ns []harmony.Note) []harmony.Note {
 		joined, _ := bridgeLost(ns)
 		return joined
@@ -233,17 +237,22 @@ func (v *voiceChords) ready(at, earliest float64) error {
 	v.asked = earliest
 	chords, notes := v.stream.Ready(earliest, v.tunings.in)
 	for _, c := range chords {
+		tu := v.tunings.in(c.End)
+		if !v.left.names(c, tu, v.stream.Seventh) {
+			continue // named from what is left of it (voicebeyond.go)
+		}
 		voices, doubled := make([]int, len(c.Notes)), make([]bool, len(c.Notes))
 		for i, k := range c.Notes {
 			voices[i], _ = strconv.Atoi(notes[k].Who)
 			doubled[i] = v.doubled[voiceStart{notes[k].Who, notes[k].Start}]
 		}
-		if err := v.emit(c, voices, doubled, v.tunings.in(c.End)); err != nil && v.err == nil {
+		if err := v.emit(c, voices, doubled, tu); err != nil && v.err == nil {
 			v.err = err
 		}
 	}
 	from := v.stream.From()
 	v.tunings.forget(from)
+	v.left.forget(from)
 	maps.DeleteFunc(v.doubled, func(n voiceStart, _ bool) bool { return n.start < from })
 	return v.err
 }

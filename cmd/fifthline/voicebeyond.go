@@ -20,8 +20,9 @@ import (
 // partial on B3). The N loudest are reported; the others are kept aside
 // only to check the chords: a chord is named from the voices reported only
 // where the whole sounding chord has the same name (B3 and G♯4 of E3 B3 G♯4
-// are E major without its root, not G♯ minor); otherwise it gets no rows,
-// and a warning says why.
+// are E major without its root, not G♯ minor); otherwise it gets no rows
+// (in a file, and as heard with listen --chords), and a file's warning says
+// why.
 
 // heardVoices is how many voices the estimator hears whatever --voices asks.
 const heardVoices = 4
@@ -34,7 +35,7 @@ const keepGain = 1.4 // 3 dB
 // leftOut caps frames to the voices asked for and keeps what it left out.
 type leftOut struct {
 	asked  int
-	record bool        // keep the frames for named (a file's); not live
+	record bool        // keep the frames for names (--chords)
 	last   []float64   // the voices reported in the frame before
 	frames []float64   // every frame's time
 	at     []float64   // times of the frames that left voices out
@@ -90,6 +91,14 @@ func (l *leftOut) left(at float64, vs, left []multipitch.Voice) {
 		l.counts = map[int]int{}
 	}
 	l.counts[l.asked+more]++
+}
+
+// forget drops the frames before the given time, which no chord still to
+// be named reads (listening keeps flat memory).
+func (l *leftOut) forget(before float64) {
+	i, _ := slices.BinarySearch(l.frames, before)
+	j, _ := slices.BinarySearch(l.at, before)
+	l.frames, l.at, l.hz = slices.Delete(l.frames, 0, i), slices.Delete(l.at, 0, j), slices.Delete(l.hz, 0, j)
 }
 
 func voicesHz(vs []multipitch.Voice) []float64 {

@@ -7,6 +7,7 @@ import (
 	"testing"
 
 	"fifthline/harmony"
+	"fifthline/multipitch"
 	"fifthline/pitchdetect"
 	"fifthline/session"
 	"fifthline/target"
@@ -126,5 +127,39 @@ func TestLiveVoiceChordRowsCarryTheDoubling(t *testing.T) {
 	live.ready(math.Inf(1), math.Inf(1))
 	if want := []string{"C3 true", "E3 false", "G3 false"}; !equalStrings(got, want) {
 		t.Errorf("chord rows %v, want %v", got, want)
+	}
+}
+
+// Listening holds --voices N to the same rule as the file: with E3, B3 and
+// G♯4 sounding (equal temperament, ISO 16) and two voices asked for, the two
+// loudest are heard; E3 with G♯4 is E major as the whole is, B3 with G♯4
+// would be G♯ minor and is not named.
+func TestLiveChordsOfFewerVoicesThanSound(t *testing.T) {
+	tu := target.Default()
+	for _, tc := range []struct {
+		name string
+		amps [3]float64 // E3, B3, G♯4
+		want string
+	}{
+		{"E3 and G♯4 loudest", [3]float64{0.2, 0.1, 0.15}, "E major"},
+		{"B3 and G♯4 loudest", [3]float64{0.1, 0.2, 0.15}, ""},
+	} {
+		vo := voiceOptions{chords: true, seventh: target.DefaultSeventh, max: 2}
+		var got []string
+		live := vo.liveChords(session.NewTunings(tu), func(c harmony.Chord, _ []int, _ []bool, _ target.Tuning) error {
+			got = append(got, c.Name())
+			return nil
+		})
+		var kept []multipitch.Voice
+		for at := 0.0; at <= 2; at += 0.1 {
+			kept = vo.left.cap(at, []multipitch.Voice{{Hz: e3Hz, Amplitude: tc.amps[0]}, {Hz: b3Hz, Amplitude: tc.amps[1]}, {Hz: gs4Hz, Amplitude: tc.amps[2]}})
+		}
+		for i, v := range kept {
+			live.note(voiceNote{Event: session.Event{Held: pitchdetect.Held{Start: 0, End: 2, Hz: v.Hz}, Reading: tu.Classify(v.Hz)}, voice: i + 1})
+		}
+		live.ready(math.Inf(1), math.Inf(1))
+		if strings.Join(got, ",") != tc.want {
+			t.Errorf("%s: chords %q, want %q", tc.name, got, tc.want)
+		}
 	}
 }
