@@ -189,61 +189,10 @@ func (e *Estimator) voices(dst []Voice) []Voice {
 		// A partial of amplitude A puts A/2 at the kernel's peak, n/2:
 		// |c| = A/2, and the voice's RMS is √(Σ A²/2).
 		amp := math.Sqrt(2 * e.energyOf(v))
-		dst = append(dst, Voice{Hz: hz, Amplitude: amp, Doubled: 2*hz <= e.cfg.MaxHz && e.evenExcess(v) > doubleGain})
+		dst = append(dst, Voice{Hz: hz, Amplitude: amp, Doubled: 2*hz <= e.cfg.MaxHz && e.doubled(v)})
 	}
 	slices.SortFunc(dst[start:], func(a, b Voice) int { return cmp.Compare(a.Hz, b.Hz) })
 	return dst
-}
-
-// doubleGain is how far, in power, a voice's even partials must stand
-// above their odd neighbours to say another voice doubles it an octave
-// above: that voice adds four times a partial's own power to every second
-// one of a sawtooth's (its partial k/2 has twice the amplitude), +7 dB on
-// average with unrelated phases, where a smooth spectral envelope (Klapuri
-// 2003) has them level. Taken as the median over the even partials of each
-// one's power over its neighbours' geometric mean, 3 dB. A timbre whose
-// even partials dominate by nature (a strong second partial throughout)
-// passes for a doubled one; a unison double leaves no mark and is not
-// reported.
-const doubleGain = 2.0
-
-// evenExcess is that median for voice v, from the last solve, over even
-// partials up to the 20th that share neither themselves nor their
-// neighbours with another voice (a shared partial's power is split between
-// the voices by the fit) and whose neighbours stand above the noise. Fewer
-// than three such partials give 0.
-func (e *Estimator) evenExcess(v int) float64 {
-	var pow [maxPartials + 2]float64
-	for i, a := range e.fitter.amp {
-		if c := e.fitter.cols[i]; c.voice == v && !c.broad {
-			pow[c.k] = real(a)*real(a) + imag(a)*imag(a)
-		}
-	}
-	shared := func(k int) bool {
-		hz := float64(k) * e.f0[v]
-		for u, g := range e.f0 {
-			if u != v && math.Abs(hz-g*math.Round(hz/g)) < 1.5*e.fitter.binHz {
-				return true
-			}
-		}
-		return false
-	}
-	// A partial at the kernel's peak, n/2, must stand 15 dB above the
-	// noise floor to be compared at all.
-	half := float64(e.window) / 2
-	audible := func(k int) bool { return pow[k]*half*half > 30*e.floor }
-	var ratios []float64
-	for k := 2; k <= 20 && k+1 < len(pow); k += 2 {
-		if shared(k-1) || shared(k) || shared(k+1) || !audible(k-1) || !audible(k+1) {
-			continue
-		}
-		ratios = append(ratios, pow[k]/math.Sqrt(pow[k-1]*pow[k+1]))
-	}
-	if len(ratios) < 3 {
-		return 0
-	}
-	slices.Sort(ratios)
-	return ratios[len(ratios)/2]
 }
 
 // oddEvidence is a quick look before lower's two fits: does anything the

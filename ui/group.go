@@ -13,7 +13,10 @@ type GroupFrame struct {
 	Time   float64   // stream seconds
 	Hz     []float64 // each row's pitch, indexed like Options.Group; 0: silent
 	Levels []float64 // each row's level, dBFS, indexed like Hz
-	Level  float64   // the loudest row's level, dBFS
+	// Doubled: the row's voice has another an octave above it, which one
+	// microphone cannot part from it (multipitch); nil for none.
+	Doubled []bool
+	Level   float64 // the loudest row's level, dBFS
 	// Drift is how far the whole group has moved from the reference, in
 	// cents, apart from each chord's own tuning; the screen shows "—"
 	// while DriftKnown is false.
@@ -96,8 +99,11 @@ type groupModel struct {
 type groupRow struct {
 	times, hz []float64 // voiced frames of the last rowSeconds
 	levels    []float64 // their levels, dBFS
+	doubled   []bool    // their doubled marks
 	Hz        float64   // the pitch held now, 0 when none
 	Last      float64   // the last pitch held
+	// Doubled: most frames of the pitch held now (or last) were doubled.
+	Doubled bool
 }
 
 func newGroupModel(m *model, names []string, seventh float64) *groupModel {
@@ -112,15 +118,18 @@ func (g *groupModel) AddFrame(f GroupFrame) {
 	g.Now, g.Level, g.span = f.Time, f.Level, f.Span
 	g.Voiced = false
 	for i := range g.rows {
-		hz, level := 0.0, 0.0
+		hz, level, doubled := 0.0, 0.0, false
 		if i < len(f.Hz) {
 			hz = f.Hz[i]
 		}
 		if i < len(f.Levels) {
 			level = f.Levels[i]
 		}
+		if i < len(f.Doubled) {
+			doubled = f.Doubled[i]
+		}
 		g.Voiced = g.Voiced || hz > 0
-		g.rows[i].add(f.Time, hz, level, f.Span)
+		g.rows[i].add(f.Time, hz, level, f.Span, doubled)
 	}
 	if !g.Voiced {
 		g.silentAt = f.Time
@@ -131,16 +140,16 @@ func (g *groupModel) AddFrame(f GroupFrame) {
 
 // add keeps the row's voiced frames of the last rowSeconds and decides what
 // it holds: the mean (in cents) of those within rowCents of the newest and
-// within rowFallDB of the loudest of these.
-func (r *groupRow) add(t, hz, level, span float64) {
+// within rowFallDB of the loudest of these; doubled when most of them are.
+func (r *groupRow) add(t, hz, level, span float64, doubled bool) {
 	if hz > 0 && !math.IsInf(hz, 0) {
-		r.times, r.hz, r.levels = append(r.times, t), append(r.hz, hz), append(r.levels, level)
+		r.times, r.hz, r.levels, r.doubled = append(r.times, t), append(r.hz, hz), append(r.levels, level), append(r.doubled, doubled)
 	}
 	cut := 0
 	for cut < len(r.times) && r.times[cut] < t-rowSeconds {
 		cut++
 	}
-	r.times, r.hz, r.levels = r.times[cut:], r.hz[cut:], r.levels[cut:]
+	r.times, r.hz, r.levels, r.doubled = r.times[cut:], r.hz[cut:], r.levels[cut:], r.doubled[cut:]
 	r.Hz = 0
 	n := len(r.hz)
 	if n == 0 || t-r.times[n-1] > rowBridge {
@@ -157,16 +166,19 @@ func (r *groupRow) add(t, hz, level, span float64) {
 			loudest = max(loudest, r.levels[i])
 		}
 	}
-	sum, k := 0.0, 0
+	sum, k, marked := 0.0, 0, 0
 	for i, f := range r.hz {
 		if near(f) && r.levels[i] >= loudest-fall {
 			sum += math.Log2(f)
 			k++
+			if r.doubled[i] {
+				marked++
+			}
 		}
 	}
 	if k >= need {
 		r.Hz = math.Exp2(sum / float64(k))
-		r.Last = r.Hz
+		r.Last, r.Doubled = r.Hz, 2*marked > k
 	}
 }
 
@@ -260,6 +272,7 @@ type rowReading struct {
 	InChord bool
 	Role    string  // root, third, fifth, seventh
 	Just    float64 // cents against just above the sounding root
+	Doubled bool    // another voice an octave above it (groupRow.Doubled)
 }
 
 // readings reads every row in the current tuning: members of the chord
@@ -273,7 +286,7 @@ func (g *groupModel) readings() []rowReading {
 		}
 	}
 	for i, r := range g.rows {
-		rr := rowReading{Name: g.Names[i], On: !g.Off[i], Holding: r.Hz > 0, Heard: r.Last > 0}
+		rr := rowReading{Name: g.Names[i], On: !g.Off[i], Holding: r.Hz > 0, Heard: r.Last > 0, Doubled: r.Doubled}
 		// After the chord: a row still reads in it until it plays on.
 		m, member := members[i]
 		member = member && rr.On && (g.sounding || !rr.Holding && !g.left[i])

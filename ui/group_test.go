@@ -323,3 +323,25 @@ func TestVoicesOnLongWindowsAreNamedFromTheirThirdFrame(t *testing.T) {
 		t.Errorf("two frames into the change: %q", got)
 	}
 }
+
+// A voice doubled an octave above (multipitch marks it; one microphone
+// cannot part the two) says so at the end of its row, and the row still
+// fits 80 columns; the mark follows most of the frames of the pitch held.
+func TestADoubledVoiceIsMarkedOnItsRow(t *testing.T) {
+	g := newGroupModel(newModel(keyOf(t, "E major"), "test tones"), []string{"voice 1", "voice 2", "voice 3"}, 0)
+	for at := 0.0; at < 1; at += 0.01 {
+		g.AddFrame(GroupFrame{Time: at, Hz: []float64{e3, b3, gSharp4}, Doubled: []bool{at < 0.8, false, false}, Level: -20})
+	}
+	rows := g.readings()
+	if !rows[0].Doubled || rows[1].Doubled || rows[2].Doubled {
+		t.Errorf("doubled %v %v %v, want the first row's alone", rows[0].Doubled, rows[1].Doubled, rows[2].Doubled)
+	}
+	for _, l := range strings.Split(screenOf(g, 80, 24), "\n") {
+		if strings.Contains(l, "voice 1") && !strings.HasSuffix(strings.TrimRight(l, " "), "doubled") {
+			t.Errorf("row %q does not end marked doubled", l)
+		}
+		if w := runewidth.StringWidth(l); w > 80 {
+			t.Errorf("line %q is %d wide", l, w)
+		}
+	}
+}

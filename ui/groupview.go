@@ -53,6 +53,9 @@ func columnsFor(g *groupModel, bw int) groupColumns {
 	name = min(name, 8)
 	// number, name, note, cents, role, just cents and the gaps between
 	fixed := 2 + 1 + name + 1 + 5 + 1 + 8 + 1 + 2 + 7 + 1 + 8 + 1
+	if slices.ContainsFunc(g.rows, func(r groupRow) bool { return r.Doubled }) {
+		fixed += 2 + len(doubledMark) // the strips give way to the mark
+	}
 	s := min(21, max(5, (bw-fixed)/2))
 	if s%2 == 0 {
 		s--
@@ -88,13 +91,21 @@ func groupRowLine(i int, r rowReading, cols groupColumns) screenLine {
 		text("  ", plainRole),
 	}
 	if !r.InChord {
-		return append(l, text(padRight("—", 7), dim))
+		l = append(l, text(padRight("—", 7), dim))
+	} else {
+		l = append(l,
+			text(padRight(r.Role, 7)+" ", role),
+			text(fmt.Sprintf("%6s ¢ ", cents(r.Just)), role),
+			text(strip(r.Just, cols.strip), role))
 	}
-	return append(l,
-		text(padRight(r.Role, 7)+" ", role),
-		text(fmt.Sprintf("%6s ¢ ", cents(r.Just)), role),
-		text(strip(r.Just, cols.strip), role))
+	if r.Doubled {
+		l = append(l, text("  "+doubledMark, role))
+	}
+	return l
 }
+
+// doubledMark ends the row of a voice with another an octave above it.
+const doubledMark = "doubled"
 
 // chordLine names the chord the group holds, or held last.
 func chordLine(g *groupModel) screenLine {
@@ -160,7 +171,8 @@ func groupHelp(g *groupModel) []screenLine {
 		plain(""),
 		dimLine("Each row: the note held (spelled from the chord's root in a chord), its"),
 		dimLine("cents against the temperament, and in a chord its part (root, third, …)"),
-		dimLine("and its cents against just above the root the group sounds."),
+		dimLine("and its cents against just above the root the group sounds; "+doubledMark+":"),
+		dimLine("another voice an octave above it, which one microphone cannot part."),
 		dimLine("The strips run ±25 ¢: │ is the target, ◆ the reading, ◂ ▸ beyond."),
 		dimLine("Group drift: how far the whole group has moved from the reference."),
 	)

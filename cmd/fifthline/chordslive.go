@@ -1,6 +1,7 @@
 package main
 
 import (
+	"maps"
 	"math"
 	"slices"
 	"strconv"
@@ -183,19 +184,33 @@ type voiceChords struct {
 	stream  harmony.Stream
 	tunings *tuningLog
 	asked   float64
-	emit    func(c harmony.Chord, voices []int, tu target.Tuning) error
+	emit    func(c harmony.Chord, voices []int, doubled []bool, tu target.Tuning) error
 	err     error
+	// doubled holds the doubled notes added (by voice and start) until the
+	// stream has forgotten them.
+	doubled map[voiceStart]bool
+	left    *leftOut // the voices left out beyond --voices N, for the names
+}
+
+// voiceStart names a voice's note: its voice's number and its start.
+type voiceStart struct {
+	who   string
+	start float64
 }
 
 // liveChords keeps what --chords needs while the voices are heard, and
-// hands each chord (with its members' voices) to emit; nil without
+// hands each chord (with its members' voices, and which of them are
+// doubled) to emit; nil without
 // --chords. A voice lost for a moment under a chord is bridged as the
 // file analysis bridges it (bridgeLost).
-func (vo *voiceOptions) liveChords(tunings *session.Tunings, emit func(harmony.Chord, []int, target.Tuning) error) *voiceChords {
+func (vo *voiceOptions) liveChords(tunings *session.Tunings, emit func(harmony.Chord, []int, []bool, target.Tuning) error) *voiceChords {
 	if !vo.chords {
 		return nil
 	}
-	v := &voiceChords{tunings: newTuningLog(tunings), asked: math.Inf(-1), emit: emit}
+	if vo.left == nil { // kept from the frames hearVoices caps
+		vo.left = &leftOut{asked: vo.max, record: true}
+	}
+	v := &voiceChords{tunings: newTuningLog(tunings), asked: math.Inf(-1), emit: emit, doubled: map[voiceStart]bool{}, left: vo.left}
 	v.stream = harmony.Stream{Seventh: vo.seventh, Reach: lostSeconds, Join: func(ns []harmony.Note) []harmony.Note {
 		joined, _ := bridgeLost(ns)
 		return joined
@@ -204,7 +219,11 @@ func (vo *voiceOptions) liveChords(tunings *session.Tunings, emit func(harmony.C
 }
 
 func (v *voiceChords) note(n voiceNote) error {
-	v.stream.Add(harmony.Note{Start: n.Start, End: n.End, Who: strconv.Itoa(n.voice), Note: n.Reading.Note, Frames: n.frames, Hz: n.Hz})
+	who := strconv.Itoa(n.voice)
+	v.stream.Add(harmony.Note{Start: n.Start, End: n.End, Who: who, Note: n.Reading.Note, Frames: n.frames, Hz: n.Hz})
+	if n.doubled {
+		v.doubled[voiceStart{who, n.Start}] = true
+	}
 	return v.err
 }
 
@@ -218,15 +237,23 @@ func (v *voiceChords) ready(at, earliest float64) error {
 	v.asked = earliest
 	chords, notes := v.stream.Ready(earliest, v.tunings.in)
 	for _, c := range chords {
-		voices := make([]int, len(c.Notes))
+		tu := v.tunings.in(c.End)
+		if !v.left.names(c, tu, v.stream.Seventh) {
+			continue // named from what is left of it (voicebeyond.go)
+		}
+		voices, doubled := make([]int, len(c.Notes)), make([]bool, len(c.Notes))
 		for i, k := range c.Notes {
 			voices[i], _ = strconv.Atoi(notes[k].Who)
+			doubled[i] = v.doubled[voiceStart{notes[k].Who, notes[k].Start}]
 		}
-		if err := v.emit(c, voices, v.tunings.in(c.End)); err != nil && v.err == nil {
+		if err := v.emit(c, voices, doubled, tu); err != nil && v.err == nil {
 			v.err = err
 		}
 	}
-	v.tunings.forget(v.stream.From())
+	from := v.stream.From()
+	v.tunings.forget(from)
+	v.left.forget(from)
+	maps.DeleteFunc(v.doubled, func(n voiceStart, _ bool) bool { return n.start < from })
 	return v.err
 }
 
@@ -236,11 +263,11 @@ func journalVoiceChord(j *journalSink, source string, tu target.Tuning, c harmon
 }
 
 // voiceChordRows are a voices' chord's rows, one per member, lowest first.
-func voiceChordRows(c harmony.Chord, voices []int) []chordJSON {
+func voiceChordRows(c harmony.Chord, voices []int, doubled []bool) []chordJSON {
 	var out []chordJSON
 	for i, m := range c.Members {
 		row := newChordJSON("", c.Start, c.End, c.HeardChord, m)
-		row.Voice = voices[i]
+		row.Voice, row.Doubled = voices[i], &doubled[i]
 		out = append(out, row)
 	}
 	return out

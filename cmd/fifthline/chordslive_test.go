@@ -40,7 +40,7 @@ func TestLiveVoiceChordsAreTheFilesChords(t *testing.T) {
 	}
 	var got []string
 	vo := voiceOptions{chords: true, seventh: target.DefaultSeventh}
-	live := vo.liveChords(session.NewTunings(tu), func(c harmony.Chord, voices []int, _ target.Tuning) error {
+	live := vo.liveChords(session.NewTunings(tu), func(c harmony.Chord, voices []int, _ []bool, _ target.Tuning) error {
 		got = append(got, c.Name()+"@"+target.Decimal(c.Start, 2))
 		return nil
 	})

@@ -49,7 +49,7 @@ func playersMeter(ctx context.Context, src source.Multi, tunings *session.Tuning
 		},
 		// Run hands every player's frame of a moment in player order.
 		OnFrame: func(i int, e pitchdetect.Estimate) {
-			frame.add(i, len(names), e.Hz, e.Level)
+			frame.add(i, len(names), e.Hz, e.Level, false)
 			frame.drift().Frame(i, e)
 			chords.frame(i, e)
 			if i == len(names)-1 {
@@ -85,16 +85,16 @@ func voicesMeter(ctx context.Context, src source.Source, tunings *session.Tuning
 		}
 		frame.drift().Moment(f.Time, sounding)
 		for i := range names {
-			hz, level := 0.0, math.Inf(-1)
+			hz, level, doubled := 0.0, math.Inf(-1), false
 			if i < len(f.Voices) {
-				hz, level = f.Voices[i].Hz, 20*math.Log10(f.Voices[i].Amplitude)
+				hz, level, doubled = f.Voices[i].Hz, 20*math.Log10(f.Voices[i].Amplitude), f.Voices[i].Doubled
 			}
-			frame.add(i, len(names), hz, level)
+			frame.add(i, len(names), hz, level, doubled)
 		}
 		frame.span = f.Span // a long window's reading: see ui.GroupFrame
 		frame.send(m, f.Time)
 	}
-	chords := vo.liveChords(tunings, func(c harmony.Chord, voices []int, tu target.Tuning) error {
+	chords := vo.liveChords(tunings, func(c harmony.Chord, voices []int, _ []bool, tu target.Tuning) error {
 		journalVoiceChord(j, ms.name, tu, c, voices)
 		return nil
 	})
@@ -128,6 +128,7 @@ func groupMeter(names []string, tunings *session.Tunings, seventh float64, j *jo
 type groupFrame struct {
 	hz, levels []float64
 	span       float64 // seconds each reading covers (ui.GroupFrame.Span)
+	doubled    []bool
 
 	tunings *session.Tunings
 	seventh float64
@@ -144,15 +145,15 @@ func (g *groupFrame) drift() *ensemble.Drift {
 	return g.drifts
 }
 
-func (g *groupFrame) add(i, rows int, hz, level float64) {
+func (g *groupFrame) add(i, rows int, hz, level float64, doubled bool) {
 	if len(g.hz) != rows {
-		g.hz, g.levels = make([]float64, rows), make([]float64, rows)
+		g.hz, g.levels, g.doubled = make([]float64, rows), make([]float64, rows), make([]bool, rows)
 	}
-	g.hz[i], g.levels[i] = hz, level
+	g.hz[i], g.levels[i], g.doubled[i] = hz, level, doubled
 }
 
 // send hands the moment to the meter (which copies it).
 func (g *groupFrame) send(m *ui.Meter, t float64) {
 	drift, known := g.drift().Cents()
-	m.OnGroupFrame(ui.GroupFrame{Time: t, Hz: g.hz, Levels: g.levels, Level: slices.Max(g.levels), Drift: drift, DriftKnown: known, Span: g.span})
+	m.OnGroupFrame(ui.GroupFrame{Time: t, Hz: g.hz, Levels: g.levels, Doubled: g.doubled, Level: slices.Max(g.levels), Drift: drift, DriftKnown: known, Span: g.span})
 }

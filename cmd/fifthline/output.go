@@ -162,6 +162,9 @@ type chordJSON struct {
 	JustCents json.Number `json:"just_cents"`
 	Voice     int         `json:"voice,omitempty"`
 	Player    string      `json:"player,omitempty"`
+	// Doubled: a voice's member with another voice an octave above it
+	// (voiceNote.doubled); nil for a player's.
+	Doubled *bool `json:"doubled,omitempty"`
 }
 
 // fileColumn is what a row's file column holds: the path with several
@@ -173,13 +176,17 @@ func fileColumn(path string, withFile bool) string {
 	return ""
 }
 
-// record is the chord row as CSV: the voice or the player last.
+// record is the chord row as CSV: the voice or the player, then a voice's
+// doubled.
 func (c chordJSON) record(withFile bool) []string {
 	who := c.Player
 	if who == "" {
 		who = strconv.Itoa(c.Voice)
 	}
 	rec := []string{string(c.Start), string(c.End), c.Chord, c.Member, c.Note, string(c.Hz), string(c.Cents), string(c.JustCents), who}
+	if c.Doubled != nil {
+		rec = append(rec, strconv.FormatBool(*c.Doubled))
+	}
 	if withFile {
 		rec = append([]string{c.File}, rec...)
 	}

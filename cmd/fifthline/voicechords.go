@@ -134,7 +134,7 @@ func voiceChordRecords(h harmony.Chord, path string, notes []voiceNote) []chordJ
 	var out []chordJSON
 	for i, m := range h.Members {
 		c := newChordJSON(path, h.Start, h.End, h.HeardChord, m)
-		c.Voice = notes[h.Notes[i]].voice
+		c.Voice, c.Doubled = notes[h.Notes[i]].voice, &notes[h.Notes[i]].doubled
 		out = append(out, c)
 	}
 	return out

@@ -21,16 +21,16 @@ func listenVoices(ctx context.Context, e *env, src source.Source, name string, t
 	w := csv.NewWriter(e.stdout)
 	head := append(session.Header(false), voiceColumns...)
 	if vo.chords {
-		head = chordHeader(false)
+		head = voiceChordHeader(false)
 	}
 	w.Write(head)
 	w.Flush()
 	if err := w.Error(); err != nil {
 		return err
 	}
-	chords := vo.liveChords(session.NewTunings(tu), func(c harmony.Chord, voices []int, tu target.Tuning) error {
+	chords := vo.liveChords(session.NewTunings(tu), func(c harmony.Chord, voices []int, doubled []bool, tu target.Tuning) error {
 		journalVoiceChord(j, name, tu, c, voices)
-		for _, row := range voiceChordRows(c, voices) {
+		for _, row := range voiceChordRows(c, voices, doubled) {
 			w.Write(row.record(false))
 		}
 		w.Flush()

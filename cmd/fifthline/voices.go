@@ -55,6 +55,10 @@ type voiceOptions struct {
 	// onMoment, if set, follows every frame: its time, and the earliest a
 	// note still to come can start (for the chords heard live).
 	onMoment func(at, earliest float64)
+	// left, if set, caps the frames to max voices and keeps what it left
+	// out (a file's chords are checked against it); else they are capped
+	// alone.
+	left *leftOut
 }
 
 // options checks the flags; ok is false when --voices was not given.
@@ -103,7 +107,7 @@ func analyzeVoices(e *env, vo voiceOptions, files []string, tu target.Tuning, op
 	withFile := len(files) > 1
 	head := append(session.Header(withFile), voiceColumns...)
 	if vo.chords {
-		head = chordHeader(withFile)
+		head = voiceChordHeader(withFile)
 	}
 	out := newRowWriter(e.stdout, opt.format, head)
 	if opt.format == "table" {
@@ -156,13 +160,15 @@ func readVoices(e *env, path string, tu target.Tuning, vo voiceOptions, opt anal
 	progress := newProgress(e.stderr, path, w.Duration())
 	defer progress.Done()
 	var notes []voiceNote
+	left := &leftOut{asked: vo.max, record: true}
+	vo.left = left
 	err = hearVoices(e.ctx, w, path, fixed(tu), vo, progress.At, func(n voiceNote) error {
 		notes = append(notes, n)
 		return nil
 	})
 	sortVoiceNotes(notes)
 	// The chords spell their members' notes before the notes are journaled.
-	chords := chordsOf(notes, tu, vo.seventh)
+	chords := left.named(e.stderr, path, chordsOf(notes, tu, vo.seventh), tu, vo.seventh)
 	spellVoicesFromChords(notes, chords)
 	for _, n := range notes {
 		j.row(n.Event, n.extra(), start)
@@ -196,10 +202,11 @@ func sortVoiceNotes(notes []voiceNote) {
 // and note is read in the tuning then in force (the meter's keys change it).
 func hearVoices(ctx context.Context, src source.Source, name string, tuning func() target.Tuning, vo voiceOptions, at func(seconds float64), emit func(voiceNote) error) error {
 	rate := src.SampleRate()
-	est, err := multipitch.New(rate, 0, 0, multipitch.Config{MaxVoices: vo.max, Accept: inKey(tuning)})
+	est, err := multipitch.New(rate, 0, 0, multipitch.Config{MaxVoices: heardVoices, Accept: inKey(tuning)})
 	if err != nil {
 		return err
 	}
+	left := cmp.Or(vo.left, &leftOut{asked: vo.max})
 	keep := reported(tuning)
 	var emitErr error
 	tr := newTracker(name, tuning, float64(est.Hop())/rate, float64(est.Window())/rate, func(n voiceNote) {
@@ -217,7 +224,7 @@ func hearVoices(ctx context.Context, src source.Source, name string, tuning func
 		read += n
 		at(float64(read) / rate)
 		est.Feed(block[:n], func(f multipitch.Frame) {
-			f.Voices = keep(f.Voices)
+			f.Voices = left.cap(f.Time, keep(f.Voices))
 			tr.push(f)
 			if vo.onFrame != nil {
 				vo.onFrame(f)

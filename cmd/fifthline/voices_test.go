@@ -35,13 +35,13 @@ func TestAnalyzeVoicesFromSoxChord(t *testing.T) {
 	// The same chord as chord rows: C major, the third read against just
 	// above the root actually sounding (0 ¢ by construction, within 0.5 ¢),
 	// and against equal temperament 13.69 ¢ low (386.31 − 400 ¢, from the
-	// definitions).
+	// definitions). Each row ends with the voice and its doubled mark.
 	code, out, stderr := runCLI(t, "analyze", "--voices", "3", "--chords", path)
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
 	header, rows = readCSV(t, out)
-	if len(header) != 9 || header[7] != "just_cents" || header[8] != "voice" || len(rows) != 3 {
+	if len(header) != 10 || header[7] != "just_cents" || header[8] != "voice" || header[9] != "doubled" || len(rows) != 3 {
 		t.Fatalf("header %v, %d rows:\n%s", header, len(rows), out)
 	}
 	for i, member := range []string{"root", "third", "fifth"} {

@@ -27,6 +27,10 @@ type voiceNote struct {
 // voiceColumns follow the held-note columns.
 var voiceColumns = []string{"voice", "doubled"}
 
+// voiceChordHeader is the chord rows' header with --voices: the voice,
+// then doubled, as on the note rows.
+func voiceChordHeader(withFile bool) []string { return append(chordHeader(withFile), "doubled") }
+
 // voiceNoteJSON is a voice's note in JSON: the note's fields and the voice's.
 type voiceNoteJSON struct {
 	noteJSON
