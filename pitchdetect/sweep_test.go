@@ -26,13 +26,19 @@ func fluidViolin(t *testing.T, keys []int) ([]float32, string) {
 // 48 kHz, also as a WAV file (sox) for aubio.
 func fluidHeld(t *testing.T, program int, keys []int) ([]float32, string) {
 	t.Helper()
-	fluid, err := exec.LookPath("fluidsynth")
-	if err != nil {
-		t.Fatalf("fluidsynth not installed (Debian package fluidsynth): %v", err)
-	}
 	var phrase []testsignal.MIDINote
 	for _, k := range keys {
 		phrase = append(phrase, testsignal.MIDINote{Key: k, Seconds: 2, Rest: 0.5})
+	}
+	return fluidPhrase(t, program, phrase)
+}
+
+// fluidPhrase renders a phrase as fluidHeld does.
+func fluidPhrase(t *testing.T, program int, phrase []testsignal.MIDINote) ([]float32, string) {
+	t.Helper()
+	fluid, err := exec.LookPath("fluidsynth")
+	if err != nil {
+		t.Fatalf("fluidsynth not installed (Debian package fluidsynth): %v", err)
 	}
 	dir := t.TempDir()
 	mid, raw, wav := filepath.Join(dir, "v.mid"), filepath.Join(dir, "v.raw"), filepath.Join(dir, "v.wav")
