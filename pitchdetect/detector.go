@@ -90,8 +90,10 @@ type Detector struct {
 	floor     float64 // absolute power floor for partial peaks in this frame
 	peak      float64 // strongest bin's power in this frame
 	last      analysis
-	under     float64 // power of the quieter sound the span began with (entry.go)
-	entryRun  int     // frames in a row, this one included, whose span holds an entry
+	under     float64   // power of the quieter sound the span began with (entry.go)
+	entryRun  int       // frames of an entry so far, this one included (entry.go)
+	newest    []float64 // the last frames' newest-eighth powers, a ring (entry.go)
+	frameNo   int       // frames since Reset
 }
 
 // New returns a Detector for the sample rate with the given window and hop
@@ -147,6 +149,9 @@ func New(sampleRate float64, window, hop int) (*Detector, error) {
 	d.padBuf = make([]float64, pad)
 	d.padSpec = make([]complex128, pad/2+1)
 	d.nsdfOut = make([]float64, maxLag+1)
+	// Frames further back than the span have newest eighths older than
+	// the one frame they could be compared with, its oldest eighth.
+	d.newest = make([]float64, (d.span+hop-1)/hop)
 	d.Reset()
 	return d, nil
 }
@@ -156,6 +161,7 @@ func (d *Detector) Reset() {
 	clear(d.ring)
 	d.w, d.fed = 0, 0
 	d.haveB, d.prevHz, d.held = false, 0, heldNote{}
+	d.frameNo = 0
 	d.untilFrame = d.span
 }
 
@@ -206,9 +212,7 @@ func (d *Detector) analyse() Estimate {
 	n := copy(d.lin, d.ring[d.w:])
 	copy(d.lin[n:], d.ring[:d.w])
 	e := Estimate{Time: (float64(d.fed) - 0.5*float64(d.span)) / d.fs}
-	if d.entryRun++; !d.entering() {
-		d.entryRun = 0
-	}
+	d.noteEntry()
 	frameA, frameB := d.lin[:d.window], d.lin[d.lag:]
 	e.Level = d.levelDB(frameB)
 	if e.Level < silenceDBFS {

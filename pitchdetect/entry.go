@@ -18,6 +18,16 @@ import "math"
 // an entry over a pitch read before it the NSDF is read afresh, and
 // partials no stronger than the older sound could make by itself move no
 // pitch.
+//
+// The entry begins where the newest eighth first stands out of the older
+// sound, frames before the span's ends lie entryDB apart, and a pitch read
+// since then is the entering note's own: a slurred note's first frames,
+// over the fading tail of the note before it, read the new note. Counted
+// from where the ends lay entryDB apart instead, a flute's D6 slurred from
+// B5 was taken for the older sound (FluidR3, measured), and the fresh
+// readings moved the hops at which the NSDF is refreshed: the C6 slurred
+// after it was then tracked at D6 for three frames and read 8.5 ¢ from its
+// sound's median (TestASlurredNoteReadAtItsFirstFramesIsTracked).
 
 // entryDB: a span whose oldest eighth is this much quieter than its newest
 // holds a sound entering over whatever the oldest eighth holds (the
@@ -38,8 +48,36 @@ func (d *Detector) spanEnds() (first, last float64) {
 // entering reports whether the span holds an entry: its oldest eighth
 // entryDB quieter than its newest.
 func (d *Detector) entering() bool {
-	first, last := d.spanEnds()
+	return isEntry(d.spanEnds())
+}
+
+// isEntry reports whether span ends of these powers hold an entry.
+func isEntry(first, last float64) bool {
 	return first < last*math.Pow(10, -entryDB/10)
+}
+
+// standOutRatio: a newest eighth with this many times the power of the
+// older sound holds at least as much of the entering note as of it (3 dB).
+const standOutRatio = 2.0
+
+// noteEntry keeps the power of this frame's newest eighth, and sets
+// d.entryRun: 0 when the span holds no entry, else the frames, this one
+// included, whose newest eighth stands out of the older sound (the span's
+// oldest eighth now) since the entry began.
+func (d *Detector) noteEntry() {
+	first, last := d.spanEnds()
+	d.newest[d.frameNo%len(d.newest)] = last
+	d.frameNo++
+	d.entryRun = 0
+	if !isEntry(first, last) {
+		return
+	}
+	for d.entryRun < min(d.frameNo, len(d.newest)) {
+		if d.newest[(d.frameNo-1-d.entryRun)%len(d.newest)] < standOutRatio*first {
+			break
+		}
+		d.entryRun++
+	}
 }
 
 // overOlderPitch reports whether the span holds an entry and the last

@@ -83,3 +83,42 @@ func TestAQuietEntryOverLeftoverBleedStartsOnTime(t *testing.T) {
 		}
 	}
 }
+
+// A slurred note read at its own first frames is the entering note's, not
+// an older sound's, and is tracked. FluidR3's flute (General MIDI program
+// 73, Debian's fluidsynth) slurs B5 to D6 in eighths at ♩ = 100, as in the
+// legato runs: B5 fades some 10 dB as D6 rises, so the span's ends lie
+// entryDB apart only from D6's second frame to its fourth (measured). The
+// entry began where D6 first stood out of what the span began with, before
+// any frame read it: at each entry frame, every frame that had read D6
+// falls within the entry's run. (Counted from where the ends lay entryDB
+// apart, D6 was taken for the older sound's pitch, and the fresh readings
+// then moved the hops at which the NSDF is refreshed: the legato runs'
+// flute C6 after D6 was heard three frames late, 8.5 ¢ from its sound's
+// median.)
+func TestASlurredNoteReadAtItsFirstFramesIsTracked(t *testing.T) {
+	x, _ := fluidPhrase(t, 73, []testsignal.MIDINote{{Key: 83, Seconds: 0.3}, {Key: 86, Seconds: 0.3}})
+	d, err := New(48000, 0, 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	d6 := 1174.6591            // equal temperament from A4 = 440 Hz (ISO 16)
+	lead := d.Span() - d.Hop() // then a frame at every hop
+	d.Feed(x[:lead], nil)
+	entries := 0
+	for x = x[lead:]; len(x) >= d.Hop(); x = x[d.Hop():] {
+		before := d.held // the frames read so far
+		est := d.Feed(x[:d.Hop()], nil)
+		if len(est) != 1 || d.entryRun == 0 || !onePitch(before.hz, d6) {
+			continue
+		}
+		entries++
+		if before.frames >= d.entryRun {
+			t.Errorf("%.3f s: D6 read for %d frames, the entry began %d frames ago: taken for the older sound's", est[0].Time, before.frames, d.entryRun)
+		}
+	}
+	if entries == 0 {
+		t.Error("no frame over D6 held an entry: the slur no longer checks the rule")
+	}
+	t.Logf("%d entry frames over D6 read at its first frames", entries)
+}
