@@ -77,11 +77,17 @@ func (s *searcher) whiten(spec []complex128) {
 	for b, z := range spec {
 		s.prefix[b+1] = s.prefix[b] + real(z)*real(z) + imag(z)*imag(z)
 	}
+	// The local power is held no lower than quietest of the frame's
+	// mean: where the spectrum is nearly silent (a synthetic chord's
+	// dither, 140 dB down), dividing by it would lift a partial's far
+	// window leakage to the partial's own height, and what is read would
+	// hang on the level over the dither, not on the music.
+	least := s.prefix[s.top+1] / float64(s.top+1) * quietest
 	for b, z := range spec[:s.top+1] { // (the bins above are never read)
 		lo := max(1, int(float64(b)/1.12))
 		hi := min(len(spec)-1, max(int(float64(b)*1.12), lo+2))
-		rms := math.Sqrt((s.prefix[hi+1]-s.prefix[lo])/float64(hi-lo+1)) + 1e-12
-		s.white[b] = math.Hypot(real(z), imag(z)) * math.Pow(rms, nu-1)
+		ms := max((s.prefix[hi+1]-s.prefix[lo])/float64(hi-lo+1), least, 1e-300)
+		s.white[b] = math.Hypot(real(z), imag(z)) * math.Pow(ms, (nu-1)/2)
 	}
 	copy(s.resid, s.white)
 }

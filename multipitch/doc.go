@@ -50,6 +50,12 @@
 // Doubled: another voice sounds an octave above it (a unison double leaves
 // no mark). A voice is never invented to fill a requested count.
 //
+// What is read does not hang on the level, short of clipping: one absolute
+// gate (a window under -60 dBFS holds no voice) and every other decision
+// against the frame's own spectrum, its noise floor held no lower than
+// quietest of its mean power, so that a clean or synthetic take's dither
+// 140 dB down is no floor to whiten by or to stand above.
+//
 // It is pure (no I/O, no cgo) and knows nothing of notes or keys: pruning by
 // a key's window is the caller's Accept function. It is not a transcriber of
 // fast polyphonic passages: windows are long (a third of a second) because

@@ -41,7 +41,17 @@ type Config struct {
 }
 
 const (
-	silenceDBFS = -60.0 // quieter windows hold no voice
+	// silenceDBFS: quieter windows hold no voice. The one absolute level
+	// here; every other decision is relative to the frame's own spectrum,
+	// so that a chord reads the same at any level short of clipping.
+	silenceDBFS = -60.0
+	// quietest: power per bin this far under the frame's mean (-60 dB) is
+	// silence, whatever the spectrum's true floor. A recording's noise lies
+	// far above it (35-45 dB SNR spreads to about -40 dB of the mean); a
+	// synthetic or digitally quiet one's dither lies far below, where a
+	// floor read from it would make leakage of the window a partial and
+	// the reading depend on the level above the dither.
+	quietest    = 1e-6
 	maxPartials = 96
 	ceilingHz   = 5000.0
 	// A voice must explain this much that the others cannot: κ times the
@@ -73,7 +83,7 @@ type Estimator struct {
 	f0     []float64
 	drop   []float64
 	trial  []float64
-	floor  float64   // the spectrum's median power: its noise floor
+	floor  float64   // the spectrum's median power, no less than quietest of its mean: its noise floor
 	sorted []float64 // scratch for it
 	out    []Voice
 	alt    []Voice       // the half window's reading beside it
@@ -213,8 +223,13 @@ func (e *Estimator) Analyze(x []float64, dst []Voice) []Voice {
 	for b := 1; float64(b)*e.fitter.binHz < e.fitter.ceilHz; b += 4 {
 		e.sorted = append(e.sorted, real(e.spec[b])*real(e.spec[b])+imag(e.spec[b])*imag(e.spec[b]))
 	}
+	mean := 0.0
+	for _, p := range e.sorted {
+		mean += p
+	}
+	mean /= float64(len(e.sorted))
 	slices.Sort(e.sorted)
-	e.floor = e.sorted[len(e.sorted)/2]
+	e.floor = max(e.sorted[len(e.sorted)/2], quietest*mean)
 
 	e.f0 = e.f0[:0]
 	e.search.whiten(e.spec)

@@ -18,13 +18,20 @@ import (
 // -18 dBFS), at the given pitches.
 func soxChord(t *testing.T, hz ...float64) string {
 	t.Helper()
+	return soxChordAt(t, "vol 0.15", hz...)
+}
+
+// soxChordAt is soxChord with level, sox effects that set its level (a
+// volume, or gain -n to a peak in dBFS), in place of vol 0.15.
+func soxChordAt(t *testing.T, level string, hz ...float64) string {
+	t.Helper()
 	var synth []string
 	for _, f := range hz {
 		for k := 1.0; k <= 4; k++ {
 			synth = append(synth, fmt.Sprintf("sine %.4f", k*f))
 		}
 	}
-	return sox(t, "chord.wav", "-r", "48000", "-b", "24", "synth 2 "+strings.Join(synth, " ")+" remix - vol 0.15 fade 0.03 2 0.03 pad 0 0.4")
+	return sox(t, "chord.wav", "-r", "48000", "-b", "24", "synth 2 "+strings.Join(synth, " ")+" remix - "+level+" fade 0.03 2 0.03 pad 0 0.4")
 }
 
 // Equal temperament from A4 = 440 Hz (ISO 16): E3, B3, E4, G♯4.
