@@ -19,12 +19,17 @@ const (
 // (cents) are an attack's glide into the pitch the rest settles on: the
 // earliest g such that c[g:] lies within a quarter of its distance (at
 // least glideCents) from c[k], c[k:g+1] moves one way only, and the settled
-// rest lasts at least half as long as the glide. A vibrato moves both ways;
-// a steady drift never settles within a quarter of its movement for that
-// long. The glide may start after a wobble of up to wobble frames (k > 0),
-// all short of the settled pitch on the glide's side: the frames of a
-// slurred note's steady part begin sooner than those of a note after a
-// rest, and the same attack must read the same either way. It returns 0
+// rest lasts at least half as long as the glide, and the note does not
+// hold still on the way (glideRest frames within twice glideSlack). A
+// vibrato moves both ways; a steady drift never settles within a quarter
+// of its movement for that long; a note that holds a pitch and then moves
+// on has already settled, and what it eases into at its end is no pitch
+// it settled on after an attack (a quick flute C6 rising through its whole
+// length had its last three frames so read, 8 ¢ from its median pitch).
+// The glide may start after a wobble of up to wobble frames (k > 0), all
+// short of the settled pitch on the glide's side: the frames of a slurred
+// note's steady part begin sooner than those of a note after a rest, and
+// the same attack must read the same either way. It returns 0
 // when there is no such glide.
 func (s *Segmenter) glide(c []float64, wobble int) int {
 	n := len(c)
@@ -66,6 +71,18 @@ func glideFrom(c []float64, k int, lo, hi []float64, wlo, whi float64) int {
 			(moved > 0 && up && whi < lo[g] || moved < 0 && down && wlo > hi[g]) {
 			return g
 		}
+		// Frame g is the glide's for any later end. Once the note has held
+		// still for glideRest frames, what moves after is the note
+		// drifting on, not an attack settling.
+		if g+1-k >= glideRest && paused(c[g+1-glideRest:g+1]) {
+			return 0
+		}
 	}
 	return 0
+}
+
+// paused reports whether the frames c stay within the detector's jitter
+// either way of each other.
+func paused(c []float64) bool {
+	return slices.Max(c)-slices.Min(c) <= 2*glideSlack
 }
