@@ -62,7 +62,7 @@ type voice struct {
 	cur     pitchdetect.Estimate   // this frame as read
 	cut     float64                // where cur was read below (Hz), 0: read whole
 	blanked bool                   // cur was given away as another's bleed
-	level   float64                // the previous frame's level, dBFS (plain.go)
+	floor   float64                // the channel's quietest level since its player last played, dBFS (plain.go)
 	lowRead bool                   // the last frame was the player's, read from low
 	recent  float64                // the player's latest pitch heard within a window, 0: none
 	age     int                    // frames since it was heard
@@ -120,7 +120,7 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 			return err
 		}
 		voices[i] = &voice{Player: p, det: det, seg: pitchdetect.NewSegmenter(float64(det.Hop()) / src.SampleRate()),
-			ring: make([]float64, det.Window()), clean: make([]float32, det.Hop()), low: low}
+			ring: make([]float64, det.Window()), clean: make([]float32, det.Hop()), low: low, floor: math.Inf(1)}
 	}
 	hop := voices[0].det.Hop()
 	owner := NewOwner(src.SampleRate(), voices[0].det.Window(), len(voices))
