@@ -61,6 +61,8 @@ type voice struct {
 	low     *lowBand               // the channel below the neighbours' partials (lowband.go)
 	cur     pitchdetect.Estimate   // this frame as read
 	cut     float64                // where cur was read below (Hz), 0: read whole
+	blanked bool                   // cur was given away as another's bleed
+	floor   float64                // the channel's quietest level since its player last played, dBFS (plain.go)
 	lowRead bool                   // the last frame was the player's, read from low
 	recent  float64                // the player's latest pitch heard within a window, 0: none
 	age     int                    // frames since it was heard
@@ -118,7 +120,7 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 			return err
 		}
 		voices[i] = &voice{Player: p, det: det, seg: pitchdetect.NewSegmenter(float64(det.Hop()) / src.SampleRate()),
-			ring: make([]float64, det.Window()), clean: make([]float32, det.Hop()), low: low}
+			ring: make([]float64, det.Window()), clean: make([]float32, det.Hop()), low: low, floor: math.Inf(1)}
 	}
 	hop := voices[0].det.Hop()
 	owner := NewOwner(src.SampleRate(), voices[0].det.Window(), len(voices))
@@ -193,21 +195,28 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 				fr.read[i] = v.cur.Hz
 			}
 			for i, v := range voices {
-				e := v.cur
 				// A period shared with bleed not yet weighed is the note above
 				// (phantom.go); below the neighbours' partials none is shared.
-				if k := owner.phantom(i, e.Hz, fr.read, func(d int) bool { return !bleed.weighed(i, d) }); k > 1 && v.cut == 0 {
-					e.Hz *= float64(k)
+				if k := owner.phantom(i, v.cur.Hz, fr.read, func(d int) bool { return !bleed.weighed(i, d) }); k > 1 && v.cut == 0 {
+					v.cur.Hz *= float64(k)
 				}
-				blanked := e.Voiced && owner.bleedOf(i, e.Hz, v.cut, fr.read, ownDB)
-				v.lowRead = v.cut > 0 && !blanked
-				heard := e
-				if blanked {
-					heard = unvoiced(e)
+				v.blanked = v.cur.Voiced && owner.bleedOf(i, v.cur.Hz, v.cut, fr.read, ownDB)
+				v.lowRead = v.cut > 0 && !v.blanked
+				fr.hz[i] = v.cur.Hz
+				if v.blanked {
+					fr.hz[i] = 0
 				}
+			}
+			for i, v := range voices {
 				prev := v.last
-				fr.hz[i], fr.steady[i] = heard.Hz, v.steady(heard.Hz)
-				if err := v.push(e, blanked, prev, deliver); err != nil {
+				fr.steady[i] = v.steady(fr.hz[i])
+				var err error
+				if v.plainly(owner, voices, i, v.cur, fr.hz, prev) {
+					err = v.giveAway(v.cur, deliver)
+				} else {
+					err = v.push(v.cur, v.blanked, prev, deliver)
+				}
+				if err != nil {
 					return err
 				}
 			}

@@ -237,21 +237,33 @@ func measurePlayersLive(b *testing.B, meter bool) {
 func playerLatencies(b *testing.B, path string, played time.Time, cycles int) (total, detection []float64) {
 	recs := timingRows(b, path)
 	type frame struct {
-		wall      time.Time
-		hz, level float64
-		voiced    bool
+		wall         time.Time
+		t, hz, level float64 // t: the frame's time in the stream, s
+		voiced       bool
 	}
 	names := strings.Split(cyclePlayers, ",")
 	frames := make([][]frame, len(names))
 	for _, r := range recs {
 		if p := slices.Index(names, r[7]); p >= 0 {
 			ns, _ := strconv.ParseInt(r[0], 10, 64)
+			t, _ := strconv.ParseFloat(r[1], 64)
 			hz, _ := strconv.ParseFloat(r[2], 64)
 			level, _ := strconv.ParseFloat(r[3], 64)
-			frames[p] = append(frames[p], frame{time.Unix(0, ns), hz, level, r[4] == "true"})
+			frames[p] = append(frames[p], frame{time.Unix(0, ns), t, hz, level, r[4] == "true"})
 		}
 	}
 	ms := func(d time.Duration) float64 { return float64(d) / float64(time.Millisecond) }
+	// lag is how far behind its place in the stream a frame left the
+	// pipeline, give or take a constant.
+	lag := func(f frame) time.Duration {
+		return f.wall.Sub(time.Unix(0, 0)) - time.Duration(f.t*float64(time.Second))
+	}
+	quickest := time.Duration(math.MaxInt64)
+	for _, fs := range frames {
+		for _, f := range fs {
+			quickest = min(quickest, lag(f))
+		}
+	}
 	next := make([]int, len(names)) // each player's next frame to look at
 	for k := range cycles {
 		for _, n := range quartetCycle {
@@ -273,6 +285,12 @@ func playerLatencies(b *testing.B, path string, played time.Time, cycles int) (t
 			next[n.player] = i
 			total = append(total, ms(fs[i].wall.Sub(onset)))
 			detection = append(detection, ms(fs[i].wall.Sub(fs[loud].wall)))
+			// Per note: voiced is stream time from the first loud frame to the
+			// first frame read at the pitch; held how much later than the
+			// quickest frame of the take that frame left the pipeline (held
+			// back at an onset, attack.go, or waiting for another player's).
+			b.Logf("cycle %d %s %s: onset→reading %.0f ms, loud→voiced %.0f ms, held %.0f ms",
+				k+1, names[n.player], n.note, total[len(total)-1], 1000*(fs[i].t-fs[loud].t), ms(lag(fs[i])-quickest))
 		}
 	}
 	return total, detection
