@@ -77,6 +77,9 @@ type track struct {
 	ended   float64 // its last note's end: its next note starts after it
 	// delivered: its note is among tr.done (then it is not counted twice)
 	delivered bool
+	notes     int        // notes delivered
+	gone      bool       // ended: no longer among tr.tracks
+	lost      *lostVoice // its voice missing under a chord that holds; else nil
 }
 
 func newTracker(name string, tuning func() target.Tuning, hop, window float64, emit func(voiceNote)) *tracker {
@@ -94,7 +97,7 @@ func (tr *tracker) push(f multipitch.Frame) {
 	var pairs []pair
 	for ti, t := range tr.tracks {
 		for vi, v := range f.Voices {
-			if c := math.Abs(1200 * math.Log2(v.Hz/t.hz)); c <= t.seg.JumpCents {
+			if c := math.Abs(1200 * math.Log2(v.Hz/t.hz)); c <= t.seg.JumpCents && tr.resumes(t, v.Hz) {
 				pairs = append(pairs, pair{ti, vi, c})
 			}
 		}
@@ -110,17 +113,8 @@ func (tr *tracker) push(f multipitch.Frame) {
 	}
 	var kept []*track // a new slice: deliver reads tr.tracks meanwhile
 	for ti, t := range tr.tracks {
-		if !got[ti] {
-			t.missed++
-			if h, ok := t.seg.Push(pitchdetect.Estimate{Time: f.Time, Level: -120}); ok {
-				tr.deliver(t, h)
-			}
-			if t.missed > t.seg.MaxGap {
-				if h, ok := t.seg.Flush(); ok {
-					tr.deliver(t, h)
-				}
-				continue
-			}
+		if !got[ti] && !tr.stillLost(t, f.Time, got) && !tr.missing(t, f.Time) {
+			continue
 		}
 		kept = append(kept, t)
 	}
@@ -148,7 +142,7 @@ func (tr *tracker) push(f multipitch.Frame) {
 }
 
 func (tr *tracker) feed(t *track, at float64, v multipitch.Voice) {
-	t.hz, t.missed = v.Hz, 0
+	t.hz, t.missed, t.lost = v.Hz, 0, nil
 	t.count++
 	t.power += v.Amplitude * v.Amplitude
 	if t.frames != nil {
@@ -169,6 +163,9 @@ func (tr *tracker) feed(t *track, at float64, v multipitch.Voice) {
 // flush ends every track at the end of the stream.
 func (tr *tracker) flush() {
 	for _, t := range tr.tracks {
+		if !tr.missing(t) {
+			continue
+		}
 		if h, ok := t.seg.Flush(); ok {
 			tr.deliver(t, h)
 		}
@@ -183,7 +180,7 @@ func (tr *tracker) deliver(t *track, h pitchdetect.Held) {
 		// knows its window) gives nonsense widths. Its centre stands.
 		h.VibratoWidth, h.VibratoRate = 0, 0
 	}
-	t.ended = h.End
+	t.ended, t.notes = h.End, t.notes+1
 	// A note most of whose frames lie on a lower voice's partials, which
 	// stand no higher than that voice's envelope allows, is those partials
 	// (multipitch.Voice.OnPartials): no voice either.
