@@ -1,7 +1,9 @@
 package main
 
 import (
+	"cmp"
 	"math"
+	"slices"
 
 	"fifthline/pitchdetect"
 )
@@ -27,6 +29,7 @@ const heardShare = 0.36
 // to 0.84 s while it sings on; TestVoicesOfRenderedEnsembles, "choir, four
 // parts", on other frame grids), and ends where it was lost if not.
 type lostVoice struct {
+	last  float64        // its note's last frame
 	times []float64      // the frames missed, not yet told to the segmenter
 	hz    float64        // its note's pitch as it was lost
 	with  map[*track]int // the other tracks sounding then, and their notes delivered by then
@@ -69,7 +72,7 @@ func (tr *tracker) stillLost(t *track, at float64, got []bool) bool {
 	if !ok {
 		return false
 	}
-	l := &lostVoice{times: []float64{at}, hz: h.Hz, with: map[*track]int{}}
+	l := &lostVoice{last: h.End, times: []float64{at}, hz: h.Hz, with: map[*track]int{}}
 	for oi, o := range tr.tracks {
 		if !got[oi] || o == t {
 			continue
@@ -139,4 +142,38 @@ func (tr *tracker) missing(t *track, at ...float64) bool {
 		}
 	}
 	return true
+}
+
+// give hands a note on as notes end: while a voice is held as lost it may
+// yet end where it was lost, before the notes given since (a chord's voices
+// falling silent a frame apart), so those wait for it.
+func (tr *tracker) give(n voiceNote) {
+	tr.waiting = append(tr.waiting, n)
+	for _, t := range tr.tracks {
+		if t.lost != nil {
+			return
+		}
+	}
+	tr.release()
+}
+
+// release hands on the waiting notes that end before every lost voice's
+// last frame, in the order they end.
+func (tr *tracker) release() {
+	until := math.Inf(1)
+	for _, t := range tr.tracks {
+		if t.lost != nil {
+			until = min(until, t.lost.last)
+		}
+	}
+	slices.SortStableFunc(tr.waiting, func(a, b voiceNote) int { return cmp.Compare(a.End, b.End) })
+	n := 0
+	for n < len(tr.waiting) && tr.waiting[n].End <= until {
+		n++
+	}
+	ready := slices.Clone(tr.waiting[:n])
+	tr.waiting = slices.Delete(tr.waiting, 0, n)
+	for _, w := range ready {
+		tr.emit(w)
+	}
 }

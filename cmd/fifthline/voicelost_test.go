@@ -66,3 +66,29 @@ func TestTrackerHoldsAVoiceLostUnderAHeldChord(t *testing.T) {
 		}
 	}
 }
+
+// Notes are given out in the order they end: a voice falling silent a
+// little before the rest of its chord is held as lost meanwhile, and its
+// note, ended where it was lost, still comes first (listen prints notes as
+// they end). The chord of TestTrackerHoldsAVoiceLostUnderAHeldChord, F3
+// silent from 2.2 s, the others from 2.5 s.
+func TestLostVoiceKeepsTheOrderNotesEnd(t *testing.T) {
+	hop, window := 4096/44100.0, 16384/44100.0
+	var got []string
+	tr := newTracker("test", fixed(target.Default()), hop, window, func(n voiceNote) {
+		got = append(got, fmt.Sprintf("%s %.1f", n.Reading.Note, n.End))
+	})
+	for at := 0.0; at < 3; at += hop {
+		f := multipitch.Frame{Time: at}
+		for _, hz := range []float64{174.61, 261.63, 329.63, 440.00} {
+			if at < 2.5 && (hz != 174.61 || at < 2.2) {
+				f.Voices = append(f.Voices, multipitch.Voice{Hz: hz, Amplitude: 0.1})
+			}
+		}
+		tr.push(f)
+	}
+	tr.flush()
+	if s := strings.Join(got, ", "); s != "F3 2.1, C4 2.4, E4 2.4, A4 2.4" {
+		t.Errorf("notes given out as %q, want F3 first", s)
+	}
+}

@@ -61,7 +61,8 @@ type tracker struct {
 	tracks      []*track
 	done        []doneNote // notes given out lately, to number voices by
 	emit        func(voiceNote)
-	keepFrames  bool // for reading chords: each track's frames
+	waiting     []voiceNote // notes given out, waiting for a lost voice's (give)
+	keepFrames  bool        // for reading chords: each track's frames
 }
 
 type track struct {
@@ -139,6 +140,7 @@ func (tr *tracker) push(f multipitch.Frame) {
 			tr.feed(t, f.Time, v)
 		}
 	}
+	tr.release()
 }
 
 func (tr *tracker) feed(t *track, at float64, v multipitch.Voice) {
@@ -171,6 +173,7 @@ func (tr *tracker) flush() {
 		}
 	}
 	tr.tracks = nil
+	tr.release()
 }
 
 func (tr *tracker) deliver(t *track, h pitchdetect.Held) {
@@ -208,16 +211,20 @@ func (tr *tracker) deliver(t *track, h pitchdetect.Held) {
 	t.delivered = true
 	tr.done = append(slices.DeleteFunc(tr.done, func(d doneNote) bool { return d.End < h.Start-60 }), doneNote{h, t.level()})
 	tu := tr.tuning()
-	tr.emit(voiceNote{session.Event{Source: tr.name, Held: h, Reading: tu.Classify(h.Hz), Tuning: tu}, voice, 2*t.doubled > t.count, t.frames})
+	tr.give(voiceNote{session.Event{Source: tr.name, Held: h, Reading: tu.Classify(h.Hz), Tuning: tu}, voice, 2*t.doubled > t.count, t.frames})
 }
 
 // earliest is the earliest a note still to come can start, at frame time
 // now: a track's next note starts at or after its first frame and after
-// its last note, and a track still to come starts after now.
+// its last note, a track still to come starts after now, and a note
+// waiting for a lost voice's (give) at its start.
 func (tr *tracker) earliest(now float64) float64 {
 	e := now
 	for _, t := range tr.tracks {
 		e = min(e, max(t.start, t.ended))
+	}
+	for _, n := range tr.waiting {
+		e = min(e, n.Start)
 	}
 	return e
 }
