@@ -45,7 +45,10 @@ func (tr *tracker) holds(l *lostVoice) bool {
 		}
 	}
 	for _, o := range tr.tracks {
-		if _, held := tr.heldNote(o); held && o.start > l.times[0] {
+		if o.start <= l.times[0] {
+			continue
+		}
+		if _, held := tr.heldNote(o); held {
 			return false
 		}
 	}
@@ -97,8 +100,11 @@ func (tr *tracker) stillLost(t *track, at float64, got []bool) bool {
 // heldNote is t's open note when it is a held note, heard in heardShare of
 // its frames at least; a passing reading comes and goes too often.
 func (tr *tracker) heldNote(t *track) (pitchdetect.Held, bool) {
+	if t.missed > 0 || t.lost != nil {
+		return pitchdetect.Held{}, false
+	}
 	h, ok := t.seg.Current()
-	if !ok || t.missed > 0 || t.lost != nil || h.Frames < t.seg.MinFrames || float64(h.Frames) < heardShare*((h.End-h.Start)/tr.hop+1) || t.onPartials() {
+	if !ok || h.Frames < t.seg.MinFrames || float64(h.Frames) < heardShare*((h.End-h.Start)/tr.hop+1) || t.onPartials() {
 		return pitchdetect.Held{}, false
 	}
 	return h, true
