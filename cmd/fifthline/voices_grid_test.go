@@ -26,9 +26,9 @@ type gridFigures struct {
 // (cmd/fifthline/voicelost.go) the same grids missed 11 notes in all and
 // split 26 rows off the notes (median up to 3.29 ¢, just up to 13.7 ¢); now
 // 5 and 4 (median up to 2.98 ¢, just up to 10.6 ¢). What is left lies in
-// the estimator's frames, not the tracker: the bass's F3 reads 7.4 to 9.8 ¢ sharp of its truth wherever the grid is
-// moved (+3.7 ¢ on the take's own; its own partials take part of its fit),
-// the tenor's C4 is absent from most frames or read an octave high as C5,
+// the estimator's frames, not the tracker: the bass's F3 reads 7.4 to
+// 9.8 ¢ sharp of its truth wherever the grid is moved (+3.7 ¢ on the
+// take's own; its own partials take part of its fit), the tenor's C4 is absent from most frames or read an octave high as C5,
 // and the just readings, over chord rows as short as the frames leave
 // them, carry the roots' errors.
 var frameGridFigures = []gridFigures{
