@@ -61,7 +61,8 @@ type tracker struct {
 	tracks      []*track
 	done        []doneNote // notes given out lately, to number voices by
 	emit        func(voiceNote)
-	keepFrames  bool // for reading chords: each track's frames
+	waiting     []voiceNote // notes given out, waiting for a lost voice's (give)
+	keepFrames  bool        // for reading chords: each track's frames
 }
 
 type track struct {
@@ -77,6 +78,9 @@ type track struct {
 	ended   float64 // its last note's end: its next note starts after it
 	// delivered: its note is among tr.done (then it is not counted twice)
 	delivered bool
+	notes     int        // notes delivered
+	gone      bool       // ended: no longer among tr.tracks
+	lost      *lostVoice // its voice missing under a chord that holds; else nil
 }
 
 func newTracker(name string, tuning func() target.Tuning, hop, window float64, emit func(voiceNote)) *tracker {
@@ -94,7 +98,7 @@ func (tr *tracker) push(f multipitch.Frame) {
 	var pairs []pair
 	for ti, t := range tr.tracks {
 		for vi, v := range f.Voices {
-			if c := math.Abs(1200 * math.Log2(v.Hz/t.hz)); c <= t.seg.JumpCents {
+			if c := math.Abs(1200 * math.Log2(v.Hz/t.hz)); c <= t.seg.JumpCents && tr.resumes(t, v.Hz) {
 				pairs = append(pairs, pair{ti, vi, c})
 			}
 		}
@@ -110,17 +114,8 @@ func (tr *tracker) push(f multipitch.Frame) {
 	}
 	var kept []*track // a new slice: deliver reads tr.tracks meanwhile
 	for ti, t := range tr.tracks {
-		if !got[ti] {
-			t.missed++
-			if h, ok := t.seg.Push(pitchdetect.Estimate{Time: f.Time, Level: -120}); ok {
-				tr.deliver(t, h)
-			}
-			if t.missed > t.seg.MaxGap {
-				if h, ok := t.seg.Flush(); ok {
-					tr.deliver(t, h)
-				}
-				continue
-			}
+		if !got[ti] && !tr.stillLost(t, f.Time, got) && !tr.missing(t, f.Time) {
+			continue
 		}
 		kept = append(kept, t)
 	}
@@ -145,10 +140,11 @@ func (tr *tracker) push(f multipitch.Frame) {
 			tr.feed(t, f.Time, v)
 		}
 	}
+	tr.release()
 }
 
 func (tr *tracker) feed(t *track, at float64, v multipitch.Voice) {
-	t.hz, t.missed = v.Hz, 0
+	t.hz, t.missed, t.lost = v.Hz, 0, nil
 	t.count++
 	t.power += v.Amplitude * v.Amplitude
 	if t.frames != nil {
@@ -169,11 +165,15 @@ func (tr *tracker) feed(t *track, at float64, v multipitch.Voice) {
 // flush ends every track at the end of the stream.
 func (tr *tracker) flush() {
 	for _, t := range tr.tracks {
+		if !tr.missing(t) {
+			continue
+		}
 		if h, ok := t.seg.Flush(); ok {
 			tr.deliver(t, h)
 		}
 	}
 	tr.tracks = nil
+	tr.release()
 }
 
 func (tr *tracker) deliver(t *track, h pitchdetect.Held) {
@@ -183,7 +183,7 @@ func (tr *tracker) deliver(t *track, h pitchdetect.Held) {
 		// knows its window) gives nonsense widths. Its centre stands.
 		h.VibratoWidth, h.VibratoRate = 0, 0
 	}
-	t.ended = h.End
+	t.ended, t.notes = h.End, t.notes+1
 	// A note most of whose frames lie on a lower voice's partials, which
 	// stand no higher than that voice's envelope allows, is those partials
 	// (multipitch.Voice.OnPartials): no voice either.
@@ -211,16 +211,20 @@ func (tr *tracker) deliver(t *track, h pitchdetect.Held) {
 	t.delivered = true
 	tr.done = append(slices.DeleteFunc(tr.done, func(d doneNote) bool { return d.End < h.Start-60 }), doneNote{h, t.level()})
 	tu := tr.tuning()
-	tr.emit(voiceNote{session.Event{Source: tr.name, Held: h, Reading: tu.Classify(h.Hz), Tuning: tu}, voice, 2*t.doubled > t.count, t.frames})
+	tr.give(voiceNote{session.Event{Source: tr.name, Held: h, Reading: tu.Classify(h.Hz), Tuning: tu}, voice, 2*t.doubled > t.count, t.frames})
 }
 
 // earliest is the earliest a note still to come can start, at frame time
 // now: a track's next note starts at or after its first frame and after
-// its last note, and a track still to come starts after now.
+// its last note, a track still to come starts after now, and a note
+// waiting for a lost voice's (give) at its start.
 func (tr *tracker) earliest(now float64) float64 {
 	e := now
 	for _, t := range tr.tracks {
 		e = min(e, max(t.start, t.ended))
+	}
+	for _, n := range tr.waiting {
+		e = min(e, n.Start)
 	}
 	return e
 }
