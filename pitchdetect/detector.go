@@ -90,10 +90,11 @@ type Detector struct {
 	floor     float64 // absolute power floor for partial peaks in this frame
 	peak      float64 // strongest bin's power in this frame
 	last      analysis
-	under     float64   // power of the quieter sound the span began with (entry.go)
-	entryRun  int       // frames of an entry so far, this one included (entry.go)
-	newest    []float64 // the last frames' newest-eighth powers, a ring (entry.go)
-	frameNo   int       // frames since Reset
+	under     float64    // power of the quieter sound the span began with (entry.go)
+	entryRun  int        // frames of an entry so far, this one included (entry.go)
+	newest    []float64  // the last frames' newest-eighth powers, a ring (entry.go)
+	frameNo   int        // frames since Reset
+	ends      [2]float64 // this span's oldest and newest eighths' mean power (entry.go)
 }
 
 // New returns a Detector for the sample rate with the given window and hop

@@ -34,8 +34,15 @@ import "math"
 // onset test below asks for 20 dB; an entry over bleed rises less).
 const entryDB = 10.0
 
-// spanEnds returns the mean power of the span's oldest and newest eighths.
+// spanEnds returns the mean power of the span's oldest and newest eighths,
+// worked out once a frame (noteEntry) and kept in d.ends.
 func (d *Detector) spanEnds() (first, last float64) {
+	return d.ends[0], d.ends[1]
+}
+
+// measureEnds works out the mean power of the span's oldest and newest
+// eighths.
+func (d *Detector) measureEnds() (first, last float64) {
 	n := len(d.lin) / 8
 	for i, v := range d.lin[:n] {
 		w := d.lin[len(d.lin)-n+i]
@@ -53,8 +60,11 @@ func (d *Detector) entering() bool {
 
 // isEntry reports whether span ends of these powers hold an entry.
 func isEntry(first, last float64) bool {
-	return first < last*math.Pow(10, -entryDB/10)
+	return first < last*entryRatio
 }
+
+// entryRatio is entryDB as a power ratio.
+var entryRatio = math.Pow(10, -entryDB/10)
 
 // standOutRatio: a newest eighth with this many times the power of the
 // older sound holds at least as much of the entering note as of it (3 dB).
@@ -65,7 +75,8 @@ const standOutRatio = 2.0
 // included, whose newest eighth stands out of the older sound (the span's
 // oldest eighth now) since the entry began.
 func (d *Detector) noteEntry() {
-	first, last := d.spanEnds()
+	first, last := d.measureEnds()
+	d.ends = [2]float64{first, last}
 	d.newest[d.frameNo%len(d.newest)] = last
 	d.frameNo++
 	d.entryRun = 0
