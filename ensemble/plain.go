@@ -34,6 +34,9 @@ import (
 // issue's measurements).
 const farDB = 12.0
 
+// farRatio is farDB as a power ratio.
+var farRatio = math.Pow(10, farDB/10)
+
 // risingDB is how far above its quietest a channel hearing only bleed may
 // read: a held note's bleed wavers by about this much with its player's
 // bow or breath; a channel read as rising is only held back, as before.
@@ -54,7 +57,7 @@ func (v *voice) plainly(o *Owner, voices []*voice, i int, e pitchdetect.Estimate
 		return false
 	}
 	for d, u := range voices {
-		if d == i || !sameNote(e.Hz, heard[d]) || !(o.power(d, e.Hz, 0) > o.power(i, e.Hz, 0)*math.Pow(10, farDB/10)) {
+		if d == i || !sameNote(e.Hz, heard[d]) || !(o.power(d, e.Hz, 0) > o.power(i, e.Hz, 0)*farRatio) {
 			continue
 		}
 		if u.run < steadyFrames {
