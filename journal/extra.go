@@ -3,6 +3,7 @@ package journal
 import (
 	"math"
 	"slices"
+	"strconv"
 	"time"
 
 	"fifthline/session"
@@ -25,6 +26,9 @@ type Extra struct {
 	// JustCents are measured from: its just_cents is left empty, since it
 	// is no reading against just.
 	Reference bool
+	// Channel is a player's channel with --players, counted from 1 (0:
+	// none), so report can keep the players in the order they sit.
+	Channel int
 }
 
 // Membership is the row of member m of chord c, held from start to end
@@ -60,5 +64,9 @@ func (x Extra) record() []string {
 	if x.HeardChord != "" && !x.Reference {
 		just = target.Decimal(x.JustCents, 2)
 	}
-	return []string{x.Voice, x.HeardChord, x.Member, just}
+	channel := ""
+	if x.Channel > 0 {
+		channel = strconv.Itoa(x.Channel)
+	}
+	return []string{x.Voice, x.HeardChord, x.Member, just, channel}
 }

@@ -56,3 +56,27 @@ func TestVoicesAndChordMembershipsInTheJournal(t *testing.T) {
 		t.Errorf("third's membership read as %+v", third)
 	}
 }
+
+// A player's note carries the channel they sit on (counted from 1), and a
+// row without one reads back as 0: report seats players by it.
+func TestAPlayersChannelInTheJournal(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "j.csv")
+	w, err := Open(path, Meta{Session: "s1", Now: (&clock{opening}).now})
+	if err != nil {
+		t.Fatal(err)
+	}
+	vla := heldAt(-900, 0.5, 1.5, "take.wav")
+	vla.Player = "vla"
+	w.WriteExtra(vla, Extra{Channel: 2}, opening)
+	w.WriteExtra(heldAt(0, 2, 3, "take.wav"), Extra{}, opening)
+	if err := w.Close(); err != nil {
+		t.Fatal(err)
+	}
+	es, warns, err := ReadFile(path)
+	if err != nil || len(warns) != 0 || len(es) != 2 {
+		t.Fatalf("%d entries, %q, %v", len(es), warns, err)
+	}
+	if es[0].Player != "vla" || es[0].Channel != 2 || es[1].Channel != 0 {
+		t.Errorf("channels read back as %d (%s) and %d, want 2 (vla) and 0", es[0].Channel, es[0].Player, es[1].Channel)
+	}
+}

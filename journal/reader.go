@@ -40,6 +40,9 @@ type Entry struct {
 	// Reference: the lowest sounding root, which JustCents of the chord's
 	// other members are measured from (its own just_cents is empty).
 	Reference bool
+	// Channel is the player's channel with --players, counted from 1; 0
+	// where the journal does not say (older journals, one player).
+	Channel int
 }
 
 // NearerAlt reports whether the note sat nearer its other spelling's target
@@ -262,6 +265,13 @@ func (c columns) parse(line string) (Entry, error) {
 			e.JustCents = f.num("just_cents")
 		} else if e.Member != "root" && f.err == nil {
 			f.err = fmt.Errorf("%s of %s without its just_cents", e.Member, e.HeardChord)
+		}
+	}
+	if ch := f.later("channel"); ch != "" {
+		if n, err := strconv.Atoi(ch); err == nil && n > 0 {
+			e.Channel = n
+		} else if f.err == nil {
+			f.err = fmt.Errorf("channel %q is not a channel number", ch)
 		}
 	}
 	return e, f.err

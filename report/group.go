@@ -25,7 +25,7 @@ import (
 type GroupDrift struct {
 	Source      string    `json:"source"`
 	Session     string    `json:"session"`
-	Players     []string  `json:"players"` // by name
+	Players     []string  `json:"players"` // in the order they sit (seating.go)
 	Key         string    `json:"key"`
 	Temperament string    `json:"temperament"`
 	A4          float64   `json:"a4"`
@@ -87,7 +87,7 @@ func groupDrift(k take, es []journal.Entry) (GroupDrift, bool) {
 	if len(g.Players) < 2 {
 		return g, false
 	}
-	slices.Sort(g.Players)
+	seatPlayers(g.Players, channels(es))
 	tu, err := tuningOfTake(k)
 	if err != nil {
 		return g, false // a journal's tuning it cannot read again says nothing of drift

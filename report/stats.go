@@ -54,7 +54,7 @@ func groupKey(e journal.Entry) tuningOf {
 }
 
 // Summarize groups the entries by player (or voice) and tuning (in order of
-// first appearance) and describes each group per note, per pitch class and
+// first appearance, players in the order they sit: seating.go) and describes each group per note, per pitch class and
 // as a whole — with ByRehearsal, each of those once per rehearsal — and its
 // chord memberships per chord role.
 func Summarize(entries []journal.Entry, opt Options) []Group {
@@ -94,6 +94,7 @@ func Summarize(entries []journal.Entry, opt Options) []Group {
 		}
 		groups = append(groups, g)
 	}
+	seatGroups(groups, channels(entries))
 	return groups
 }
 

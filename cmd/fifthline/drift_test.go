@@ -177,7 +177,7 @@ func reportedDrift(t *testing.T, log string) {
 		}
 		takes++
 		d, err := strconv.ParseFloat(r["drift_cents"], 64)
-		if err != nil || math.Abs(d-want) > 0.5 || r["player"] != "vc+vl1+vl2+vla" || r["count"] != "32" {
+		if err != nil || math.Abs(d-want) > 0.5 || r["player"] != "vc+vla+vl2+vl1" || r["count"] != "32" {
 			t.Errorf("group row %v: want drift %+.2f ¢ over 32 notes", r, want)
 		}
 	}
@@ -185,7 +185,7 @@ func reportedDrift(t *testing.T, log string) {
 		t.Errorf("%d group rows, want one per take (2):\n%s", takes, out)
 	}
 	code, out, stderr = runCLI(t, "report", log)
-	if code != 0 || strings.Count(out, "(vc vl1 vl2 vla): group drift") != 2 {
+	if code != 0 || strings.Count(out, "(vc vla vl2 vl1): group drift") != 2 {
 		t.Errorf("report: exit %d (%s), want a group line per take:\n%s", code, stderr, out)
 	}
 }

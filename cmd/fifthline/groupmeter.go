@@ -41,7 +41,7 @@ func playersMeter(ctx context.Context, src source.Multi, tunings *session.Tuning
 	})
 	o := ensemble.Options{Name: ms.name, Players: po.players, Tunings: tunings,
 		OnNote: func(n ensemble.Note) error {
-			j.note(n.Event)
+			po.logNote(j, n, time.Time{})
 			if chords != nil {
 				return chords.note(n)
 			}

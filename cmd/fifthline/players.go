@@ -16,6 +16,7 @@ import (
 	"fifthline/capture"
 	"fifthline/ensemble"
 	"fifthline/harmony"
+	"fifthline/journal"
 	"fifthline/pitchdetect"
 	"fifthline/session"
 	"fifthline/target"
@@ -38,6 +39,9 @@ func addPlayersFlag(fs *flag.FlagSet) *string {
 // playerOptions are the checked --players flags.
 type playerOptions struct {
 	players []ensemble.Player
+	// onInterface[i] is the interface channel (from 1) of the source's
+	// channel i once carried has picked them; nil: the source's own.
+	onInterface []int
 	chords  bool
 	seventh float64
 	group   bool // --reference group
@@ -217,7 +221,7 @@ func readPlayers(e *env, path string, tu target.Tuning, po playerOptions, opt an
 	chords := ensemble.Chords(notes, tracks, po.players, tu, po.seventh)
 	spellPlayersFromChords(notes, chords)
 	for _, n := range notes {
-		j.noteAt(n.Event, start)
+		po.logNote(j, n, start)
 	}
 	if !po.chords {
 		chords = nil
@@ -276,7 +280,23 @@ func (po *playerOptions) carried() []int {
 		chans = append(chans, p.Channel+1)
 		po.players[i].Channel = i
 	}
+	po.onInterface = chans
 	return chans
+}
+
+// channel is where a player sits, counted from 1 as the interface or the
+// file numbers its channels.
+func (po *playerOptions) channel(p ensemble.Player) int {
+	if po.onInterface != nil {
+		return po.onInterface[p.Channel]
+	}
+	return p.Channel + 1
+}
+
+// logNote journals a player's note with their channel (start as for
+// journalSink.noteAt).
+func (po *playerOptions) logNote(j *journalSink, n ensemble.Note, start time.Time) {
+	j.row(n.Event, journal.Extra{Channel: po.channel(n.Player)}, start)
 }
 
 // listenPlayers is listen --plain --players: the CSV header, then each
@@ -299,7 +319,6 @@ func listenPlayers(ctx context.Context, e *env, src *capture.Input, name string,
 		return err
 	}
 	defer timing.close()
-	interface_ := src.Carried()
 	chords := po.liveChords(session.NewTunings(tu), func(c ensemble.Chord, tu target.Tuning) error {
 		logChords(j, name, tu, []ensemble.Chord{c}, time.Time{})
 		for _, row := range chordRecords(c, "") {
@@ -311,13 +330,13 @@ func listenPlayers(ctx context.Context, e *env, src *capture.Input, name string,
 	drift := ensemble.NewDrift(tu, po.seventh)
 	o := ensemble.Options{Name: name, Players: po.players, Tunings: session.NewTunings(tu),
 		OnNote: func(n ensemble.Note) error {
-			j.note(n.Event)
+			po.logNote(j, n, time.Time{})
 			if chords != nil {
 				return chords.note(n)
 			}
 			c, known := drift.Cents()
 			pn := withDrift(n, tu, c, known, po.group)
-			pn.Player.Channel = interface_[n.Player.Channel] - 1 // as printed on the interface
+			pn.Player.Channel = po.channel(n.Player) - 1 // as printed on the interface
 			w.Write(pn.record(false))
 			w.Flush()
 			return w.Error()
