@@ -42,9 +42,9 @@ type playerOptions struct {
 	// onInterface[i] is the interface channel (from 1) of the source's
 	// channel i once carried has picked them; nil: the source's own.
 	onInterface []int
-	chords  bool
-	seventh float64
-	group   bool // --reference group
+	chords      bool
+	seventh     float64
+	group       bool // --reference group
 }
 
 // playersOptions checks --players and the chord flags; ok is false when
