@@ -20,9 +20,10 @@ type Stream struct {
 	// past what the chords to come need.
 	Join  func([]Note) []Note
 	Reach float64
-	notes []Note
-	from  float64 // every chord ending before it has been given
-	begun bool
+	notes   []Note
+	from    float64 // every chord ending before it has been given
+	settled float64 // every chord starting before it has been given
+	begun   bool
 }
 
 // Add takes a note that has ended.
@@ -37,6 +38,16 @@ func (s *Stream) From() float64 {
 	return s.from
 }
 
+// Settled is the time before which every chord has been given: a note
+// ending by then sounds in no chord still to come, so what the chords
+// make of it (its spelling from their roots) is known.
+func (s *Stream) Settled() float64 {
+	if !s.begun {
+		return math.Inf(-1)
+	}
+	return s.settled
+}
+
 // Ready gives the chords that end before horizon, the earliest a note not
 // yet added can start (+Inf at the end of the stream), so nothing still to
 // come can lengthen, split or join them; their frames must be in before
@@ -46,7 +57,7 @@ func (s *Stream) From() float64 {
 // would give them from all the notes at once, in time order.
 func (s *Stream) Ready(horizon float64, tuning func(at float64) target.Tuning) ([]Chord, []Note) {
 	if !s.begun {
-		s.from, s.begun = math.Inf(-1), true
+		s.from, s.settled, s.begun = math.Inf(-1), math.Inf(-1), true
 	}
 	horizon -= s.Reach
 	if horizon <= s.from {
@@ -71,9 +82,12 @@ func (s *Stream) Ready(horizon float64, tuning func(at float64) target.Tuning) (
 	// everything from its start. Without one, what follows the last cut
 	// sounds fewer than two notes.
 	next := cuts[len(cuts)-2] // the last cut before the horizon
+	settled := horizon
 	if last := len(runs) - 1; last >= 0 && runs[last].End == horizon {
 		next, runs = runs[last].Start, runs[:last]
+		settled = next
 	}
+	s.settled = max(s.settled, settled)
 	var out []Chord
 	for _, c := range runs {
 		if named, ok := name(c, notes, tuning(c.End), s.Seventh); ok {

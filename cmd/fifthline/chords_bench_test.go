@@ -36,12 +36,13 @@ func BenchmarkLiveChordsMemory(b *testing.B) {
 		po := playerOptions{chords: true, seventh: target.DefaultSeventh}
 		po.players, _ = ensemble.ParsePlayers(cyclePlayers)
 		tunings := session.NewTunings(target.Default())
-		chords := 0
-		live := po.liveChords(tunings, func(ensemble.Chord, target.Tuning) error { chords++; return nil })
+		chords, rows := 0, 0
+		live := po.liveChords(tunings, func(ensemble.Chord, target.Tuning) error { chords++; return nil },
+			func(playerNote) error { rows++; return nil })
 		src := &loopMulti{cycle: cycle, left: int(chordsSoak.Seconds() * 48000)}
 		step := src.left / 10
 		var heap []float64
-		o := ensemble.Options{Name: "soak", Players: po.players, Tunings: tunings, OnNote: live.note,
+		o := ensemble.Options{Name: "soak", Players: po.players, Tunings: tunings, OnNote: func(n ensemble.Note) error { return live.note(playerNote{Note: n}) },
 			OnFrame: func(i int, e pitchdetect.Estimate) {
 				live.frame(i, e)
 				if i == 0 && src.read >= (len(heap)+1)*step {
@@ -57,6 +58,7 @@ func BenchmarkLiveChordsMemory(b *testing.B) {
 		b.ReportMetric(heap[len(heap)-1], "heap_last_MB")
 		b.ReportMetric((heap[len(heap)-1]-heap[0])/hours, "heap_growth_MB_per_h")
 		b.ReportMetric(float64(chords), "chords")
+		b.ReportMetric(float64(rows), "note_rows")
 		if want := 2 * int(chordsSoak.Seconds()/cycleSeconds); chords != want {
 			b.Errorf("%d chords written, want %d (two a cycle)", chords, want)
 		}

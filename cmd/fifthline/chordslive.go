@@ -102,28 +102,26 @@ type playerChords struct {
 	tunings *tuningLog
 	asked   float64 // the horizon of the last look
 	emit    func(ensemble.Chord, target.Tuning) error
-	err     error // the first from emit
+	rows    heldRows[playerNote]
+	err     error // the first from emit or a row
 }
 
-// liveChords keeps what --chords needs while the players are heard, and
-// hands each chord to emit in the tuning it was named in; nil without
-// --chords.
-func (po *playerOptions) liveChords(tunings *session.Tunings, emit func(ensemble.Chord, target.Tuning) error) *playerChords {
-	if !po.chords {
-		return nil
-	}
+// liveChords finds the chords while the players are heard: it hands each
+// to emit (nil: without --chords) in the tuning it was named in, and each
+// note to row once spelled as the chords it sounds in spell it
+// (heldrows.go).
+func (po *playerOptions) liveChords(tunings *session.Tunings, emit func(ensemble.Chord, target.Tuning) error, row func(playerNote) error) *playerChords {
 	h := &playerChords{players: po.players, tracks: make([]harmony.Track, len(po.players)), next: make([]nextStart, len(po.players)),
 		tunings: newTuningLog(tunings), asked: math.Inf(-1), emit: emit}
+	h.rows = heldRows[playerNote]{event: func(n *playerNote) *session.Event { return &n.Event },
+		who: func(n *playerNote) string { return n.Player.Name }, write: row}
 	h.stream.Seventh = po.seventh
 	return h
 }
 
 // frame takes player i's frame (ensemble.Options.OnFrame: every player's
-// frame of a moment in player order); nothing on a nil keeper.
+// frame of a moment in player order).
 func (h *playerChords) frame(i int, est pitchdetect.Estimate) {
-	if h == nil {
-		return
-	}
 	if i == 0 {
 		h.tunings.moment(est.Time)
 	}
@@ -135,12 +133,14 @@ func (h *playerChords) frame(i int, est pitchdetect.Estimate) {
 }
 
 // note takes a player's note as it ends, and gives back the first error
-// emit met, to stop the reading.
-func (h *playerChords) note(n ensemble.Note) error {
+// emit or a row met, to stop the reading.
+func (h *playerChords) note(pn playerNote) error {
+	n := pn.Note
 	p := slices.Index(h.players, n.Player)
 	if p < 0 {
 		return h.err
 	}
+	h.rows.add(pn)
 	h.next[p].lastEnd = max(h.next[p].lastEnd, n.Held.End)
 	h.stream.Add(harmony.Note{Start: n.Held.Start, End: n.Held.End, Who: n.Player.Name, Note: n.Reading.Note,
 		Frames: &h.tracks[p], Hz: n.Held.Hz, Settled: n.Held.Settled})
@@ -162,6 +162,17 @@ func (h *playerChords) ready(end bool) error {
 	h.asked = horizon
 	chords, notes := h.stream.Ready(horizon, h.tunings.in)
 	for _, c := range chords {
+		h.rows.chord(c.Start, c.End, heldMembers(c, notes))
+	}
+	// The notes' rows before their chords' memberships, as the journal
+	// wants them (journal.Extra).
+	if err := h.rows.release(h.stream.Settled()); err != nil && h.err == nil {
+		h.err = err
+	}
+	for _, c := range chords {
+		if h.emit == nil {
+			break
+		}
 		ps := make([]ensemble.Player, len(c.Notes))
 		for i, k := range c.Notes {
 			ps[i] = h.players[slices.IndexFunc(h.players, func(p ensemble.Player) bool { return p.Name == notes[k].Who })]
@@ -178,6 +189,15 @@ func (h *playerChords) ready(end bool) error {
 	return h.err
 }
 
+// heldMembers are a chord's members for heldRows.chord.
+func heldMembers(c harmony.Chord, notes []harmony.Note) []heldMember {
+	ms := make([]heldMember, len(c.Notes))
+	for i, k := range c.Notes {
+		ms[i] = heldMember{notes[k].Who, notes[k].Start, c.Members[i].Note}
+	}
+	return ms
+}
+
 // voiceChords finds the chords of the voices heard on one channel as they
 // are heard.
 type voiceChords struct {
@@ -185,6 +205,7 @@ type voiceChords struct {
 	tunings *tuningLog
 	asked   float64
 	emit    func(c harmony.Chord, voices []int, doubled []bool, tu target.Tuning) error
+	rows    heldRows[voiceNote]
 	err     error
 	// doubled holds the doubled notes added (by voice and start) until the
 	// stream has forgotten them.
@@ -198,27 +219,28 @@ type voiceStart struct {
 	start float64
 }
 
-// liveChords keeps what --chords needs while the voices are heard, and
-// hands each chord (with its members' voices, and which of them are
-// doubled) to emit; nil without
-// --chords. A voice lost for a moment under a chord is bridged as the
-// file analysis bridges it (bridgeLost).
-func (vo *voiceOptions) liveChords(tunings *session.Tunings, emit func(harmony.Chord, []int, []bool, target.Tuning) error) *voiceChords {
-	if !vo.chords {
-		return nil
-	}
+// liveChords finds the chords while the voices are heard: it hands each
+// (with its members' voices, and which of them are doubled) to emit (nil:
+// without --chords), and each note to row once spelled as the chords it
+// sounds in spell it (heldrows.go). A voice lost for a moment under a
+// chord is bridged as the file analysis bridges it (bridgeLost).
+func (vo *voiceOptions) liveChords(tunings *session.Tunings, emit func(harmony.Chord, []int, []bool, target.Tuning) error, row func(voiceNote) error) *voiceChords {
 	if vo.left == nil { // kept from the frames hearVoices caps
 		vo.left = &leftOut{asked: vo.max, record: true}
 	}
 	v := &voiceChords{tunings: newTuningLog(tunings), asked: math.Inf(-1), emit: emit, doubled: map[voiceStart]bool{}, left: vo.left}
+	v.rows = heldRows[voiceNote]{event: func(n *voiceNote) *session.Event { return &n.Event },
+		who: func(n *voiceNote) string { return strconv.Itoa(n.voice) }, write: row, pieces: true}
 	v.stream = harmony.Stream{Seventh: vo.seventh, Reach: lostSeconds, Join: func(ns []harmony.Note) []harmony.Note {
 		joined, _ := bridgeLost(ns)
 		return joined
 	}}
+	vo.onMoment = func(at, earliest float64) { v.ready(at, earliest) }
 	return v
 }
 
 func (v *voiceChords) note(n voiceNote) error {
+	v.rows.add(n)
 	who := strconv.Itoa(n.voice)
 	v.stream.Add(harmony.Note{Start: n.Start, End: n.End, Who: who, Note: n.Reading.Note, Frames: n.frames, Hz: n.Hz})
 	if n.doubled {
@@ -236,11 +258,21 @@ func (v *voiceChords) ready(at, earliest float64) error {
 	}
 	v.asked = earliest
 	chords, notes := v.stream.Ready(earliest, v.tunings.in)
+	chords = slices.DeleteFunc(chords, func(c harmony.Chord) bool {
+		return !v.left.names(c, v.tunings.in(c.End), v.stream.Seventh) // named from what is left of it (voicebeyond.go)
+	})
 	for _, c := range chords {
-		tu := v.tunings.in(c.End)
-		if !v.left.names(c, tu, v.stream.Seventh) {
-			continue // named from what is left of it (voicebeyond.go)
+		v.rows.chord(c.Start, c.End, heldMembers(c, notes))
+	}
+	// The notes' rows before their chords' memberships (journal.Extra).
+	if err := v.rows.release(v.stream.Settled()); err != nil && v.err == nil {
+		v.err = err
+	}
+	for _, c := range chords {
+		if v.emit == nil {
+			break
 		}
+		tu := v.tunings.in(c.End)
 		voices, doubled := make([]int, len(c.Notes)), make([]bool, len(c.Notes))
 		for i, k := range c.Notes {
 			voices[i], _ = strconv.Atoi(notes[k].Who)

@@ -4,6 +4,8 @@ import (
 	"cmp"
 	"math"
 	"slices"
+	"strconv"
+	"strings"
 	"testing"
 
 	"fifthline/harmony"
@@ -31,7 +33,7 @@ func TestLiveVoiceChordsAreTheFilesChords(t *testing.T) {
 			hz, from, to float64
 		}{{1, c3, 0, 2}, {2, c3 * 5 / 2, 0, 0.9}, {2, c3 * 5 / 2, 1.4, 2}, {3, c3 * 3, 0, 2}, {1, 110, 2.5, 3.8}, {2, 330, 2.5, 3.8}} {
 			// Read at its Hz (no frames): the bridging is what is checked.
-			notes = append(notes, voiceNote{Event: session.Event{Held: pitchdetect.Held{Start: o + n.from, End: o + n.to, Hz: n.hz}, Reading: tu.Classify(n.hz)}, voice: n.voice})
+			notes = append(notes, voiceNote{Event: session.Event{Held: pitchdetect.Held{Start: o + n.from, End: o + n.to, Hz: n.hz}, Reading: tu.Classify(n.hz), Tuning: tu}, voice: n.voice})
 		}
 	}
 	var want []string
@@ -39,9 +41,13 @@ func TestLiveVoiceChordsAreTheFilesChords(t *testing.T) {
 		want = append(want, c.Name()+"@"+target.Decimal(c.Start, 2))
 	}
 	var got []string
+	rows := map[voiceStart]string{} // each note's row as written live
 	vo := voiceOptions{chords: true, seventh: target.DefaultSeventh}
 	live := vo.liveChords(session.NewTunings(tu), func(c harmony.Chord, voices []int, _ []bool, _ target.Tuning) error {
 		got = append(got, c.Name()+"@"+target.Decimal(c.Start, 2))
+		return nil
+	}, func(n voiceNote) error {
+		rows[voiceStart{strconv.Itoa(n.voice), n.Start}] = strings.Join(n.Record(false), ",")
 		return nil
 	})
 	byEnd := slices.Clone(notes)
@@ -61,6 +67,18 @@ func TestLiveVoiceChordsAreTheFilesChords(t *testing.T) {
 	}
 	if early < 8 {
 		t.Errorf("%d of %d chords written before listening stopped", early, len(got))
+	}
+	// The note rows are the file's too, each spelled as its chord spells
+	// it (spellVoicesFromChords), every note written once.
+	file := slices.Clone(notes)
+	spellVoicesFromChords(file, chordsOf(file, tu, target.DefaultSeventh))
+	for _, n := range file {
+		if w, g := strings.Join(n.Record(false), ","), rows[voiceStart{strconv.Itoa(n.voice), n.Start}]; g != w {
+			t.Errorf("voice %d's note at %.2f s written live as %q, from the file %q", n.voice, n.Start, g, w)
+		}
+	}
+	if len(rows) != len(notes) {
+		t.Errorf("%d note rows written live, want %d", len(rows), len(notes))
 	}
 }
 

@@ -35,18 +35,21 @@ func playersMeter(ctx context.Context, src source.Multi, tunings *session.Tuning
 	m := groupMeter(names, tunings, po.seventh, j, ms)
 	defer j.close() // complete before the device is stopped
 	frame := groupFrame{tunings: tunings, seventh: po.seventh}
-	chords := po.liveChords(tunings, func(c ensemble.Chord, tu target.Tuning) error {
-		logChords(j, ms.name, tu, []ensemble.Chord{c}, time.Time{})
+	var journalChord func(ensemble.Chord, target.Tuning) error
+	if po.chords {
+		journalChord = func(c ensemble.Chord, tu target.Tuning) error {
+			logChords(j, ms.name, tu, []ensemble.Chord{c}, time.Time{})
+			return nil
+		}
+	}
+	// Each note is journaled once its chords are known, spelled from them
+	// (heldrows.go).
+	chords := po.liveChords(tunings, journalChord, func(pn playerNote) error {
+		po.logNote(j, pn.Note, time.Time{})
 		return nil
 	})
 	o := ensemble.Options{Name: ms.name, Players: po.players, Tunings: tunings,
-		OnNote: func(n ensemble.Note) error {
-			po.logNote(j, n, time.Time{})
-			if chords != nil {
-				return chords.note(n)
-			}
-			return nil
-		},
+		OnNote: func(n ensemble.Note) error { return chords.note(playerNote{Note: n}) },
 		// Run hands every player's frame of a moment in player order.
 		OnFrame: func(i int, e pitchdetect.Estimate) {
 			frame.add(i, len(names), e.Hz, e.Level, false)
@@ -57,9 +60,7 @@ func playersMeter(ctx context.Context, src source.Multi, tunings *session.Tuning
 			}
 		}}
 	err := showMeter(ctx, m, func(ctx context.Context) error { return ensemble.Run(ctx, src, o) })
-	if chords != nil { // those still open when listening stopped
-		chords.ready(true)
-	}
+	chords.ready(true) // the chords and notes still open when listening stopped
 	return err
 }
 
@@ -94,25 +95,23 @@ func voicesMeter(ctx context.Context, src source.Source, tunings *session.Tuning
 		frame.span = f.Span // a long window's reading: see ui.GroupFrame
 		frame.send(m, f.Time)
 	}
-	chords := vo.liveChords(tunings, func(c harmony.Chord, voices []int, _ []bool, tu target.Tuning) error {
-		journalVoiceChord(j, ms.name, tu, c, voices)
+	var journalChord func(harmony.Chord, []int, []bool, target.Tuning) error
+	if vo.chords {
+		journalChord = func(c harmony.Chord, voices []int, _ []bool, tu target.Tuning) error {
+			journalVoiceChord(j, ms.name, tu, c, voices)
+			return nil
+		}
+	}
+	// Each note is journaled once its chords are known, spelled from them
+	// (heldrows.go).
+	chords := vo.liveChords(tunings, journalChord, func(n voiceNote) error {
+		j.row(n.Event, n.extra(), time.Time{})
 		return nil
 	})
-	if chords != nil {
-		vo.onMoment = func(at, earliest float64) { chords.ready(at, earliest) }
-	}
 	err := showMeter(ctx, m, func(ctx context.Context) error {
-		return hearVoices(ctx, src, ms.name, tunings.Get, vo, func(float64) {}, func(n voiceNote) error {
-			j.row(n.Event, n.extra(), time.Time{})
-			if chords != nil {
-				return chords.note(n)
-			}
-			return nil
-		})
+		return hearVoices(ctx, src, ms.name, tunings.Get, vo, func(float64) {}, chords.note)
 	})
-	if chords != nil { // those still open when listening stopped
-		chords.ready(math.Inf(1), math.Inf(1))
-	}
+	chords.ready(math.Inf(1), math.Inf(1)) // the chords and notes still open when listening stopped
 	return err
 }
 

@@ -319,27 +319,36 @@ func listenPlayers(ctx context.Context, e *env, src *capture.Input, name string,
 		return err
 	}
 	defer timing.close()
-	chords := po.liveChords(session.NewTunings(tu), func(c ensemble.Chord, tu target.Tuning) error {
-		logChords(j, name, tu, []ensemble.Chord{c}, time.Time{})
-		for _, row := range chordRecords(c, "") {
-			w.Write(row.record(false))
+	var chordRows func(ensemble.Chord, target.Tuning) error
+	if po.chords {
+		chordRows = func(c ensemble.Chord, tu target.Tuning) error {
+			logChords(j, name, tu, []ensemble.Chord{c}, time.Time{})
+			for _, row := range chordRecords(c, "") {
+				w.Write(row.record(false))
+			}
+			w.Flush()
+			return w.Error()
 		}
+	}
+	// Each note's row once its chords are known (heldrows.go), spelled
+	// from them as analyze spells it; the journal keeps the fixed
+	// reference.
+	chords := po.liveChords(session.NewTunings(tu), chordRows, func(pn playerNote) error {
+		po.logNote(j, pn.Note, time.Time{})
+		if po.chords {
+			return nil
+		}
+		pn = withDrift(pn.Note, tu, pn.drift, pn.known, po.group)
+		pn.Player.Channel = po.channel(pn.Player) - 1 // as printed on the interface
+		w.Write(pn.record(false))
 		w.Flush()
 		return w.Error()
 	})
 	drift := ensemble.NewDrift(tu, po.seventh)
 	o := ensemble.Options{Name: name, Players: po.players, Tunings: session.NewTunings(tu),
 		OnNote: func(n ensemble.Note) error {
-			po.logNote(j, n, time.Time{})
-			if chords != nil {
-				return chords.note(n)
-			}
 			c, known := drift.Cents()
-			pn := withDrift(n, tu, c, known, po.group)
-			pn.Player.Channel = po.channel(n.Player) - 1 // as printed on the interface
-			w.Write(pn.record(false))
-			w.Flush()
-			return w.Error()
+			return chords.note(playerNote{Note: n, drift: c, known: known})
 		},
 		OnFrame: func(i int, est pitchdetect.Estimate) {
 			timing.playerFrame(po.players[i].Name, est)
@@ -347,8 +356,6 @@ func listenPlayers(ctx context.Context, e *env, src *capture.Input, name string,
 			chords.frame(i, est)
 		}}
 	err = ensemble.Run(ctx, src, o)
-	if chords != nil { // those still open when listening stopped
-		return cmp.Or(err, chords.ready(true))
-	}
-	return cmp.Or(err, w.Error())
+	// The chords and rows still open when listening stopped.
+	return cmp.Or(err, chords.ready(true), w.Error())
 }

@@ -127,9 +127,9 @@ func TestLiveVoiceChordRowsCarryTheDoubling(t *testing.T) {
 			got = append(got, row.Note+" "+rec[len(rec)-1])
 		}
 		return nil
-	})
+	}, func(voiceNote) error { return nil })
 	for i, hz := range []float64{130.8128, 164.8138, 195.9977} {
-		live.note(voiceNote{Event: session.Event{Held: pitchdetect.Held{Start: 0, End: 2, Hz: hz}, Reading: tu.Classify(hz)}, voice: i + 1, doubled: i == 0})
+		live.note(voiceNote{Event: session.Event{Held: pitchdetect.Held{Start: 0, End: 2, Hz: hz}, Reading: tu.Classify(hz), Tuning: tu}, voice: i + 1, doubled: i == 0})
 	}
 	live.ready(math.Inf(1), math.Inf(1))
 	if want := []string{"C3 true", "E3 false", "G3 false"}; !equalStrings(got, want) {
@@ -156,13 +156,13 @@ func TestLiveChordsOfFewerVoicesThanSound(t *testing.T) {
 		live := vo.liveChords(session.NewTunings(tu), func(c harmony.Chord, _ []int, _ []bool, _ target.Tuning) error {
 			got = append(got, c.Name())
 			return nil
-		})
+		}, func(voiceNote) error { return nil })
 		var kept []multipitch.Voice
 		for at := 0.0; at <= 2; at += 0.1 {
 			kept = vo.left.cap(at, []multipitch.Voice{{Hz: e3Hz, Amplitude: tc.amps[0]}, {Hz: b3Hz, Amplitude: tc.amps[1]}, {Hz: gs4Hz, Amplitude: tc.amps[2]}})
 		}
 		for i, v := range kept {
-			live.note(voiceNote{Event: session.Event{Held: pitchdetect.Held{Start: 0, End: 2, Hz: v.Hz}, Reading: tu.Classify(v.Hz)}, voice: i + 1})
+			live.note(voiceNote{Event: session.Event{Held: pitchdetect.Held{Start: 0, End: 2, Hz: v.Hz}, Reading: tu.Classify(v.Hz), Tuning: tu}, voice: i + 1})
 		}
 		live.ready(math.Inf(1), math.Inf(1))
 		if strings.Join(got, ",") != tc.want {

@@ -28,28 +28,29 @@ func listenVoices(ctx context.Context, e *env, src source.Source, name string, t
 	if err := w.Error(); err != nil {
 		return err
 	}
-	chords := vo.liveChords(session.NewTunings(tu), func(c harmony.Chord, voices []int, doubled []bool, tu target.Tuning) error {
-		journalVoiceChord(j, name, tu, c, voices)
-		for _, row := range voiceChordRows(c, voices, doubled) {
-			w.Write(row.record(false))
+	var chordRows func(harmony.Chord, []int, []bool, target.Tuning) error
+	if vo.chords {
+		chordRows = func(c harmony.Chord, voices []int, doubled []bool, tu target.Tuning) error {
+			journalVoiceChord(j, name, tu, c, voices)
+			for _, row := range voiceChordRows(c, voices, doubled) {
+				w.Write(row.record(false))
+			}
+			w.Flush()
+			return w.Error()
 		}
-		w.Flush()
-		return w.Error()
-	})
-	if chords != nil {
-		vo.onMoment = func(at, earliest float64) { chords.ready(at, earliest) }
 	}
-	err := hearVoices(ctx, src, name, fixed(tu), vo, func(float64) {}, func(n voiceNote) error {
+	// Each note's row once its chords are known, spelled from them as
+	// analyze spells it (heldrows.go).
+	chords := vo.liveChords(session.NewTunings(tu), chordRows, func(n voiceNote) error {
 		j.row(n.Event, n.extra(), time.Time{})
-		if chords != nil {
-			return chords.note(n)
+		if vo.chords {
+			return nil
 		}
 		w.Write(n.record(false))
 		w.Flush()
 		return w.Error()
 	})
-	if chords != nil { // those still open when listening stopped
-		return cmp.Or(err, chords.ready(math.Inf(1), math.Inf(1)))
-	}
-	return cmp.Or(err, w.Error())
+	err := hearVoices(ctx, src, name, fixed(tu), vo, func(float64) {}, chords.note)
+	// The chords and rows still open when listening stopped.
+	return cmp.Or(err, chords.ready(math.Inf(1), math.Inf(1)), w.Error())
 }

@@ -1,0 +1,75 @@
+package main
+
+import (
+	"fifthline/session"
+	"fifthline/target"
+)
+
+// Live note rows spelled as the file analysis spells them (chordspell.go):
+// a note sounding in a heard chord takes the spelling of the chord it
+// sounds in longest, from the chord's root (G♯ as the third of E major in
+// F major, where the key says A♭). The chords a note sounds in are mostly
+// known by the time it ends; where one is still open, the row waits until
+// the chord finder has given every chord that may hold it
+// (harmony.Stream.Settled), at the latest until listening stops, when
+// every row still held is written.
+
+// heldRows holds note rows of type N until their chords are known.
+type heldRows[N any] struct {
+	rows  []heldRow[N]
+	event func(*N) *session.Event // the note's event, spelled in place
+	who   func(*N) string         // its player's name or voice's number
+	write func(N) error           // writes a row once spelled
+	// pieces: a member is the note that begins where the chord finder's
+	// note does, not every note of its voice over the chord. The finder
+	// joins a voice's note lost for a moment to the same note found again
+	// (bridgeLost), and the file analysis spells its first piece.
+	pieces bool
+}
+
+type heldRow[N any] struct {
+	n  N
+	ms []membership // the chords given so far that it sounds in
+}
+
+// heldMember is a chord's member as the chord finder gives it: whose, the
+// start of the note it plays, and its spelling from the chord's root.
+type heldMember struct {
+	who     string
+	from    float64
+	spelled target.Note
+}
+
+// add holds a note that has ended.
+func (h *heldRows[N]) add(n N) { h.rows = append(h.rows, heldRow[N]{n: n}) }
+
+// chord notes the memberships of a chord given from start to end.
+func (h *heldRows[N]) chord(start, end float64, members []heldMember) {
+	for _, m := range members {
+		for k := range h.rows {
+			r := &h.rows[k]
+			held := h.event(&r.n).Held
+			if h.who(&r.n) == m.who && held.Start < end && held.End > start && (!h.pieces || held.Start == m.from) {
+				r.ms = append(r.ms, membership{0, start, end, m.spelled})
+			}
+		}
+	}
+}
+
+// release writes, in the order they ended, the rows of the notes that
+// ended by settled, each spelled from the chord it sounds in longest; the
+// first error stops it.
+func (h *heldRows[N]) release(settled float64) error {
+	done := 0
+	for done < len(h.rows) && h.event(&h.rows[done].n).End <= settled {
+		r := &h.rows[done]
+		spellFromChords(func(int) *session.Event { return h.event(&r.n) }, r.ms)
+		done++
+		if err := h.write(r.n); err != nil {
+			h.rows = h.rows[done:]
+			return err
+		}
+	}
+	h.rows = h.rows[done:]
+	return nil
+}
