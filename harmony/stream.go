@@ -18,8 +18,8 @@ type Stream struct {
 	// Reach seconds after it ends: a note still to come may then change
 	// the chords Reach seconds before it, and notes are kept that long
 	// past what the chords to come need.
-	Join  func([]Note) []Note
-	Reach float64
+	Join    func([]Note) []Note
+	Reach   float64
 	notes   []Note
 	from    float64 // every chord ending before it has been given
 	settled float64 // every chord starting before it has been given
