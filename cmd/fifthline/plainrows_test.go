@@ -90,4 +90,3 @@ func TestListenPlainSpellsNotesFromTheirChordAsAnalyzeDoes(t *testing.T) {
 		t.Errorf("journal has vl2's %v, want G#4 then Ab4 on channel 3\n%s", notes, data)
 	}
 }
-
