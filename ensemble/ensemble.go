@@ -41,6 +41,13 @@ type Options struct {
 	// frame in it is held back (attack.go: up to attackFrames hops), so a
 	// frame taken back is seen with its pitch.
 	OnFrame func(i int, e pitchdetect.Estimate)
+	// OnSounding, if set, hears after each moment, before its frames go
+	// to OnFrame, of each player's note still sounding once it is sure to
+	// be given as a note beginning at start (pitchdetect's
+	// Segmenter.Sounding), through the time of its last frame; ok is false
+	// for none. A chord over a pedal can then be read before the pedal
+	// ends.
+	OnSounding func(i int, start, through float64, ok bool)
 }
 
 // voice is one player's reading chain.
@@ -228,6 +235,12 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 			}
 			if fresh {
 				bleed.observe(owner, fr)
+			}
+			if opt.OnSounding != nil {
+				for i, v := range voices {
+					start, through, ok := v.seg.Sounding()
+					opt.OnSounding(i, start, through, ok)
+				}
 			}
 			decided(voices, opt.OnFrame)
 		}

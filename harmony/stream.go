@@ -18,16 +18,27 @@ type Stream struct {
 	// Reach seconds after it ends: a note still to come may then change
 	// the chords Reach seconds before it, and notes are kept that long
 	// past what the chords to come need.
-	Join    func([]Note) []Note
-	Reach   float64
-	notes   []Note
-	from    float64 // every chord ending before it has been given
-	settled float64 // every chord starting before it has been given
-	begun   bool
+	Join     func([]Note) []Note
+	Reach    float64
+	notes    []Note
+	sounding []Note  // notes still sounding (see Sound)
+	from     float64 // every chord ending before it has been given
+	settled  float64 // every chord starting before it has been given
+	begun    bool
 }
 
 // Add takes a note that has ended.
 func (s *Stream) Add(n Note) { s.notes = append(s.notes, n) }
+
+// Sound says which notes are sounding now, not yet ended (replacing what
+// it said before): a note sure to begin at its Start (pitchdetect's
+// Segmenter.Sounding), its Who and Frames; its End, Note, Hz and Settled
+// are not known yet. The chords above it that end before the horizon are
+// then given without waiting for it to end (a pedal held under a run of
+// chords), each reading it over the chord's own stretch, except the chord
+// it enters on: where its attack settled is known only at its end. It
+// needs Frames, and a Stream without Join.
+func (s *Stream) Sound(notes []Note) { s.sounding = append(s.sounding[:0], notes...) }
 
 // From is the earliest time a chord still to be given can read frames
 // from: frames before it are no longer needed.
@@ -67,6 +78,9 @@ func (s *Stream) Ready(horizon float64, tuning func(at float64) target.Tuning) (
 	if s.Join != nil {
 		notes = s.Join(notes)
 	}
+	if notes, horizon = s.withSounding(notes, horizon); horizon <= s.from {
+		return nil, nil
+	}
 	cuts := []float64{s.from, horizon}
 	for _, n := range notes {
 		for _, t := range [2]float64{n.Start, n.End} {
@@ -87,6 +101,14 @@ func (s *Stream) Ready(horizon float64, tuning func(at float64) target.Tuning) (
 		next, runs = runs[last].Start, runs[:last]
 		settled = next
 	}
+	// A chord that a sounding note enters on waits for that note's end,
+	// and so do the chords after it (chords come in time order).
+	for i, c := range runs {
+		if slices.ContainsFunc(c.Notes, func(k int) bool { return math.IsInf(notes[k].End, 1) && notes[k].Start >= c.Start }) {
+			next, runs, settled = c.Start, runs[:i], c.Start
+			break
+		}
+	}
 	s.settled = max(s.settled, settled)
 	var out []Chord
 	for _, c := range runs {
@@ -102,4 +124,23 @@ func (s *Stream) Ready(horizon float64, tuning func(at float64) target.Tuning) (
 		}
 	}
 	return out, notes
+}
+
+// withSounding adds the sounding notes to notes, lasting past any horizon
+// (End +Inf). Where one begins just as its player's last note ended, the
+// two may join one chord or not as its name, still unknown, decides: the
+// horizon is held at its start.
+func (s *Stream) withSounding(notes []Note, horizon float64) ([]Note, float64) {
+	if len(s.sounding) == 0 {
+		return notes, horizon
+	}
+	notes = slices.Clone(notes)
+	for _, n := range s.sounding {
+		if slices.ContainsFunc(notes, func(o Note) bool { return o.Who == n.Who && o.End == n.Start }) {
+			horizon = min(horizon, n.Start)
+		}
+		n.End = math.Inf(1)
+		notes = append(notes, n)
+	}
+	return notes, horizon
 }

@@ -114,3 +114,105 @@ func TestStreamNamesEachChordInItsOwnTuning(t *testing.T) {
 		t.Errorf("%d chords, tunings asked at %v s; want 2, asked at their ends 1 and 3 s", len(got), asked)
 	}
 }
+
+// A pedal: the bass holds C2 under four chords of the voices above, and
+// each chord is given as it ends, read over its own stretch, not when the
+// pedal ends; the chords are those Find gives from all the notes at once.
+// The pedal is told to the stream as sounding (Sound) from its start on,
+// as pitchdetect's Segmenter.Sounding tells it. Where the pedal enters
+// after the voices above, its first chord waits for its end, and so do
+// the chords after it: where its attack settled is known only then. Equal
+// temperament at A4 = 440 Hz (ISO 16; 440·2^(n/12)); our own scenario.
+func TestStreamGivesTheChordsAboveAPedalAsTheyEnd(t *testing.T) {
+	tu := target.Default()
+	parse := func(s string) target.Note { n, _ := target.ParseNote(s); return n }
+	const pedalEnd = 8.2
+	for _, enters := range []float64{0, 0.3} {
+		who := []string{"b", "t", "a", "s"}
+		var notes []Note
+		add := func(p int, name string, from, to float64) {
+			n := parse(name)
+			notes = append(notes, Note{Start: from, End: to, Who: who[p], Note: n, Hz: tu.Target(n) * math.Exp2(2.0*float64(p)/1200)})
+		}
+		add(0, "C2", enters, pedalEnd)
+		for k, chord := range [][3]string{{"E3", "G3", "C4"}, {"F3", "A3", "C4"}, {"G3", "C4", "E4"}, {"E3", "G3", "Bb3"}} {
+			for p, name := range chord {
+				add(p+1, name, 0.2+2*float64(k), 2*float64(k+1))
+			}
+		}
+		whole := make([]Track, len(who)) // for Find: the frames never forgotten
+		live := make([]Track, len(who))
+		frame := func(tr []Track, i int, at float64) {
+			for _, n := range notes {
+				if n.Who == who[i] && at >= n.Start && at <= n.End {
+					tr[i].Add(at, n.Hz*math.Exp2(math.Sin(at*30)*3/1200))
+				}
+			}
+		}
+		for step := 0; step <= 900; step++ {
+			for i := range who {
+				frame(whole, i, float64(step)/100)
+			}
+		}
+		for i := range notes {
+			notes[i].Frames = &whole[slices.Index(who, notes[i].Who)]
+		}
+		want := Find(notes, tu, target.DefaultSeventh)
+		if len(want) != 4 {
+			t.Fatalf("pedal from %.1f s: Find gives %d chords, want 4", enters, len(want))
+		}
+		s := Stream{Seventh: target.DefaultSeventh}
+		var got []Chord
+		var givenAt []float64
+		added := make([]bool, len(notes))
+		for step := 0; step <= 900; step++ {
+			at := float64(step) / 100
+			for i := range who {
+				frame(live, i, at)
+			}
+			horizon := at
+			var sounding []Note
+			for k, n := range notes {
+				switch {
+				case !added[k] && n.End < at:
+					n.Frames = &live[slices.Index(who, n.Who)]
+					s.Add(n)
+					added[k] = true
+				case n.Who == "b" && !added[k] && at >= n.Start+0.2: // sure by now
+					sounding = append(sounding, Note{Start: n.Start, Who: n.Who, Frames: &live[0]})
+				case !added[k] && n.Start <= at:
+					horizon = min(horizon, n.Start)
+				}
+			}
+			if step%10 != 0 {
+				continue
+			}
+			s.Sound(sounding)
+			cs, _ := s.Ready(horizon, func(float64) target.Tuning { return tu })
+			for range cs {
+				givenAt = append(givenAt, at)
+			}
+			got = append(got, cs...)
+			for i := range live {
+				live[i].Forget(s.From())
+			}
+		}
+		if len(got) != len(want) {
+			t.Fatalf("pedal from %.1f s: %d chords given, want %d", enters, len(got), len(want))
+		}
+		for i, w := range want {
+			g := got[i]
+			if g.Start != w.Start || g.End != w.End || g.Name() != w.Name() || !slices.EqualFunc(g.Members, w.Members, func(a, b target.HeardMember) bool { return a.Hz == b.Hz && a.Note == b.Note }) {
+				t.Errorf("pedal from %.1f s, chord %d: %s %.2f–%.2f s %+v, want %s %.2f–%.2f s %+v", enters, i, g.Name(), g.Start, g.End, g.Members, w.Name(), w.Start, w.End, w.Members)
+			}
+		}
+		for i := range 3 {
+			late := givenAt[i] - want[i].End
+			waits := enters > 0.2 // the pedal entered on the first chord
+			if !waits && late > 0.35 || waits && givenAt[i] < pedalEnd {
+				t.Errorf("pedal from %.1f s: chord %d (%s, ends %.1f s) given at %.1f s", enters, i, want[i].Name(), want[i].End, givenAt[i])
+			}
+		}
+		t.Logf("pedal from %.1f s: chords given at %v s", enters, givenAt)
+	}
+}

@@ -48,7 +48,8 @@ func BenchmarkLiveChordsMemory(b *testing.B) {
 				if i == 0 && src.read >= (len(heap)+1)*step {
 					heap = append(heap, heapMB())
 				}
-			}}
+			},
+			OnSounding: live.sound}
 		if err := ensemble.Run(b.Context(), src, o); err != nil {
 			b.Fatal(err)
 		}

@@ -99,6 +99,7 @@ type playerChords struct {
 	stream  harmony.Stream
 	tracks  []harmony.Track // each player's frames, indexed like players
 	next    []nextStart
+	held    []sounding // each player's note still sounding
 	tunings *tuningLog
 	asked   float64 // the horizon of the last look
 	emit    func(ensemble.Chord, target.Tuning) error
@@ -112,7 +113,7 @@ type playerChords struct {
 // (heldrows.go).
 func (po *playerOptions) liveChords(tunings *session.Tunings, emit func(ensemble.Chord, target.Tuning) error, row func(playerNote) error) *playerChords {
 	h := &playerChords{players: po.players, tracks: make([]harmony.Track, len(po.players)), next: make([]nextStart, len(po.players)),
-		tunings: newTuningLog(tunings), asked: math.Inf(-1), emit: emit}
+		held: make([]sounding, len(po.players)), tunings: newTuningLog(tunings), asked: math.Inf(-1), emit: emit}
 	h.rows = heldRows[playerNote]{event: func(n *playerNote) *session.Event { return &n.Event },
 		who: func(n *playerNote) string { return n.Player.Name }, write: row}
 	h.stream.Seventh = po.seventh
@@ -132,6 +133,18 @@ func (h *playerChords) frame(i int, est pitchdetect.Estimate) {
 	}
 }
 
+// sounding is a player's note still sounding, sure to begin at start
+// (ensemble.Options.OnSounding), through the time of its last frame.
+type sounding struct {
+	start, through float64
+	ok             bool
+}
+
+// sound takes player i's note still sounding (ensemble.Options.OnSounding).
+func (h *playerChords) sound(i int, start, through float64, ok bool) {
+	h.held[i] = sounding{start, through, ok}
+}
+
 // note takes a player's note as it ends, and gives back the first error
 // emit or a row met, to stop the reading.
 func (h *playerChords) note(pn playerNote) error {
@@ -141,6 +154,7 @@ func (h *playerChords) note(pn playerNote) error {
 		return h.err
 	}
 	h.rows.add(pn)
+	h.held[p].ok = false // given: no longer sounding
 	h.next[p].lastEnd = max(h.next[p].lastEnd, n.Held.End)
 	h.stream.Add(harmony.Note{Start: n.Held.Start, End: n.Held.End, Who: n.Player.Name, Note: n.Reading.Note,
 		Frames: &h.tracks[p], Hz: n.Held.Hz, Settled: n.Held.Settled})
@@ -151,8 +165,16 @@ func (h *playerChords) note(pn playerNote) error {
 // stream, all that are left.
 func (h *playerChords) ready(end bool) error {
 	horizon := math.Inf(1)
+	var held []harmony.Note
 	if !end {
-		for _, n := range h.next {
+		// A player whose note sounds starts no other before its last
+		// frame: the chords above it come without waiting for its end.
+		for i, n := range h.next {
+			if s := h.held[i]; s.ok {
+				horizon = min(horizon, s.through, n.seen)
+				held = append(held, harmony.Note{Start: s.start, Who: h.players[i].Name, Frames: &h.tracks[i]})
+				continue
+			}
 			horizon = min(horizon, n.earliest())
 		}
 		if horizon < h.asked+readyEvery {
@@ -160,6 +182,7 @@ func (h *playerChords) ready(end bool) error {
 		}
 	}
 	h.asked = horizon
+	h.stream.Sound(held)
 	chords, notes := h.stream.Ready(horizon, h.tunings.in)
 	for _, c := range chords {
 		h.rows.chord(c.Start, c.End, heldMembers(c, notes))

@@ -58,7 +58,8 @@ func playersMeter(ctx context.Context, src source.Multi, tunings *session.Tuning
 			if i == len(names)-1 {
 				frame.send(m, e.Time)
 			}
-		}}
+		},
+		OnSounding: chords.sound}
 	err := showMeter(ctx, m, func(ctx context.Context) error { return ensemble.Run(ctx, src, o) })
 	chords.ready(true) // the chords and notes still open when listening stopped
 	return err

@@ -1,6 +1,8 @@
 package main
 
 import (
+	"slices"
+
 	"fifthline/session"
 	"fifthline/target"
 )
@@ -25,6 +27,15 @@ type heldRows[N any] struct {
 	// joins a voice's note lost for a moment to the same note found again
 	// (bridgeLost), and the file analysis spells its first piece.
 	pieces bool
+	early  []earlyMember
+}
+
+// earlyMember is a membership of a note not yet ended (a pedal under the
+// chord: harmony.Stream.Sound), kept until the note comes.
+type earlyMember struct {
+	who  string
+	from float64
+	m    membership
 }
 
 type heldRow[N any] struct {
@@ -40,18 +51,35 @@ type heldMember struct {
 	spelled target.Note
 }
 
-// add holds a note that has ended.
-func (h *heldRows[N]) add(n N) { h.rows = append(h.rows, heldRow[N]{n: n}) }
+// add holds a note that has ended, with the memberships it had while it
+// sounded.
+func (h *heldRows[N]) add(n N) {
+	r := heldRow[N]{n: n}
+	start := h.event(&n).Start
+	h.early = slices.DeleteFunc(h.early, func(e earlyMember) bool {
+		if e.who == h.who(&n) && e.from == start {
+			r.ms = append(r.ms, e.m)
+			return true
+		}
+		return false
+	})
+	h.rows = append(h.rows, r)
+}
 
 // chord notes the memberships of a chord given from start to end.
 func (h *heldRows[N]) chord(start, end float64, members []heldMember) {
 	for _, m := range members {
+		ms := membership{0, start, end, m.spelled}
+		found := false
 		for k := range h.rows {
 			r := &h.rows[k]
 			held := h.event(&r.n).Held
 			if h.who(&r.n) == m.who && held.Start < end && held.End > start && (!h.pieces || held.Start == m.from) {
-				r.ms = append(r.ms, membership{0, start, end, m.spelled})
+				r.ms, found = append(r.ms, ms), true
 			}
+		}
+		if !found { // still sounding
+			h.early = append(h.early, earlyMember{m.who, m.from, ms})
 		}
 	}
 }

@@ -354,7 +354,8 @@ func listenPlayers(ctx context.Context, e *env, src *capture.Input, name string,
 			timing.playerFrame(po.players[i].Name, est)
 			drift.Frame(i, est)
 			chords.frame(i, est)
-		}}
+		},
+		OnSounding: chords.sound}
 	err = ensemble.Run(ctx, src, o)
 	// The chords and rows still open when listening stopped.
 	return cmp.Or(err, chords.ready(true), w.Error())
