@@ -14,9 +14,10 @@ import (
 	"fifthline/target"
 )
 
-// --chords while a group is heard (listen --players or --voices, with the
-// meter or --plain): each chord is written as soon as no note still to
-// come can change it, named in the tuning in force when it ended (the
+// The chords of a group as it is heard (listen --players or --voices, with
+// the meter or --plain), found with or without --chords, since every note
+// row is spelled from its chords (heldrows.go): with --chords each chord is
+// written as soon as no note still to come can change it, named in the tuning in force when it ended (the
 // meter's keys change it mid-session), and only the notes and frames of
 // chords not yet written are kept: a long session's memory stays flat, and
 // an interruption finds every chord already ended written.
@@ -99,7 +100,7 @@ type playerChords struct {
 	stream  harmony.Stream
 	tracks  []harmony.Track // each player's frames, indexed like players
 	next    []nextStart
-	held    []sounding // each player's note still sounding
+	open    []openNote // each player's note still sounding
 	tunings *tuningLog
 	asked   float64 // the horizon of the last look
 	emit    func(ensemble.Chord, target.Tuning) error
@@ -113,7 +114,7 @@ type playerChords struct {
 // (heldrows.go).
 func (po *playerOptions) liveChords(tunings *session.Tunings, emit func(ensemble.Chord, target.Tuning) error, row func(playerNote) error) *playerChords {
 	h := &playerChords{players: po.players, tracks: make([]harmony.Track, len(po.players)), next: make([]nextStart, len(po.players)),
-		held: make([]sounding, len(po.players)), tunings: newTuningLog(tunings), asked: math.Inf(-1), emit: emit}
+		open: make([]openNote, len(po.players)), tunings: newTuningLog(tunings), asked: math.Inf(-1), emit: emit}
 	h.rows = heldRows[playerNote]{event: func(n *playerNote) *session.Event { return &n.Event },
 		who: func(n *playerNote) string { return n.Player.Name }, write: row}
 	h.stream.Seventh = po.seventh
@@ -133,16 +134,16 @@ func (h *playerChords) frame(i int, est pitchdetect.Estimate) {
 	}
 }
 
-// sounding is a player's note still sounding, sure to begin at start
+// openNote is a player's note still sounding, sure to begin at start
 // (ensemble.Options.OnSounding), through the time of its last frame.
-type sounding struct {
+type openNote struct {
 	start, through float64
 	ok             bool
 }
 
 // sound takes player i's note still sounding (ensemble.Options.OnSounding).
 func (h *playerChords) sound(i int, start, through float64, ok bool) {
-	h.held[i] = sounding{start, through, ok}
+	h.open[i] = openNote{start, through, ok}
 }
 
 // note takes a player's note as it ends, and gives back the first error
@@ -154,7 +155,7 @@ func (h *playerChords) note(pn playerNote) error {
 		return h.err
 	}
 	h.rows.add(pn)
-	h.held[p].ok = false // given: no longer sounding
+	h.open[p].ok = false // given: no longer sounding
 	h.next[p].lastEnd = max(h.next[p].lastEnd, n.Held.End)
 	h.stream.Add(harmony.Note{Start: n.Held.Start, End: n.Held.End, Who: n.Player.Name, Note: n.Reading.Note,
 		Frames: &h.tracks[p], Hz: n.Held.Hz, Settled: n.Held.Settled})
@@ -165,14 +166,14 @@ func (h *playerChords) note(pn playerNote) error {
 // stream, all that are left.
 func (h *playerChords) ready(end bool) error {
 	horizon := math.Inf(1)
-	var held []harmony.Note
+	var sounding []harmony.Note
 	if !end {
 		// A player whose note sounds starts no other before its last
 		// frame: the chords above it come without waiting for its end.
 		for i, n := range h.next {
-			if s := h.held[i]; s.ok {
-				horizon = min(horizon, s.through, n.seen)
-				held = append(held, harmony.Note{Start: s.start, Who: h.players[i].Name, Frames: &h.tracks[i]})
+			if o := h.open[i]; o.ok {
+				horizon = min(horizon, o.through, n.seen)
+				sounding = append(sounding, harmony.Note{Start: o.start, Who: h.players[i].Name, Frames: &h.tracks[i]})
 				continue
 			}
 			horizon = min(horizon, n.earliest())
@@ -182,7 +183,7 @@ func (h *playerChords) ready(end bool) error {
 		}
 	}
 	h.asked = horizon
-	h.stream.Sound(held)
+	h.stream.Sound(sounding)
 	chords, notes := h.stream.Ready(horizon, h.tunings.in)
 	for _, c := range chords {
 		h.rows.chord(c.Start, c.End, heldMembers(c, notes))
