@@ -67,10 +67,10 @@ type timeAverager struct {
 	fitter *fitter
 	f0     []float64
 	longHz []float64 // per voice: the long window's reading
-	// close and parted (voice i's row, j's column, i below j): how many
+	// agree and parted (row i, column j, i < j): how many
 	// sub-windows read voices i and j within twinCents, and further apart
 	// (twins.go).
-	close, parted []int
+	agree, parted []int
 	order         []int          // scratch of mergeTwins
 	merge         []Voice        // scratch of mergeTwins
 	long          [][]complex128 // per voice, per partial: the long fit's amplitude
@@ -132,8 +132,8 @@ func (ta *timeAverager) average(x []float64, voices []Voice, long *Estimator) []
 	}
 	nv := len(voices)
 	ta.sum, ta.count = grow(ta.sum, nv), ta.count[:0]
-	ta.close, ta.parted = grow(ta.close, nv*nv), grow(ta.parted, nv*nv)
-	clear(ta.close)
+	ta.agree, ta.parted = grow(ta.agree, nv*nv), grow(ta.parted, nv*nv)
+	clear(ta.agree)
 	clear(ta.parted)
 	ta.loose = ta.loose[:0]
 	anyLoose := false

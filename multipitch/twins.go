@@ -63,7 +63,7 @@ func (ta *timeAverager) mergeTwins(voices []Voice) []Voice {
 // time average, or so on at least half the sub-windows that read both.
 func (ta *timeAverager) twins(voices []Voice, i, j int) bool {
 	k := min(i, j)*len(voices) + max(i, j)
-	return math.Abs(cents(voices[i].Hz, voices[j].Hz)) < twinCents || (ta.close[k] > 0 && ta.close[k] >= ta.parted[k])
+	return math.Abs(cents(voices[i].Hz, voices[j].Hz)) < twinCents || (ta.agree[k] > 0 && ta.agree[k] >= ta.parted[k])
 }
 
 // compare counts, for each pair of voices the last sub-window fit read,
@@ -76,7 +76,7 @@ func (ta *timeAverager) compare(voices []Voice) {
 				continue
 			}
 			if math.Abs(cents(ta.f0[i], ta.f0[j])) < twinCents {
-				ta.close[i*nv+j]++
+				ta.agree[i*nv+j]++
 			} else {
 				ta.parted[i*nv+j]++
 			}
