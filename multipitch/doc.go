@@ -35,6 +35,8 @@
 // frame pitch is the plain mean of those readings (timeavg.go): one long
 // fit weighs a vibrato by loudness, and an instrument loudest at the low
 // end of its cycle would read flat of the time average other readers give.
+// Two voices the long window puts at the two ends of a wide vibrato, which
+// the sub-windows read as one, are one voice (twins.go).
 // A voice lying on a lower voice's harmonic, every partial of it shared, is
 // steered there by the partials it owns the larger part of, as the long
 // window's fit and the lower voice's spectral envelope both judge them

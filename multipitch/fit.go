@@ -345,9 +345,9 @@ func (f *fitter) step(f0 []float64, maxStep float64) {
 }
 
 // grow returns s resized to n, reusing its memory when it can.
-func grow(s []float64, n int) []float64 {
+func grow[T any](s []T, n int) []T {
 	if cap(s) < n {
-		return make([]float64, n)
+		return make([]T, n)
 	}
 	return s[:n]
 }

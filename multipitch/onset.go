@@ -47,7 +47,7 @@ func (e *Estimator) onset() bool {
 func (e *Estimator) emitShort(x []float64, emit func(Frame)) {
 	t := (float64(e.fed) - float64(len(x))/2) / e.rate
 	e.out = e.short.Analyze(x, e.out[:0])
-	e.avg.average(x, e.out, e.short)
+	e.out = e.avg.average(x, e.out, e.short)
 	e.last = t
 	emit(Frame{Time: t, Span: float64(len(x)) / e.rate, Level: rmsDB(x), Voices: e.out})
 }
@@ -60,7 +60,7 @@ func (e *Estimator) emitShort(x []float64, emit func(Frame)) {
 func (e *Estimator) whole(t float64) Frame {
 	e.out = e.Analyze(e.buf, e.out[:0])
 	if e.short == nil {
-		e.avg.average(e.buf, e.out, e)
+		e.out = e.avg.average(e.buf, e.out, e)
 		return Frame{Time: t, Span: float64(e.window) / e.rate, Level: rmsDB(e.buf), Voices: e.out}
 	}
 	q := e.window / 4
@@ -68,9 +68,9 @@ func (e *Estimator) whole(t float64) Frame {
 	e.alt = e.short.Analyze(mid, e.alt[:0])
 	if len(e.alt) > len(e.out) {
 		e.out, e.alt = e.alt, e.out
-		e.avg.average(mid, e.out, e.short)
+		e.out = e.avg.average(mid, e.out, e.short)
 		return Frame{Time: t, Span: float64(len(mid)) / e.rate, Level: rmsDB(mid), Voices: e.out}
 	}
-	e.avg.average(e.buf, e.out, e)
+	e.out = e.avg.average(e.buf, e.out, e)
 	return Frame{Time: t, Span: float64(e.window) / e.rate, Level: rmsDB(e.buf), Voices: e.out}
 }

@@ -59,20 +59,27 @@ const movingCents = 2.0
 // timeAverager reads the voices of a frame on sub-windows; one serves both
 // the whole and the half windows of an Estimator.
 type timeAverager struct {
-	n         int
-	frame     []float64
-	win       []float64 // hannWindow(n)
-	fft       *fourier.FFT
-	spec      []complex128
-	fitter    *fitter
-	f0        []float64
-	long      [][]complex128 // per voice, per partial: the long fit's amplitude
-	loose     []bool         // per voice: read by the partials it owns (fitter.loose)
-	sum       []float64      // per voice: summed cents from the long reading
-	lo, hi    []float64      // per voice: the readings' range, cents
-	count     []int
-	subHop    int
-	subsFrame int // sub-windows per frame
+	n      int
+	frame  []float64
+	win    []float64 // hannWindow(n)
+	fft    *fourier.FFT
+	spec   []complex128
+	fitter *fitter
+	f0     []float64
+	longHz []float64 // per voice: the long window's reading
+	// agree and parted (row i, column j, i < j): how many
+	// sub-windows read voices i and j within twinCents, and further apart
+	// (twins.go).
+	agree, parted []int
+	order         []int          // scratch of mergeTwins
+	merge         []Voice        // scratch of mergeTwins
+	long          [][]complex128 // per voice, per partial: the long fit's amplitude
+	loose         []bool         // per voice: read by the partials it owns (fitter.loose)
+	sum           []float64      // per voice: summed cents from the long reading
+	lo, hi        []float64      // per voice: the readings' range, cents
+	count         []int
+	subHop        int
+	subsFrame     int // sub-windows per frame
 }
 
 // newTimeAverager returns one with sub-windows of the power of two nearest
@@ -117,21 +124,26 @@ var sharedCaps = []int{3, 3, 3, 6, 6, 12, 0, 0}
 // average replaces each voice's Hz by the mean of its readings on the
 // sub-windows around the centre of x (the window the voices were read
 // from, by long). A voice no sub-window could read, or that they find
-// steady (movingCents), keeps its long reading.
-func (ta *timeAverager) average(x []float64, voices []Voice, long *Estimator) {
+// steady (movingCents), keeps its long reading. Twins left by it are one
+// voice (mergeTwins): the voices are returned, lowest first.
+func (ta *timeAverager) average(x []float64, voices []Voice, long *Estimator) []Voice {
 	if ta == nil || len(voices) == 0 {
-		return
+		return voices
 	}
 	nv := len(voices)
 	ta.sum, ta.count = grow(ta.sum, nv), ta.count[:0]
+	ta.agree, ta.parted = grow(ta.agree, nv*nv), grow(ta.parted, nv*nv)
+	clear(ta.agree)
+	clear(ta.parted)
 	ta.loose = ta.loose[:0]
 	anyLoose := false
 	for range voices {
 		ta.count = append(ta.count, 0)
 	}
-	ta.f0 = ta.f0[:0]
+	ta.f0, ta.longHz = ta.f0[:0], ta.longHz[:0]
 	for _, v := range voices {
 		ta.f0 = append(ta.f0, v.Hz)
+		ta.longHz = append(ta.longHz, v.Hz)
 	}
 	for v := range voices {
 		ta.loose = append(ta.loose, ta.fitter.onHarmonic(ta.f0, v))
@@ -163,6 +175,7 @@ func (ta *timeAverager) average(x []float64, voices []Voice, long *Estimator) {
 		}
 		ta.fitter.refine(ta.f0, -1, subCaps)
 		ta.take(voices, false)
+		ta.compare(voices)
 		if anyLoose {
 			// Again from the others' readings, the voices on a harmonic
 			// steered too; only theirs are taken from this fit.
@@ -177,6 +190,7 @@ func (ta *timeAverager) average(x []float64, voices []Voice, long *Estimator) {
 			voices[v].Hz *= math.Exp2(ta.sum[v] / float64(ta.count[v]) / 1200)
 		}
 	}
+	return ta.mergeTwins(voices)
 }
 
 // take adds the last sub-window fit's reading of each voice that steered
