@@ -25,7 +25,41 @@ import (
 // partials.
 func (e *Estimator) prune() {
 	f := e.fitter
-	for steps := coldSteps; len(e.f0) > 0; steps = warmSteps {
+	for round := range 2 {
+		steps := coldSteps
+		if round > 0 {
+			steps = warmSteps
+		}
+		e.dropShort(steps)
+		if len(e.f0) > 0 {
+			f.broad = true
+			f.refine(e.f0, -1, coldSteps)
+			f.broad = false
+		}
+		// A voice an octave above another is judged again on the settled
+		// fit: the first, from the candidates' rough fundamentals, can
+		// leave the lower voice a few cents off its own even partials
+		// (four-partial tones on E3 B3 E4 G♯4: E3 at +5 ¢), which the
+		// octave then explains, and stays.
+		if !slices.ContainsFunc(e.f0, func(hz float64) bool { return e.octaveOfAnother(hz) }) {
+			break
+		}
+	}
+	for v := range e.f0 {
+		for range 2 {
+			if !e.lower(v) {
+				break
+			}
+		}
+	}
+}
+
+// dropShort fits the voices (the first fit's Gauss–Newton steps as steps
+// says, warmSteps after) and drops, one at a time, the voice that explains
+// too little that the others cannot, until none does.
+func (e *Estimator) dropShort(steps []int) {
+	f := e.fitter
+	for ; len(e.f0) > 0; steps = warmSteps {
 		noise, total := e.noise(f.refine(e.f0, -1, steps))
 		if i, j, ok := e.twins(); ok {
 			e.remove(e.weaker(i, j))
@@ -44,7 +78,7 @@ func (e *Estimator) prune() {
 		cols := f.partials()
 		for v := range e.f0 {
 			base := resid
-			if e.octaveOfAnother(v) {
+			if e.octaveOfAnother(e.f0[v]) {
 				// The voice beneath it may move where it lies: in both
 				// fits, so that they compare.
 				f.judged = v
@@ -73,23 +107,12 @@ func (e *Estimator) prune() {
 		}
 		e.remove(worst)
 	}
-	if len(e.f0) > 0 {
-		f.broad = true
-		f.refine(e.f0, -1, coldSteps)
-		f.broad = false
-	}
-	for v := range e.f0 {
-		for range 2 {
-			if !e.lower(v) {
-				break
-			}
-		}
-	}
 }
 
-// octaveOfAnother reports whether voice v lies an octave above another.
-func (e *Estimator) octaveOfAnother(v int) bool {
-	return slices.ContainsFunc(e.f0, func(lo float64) bool { return OctaveAbove(e.f0[v], lo) })
+// octaveOfAnother reports whether the voice at hz lies an octave above
+// another.
+func (e *Estimator) octaveOfAnother(hz float64) bool {
+	return slices.ContainsFunc(e.f0, func(lo float64) bool { return OctaveAbove(hz, lo) })
 }
 
 // noise is the residual energy per real degree of freedom after the fit
