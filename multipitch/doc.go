@@ -46,7 +46,7 @@
 // second-order term of a pitch moving within the window, as in harmonic
 // chirp estimation), so that a wandering voice's smeared upper partials
 // are its own and not another voice's; a voice an octave above another is
-// judged again once the fit has settled. A voice whose even partials stand
+// judged again where settling the fit moved the voice beneath it. A voice whose even partials stand
 // above the smooth spectral envelope through its own odd partials (those no
 // other voice shares: in a chord the others often cover the neighbours of
 // every even one) is marked Doubled: another voice sounds an octave above
