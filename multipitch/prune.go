@@ -141,8 +141,8 @@ func (e *Estimator) octaveOfAnother(hz float64) bool {
 const idleShare = 0.1
 
 // roughCents is how far settling must move a voice with another an octave
-// above it for that octave to be judged again: 2 ¢, well over what
-// settling moves a voice the first fit read well.
+// above it for that octave to be judged again: 2 ¢ (the E3 above moved
+// 5.5 ¢).
 const roughCents = 2.0
 
 // movedUnderOctave reports whether a voice with another an octave above it
