@@ -47,10 +47,13 @@
 // the lowest first; in that decision each partial may also widen (the
 // second-order term of a pitch moving within the window, as in harmonic
 // chirp estimation), so that a wandering voice's smeared upper partials
-// are its own and not another voice's. A voice whose even partials stand above their odd
-// neighbours, as a smooth spectral envelope would not have them, is marked
-// Doubled: another voice sounds an octave above it (a unison double leaves
-// no mark). A voice is never invented to fill a requested count.
+// are its own and not another voice's; a voice an octave above another is
+// judged again where settling the fit moved the voice beneath it. A voice whose even partials stand
+// above the smooth spectral envelope through its own odd partials (those no
+// other voice shares: in a chord the others often cover the neighbours of
+// every even one) is marked Doubled: another voice sounds an octave above
+// it (a unison double leaves no mark). A voice is never invented to fill a
+// requested count.
 //
 // What is read does not hang on the level, short of clipping: one absolute
 // gate (a window under -60 dBFS holds no voice) and every other decision

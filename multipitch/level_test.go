@@ -11,8 +11,9 @@ import (
 // least significant bit, common practice) at peaks from -40 to -2 dBFS:
 // the same reading at every level, frame by frame: every voice found within
 // 0.05 ¢ of its truth, E3 marked doubled (E4 lies on its even partials)
-// and E4 heard as a voice of its own in as many frames (within the
-// issue's 10 % phantoms). The dither lies 100 to
+// in as many frames, and E4 never heard as a voice of its own (the issue:
+// never invent a voice; it was, in 3 of 18 frames, before the octave was
+// judged again on the settled fit: prune.go). The dither lies 100 to
 // 140 dB under the chord: what is read must be decided against the frame's
 // own spectrum, not against it (whitening once divided by it: at -2 dBFS
 // the chord read as B2 and D♯6).
@@ -42,9 +43,9 @@ func TestChordReadsAlikeAtEveryLevel(t *testing.T) {
 		if first.frames == 0 {
 			first = s
 		}
-		if s.missed > 0 || s.worst > 0.05 || s.doubled[0] == 0 || 10*s.phantoms > s.frames*len(truth) ||
+		if s.missed > 0 || s.worst > 0.05 || s.doubled[0] == 0 || s.phantoms > 0 ||
 			s.frames != first.frames || s.phantoms != first.phantoms || s.doubled[0] != first.doubled[0] {
-			t.Errorf("%g dBFS: %d frames, %d missed, %d phantoms, worst %.4f ¢, E3 doubled in %d (want none missed, worst ≤ 0.05 ¢, E3 doubled, ≤ 10 %% phantoms, and as at %g dBFS: %d frames, %d phantoms, E3 doubled in %d)",
+			t.Errorf("%g dBFS: %d frames, %d missed, %d phantoms, worst %.4f ¢, E3 doubled in %d (want none missed, worst ≤ 0.05 ¢, E3 doubled, no phantom, and as at %g dBFS: %d frames, %d phantoms, E3 doubled in %d)",
 				peak, s.frames, s.missed, s.phantoms, s.worst, s.doubled[0], peaks[0], first.frames, first.phantoms, first.doubled[0])
 			continue
 		}
