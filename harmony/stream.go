@@ -20,9 +20,12 @@ type Stream struct {
 	// past what the chords to come need.
 	Join  func([]Note) []Note
 	Reach float64
-	notes []Note
-	from  float64 // every chord ending before it has been given
-	begun bool
+	// OneChannel: the notes are voices heard on one channel, as
+	// FindOneChannel reads them.
+	OneChannel bool
+	notes      []Note
+	from       float64 // every chord ending before it has been given
+	begun      bool
 }
 
 // Add takes a note that has ended.
@@ -76,7 +79,7 @@ func (s *Stream) Ready(horizon float64, tuning func(at float64) target.Tuning) (
 	}
 	var out []Chord
 	for _, c := range runs {
-		if named, ok := name(c, notes, tuning(c.End), s.Seventh); ok {
+		if named, ok := name(c, notes, tuning(c.End), s.Seventh, s.OneChannel); ok {
 			out = append(out, named)
 		}
 	}

@@ -211,7 +211,7 @@ func (vo *voiceOptions) liveChords(tunings *session.Tunings, emit func(harmony.C
 		vo.left = &leftOut{asked: vo.max, record: true}
 	}
 	v := &voiceChords{tunings: newTuningLog(tunings), asked: math.Inf(-1), emit: emit, doubled: map[voiceStart]bool{}, left: vo.left}
-	v.stream = harmony.Stream{Seventh: vo.seventh, Reach: lostSeconds, Join: func(ns []harmony.Note) []harmony.Note {
+	v.stream = harmony.Stream{Seventh: vo.seventh, Reach: lostSeconds, OneChannel: true, Join: func(ns []harmony.Note) []harmony.Note {
 		joined, _ := bridgeLost(ns)
 		return joined
 	}}
