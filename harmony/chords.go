@@ -53,13 +53,23 @@ type Chord struct {
 // no voiced frame, are left out. A note held across a chord change is a
 // member of both chords.
 func Find(notes []Note, tu target.Tuning, seventh float64) []Chord {
+	return find(notes, tu, seventh, false)
+}
+
+// FindOneChannel is Find for voices heard on one channel, where a note on
+// a lower note's harmonic may be that partial (partials.go).
+func FindOneChannel(notes []Note, tu target.Tuning, seventh float64) []Chord {
+	return find(notes, tu, seventh, true)
+}
+
+func find(notes []Note, tu target.Tuning, seventh float64, oneChannel bool) []Chord {
 	var cuts []float64
 	for _, n := range notes {
 		cuts = append(cuts, n.Start, n.End)
 	}
 	var out []Chord
 	for _, c := range stretches(notes, cuts) {
-		if named, ok := name(c, notes, tu, seventh); ok {
+		if named, ok := name(c, notes, tu, seventh, oneChannel); ok {
 			out = append(out, named)
 		}
 	}
@@ -100,8 +110,9 @@ func stretches(notes []Note, cuts []float64) []Chord {
 }
 
 // name reads the stretch's members and names their chord, ordering Notes
-// like the members (lowest first).
-func name(c Chord, notes []Note, tu target.Tuning, seventh float64) (Chord, bool) {
+// like the members (lowest first); oneChannel names it, where its notes name
+// none, without a note on another's harmonic (nameLeavingPartial).
+func name(c Chord, notes []Note, tu target.Tuning, seventh float64, oneChannel bool) (Chord, bool) {
 	if c.End-c.Start < MinSeconds {
 		return c, false
 	}
@@ -122,12 +133,19 @@ func name(c Chord, notes []Note, tu target.Tuning, seventh float64) (Chord, bool
 		}
 	}
 	hc, ok := tu.NameChord(hz, seventh)
+	kept := make([]int, len(hz))
+	for i := range kept {
+		kept[i] = i
+	}
+	if !ok && oneChannel {
+		hc, kept, ok = nameLeavingPartial(tu, hz, seventh)
+	}
 	if !ok {
 		return c, false
 	}
 	order := make([]int, len(hc.Members))
 	for i, m := range hc.Members {
-		order[i] = c.Notes[m.Index]
+		order[i] = c.Notes[kept[m.Index]]
 	}
 	c.HeardChord, c.Notes = hc, order
 	return c, true

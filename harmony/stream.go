@@ -18,13 +18,16 @@ type Stream struct {
 	// Reach seconds after it ends: a note still to come may then change
 	// the chords Reach seconds before it, and notes are kept that long
 	// past what the chords to come need.
-	Join     func([]Note) []Note
-	Reach    float64
-	notes    []Note
-	sounding []Note  // notes still sounding (see Sound)
-	from     float64 // every chord ending before it has been given
-	settled  float64 // every chord starting before it has been given
-	begun    bool
+	Join  func([]Note) []Note
+	Reach float64
+	// OneChannel: the notes are voices heard on one channel, as
+	// FindOneChannel reads them.
+	OneChannel bool
+	notes      []Note
+	sounding   []Note  // notes still sounding (see Sound)
+	from       float64 // every chord ending before it has been given
+	settled    float64 // every chord starting before it has been given
+	begun      bool
 }
 
 // Add takes a note that has ended.
@@ -112,7 +115,7 @@ func (s *Stream) Ready(horizon float64, tuning func(at float64) target.Tuning) (
 	s.settled = max(s.settled, settled)
 	var out []Chord
 	for _, c := range runs {
-		if named, ok := name(c, notes, tuning(c.End), s.Seventh); ok {
+		if named, ok := name(c, notes, tuning(c.End), s.Seventh, s.OneChannel); ok {
 			out = append(out, named)
 		}
 	}

@@ -40,6 +40,17 @@ const partialGain = 4.0
 // partialSteps are the partials of a lower voice a voice is judged on.
 var partialSteps = [...]float64{3, 4, 5, 6}
 
+// OnPartial reports whether hz lies within 35 ¢ of partial 3, 4, 5 or 6 of
+// lo (partialSteps), where a voice may be that one's partial.
+func OnPartial(hz, lo float64) bool {
+	for _, s := range partialSteps {
+		if math.Abs(cents(hz, s*lo)) < octaveCents {
+			return true
+		}
+	}
+	return false
+}
+
 // markPartials marks each voice of vs (one frame's, read on e.spec) that
 // lies on partial s of a voice below it (s in partialSteps) whose partials
 // sk stand less than partialGain out of its envelope.

@@ -255,7 +255,7 @@ func (vo *voiceOptions) liveChords(tunings *session.Tunings, emit func(harmony.C
 	v := &voiceChords{tunings: newTuningLog(tunings), asked: math.Inf(-1), emit: emit, doubled: map[voiceStart]bool{}, left: vo.left}
 	v.rows = heldRows[voiceNote]{event: func(n *voiceNote) *session.Event { return &n.Event },
 		who: func(n *voiceNote) string { return strconv.Itoa(n.voice) }, write: row, pieces: true}
-	v.stream = harmony.Stream{Seventh: vo.seventh, Reach: lostSeconds, Join: func(ns []harmony.Note) []harmony.Note {
+	v.stream = harmony.Stream{Seventh: vo.seventh, Reach: lostSeconds, OneChannel: true, Join: func(ns []harmony.Note) []harmony.Note {
 		joined, _ := bridgeLost(ns)
 		return joined
 	}}

@@ -15,7 +15,7 @@ import (
 	"fifthline/target"
 )
 
-// chordsOf finds the held chords among voice notes (harmony.Find), each
+// chordsOf finds the held chords among voice notes (harmony.FindOneChannel), each
 // member read from its voice's frames within the chord, from where its note
 // settled when it enters on the chord (its segmenter's Held.Settled: past
 // the attack's glide, as the note alone is read and as a player's is); a
@@ -26,7 +26,7 @@ func chordsOf(notes []voiceNote, tu target.Tuning, seventh float64) []harmony.Ch
 		hs[i] = harmony.Note{Start: n.Start, End: n.End, Who: strconv.Itoa(n.voice), Note: n.Reading.Note, Frames: n.frames, Hz: n.Hz, Settled: n.Settled}
 	}
 	hs, from := bridgeLost(hs)
-	chords := harmony.Find(hs, tu, seventh)
+	chords := harmony.FindOneChannel(hs, tu, seventh)
 	for _, c := range chords {
 		for i, k := range c.Notes {
 			c.Notes[i] = from[k]

@@ -60,7 +60,7 @@ func loneGaps(t *testing.T, name string, part testsignal.MIDIPart) []float64 {
 		t.Fatalf("fluidsynth not found (make test installs it): %v", err)
 	}
 	mono, truth, apart, _ := loneTruth(t, t.TempDir(), name, "lone "+name, part)
-	gaps := voicesAlone(t, mono, part, truth)
+	gaps := voicesAlone(t, mono, scene{}, part, truth)
 	for i, gap := range gaps {
 		t.Logf("lone %s %s: --voices reads %+.3f ¢ from its truth (the readers %.2f ¢ apart at worst)", name, spelled(part.Notes[i].Key), gap, apart)
 	}

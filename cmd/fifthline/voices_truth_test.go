@@ -3,8 +3,12 @@ package main
 import (
 	"fmt"
 	"math"
+	"os"
+	"os/exec"
 	"path/filepath"
 	"slices"
+	"strconv"
+	"strings"
 	"testing"
 
 	"fifthline/internal/testsignal"
@@ -42,12 +46,13 @@ func loneTruth(t *testing.T, dir, file, name string, part testsignal.MIDIPart) (
 	_, rows := readCSV(t, out)
 	readers = partReaders{detector: detectorTrack(t, mono), yin: aubioTrack(t, mono, "yin"), yinfft: aubioTrack(t, mono, "yinfft")}
 	for _, n := range part.Notes {
-		// The longest note read while it sounds: an attack or a sample's
-		// release may read as a short note of its own.
+		// The note read longest while it sounds: an attack or a sample's
+		// release may read as a short note of its own, and the note before
+		// may ring into it (chords one after another).
 		var row map[string]string
 		longest := 0.0
 		for _, r := range rows {
-			if d := num(r, "end_s") - num(r, "start_s"); num(r, "start_s") < n.Start+n.Seconds && num(r, "end_s") > n.Start && d > longest {
+			if d := math.Min(num(r, "end_s"), n.Start+n.Seconds) - math.Max(num(r, "start_s"), n.Start); d > longest {
 				row, longest = r, d
 			}
 		}
@@ -75,7 +80,7 @@ func loneTruth(t *testing.T, dir, file, name string, part testsignal.MIDIPart) (
 		hz, apart := medianReading(readings)
 		spread = math.Max(spread, apart)
 		truth = append(truth, hz)
-		asked := 440 * math.Exp2(float64(n.Key-69)/12+testsignal.BendCents(part.Cents)/1200)
+		asked := 440 * math.Exp2(float64(n.Key-69)/12+testsignal.BendCents(part.Cents+n.Cents)/1200)
 		t.Logf("%s %s alone: %s; truth %.4f Hz (readers %.2f ¢ apart), %+.2f ¢ from the asked pitch", name, spelled(n.Key), words, hz, apart, testsignal.Cents(hz, asked))
 	}
 	return mono, truth, spread, readers
@@ -155,4 +160,46 @@ func detectorTrack(t *testing.T, wav string) []pitchFrame {
 func monoSum(t *testing.T, wav, mono string) {
 	t.Helper()
 	soxTB(t, "-R", wav, "-b", "32", "-e", "floating-point", mono, "remix", "1v0.5,2v0.5")
+}
+
+// renderMIDI renders a MIDI file with fluidsynth and FluidR3 at 44.1 kHz,
+// reverb and chorus off, and returns the WAV's path.
+func renderMIDI(t *testing.T, dir, name string, mid []byte) string {
+	t.Helper()
+	midPath, wav := filepath.Join(dir, name+".mid"), filepath.Join(dir, name+".wav")
+	if err := os.WriteFile(midPath, mid, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if out, err := exec.Command("fluidsynth", "-ni", "-q", "-R", "0", "-C", "0", "-g", "0.5", "-r", "44100", "-F", wav, fluidSoundfont, midPath).CombinedOutput(); err != nil {
+		t.Fatalf("fluidsynth: %v\n%s", err, out)
+	}
+	return wav
+}
+
+// noisyMono sums a stereo render onto one channel and adds sox's white
+// noise (repeatable, -R) snr dB below its RMS over the whole take.
+func noisyMono(t *testing.T, dir, wav string, snr float64) string {
+	t.Helper()
+	mono, noise, out := filepath.Join(dir, "mono.wav"), filepath.Join(dir, "noise.wav"), filepath.Join(dir, "mix.wav")
+	monoSum(t, wav, mono)
+	secs := soxStat(t, mono, "Length (seconds)")
+	soxTB(t, "-R", "-n", "-r", "44100", "-c", "1", "-b", "32", "-e", "floating-point", noise, "synth", strconv.FormatFloat(secs, 'f', 6, 64), "whitenoise", "vol", "0.1")
+	gain := soxStat(t, mono, "RMS     amplitude") * math.Pow(10, -snr/20) / soxStat(t, noise, "RMS     amplitude")
+	soxTB(t, "-R", "-m", "-v", "1", mono, "-v", strconv.FormatFloat(gain, 'g', 8, 64), noise, "-b", "32", "-e", "floating-point", out)
+	return out
+}
+
+// soxStat is one figure of sox's stat effect for the file.
+func soxStat(t *testing.T, wav, field string) float64 {
+	t.Helper()
+	out, _ := exec.Command("sox", wav, "-n", "stat").CombinedOutput()
+	for _, l := range strings.Split(string(out), "\n") {
+		if k, v, ok := strings.Cut(l, ":"); ok && strings.TrimSpace(k) == strings.TrimSpace(field) {
+			if f, err := strconv.ParseFloat(strings.TrimSpace(v), 64); err == nil {
+				return f
+			}
+		}
+	}
+	t.Fatalf("sox stat of %s gave no %q:\n%s", wav, field, out)
+	return 0
 }

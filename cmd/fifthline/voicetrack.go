@@ -186,8 +186,9 @@ func (tr *tracker) deliver(t *track, h pitchdetect.Held) {
 	t.ended, t.notes = h.End, t.notes+1
 	// A note most of whose frames lie on a lower voice's partials, which
 	// stand no higher than that voice's envelope allows, is those partials
-	// (multipitch.Voice.OnPartials): no voice either.
-	if tr.foldOctave(t, h) || t.onPartials() {
+	// (multipitch.Voice.OnPartials): no voice either; so is a quieter
+	// note surfacing on a held note's partial (voicesurfaced.go).
+	if tr.foldOctave(t, h) || t.onPartials() || tr.surfaced(t, h) {
 		t.delivered = true // no voice: not counted as one either
 		return
 	}
