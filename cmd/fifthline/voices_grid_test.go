@@ -33,7 +33,7 @@ type gridFigures struct {
 // them, carry the roots' errors.
 var frameGridFigures = []gridFigures{
 	{0.0053, 1, 0, 1.65, 7.95, 2.6, "C4 not heard; F3 +7.9 ¢"},
-	{0.0107, 0, 0, 1.75, 9.8, 10.6, "F3 +9.8 ¢; G4 a row of its own at 5.0 to 6.0 s beside its note"},
+	{0.0107, 0, 0, 1.85, 9.8, 10.6, "F3 +9.8 ¢; G4 -3.3 ¢ (-1.7 ¢ before multipitch/unison.go, which took away its row of its own at 5.0 to 6.0 s)"},
 	{0.016, 2, 1, 2.65, 8.4, 10.6, "C4 read an octave high (the C5 phantom), D4 heard only late in its note; E3 +8.4 ¢"},
 	{0.0213, 0, 0, 3.0, 7.65, 10.6, "F3 +7.6 ¢, C4 -4.1 ¢"},
 	{0.023, 2, 0, 2.3, 7.4, 8.2, "C4 absent from most frames, D4 heard from 4.55 s only; F3 +7.4 ¢"},
