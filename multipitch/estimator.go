@@ -60,7 +60,8 @@ const (
 	// well above it).
 	kappa    = 12.0
 	relFloor = 1e-3
-	// twinCents: voices this close after the fit are one voice.
+	// twinCents: candidates this close while the prune runs are one
+	// voice, the weaker dropped (the voices it keeps: unisonCents).
 	twinCents = 30.0
 )
 

@@ -26,6 +26,7 @@ import (
 func (e *Estimator) prune() {
 	f := e.fitter
 	e.dropShort(coldSteps, nil, 1)
+	e.mergeUnisons()
 	e.trial = append(e.trial[:0], e.f0...) // as judged
 	e.settle()
 	// A voice an octave above another is judged again on the settled fit
@@ -200,7 +201,8 @@ func (e *Estimator) lower(v int) bool {
 	after := f.fit(e.trial, -1)
 	twin := math.Abs(cents(e.trial[v], down)) > twinCents
 	for u, hz := range e.trial {
-		twin = twin || (u != v && math.Abs(cents(hz, e.trial[v])) < twinCents)
+		// Lowered beside another voice, it is that voice (unison.go).
+		twin = twin || (u != v && math.Abs(cents(hz, e.trial[v])) < unisonCents)
 	}
 	if twin || resid-after < e.needed(f.partials()-cols, noise, total) {
 		return false
@@ -210,16 +212,7 @@ func (e *Estimator) lower(v int) bool {
 }
 
 // twins finds two voices the fit has put within twinCents of each other.
-func (e *Estimator) twins() (int, int, bool) {
-	for i := range e.f0 {
-		for j := i + 1; j < len(e.f0); j++ {
-			if math.Abs(cents(e.f0[i], e.f0[j])) < twinCents {
-				return i, j, true
-			}
-		}
-	}
-	return 0, 0, false
-}
+func (e *Estimator) twins() (int, int, bool) { return e.within(twinCents) }
 
 // weaker is whichever of voices i and j has less fitted energy.
 func (e *Estimator) weaker(i, j int) int {

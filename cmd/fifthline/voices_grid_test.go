@@ -35,9 +35,9 @@ var frameGridFigures = []gridFigures{
 	{0.0053, 1, 0, 1.65, 7.95, 2.6, "C4 not heard; F3 +7.9 ¢"},
 	// G4's last second (5.0 to 6.4 s, −3.6 ¢) was a row of its own beside
 	// its note, the note −1.74 ¢, until the two ends of a vibrato became
-	// one voice (multipitch/twins.go): now one note, −3.39 ¢, and the
-	// median 1.81 ¢ (1.74).
-	{0.0107, 0, 0, 1.81, 9.8, 10.6, "F3 +9.8 ¢; G4 −3.4 ¢, its last second in its note"},
+	// one voice (multipitch/twins.go, and a section's two clusters one
+	// voice: multipitch/unison.go): now one note, −3.3 ¢.
+	{0.0107, 0, 0, 1.85, 9.8, 10.6, "F3 +9.8 ¢; G4 −3.3 ¢, its last second in its note"},
 	{0.016, 2, 1, 2.65, 8.4, 10.6, "C4 read an octave high (the C5 phantom), D4 heard only late in its note; E3 +8.4 ¢"},
 	{0.0213, 0, 0, 3.0, 7.65, 10.6, "F3 +7.6 ¢, C4 -4.1 ¢"},
 	{0.023, 2, 0, 2.3, 7.4, 8.2, "C4 absent from most frames, D4 heard from 4.55 s only; F3 +7.4 ¢"},

@@ -30,12 +30,13 @@ func TestVoicesReadALoneClarinetAsItsTruth(t *testing.T) {
 }
 
 // FluidR3's choir aahs (program 52) are several singers on one note, and
-// the estimator's frames of one such voice scatter by 10 to 14 ¢ (standard
-// deviation, E3 to G4, measured), where its overlapping frames are
-// correlated over a window: a note's reading from 15 to 25 of them moves by
-// cents when the frame grid moves against the note. Measured here: the same
-// E3, begun a quarter of a hop later each time, reads 4.5 ¢ apart
-// against the truth of each render. The rendered choir's figures
+// the estimator's frames of one such voice scatter by 7 to 10 ¢ (standard
+// deviation, E3 and F3, measured; 14 ¢ on E3 before a section's halves
+// read as two voices were joined, multipitch/unison.go), where its
+// overlapping frames are correlated over a window: a note's reading from 15
+// to 25 of them moves by cents when the frame grid moves against the note.
+// Measured here: the same E3, begun a quarter of a hop later each time,
+// reads 3.7 ¢ apart against the truth of each render (4.5 ¢ before). The rendered choir's figures
 // (voices_mix_test.go) are that uncertain; a change that moves them by less
 // is not told from the grid.
 func TestLoneChorusedVoiceHangsOnTheFrameGrid(t *testing.T) {
