@@ -101,3 +101,25 @@ func TestTheUpperPartialsTellDelaysAPeriodApart(t *testing.T) {
 		t.Errorf("candidates %v; want the one delay, %g samples", peaks, delay)
 	}
 }
+
+// A bassoon-like D3 whose third partial is its strongest and whose
+// fundamental, fifth and seventh are weak (from memory: a bassoon's
+// formant lies near 500 Hz) under a clarinet entering on D4 20 dB under
+// it half a second in, before any bleed is weighed. The clarinet is too
+// quiet for its bleed to share a period with the bassoon's note, so the
+// bassoon's D3 is not taken for the phantom of A4, the twelfth above.
+func TestAQuietNeighbourMakesNoPhantom(t *testing.T) {
+	d3 := 440 * math.Exp2(-19.0/12)
+	bassoon := testsignal.Spectrum{Name: "third strongest", Amps: []float64{0.05, 0.3, 1, 0.3, 0.03, 0.2, 0.02, 0.1}}
+	parts := []part{
+		{"bn", bassoon, []tone{{d3, 0.1, 2.5, 0, 0}}},
+		{"cl", testsignal.OddOnly, []tone{{2 * d3, 0.6, 2.5, 0, 0}}},
+	}
+	tk := recordEach(parts, 2.7, []float64{0, -20}, func(c, o int) (float64, float64) { return -20, 3 })
+	for _, n := range read(t, tk, []Player{{"bn", 0}, {"cl", 1}}) {
+		t.Logf("%s: %s %.3f–%.3f s", n.Player.Name, n.Reading.Note, n.Held.Start, n.Held.End)
+		if n.Player.Name == "bn" && n.Reading.Note.String() != "D3" {
+			t.Errorf("bassoon read %s from %.3f s", n.Reading.Note, n.Held.Start)
+		}
+	}
+}
