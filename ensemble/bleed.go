@@ -34,6 +34,7 @@ const (
 	maxBleedHz        = 8000.0
 	historyPad        = 8     // samples kept beyond the longest delay
 	minBleedPower     = 1e-12 // below this d's partials are too quiet to measure
+	thirdUnder        = 0.01  // a third player's partial 20 dB under d's moves d's evidence little
 )
 
 // Bleed is what each player's microphone hears of the others, learned
@@ -103,7 +104,8 @@ func (m *bleedModel) weighed(c, d int) bool { return m.pair(c, d).weighed }
 // c 15–25 dB down); a bin where d's bleed dominates is far quieter on c
 // than on d. Only the latter are weighed (once a gain is learned, no more
 // than 6 dB above it), none near a partial of c's own pitch (where the two
-// beat slowly and would not average out) or of a third player's, and only
+// beat slowly and would not average out) or of a third player's audible
+// there (othersAudible), and only
 // while c is steady and its own sound known: its pitch read, or silent. So
 // c's own partials, attacks and releases do not pass for bleed: a choir's
 // soprano A4 heard on the bass's channel read 17 samples late while the
@@ -133,7 +135,7 @@ func (m *bleedModel) observe(o *Owner, f *frameReadings) {
 				if bin+1 >= len(p.a) || float64(h)*pd > maxBleedHz {
 					break
 				}
-				if at := float64(bin) * binHz; nearPartial(at, own, clearBins*binHz) || othersPartial(at, hz, c, d, clearBins*binHz) {
+				if at := float64(bin) * binHz; nearPartial(at, own, clearBins*binHz) || o.othersAudible(at, bin, hz, c, d, clearBins*binHz) {
 					continue
 				}
 				for b := bin - 1; b <= bin+1; b++ {
@@ -174,12 +176,25 @@ func (m *bleedModel) observe(o *Owner, f *frameReadings) {
 	}
 }
 
-// othersPartial tells whether f lies within tol of a partial of a third
-// player's pitch (neither c's nor d's), whose bleed reaches c and d at its
-// own delays and would pull the delay toward them.
-func othersPartial(f float64, hz []float64, c, d int, tol float64) bool {
+// othersAudible tells whether f lies within tol of a partial of a third
+// player's pitch that sounds there on its own channel no more than
+// 20 dB (thirdUnder) below d's: a third player's partial far quieter than d's
+// moves the evidence by little, however its bleed is delayed, and a
+// consonant chord puts nearly every partial of an upper voice on some
+// partial of a lower one (a trumpet's B♭4 on the tuba's B♭2's fourth), so
+// leaving all of those out leaves one pitch's evidence, whose delays a
+// period apart cannot be told apart.
+func (o *Owner) othersAudible(f float64, bin int, hz []float64, c, d int, tol float64) bool {
 	for e, p := range hz {
-		if e != c && e != d && nearPartial(f, p, tol) {
+		if e == c || e == d || !nearPartial(f, p, tol) {
+			continue
+		}
+		pd, pe := 0.0, 0.0
+		for b := bin - 1; b <= bin+1; b++ {
+			pd += power(o.spec[d][b])
+			pe += power(o.spec[e][b])
+		}
+		if pe > thirdUnder*pd {
 			return true
 		}
 	}

@@ -207,7 +207,9 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 				if k := owner.phantom(i, v.cur.Hz, fr.read, func(d int) bool { return !bleed.weighed(i, d) }); k > 1 && v.cut == 0 {
 					v.cur.Hz *= float64(k)
 				}
-				v.blanked = v.cur.Voiced && owner.bleedOf(i, v.cur.Hz, v.cut, fr.read, ownDB)
+				skip := owner.weighedSkip(i, v.cur.Hz, v.cut, fr.read)
+				v.blanked = v.cur.Voiced && owner.louderElsewhere(i, v.cur.Hz, skip, ownDB) &&
+					!owner.beyondBleed(i, v.cur.Hz, skip, ownDB, bleed)
 				v.lowRead = v.cut > 0 && !v.blanked
 				fr.hz[i] = v.cur.Hz
 				if v.blanked {

@@ -65,13 +65,24 @@ func (nt tone) pitch(t float64) float64 {
 // microphones hear their neighbours (15–25 dB down, a few milliseconds:
 // the ensemble issue's measurements of real quartets).
 func record(parts []part, seconds, bleedDB, delayMs float64) *take {
+	return recordEach(parts, seconds, nil, func(c, o int) (float64, float64) { return bleedDB, delayMs })
+}
+
+// recordEach is record with part i played levelDB[i] louder (nil: all
+// alike) and each channel c hearing each other part o as bleed(c, o)
+// says: how many dB down and how many milliseconds late.
+func recordEach(parts []part, seconds float64, levelDB []float64, bleed func(c, o int) (db, ms float64)) *take {
 	n := int(seconds * rate)
 	dry := make([][]float64, len(parts))
 	for i, p := range parts {
 		dry[i] = make([]float64, n)
 		for _, nt := range p.notes {
 			a, b := int(nt.start*rate), int(nt.end*rate)
-			x := testsignal.Tone(rate, b-a, p.spec, 0.15, nt.pitch)
+			level := 0.15
+			if levelDB != nil {
+				level *= math.Pow(10, levelDB[i]/20)
+			}
+			x := testsignal.Tone(rate, b-a, p.spec, level, nt.pitch)
 			testsignal.FadeIn(x, rate, 0.02)
 			for k := range 960 { // 20 ms release
 				x[len(x)-1-k] *= float64(k) / 960
@@ -79,7 +90,6 @@ func record(parts []part, seconds, bleedDB, delayMs float64) *take {
 			copy(dry[i][a:], x)
 		}
 	}
-	g, d := math.Pow(10, bleedDB/20), int(delayMs/1000*rate)
 	t := &take{ch: make([][]float64, len(parts))}
 	for c := range parts {
 		t.ch[c] = append([]float64(nil), dry[c]...)
@@ -87,6 +97,8 @@ func record(parts []part, seconds, bleedDB, delayMs float64) *take {
 			if o == c {
 				continue
 			}
+			db, ms := bleed(c, o)
+			g, d := math.Pow(10, db/20), int(ms/1000*rate)
 			for i := d; i < n; i++ {
 				t.ch[c][i] += g * dry[o][i-d]
 			}

@@ -23,7 +23,7 @@ import (
 // read, and its pitch stands where it has one (the channel low-passed
 // below the lowest neighbour; the same bass then read 0.25 ¢ from alone).
 // Whose that pitch is, only the harmonics in the band can tell
-// (Owner.bleedOf).
+// (Owner.weighedSkip).
 
 // Butterworth low-pass of order lowOrder (in biquads, the Audio EQ
 // Cookbook's, R. Bristow-Johnson, with the Butterworth poles' Q: common

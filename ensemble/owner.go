@@ -118,27 +118,27 @@ const unsharedFloorDB = 40
 // tones (sox) in a G minor chord: E♭3 under G3 B♭3 D4 weighed only its
 // silent 7th and 8th, −80 dB on its own channel against 0 dB on D4's.
 func (o *Owner) Bleed(c int, hz float64, pitches []float64, ownDB float64) bool {
-	skip := sharedHarmonics(c, hz, pitches, o.fs/float64(len(o.win)))
-	if skip != 0 && o.power(c, hz, skip) < o.power(c, hz, 0)*math.Pow(10, -unsharedFloorDB/10) {
-		skip = 0
-	}
-	return o.louderElsewhere(c, hz, skip, ownDB)
+	return o.louderElsewhere(c, hz, o.weighedSkip(c, hz, 0, pitches), ownDB)
 }
 
-// bleedOf is Bleed for a pitch read below cut Hz (lowband.go; 0: read
-// whole): only its harmonics below cut are weighed, the band where no
-// neighbour has a partial.
-func (o *Owner) bleedOf(c int, hz, cut float64, pitches []float64, ownDB float64) bool {
+// weighedSkip marks the harmonics of hz that the ownership test leaves out
+// (bit k−1 for k): those on the others' own partials (Bleed), or for a
+// pitch read below cut Hz (lowband.go; 0: read whole) those at or above
+// it, so only the band where no neighbour has a partial is weighed.
+func (o *Owner) weighedSkip(c int, hz, cut float64, pitches []float64) (skip uint16) {
 	if cut == 0 {
-		return o.Bleed(c, hz, pitches, ownDB)
+		skip = sharedHarmonics(c, hz, pitches, o.fs/float64(len(o.win)))
+		if skip != 0 && o.power(c, hz, skip) < o.power(c, hz, 0)*math.Pow(10, -unsharedFloorDB/10) {
+			skip = 0
+		}
+		return skip
 	}
-	var skip uint16
 	for k := 1; k <= ownHarmonics; k++ {
 		if float64(k)*hz >= cut {
 			skip |= 1 << (k - 1)
 		}
 	}
-	return o.louderElsewhere(c, hz, skip, ownDB)
+	return skip
 }
 
 // louderElsewhere tells whether the harmonics of hz, less those marked in

@@ -22,12 +22,21 @@ import "math"
 // 1/64), and a note with no odd harmonics at all is the note above.
 const phantomDB = 20.0
 
+// A neighbour too quiet for its bleed to reach phantomDB of the note
+// shares no period with it: taken at the loudest bleed there is
+// (maxBleedGain), its harmonics on its own channel must stand within
+// phantomDB of the note's on c. Else a note whose odd harmonics are weak
+// reads as the twelfth above: a bassoon's D3, its third partial its
+// strongest, read A4 while a clarinet entered pianissimo on D4 (FluidR3,
+// velocity 32 under 96).
+
 // phantom tells whether a pitch hz read on channel c is the period its
 // own note, an octave or a twelfth above (k·hz), shares with the bleed of
-// a neighbour whose bleed on c is not weighed yet (unweighed(d)): the
-// neighbour's pitch is m·hz, m prime to k, and of hz's harmonics those
-// that are neither the note's nor the neighbour's are silent. It returns
-// k, or 0. pitches are the players' readings this frame, by channel.
+// a neighbour whose bleed on c is not weighed yet (unweighed(d)) and may
+// be heard (above): the neighbour's pitch is m·hz, m prime to k, and of
+// hz's harmonics those that are neither the note's nor the neighbour's are
+// silent. It returns k, or 0. pitches are the players' readings this
+// frame, by channel.
 func (o *Owner) phantom(c int, hz float64, pitches []float64, unweighed func(d int) bool) int {
 	if !o.have[c] || !(hz > 0) {
 		return 0
@@ -40,6 +49,9 @@ func (o *Owner) phantom(c int, hz float64, pitches []float64, unweighed func(d i
 			m := math.Round(p / hz)
 			if d == c || !(p > 0) || m < 2 || int(m)%k == 0 || !unweighed(d) || math.Abs(1200*math.Log2(p/(m*hz))) > partialCents {
 				continue
+			}
+			if maxBleedGain*maxBleedGain*o.Power(d, p)*math.Pow(10, phantomDB/10) < o.Power(c, float64(k)*hz) {
+				continue // too quiet to share a period with the note
 			}
 			next |= multiples(int(m))
 		}

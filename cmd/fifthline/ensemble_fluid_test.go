@@ -104,41 +104,51 @@ func TestAnalyzePlayersChordsOfRenderedTakes(t *testing.T) {
 	t.Parallel()
 	for _, take := range ensembleTakes {
 		t.Run(take.name, func(t *testing.T) {
-			r := renderTake(t, take)
-			wet, dry := readChords(t, r, r.wet), readChords(t, r, r.dry)
-			names := func(cs []chordRow) string {
-				var s []string
-				for _, c := range cs {
-					s = append(s, strings.SplitN(c.name, " ", 2)[1])
-				}
-				return strings.Join(s, ", ")
-			}
-			if names(wet) != strings.Join(r.chords, ", ") || names(dry) != names(wet) {
-				t.Fatalf("chords %s; without bleed %s; written %s", names(wet), names(dry), strings.Join(r.chords, ", "))
-			}
-			bar := cmp.Or(r.chordCents, 1.5)
-			worst := 0.0
-			for i := range wet {
-				for p, m := range wet[i].members {
-					d, ok := dry[i].members[p]
-					if !ok || d["member"] != m["member"] || d["note"] != m["note"] {
-						t.Errorf("%s: %s plays %s %s; without bleed %v", wet[i].name, p, m["member"], m["note"], d)
-						continue
-					}
-					if m["member"] != "third" && m["member"] != "fifth" {
-						continue
-					}
-					off := parseF(m["just_cents"]) - parseF(d["just_cents"])
-					worst = max(worst, math.Abs(off))
-					if math.Abs(off) > bar {
-						t.Errorf("%s: %s's %s %s %+.2f ¢ from just, without bleed %+.2f ¢; allowed ±%g ¢", wet[i].name, p, m["member"], m["note"], parseF(m["just_cents"]), parseF(d["just_cents"]), bar)
-					}
-				}
-			}
-			t.Logf("%s: chords %s; thirds and fifths within %.3f ¢ of their readings without bleed", r.name, names(wet), worst)
-			checkJustChord(t, r, wet[len(wet)-1])
+			checkTakeChords(t, renderTake(t, take))
 		})
 	}
+}
+
+// checkTakeChords reads the take's chords with and without bleed and holds
+// them as TestAnalyzePlayersChordsOfRenderedTakes says; it returns the
+// chords read with bleed and how far their thirds and fifths read from
+// their readings without, ¢.
+func checkTakeChords(t *testing.T, r renderedTake) (wet []chordRow, offs []float64) {
+	t.Helper()
+	wet, dry := readChords(t, r, r.wet), readChords(t, r, r.dry)
+	names := func(cs []chordRow) string {
+		var s []string
+		for _, c := range cs {
+			s = append(s, strings.SplitN(c.name, " ", 2)[1])
+		}
+		return strings.Join(s, ", ")
+	}
+	if names(wet) != strings.Join(r.chords, ", ") || names(dry) != names(wet) {
+		t.Fatalf("chords %s; without bleed %s; written %s", names(wet), names(dry), strings.Join(r.chords, ", "))
+	}
+	bar := cmp.Or(r.chordCents, 1.5)
+	worst := 0.0
+	for i := range wet {
+		for p, m := range wet[i].members {
+			d, ok := dry[i].members[p]
+			if !ok || d["member"] != m["member"] || d["note"] != m["note"] {
+				t.Errorf("%s: %s plays %s %s; without bleed %v", wet[i].name, p, m["member"], m["note"], d)
+				continue
+			}
+			if m["member"] != "third" && m["member"] != "fifth" {
+				continue
+			}
+			off := parseF(m["just_cents"]) - parseF(d["just_cents"])
+			worst = max(worst, math.Abs(off))
+			offs = append(offs, off)
+			if math.Abs(off) > bar {
+				t.Errorf("%s: %s's %s %s %+.2f ¢ from just, without bleed %+.2f ¢; allowed ±%g ¢", wet[i].name, p, m["member"], m["note"], parseF(m["just_cents"]), parseF(d["just_cents"]), bar)
+			}
+		}
+	}
+	t.Logf("%s: chords %s; thirds and fifths within %.3f ¢ of their readings without bleed", r.name, names(wet), worst)
+	checkJustChord(t, r, wet[len(wet)-1])
+	return wet, offs
 }
 
 // checkJustChord holds the last chord, written just, to just as the
@@ -204,13 +214,22 @@ func TestListenPlayersHearsRenderedWindsLive(t *testing.T) {
 func readTakeOffline(t *testing.T, r renderedTake) (lone [][]map[string]string, rows []map[string]string) {
 	t.Helper()
 	lone = r.loneNotes(t)
+	rows, _ = readTakeAgainst(t, r, lone)
+	return lone, rows
+}
+
+// readTakeAgainst reads the take's multitrack with analyze --players and
+// holds every player's notes to truth, each part's notes as rows; it
+// returns the take's note rows and how far each note matched read from
+// its truth, ¢.
+func readTakeAgainst(t *testing.T, r renderedTake, truth [][]map[string]string) (rows []map[string]string, offs []float64) {
+	t.Helper()
 	code, out, stderr := runLong(t, append(append([]string{"analyze"}, r.musical()...), "--players", strings.Join(r.players, ","), r.wet)...)
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
 	_, rows = readCSV(t, out)
-	checkPlayerNotes(t, "analyze", r, lone, rows, true)
-	return lone, rows
+	return rows, checkPlayerNotes(t, "analyze", r, truth, rows, true)
 }
 
 // hearTakeLive plays the take's multitrack through a private 4-channel

@@ -168,7 +168,7 @@ func (r renderedTake) exactNotes() [][]map[string]string {
 // lowest sounding root, from the written pitches (the contract's
 // just_cents with every pitch exact), and the member's written pitch.
 func (r renderedTake) exactJust(chord chordRow, player string) (just, hz float64) {
-	at := func(p string) float64 {
+	return justAbove(chord, player, func(p string) float64 {
 		i := slices.Index(r.players, p)
 		m := chord.members[p]
 		mid := (parseF(m["start_s"]) + parseF(m["end_s"])) / 2
@@ -178,7 +178,13 @@ func (r renderedTake) exactJust(chord chordRow, player string) (just, hz float64
 			}
 		}
 		return math.NaN()
-	}
+	})
+}
+
+// justAbove is how far a chord member lies from just above the chord's
+// lowest sounding root (5/4, 6/5 or 3/2 and octaves), with each player's
+// pitch as at gives it, and the member's pitch.
+func justAbove(chord chordRow, player string, at func(player string) float64) (just, hz float64) {
 	root := math.Inf(1)
 	for p, m := range chord.members {
 		if m["member"] == "root" {

@@ -3,6 +3,7 @@ package main
 import (
 	"fmt"
 	"math"
+	"math/rand/v2"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -41,6 +42,9 @@ type ensembleTake struct {
 	// chordCents is how far a third or fifth may read from its reading
 	// without bleed; 0 is the ensemble issue's 1.5 ¢.
 	chordCents float64
+	// bleedSeed, when not 0, draws the take's bleed at random (seeded)
+	// instead of bleedDB and bleedMs (bleed).
+	bleedSeed uint64
 }
 
 // musical is the take's musical flags for fifthline.
@@ -120,6 +124,24 @@ var (
 	bleedMs = [4][4]float64{{0, 1.4, 3.1, 5.6}, {1.2, 0, 2.3, 4.1}, {3.4, 2.1, 0, 1.7}, {5.8, 3.9, 1.6, 0}}
 )
 
+// bleed is how far below each player's level, dB, and how late, ms,
+// channel c hears player o: bleedDB and bleedMs, or with a bleedSeed drawn
+// evenly from the ensemble issue's 15–25 dB and 1–6 ms, every pair its own.
+func (e ensembleTake) bleed() (db, ms [4][4]float64) {
+	if e.bleedSeed == 0 {
+		return bleedDB, bleedMs
+	}
+	rng := rand.New(rand.NewPCG(e.bleedSeed, 13))
+	for c := range db {
+		for o := range db[c] {
+			if o != c {
+				db[c][o], ms[c][o] = 15+10*rng.Float64(), 1+5*rng.Float64()
+			}
+		}
+	}
+	return db, ms
+}
+
 // renderedTake is a take on disk: the multitrack with bleed, the same
 // without, and each part alone (mono).
 type renderedTake struct {
@@ -156,12 +178,11 @@ func renderTakeIn(t *testing.T, dir string, take ensembleTake) renderedTake {
 
 // mix writes the multitracks of the lone parts into dir (sox): channel c
 // of the wet take is part c plus every other part o, bleedDB[c][o] down
-// and bleedMs[c][o] late, plus noise[c] when noise is given (raw 32-bit
+// and bleedMs[c][o] late (or as the take's bleedSeed draws), plus noise[c] when noise is given (raw 32-bit
 // float files at 48 kHz, one per channel); the dry take is the parts alone.
 func (r *renderedTake) mix(t *testing.T, dir string, noise []string) {
 	t.Helper()
 	r.wet, r.dry = filepath.Join(dir, "wet.wav"), filepath.Join(dir, "dry.wav")
-	f := func(x float64) string { return strconv.FormatFloat(x, 'f', 4, 64) }
 	wet := append([]string{"-M"}, r.lone...)
 	inputs := len(r.lone) // sox -M numbers the merged inputs' channels from 1
 	add := func(file ...string) string {
@@ -169,6 +190,7 @@ func (r *renderedTake) mix(t *testing.T, dir string, noise []string) {
 		inputs++
 		return strconv.Itoa(inputs)
 	}
+	db, ms := r.bleed()
 	var remix []string
 	for c := range r.lone {
 		mix := []string{strconv.Itoa(c + 1)}
@@ -177,8 +199,8 @@ func (r *renderedTake) mix(t *testing.T, dir string, noise []string) {
 				continue
 			}
 			late := filepath.Join(dir, "late"+strconv.Itoa(c)+strconv.Itoa(o)+".wav")
-			soxTB(t, r.lone[o], late, "pad", f(bleedMs[c][o]/1000))
-			mix = append(mix, add(late)+"v"+strconv.FormatFloat(math.Pow(10, -bleedDB[c][o]/20), 'f', 6, 64))
+			soxTB(t, r.lone[o], late, "pad", strconv.FormatFloat(ms[c][o]/1000, 'f', 6, 64)) // to the microsecond
+			mix = append(mix, add(late)+"v"+strconv.FormatFloat(math.Pow(10, -db[c][o]/20), 'f', 6, 64))
 		}
 		if noise != nil {
 			mix = append(mix, add("-t", "raw", "-e", "floating-point", "-b", "32", "-r", "48000", "-c", "1", noise[c])+"v1")

@@ -1,6 +1,7 @@
 package testsignal
 
 import (
+	"cmp"
 	"slices"
 
 	"fifthline/mts"
@@ -27,6 +28,9 @@ type TimedNote struct {
 	Key            int
 	Start, Seconds float64
 	Cents          float64
+	// Velocity is the note-on's (1–127); 0 plays the takes' usual 96, a
+	// mezzo-forte to forte.
+	Velocity int
 }
 
 // BendCents is the pitch a bend sets, for the 14-bit value BendValue gives
@@ -71,7 +75,7 @@ func MIDIParts(parts []MIDIPart) []byte {
 				b := BendValue(p.Cents + n.Cents)
 				evs = append(evs, event{ticks(n.Start), []byte{0xE0 | byte(ch), byte(b & 0x7f), byte(b >> 7)}})
 			}
-			evs = append(evs, event{ticks(n.Start), []byte{0x90 | byte(ch), byte(n.Key), 96}},
+			evs = append(evs, event{ticks(n.Start), []byte{0x90 | byte(ch), byte(n.Key), byte(cmp.Or(n.Velocity, 96))}},
 				event{ticks(n.Start + n.Seconds), []byte{0x80 | byte(ch), byte(n.Key), 0}})
 		}
 	}
