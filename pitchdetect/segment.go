@@ -312,13 +312,13 @@ func (s *Segmenter) summarise(live bool, next float64) Held {
 	// A slurred note whose frames move one way only has no turn of a
 	// vibrato in them: it is read on to half a Window before the next
 	// note's first frame, as its own frames began half a Window after the
-	// last note's. One still drifting there has no settled part, and its
-	// pitch is its whole sound's. (Cut half a Window before its own end, a
-	// trumpet's sixteenth, rising some 20 ¢ through its length, read its
-	// attack: 2–11 ¢ below the median pitch its sound has; FluidR3,
-	// measured.) A note's last frame, whose window holds the slur, is
-	// pulled toward the next note: one drifting away from it turns back
-	// there and is read as before.
+	// last note's. One still drifting there has no settled part: its pitch
+	// is the median of those frames, its whole sound's. (Cut half a Window
+	// before its own end, a trumpet's sixteenth, rising some 20 ¢ through
+	// its length, read its attack: 2–11 ¢ below the median pitch its sound
+	// has; FluidR3, measured.) A note's last frame, whose window holds the
+	// slur, is pulled toward the next note: one drifting away from it turns
+	// back there and is read as before.
 	drifting := slurred && drifts(fr)
 	for drifting && j < len(fr) && fr[j].Time <= next-s.Window/2 {
 		j++
