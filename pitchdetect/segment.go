@@ -118,6 +118,12 @@ func (s *Segmenter) Push(e Estimate) (Held, bool) {
 		s.outlier, s.hasOut = e, true // wait for a second frame
 		return Held{}, false
 	}
+	if s.readLow(s.outlier) {
+		s.add(s.outlier)
+		s.add(e)
+		s.hasOut = false
+		return Held{}, false
+	}
 	// Two frames agree on a new pitch: the old note ends, a new one starts.
 	first, from, began := s.outlier, s.from, s.frames[0]
 	h, ok := s.finish(first.Time)

@@ -255,6 +255,8 @@ func TestWhatIsAHeldNote(t *testing.T) {
 			[][3]float64{{20, 440, -20}, {4, 0, -20}, {8, 493.88, -20}, {3, 0, -20}, {20, 523.25, -20}}, []float64{440, 493.88, 523.25}},
 		{"a slur read at the period its two notes share is the next note starting",
 			[][3]float64{{20, 392, -20}, {9, 196, -20}, {20, 587.33, -20}}, []float64{392, 587.33}},
+		{"a quick note slurred on up an octave, through frames read as neither, is a note",
+			[][3]float64{{20, 659.26, -20}, {3, 0, -20}, {8, 261.63, -20}, {3, 0, -20}, {20, 523.25, -20}}, []float64{659.26, 261.63, 523.25}},
 	} {
 		hz, level := track(tc.parts...)
 		got := pushAll(hz, level)
