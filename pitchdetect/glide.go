@@ -86,3 +86,24 @@ func glideFrom(c []float64, k int, lo, hi []float64, wlo, whi float64) int {
 func paused(c []float64) bool {
 	return slices.Max(c)-slices.Min(c) <= 2*glideSlack
 }
+
+// drifts reports whether the pitch of the frames fr moves one way only,
+// by glideCents or more from the first, never stepping back more than
+// glideSlack from the furthest it has reached: a glide, settled or not,
+// and not a vibrato, which turns back.
+func drifts(fr []Estimate) bool {
+	if len(fr) < 2 {
+		return false
+	}
+	var lo, hi float64 // cents from the first frame
+	up, down := true, true
+	for _, e := range fr[1:] {
+		c := 1200 * math.Log2(e.Hz/fr[0].Hz)
+		lo, hi = min(lo, c), max(hi, c)
+		up, down = up && c >= hi-glideSlack, down && c <= lo+glideSlack
+		if !up && !down {
+			return false
+		}
+	}
+	return up && hi >= glideCents || down && lo <= -glideCents
+}

@@ -228,3 +228,32 @@ func TestGlideRuleOnAFlutesFrames(t *testing.T) {
 		}
 	}
 }
+
+// A note drifts when its frames move one way only, by glideCents or more,
+// never stepping back more than glideSlack (the detector's jitter) from
+// the furthest they reached: a rise or a fall, or a glide that comes to
+// rest; not a vibrato, which turns back, nor a wavering under glideCents.
+// Tracks in cents a hop apart, about A4 (440 Hz).
+func TestDriftRule(t *testing.T) {
+	for _, c := range []struct {
+		name   string
+		track  []float64
+		drifts bool
+	}{
+		{"rising through", []float64{-10, -8.5, -7, -5, -3, -1, 1, 3, 5, 7, 8.5, 10}, true},
+		{"falling through", []float64{4, 3.9, 3, 1.5, 0, -2.4, -4.5, -5.7, -6.8}, true},
+		{"gliding to rest", []float64{-12, -8, -4, -1, 0, 0.2, 0, 0.1, 0}, true},
+		{"jitter on the way", []float64{-6, -4, -4.2, -2, 0, -0.25, 2}, true},
+		{"vibrato turning back", []float64{-5.7, -2.5, 0.9, 5.6, 10, 11.5, 10.1, 5.5, 1.3, -2.7}, false},
+		{"stepping back 1 ¢ at the end", []float64{-9.5, -8, -6, -4, -2, 0, -1}, false},
+		{"wavering under glideCents", []float64{0, 0.5, 1, 1.5, 2, 2.5}, false},
+	} {
+		fr := make([]Estimate, len(c.track))
+		for i, v := range c.track {
+			fr[i] = Estimate{Time: float64(i) * 512 / 48000, Hz: 440 * math.Exp2(v/1200), Voiced: true}
+		}
+		if got := drifts(fr); got != c.drifts {
+			t.Errorf("%s: drifts %v, want %v", c.name, got, c.drifts)
+		}
+	}
+}

@@ -1,6 +1,10 @@
 package pitchdetect
 
-import "slices"
+import (
+	"cmp"
+	"math"
+	"slices"
+)
 
 // The steady part's margins for a reader other than the Detector
 // (Segmenter.Margin).
@@ -42,4 +46,50 @@ func (s *Segmenter) released(fr []Estimate) float64 {
 		}
 	}
 	return fr[0].Time
+}
+
+// steady returns the frames fr[i:j] timed within lo..hi, else within
+// lo..quick, or for a note too short to have three such frames, the three
+// nearest the middle of lo..quick.
+func steady(fr []Estimate, lo, hi, quick float64) (i, j int) {
+	byTime := func(e Estimate, t float64) int { return cmp.Compare(e.Time, t) }
+	within := func(hi float64) (int, int) {
+		i, _ := slices.BinarySearchFunc(fr, lo, byTime)
+		j, _ := slices.BinarySearchFunc(fr, hi, byTime)
+		for j < len(fr) && fr[j].Time <= hi {
+			j++
+		}
+		return i, j
+	}
+	if len(fr) <= 3 {
+		return 0, len(fr)
+	}
+	if i, j = within(hi); j-i >= 3 {
+		return i, j
+	}
+	if i, j = within(quick); j-i >= 3 {
+		return i, j
+	}
+	m, _ := slices.BinarySearchFunc(fr, (lo+quick)/2, byTime)
+	i = min(max(m-1, 0), len(fr)-3)
+	return i, i + 3
+}
+
+func meanStd(x []float64) (mean, sd float64) {
+	for _, v := range x {
+		mean += v
+	}
+	mean /= float64(len(x))
+	for _, v := range x {
+		sd += (v - mean) * (v - mean)
+	}
+	return mean, math.Sqrt(sd / float64(len(x)))
+}
+
+// median is the median of c.
+func (s *Segmenter) median(c []float64) float64 {
+	s.lohi = append(s.lohi[:0], c...)
+	slices.Sort(s.lohi)
+	n := len(s.lohi)
+	return (s.lohi[(n-1)/2] + s.lohi[n/2]) / 2
 }

@@ -118,6 +118,12 @@ func (s *Segmenter) Push(e Estimate) (Held, bool) {
 		s.outlier, s.hasOut = e, true // wait for a second frame
 		return Held{}, false
 	}
+	if s.readLow(s.outlier) {
+		s.add(s.outlier)
+		s.add(e)
+		s.hasOut = false
+		return Held{}, false
+	}
 	// Two frames agree on a new pitch: the old note ends, a new one starts.
 	first, from, began := s.outlier, s.from, s.frames[0]
 	h, ok := s.finish(first.Time)
@@ -209,7 +215,7 @@ const (
 // span less than its length. (After silence a note is voiced early, while
 // its attack fills part of the window, and needs no such allowance.)
 func (s *Segmenter) finish(next float64) (Held, bool) {
-	h := s.summarise(false, next > 0)
+	h := s.summarise(false, next)
 	length := h.End - h.Start
 	if next > 0 && s.from.hz != 0 { // from the middle of the slur into it
 		length = next - (h.Start+s.from.last)/2
@@ -248,7 +254,7 @@ func (s *Segmenter) Current() (Held, bool) {
 	if len(s.frames) == 0 || s.gap > 0 {
 		return Held{}, false
 	}
-	return s.summarise(true, false), true
+	return s.summarise(true, 0), true
 }
 
 // Flush ends the stream, returning the note still open, if long enough.
@@ -267,8 +273,10 @@ const (
 )
 
 // summarise describes the frames of the open note; live reuses a recent
-// vibrato fit; slurred says the next note follows without a gap.
-func (s *Segmenter) summarise(live, slurred bool) Held {
+// vibrato fit; next is the first frame's time of the note slurred on from
+// it, 0 if none follows without a gap.
+func (s *Segmenter) summarise(live bool, next float64) Held {
+	slurred := next > 0
 	fr := s.frames
 	h := Held{Start: fr[0].Time, End: fr[len(fr)-1].Time, Frames: len(fr)}
 	if live {
@@ -307,6 +315,20 @@ func (s *Segmenter) summarise(live, slurred bool) Held {
 	for long && j < len(fr) && fr[j].Time <= quick {
 		j++
 	}
+	// A slurred note whose frames move one way only has no turn of a
+	// vibrato in them: it is read on to half a Window before the next
+	// note's first frame, as its own frames began half a Window after the
+	// last note's. One still drifting there has no settled part: its pitch
+	// is the median of those frames, its whole sound's. (Cut half a Window
+	// before its own end, a trumpet's sixteenth, rising some 20 ¢ through
+	// its length, read its attack: 2–11 ¢ below the median pitch its sound
+	// has; FluidR3, measured.) A note's last frame, whose window holds the
+	// slur, is pulled toward the next note: one drifting away from it turns
+	// back there and is read as before.
+	drifting := slurred && drifts(fr)
+	for drifting && j < len(fr) && fr[j].Time <= next-s.Window/2 {
+		j++
+	}
 	s.t, s.c = s.t[:0], s.c[:0]
 	for _, e := range fr[i:j] {
 		s.t = append(s.t, e.Time)
@@ -341,6 +363,9 @@ func (s *Segmenter) summarise(live, slurred bool) Held {
 		g = 0
 	}
 	mean, sd := meanStd(s.c[g:])
+	if drifting && g == 0 {
+		mean = s.median(s.c)
+	}
 	h.Spread = sd
 	if h.Settled = h.Start; g < n {
 		h.Settled = s.t[g]
@@ -359,42 +384,4 @@ func (s *Segmenter) summarise(live, slurred bool) Held {
 		h.Hz, h.VibratoWidth, h.VibratoRate = s.vibHz, s.vib.width, s.vib.rate
 	}
 	return h
-}
-
-// steady returns the frames fr[i:j] timed within lo..hi, else within
-// lo..quick, or for a note too short to have three such frames, the three
-// nearest the middle of lo..quick.
-func steady(fr []Estimate, lo, hi, quick float64) (i, j int) {
-	byTime := func(e Estimate, t float64) int { return cmp.Compare(e.Time, t) }
-	within := func(hi float64) (int, int) {
-		i, _ := slices.BinarySearchFunc(fr, lo, byTime)
-		j, _ := slices.BinarySearchFunc(fr, hi, byTime)
-		for j < len(fr) && fr[j].Time <= hi {
-			j++
-		}
-		return i, j
-	}
-	if len(fr) <= 3 {
-		return 0, len(fr)
-	}
-	if i, j = within(hi); j-i >= 3 {
-		return i, j
-	}
-	if i, j = within(quick); j-i >= 3 {
-		return i, j
-	}
-	m, _ := slices.BinarySearchFunc(fr, (lo+quick)/2, byTime)
-	i = min(max(m-1, 0), len(fr)-3)
-	return i, i + 3
-}
-
-func meanStd(x []float64) (mean, sd float64) {
-	for _, v := range x {
-		mean += v
-	}
-	mean /= float64(len(x))
-	for _, v := range x {
-		sd += (v - mean) * (v - mean)
-	}
-	return mean, math.Sqrt(sd / float64(len(x)))
 }

@@ -32,6 +32,25 @@ func TestAnalyzeHearsTheViolinsHighRunAtEveryHopPhase(t *testing.T) {
 	}
 }
 
+// The violin's sixteenths (G3–B4, vibrato from each note's start) at every
+// phase of the hop, as the high runs above: every note heard, in order,
+// and read within the middle 80 % of its sound's pitches (checkLegato); at
+// least 6 of the 16 within legatoCents of their sound's median (measured:
+// 6–10). (Measured before a slurred note's attack read an octave low was
+// taken for its own, see pitchdetect/lowattack.go: the C5 slurred from E5
+// read C4 for most of its frames, and was given out as C4 at one phase
+// and lost at two.)
+func TestAnalyzeHearsTheViolinsSixteenthsAtEveryHopPhase(t *testing.T) {
+	t.Parallel()
+	for _, run := range renderLegatoRuns(t) {
+		if run.name == "violin-0.15s" {
+			analyzeAtEveryHopPhase(t, run, 6)
+			return
+		}
+	}
+	t.Fatal("no run of the violin's sixteenths")
+}
+
 // The flute's eighths at every phase of the hop, as the violin's high runs
 // above. Their C6 (slurred from D6) rises 16 ¢ through its 0.3 s, holding
 // still halfway: a note with no settled part, whose pitch is its median.
