@@ -1,0 +1,258 @@
+package main
+
+import (
+	"context"
+	"math"
+	"os"
+	"path/filepath"
+	"slices"
+	"strconv"
+	"strings"
+	"testing"
+
+	"fifthline/capture"
+	"fifthline/harmony"
+	"fifthline/pitchdetect"
+	"fifthline/session"
+	"fifthline/target"
+)
+
+// voicePedalTake is one microphone's take of a pedal: C3 held 7.4 s from
+// 0.2 s while two voices above it play three chords of 1.6 s, 0.4 s apart,
+// from 0.5 s: C major (E3 G3), F major (F3 A3) and C major again (G3 E4),
+// the pedal going on 1.5 s past the last. Sawtooths sox synthesises at
+// their equal-tempered pitches (A4 = 440 Hz, ISO 16: 440·2^(n/12)), summed
+// onto one channel; our own scenario.
+func voicePedalTake(t *testing.T) (mono string) {
+	t.Helper()
+	parts := [][]soxNote{{{130.8128, 0.2, 7.4, 0.6}}} // C3
+	for _, p := range [][3]float64{
+		{164.8138, 174.6141, 195.9977}, // E3 F3 G3
+		{195.9977, 220.0000, 329.6276}, // G3 A3 E4
+	} {
+		var part []soxNote
+		for k, hz := range p {
+			before, after := 0.4, 0.0
+			if k == 0 {
+				before = 0.5
+			}
+			if k == 2 {
+				after = 2.1
+			}
+			part = append(part, soxNote{hz, before, 1.6, after})
+		}
+		parts = append(parts, part)
+	}
+	_, mono = soxParts(t, parts)
+	return mono
+}
+
+// pedalArgs are the flags both readings of the take share.
+var pedalArgs = []string{"--key", "C major", "--temperament", "equal", "--a4", "440", "--voices", "auto", "--chords"}
+
+// The listening path (hearVoices into liveChords, as listen --plain
+// --voices --chords runs it), fed the take's file: each chord above the
+// pedal is given as it ends, before the next chord's note rows and the
+// pedal's own (the order of what is given, and the stream's time, not a
+// clock), and the chord rows are analyze's of the
+// same file, to the last digit: the same frames, each member read over
+// its chord's own stretch.
+func TestListeningGivesTheChordsAboveAHeldVoiceAsTheyEnd(t *testing.T) {
+	mono := voicePedalTake(t)
+	code, out, stderr := runCLI(t, append(append([]string{"analyze"}, pedalArgs...), mono)...)
+	if code != 0 {
+		t.Fatalf("analyze: exit %d: %s", code, stderr)
+	}
+	var given []string // chords and note rows, in the order given
+	var rows []string
+	var now float64 // the stream's time, the latest frame's
+	var givenAt []float64
+	vo := voiceOptions{max: 4, chords: true, seventh: target.DefaultSeventh}
+	live := vo.liveChords(session.NewTunings(target.Default()), func(c harmony.Chord, voices []int, doubled []bool, _ target.Tuning) error {
+		given = append(given, "chord")
+		givenAt = append(givenAt, now)
+		for _, r := range voiceChordRows(c, voices, doubled) {
+			rows = append(rows, strings.Join(r.record(false), ","))
+		}
+		return nil
+	}, func(n voiceNote) error {
+		given = append(given, "note "+n.Reading.Note.String()+" voice "+strconv.Itoa(n.voice))
+		return nil
+	})
+	moment := vo.onMoment
+	vo.onMoment = func(at, earliest float64, open []openVoice) {
+		now = at
+		moment(at, earliest, open)
+	}
+	w, err := capture.OpenWAVChannel(mono, 1)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer w.Close()
+	if err := hearVoices(context.Background(), w, mono, fixed(target.Default()), vo, func(float64) {}, live.note); err != nil {
+		t.Fatal(err)
+	}
+	if err := live.ready(math.Inf(1), math.Inf(1), nil); err != nil {
+		t.Fatal(err)
+	}
+	file := strings.Split(strings.TrimSpace(out), "\n")[1:]
+	for i := range file {
+		file[i] = strings.TrimSpace(file[i])
+	}
+	if len(file) != 9 || !slices.Equal(rows, file) {
+		t.Errorf("chord rows listening:\n%s\nfrom the file (want 9, three chords of three):\n%s", strings.Join(rows, "\n"), out)
+	}
+	// Each chord before the next chord's notes and the pedal's.
+	if got := pedalOrder(given); got != pedalWant {
+		t.Errorf("given in the order %s, want %s: %v", got, pedalWant, given)
+	}
+	// As each ends: within Reach (a voice lost for a moment may be heard
+	// again until then) and a few looks of the stream after its end, long
+	// before the pedal's (7.6 s).
+	t.Logf("chords given at %.2f s of the stream", givenAt)
+	for i, at := range givenAt {
+		if end := parseF(strings.Split(file[3*i], ",")[1]); at > end+lostSeconds+0.5 {
+			t.Errorf("chord %d, ending at %.2f s, given at %.2f s", i+1, end, at)
+		}
+	}
+}
+
+// pedalWant is the order of the take's note rows and chords as each chord
+// is given as it ends: two notes (one voice's digit each), then their
+// chord (c), three times, and last the pedal.
+const pedalWant = "00c11c22c3"
+
+// pedalOrder writes what was given as pedalWant writes it: each row of the
+// take's notes as the number of its chord (3: the pedal, ? for any other),
+// a chord as c; a chord's several memberships written in a row are one c.
+func pedalOrder(given []string) string {
+	group := map[string]byte{"note E3 voice 2": '0', "note G3 voice 3": '0', "note F3 voice 2": '1', "note A3 voice 3": '1',
+		"note G3 voice 2": '2', "note E4 voice 3": '2', "note C3 voice 1": '3'}
+	var b strings.Builder
+	for i, g := range given {
+		switch {
+		case g == "chord" && (i == 0 || given[i-1] != "chord"):
+			b.WriteByte('c')
+		case g == "chord":
+		case group[g] != 0:
+			b.WriteByte(group[g])
+		default:
+			b.WriteByte('?')
+		}
+	}
+	return b.String()
+}
+
+// The same through a one-channel null sink of the test's own, listen
+// --plain --voices auto --chords: the chord rows are analyze's, the same
+// chords, members, spellings and voices, the cents within 0.5 ¢ (the
+// voices tracked on another frame grid: TestListenPlainVoicesSpellNotesFromTheirChordAsAnalyzeDoes),
+// and the journal has each chord's memberships before the next chord's
+// note rows and the pedal's.
+func TestListenPlainVoicesGiveTheChordsAboveAPedalAsTheyEnd(t *testing.T) {
+	mono := voicePedalTake(t)
+	code, out, stderr := runCLI(t, append(append([]string{"analyze"}, pedalArgs...), mono)...)
+	if code != 0 {
+		t.Fatalf("analyze: exit %d: %s", code, stderr)
+	}
+	journal := filepath.Join(t.TempDir(), "journal.csv")
+	_, env, play := privateMic(t)
+	wait, proc := startPlainProcess(t, env, append(pedalArgs, "--log", journal, "--duration", "60s")...)
+	play(mono)
+	live := interruptPlain(t, proc, wait)
+	key := func(r map[string]string) string {
+		return strings.Join([]string{r["chord"], r["member"], r["note"], r["voice"], r["doubled"]}, " ")
+	}
+	rows, file := readRows(t, live), readRows(t, out)
+	var got, want []string
+	for _, r := range rows {
+		got = append(got, key(r))
+	}
+	for _, r := range file {
+		want = append(want, key(r))
+	}
+	if len(want) != 9 || !slices.Equal(got, want) {
+		t.Fatalf("chord rows live:\n%s\nfrom the file (want 9):\n%s", live, out)
+	}
+	worst := 0.0
+	for i, f := range file {
+		for _, col := range []string{"cents", "just_cents"} {
+			worst = max(worst, math.Abs(parseF(rows[i][col])-parseF(f[col])))
+		}
+	}
+	t.Logf("cents and just_cents live against the file: at most %.3f ¢ apart", worst)
+	if worst > 0.5 {
+		t.Errorf("live readings up to %.3f ¢ from the file's:\n%s\n%s", worst, live, out)
+	}
+	data, err := os.ReadFile(journal)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var given []string
+	for _, r := range readRows(t, string(data)) {
+		if r["heard_chord"] != "" {
+			given = append(given, "chord")
+		} else {
+			given = append(given, "note "+r["note"]+" voice "+r["voice"])
+		}
+	}
+	if got := pedalOrder(given); got != pedalWant {
+		t.Errorf("journaled in the order %s, want %s:\n%s", got, pedalWant, data)
+	}
+}
+
+// A voice lost for a moment under a pedal is bridged while the pedal still
+// sounds, as the file analysis bridges it (bridgeLost: the pedal is the
+// note that holds over the gap), and the chords come before the pedal
+// ends. Our own scenario: C3 held 0–6 s; E4 over it 0.3–1.0 s and, lost
+// for 0.5 s, 1.5–2.2 s; then G4 2.6–4.0 s. Equal temperament from A4 =
+// 440 Hz (ISO 16); each note read at its Hz.
+func TestLiveChordsBridgeAVoiceLostOverAPedal(t *testing.T) {
+	tu := target.Default()
+	const c3, pedalEnd = 130.8128, 6.0
+	var notes []voiceNote
+	for _, n := range []struct {
+		voice        int
+		hz, from, to float64
+	}{{1, c3, 0, pedalEnd}, {2, 329.6276, 0.3, 1.0}, {2, 329.6276, 1.5, 2.2}, {2, 391.9954, 2.6, 4.0}} {
+		notes = append(notes, voiceNote{Event: session.Event{Held: pitchdetect.Held{Start: n.from, End: n.to, Hz: n.hz}, Reading: tu.Classify(n.hz), Tuning: tu}, voice: n.voice})
+	}
+	var want []string
+	for _, c := range chordsOf(slices.Clone(notes), tu, target.DefaultSeventh) {
+		want = append(want, c.Name()+"@"+target.Decimal(c.Start, 2)+"–"+target.Decimal(c.End, 2))
+	}
+	var got []string
+	var givenAt []float64
+	var now float64
+	vo := voiceOptions{chords: true, seventh: target.DefaultSeventh}
+	live := vo.liveChords(session.NewTunings(tu), func(c harmony.Chord, _ []int, _ []bool, _ target.Tuning) error {
+		got, givenAt = append(got, c.Name()+"@"+target.Decimal(c.Start, 2)+"–"+target.Decimal(c.End, 2)), append(givenAt, now)
+		return nil
+	}, func(voiceNote) error { return nil })
+	added := make([]bool, len(notes))
+	for step := 0; step <= 700; step++ {
+		now = float64(step) / 100
+		earliest := now
+		var open []openVoice
+		for k, n := range notes {
+			switch {
+			case !added[k] && n.End < now:
+				live.note(n)
+				added[k] = true
+			case k == 0 && !added[k] && now >= n.Start+0.2: // sure by now
+				open = append(open, openVoice{voice: 1, start: n.Start, through: now, hz: n.Hz})
+			case !added[k] && n.Start <= now:
+				earliest = min(earliest, n.Start)
+			}
+		}
+		live.ready(now, earliest, open)
+	}
+	live.ready(math.Inf(1), math.Inf(1), nil)
+	if len(want) != 2 || !slices.Equal(got, want) {
+		t.Errorf("live %v, from the file %v (want 2: E4 bridged over its gap, then G4)", got, want)
+	}
+	t.Logf("chords given at %v s", givenAt)
+	if len(givenAt) == 2 && givenAt[1] >= pedalEnd {
+		t.Errorf("chords given at %v s, the pedal ending at %.1f s", givenAt, pedalEnd)
+	}
+}
