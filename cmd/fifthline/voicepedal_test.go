@@ -66,15 +66,8 @@ var pedalArgs = []string{"--key", "C major", "--temperament", "equal", "--a4", "
 // digit: the same frames, each member read over its chord's own stretch.
 func TestListeningGivesTheChordsAboveAHeldVoiceAsTheyEnd(t *testing.T) {
 	mono := voicePedalTake(t)
-	code, out, stderr := runCLI(t, append(append([]string{"analyze"}, pedalArgs...), mono)...)
-	if code != 0 {
-		t.Fatalf("analyze: exit %d: %s", code, stderr)
-	}
+	out, file := analyzeRecords(t, mono, true)
 	heard := listenToFile(t, mono, true)
-	file := strings.Split(strings.TrimSpace(out), "\n")[1:]
-	for i := range file {
-		file[i] = strings.TrimSpace(file[i])
-	}
 	if len(file) != 9 || !slices.Equal(heard.chordRows, file) {
 		t.Errorf("chord rows listening:\n%s\nfrom the file (want 9, three chords of three):\n%s", strings.Join(heard.chordRows, "\n"), out)
 	}
@@ -106,15 +99,8 @@ func TestListeningGivesTheChordsAboveAHeldVoiceAsTheyEnd(t *testing.T) {
 // read from its pitch so far, as the chords are without their frames.
 func TestListeningGivesTheNotesAboveAHeldVoiceAsTheyEnd(t *testing.T) {
 	mono := voicePedalTake(t)
-	code, out, stderr := runCLI(t, append(append([]string{"analyze"}, pedalArgs[:len(pedalArgs)-1]...), mono)...)
-	if code != 0 {
-		t.Fatalf("analyze: exit %d: %s", code, stderr)
-	}
+	out, file := analyzeRecords(t, mono, false)
 	heard := listenToFile(t, mono, false)
-	file := strings.Split(strings.TrimSpace(out), "\n")[1:]
-	for i := range file {
-		file[i] = strings.TrimSpace(file[i])
-	}
 	if len(file) != 7 || !slices.Equal(slices.Sorted(slices.Values(heard.noteRows)), slices.Sorted(slices.Values(file))) {
 		t.Errorf("note rows listening:\n%s\nfrom the file (want 7):\n%s", strings.Join(heard.noteRows, "\n"), out)
 	}
@@ -127,6 +113,25 @@ func TestListeningGivesTheNotesAboveAHeldVoiceAsTheyEnd(t *testing.T) {
 			t.Errorf("%s, ending at %.2f s, given at %.2f s", heard.given[i], end, heard.at[i])
 		}
 	}
+}
+
+// analyzeRecords is analyze --voices auto of the take in pedalArgs' tuning
+// (with --chords if chords): its output, and its rows as CSV records.
+func analyzeRecords(t *testing.T, path string, chords bool) (out string, records []string) {
+	t.Helper()
+	args := pedalArgs
+	if !chords {
+		args = slices.DeleteFunc(slices.Clone(args), func(a string) bool { return a == "--chords" })
+	}
+	code, out, stderr := runCLI(t, append(append([]string{"analyze"}, args...), path)...)
+	if code != 0 {
+		t.Fatalf("analyze: exit %d: %s", code, stderr)
+	}
+	records = strings.Split(strings.TrimSpace(out), "\n")[1:]
+	for i := range records {
+		records[i] = strings.TrimSpace(records[i])
+	}
+	return out, records
 }
 
 // heardFile is what the listening path gave, reading a file.
@@ -213,10 +218,7 @@ func pedalOrder(given []string) string {
 // note rows and the pedal's.
 func TestListenPlainVoicesGiveTheChordsAboveAPedalAsTheyEnd(t *testing.T) {
 	mono := voicePedalTake(t)
-	code, out, stderr := runCLI(t, append(append([]string{"analyze"}, pedalArgs...), mono)...)
-	if code != 0 {
-		t.Fatalf("analyze: exit %d: %s", code, stderr)
-	}
+	out, _ := analyzeRecords(t, mono, true)
 	journal := filepath.Join(t.TempDir(), "journal.csv")
 	_, env, play := privateMic(t)
 	wait, proc := startPlainProcess(t, env, append(pedalArgs, "--log", journal, "--duration", "60s")...)
