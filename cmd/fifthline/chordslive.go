@@ -282,6 +282,7 @@ func (v *voiceChords) ready(at, earliest float64, open []openVoice) error {
 	v.asked = earliest
 	sounding := make([]harmony.Note, len(open))
 	for i, o := range open {
+		o.readPitch()
 		who := strconv.Itoa(o.voice)
 		sounding[i] = harmony.Note{Start: o.start, Who: who, Frames: o.frames, Hz: o.hz}
 		v.doubled[voiceStart{who, o.start}] = o.doubled // so far; its note says at its end

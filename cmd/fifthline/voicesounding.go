@@ -20,6 +20,7 @@ type openVoice struct {
 	hz             float64        // its pitch so far: read where it has no frames
 	frames         *harmony.Track // its track's frames, as its note will have
 	doubled        bool           // so far (voiceNote.doubled)
+	track          *track
 }
 
 // moment is, at frame time now, the earliest a note still to come can
@@ -55,9 +56,6 @@ func (tr *tracker) sounding(t *track) (openVoice, bool) {
 		return openVoice{}, false
 	}
 	hz := t.hz // enough to tell octaves and semitones apart
-	if h, ok := t.seg.Current(); ok && t.frames == nil {
-		hz = h.Hz // its chords read it: not a vibrato's one end
-	}
 	for _, d := range tr.done {
 		if d.End >= start && multipitch.OctaveAbove(hz, d.Hz) {
 			return openVoice{}, false
@@ -68,5 +66,18 @@ func (tr *tracker) sounding(t *track) (openVoice, bool) {
 			return openVoice{}, false
 		}
 	}
-	return openVoice{tr.voiceAt(t, start, hz), start, through, hz, t.frames, 2*t.doubled > t.count}, true
+	return openVoice{tr.voiceAt(t, start, hz), start, through, hz, t.frames, 2*t.doubled > t.count, t}, true
+}
+
+// readPitch sets the note's pitch so far to its frames' (the last seconds'
+// mean), not its latest frame's, a vibrato's one end, where its chords
+// read it without frames (without --chords); only when the chords are
+// looked for, as it costs a summary of the note.
+func (o *openVoice) readPitch() {
+	if o.frames != nil || o.track == nil {
+		return
+	}
+	if h, ok := o.track.seg.Current(); ok {
+		o.hz = h.Hz
+	}
 }
