@@ -36,11 +36,11 @@ func (s *Stream) Add(n Note) { s.notes = append(s.notes, n) }
 // Sound says which notes are sounding now, not yet ended (replacing what
 // it said before): a note sure to begin at its Start (pitchdetect's
 // Segmenter.Sounding), its Who and Frames; its End, Note, Hz and Settled
-// are not known yet. The chords above it that end before the horizon are
-// then given without waiting for it to end (a pedal held under a run of
-// chords), each reading it over the chord's own stretch, except the chord
-// it enters on: where its attack settled is known only at its end. It
-// needs Frames, and a Stream without Join.
+// are not known yet (Hz may say its pitch so far, read where it has no
+// Frames). The chords above it that end before the horizon are then given
+// without waiting for it to end (a pedal held under a run of chords), each
+// reading it over the chord's own stretch, except the chord it enters on:
+// where its attack settled is known only at its end.
 func (s *Stream) Sound(notes []Note) { s.sounding = append(s.sounding[:0], notes...) }
 
 // From is the earliest time a chord still to be given can read frames
@@ -77,12 +77,14 @@ func (s *Stream) Ready(horizon float64, tuning func(at float64) target.Tuning) (
 	if horizon <= s.from {
 		return nil, nil
 	}
-	notes := s.notes
+	// The sounding notes are joined with the others: the pedal under a
+	// chord is what holds a voice's two pieces together (bridgeLost).
+	notes, horizon := s.withSounding(s.notes, horizon)
+	if horizon <= s.from {
+		return nil, nil
+	}
 	if s.Join != nil {
 		notes = s.Join(notes)
-	}
-	if notes, horizon = s.withSounding(notes, horizon); horizon <= s.from {
-		return nil, nil
 	}
 	cuts := []float64{s.from, horizon}
 	for _, n := range notes {
@@ -132,7 +134,10 @@ func (s *Stream) Ready(horizon float64, tuning func(at float64) target.Tuning) (
 // withSounding adds the sounding notes to notes, lasting past any horizon
 // (End +Inf). Where one begins just as its player's last note ended, the
 // two may join one chord or not as its name, still unknown, decides: the
-// horizon is held at its start.
+// horizon is held at its start. With Join, a note that ended less than
+// Reach before one begins, near its pitch so far, may be joined to it as
+// its name decides: the horizon is held as for a note still to come
+// beginning there.
 func (s *Stream) withSounding(notes []Note, horizon float64) ([]Note, float64) {
 	if len(s.sounding) == 0 {
 		return notes, horizon
@@ -142,8 +147,27 @@ func (s *Stream) withSounding(notes []Note, horizon float64) ([]Note, float64) {
 		if slices.ContainsFunc(notes, func(o Note) bool { return o.Who == n.Who && o.End == n.Start }) {
 			horizon = min(horizon, n.Start)
 		}
+		if s.Join != nil && slices.ContainsFunc(notes, func(o Note) bool { return mayJoin(o, n, s.Reach) }) {
+			horizon = min(horizon, n.Start-s.Reach)
+		}
 		n.End = math.Inf(1)
 		notes = append(notes, n)
 	}
 	return notes, horizon
+}
+
+// sameCents is how near a note heard again lies to its pitch before: a
+// held note goes on within 50 ¢ of its recent pitch (pitchdetect's
+// Segmenter.JumpCents). A semitone's step (E3 to F3 over a pedal) is
+// another note.
+const sameCents = 50
+
+// mayJoin: sounding note n may turn out to be o heard again (Join): o
+// ended less than reach before n began, and n's pitch so far, where told,
+// is within sameCents of o's.
+func mayJoin(o, n Note, reach float64) bool {
+	if o.End > n.Start || o.End <= n.Start-reach {
+		return false
+	}
+	return n.Hz <= 0 || o.Hz <= 0 || math.Abs(1200*math.Log2(n.Hz/o.Hz)) < sameCents
 }

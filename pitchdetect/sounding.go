@@ -19,11 +19,13 @@ func (s *Segmenter) Sounding() (start, through float64, ok bool) {
 	}
 	// finish's echo rule, whatever the note's pitch turns out to be: an
 	// echo starts quietly soon after the last note's end and never rises.
+	// Before any note there is none to echo (a steady note heard from the
+	// stream's first quarter second on is not one).
 	first, peak := s.frames[0].Level, s.frames[0].Level
 	for _, e := range s.frames {
 		peak = max(peak, e.Level)
 	}
-	if s.from.hz == 0 && start-s.prev.end < echoGap && first < s.prev.level-echoDB && peak <= first+1 {
+	if s.prev.hz > 0 && s.from.hz == 0 && start-s.prev.end < echoGap && first < s.prev.level-echoDB && peak <= first+1 {
 		return 0, 0, false
 	}
 	return start, through, true

@@ -65,3 +65,18 @@ func TestASoundingNoteIsGivenWhereItBegan(t *testing.T) {
 		t.Errorf("only %d promises made over the tracks", promised)
 	}
 }
+
+// The first note of a stream is no echo: a steady A4 heard from 0.1 s on,
+// as a microphone hears a held note that began as listening did, is
+// sounding once it is long enough to count, not only when it ends (our own
+// scenario).
+func TestTheFirstNoteOfAStreamIsSounding(t *testing.T) {
+	hz, level := track([3]float64{10, 0, -60}, [3]float64{100, 440, -20})
+	s := NewSegmenter(0.01)
+	for i := range hz {
+		s.Push(Estimate{Time: float64(i) * 0.01, Hz: hz[i], Voiced: hz[i] > 0, Confidence: 1, Level: level[i]})
+	}
+	if start, through, ok := s.Sounding(); !ok || start != 0.1 || through < 1.0 {
+		t.Errorf("sounding from %.2f s through %.2f s (%v), want from 0.10 s through 1.09 s", start, through, ok)
+	}
+}

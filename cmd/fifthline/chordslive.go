@@ -259,28 +259,35 @@ func (vo *voiceOptions) liveChords(tunings *session.Tunings, emit func(harmony.C
 		joined, _ := bridgeLost(ns)
 		return joined
 	}}
-	vo.onMoment = func(at, earliest float64) { v.ready(at, earliest) }
+	vo.onMoment = func(at, earliest float64, open []openVoice) { v.ready(at, earliest, open) }
 	return v
 }
 
 func (v *voiceChords) note(n voiceNote) error {
 	v.rows.add(n)
 	who := strconv.Itoa(n.voice)
-	v.stream.Add(harmony.Note{Start: n.Start, End: n.End, Who: who, Note: n.Reading.Note, Frames: n.frames, Hz: n.Hz})
-	if n.doubled {
-		v.doubled[voiceStart{who, n.Start}] = true
-	}
+	v.stream.Add(harmony.Note{Start: n.Start, End: n.End, Who: who, Note: n.Reading.Note, Frames: n.frames, Hz: n.Hz, Settled: n.Settled})
+	v.doubled[voiceStart{who, n.Start}] = n.doubled
 	return v.err
 }
 
 // ready emits the chords of the notes that no note to come (starting at
-// or after earliest; +Inf at the end) can change.
-func (v *voiceChords) ready(at, earliest float64) error {
+// or after earliest; +Inf at the end) can change, the voices' notes still
+// sounding (open) read over each chord's stretch as they will be.
+func (v *voiceChords) ready(at, earliest float64, open []openVoice) error {
 	v.tunings.moment(at)
 	if !math.IsInf(earliest, 1) && earliest < v.asked+readyEvery {
 		return v.err
 	}
 	v.asked = earliest
+	sounding := make([]harmony.Note, len(open))
+	for i, o := range open {
+		o.readPitch()
+		who := strconv.Itoa(o.voice)
+		sounding[i] = harmony.Note{Start: o.start, Who: who, Frames: o.frames, Hz: o.hz}
+		v.doubled[voiceStart{who, o.start}] = o.doubled // so far; its note says at its end
+	}
+	v.stream.Sound(sounding)
 	chords, notes := v.stream.Ready(earliest, v.tunings.in)
 	chords = slices.DeleteFunc(chords, func(c harmony.Chord) bool {
 		return !v.left.names(c, v.tunings.in(c.End), v.stream.Seventh) // named from what is left of it (voicebeyond.go)
@@ -310,6 +317,11 @@ func (v *voiceChords) ready(at, earliest float64) error {
 	v.tunings.forget(from)
 	v.left.forget(from)
 	maps.DeleteFunc(v.doubled, func(n voiceStart, _ bool) bool { return n.start < from })
+	for _, o := range open {
+		if o.frames != nil {
+			o.frames.Forget(from) // the notes given forget theirs (Stream.Ready)
+		}
+	}
 	return v.err
 }
 

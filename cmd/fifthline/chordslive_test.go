@@ -58,10 +58,10 @@ func TestLiveVoiceChordsAreTheFilesChords(t *testing.T) {
 		for _, later := range byEnd[i+1:] {
 			earliest = min(earliest, later.Start)
 		}
-		live.ready(n.End, earliest)
+		live.ready(n.End, earliest, nil)
 	}
 	early := len(got)
-	live.ready(math.Inf(1), math.Inf(1))
+	live.ready(math.Inf(1), math.Inf(1), nil)
 	if len(want) != 10 || !slices.Equal(got, want) {
 		t.Errorf("live %v, from the file %v (want 10: C major and A open fifth, five times)", got, want)
 	}

@@ -112,7 +112,7 @@ func voicesMeter(ctx context.Context, src source.Source, tunings *session.Tuning
 	err := showMeter(ctx, m, func(ctx context.Context) error {
 		return hearVoices(ctx, src, ms.name, tunings.Get, vo, func(float64) {}, chords.note)
 	})
-	chords.ready(math.Inf(1), math.Inf(1)) // the chords and notes still open when listening stopped
+	chords.ready(math.Inf(1), math.Inf(1), nil) // the chords and notes still open when listening stopped
 	return err
 }
 

@@ -131,7 +131,7 @@ func TestLiveVoiceChordRowsCarryTheDoubling(t *testing.T) {
 	for i, hz := range []float64{130.8128, 164.8138, 195.9977} {
 		live.note(voiceNote{Event: session.Event{Held: pitchdetect.Held{Start: 0, End: 2, Hz: hz}, Reading: tu.Classify(hz), Tuning: tu}, voice: i + 1, doubled: i == 0})
 	}
-	live.ready(math.Inf(1), math.Inf(1))
+	live.ready(math.Inf(1), math.Inf(1), nil)
 	if want := []string{"C3 true", "E3 false", "G3 false"}; !equalStrings(got, want) {
 		t.Errorf("chord rows %v, want %v", got, want)
 	}
@@ -164,7 +164,7 @@ func TestLiveChordsOfFewerVoicesThanSound(t *testing.T) {
 		for i, v := range kept {
 			live.note(voiceNote{Event: session.Event{Held: pitchdetect.Held{Start: 0, End: 2, Hz: v.Hz}, Reading: tu.Classify(v.Hz), Tuning: tu}, voice: i + 1})
 		}
-		live.ready(math.Inf(1), math.Inf(1))
+		live.ready(math.Inf(1), math.Inf(1), nil)
 		if strings.Join(got, ",") != tc.want {
 			t.Errorf("%s: chords %q, want %q", tc.name, got, tc.want)
 		}

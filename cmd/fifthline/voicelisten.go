@@ -52,5 +52,5 @@ func listenVoices(ctx context.Context, e *env, src source.Source, name string, t
 	})
 	err := hearVoices(ctx, src, name, fixed(tu), vo, func(float64) {}, chords.note)
 	// The chords and rows still open when listening stopped.
-	return cmp.Or(err, chords.ready(math.Inf(1), math.Inf(1)), w.Error())
+	return cmp.Or(err, chords.ready(math.Inf(1), math.Inf(1), nil), w.Error())
 }

@@ -52,9 +52,10 @@ type voiceOptions struct {
 	chords  bool
 	seventh float64
 	onFrame func(multipitch.Frame) // if set, sees every frame (the meter)
-	// onMoment, if set, follows every frame: its time, and the earliest a
-	// note still to come can start (for the chords heard live).
-	onMoment func(at, earliest float64)
+	// onMoment, if set, follows every frame: its time, the earliest a
+	// note still to come can start, and the voices' notes still sounding
+	// (for the chords heard live).
+	onMoment func(at, earliest float64, open []openVoice)
 	// left, if set, caps the frames to max voices and keeps what it left
 	// out (a file's chords are checked against it); else they are capped
 	// alone.
@@ -230,7 +231,8 @@ func hearVoices(ctx context.Context, src source.Source, name string, tuning func
 				vo.onFrame(f)
 			}
 			if vo.onMoment != nil {
-				vo.onMoment(f.Time, tr.earliest(f.Time))
+				earliest, open := tr.moment(f.Time)
+				vo.onMoment(f.Time, earliest, open)
 			}
 		})
 		if rerr != nil {

@@ -192,42 +192,32 @@ func (tr *tracker) deliver(t *track, h pitchdetect.Held) {
 		t.delivered = true // no voice: not counted as one either
 		return
 	}
-	// Voice 1 is the lowest sounding at the note's start: among the notes
-	// given out and the tracks held long enough to be notes, not the
-	// passing readings of an onset.
-	// Voices struck together are heard a hop or two apart; within half a
-	// window they count as sounding at the note's start.
-	together := tr.window / 2
-	voice := 1
-	for _, d := range tr.done {
-		if d.Start <= h.Start+together && d.End >= h.Start && d.Hz < h.Hz {
-			voice++
-		}
-	}
-	for _, o := range tr.tracks {
-		if o != t && !o.delivered && o.start <= h.Start+together && o.count >= o.seg.MinFrames && o.hz < h.Hz && !o.onPartials() {
-			voice++
-		}
-	}
+	voice := tr.voiceAt(t, h.Start, h.Hz)
 	t.delivered = true
 	tr.done = append(slices.DeleteFunc(tr.done, func(d doneNote) bool { return d.End < h.Start-60 }), doneNote{h, t.level()})
 	tu := tr.tuning()
 	tr.give(voiceNote{session.Event{Source: tr.name, Held: h, Reading: tu.Classify(h.Hz), Tuning: tu}, voice, 2*t.doubled > t.count, t.frames})
 }
 
-// earliest is the earliest a note still to come can start, at frame time
-// now: a track's next note starts at or after its first frame and after
-// its last note, a track still to come starts after now, and a note
-// waiting for a lost voice's (give) at its start.
-func (tr *tracker) earliest(now float64) float64 {
-	e := now
-	for _, t := range tr.tracks {
-		e = min(e, max(t.start, t.ended))
+// voiceAt is the number of track t's note beginning at start at pitch hz.
+// Voice 1 is the lowest sounding at the note's start: among the notes
+// given out and the tracks held long enough to be notes, not the passing
+// readings of an onset. Voices struck together are heard a hop or two
+// apart; within half a window they count as sounding at the note's start.
+func (tr *tracker) voiceAt(t *track, start, hz float64) int {
+	together := tr.window / 2
+	voice := 1
+	for _, d := range tr.done {
+		if d.Start <= start+together && d.End >= start && d.Hz < hz {
+			voice++
+		}
 	}
-	for _, n := range tr.waiting {
-		e = min(e, n.Start)
+	for _, o := range tr.tracks {
+		if o != t && !o.delivered && o.start <= start+together && o.count >= o.seg.MinFrames && o.hz < hz && !o.onPartials() {
+			voice++
+		}
 	}
-	return e
+	return voice
 }
 
 // doneNote is a note given out, with its track's mean power.
