@@ -25,8 +25,9 @@ import (
 //	go test -run XXX -bench ListenPlayersPlainLive -benchtime 1x ./cmd/fifthline/
 //
 // onset→reading: from the moment a note's first samples reached the
-// input's converter (the first 5.3 ms chunk of the captured channel louder
-// than -30 dBFS after quiet, timed by PortAudio's inputBufferAdcTime) to
+// input's converter (found in the captured channel: the 2.7 ms chunk where
+// its rise above -24 dBFS after quiet began, timing.go; timed by
+// PortAudio's inputBufferAdcTime) to
 // the moment the first frame of that player's channel read at the note's
 // pitch (within 50 ¢) was written, on PortAudio's stream clock, as
 // FIFTHLINE_TIMING logs them. Beside it, the old upper bound (from paplay's

@@ -116,33 +116,44 @@ func (t *timingLog) close() {
 }
 
 // An onset in the captured samples, for the timing log: a chunk of
-// onsetChunk frames (5.3 ms at 48 kHz) louder than onsetDBFS after at least
-// onsetQuiet seconds of chunks at or below it. The live benchmark's notes
-// sound at -17 dBFS and the others' bleed at -35 dBFS or less, and its
-// shortest rest is 0.3 s; its notes' 20 ms fade-in passes -30 dBFS 4.5 ms
-// in, so an onset is found within a chunk of where it starts.
+// onsetChunk frames (2.7 ms at 48 kHz) louder than onsetDBFS after at
+// least onsetQuiet seconds of chunks at or below it, moved back to where
+// its rise began (the earliest of the chunks before it each onsetRise
+// louder than the one before, up to onsetBack chunks). The live
+// benchmark's notes sound at -17 dBFS and the others' bleed sums to
+// -27 dBFS at the most, and its shortest rest is 0.3 s; its notes fade in
+// over 20 ms, rising about 5 dB a chunk, so an onset is found within a
+// chunk or two of where it starts.
 const (
-	onsetChunk = 256
-	onsetDBFS  = -30.0
+	onsetChunk = 128
+	onsetDBFS  = -24.0
 	onsetQuiet = 0.2
+	onsetRise  = 3.0 // dB
+	onsetBack  = 8
 )
 
 // onsetFinder reads channels in step, in reads of any length, chunk by
 // chunk.
 type onsetFinder struct {
-	frame int64     // frames fed
-	quiet int64     // frames of quiet chunks wanted before an onset
-	sums  []float64 // each channel's sum of squares in the current chunk
-	still []int64   // each channel's frames of quiet chunks just before it
+	frame int64       // frames fed
+	quiet int64       // frames of quiet chunks wanted before an onset
+	sums  []float64   // each channel's sum of squares in the current chunk
+	still []int64     // each channel's frames of quiet chunks just before it
+	last  [][]float64 // each channel's latest chunk levels, dBFS, oldest first
 }
 
 func newOnsetFinder(rate float64, channels int) *onsetFinder {
-	return &onsetFinder{quiet: int64(math.Ceil(onsetQuiet * rate)), sums: make([]float64, channels), still: make([]int64, channels)}
+	f := &onsetFinder{quiet: int64(math.Ceil(onsetQuiet * rate)), sums: make([]float64, channels),
+		still: make([]int64, channels), last: make([][]float64, channels)}
+	for c := range f.last {
+		f.last[c] = make([]float64, 0, onsetBack+1)
+	}
+	return f
 }
 
 // feed takes n frames of each channel and calls onset for each onset
-// found: the channel, the frame starting the chunk counted over all feeds,
-// and the chunk's level.
+// found: the channel, the frame starting the chunk where it began counted
+// over all feeds, and that chunk's level.
 func (f *onsetFinder) feed(chans [][]float32, n int, onset func(ch int, frame int64, dbfs float64)) {
 	for i := 0; i < n; {
 		k := min(n-i, onsetChunk-int(f.frame%onsetChunk))
@@ -156,12 +167,21 @@ func (f *onsetFinder) feed(chans [][]float32, n int, onset func(ch int, frame in
 			continue
 		}
 		for c, sum := range f.sums {
-			dbfs := 10 * math.Log10(sum/onsetChunk)
-			if dbfs <= onsetDBFS { // -Inf for digital silence
+			dbfs := 10 * math.Log10(sum/onsetChunk) // -Inf for digital silence
+			if l := f.last[c]; len(l) > onsetBack {
+				f.last[c] = append(l[:copy(l, l[1:])], dbfs)
+			} else {
+				f.last[c] = append(l, dbfs)
+			}
+			if dbfs <= onsetDBFS {
 				f.still[c] += onsetChunk
 			} else {
 				if f.still[c] >= f.quiet {
-					onset(c, f.frame-onsetChunk, dbfs)
+					j, l := len(f.last[c])-1, f.last[c]
+					for j > 1 && l[j-1]-l[j-2] >= onsetRise { // NaN from silence to silence
+						j--
+					}
+					onset(c, f.frame-int64(len(l)-j)*onsetChunk, l[j])
 				}
 				f.still[c] = 0
 			}
