@@ -147,6 +147,7 @@ func newOnsetFinder(rate float64, channels int) *onsetFinder {
 		still: make([]int64, channels), last: make([][]float64, channels)}
 	for c := range f.last {
 		f.last[c] = make([]float64, 0, onsetBack+1)
+		f.still[c] = f.quiet // the stream's start counts as after quiet
 	}
 	return f
 }

@@ -22,7 +22,8 @@ func TestOnsetFinderFindsNotesAfterQuiet(t *testing.T) {
 	}
 	total := 2 * rate
 	chans := [][]float32{make([]float32, total), make([]float32, total), make([]float32, total)}
-	sine(chans[0], 30000, 60000, -17) // 0.625 s in: after 0.625 s of silence
+	sine(chans[0], 0, 1000, -17)      // at once: the stream's start counts as quiet
+	sine(chans[0], 30000, 60000, -17) // 0.625 s in: after 0.6 s of silence
 	sine(chans[0], 65000, 90000, -17) // after 0.1 s of rest: no onset
 	sine(chans[1], 0, total, -37)     // bleed all along
 	sine(chans[1], 50000, 80000, -17) // a note over the bleed
@@ -50,7 +51,7 @@ func TestOnsetFinderFindsNotesAfterQuiet(t *testing.T) {
 	// 49920, which hold 80 frames of the notes: -19.0 and -21.7 dBFS.
 	// The faded note passes -24 dBFS 8.6 ms in, at frame 40414; its rise
 	// began in the chunk starting at 39936.
-	want := []onset{{0, 29952}, {2, 39936}, {1, 49920}}
+	want := []onset{{0, 0}, {0, 29952}, {2, 39936}, {1, 49920}}
 	if !slices.Equal(got, want) {
 		t.Errorf("onsets %v, want %v", got, want)
 	}
