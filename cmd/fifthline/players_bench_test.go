@@ -211,7 +211,9 @@ func measurePlayersLive(b *testing.B, meter bool) {
 	take := quartetCycleWAV(b, cycles)
 	timing := filepath.Join(b.TempDir(), "timing.csv")
 	l := startPlayersListener(b, meter, []string{"FIFTHLINE_TIMING=" + timing, "PULSE_SOURCE=" + mic.Source, "PULSE_SINK=" + mic.Sink})
-	time.Sleep(500 * time.Millisecond) // the stream settles
+	// The stream settles: through the ALSA pulse plugin its first second's
+	// converter times run up to 0.6 s early (measured; device.ADCTime).
+	time.Sleep(2 * time.Second)
 	started := time.Now()
 	reportCost(b, l.pid, func() {
 		if err := mic.PlayChannels(take)(); err != nil {
@@ -233,9 +235,19 @@ func measurePlayersLive(b *testing.B, meter bool) {
 	b.ReportMetric(slices.Max(lat.played), "played→reading_max_ms")
 	b.ReportMetric(median(lat.detection), "detection_ms")
 	b.ReportMetric(slices.Max(lat.detection), "detection_max_ms")
+	// The machine's load beside the figures: other work on the cores
+	// delays the readings.
 	if load, err := os.ReadFile("/proc/loadavg"); err == nil {
-		b.Logf("load average: %s", strings.TrimSpace(string(load)))
+		if f := strings.Fields(string(load)); len(f) > 0 {
+			b.ReportMetric(parseNum(f[0]), "load_avg")
+		}
 	}
+}
+
+// parseNum is s as a number, 0 if it is none.
+func parseNum(s string) float64 {
+	x, _ := strconv.ParseFloat(s, 64)
+	return x
 }
 
 // noteLatencies are each note's delays in ms, in the take's order: from its
@@ -261,18 +273,17 @@ func playerLatencies(b *testing.B, path string, played time.Time, cycles int) no
 	names := strings.Split(cyclePlayers, ",")
 	frames := make([][]frame, len(names))
 	onsets := make([][]onset, len(names))
-	num := func(s string) float64 { x, _ := strconv.ParseFloat(s, 64); return x }
 	for _, r := range recs {
 		p := slices.Index(names, r[7])
 		if p < 0 {
 			continue
 		}
 		if r[9] != "" {
-			onsets[p] = append(onsets[p], onset{num(r[1]), num(r[9])})
+			onsets[p] = append(onsets[p], onset{parseNum(r[1]), parseNum(r[9])})
 			continue
 		}
 		ns, _ := strconv.ParseInt(r[0], 10, 64)
-		frames[p] = append(frames[p], frame{time.Unix(0, ns), num(r[1]), num(r[2]), num(r[3]), r[4] == "true", num(r[8])})
+		frames[p] = append(frames[p], frame{time.Unix(0, ns), parseNum(r[1]), parseNum(r[2]), parseNum(r[3]), r[4] == "true", parseNum(r[8])})
 	}
 	ms := func(d time.Duration) float64 { return float64(d) / float64(time.Millisecond) }
 	// lag is how far behind its place in the stream a frame left the
