@@ -27,10 +27,9 @@ import (
 // onset→reading: from the moment a note's first samples reached the
 // input's converter (found in the captured channel: the 2.7 ms chunk where
 // its rise above -24 dBFS after quiet began, timing.go; timed by
-// PortAudio's inputBufferAdcTime) to
-// the moment the first frame of that player's channel read at the note's
-// pitch (within 50 ¢) was written, on PortAudio's stream clock, as
-// FIFTHLINE_TIMING logs them. Beside it, the old upper bound (from paplay's
+// PortAudio's inputBufferAdcTime) to the moment the first frame of that
+// player's channel read at the note's pitch (within 50 ¢) was written, on
+// PortAudio's stream clock, as FIFTHLINE_TIMING logs them. Beside it, the old upper bound (from paplay's
 // start plus the note's offset in the file, so PulseAudio's playback
 // start-up included) and detection (first loud frame → first reading).
 func BenchmarkListenPlayersPlainLive(b *testing.B) {
