@@ -59,6 +59,7 @@ type Input struct {
 	stall    time.Duration
 	one      [1][]float32 // Read's single destination, kept to spare an allocation
 	done     chan struct{}
+	clock    sync.Mutex // StreamTime asks the stream, so not while it closes
 	closing  sync.Once
 	closeErr error
 }
@@ -175,6 +176,8 @@ func (in *Input) ReadChannels(dst [][]float32) (int, error) {
 // goroutine returns. Closing twice is harmless.
 func (in *Input) Close() error {
 	in.closing.Do(func() {
+		in.clock.Lock()
+		defer in.clock.Unlock()
 		close(in.done)
 		in.closeErr = in.stream.close(true)
 	})

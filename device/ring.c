@@ -120,10 +120,38 @@ void fl_ring_take(fl_ring *q, float *out, unsigned long frames) {
 	if (w - r - n < __atomic_load_n(&q->low, __ATOMIC_RELAXED)) wake(q);
 }
 
+// fl_ring_time notes, before a callback's block is delivered, when its
+// first frame reached the converter. Every block is noted, not only the
+// first: through the ALSA pulse plugin the first second's times run
+// 0.6 s early, then settle (measured).
+void fl_ring_time(fl_ring *q, double adc) {
+	int64_t frame = __atomic_load_n(&q->w, __ATOMIC_RELAXED) / q->keep;
+	uint32_t seq = __atomic_load_n(&q->anchor_seq, __ATOMIC_RELAXED);
+	__atomic_store_n(&q->anchor_seq, seq + 1, __ATOMIC_RELAXED);
+	__atomic_thread_fence(__ATOMIC_RELEASE);
+	__atomic_store_n(&q->anchor_frame, frame, __ATOMIC_RELAXED);
+	__atomic_store(&q->anchor_adc, &adc, __ATOMIC_RELAXED);
+	__atomic_store_n(&q->anchor_seq, seq + 2, __ATOMIC_RELEASE);
+}
+
+// fl_ring_anchor reads the latest block's frame and time, consistent with
+// each other; 0 before the first block.
+int fl_ring_anchor(fl_ring *q, int64_t *frame, double *adc) {
+	for (;;) {
+		uint32_t seq = __atomic_load_n(&q->anchor_seq, __ATOMIC_ACQUIRE);
+		if (seq == 0) return 0;
+		if (seq & 1) continue; // the audio thread is writing them
+		*frame = __atomic_load_n(&q->anchor_frame, __ATOMIC_RELAXED);
+		__atomic_load(&q->anchor_adc, adc, __ATOMIC_RELAXED);
+		__atomic_thread_fence(__ATOMIC_ACQUIRE);
+		if (__atomic_load_n(&q->anchor_seq, __ATOMIC_RELAXED) == seq) return 1;
+	}
+}
+
 static int input_callback(const void *in, void *out, unsigned long frames,
 	const PaStreamCallbackTimeInfo *t, PaStreamCallbackFlags flags, void *user) {
 	(void)out;
-	(void)t;
+	if (in && frames) fl_ring_time(user, t->inputBufferAdcTime);
 	fl_ring_deliver(user, in, frames, (flags & paInputOverflow) != 0);
 	return paContinue;
 }

@@ -32,6 +32,13 @@ typedef struct {
 	float clip;              // magnitude counted as clipping
 	fl_a64 uint64_t blocks, overflows, dropped, dropped_samples, clipped;
 	fl_a64 int64_t last_ns;  // CLOCK_REALTIME of the last callback
+	// The latest callback's first frame (counted in frames kept) and when
+	// it reached the converter on PortAudio's stream clock
+	// (inputBufferAdcTime), under a sequence count that is odd while they
+	// change and 0 before the first.
+	fl_a64 int64_t anchor_frame;
+	double anchor_adc;
+	uint32_t anchor_seq;
 	// Output: wake the writer when fewer than low samples wait; count
 	// callbacks that found too little once it has filled the ring.
 	fl_a64 int64_t low;
@@ -43,6 +50,8 @@ fl_ring *fl_ring_new(int64_t cap, int channels, int fd);
 void fl_ring_free(fl_ring *q);
 int fl_ring_write(fl_ring *q, const float *p, int64_t n);
 void fl_ring_deliver(fl_ring *q, const float *in, unsigned long frames, int overflow);
+void fl_ring_time(fl_ring *q, double adc);
+int fl_ring_anchor(fl_ring *q, int64_t *frame, double *adc);
 void fl_ring_take(fl_ring *q, float *out, unsigned long frames);
 PaError fl_open(PaStream **s, fl_ring *q, int input, int device, int channels,
 	double latency, double rate, unsigned long frames, unsigned long flags);

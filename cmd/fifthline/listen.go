@@ -8,7 +8,6 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
-	"strconv"
 	"strings"
 	"time"
 
@@ -17,7 +16,6 @@ import (
 	"fifthline/capture"
 	"fifthline/device"
 	"fifthline/drone"
-	"fifthline/pitchdetect"
 	"fifthline/session"
 	"fifthline/source"
 	"fifthline/ui"
@@ -291,52 +289,4 @@ func muteLibraries(e *env) (*env, func(), error) {
 		restore()
 		keep.Close()
 	}, nil
-}
-
-// timingLog is a debugging aid for measuring latency: with FIFTHLINE_TIMING
-// set to a file name, listen --plain writes one CSV line per analysis frame
-// with the wall-clock time it left the pipeline, so a test can compare it
-// with the moment a sound was played into the virtual microphone. With
-// --players each player's frames are logged, named in the player column.
-type timingLog struct {
-	f *os.File
-	w *csv.Writer
-}
-
-func openTiming(rate float64) (*timingLog, error) {
-	path := os.Getenv("FIFTHLINE_TIMING")
-	if path == "" {
-		return &timingLog{}, nil
-	}
-	f, err := os.Create(path)
-	if err != nil {
-		return nil, fmt.Errorf("FIFTHLINE_TIMING: %w", err)
-	}
-	t := &timingLog{f: f, w: csv.NewWriter(f)}
-	t.w.Write([]string{"wall_unix_ns", "time_s", "hz", "level_dbfs", "voiced", "holding", "rate", "player"})
-	t.w.Write([]string{strconv.FormatInt(time.Now().UnixNano(), 10), "", "", "", "", "", strconv.FormatFloat(rate, 'f', -1, 64), ""})
-	return t, nil
-}
-
-func (t *timingLog) frame(f session.Frame) { t.write(f.Estimate, strconv.FormatBool(f.Holding), "") }
-
-// playerFrame logs one player's frame as ensemble reads it, before the
-// segmenter: holding is left empty.
-func (t *timingLog) playerFrame(player string, e pitchdetect.Estimate) { t.write(e, "", player) }
-
-func (t *timingLog) write(e pitchdetect.Estimate, holding, player string) {
-	if t.f == nil {
-		return
-	}
-	t.w.Write([]string{strconv.FormatInt(time.Now().UnixNano(), 10), strconv.FormatFloat(e.Time, 'f', 4, 64),
-		strconv.FormatFloat(e.Hz, 'f', 2, 64), strconv.FormatFloat(e.Level, 'f', 1, 64),
-		strconv.FormatBool(e.Voiced), holding, "", player})
-	t.w.Flush()
-}
-
-func (t *timingLog) close() {
-	if t.f != nil {
-		t.w.Flush()
-		t.f.Close()
-	}
 }

@@ -356,7 +356,11 @@ func listenPlayers(ctx context.Context, e *env, src *capture.Input, name string,
 			chords.frame(i, est)
 		},
 		OnSounding: chords.sound}
-	err = ensemble.Run(ctx, src, o)
+	byChannel := make([]string, src.Channels())
+	for _, p := range po.players {
+		byChannel[p.Channel] = p.Name
+	}
+	err = ensemble.Run(ctx, timing.withClock(src, src, byChannel), o)
 	// The chords and rows still open when listening stopped.
 	return cmp.Or(err, chords.ready(true), w.Error())
 }
