@@ -35,6 +35,11 @@ func TestVoicesAndChordMembershipsInTheJournal(t *testing.T) {
 			t.Fatal(err)
 		}
 	}
+	// The meter's journal line counts the chord as a chord, not its
+	// membership rows as notes.
+	if s := w.Status(); s != "journal: 1 note, 1 chord → "+path {
+		t.Errorf("Status %q", s)
+	}
 	if err := w.Close(); err != nil {
 		t.Fatal(err)
 	}

@@ -62,23 +62,29 @@ type Writer struct {
 	stop, stopped chan struct{} // the background sync's
 }
 
-// tally counts notes and keeps the first failure.
+// tally counts notes and chords and keeps the first failure.
 type tally struct {
 	sync.Mutex
 	written, lost int
+	chords        int // chords whose membership rows were written
 	err           error
 }
 
-// count records one note written (err nil) or lost, and returns the first
-// failure so far.
-func (t *tally) count(err error) error {
+// count records one row written (err nil) or lost, and returns the first
+// failure so far. A chord's membership rows are counted as one chord, not
+// as notes (a musician reading "8 notes" after a four-note chord would
+// look for four notes that were never played).
+func (t *tally) count(err error, x Extra) error {
 	t.Lock()
 	defer t.Unlock()
-	if err != nil {
+	switch {
+	case err != nil:
 		t.lost++
 		t.err = cmp.Or(t.err, err)
-	} else {
+	case x.HeardChord == "":
 		t.written++
+	case x.Reference:
+		t.chords++
 	}
 	return t.err
 }
@@ -94,6 +100,13 @@ func (t *tally) get() (written, lost int, err error) {
 	t.Lock()
 	defer t.Unlock()
 	return t.written, t.lost, t.err
+}
+
+// heard is how many chords' rows were written.
+func (t *tally) heard() int {
+	t.Lock()
+	defer t.Unlock()
+	return t.chords
 }
 
 // Open opens the journal at path for appending, creating it with its header
@@ -252,16 +265,16 @@ func (w *Writer) write(ev session.Event, x Extra, at func() time.Time) error {
 	w.mu.Lock()
 	defer w.mu.Unlock()
 	if w.f == nil {
-		return w.tally.count(errNotOpen)
+		return w.tally.count(errNotOpen, x)
 	}
 	line := w.line(ev, x, at())
 	if w.torn {
 		line = append([]byte("\n"), line...)
 	}
 	if err := w.writeAll(line); err != nil {
-		return w.tally.count(fmt.Errorf("cannot write %s: %w", w.path, unwrapPath(err)))
+		return w.tally.count(fmt.Errorf("cannot write %s: %w", w.path, unwrapPath(err)), x)
 	}
-	w.tally.count(nil)
+	w.tally.count(nil, x)
 	w.unsynced++
 	if now := w.meta.Now(); w.unsynced >= syncEvery || now.Sub(w.lastSync) >= syncAfter {
 		w.sync(now)
@@ -325,11 +338,11 @@ func (w *Writer) Status() string {
 	if err != nil {
 		return fmt.Sprintf("journal: %v — %d not logged", err, lost)
 	}
-	noun := "notes"
-	if written == 1 {
-		noun = "note"
+	what := howMany(written, "note")
+	if chords := w.tally.heard(); chords > 0 {
+		what += ", " + howMany(chords, "chord")
 	}
-	return fmt.Sprintf("journal: %d %s → %s", written, noun, w.path)
+	return fmt.Sprintf("journal: %s → %s", what, w.path)
 }
 
 // Err is the first failure, or nil.
@@ -387,4 +400,12 @@ func unwrapPath(err error) error {
 		return pe.Err
 	}
 	return err
+}
+
+// howMany is n things, the noun singular for one.
+func howMany(n int, noun string) string {
+	if n != 1 {
+		noun += "s"
+	}
+	return fmt.Sprintf("%d %s", n, noun)
 }

@@ -42,11 +42,11 @@ func TestGroupMeterChordsKeepTheirTuning(t *testing.T) {
 	play()
 	// Four notes, then the chord's four memberships, while listening goes
 	// on: the rows are in the journal before anything else happens.
-	m.waitFor(`chord C major`, `journal: 8 notes`)
+	m.waitFor(`chord C major`, `journal: 4 notes, 1 chord`)
 	m.tmux("send-keys", "-t", "meter", "t")
 	m.waitFor(`meantone`)
 	play()
-	m.waitFor(`journal: 16 notes`)
+	m.waitFor(`journal: 8 notes, 2 chords`)
 	m.tmux("send-keys", "-t", "meter", "q")
 	if rc := m.exitStatus(); rc != "0" {
 		t.Errorf("q: exit status %s, want 0", rc)
@@ -112,11 +112,11 @@ func TestVoicesMeterChordsKeepTheirTuning(t *testing.T) {
 	m := startTmux(t, 80, 24, env, "listen", "--voices", "3", "--key", "C major", "--temperament", "equal", "--a4", "440", "--chords", "--log", journal)
 	m.waitFor(`no chord yet`, `lost: 0 overflows, 0 dropped`)
 	play(wav)
-	m.waitFor(`chord C major`, `journal: 6 notes`) // three notes, three memberships
+	m.waitFor(`chord C major`, `journal: 3 notes, 1 chord`) // three notes, one chord's three memberships
 	m.tmux("send-keys", "-t", "meter", "t")
 	m.waitFor(`meantone`)
 	play(wav)
-	m.waitFor(`journal: 12 notes`)
+	m.waitFor(`journal: 6 notes, 2 chords`)
 	m.tmux("send-keys", "-t", "meter", "q")
 	if rc := m.exitStatus(); rc != "0" {
 		t.Errorf("q: exit status %s, want 0", rc)
