@@ -37,9 +37,11 @@ const ownPeakMin = 2
 
 // ownPeaks counts the partials k of hi (k ≤ ownPeakPartials) that lie
 // ownPeakBins or more from partial s·k of lo and make a peak of their own
-// on e.spec: a local maximum within a bin of k·hi, 15 dB above the noise
-// floor, ownPeakDip above every bin between it and the lower partial, on
-// no third voice's partial.
+// on e.spec (peakBeside), 15 dB above the noise floor, on no third voice's
+// partial and with none as tall mirrored across the lower partial. It is 0
+// where none is an odd k: a voice an octave above hi owns hi's even
+// partials (a flute's B5 14 ¢ over a trombone's E3's 6th partial was read
+// an octave low, as B4 beside E3's 3rd, its peaks at k = 4, 6, 8 only).
 func (e *Estimator) ownPeaks(hi, lo, s float64, vs []Voice) int {
 	bin := e.fitter.binHz
 	n, odd := 0, false
@@ -63,8 +65,8 @@ func (e *Estimator) ownPeaks(hi, lo, s float64, vs []Voice) int {
 			continue
 		}
 		// A vibrato spreads the lower partial into a lobe with a peak at
-		// each end of its swing, a frequency modulation's spectrum: the
-		// one beside it mirrored across it, as tall, is that lobe's.
+		// each end of its swing, a frequency modulation's spectrum: a
+		// peak mirrored across it within 12 dB makes this one that lobe's.
 		if pm, ok := e.peakBeside(m, b); ok && pm*ownPeakDip*ownPeakDip > pa {
 			continue
 		}
