@@ -59,7 +59,10 @@ func (e *Estimator) markPartials(vs []Voice) {
 		for _, lo := range vs {
 			for _, s := range partialSteps {
 				if lo.Hz < vs[i].Hz && math.Abs(cents(vs[i].Hz, s*lo.Hz)) < octaveCents && e.partialsExcess(lo.Hz, s, vs) < partialGain {
-					vs[i].OnPartials = true
+					n := e.ownPeaks(vs[i].Hz, lo.Hz, s, vs)
+					if n < ownPeakMin {
+						vs[i].OnPartials = true
+					}
 				}
 			}
 		}
