@@ -1,11 +1,7 @@
 package main
 
 import (
-	"strings"
 	"testing"
-
-	"fifthline/multipitch"
-	"fifthline/target"
 )
 
 // A quieter note on a louder held note's partial (3 to 6), begun while that
@@ -15,37 +11,19 @@ import (
 // 16384 samples); G3 196.00 Hz in equal temperament from A4 = 440 Hz (ISO
 // 16), its 3rd partial D5 588.00 Hz and 5th B5 980.00 Hz (from the ratios).
 func TestVoiceNoteSurfacingOnAHeldNotesPartial(t *testing.T) {
-	type voice struct {
-		hz, amp    float64
-		from, till float64 // seconds
-	}
 	g3, d5, b5 := 196.0, 588.0, 980.0
 	for _, tc := range []struct {
 		name   string
-		voices []voice
+		voices []steadyVoice
 		want   string
 	}{
-		{"quiet 3rd partial surfacing", []voice{{g3, 0.1, 0, 2.5}, {d5, 0.02, 1, 2.5}}, "G3"},
-		{"quiet 5th partial surfacing for a while", []voice{{g3, 0.1, 0, 2.5}, {b5, 0.02, 1, 1.8}}, "G3"},
-		{"quiet twelfth struck with it", []voice{{g3, 0.1, 0, 2.5}, {d5, 0.02, 0, 2.5}}, "G3 D5"},
-		{"quiet twelfth outlasting it", []voice{{g3, 0.1, 0, 1.5}, {d5, 0.02, 1, 2.5}}, "G3 D5"},
-		{"louder twelfth entering", []voice{{g3, 0.02, 0, 2.5}, {d5, 0.1, 1, 2.5}}, "G3 D5"},
+		{"quiet 3rd partial surfacing", []steadyVoice{{g3, 0.1, 0, 2.5}, {d5, 0.02, 1, 2.5}}, "G3"},
+		{"quiet 5th partial surfacing for a while", []steadyVoice{{g3, 0.1, 0, 2.5}, {b5, 0.02, 1, 1.8}}, "G3"},
+		{"quiet twelfth struck with it", []steadyVoice{{g3, 0.1, 0, 2.5}, {d5, 0.02, 0, 2.5}}, "G3 D5"},
+		{"quiet twelfth outlasting it", []steadyVoice{{g3, 0.1, 0, 1.5}, {d5, 0.02, 1, 2.5}}, "G3 D5"},
+		{"louder twelfth entering", []steadyVoice{{g3, 0.02, 0, 2.5}, {d5, 0.1, 1, 2.5}}, "G3 D5"},
 	} {
-		var notes []string
-		hop, window := 4096/44100.0, 16384/44100.0
-		tr := newTracker("test", fixed(target.Default()), hop, window, func(n voiceNote) { notes = append(notes, n.Reading.Note.String()) })
-		for at := 0.0; at < 3; at += hop {
-			var f multipitch.Frame
-			f.Time = at
-			for _, v := range tc.voices {
-				if at >= v.from && at < v.till {
-					f.Voices = append(f.Voices, multipitch.Voice{Hz: v.hz, Amplitude: v.amp})
-				}
-			}
-			tr.push(f)
-		}
-		tr.flush()
-		if got := strings.Join(notes, " "); got != tc.want {
+		if got := trackedNotes(tc.voices); got != tc.want {
 			t.Errorf("%s: heard %q, want %q", tc.name, got, tc.want)
 		}
 	}

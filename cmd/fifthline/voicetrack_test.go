@@ -18,39 +18,48 @@ import (
 // 16384 samples); pitches in equal temperament from A4 = 440 Hz (ISO 16):
 // G3 196.00 Hz, its octave G4 392.00 Hz.
 func TestVoiceNoteAnOctaveAboveALouderOne(t *testing.T) {
-	type voice struct {
-		hz, amp    float64
-		from, till float64 // seconds
-	}
 	low, high := 196.0, 392.0
 	for _, tc := range []struct {
 		name   string
-		voices []voice
+		voices []steadyVoice
 		want   string
 	}{
-		{"quiet octave above throughout", []voice{{low, 0.1, 0, 2.5}, {high, 0.02, 0, 2.5}}, "G3"},
-		{"quiet octave above for a while", []voice{{low, 0.1, 0, 2.5}, {high, 0.02, 0.5, 1.5}}, "G3"},
-		{"louder octave above", []voice{{low, 0.02, 0, 2.5}, {high, 0.1, 0, 2.5}}, "G3 G4"},
-		{"quiet octave outlasting the note below", []voice{{low, 0.1, 0, 1}, {high, 0.02, 0, 2.5}}, "G3 G4"},
+		{"quiet octave above throughout", []steadyVoice{{low, 0.1, 0, 2.5}, {high, 0.02, 0, 2.5}}, "G3"},
+		{"quiet octave above for a while", []steadyVoice{{low, 0.1, 0, 2.5}, {high, 0.02, 0.5, 1.5}}, "G3"},
+		{"louder octave above", []steadyVoice{{low, 0.02, 0, 2.5}, {high, 0.1, 0, 2.5}}, "G3 G4"},
+		{"quiet octave outlasting the note below", []steadyVoice{{low, 0.1, 0, 1}, {high, 0.02, 0, 2.5}}, "G3 G4"},
 	} {
-		var notes []string
-		hop, window := 4096/44100.0, 16384/44100.0
-		tr := newTracker("test", fixed(target.Default()), hop, window, func(n voiceNote) { notes = append(notes, n.Reading.Note.String()) })
-		for at := 0.0; at < 3; at += hop {
-			var f multipitch.Frame
-			f.Time = at
-			for _, v := range tc.voices {
-				if at >= v.from && at < v.till {
-					f.Voices = append(f.Voices, multipitch.Voice{Hz: v.hz, Amplitude: v.amp})
-				}
-			}
-			tr.push(f)
-		}
-		tr.flush()
-		if got := strings.Join(notes, " "); got != tc.want {
+		if got := trackedNotes(tc.voices); got != tc.want {
 			t.Errorf("%s: heard %q, want %q", tc.name, got, tc.want)
 		}
 	}
+}
+
+// steadyVoice is a voice the estimator hears steadily from from to till seconds.
+type steadyVoice struct {
+	hz, amp    float64
+	from, till float64 // seconds
+}
+
+// trackedNotes feeds the voice tracker 3 s of frames at the estimator's
+// default hop and window at 44.1 kHz (4096 and 16384 samples) holding the
+// voices sounding at each, and gives the notes it heard, spelled.
+func trackedNotes(voices []steadyVoice) string {
+	var notes []string
+	hop, window := 4096/44100.0, 16384/44100.0
+	tr := newTracker("test", fixed(target.Default()), hop, window, func(n voiceNote) { notes = append(notes, n.Reading.Note.String()) })
+	for at := 0.0; at < 3; at += hop {
+		var f multipitch.Frame
+		f.Time = at
+		for _, v := range voices {
+			if at >= v.from && at < v.till {
+				f.Voices = append(f.Voices, multipitch.Voice{Hz: v.hz, Amplitude: v.amp})
+			}
+		}
+		tr.push(f)
+	}
+	tr.flush()
+	return strings.Join(notes, " ")
 }
 
 // A voice's note is read in the tuning in force when it ends: the meter's
