@@ -1,0 +1,66 @@
+package ensemble
+
+import (
+	"math"
+	"testing"
+)
+
+// Which pitches share a period a delay may be off by: one within 30 ¢ of
+// a whole multiple of the other. Equal temperament at A4 = 440 Hz (ISO 16).
+func TestHarmonicallyRelated(t *testing.T) {
+	et := func(semitones float64) float64 { return 440 * math.Exp2(semitones/12) }
+	for _, c := range []struct {
+		name string
+		a, b float64
+		want bool
+	}{
+		{"the same pitch", et(0), et(0), true},
+		{"an octave (A4, A5)", et(0), et(12), true},
+		{"a tempered twelfth (G2, D4), 2 ¢ from 3:1", et(-26), et(-7), true},
+		{"a fourth (F4, B♭4)", et(-4), et(1), false},
+		{"a whole tone (A5, G5)", et(12), et(10), false},
+		{"a semitone (D4, C♯4)", et(-7), et(-8), false},
+	} {
+		if got := harmonicallyRelated(c.a, c.b); got != c.want {
+			t.Errorf("%s: %.2f and %.2f Hz related %v; want %v", c.name, c.a, c.b, got, c.want)
+		}
+	}
+}
+
+// A pair whose delay one pitch settled among near-tie lags a period apart
+// (an oboe's F4 on the clarinet's channel) is not subtracted while the
+// neighbour sounds a pitch that shares no period with it (B♭4), until
+// evidence at that pitch has come; at the same pitch or its octave it is,
+// and so is a pair whose one pitch gave a single clear lag.
+func TestADelayOnePitchSettledWaitsForASecond(t *testing.T) {
+	f4, f5, bb4 := 349.23, 698.46, 466.16 // ISO 16 equal temperament
+	m := newBleedModel(4096, 2)
+	p := m.pair(0, 1)
+	p.gain, p.delay, p.ties = 0.1, 131, 2
+	p.heardAt(f4)
+	for _, c := range []struct {
+		name      string
+		now       float64
+		ambiguous bool
+	}{
+		{"the neighbour silent", 0, false},
+		{"the same pitch", f4, false},
+		{"its octave", f5, false},
+		{"a fourth above", bb4, true},
+	} {
+		m.sounding[1] = c.now
+		if got := m.periodAmbiguous(0, 1); got != c.ambiguous {
+			t.Errorf("%s: period-ambiguous %v; want %v", c.name, got, c.ambiguous)
+		}
+	}
+	m.sounding[1] = bb4
+	p.ties = 1
+	if m.periodAmbiguous(0, 1) {
+		t.Error("a single clear lag from one pitch: held back at a second pitch")
+	}
+	p.ties = 2
+	p.heardAt(bb4)
+	if m.periodAmbiguous(0, 1) {
+		t.Error("evidence at B♭4 as well as F4: still held back")
+	}
+}
