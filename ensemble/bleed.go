@@ -69,6 +69,9 @@ type pairBleed struct {
 	pitch   float64 // d's first pitch the evidence was gathered at, Hz (period.go)
 	pitches int     // 2 once evidence came at a pitch unrelated to it as well
 	ties    int     // how many near-tie lags the last estimate chose among
+	// outOfPhase: at d's pitch now, unrelated to the evidence's one pitch,
+	// subtracting would make c louder (period.go)
+	outOfPhase bool
 }
 
 // bleedModel holds every ordered pair's estimate and the plan for turning
@@ -126,6 +129,9 @@ func (m *bleedModel) observe(o *Owner, f *frameReadings) {
 			continue
 		}
 		for c := range hz {
+			if c != d && o.have[c] {
+				m.judgePhase(o, f, c, d)
+			}
 			own, unread := f.own(c)
 			if c == d || !o.have[c] || !steady[c] || unread && f.level[c] > f.level[d]-quietDB {
 				continue

@@ -28,10 +28,11 @@ func TestHarmonicallyRelated(t *testing.T) {
 }
 
 // A pair whose delay one pitch settled among near-tie lags a period apart
-// (an oboe's F4 on the clarinet's channel) is not subtracted while the
-// neighbour sounds a pitch that shares no period with it (B♭4), until
-// evidence at that pitch has come; at the same pitch or its octave it is,
-// and so is a pair whose one pitch gave a single clear lag.
+// (an oboe's F4 on the clarinet's channel) is period-ambiguous, to be
+// judged before it is subtracted, while the neighbour sounds a pitch that
+// shares no period with it (B♭4), until evidence at that pitch has come;
+// at the same pitch or its octave it is not, nor is a pair whose one
+// pitch gave a single clear lag.
 func TestADelayOnePitchSettledWaitsForASecond(t *testing.T) {
 	f4, f5, bb4 := 349.23, 698.46, 466.16 // ISO 16 equal temperament
 	m := newBleedModel(4096, 2)
