@@ -3,6 +3,8 @@ package ensemble
 import (
 	"math"
 	"testing"
+
+	"fifthline/internal/testsignal"
 )
 
 // Which pitches share a period a delay may be off by: one within 30 ¢ of
@@ -63,5 +65,43 @@ func TestADelayOnePitchSettledWaitsForASecond(t *testing.T) {
 	p.heardAt(bb4)
 	if m.periodAmbiguous(0, 1) {
 		t.Error("evidence at B♭4 as well as F4: still held back")
+	}
+}
+
+// judgePhase at a new pitch: an oboe's B♭4 (466.16 Hz, ISO 16) heard on
+// the clarinet's channel 20 dB down and 269 samples late (5.6 ms at
+// 48 kHz), the pair's delay learned from her F4 alone. At the true delay
+// it subtracts in phase; a period of F4 later (137 samples, a third of a
+// period of B♭4 off) it would leave the channel louder, and is held back.
+func TestJudgePhaseAtTheNeighboursNewPitch(t *testing.T) {
+	const n, late = 4096, 269
+	f4, bb4 := 349.23, 466.16
+	long := testsignal.Tone(rate, n+late, testsignal.Saw, 0.3, testsignal.Steady(bb4))
+	heard := make([]float64, n)
+	for i := range heard {
+		heard[i] = 0.1 * long[i]
+	}
+	for _, c := range []struct {
+		name       string
+		delay      float64
+		outOfPhase bool
+	}{
+		{"the true delay", late, false},
+		{"a period of F4 late", late + rate/f4, true},
+	} {
+		o := NewOwner(rate, n, 2)
+		o.Set(0, heard, nil)
+		o.Set(1, long[late:], nil)
+		m := newBleedModel(n, 2)
+		f := newFrameReadings(2)
+		f.hz[1], f.read[1] = bb4, bb4
+		m.sounding[1] = bb4
+		p := m.pair(0, 1)
+		p.gain, p.delay, p.ties = 0.1, c.delay, 2
+		p.heardAt(f4)
+		m.judgePhase(o, f, 0, 1)
+		if p.outOfPhase != c.outOfPhase {
+			t.Errorf("%s (%.1f samples): out of phase %v; want %v", c.name, c.delay, p.outOfPhase, c.outOfPhase)
+		}
 	}
 }
