@@ -16,9 +16,11 @@ import (
 // delay rests on one pitch alone, chosen among near-tie lags, and the
 // neighbour sounds a pitch unrelated to it, each frame judges it at the
 // new pitch's partials that the old one does not share (judgePhase); one
-// that would leave the channel louder there, or that no such partial can
-// judge, is not subtracted until the new pitch's evidence has chosen
-// among the lags. One pitch that gave a single clear lag (a bassoon's,
+// that would leave the channel louder there is not subtracted until a
+// frame judges it otherwise or the new pitch's evidence has chosen among
+// the lags. A frame with no such partial clear of the others' (a low
+// voice's own partials lie everywhere) keeps the last judgment: holding
+// back every pair it cannot judge broke a choir bass's B♭2 in two. One pitch that gave a single clear lag (a bassoon's,
 // whose period is longer than most delays) is trusted, and so is a lag
 // the new pitch confirms: holding either back let a bassoon's new G2
 // cover the clarinet's D4, its third harmonic, for 0.15 s, and a
@@ -53,15 +55,16 @@ func harmonicallyRelated(a, b float64) bool {
 }
 
 // judgePhase notes whether the pair (c, d), its delay period-ambiguous
-// for d's pitch now, subtracts that pitch out of phase: this frame's
+// for d's pitch now, subtracts that pitch out of phase (kept from the last
+// frame when none of d's partials can judge it): this frame's
 // cross-spectrum at d's partials (clear of c's own and of a third
 // player's), turned to the pair's delay, is under half the gain times
 // d's power there, so subtracting g·d would leave c louder at them, not
 // quieter (‖c − g·d_τ‖² < ‖c‖² exactly when Re⟨c, d_τ⟩ > g/2·‖d‖²).
 func (m *bleedModel) judgePhase(o *Owner, f *frameReadings, c, d int) {
 	p := m.pair(c, d)
-	p.outOfPhase = false
 	if !m.periodAmbiguous(c, d) {
+		p.outOfPhase = false
 		return
 	}
 	binHz := o.fs / float64(m.n)
@@ -87,5 +90,7 @@ func (m *bleedModel) judgePhase(o *Owner, f *frameReadings, c, d int) {
 			dd += power(xd)
 		}
 	}
-	p.outOfPhase = !(dd > 0 && real(sum) >= p.gain/2*dd)
+	if dd > 0 {
+		p.outOfPhase = real(sum) < p.gain/2*dd
+	}
 }
