@@ -20,11 +20,12 @@ import (
 // frame judges it otherwise or the new pitch's evidence has chosen among
 // the lags. A frame with no such partial clear of the others' (a low
 // voice's own partials lie everywhere) keeps the last judgment: holding
-// back every pair it cannot judge broke a choir bass's B♭2 in two. One pitch that gave a single clear lag (a bassoon's,
-// whose period is longer than most delays) is trusted, and so is a lag
-// the new pitch confirms: holding either back let a bassoon's new G2
-// cover the clarinet's D4, its third harmonic, for 0.15 s, and a
-// soprano's F♯4 entering over the bass's D3 make it D2 for 0.18 s.
+// back every pair it cannot judge broke a choir bass's B♭2 in two live.
+// One pitch that gave a single clear lag (a bassoon's, whose period is
+// longer than most delays) is trusted, and so is a lag the new pitch
+// confirms: holding either back let a bassoon's new G2 cover the
+// clarinet's D4, its third harmonic, for 0.15 s, and a soprano's F♯4
+// entering over the bass's D3 make it D2 for 0.18 s.
 
 // heardAt notes that p's evidence this frame was gathered at pitch hz.
 func (p *pairBleed) heardAt(hz float64) {

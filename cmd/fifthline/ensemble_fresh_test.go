@@ -225,7 +225,7 @@ func checkChordsAlone(t *testing.T, r renderedTake, chords []chordRow) (offs []f
 // delays a period apart alike (it took 2.74 ms for 5.60 and 1.68 ms for
 // 3.93), and its pianissimo D4, held into G minor, broke in two
 // (1.47–1.92 s) while their new B♭4 and G5 were subtracted out of phase;
-// such a delay now waits for a second pitch (ensemble/period.go).
+// such a delay is now judged at the new pitch first (ensemble/period.go).
 func TestPlayersReadOnceHearFreshTakes(t *testing.T) {
 	t.Parallel()
 	for _, take := range freshTakes {
