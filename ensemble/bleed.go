@@ -65,6 +65,13 @@ type pairBleed struct {
 	delay  float64 // samples
 
 	weighed bool // estimated at least once, whatever the gain
+
+	pitch   float64 // d's first pitch the evidence was gathered at, Hz (period.go)
+	pitches int     // 2 once evidence came at a pitch unrelated to it as well
+	ties    int     // how many near-tie lags the last estimate chose among
+	// outOfPhase: at d's pitch now, unrelated to the evidence's one pitch,
+	// subtracting would make c louder (period.go)
+	outOfPhase bool
 }
 
 // bleedModel holds every ordered pair's estimate and the plan for turning
@@ -78,11 +85,14 @@ type bleedModel struct {
 	hops  int
 	peaks [2][]lagPeak // the two directions' candidate delays, reused
 	terms []unmixTerm  // cleanAll's plan for the block, reused
+
+	sounding []float64 // each player's pitch at the last evidence frame (0: none)
 }
 
 func newBleedModel(n, channels int) *bleedModel {
 	m := &bleedModel{n: n, k: channels, pairs: make([]pairBleed, channels*channels),
-		ifft: rfft.New(n), corr: make([]float64, n), spec: make([]complex128, n/2+1)}
+		ifft: rfft.New(n), corr: make([]float64, n), spec: make([]complex128, n/2+1),
+		sounding: make([]float64, channels)}
 	for i := range m.pairs {
 		m.pairs[i].a = make([]complex128, n/2+1)
 	}
@@ -112,12 +122,16 @@ func (m *bleedModel) weighed(c, d int) bool { return m.pair(c, d).weighed }
 // bass's soft F2, unread, sounded its fifth harmonic under her.
 func (m *bleedModel) observe(o *Owner, f *frameReadings) {
 	hz, steady := f.hz, f.steady
+	copy(m.sounding, hz)
 	binHz := o.fs / float64(m.n)
 	for d, pd := range hz {
 		if pd == 0 || !steady[d] || !o.have[d] {
 			continue
 		}
 		for c := range hz {
+			if c != d && o.have[c] {
+				m.judgePhase(o, f, c, d)
+			}
 			own, unread := f.own(c)
 			if c == d || !o.have[c] || !steady[c] || unread && f.level[c] > f.level[d]-quietDB {
 				continue
@@ -152,6 +166,7 @@ func (m *bleedModel) observe(o *Owner, f *frameReadings) {
 			if used {
 				p.frames++
 				p.fresh = true
+				p.heardAt(pd)
 			}
 		}
 	}

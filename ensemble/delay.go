@@ -57,9 +57,11 @@ func (m *bleedModel) estimate(fs float64) {
 			i, j := reciprocal(m.peaks[0], m.peaks[1], reciprocalMs/1000*fs)
 			if i >= 0 {
 				m.settle(p, m.peaks[0][i].lag)
+				p.ties = len(m.peaks[0])
 			}
 			if j >= 0 {
 				m.settle(q, m.peaks[1][j].lag)
+				q.ties = len(m.peaks[1])
 			}
 
 		}

@@ -32,7 +32,7 @@ func (m *bleedModel) cleanAll(h *history, dst [][]float32) {
 	recursive := m.unmixable()
 	for c := range m.k {
 		for d := range m.k {
-			if p := m.pair(c, d); d != c && p.gain > 0 {
+			if p := m.pair(c, d); d != c && p.gain > 0 && !(p.outOfPhase && m.periodAmbiguous(c, d)) {
 				m.terms = append(m.terms, m.term(h, c, d, recursive))
 			}
 		}
