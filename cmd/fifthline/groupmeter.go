@@ -67,16 +67,24 @@ func playersMeter(ctx context.Context, src source.Multi, tunings *session.Tuning
 
 // voicesMeter shows the group meter fed by the voices heard on src's one
 // channel (package multipitch), a row per voice, lowest first.
-func voicesMeter(ctx context.Context, src source.Source, tunings *session.Tunings, vo voiceOptions, j *journalSink, ms meterSource) error {
+// FIFTHLINE_TIMING logs the voices read and the input's onsets (timing.go).
+func voicesMeter(ctx context.Context, in timedInput, tunings *session.Tunings, vo voiceOptions, j *journalSink, ms meterSource) error {
 	names := make([]string, vo.max)
 	for i := range names {
 		names[i] = fmt.Sprintf("voice %d", i+1)
 	}
+	timing, err := openTiming(in.SampleRate())
+	if err != nil {
+		return err
+	}
+	defer timing.close()
+	src := timing.withClockOne(in, "voices")
 	m := groupMeter(names, tunings, vo.seventh, j, ms)
 	defer j.close()
 	frame := groupFrame{tunings: tunings, seventh: vo.seventh}
 	var sounding []float64
 	vo.onFrame = func(f multipitch.Frame) {
+		timing.voicesFrame(f)
 		// A voice on a lower one's partials is most likely those partials
 		// (its notes are dropped the same way, voicetrack.go); a real
 		// voice there misses a frame now and then.
@@ -109,7 +117,7 @@ func voicesMeter(ctx context.Context, src source.Source, tunings *session.Tuning
 		j.row(n.Event, n.extra(), time.Time{})
 		return nil
 	})
-	err := showMeter(ctx, m, func(ctx context.Context) error {
+	err = showMeter(ctx, m, func(ctx context.Context) error {
 		return hearVoices(ctx, src, ms.name, tunings.Get, vo, func(float64) {}, chords.note)
 	})
 	chords.ready(math.Inf(1), math.Inf(1), nil) // the chords and notes still open when listening stopped

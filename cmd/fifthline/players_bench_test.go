@@ -242,8 +242,12 @@ func measurePlayersLive(b *testing.B, meter bool) {
 	b.ReportMetric(slices.Max(lat.played), "played→reading_max_ms")
 	b.ReportMetric(median(lat.detection), "detection_ms")
 	b.ReportMetric(slices.Max(lat.detection), "detection_max_ms")
-	// The machine's load beside the figures: other work on the cores
-	// delays the readings.
+	reportLoad(b)
+}
+
+// reportLoad puts the machine's load beside the figures: other work on the
+// cores delays the readings.
+func reportLoad(b *testing.B) {
 	if load, err := os.ReadFile("/proc/loadavg"); err == nil {
 		if f := strings.Fields(string(load)); len(f) > 0 {
 			b.ReportMetric(parseNum(f[0]), "load_avg")

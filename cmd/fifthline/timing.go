@@ -8,6 +8,7 @@ import (
 	"strconv"
 	"time"
 
+	"fifthline/multipitch"
 	"fifthline/pitchdetect"
 	"fifthline/session"
 	"fifthline/source"
@@ -22,6 +23,8 @@ import (
 // voiced frame was written (clock_s) and a row per onset found in the
 // captured samples with the time its first frame reached the converter
 // (onset_adc_s; hz and voiced left empty), both on PortAudio's clock.
+// With --voices the same, each frame's voices a row apiece named "voice N"
+// (1 = lowest) in the player column, the channel's onsets named "voices".
 type timingLog struct {
 	f     *os.File
 	w     *csv.Writer
@@ -55,6 +58,21 @@ func (t *timingLog) frame(f session.Frame) { t.write(f.Estimate, strconv.FormatB
 // segmenter: holding is left empty.
 func (t *timingLog) playerFrame(player string, e pitchdetect.Estimate) { t.write(e, "", player) }
 
+// voicesFrame logs one frame of the voices as read (the meter's and the
+// chords' input): a row per voice, or one unvoiced row when none is.
+func (t *timingLog) voicesFrame(f multipitch.Frame) {
+	if t.f == nil {
+		return
+	}
+	if len(f.Voices) == 0 {
+		t.write(pitchdetect.Estimate{Time: f.Time, Level: f.Level}, "", "")
+	}
+	for i, v := range f.Voices {
+		e := pitchdetect.Estimate{Time: f.Time, Hz: v.Hz, Level: 20 * math.Log10(v.Amplitude), Voiced: true}
+		t.write(e, "", "voice "+strconv.Itoa(i+1))
+	}
+}
+
 func (t *timingLog) write(e pitchdetect.Estimate, holding, player string) {
 	if t.f == nil {
 		return
@@ -81,6 +99,22 @@ func (t *timingLog) withClock(src source.Multi, clock inputClock, names []string
 	return &onsetTap{Multi: src, t: t, names: names, find: newOnsetFinder(src.SampleRate(), src.Channels())}
 }
 
+// timedInput is a live input of one channel and its clock (capture.Input).
+type timedInput interface {
+	source.Source
+	source.Multi
+	inputClock
+}
+
+// withClockOne is withClock for an input of one channel read as a Source
+// (--voices), its onsets named name.
+func (t *timingLog) withClockOne(src timedInput, name string) source.Source {
+	if t.f == nil {
+		return src
+	}
+	return t.withClock(src, src, []string{name}).(*onsetTap)
+}
+
 // onsetTap passes a source's samples on and logs the onsets in them.
 type onsetTap struct {
 	source.Multi
@@ -88,6 +122,9 @@ type onsetTap struct {
 	names []string
 	find  *onsetFinder
 }
+
+// Read is ReadChannels of a one-channel source.
+func (o *onsetTap) Read(dst []float32) (int, error) { return o.ReadChannels([][]float32{dst}) }
 
 func (o *onsetTap) ReadChannels(dst [][]float32) (int, error) {
 	n, err := o.Multi.ReadChannels(dst)

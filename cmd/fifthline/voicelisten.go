@@ -9,7 +9,6 @@ import (
 
 	"fifthline/harmony"
 	"fifthline/session"
-	"fifthline/source"
 	"fifthline/target"
 )
 
@@ -17,7 +16,8 @@ import (
 // held note as it ends, flushed at once (start_s counts from the start of
 // capture). With --chords the header is the chord rows' and each chord's
 // rows come as soon as no note still sounding can change the chord.
-func listenVoices(ctx context.Context, e *env, src source.Source, name string, tu target.Tuning, vo voiceOptions, j *journalSink) error {
+// FIFTHLINE_TIMING logs the voices read and the input's onsets (timing.go).
+func listenVoices(ctx context.Context, e *env, in timedInput, name string, tu target.Tuning, vo voiceOptions, j *journalSink) error {
 	w := csv.NewWriter(e.stdout)
 	head := append(session.Header(false), voiceColumns...)
 	if vo.chords {
@@ -28,6 +28,13 @@ func listenVoices(ctx context.Context, e *env, src source.Source, name string, t
 	if err := w.Error(); err != nil {
 		return err
 	}
+	timing, err := openTiming(in.SampleRate())
+	if err != nil {
+		return err
+	}
+	defer timing.close()
+	vo.onFrame = timing.voicesFrame
+	src := timing.withClockOne(in, "voices")
 	var chordRows func(harmony.Chord, []int, []bool, target.Tuning) error
 	if vo.chords {
 		chordRows = func(c harmony.Chord, voices []int, doubled []bool, tu target.Tuning) error {
@@ -50,7 +57,7 @@ func listenVoices(ctx context.Context, e *env, src source.Source, name string, t
 		w.Flush()
 		return w.Error()
 	})
-	err := hearVoices(ctx, src, name, fixed(tu), vo, func(float64) {}, chords.note)
+	err = hearVoices(ctx, src, name, fixed(tu), vo, func(float64) {}, chords.note)
 	// The chords and rows still open when listening stopped.
 	return cmp.Or(err, chords.ready(math.Inf(1), math.Inf(1), nil), w.Error())
 }
