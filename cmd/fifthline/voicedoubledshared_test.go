@@ -2,7 +2,6 @@ package main
 
 import (
 	"fmt"
-	"os"
 	"strings"
 	"testing"
 )
@@ -61,17 +60,7 @@ func TestAnalyzeVoicesMarksARootDoubledUnderSharedNeighbours(t *testing.T) {
 // --voices auto: three notes, G3 marked doubled, no voice for G4.
 func TestListenVoicesMarksARootDoubledUnderSharedNeighbours(t *testing.T) {
 	t.Parallel()
-	_, env, play := privateMic(t)
-	wav := soxWaves(t, "sawtooth", 1, g3Hz, g3Hz*6/5, g3Hz*3/2, g4Hz)
-	wait, proc := startPlainProcess(t, env, "--voices", "auto", "--duration", "60s")
-	play(wav)
-	if err := proc.Signal(os.Interrupt); err != nil {
-		t.Fatal(err)
-	}
-	code, out, stderr := wait()
-	if code != 0 {
-		t.Fatalf("exit %d, stderr %q", code, stderr)
-	}
+	out := voicesHeardLive(t, soxWaves(t, "sawtooth", 1, g3Hz, g3Hz*6/5, g3Hz*3/2, g4Hz))
 	_, rows := readCSV(t, out)
 	if got, want := noteMarks(rows), []string{"G3 true", "Bb3 false", "D4 false"}; !equalStrings(got, want) {
 		t.Errorf("notes %v, want %v:\n%s", got, want, out)

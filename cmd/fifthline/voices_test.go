@@ -90,17 +90,7 @@ func TestVoicesUsageErrors(t *testing.T) {
 // voice, lowest first, each within 0.5 ¢ of what sox was asked for.
 func TestListenVoicesThroughTheVirtualMicrophone(t *testing.T) {
 	t.Parallel()
-	_, env, play := privateMic(t)
-	wav := sox(t, "chord.wav", "-r", "48000", "-b", "16", "synth 2 sawtooth 261.63 sawtooth 327.0375 sawtooth 392.445 remix 1,2,3 gain -8 pad 0.5 1")
-	wait, proc := startPlainProcess(t, env, "--voices", "auto", "--duration", "60s")
-	play(wav)
-	if err := proc.Signal(os.Interrupt); err != nil {
-		t.Fatal(err)
-	}
-	code, out, stderr := wait()
-	if code != 0 {
-		t.Fatalf("exit %d, stderr %q", code, stderr)
-	}
+	out := voicesHeardLive(t, sox(t, "chord.wav", "-r", "48000", "-b", "16", "synth 2 sawtooth 261.63 sawtooth 327.0375 sawtooth 392.445 remix 1,2,3 gain -8 pad 0.5 1"))
 	_, rows := readCSV(t, out)
 	if len(rows) != 3 {
 		t.Fatalf("want 3 voices' notes:\n%s", out)
@@ -162,4 +152,22 @@ func soxVoices(t *testing.T, synth string) (path, out string) {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
 	return path, out
+}
+
+// voicesHeardLive plays wav into a private virtual microphone while
+// `listen --plain --voices auto` listens, stops it as a musician would
+// (Ctrl-C) and gives what it wrote, which must end with exit status 0.
+func voicesHeardLive(t *testing.T, wav string) string {
+	t.Helper()
+	_, env, play := privateMic(t)
+	wait, proc := startPlainProcess(t, env, "--voices", "auto", "--duration", "60s")
+	play(wav)
+	if err := proc.Signal(os.Interrupt); err != nil {
+		t.Fatal(err)
+	}
+	code, out, stderr := wait()
+	if code != 0 {
+		t.Fatalf("exit %d, stderr %q", code, stderr)
+	}
+	return out
 }
