@@ -1,8 +1,14 @@
 package ui
 
 import (
+	"context"
 	"strings"
 	"testing"
+	"time"
+
+	"github.com/gdamore/tcell/v2"
+
+	"fifthline/session"
 )
 
 // One microphone's voices are read on long windows, a frame every 85 ms
@@ -104,5 +110,29 @@ func TestAVoiceStillAttackingHoldsTheChordsNameBack(t *testing.T) {
 	want := []string{"no chord yet: two or more notes held together make one", "chord C major over C4"}
 	if strings.Join(shown, " | ") != strings.Join(want, " | ") {
 		t.Errorf("the chord line: %q; want %q", shown, want)
+	}
+}
+
+// A long window's frame is drawn as it comes, not at the next periodic
+// redraw (up to 1/frameRate later): here the periodic redraw never comes,
+// and the chord of the voices' frames reaches the screen all the same.
+func TestVoicesFramesAreDrawnAsTheyCome(t *testing.T) {
+	scr := &simTerminal{SimulationScreen: tcell.NewSimulationScreen("UTF-8")}
+	m := New(Options{Tunings: session.NewTunings(keyOf(t, "C major")), Source: "test tones", Screen: scr.SimulationScreen,
+		Group: []string{"voice 1", "voice 2", "voice 3"}})
+	m.drawn, m.period = scr.copy, time.Hour
+	done := make(chan error, 1)
+	go func() { done <- m.Run(context.Background()) }()
+	for i, at := range []float64{0.939, 1.024, 1.109} {
+		hz := []float64{c4, c4 * 5 / 4, c4 * 3 / 2}
+		if i == 0 {
+			hz = make([]float64, 3)
+		}
+		m.OnGroupFrame(GroupFrame{Time: at, Hz: hz, Levels: []float64{-25, -25, -25}, Level: -25, Span: 0.171})
+	}
+	waitFor(t, scr, "chord C major")
+	m.Stop()
+	if err := <-done; err != nil {
+		t.Errorf("Run: %v", err)
 	}
 }
