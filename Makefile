@@ -88,7 +88,7 @@ bench: deps
 	$(GO) run ./cmd/chordbench
 	GOMAXPROCS=1 $(GO) test -run XXX -bench ReadQuartet ./ensemble/
 	@scripts/vmic-start
-	$(GO) test -run XXX -bench 'ListenPlainLive|ListenVoicesLive|ListenMeter|DemoMeterInTmux|AnalyzePlayers|ListenPlayers' -benchtime 1x -timeout 0 ./cmd/fifthline/ -soak $(SOAK)
+	$(GO) test -run XXX -bench 'ListenPlainLive|ListenVoices|ListenMeter|DemoMeterInTmux|AnalyzePlayers|ListenPlayers' -benchtime 1x -timeout 0 ./cmd/fifthline/ -soak $(SOAK)
 	$(GO) test -run XXX -bench 'PlayerDroneUnderMicrophone' -benchtime 1x ./playback/
 	$(GO) test -run XXX -bench 'LiveChordsMemory' -benchtime 1x -timeout 0 ./cmd/fifthline/ -chords-soak $(CHORDS_SOAK)
 

@@ -54,16 +54,22 @@ const rowLongFrames = 2
 // chordsKept is how many earlier chords the screen recalls.
 const chordsKept = 4
 
-// chordSettle is how long a new chord must sound before the screen names
-// it: players never change at quite the same moment, and the half-changed
-// chords between are not the group's. A frame that reads a long window
-// (GroupFrame.Span) just after silence has heard that much of it: one
-// microphone's voices are first read 0.11 s after a chord starts, a
-// frame every 85 ms; read as the players' short frames the chord was named
-// 0.96 s after it started (on the stream's clock), now 0.28 s
-// (TestAChordFromOneMicrophoneIsNamedWithin300ms; the voices issue asks
-// 0.3 s).
+// chordSettle is how long a new chord must sound on the players' short
+// frames before the screen names it: players never change at quite the
+// same moment, and the half-changed chords between are not the group's.
 const chordSettle = 0.2
+
+// One microphone's voices come as long windows' readings (GroupFrame.Span),
+// a frame every 85 ms, each row already held on two agreeing frames: a
+// chord out of silence is named at the first frame its rows hold it, none
+// still attacking (a voice read but not yet held: the chord is about to
+// change), and a change of chord once longFramesAgree frames in a row name
+// it (the first windows after a change still hear the chord before). Held
+// to chordSettle of stream time, as the players' frames are, a chord was
+// named 0.28 s after it started on the stream's clock, now 0.20 s
+// (TestAChordFromOneMicrophoneIsNamedWithin300ms; the voices issue asks
+// 0.3 s); a change, 0.26 s after its frames first named it, now 0.085 s.
+const longFramesAgree = 2
 
 // groupModel is what the group meter knows. Like model it keeps pitches,
 // not readings: chords and cents are read at render time in the current
@@ -85,12 +91,14 @@ type groupModel struct {
 	before    [][]float64
 	left      []bool // rows that have played another note since chord
 	chordName string // chord's name when it was heard, to tell a change
-	// next is a chord heard since nextAt that differs from chord's; it
-	// replaces it once it has lasted chordSettle.
-	next   string
-	nextAt float64
-	span   float64 // the latest frame's GroupFrame.Span
-	heard  float64 // seconds of next heard before nextAt: see followChord
+	// next is a chord heard since nextAt, in nextFrames frames in a row,
+	// that differs from chord's; it replaces it once settled (settled).
+	next       string
+	nextAt     float64
+	nextFrames int
+	// nextFresh: next was first heard out of silence, no chord sounding.
+	nextFresh bool
+	span      float64 // the latest frame's GroupFrame.Span
 	// silentAt is the time of the latest frame in which no row was voiced.
 	silentAt float64
 }
@@ -104,6 +112,8 @@ type groupRow struct {
 	Last      float64   // the last pitch held
 	// Doubled: most frames of the pitch held now (or last) were doubled.
 	Doubled bool
+	// Attacking: the newest frame reads a pitch the row does not hold yet.
+	Attacking bool
 }
 
 func newGroupModel(m *model, names []string, seventh float64) *groupModel {
@@ -151,6 +161,7 @@ func (r *groupRow) add(t, hz, level, span float64, doubled bool) {
 	}
 	r.times, r.hz, r.levels, r.doubled = r.times[cut:], r.hz[cut:], r.levels[cut:], r.doubled[cut:]
 	r.Hz = 0
+	r.Attacking = hz > 0 && !math.IsInf(hz, 0)
 	n := len(r.hz)
 	if n == 0 || t-r.times[n-1] > rowBridge {
 		return
@@ -178,7 +189,7 @@ func (r *groupRow) add(t, hz, level, span float64, doubled bool) {
 	}
 	if k >= need {
 		r.Hz = math.Exp2(sum / float64(k))
-		r.Last, r.Doubled = r.Hz, 2*marked > k
+		r.Last, r.Doubled, r.Attacking = r.Hz, 2*marked > k, false
 	}
 }
 
@@ -204,16 +215,13 @@ func (g *groupModel) followChord(force bool) {
 		name = c.Root.PrettyName() + " " + c.Quality
 	}
 	if name != g.next {
-		// Just after silence, a long window's reading of this chord has
-		// heard only it (multipitch reads an onset's newest half window);
-		// at a change it has heard the chord before as well.
-		g.heard = 0
-		if g.Now-g.silentAt <= rowSeconds {
-			g.heard = g.span
-		}
-		g.next, g.nextAt = name, g.Now
+		g.next, g.nextAt, g.nextFrames = name, g.Now, 0
+		g.nextFresh = !g.sounding && g.Now-g.silentAt <= rowSeconds
 	}
-	if !ok || name != g.chordName && !force && g.Now-g.nextAt+g.heard < chordSettle {
+	if !force {
+		g.nextFrames++
+	}
+	if !ok || name != g.chordName && !force && !g.settled() {
 		g.sounding = false
 		for i, f := range hz {
 			if f > 0 && (i >= len(g.chord) || !(math.Abs(1200*math.Log2(f/g.chord[i])) <= rowCents)) {
@@ -242,6 +250,19 @@ func (g *groupModel) followChord(force bool) {
 	}
 	g.chord = hz
 	clear(g.left)
+}
+
+// settled says whether next, a chord other than the one named, has sounded
+// long enough to be named: see chordSettle and longFramesAgree.
+func (g *groupModel) settled() bool {
+	if g.span == 0 {
+		return g.Now-g.nextAt >= chordSettle
+	}
+	attacking := false
+	for i, r := range g.rows {
+		attacking = attacking || r.Attacking && !g.Off[i]
+	}
+	return g.nextFresh && !attacking || g.nextFrames >= longFramesAgree
 }
 
 // name names the chord the per-row pitches make in the current tuning;

@@ -275,55 +275,6 @@ func TestTheChordAxisPlacesEachMemberByItsJustCents(t *testing.T) {
 	}
 }
 
-// One microphone's voices are read on long windows, a frame every 85 ms
-// (package multipitch: the half window of 171 ms after an onset, then the
-// whole of 341 ms): each frame has heard that much of the chord, so two
-// agreeing frames hold a row's pitch (one alone may be a passing
-// misreading) whatever their levels, and the chord is named once the
-// frames have covered chordSettle of it: at the third frame. Read as the
-// players' 10.7 ms frames, the rows wanted three frames within 6 dB of the
-// loudest and the chord 0.2 s of frames after that. C4 and the just E4 and
-// G4 above it (5/4, 3/2: common practice); the first frame 11 dB louder
-// than the rest, as the estimator reads an onset (measured). Then A4 and
-// E5 (equal-tempered) over the C4.
-func TestVoicesOnLongWindowsAreNamedFromTheirThirdFrame(t *testing.T) {
-	g := newGroupModel(newModel(keyOf(t, "C major"), "test tones"), []string{"voice 1", "voice 2", "voice 3"}, 0)
-	c4 := et(-9)
-	frame := func(at, level float64) {
-		g.AddFrame(GroupFrame{Time: at, Hz: []float64{c4, c4 * 5 / 4, c4 * 3 / 2}, Levels: []float64{level, level, level}, Level: level, Span: 0.171})
-	}
-	g.AddFrame(GroupFrame{Time: 0.939, Hz: make([]float64, 3), Levels: make([]float64, 3), Level: -120, Span: 0.171}) // silence before
-	frame(1.024, -14)
-	if r := g.readings()[0]; r.Holding {
-		t.Errorf("after one frame, voice 1 holds a pitch: %+v", r)
-	}
-	frame(1.109, -25)
-	if r := g.readings()[0]; !r.Holding || r.Note.Pretty() != "C4" {
-		t.Errorf("after two frames, voice 1: %+v", r)
-	}
-	if got := chordLine(g).Text(); !strings.HasPrefix(got, "no chord yet") {
-		t.Errorf("after two frames: %q", got)
-	}
-	frame(1.195, -25)
-	if got := chordLine(g).Text(); got != "chord C major over C4" {
-		t.Errorf("after three frames: %q", got)
-	}
-	// A change of chord is a change still: the long window of its first
-	// frames holds the chord before as well, so it settles over 0.2 s of
-	// frames. C4 A4 E5 make A minor over C4 (A3's just minor third above).
-	for at := 1.28; at < 1.4; at += 0.085 {
-		frame(at, -25)
-	}
-	change := func(at float64) {
-		g.AddFrame(GroupFrame{Time: at, Hz: []float64{c4, et(0), et(7)}, Levels: []float64{-25, -25, -25}, Level: -25, Span: 0.341})
-	}
-	change(1.45)
-	change(1.535)
-	if got := chordLine(g).Text(); strings.Contains(got, "A minor") {
-		t.Errorf("two frames into the change: %q", got)
-	}
-}
-
 // A voice doubled an octave above (multipitch marks it; one microphone
 // cannot part the two) says so at the end of its row, and the row still
 // fits 80 columns; the mark follows most of the frames of the pitch held.

@@ -68,6 +68,10 @@ type Meter struct {
 	model   *model      // touched only on tview's goroutine once Run starts
 	group   *groupModel // nil for one player; shares model
 	groupFr chan GroupFrame
+	// nudge asks for a redraw at once: a long window's group frame came
+	// (see OnGroupFrame). nil for one player.
+	nudge   chan struct{}
+	period  time.Duration      // between periodic redraws: time.Second / frameRate
 	drawn   func(tcell.Screen) // tests: called on tview's goroutine after each draw
 	closing bool               // tview's goroutine: the screen is being let go
 }
@@ -84,10 +88,12 @@ func New(opt Options) *Meter {
 		notes:  make(chan session.Event, frameBuffer),
 		quit:   make(chan struct{}),
 		model:  model,
+		period: time.Second / frameRate,
 	}
 	if opt.Group != nil {
 		m.group = newGroupModel(model, opt.Group[:min(len(opt.Group), MaxRows)], opt.Seventh)
 		m.groupFr = make(chan GroupFrame, frameBuffer)
+		m.nudge = make(chan struct{}, 1)
 	}
 	return m
 }
@@ -98,6 +104,12 @@ const MaxRows = 9
 // OnGroupFrame hands a group meter one moment of the group without
 // waiting (f.Hz is copied): if the screen has fallen behind, the frame is
 // dropped and counted. A meter made without Options.Group ignores it.
+//
+// A long window's frame (f.Span > 0: one microphone's voices, every 85 ms)
+// is drawn at once rather than at the next periodic redraw, which held it
+// back by up to 1/frameRate (67 ms) on the way to naming a chord; while
+// such frames come they draw the screen, about 12 times a second, and the
+// periodic redraw waits.
 func (m *Meter) OnGroupFrame(f GroupFrame) {
 	if m.group == nil {
 		return
@@ -107,6 +119,12 @@ func (m *Meter) OnGroupFrame(f GroupFrame) {
 	case m.groupFr <- f:
 	default:
 		m.dropped.Add(1)
+	}
+	if f.Span > 0 {
+		select {
+		case m.nudge <- struct{}{}:
+		default: // a redraw is asked for already
+		}
 	}
 }
 
@@ -183,10 +201,14 @@ func (m *Meter) Run(ctx context.Context) error {
 	stop := func() { app.QueueUpdate(func() { m.close(app) }) }
 	done := make(chan struct{})
 	go func() {
-		tick := time.NewTicker(time.Second / frameRate)
+		tick := time.NewTicker(m.period)
 		defer tick.Stop()
+		var nudged time.Time
 		for {
 			select {
+			case <-m.nudge: // nil, never ready, for one player
+				nudged = time.Now()
+				app.QueueUpdate(redraw)
 			case <-done:
 				return
 			case <-ctx.Done():
@@ -196,6 +218,9 @@ func (m *Meter) Run(ctx context.Context) error {
 				stop()
 				return
 			case <-tick.C:
+				if time.Since(nudged) < 2*m.period {
+					continue // the frames draw the screen
+				}
 				app.QueueUpdate(redraw)
 			}
 		}

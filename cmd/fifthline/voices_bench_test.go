@@ -43,3 +43,21 @@ func chordsWAV(b *testing.B) string {
 	soxTB(b, triad, g7, wav)
 	return wav
 }
+
+// The same chords heard by `listen --voices auto --chords` with the group
+// meter (80 × 24 in tmux), whose screen the voices' frames draw as they
+// come (a frame every 85 ms) in place of the periodic redraw:
+//
+//	go test -run XXX -bench ListenVoicesMeterLive -benchtime 1x ./cmd/fifthline/
+func BenchmarkListenVoicesMeterLive(b *testing.B) {
+	for range b.N {
+		_, env, play := privateMic(b)
+		wav := chordsWAV(b)
+		m := startTmux(b, 80, 24, env, "listen", "--voices", "auto", "--key", "C major", "--chords")
+		m.waitFor(`no chord yet`)
+		reportCost(b, meterPid(b, m), func() { play(wav) })
+		m.tmux("send-keys", "-t", "meter", "q")
+		m.exitStatus()
+		reportLoad(b)
+	}
+}
