@@ -57,7 +57,9 @@ func Find(notes []Note, tu target.Tuning, seventh float64) []Chord {
 }
 
 // FindOneChannel is Find for voices heard on one channel, where a note on
-// a lower note's harmonic may be that partial (partials.go).
+// a lower note's harmonic may be that partial (partials.go) and a stretch
+// shorter than FragmentSeconds may be a piece of the chord beside it
+// (fragment.go).
 func FindOneChannel(notes []Note, tu target.Tuning, seventh float64) []Chord {
 	return find(notes, tu, seventh, true)
 }
@@ -67,8 +69,12 @@ func find(notes []Note, tu target.Tuning, seventh float64, oneChannel bool) []Ch
 	for _, n := range notes {
 		cuts = append(cuts, n.Start, n.End)
 	}
+	runs := stretches(notes, cuts)
+	if oneChannel {
+		runs = withoutFragments(runs, notes)
+	}
 	var out []Chord
-	for _, c := range stretches(notes, cuts) {
+	for _, c := range runs {
 		if named, ok := name(c, notes, tu, seventh, oneChannel); ok {
 			out = append(out, named)
 		}
@@ -87,18 +93,16 @@ func stretches(notes []Note, cuts []float64) []Chord {
 	for i := 0; i+1 < len(cuts); i++ {
 		from, to := cuts[i], cuts[i+1]
 		var idx []int
-		var key []string
 		for k, n := range notes {
 			if n.Start <= from && n.End >= to {
 				idx = append(idx, k)
-				key = append(key, n.Who+"="+n.Note.String())
 			}
 		}
 		if len(idx) < 2 {
 			prev = nil
 			continue
 		}
-		slices.Sort(key)
+		key := stretchKey(idx, notes)
 		if last := len(out) - 1; last >= 0 && out[last].End == from && slices.Equal(key, prev) {
 			out[last].End = to
 			continue

@@ -25,6 +25,7 @@ type Stream struct {
 	OneChannel bool
 	notes      []Note
 	sounding   []Note  // notes still sounding (see Sound)
+	last       *span   // the last stretch given, a fragment's neighbour
 	from       float64 // every chord ending before it has been given
 	settled    float64 // every chord starting before it has been given
 	begun      bool
@@ -102,7 +103,9 @@ func (s *Stream) Ready(horizon float64, tuning func(at float64) target.Tuning) (
 	// sounds fewer than two notes.
 	next := cuts[len(cuts)-2] // the last cut before the horizon
 	settled := horizon
+	var held *span // the first stretch held back, if any
 	if last := len(runs) - 1; last >= 0 && runs[last].End == horizon {
+		held = &span{start: runs[last].Start, end: horizon, key: stretchKey(runs[last].Notes, notes), open: true}
 		next, runs = runs[last].Start, runs[:last]
 		settled = next
 	}
@@ -110,9 +113,14 @@ func (s *Stream) Ready(horizon float64, tuning func(at float64) target.Tuning) (
 	// and so do the chords after it (chords come in time order).
 	for i, c := range runs {
 		if slices.ContainsFunc(c.Notes, func(k int) bool { return math.IsInf(notes[k].End, 1) && notes[k].Start >= c.Start }) {
+			sp := spanOf(c, notes)
+			held = &sp
 			next, runs, settled = c.Start, runs[:i], c.Start
 			break
 		}
+	}
+	if s.OneChannel {
+		runs, next, settled = s.withoutFragments(runs, notes, held, next, settled)
 	}
 	s.settled = max(s.settled, settled)
 	var out []Chord
@@ -170,4 +178,38 @@ func mayJoin(o, n Note, reach float64) bool {
 		return false
 	}
 	return n.Hz <= 0 || o.Hz <= 0 || math.Abs(1200*math.Log2(n.Hz/o.Hz)) < sameCents
+}
+
+// withoutFragments leaves out the stretches to be given that are pieces of
+// a chord beside them (fragment.go), as FindOneChannel does: the one before
+// the first was given already (s.last), the one after the last is held back
+// (nil: none), and while that one may yet grow long enough to make the last
+// a piece of it, the last is held back too.
+func (s *Stream) withoutFragments(runs []Chord, notes []Note, held *span, next, settled float64) ([]Chord, float64, float64) {
+	spans := make([]span, len(runs))
+	for i, c := range runs {
+		spans[i] = spanOf(c, notes)
+	}
+	if last := len(runs) - 1; last >= 0 && held != nil && held.open && !held.long() && held.start == spans[last].end &&
+		!spans[last].long() && (contains(held.key, spans[last].key) || contains(spans[last].key, held.key)) {
+		next, settled = runs[last].Start, runs[last].Start
+		runs, spans = runs[:last], spans[:last]
+	}
+	var out []Chord
+	for i, c := range runs {
+		prev, after := s.last, held
+		if i > 0 {
+			prev = &spans[i-1]
+		}
+		if i+1 < len(runs) {
+			after = &spans[i+1]
+		}
+		if !spans[i].fragment(prev, after) {
+			out = append(out, c)
+		}
+	}
+	if len(spans) > 0 {
+		s.last = &spans[len(spans)-1]
+	}
+	return out, next, settled
 }

@@ -17,7 +17,15 @@ import (
 // 440·2^(n/12)), each a little off, entering and leaving at random (our own
 // scenario); each note is given as it ends, with the earliest start still
 // to come as the horizon, as a live reading gives them.
-func TestStreamGivesTheChordsFindGives(t *testing.T) {
+func TestStreamGivesTheChordsFindGives(t *testing.T) { streamGivesWhatFindGives(t, false) }
+
+// So do the chords of voices heard on one channel, whose pieces of a chord
+// (fragment.go) are left out: the same scenario read as voices.
+func TestStreamGivesTheChordsFindOneChannelGives(t *testing.T) { streamGivesWhatFindGives(t, true) }
+
+// streamGivesWhatFindGives plays the scenario above through a Stream,
+// with oneChannel as FindOneChannel reads it.
+func streamGivesWhatFindGives(t *testing.T, oneChannel bool) {
 	tu := target.Default()
 	parse := func(s string) target.Note { n, _ := target.ParseNote(s); return n }
 	pool := []string{"C3", "E3", "G3", "C4", "E4", "G4", "A3", "F3"}
@@ -40,13 +48,16 @@ func TestStreamGivesTheChordsFindGives(t *testing.T) {
 			at += length + 0.5*rng.Float64()*float64(rng.IntN(2))
 		}
 	}
-	want := Find(notes, tu, target.DefaultSeventh)
+	want := find(notes, tu, target.DefaultSeventh, oneChannel)
+	if pieces := len(Find(notes, tu, target.DefaultSeventh)) - len(want); oneChannel && pieces < 3 {
+		t.Fatalf("%d pieces of chords in the scenario; it asks for some", pieces)
+	}
 	if len(want) < 20 {
 		t.Fatalf("only %d chords in the scenario", len(want))
 	}
 	byEnd := slices.Clone(notes)
 	slices.SortFunc(byEnd, func(a, b Note) int { return cmp.Compare(a.End, b.End) })
-	s := Stream{Seventh: target.DefaultSeventh}
+	s := Stream{Seventh: target.DefaultSeventh, OneChannel: oneChannel}
 	var got []Chord
 	var members [][]string
 	take := func(cs []Chord, ns []Note) {

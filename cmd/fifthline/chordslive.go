@@ -265,9 +265,8 @@ func (vo *voiceOptions) liveChords(tunings *session.Tunings, emit func(harmony.C
 
 func (v *voiceChords) note(n voiceNote) error {
 	v.rows.add(n)
-	who := strconv.Itoa(n.voice)
-	v.stream.Add(harmony.Note{Start: n.Start, End: n.End, Who: who, Note: n.Reading.Note, Frames: n.frames, Hz: n.Hz, Settled: n.Settled})
-	v.doubled[voiceStart{who, n.Start}] = n.doubled
+	v.stream.Add(n.harmonyNote())
+	v.doubled[voiceStart{strconv.Itoa(n.voice), n.Start}] = n.doubled
 	return v.err
 }
 

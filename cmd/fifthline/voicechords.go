@@ -23,7 +23,7 @@ import (
 func chordsOf(notes []voiceNote, tu target.Tuning, seventh float64) []harmony.Chord {
 	hs := make([]harmony.Note, len(notes))
 	for i, n := range notes {
-		hs[i] = harmony.Note{Start: n.Start, End: n.End, Who: strconv.Itoa(n.voice), Note: n.Reading.Note, Frames: n.frames, Hz: n.Hz, Settled: n.Settled}
+		hs[i] = n.harmonyNote()
 	}
 	hs, from := bridgeLost(hs)
 	chords := harmony.FindOneChannel(hs, tu, seventh)
@@ -33,6 +33,12 @@ func chordsOf(notes []voiceNote, tu target.Tuning, seventh float64) []harmony.Ch
 		}
 	}
 	return chords
+}
+
+// harmonyNote is the note as the chord finder reads it, the same for a
+// file's chords and those heard live.
+func (n voiceNote) harmonyNote() harmony.Note {
+	return harmony.Note{Start: n.Start, End: n.End, Who: strconv.Itoa(n.voice), Note: n.Reading.Note, Frames: n.frames, Hz: n.Hz, Settled: n.Settled}
 }
 
 // lostSeconds is the longest a voice's note may go unheard under a chord
