@@ -100,3 +100,37 @@ func (f *fitter) ownShare(f0 []float64, v int) float64 {
 	}
 	return steer / math.Max(all, 1e-300)
 }
+
+// besidePartial reports whether voice v's fundamental lies on a lower
+// voice's partial 3, 4, 5 or 6 (PartialCents) within apart bins of it, but
+// at least parted hertz from it.
+func (f *fitter) besidePartial(f0 []float64, v int, parted float64) bool {
+	for _, g := range f0 {
+		c, ok := PartialCents(f0[v], g)
+		if d := math.Abs(f0[v] - f0[v]*math.Exp2(-c/1200)); ok && g < f0[v] && d < f.apart*f.binHz && d >= parted {
+			return true
+		}
+	}
+	return false
+}
+
+// freeShare is the share of voice v's power in the long window's fit held
+// by its partials that lie apart from every other voice's (collides): those
+// that steer it on a sub-window.
+func (f *fitter) freeShare(f0 []float64, v int) float64 {
+	if v >= len(f.long) {
+		return 1
+	}
+	free, all := 0.0, 0.0
+	for k := 1; k < len(f.long[v]); k++ {
+		p := power(f.long[v][k])
+		all += p
+		if !f.collides(f0, v, k, true) {
+			free += p
+		}
+	}
+	if all == 0 {
+		return 1
+	}
+	return free / all
+}

@@ -43,12 +43,19 @@ var partialSteps = [...]float64{3, 4, 5, 6}
 // OnPartial reports whether hz lies within 35 ¢ of partial 3, 4, 5 or 6 of
 // lo (partialSteps), where a voice may be that one's partial.
 func OnPartial(hz, lo float64) bool {
+	_, ok := PartialCents(hz, lo)
+	return ok
+}
+
+// PartialCents is how far hz lies from the nearest of lo's partials 3, 4,
+// 5 and 6, in cents, where it lies within 35 ¢ of one (OnPartial).
+func PartialCents(hz, lo float64) (float64, bool) {
 	for _, s := range partialSteps {
-		if math.Abs(cents(hz, s*lo)) < octaveCents {
-			return true
+		if c := cents(hz, s*lo); math.Abs(c) < octaveCents {
+			return c, true
 		}
 	}
-	return false
+	return 0, false
 }
 
 // markPartials marks each voice of vs (one frame's, read on e.spec) that

@@ -35,6 +35,20 @@ import (
 // has the larger share steer it, and only where they hold most of its
 // power (ownShare); otherwise it keeps the long reading.
 
+// A voice whose fundamental lies that near a lower voice's partial 3 to 6
+// but far enough from it for the long window's main lobes to part them
+// (apartBins of its bins: a flute's E5 21 ¢ over a trombone's C3's 5th
+// partial, 8.6 Hz, 3.2 bins of the long window, 0.8 of a sub-window's),
+// and whose partials lying apart from every other voice's hold under
+// ownShare of its power in the long fit (freeShare: the flute's weak 3rd
+// and 4th), keeps the long window's reading: its sub-window fits, steered
+// by those alone beside the lower voice's strong partials, read it 0.8 to
+// 7 ¢ sharp (that E5 +2.9 ¢ over the note, +1.85 ¢ so; measured on
+// voices_untuned_test.go's render). Nearer, the long window cannot part
+// them either, and the sub-windows' mean reads as well (a trumpet's C5
+// 4.5 Hz under a trombone's F3's 3rd partial: +0.13 ¢, +0.85 from the long
+// window).
+
 // apartBins: partials nearer than this to another voice's, in sub-window
 // bins, do not steer the sub-window fit (the Hann main lobe's half width).
 const apartBins = 2.0
@@ -75,6 +89,7 @@ type timeAverager struct {
 	merge         []Voice        // scratch of mergeTwins
 	long          [][]complex128 // per voice, per partial: the long fit's amplitude
 	loose         []bool         // per voice: read by the partials it owns (fitter.loose)
+	held          []bool         // per voice: keeps the long reading (freeShare)
 	sum           []float64      // per voice: summed cents from the long reading
 	lo, hi        []float64      // per voice: the readings' range, cents
 	count         []int
@@ -149,13 +164,13 @@ func (ta *timeAverager) average(x []float64, voices []Voice, long *Estimator) []
 		ta.loose = append(ta.loose, ta.fitter.onHarmonic(ta.f0, v))
 		anyLoose = anyLoose || ta.loose[v]
 	}
-	if anyLoose {
-		ta.takeLong(long, voices)
-		anyLoose = false
-		for v := range voices {
-			ta.loose[v] = ta.loose[v] && ta.fitter.ownShare(ta.f0, v) >= ownShare
-			anyLoose = anyLoose || ta.loose[v]
-		}
+	ta.takeLong(long, voices)
+	ta.held = ta.held[:0]
+	anyLoose = false
+	for v := range voices {
+		ta.loose[v] = ta.loose[v] && ta.fitter.ownShare(ta.f0, v) >= ownShare
+		anyLoose = anyLoose || ta.loose[v]
+		ta.held = append(ta.held, !ta.loose[v] && ta.fitter.besidePartial(ta.f0, v, apartBins*long.fitter.binHz) && ta.fitter.freeShare(ta.f0, v) < ownShare)
 	}
 	clear(ta.sum)
 	ta.lo, ta.hi = grow(ta.lo, nv), grow(ta.hi, nv)
@@ -186,7 +201,7 @@ func (ta *timeAverager) average(x []float64, voices []Voice, long *Estimator) []
 		}
 	}
 	for v := range voices {
-		if ta.count[v] > 0 && ta.hi[v]-ta.lo[v] > movingCents {
+		if ta.count[v] > 0 && ta.hi[v]-ta.lo[v] > movingCents && !ta.held[v] {
 			voices[v].Hz *= math.Exp2(ta.sum[v] / float64(ta.count[v]) / 1200)
 		}
 	}

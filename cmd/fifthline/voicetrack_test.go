@@ -99,17 +99,22 @@ func TestVoiceNotesFollowTheTuningInForce(t *testing.T) {
 // A note most of whose frames the estimator marked as lying on a lower
 // voice's partials (multipitch.Voice.OnPartials) is those partials: no
 // note, and no voice in the numbering of the voices above it; one marked
-// in fewer than half its frames is a voice. Frames as above; C3 130.81 Hz,
-// G4 on its 3rd partial 392.44 Hz, E5 659.26 Hz (equal temperament, A4 =
-// 440 Hz, ISO 16).
+// in fewer than half its frames is a voice, and so is one whose marked
+// frames lie on average 15 ¢ or more from the partial (partialNoteCents).
+// Frames as above; C3 130.81 Hz, G4 on its 3rd partial 392.44 Hz, E5
+// 659.26 Hz (equal temperament, A4 = 440 Hz, ISO 16); G4 5 and 21 ¢ over
+// that partial, 393.57 and 397.25 Hz (the cents formula, common practice).
 func TestVoiceNoteOnALowerVoicesPartials(t *testing.T) {
 	for _, tc := range []struct {
 		name   string
 		marked float64 // share of G4's frames marked
+		g4     float64 // Hz
 		want   string
 	}{
-		{"marked in most frames", 0.7, "C3/1 E5/2"},
-		{"marked in a few frames", 0.3, "C3/1 G4/2 E5/3"},
+		{"marked in most frames", 0.7, 392.44, "C3/1 E5/2"},
+		{"marked in a few frames", 0.3, 392.44, "C3/1 G4/2 E5/3"},
+		{"marked in most frames, 5 ¢ over the partial", 0.7, 393.57, "C3/1 E5/2"},
+		{"marked in most frames, 21 ¢ over the partial", 0.7, 397.25, "C3/1 G4/2 E5/3"},
 	} {
 		var notes []string
 		hop, window := 4096/44100.0, 16384/44100.0
@@ -119,7 +124,7 @@ func TestVoiceNoteOnALowerVoicesPartials(t *testing.T) {
 		for i := range 30 {
 			tr.push(multipitch.Frame{Time: float64(i) * hop, Voices: []multipitch.Voice{
 				{Hz: 130.81, Amplitude: 0.1},
-				{Hz: 392.44, Amplitude: 0.05, OnPartials: float64(i%10) < 10*tc.marked},
+				{Hz: tc.g4, Amplitude: 0.05, OnPartials: float64(i%10) < 10*tc.marked},
 				{Hz: 659.26, Amplitude: 0.05},
 			}})
 		}
@@ -127,5 +132,29 @@ func TestVoiceNoteOnALowerVoicesPartials(t *testing.T) {
 		if got := strings.Join(notes, " "); got != tc.want {
 			t.Errorf("%s: heard %q, want %q", tc.name, got, tc.want)
 		}
+	}
+}
+
+// A note an octave above a louder note that is itself a lower voice's
+// partials (marked so in most of its frames) is not folded into it: it is
+// a voice (a flute's B5 read also an octave low, as B4 on a trombone's E3's
+// 3rd partial), though it ends first. E3 164.81, B4 494.43 and B5 988.86
+// Hz (equal temperament, A4 = 440 Hz, ISO 16).
+func TestVoiceNoteOctaveAboveAPartialIsAVoice(t *testing.T) {
+	var notes []string
+	hop, window := 4096/44100.0, 16384/44100.0
+	tr := newTracker("test", fixed(target.Default()), hop, window, func(n voiceNote) {
+		notes = append(notes, n.Reading.Note.String())
+	})
+	for i := range 40 {
+		vs := []multipitch.Voice{{Hz: 164.81, Amplitude: 0.1}, {Hz: 494.43, Amplitude: 0.08, OnPartials: true}}
+		if i < 12 { // B5 ends first, while B4 is still read
+			vs = append(vs, multipitch.Voice{Hz: 988.86, Amplitude: 0.05})
+		}
+		tr.push(multipitch.Frame{Time: float64(i) * hop, Voices: vs})
+	}
+	tr.flush()
+	if got := strings.Join(notes, " "); got != "B5 E3" { // in the order they end
+		t.Errorf("heard %q, want \"B5 E3\"", got)
 	}
 }
