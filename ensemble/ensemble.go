@@ -139,7 +139,7 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 		cleaned[i] = v.clean
 	}
 	fr := newFrameReadings(len(voices))
-	recent := make([]float64, len(voices))
+	recent := fr.recent
 	frame := 0
 	blocks, view := make([][]float32, src.Channels()), make([][]float32, src.Channels())
 	for c := range blocks {
