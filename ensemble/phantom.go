@@ -88,7 +88,11 @@ func multiples(k int) (mask uint16) {
 // under those of the note above (the player's sound is that note's), the
 // note is the one above. A note of the player's own sounds its odd
 // harmonics on its own channel (a clarinet's most of all); a note that
-// sounds only its even ones is the note above.
+// sounds only its even ones is the note above. The frame is given away
+// rather than read k times higher: its period holds the neighbour's
+// partial too, and so read the flute's A5 took in frames 4 ¢ flat and
+// read 1.1 ¢ flat of the part alone (the note begins where it is read
+// whole, as attack.go's frames do).
 
 // phantomOnPartial tells whether hz read on channel c is the period its
 // note k·hz shares with the bleed of a neighbour not yet weighed on c,
