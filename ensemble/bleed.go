@@ -66,10 +66,9 @@ type pairBleed struct {
 
 	weighed bool // estimated at least once, whatever the gain
 
-	pitch   float64 // d's first pitch the evidence was gathered at, Hz (period.go)
-	pitches int     // 2 once evidence came at a pitch unrelated to it as well
-	ties    int     // how many near-tie lags the last estimate chose among
-	// outOfPhase: at d's pitch now, unrelated to the evidence's one pitch,
+	pitch float64 // d's first pitch the evidence was gathered at, Hz (period.go)
+	ties  int     // how many near-tie lags the last estimate chose among
+	// outOfPhase: at d's pitch now, unrelated to the evidence's first pitch,
 	// subtracting would make c louder (period.go)
 	outOfPhase bool
 }

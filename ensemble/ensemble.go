@@ -139,7 +139,7 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 		cleaned[i] = v.clean
 	}
 	fr := newFrameReadings(len(voices))
-	recent := make([]float64, len(voices))
+	recent := fr.recent
 	frame := 0
 	blocks, view := make([][]float32, src.Channels()), make([][]float32, src.Channels())
 	for c := range blocks {
@@ -204,8 +204,11 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 			for i, v := range voices {
 				// A period shared with bleed not yet weighed is the note above
 				// (phantom.go); below the neighbours' partials none is shared.
-				if k := owner.phantom(i, v.cur.Hz, fr.read, func(d int) bool { return !bleed.weighed(i, d) }); k > 1 && v.cut == 0 {
+				unweighed := func(d int) bool { return !bleed.weighed(i, d) }
+				if k := owner.phantom(i, v.cur.Hz, fr.read, unweighed); k > 1 && v.cut == 0 {
 					v.cur.Hz *= float64(k)
+				} else if v.cut == 0 && owner.phantomOnPartial(i, v.cur.Hz, fr.read, unweighed, ownDB) {
+					v.cur = unvoiced(v.cur)
 				}
 				skip := owner.weighedSkip(i, v.cur.Hz, v.cut, fr.read)
 				v.blanked = v.cur.Voiced && owner.louderElsewhere(i, v.cur.Hz, skip, ownDB) &&

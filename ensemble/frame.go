@@ -16,11 +16,12 @@ type frameReadings struct {
 	read   []float64 // the detector's pitch before it
 	level  []float64 // the level of the window the detector read (cleaned), dBFS
 	steady []bool    // the player has held hz, or silence, for a window
+	recent []float64 // the player's latest pitch heard within a window, 0: none (lowband.go)
 }
 
 func newFrameReadings(players int) *frameReadings {
 	return &frameReadings{hz: make([]float64, players), read: make([]float64, players),
-		level: make([]float64, players), steady: make([]bool, players)}
+		level: make([]float64, players), steady: make([]bool, players), recent: make([]float64, players)}
 }
 
 // own is player c's own pitch this frame as the bleed evidence needs it:

@@ -13,37 +13,41 @@ import (
 // to correct it (an oboe's F4 and a flute's A5 on a clarinet's channel
 // taken 2.74 ms and 1.67 ms late for 5.60 and 3.93; under their B♭4 and
 // G5 the clarinet's held pianissimo D4 broke in two). So while a pair's
-// delay rests on one pitch alone, chosen among near-tie lags, and the
+// delay is chosen among near-tie lags of one pitch, and the
 // neighbour sounds a pitch unrelated to it, each frame judges it at the
 // new pitch's partials that the old one does not share (judgePhase); one
 // that would leave the channel louder there is not subtracted until a
-// frame judges it otherwise or the new pitch's evidence has chosen among
-// the lags. A frame with no such partial clear of the others' (a low
+// frame judges it otherwise or the evidence has chosen one of the lags.
+// A frame with no such partial clear of the others' (a low
 // voice's own partials lie everywhere) keeps the last judgment: holding
 // back every pair it cannot judge broke a choir bass's B♭2 in two live.
 // One pitch that gave a single clear lag (a bassoon's, whose period is
-// longer than most delays) is trusted, and so is a lag the new pitch
-// confirms: holding either back let a bassoon's new G2 cover the
+// longer than most delays) is trusted, and so is the one lag the
+// evidence at both pitches leaves: holding either back let a bassoon's new G2 cover the
 // clarinet's D4, its third harmonic, for 0.15 s, and a soprano's F♯4
 // entering over the bass's D3 make it D2 for 0.18 s.
 
-// heardAt notes that p's evidence this frame was gathered at pitch hz.
+// heardAt notes that p's evidence this frame was gathered at pitch hz:
+// the first such pitch is the one its near-tie lags lie a period apart of.
 func (p *pairBleed) heardAt(hz float64) {
-	switch {
-	case p.pitch == 0:
+	if p.pitch == 0 {
 		p.pitch = hz
-	case !harmonicallyRelated(hz, p.pitch):
-		p.pitches = 2
 	}
 }
 
 // periodAmbiguous tells whether the delay of what c hears of d was
-// chosen among near-ties from one pitch alone, of which d's pitch now is
-// none of the multiples or partials: that delay may be a whole period of
-// the old pitch off, out of phase for the new one.
+// chosen among near-ties, of which d's pitch now is none of the multiples
+// or partials of the first pitch: that delay may be a whole period of the
+// old pitch off, out of phase for the new one. Evidence at the new pitch
+// does not settle it until the estimate has one lag left: the old
+// pitch's fades over seconds (bleedMemory), and while both stand the
+// near-ties do too (an oboe's F4 then B♭4 on the clarinet's channel, read
+// once as live: 0.4 s of evidence at B♭4 before one lag stood, meanwhile
+// B♭4 subtracted a period of F4 off and the clarinet's held D4 broke in
+// two at three phases of the hop in four).
 func (m *bleedModel) periodAmbiguous(c, d int) bool {
 	p, now := m.pair(c, d), m.sounding[d]
-	return p.pitches < 2 && p.ties > 1 && now > 0 && p.pitch > 0 && !harmonicallyRelated(now, p.pitch)
+	return p.ties > 1 && now > 0 && p.pitch > 0 && !harmonicallyRelated(now, p.pitch)
 }
 
 // harmonicallyRelated tells whether one of a and b lies within
@@ -69,7 +73,17 @@ func (m *bleedModel) judgePhase(o *Owner, f *frameReadings, c, d int) {
 		return
 	}
 	binHz := o.fs / float64(m.n)
-	own, _ := f.own(c)
+	own, unread := f.own(c)
+	if f.hz[c] == 0 && f.recent[c] > 0 {
+		// The player's note, its reading given away this frame: a wrong
+		// subtraction leaves the channel at the period the note shares with
+		// the bleed (a clarinet's D4 read G1 under a bassoon's G2), whose
+		// partials lie on every bin and would leave nothing to judge by.
+		own, unread = f.recent[c], false
+	}
+	if unread && f.level[c] > f.level[d]-quietDB {
+		return // c's own attack, not yet read, lies anywhere among d's partials
+	}
 	pd := f.hz[d]
 	var sum complex128
 	dd := 0.0

@@ -74,3 +74,48 @@ func multiples(k int) (mask uint16) {
 	}
 	return mask
 }
+
+// A phantom on a partial: the same period, where the neighbour sounds
+// below and the pitch read lies on one of its partials, so that every
+// harmonic of it is the neighbour's too and none is silent to tell by.
+// A flute's A5 entering with a bassoon's D3, whose third partial is its
+// strongest, read A4 for 0.15 s before the pair's bleed was weighed
+// (FluidR3, bleed 15–25 dB down): on the flute's channel A4's odd
+// harmonics, which are not A5's, lay 17 dB under the bassoon's channel
+// there, and 14–18 dB under A5's harmonics. So where the harmonics of
+// hz that are not the note above's sound ownDB louder on another channel
+// (they are its bleed, as Bleed judges a whole pitch), and on c ownDB
+// under those of the note above (the player's sound is that note's), the
+// note is the one above. A note of the player's own sounds its odd
+// harmonics on its own channel (a clarinet's most of all); a note that
+// sounds only its even ones is the note above. The frame is given away
+// rather than read k times higher: its period holds the neighbour's
+// partial too, and so read the flute's A5 took in frames 4 ¢ flat and
+// read 1.1 ¢ flat of the part alone (the note begins where it is read
+// whole, as attack.go's frames do).
+
+// phantomOnPartial tells whether hz read on channel c is the period its
+// note k·hz shares with the bleed of a neighbour not yet weighed on c,
+// on one of whose partials hz lies (pitches: the players' readings this
+// frame, by channel).
+func (o *Owner) phantomOnPartial(c int, hz float64, pitches []float64, unweighed func(d int) bool, ownDB float64) bool {
+	if !o.have[c] || !(hz > 0) {
+		return false
+	}
+	below := false
+	for d, p := range pitches {
+		j := math.Round(hz / p)
+		below = below || d != c && p > 0 && j >= 1 && unweighed(d) && math.Abs(1200*math.Log2(hz/(j*p))) < partialCents
+	}
+	if !below {
+		return false
+	}
+	const all = 1<<ownHarmonics - 1
+	for k := 2; k <= 3; k++ {
+		above := multiples(k) // power(…, skip) leaves these out: it weighs the rest
+		if o.power(c, hz, above)*math.Pow(10, ownDB/10) < o.power(c, hz, all&^above) && o.louderElsewhere(c, hz, above, ownDB) {
+			return true
+		}
+	}
+	return false
+}

@@ -52,3 +52,44 @@ func TestAPhantomBelowIsThePlayersNoteAbove(t *testing.T) {
 		}
 	}
 }
+
+// The period a player's note shares with a louder neighbour sounding
+// below, on one of whose partials it lies, and a real note there.
+// Sawtooth tones, a neighbour heard 18 dB down, the detector's default
+// window at 48 kHz. D3 in equal temperament at A4 = 440 Hz (ISO 16); A4
+// a just twelfth (3/1) and A5 two octaves and a fifth (6/1) above it
+// (common practice), so A4 lies on D3's third partial and A5 on its sixth.
+func TestAPhantomOnANeighboursPartialIsGivenAway(t *testing.T) {
+	d3 := 440 * math.Exp2(-19.0/12)
+	const n = 4096
+	for _, c := range []struct {
+		name    string
+		own     float64 // the player's pitch; A4 is read on their channel
+		weighed bool    // the neighbour's bleed on the player is estimated
+		want    bool
+	}{
+		// The flute's A5 entering with the bassoon's D3: read as A4, its
+		// odd harmonics are the bassoon's bleed.
+		{"the note an octave above", 6 * d3, false, true},
+		// A real A4 sounds its own odd harmonics on its own channel.
+		{"a real note", 3 * d3, false, false},
+		// Once the bleed is estimated it is subtracted before the detector
+		// reads: an A4 read then is no shared period.
+		{"bleed weighed", 6 * d3, true, false},
+	} {
+		own := testsignal.Tone(rate, n, testsignal.Saw, 0.15, testsignal.Steady(c.own))
+		next := testsignal.Tone(rate, n, testsignal.Saw, 0.15, testsignal.Steady(d3))
+		ch0, ch1 := make([]float64, n), make([]float64, n)
+		for i := range ch0 {
+			ch0[i] = own[i] + math.Pow(10, -18.0/20)*next[i]
+			ch1[i] = next[i] + math.Pow(10, -18.0/20)*own[i]
+		}
+		o := NewOwner(rate, n, 2)
+		o.Set(0, ch0, nil)
+		o.Set(1, ch1, nil)
+		got := o.phantomOnPartial(0, 3*d3, []float64{3 * d3, d3}, func(int) bool { return !c.weighed }, DefaultOwnDB)
+		if got != c.want {
+			t.Errorf("%s: A4 read on the player's channel given away %v, want %v", c.name, got, c.want)
+		}
+	}
+}
