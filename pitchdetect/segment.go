@@ -302,7 +302,7 @@ func (s *Segmenter) summarise(live bool, next float64) Held {
 	// the Window at the note's ends.
 	lo, hi := s.ends(fr, h)
 	if s.from.hz != 0 {
-		lo = s.from.last + s.Window/2
+		lo = s.slurredFrom(fr, h)
 	}
 	quick := hi // a quick note with none such: to half a Window before a slur
 	if slurred {
