@@ -110,18 +110,21 @@ func drifts(fr []Estimate) bool {
 
 // slurredFrom is where the steady part of the note h (frames fr), slurred
 // from the last, may begin: half a Window after the last note's last frame
-// (see summarise). A note whose frames turn back, too short for a vibrato
-// fit's whole cycles, holds part of a vibrato, and its pitch is the centre
-// of what it holds: it is read from its first frame. Setting half a Window
-// aside there moved the centre further than the last note's tail in those
-// frames pulls it (FluidR3's violin sixteenths and eighths: 133 of 256
-// within 2 ¢ of their sound's median over the hop's eight phases, 150 so;
-// the oboe's 202 and 210; measured).
-func (s *Segmenter) slurredFrom(fr []Estimate, h Held) float64 {
+// (see summarise); and whether the note is turning: its frames turn back,
+// and it is too short for a vibrato fit's whole cycles. A turning note
+// holds part of a vibrato, and its pitch is the centre of what it holds: it
+// is read from its first frame, and with a steady part by summarise's rule
+// on to its last, with no glide left out (a trough there looks like a glide
+// that settled). Setting half a Window aside at either end moved the
+// centre further than the neighbours' tails in those frames pull it
+// (FluidR3's violin sixteenths and eighths: 133 of 256 within 2 ¢ of their
+// sound's median over the hop's eight phases, 162 so; the oboe's 202 and
+// 227; measured).
+func (s *Segmenter) slurredFrom(fr []Estimate, h Held) (lo float64, turning bool) {
 	if h.End-h.Start < vibratoMinCycle/vibratoMinRate && turns(fr) {
-		return h.Start
+		return h.Start, true
 	}
-	return s.from.last + s.Window/2
+	return s.from.last + s.Window/2, false
 }
 
 // turnCents: frames that turn back this far either way hold a vibrato's

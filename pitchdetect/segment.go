@@ -301,8 +301,9 @@ func (s *Segmenter) summarise(live bool, next float64) Held {
 	// over their length, 3.9 ¢ so; measured.) Margin, where set, replaces
 	// the Window at the note's ends.
 	lo, hi := s.ends(fr, h)
+	turning := false // part of a vibrato's cycle (slurredFrom)
 	if s.from.hz != 0 {
-		lo = s.slurredFrom(fr, h)
+		lo, turning = s.slurredFrom(fr, h)
 	}
 	quick := hi // a quick note with none such: to half a Window before a slur
 	if slurred {
@@ -310,9 +311,9 @@ func (s *Segmenter) summarise(live bool, next float64) Held {
 	}
 	i, j := steady(fr, lo, hi, quick)
 	// A slurred note with a steady part by the rule above is read on to
-	// half a Window before its end.
+	// half a Window before its end, or turning, to its end.
 	long := slurred && fr[j-1].Time <= hi
-	for long && j < len(fr) && fr[j].Time <= quick {
+	for long && j < len(fr) && (turning || fr[j].Time <= quick) {
 		j++
 	}
 	// A slurred note whose frames move one way only has no turn of a
@@ -360,7 +361,7 @@ func (s *Segmenter) summarise(live bool, next float64) Held {
 		wobble++
 	}
 	g := s.glide(s.c, wobble)
-	if s.c = s.c[:n]; g >= n {
+	if s.c = s.c[:n]; g >= n || turning {
 		g = 0
 	}
 	mean, sd := meanStd(s.c[g:])
