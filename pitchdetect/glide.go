@@ -135,19 +135,25 @@ const turnCents = 10.0
 // turns reports whether the pitch of the frames fr rises at least
 // turnCents to one of them and falls as far after it, or falls and rises.
 func turns(fr []Estimate) bool {
-	cents := func(e Estimate) float64 { return 1200 * math.Log2(e.Hz/fr[0].Hz) }
-	for i := 1; i+1 < len(fr); i++ {
-		c := cents(fr[i])
-		var up, down [2]bool // before i, after i
-		for k, side := range [2][]Estimate{fr[:i], fr[i+1:]} {
-			for _, e := range side {
-				d := c - cents(e)
-				up[k], down[k] = up[k] || d >= turnCents, down[k] || d <= -turnCents
-			}
-		}
-		if up[0] && up[1] || down[0] && down[1] {
+	n := len(fr)
+	if n < 3 {
+		return false
+	}
+	c, lo, hi := make([]float64, n), make([]float64, n), make([]float64, n) // lo, hi: of c[i:]
+	for i, e := range fr {
+		c[i] = 1200 * math.Log2(e.Hz/fr[0].Hz)
+	}
+	lo[n-1], hi[n-1] = c[n-1], c[n-1]
+	for i := n - 2; i >= 0; i-- {
+		lo[i], hi[i] = min(c[i], lo[i+1]), max(c[i], hi[i+1])
+	}
+	before := [2]float64{c[0], c[0]} // the lowest and highest of c[:i]
+	for i := 1; i+1 < n; i++ {
+		if c[i]-before[0] >= turnCents && c[i]-lo[i+1] >= turnCents ||
+			before[1]-c[i] >= turnCents && hi[i+1]-c[i] >= turnCents {
 			return true
 		}
+		before = [2]float64{min(before[0], c[i]), max(before[1], c[i])}
 	}
 	return false
 }
