@@ -35,8 +35,9 @@ func TestAnalyzeHearsTheViolinsHighRunAtEveryHopPhase(t *testing.T) {
 // The violin's sixteenths (G3–B4, vibrato from each note's start) at every
 // phase of the hop, as the high runs above: every note heard, in order,
 // and read within the middle 80 % of its sound's pitches (checkLegato); at
-// least 6 of the 16 within legatoCents of their sound's median (measured:
-// 6–10). (Measured before a slurred note's attack read an octave low was
+// least 8 of the 16 within legatoCents of their sound's median (measured:
+// 8–12; 6–10 before a quick note turning in its vibrato was read whole, see
+// pitchdetect/glide.go's slurredFrom). (Measured before a slurred note's attack read an octave low was
 // taken for its own, see pitchdetect/lowattack.go: the C5 slurred from E5
 // read C4 for most of its frames, and was given out as C4 at one phase
 // and lost at two.)
@@ -44,7 +45,7 @@ func TestAnalyzeHearsTheViolinsSixteenthsAtEveryHopPhase(t *testing.T) {
 	t.Parallel()
 	for _, run := range renderLegatoRuns(t) {
 		if run.name == "violin-0.15s" {
-			analyzeAtEveryHopPhase(t, run, 6)
+			analyzeAtEveryHopPhase(t, run, 8)
 			return
 		}
 	}
