@@ -192,8 +192,9 @@ func (tr *tracker) deliver(t *track, h pitchdetect.Held) {
 	// A note most of whose frames lie on a lower voice's partials, which
 	// stand no higher than that voice's envelope allows, is those partials
 	// (multipitch.Voice.OnPartials): no voice either; so is a quieter
-	// note surfacing on a held note's partial (voicesurfaced.go).
-	if tr.foldOctave(t, h) || t.onPartials() || tr.surfaced(t, h) {
+	// note surfacing on a held note's partial (voicesurfaced.go), and a
+	// voice's attack read an octave low (voiceattack.go).
+	if tr.foldOctave(t, h) || t.onPartials() || tr.surfaced(t, h) || tr.attackBelow(t, h) {
 		t.delivered = true // no voice: not counted as one either
 		return
 	}
