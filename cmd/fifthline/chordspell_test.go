@@ -16,6 +16,7 @@ import (
 // G♯4 and E4 in equal temperament at A4 = 440 Hz (ISO 16; 440·2^(n/12)),
 // then the G♯4 alone.
 func TestNoteRowsSpellChordMembersFromTheRoot(t *testing.T) {
+	t.Parallel()
 	multi, mono := soxParts(t, [][]soxNote{
 		{{164.8138, 0.2, 1.5, 1.6}},
 		{{246.9417, 0.2, 1.5, 1.6}},

@@ -82,6 +82,7 @@ func readOnce(t *testing.T, r renderedTake) []map[string]string {
 // heard first as D2, the period the two share, before the bleed was
 // learned).
 func TestPlayersReadOnceHearStringsAndVoices(t *testing.T) {
+	t.Parallel()
 	for _, name := range liveFirstTakes {
 		r := renderTake(t, takeNamed(t, name))
 		checkPlayerNotes(t, "read once", r, r.loneNotes(t), readOnce(t, r), false)
@@ -92,6 +93,7 @@ func TestPlayersReadOnceHearStringsAndVoices(t *testing.T) {
 // null sink of this test's own, its monitor the input) and heard by
 // listen --plain --players.
 func TestListenPlayersHearsStringsAndVoicesLive(t *testing.T) {
+	t.Parallel()
 	for _, name := range liveFirstTakes {
 		hearTakeLive(t, renderTake(t, takeNamed(t, name)))
 	}

@@ -19,6 +19,7 @@ import (
 // diesis 128/125 that ¼-comma meantone puts between them (its pure major
 // thirds: common practice).
 func TestListenPlainSpellsNotesFromTheirChordAsAnalyzeDoes(t *testing.T) {
+	t.Parallel()
 	multi, _ := meantoneThird(t)
 	musical := []string{"--key", "F major", "--temperament", "meantone:1/4", "--a4", "415", "--players", "vc,vla,vl2,vl1"}
 	code, out, stderr := runCLI(t, append(append([]string{"analyze"}, musical...), multi)...)
@@ -102,6 +103,7 @@ func meantoneThird(t *testing.T) (multi, mono string) {
 // from the same sum (the parts of meantoneThird), through a null sink of
 // the test's own.
 func TestListenPlainVoicesSpellNotesFromTheirChordAsAnalyzeDoes(t *testing.T) {
+	t.Parallel()
 	_, mono := meantoneThird(t)
 	musical := []string{"--key", "F major", "--temperament", "meantone:1/4", "--a4", "415", "--voices", "auto"}
 	code, out, stderr := runCLI(t, append(append([]string{"analyze"}, musical...), mono)...)
@@ -155,6 +157,7 @@ func readRows(t *testing.T, csv string) []map[string]string {
 // enters 0.3 s before the others, who play C major (E3 G3 C4), F major
 // (F3 A3 C4), C major (G3 C4 E4) and C dominant seventh (E3 G3 B♭3).
 func TestListenPlainGivesTheChordsAboveAPedalAsTheyEnd(t *testing.T) {
+	t.Parallel()
 	parts := append([][]soxNote{{{130.8128, 0.2, 8.2, 1.0}}}, overPedal([][]float64{
 		{164.8138, 174.6141, 195.9977, 164.8138}, // E3 F3 G3 E3
 		{195.9977, 220.0000, 261.6256, 195.9977}, // G3 A3 C4 G3

@@ -11,6 +11,7 @@ import (
 // definitions), are the chord's tuning, not the take's drift. sox's chord is
 // C4, a just E4 (327.0375 = 261.63·5/4) and G4 (392.445 = 261.63·3/2).
 func TestAnalyzeVoicesTableEndsWithTheGroupsDrift(t *testing.T) {
+	t.Parallel()
 	path := sox(t, "chord.wav", "-r", "44100", "-b", "16", "synth 2 sawtooth 261.63 sawtooth 327.0375 sawtooth 392.445 remix 1,2,3 gain -8")
 	code, out, stderr := runCLI(t, "analyze", "--voices", "auto", "--format", "table", path)
 	lines := strings.Split(strings.TrimRight(out, "\n"), "\n")

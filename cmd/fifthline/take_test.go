@@ -53,6 +53,7 @@ func TestAForgottenReferenceIsNoticed(t *testing.T) {
 // Notes a steady 20 ¢ sharp in the declared key: a reference of
 // 440·2^(20/1200) = 445.11 Hz fits them.
 func TestASteadyOffsetIsNoticed(t *testing.T) {
+	t.Parallel()
 	take := toneWAV(t, equalScale(440*math.Exp2(20.0/1200))...)
 	_, _, stderr := runCLI(t, "analyze", "--key", "G major", "--a4", "440", take)
 	for _, want := range []string{"sit a steady 20.0 ¢ sharp", "these notes fit G major at A4 ≈ 445.1 Hz"} {
@@ -92,6 +93,7 @@ func TestTheTableSumsUpEachTake(t *testing.T) {
 // (the held note is finished where the reading stopped) and says it was
 // interrupted.
 func TestInterruptedTablePrintsTheNotesSoFar(t *testing.T) {
+	t.Parallel()
 	long := filepath.Join(t.TempDir(), "long.wav")
 	// Ten minutes of A4 = 440 Hz at 8 kHz: far longer than the interrupt
 	// takes to come.

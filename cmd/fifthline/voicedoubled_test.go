@@ -44,6 +44,7 @@ const e3Hz, b3Hz, e4Hz, gs4Hz = 164.8138, 246.9417, 329.6276, 415.3047
 // ones: three voices, E3 doubled on its note row and its chord row; the
 // same chord without E4 marks nothing.
 func TestAnalyzeVoicesMarksADoublingInAChord(t *testing.T) {
+	t.Parallel()
 	for _, tc := range []struct {
 		name    string
 		hz      []float64
@@ -79,6 +80,7 @@ func TestAnalyzeVoicesMarksADoublingInAChord(t *testing.T) {
 // named only as the whole chord is named, never from what is left of it
 // (B3 and G♯4 alone would read G♯ minor); stderr says voices were left out.
 func TestAnalyzeFewerVoicesThanSound(t *testing.T) {
+	t.Parallel()
 	path := soxChord(t, e3Hz, b3Hz, e4Hz, gs4Hz)
 	code, out, stderr := runCLI(t, "analyze", "--voices", "2", "--chords", path)
 	if code != 0 {

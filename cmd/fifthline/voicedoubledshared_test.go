@@ -29,6 +29,7 @@ func soxWaves(t *testing.T, wave string, pad float64, hz ...float64) string {
 // marked. The same holds for square waves (odd partials only) in G major,
 // equal-tempered (ISO 16).
 func TestAnalyzeVoicesMarksARootDoubledUnderSharedNeighbours(t *testing.T) {
+	t.Parallel()
 	for _, tc := range []struct {
 		name, wave, chord string
 		hz                []float64

@@ -15,6 +15,7 @@ import (
 // a chord; the estimator once whitened by it, so that at -6 dBFS the chord
 // split into B2 and two E3s and at -2 dBFS nothing was read.
 func TestAnalyzeVoicesReadsAChordAlikeAtEveryLevel(t *testing.T) {
+	t.Parallel()
 	want := []struct {
 		note    string
 		hz      float64

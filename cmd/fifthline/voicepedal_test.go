@@ -65,6 +65,7 @@ var pedalArgs = []string{"--key", "C major", "--temperament", "equal", "--a4", "
 // clock), and the chord rows are analyze's of the same file, to the last
 // digit: the same frames, each member read over its chord's own stretch.
 func TestListeningGivesTheChordsAboveAHeldVoiceAsTheyEnd(t *testing.T) {
+	t.Parallel()
 	mono := voicePedalTake(t)
 	out, file := analyzeRecords(t, mono, true)
 	heard := listenToFile(t, mono, true)
@@ -98,6 +99,7 @@ func TestListeningGivesTheChordsAboveAHeldVoiceAsTheyEnd(t *testing.T) {
 // the same file (spelled from its chord), the pedal's last; the pedal is
 // read from its pitch so far, as the chords are without their frames.
 func TestListeningGivesTheNotesAboveAHeldVoiceAsTheyEnd(t *testing.T) {
+	t.Parallel()
 	mono := voicePedalTake(t)
 	out, file := analyzeRecords(t, mono, false)
 	heard := listenToFile(t, mono, false)
@@ -217,6 +219,7 @@ func pedalOrder(given []string) string {
 // and the journal has each chord's memberships before the next chord's
 // note rows and the pedal's.
 func TestListenPlainVoicesGiveTheChordsAboveAPedalAsTheyEnd(t *testing.T) {
+	t.Parallel()
 	mono := voicePedalTake(t)
 	out, _ := analyzeRecords(t, mono, true)
 	journal := filepath.Join(t.TempDir(), "journal.csv")

@@ -122,6 +122,7 @@ func FuzzParseVoices(f *testing.F) {
 // An octave doubling (sox: sawtooths on C3 and C4 under E4) is one note,
 // C3, marked doubled; no voice is invented for C4.
 func TestAnalyzeVoicesMarksAnOctaveDoubling(t *testing.T) {
+	t.Parallel()
 	_, out := soxVoices(t, "synth 2 sawtooth 130.81 sawtooth 261.63 square 327.04 remix 1,2,3 gain -8")
 	_, rows := readCSV(t, out)
 	if len(rows) != 2 || rows[0]["note"] != "C3" || rows[0]["doubled"] != "true" || rows[1]["note"] != "E4" || rows[1]["doubled"] != "false" {
@@ -135,6 +136,7 @@ func TestAnalyzeVoicesMarksAnOctaveDoubling(t *testing.T) {
 // (multipitch/smoothness.go), where a lone voice's own 3rd partial would
 // not. (C3 is marked doubled: G4's even partials lift C3's even ones.)
 func TestAnalyzeVoicesHearsATwelfthAbove(t *testing.T) {
+	t.Parallel()
 	_, out := soxVoices(t, "synth 2 sawtooth 130.81 sawtooth 327.025 sawtooth 392.43 remix 1,2,3 gain -8")
 	_, rows := readCSV(t, out)
 	if len(rows) != 3 || rows[0]["note"] != "C3" || rows[1]["note"] != "E4" || rows[2]["note"] != "G4" {
