@@ -139,11 +139,13 @@ func (h *playerChords) frame(i int, est pitchdetect.Estimate) {
 type openNote struct {
 	start, through float64
 	ok             bool
+	settled        float64 // where its reading begins, once settles
+	settles        bool
 }
 
 // sound takes player i's note still sounding (ensemble.Options.OnSounding).
-func (h *playerChords) sound(i int, start, through float64, ok bool) {
-	h.open[i] = openNote{start, through, ok}
+func (h *playerChords) sound(i int, start, through float64, ok bool, settled float64, settles bool) {
+	h.open[i] = openNote{start, through, ok, settled, settles}
 }
 
 // note takes a player's note as it ends, and gives back the first error
@@ -173,7 +175,8 @@ func (h *playerChords) ready(end bool) error {
 		for i, n := range h.next {
 			if o := h.open[i]; o.ok {
 				horizon = min(horizon, o.through, n.seen)
-				sounding = append(sounding, harmony.Note{Start: o.start, Who: h.players[i].Name, Frames: &h.tracks[i]})
+				sounding = append(sounding, harmony.Note{Start: o.start, Who: h.players[i].Name, Frames: &h.tracks[i],
+					Settled: o.settled, Settles: o.settles})
 				continue
 			}
 			horizon = min(horizon, n.earliest())
@@ -283,7 +286,7 @@ func (v *voiceChords) ready(at, earliest float64, open []openVoice) error {
 	for i, o := range open {
 		o.readPitch()
 		who := strconv.Itoa(o.voice)
-		sounding[i] = harmony.Note{Start: o.start, Who: who, Frames: o.frames, Hz: o.hz}
+		sounding[i] = harmony.Note{Start: o.start, Who: who, Frames: o.frames, Hz: o.hz, Settled: o.settled, Settles: o.settles}
 		v.doubled[voiceStart{who, o.start}] = o.doubled // so far; its note says at its end
 	}
 	v.stream.Sound(sounding)
