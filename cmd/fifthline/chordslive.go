@@ -116,7 +116,7 @@ func (po *playerOptions) liveChords(tunings *session.Tunings, emit func(ensemble
 	h := &playerChords{players: po.players, tracks: make([]harmony.Track, len(po.players)), next: make([]nextStart, len(po.players)),
 		open: make([]openNote, len(po.players)), tunings: newTuningLog(tunings), asked: math.Inf(-1), emit: emit}
 	h.rows = heldRows[playerNote]{event: func(n *playerNote) *session.Event { return &n.Event },
-		who: func(n *playerNote) string { return n.Player.Name }, write: row}
+		who: func(n *playerNote) string { return n.Player.Name }, write: row, heard: func(n *playerNote) *time.Time { return &n.heard }}
 	h.stream.Seventh = po.seventh
 	return h
 }
@@ -128,6 +128,7 @@ func (h *playerChords) frame(i int, est pitchdetect.Estimate) {
 		h.tunings.moment(est.Time)
 	}
 	h.tracks[i].Add(est.Time, est.Hz)
+	h.rows.now = max(h.rows.now, est.Time)
 	h.next[i].frame(est.Time, est.Hz)
 	if i == len(h.players)-1 {
 		h.ready(false)
@@ -257,7 +258,8 @@ func (vo *voiceOptions) liveChords(tunings *session.Tunings, emit func(harmony.C
 	}
 	v := &voiceChords{tunings: newTuningLog(tunings), asked: math.Inf(-1), emit: emit, doubled: map[voiceStart]bool{}, left: vo.left}
 	v.rows = heldRows[voiceNote]{event: func(n *voiceNote) *session.Event { return &n.Event },
-		who: func(n *voiceNote) string { return strconv.Itoa(n.voice) }, write: row, pieces: true}
+		who: func(n *voiceNote) string { return strconv.Itoa(n.voice) }, write: row, pieces: true,
+		heard: func(n *voiceNote) *time.Time { return &n.heard }}
 	v.stream = harmony.Stream{Seventh: vo.seventh, Reach: lostSeconds, OneChannel: true, Join: func(ns []harmony.Note) []harmony.Note {
 		joined, _ := bridgeLost(ns)
 		return joined
@@ -278,6 +280,7 @@ func (v *voiceChords) note(n voiceNote) error {
 // sounding (open) read over each chord's stretch as they will be.
 func (v *voiceChords) ready(at, earliest float64, open []openVoice) error {
 	v.tunings.moment(at)
+	v.rows.now = at
 	if !math.IsInf(earliest, 1) && earliest < v.asked+readyEvery {
 		return v.err
 	}
