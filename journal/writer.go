@@ -246,28 +246,6 @@ func (w *Writer) Write(ev session.Event) error { return w.write(ev, Extra{}, w.n
 // now places a note heard now on the journal's clock (see runClock).
 func (w *Writer) now(ev session.Event) func() time.Time { return w.heardAt(ev, time.Time{}) }
 
-// heardAt places a note whose end was heard at heard (zero: now) on the
-// journal's clock (see runClock).
-func (w *Writer) heardAt(ev session.Event, heard time.Time) func() time.Time {
-	return func() time.Time {
-		at := heard
-		if at.IsZero() {
-			at = w.meta.Now()
-		}
-		run := w.run.offset(ev, at.Sub(w.opened).Seconds())
-		return w.opened.Add(seconds(run + ev.Start))
-	}
-}
-
-// WriteHeard appends one held note heard live whose end was heard at heard
-// but which is written later, held back until the chords it sounds in are
-// known: it is placed on the clock as of when it was heard, so the wait
-// moves neither it nor the notes after it. A zero heard is WriteExtra's
-// now.
-func (w *Writer) WriteHeard(ev session.Event, x Extra, heard time.Time) error {
-	return w.write(ev, x, w.heardAt(ev, heard))
-}
-
 // WriteAt appends one held note of a recording that began at start (a
 // take's recording time): the note's time is start plus its offset in the
 // recording, whenever it is analysed. Otherwise it is Write.
