@@ -46,8 +46,10 @@ type Options struct {
 	// be given as a note beginning at start (pitchdetect's
 	// Segmenter.Sounding), through the time of its last frame; ok is false
 	// for none. A chord over a pedal can then be read before the pedal
-	// ends.
-	OnSounding func(i int, start, through float64, ok bool)
+	// ends. settles says whether where its reading begins is known yet,
+	// settled (pitchdetect's Segmenter.Settles): the chord it enters on is
+	// read from there.
+	OnSounding func(i int, start, through float64, ok bool, settled float64, settles bool)
 }
 
 // voice is one player's reading chain.
@@ -244,7 +246,11 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 			if opt.OnSounding != nil {
 				for i, v := range voices {
 					start, through, ok := v.seg.Sounding()
-					opt.OnSounding(i, start, through, ok)
+					settled, settles := 0.0, false
+					if ok {
+						settled, settles = v.seg.Settles()
+					}
+					opt.OnSounding(i, start, through, ok, settled, settles)
 				}
 			}
 			decided(voices, opt.OnFrame)

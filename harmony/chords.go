@@ -31,6 +31,9 @@ type Note struct {
 	// Settled is when the note's own reading begins (pitchdetect's
 	// Held.Settled, 0 for none): its attack's glide before is not read.
 	Settled float64
+	// Settles: a sounding note's Settled is known (pitchdetect's
+	// Segmenter.Settles; see Stream.Sound).
+	Settles bool
 }
 
 // Chord is a stretch in which two or more notes sound together, and what

@@ -36,12 +36,14 @@ func (s *Stream) Add(n Note) { s.notes = append(s.notes, n) }
 
 // Sound says which notes are sounding now, not yet ended (replacing what
 // it said before): a note sure to begin at its Start (pitchdetect's
-// Segmenter.Sounding), its Who and Frames; its End, Note, Hz and Settled
-// are not known yet (Hz may say its pitch so far, read where it has no
-// Frames). The chords above it that end before the horizon are then given
-// without waiting for it to end (a pedal held under a run of chords), each
-// reading it over the chord's own stretch, except the chord it enters on:
-// where its attack settled is known only at its end.
+// Segmenter.Sounding), its Who and Frames, and its Settled once Settles
+// (pitchdetect's Segmenter.Settles: a long note's is known once it has
+// sounded 1.5 s); its End and Note are not known yet (Hz may say its pitch
+// so far, read where it has no Frames). The chords above it that end
+// before the horizon are then given without waiting for it to end (a pedal
+// held under a run of chords), each reading it over the chord's own
+// stretch; the chord it enters on, read from where its attack settled,
+// once that is known.
 func (s *Stream) Sound(notes []Note) { s.sounding = append(s.sounding[:0], notes...) }
 
 // From is the earliest time a chord still to be given can read frames
@@ -109,10 +111,13 @@ func (s *Stream) Ready(horizon float64, tuning func(at float64) target.Tuning) (
 		next, runs = runs[last].Start, runs[:last]
 		settled = next
 	}
-	// A chord that a sounding note enters on waits for that note's end,
-	// and so do the chords after it (chords come in time order).
+	// A chord that a sounding note enters on waits until where that
+	// note's attack settled is known, and so do the chords after it
+	// (chords come in time order).
 	for i, c := range runs {
-		if slices.ContainsFunc(c.Notes, func(k int) bool { return math.IsInf(notes[k].End, 1) && notes[k].Start >= c.Start }) {
+		if slices.ContainsFunc(c.Notes, func(k int) bool {
+			return math.IsInf(notes[k].End, 1) && notes[k].Start >= c.Start && !notes[k].Settles
+		}) {
 			sp := spanOf(c, notes)
 			held = &sp
 			next, runs, settled = c.Start, runs[:i], c.Start

@@ -244,12 +244,7 @@ func (w *Writer) prepare() (err error) {
 func (w *Writer) Write(ev session.Event) error { return w.write(ev, Extra{}, w.now(ev)) }
 
 // now places a note heard now on the journal's clock (see runClock).
-func (w *Writer) now(ev session.Event) func() time.Time {
-	return func() time.Time {
-		run := w.run.offset(ev, w.meta.Now().Sub(w.opened).Seconds())
-		return w.opened.Add(seconds(run + ev.Start))
-	}
-}
+func (w *Writer) now(ev session.Event) func() time.Time { return w.heardAt(ev, time.Time{}) }
 
 // WriteAt appends one held note of a recording that began at start (a
 // take's recording time): the note's time is start plus its offset in the

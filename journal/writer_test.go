@@ -258,3 +258,31 @@ func TestWriterTimeRoundsAsStartDoes(t *testing.T) {
 		t.Errorf("want time .395 beside start_s 2.395:\n%s", data)
 	}
 }
+
+// A note heard live may be written long after it ended: its row waits
+// until the chords it sounds in are known (a bass held 30 s under a run of
+// chords). Its time is still when it was played: the clock reads it as of
+// when its end was heard (WriteHeard), not when it is written. Written
+// with Write instead, the 28 s wait would move it and every note of the
+// run after it by 28 s (the run's clock starts where the first note's
+// write says the capture began). Our own scenario: capture from the
+// journal's opening, a note 1–2 s written at 30 s, then one 31–32 s
+// written as it ends.
+func TestWriterPlacesANoteWrittenLateAtItsTime(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "j.csv")
+	c := &clock{opening}
+	w, _ := Open(path, Meta{Now: c.now})
+	c.t = opening.Add(30 * time.Second)
+	w.WriteHeard(heldAt(0, 1, 2, "interface"), Extra{}, opening.Add(2*time.Second))
+	c.t = opening.Add(32 * time.Second)
+	w.WriteHeard(heldAt(0, 31, 32, "interface"), Extra{}, time.Time{}) // zero: heard now
+	w.Close()
+	entries, _, _ := ReadFile(path)
+	var offsets []float64
+	for _, e := range entries {
+		offsets = append(offsets, e.Time.Sub(opening).Seconds())
+	}
+	if want := []float64{1, 31}; !equalFloats(offsets, want) {
+		t.Errorf("seconds after opening %v, want %v", offsets, want)
+	}
+}

@@ -56,6 +56,8 @@ type Segmenter struct {
 	from    slurFrom // the note the open one was slurred from; zero after silence
 	hasOut  bool
 	t, c    []float64 // scratch for summaries
+	jt, jc  []float64 // scratch for judging where a note settled
+	settles settles   // the open note's, once known
 	lohi    []float64 // scratch for glide and released
 	vib     vibrato   // the last vibrato fit, made at vibAt frames
 	vibAt   int
@@ -300,12 +302,8 @@ func (s *Segmenter) summarise(live bool, next float64) Held {
 	// high eighths read 6.3 ¢ on average from the median pitch they sound
 	// over their length, 3.9 ¢ so; measured.) Margin, where set, replaces
 	// the Window at the note's ends.
-	lo, hi := s.ends(fr, h)
-	turning := false // part of a vibrato's cycle (slurredFrom)
-	if s.from.hz != 0 {
-		lo, turning = s.slurredFrom(fr, h)
-	}
-	quick := hi // a quick note with none such: to half a Window before a slur
+	lo, hi, turning := s.steadyFrom(fr, h) // turning: part of a vibrato's cycle (slurredFrom)
+	quick := hi                            // a quick note with none such: to half a Window before a slur
 	if slurred {
 		quick = h.End - s.Window/2
 	}
@@ -356,11 +354,15 @@ func (s *Segmenter) summarise(live bool, next float64) Held {
 	}
 	// The glide may start as late as a note after a rest starts its
 	// steady part (a Window, or Margin, after its first frame), past a wobble.
-	wobble := 0
-	for wobble < n && s.t[wobble] < h.Start+s.margin() {
-		wobble++
+	// A long note's is judged on its first settleSeconds alone (settles.go).
+	settled, judged := 0.0, n > 0 && judgedEarly(s.t[0], hi, until)
+	var g int
+	if judged {
+		early := fr[i:][:earlyFrames(fr[i:])]
+		g, settled = s.settlesAt(early, s.wobble(early, h.Start))
+	} else {
+		g = s.glide(s.c, s.wobble(fr[i:j], h.Start))
 	}
-	g := s.glide(s.c, wobble)
 	if s.c = s.c[:n]; g >= n || turning {
 		g = 0
 	}
@@ -375,14 +377,16 @@ func (s *Segmenter) summarise(live bool, next float64) Held {
 		mean = s.median(s.c)
 	}
 	h.Spread = sd
-	if h.Settled = h.Start; g < n {
+	if h.Settled = h.Start; judged {
+		h.Settled = settled
+	} else if g < n {
 		h.Settled = s.t[g]
 	}
 	h.Hz = ref * math.Pow(2, mean/1200)
 	if n := len(s.frames); !live || n >= s.vibAt+vibratoRefresh || n < s.vibAt {
 		s.vib, s.vibAt = findVibrato(s.t, s.c, s.Window), len(s.frames)
 		if k := 0; !s.vib.ok && !live {
-			if s.vib, k = s.lateVibrato(s.t, s.c); s.vib.ok {
+			if s.vib, k = s.lateVibrato(s.t, s.c); s.vib.ok && !judged {
 				h.Settled = max(h.Settled, s.t[k])
 			}
 		}

@@ -116,7 +116,7 @@ func (po *playerOptions) liveChords(tunings *session.Tunings, emit func(ensemble
 	h := &playerChords{players: po.players, tracks: make([]harmony.Track, len(po.players)), next: make([]nextStart, len(po.players)),
 		open: make([]openNote, len(po.players)), tunings: newTuningLog(tunings), asked: math.Inf(-1), emit: emit}
 	h.rows = heldRows[playerNote]{event: func(n *playerNote) *session.Event { return &n.Event },
-		who: func(n *playerNote) string { return n.Player.Name }, write: row}
+		who: func(n *playerNote) string { return n.Player.Name }, write: row, heard: func(n *playerNote) *time.Time { return &n.heard }}
 	h.stream.Seventh = po.seventh
 	return h
 }
@@ -128,6 +128,7 @@ func (h *playerChords) frame(i int, est pitchdetect.Estimate) {
 		h.tunings.moment(est.Time)
 	}
 	h.tracks[i].Add(est.Time, est.Hz)
+	h.rows.now = max(h.rows.now, est.Time)
 	h.next[i].frame(est.Time, est.Hz)
 	if i == len(h.players)-1 {
 		h.ready(false)
@@ -139,11 +140,13 @@ func (h *playerChords) frame(i int, est pitchdetect.Estimate) {
 type openNote struct {
 	start, through float64
 	ok             bool
+	settled        float64 // where its reading begins, once settles
+	settles        bool
 }
 
 // sound takes player i's note still sounding (ensemble.Options.OnSounding).
-func (h *playerChords) sound(i int, start, through float64, ok bool) {
-	h.open[i] = openNote{start, through, ok}
+func (h *playerChords) sound(i int, start, through float64, ok bool, settled float64, settles bool) {
+	h.open[i] = openNote{start, through, ok, settled, settles}
 }
 
 // note takes a player's note as it ends, and gives back the first error
@@ -173,7 +176,8 @@ func (h *playerChords) ready(end bool) error {
 		for i, n := range h.next {
 			if o := h.open[i]; o.ok {
 				horizon = min(horizon, o.through, n.seen)
-				sounding = append(sounding, harmony.Note{Start: o.start, Who: h.players[i].Name, Frames: &h.tracks[i]})
+				sounding = append(sounding, harmony.Note{Start: o.start, Who: h.players[i].Name, Frames: &h.tracks[i],
+					Settled: o.settled, Settles: o.settles})
 				continue
 			}
 			horizon = min(horizon, n.earliest())
@@ -254,7 +258,8 @@ func (vo *voiceOptions) liveChords(tunings *session.Tunings, emit func(harmony.C
 	}
 	v := &voiceChords{tunings: newTuningLog(tunings), asked: math.Inf(-1), emit: emit, doubled: map[voiceStart]bool{}, left: vo.left}
 	v.rows = heldRows[voiceNote]{event: func(n *voiceNote) *session.Event { return &n.Event },
-		who: func(n *voiceNote) string { return strconv.Itoa(n.voice) }, write: row, pieces: true}
+		who: func(n *voiceNote) string { return strconv.Itoa(n.voice) }, write: row, pieces: true,
+		heard: func(n *voiceNote) *time.Time { return &n.heard }}
 	v.stream = harmony.Stream{Seventh: vo.seventh, Reach: lostSeconds, OneChannel: true, Join: func(ns []harmony.Note) []harmony.Note {
 		joined, _ := bridgeLost(ns)
 		return joined
@@ -275,6 +280,7 @@ func (v *voiceChords) note(n voiceNote) error {
 // sounding (open) read over each chord's stretch as they will be.
 func (v *voiceChords) ready(at, earliest float64, open []openVoice) error {
 	v.tunings.moment(at)
+	v.rows.now = at
 	if !math.IsInf(earliest, 1) && earliest < v.asked+readyEvery {
 		return v.err
 	}
@@ -283,7 +289,7 @@ func (v *voiceChords) ready(at, earliest float64, open []openVoice) error {
 	for i, o := range open {
 		o.readPitch()
 		who := strconv.Itoa(o.voice)
-		sounding[i] = harmony.Note{Start: o.start, Who: who, Frames: o.frames, Hz: o.hz}
+		sounding[i] = harmony.Note{Start: o.start, Who: who, Frames: o.frames, Hz: o.hz, Settled: o.settled, Settles: o.settles}
 		v.doubled[voiceStart{who, o.start}] = o.doubled // so far; its note says at its end
 	}
 	v.stream.Sound(sounding)

@@ -45,7 +45,7 @@ func playersMeter(ctx context.Context, src source.Multi, tunings *session.Tuning
 	// Each note is journaled once its chords are known, spelled from them
 	// (heldrows.go).
 	chords := po.liveChords(tunings, journalChord, func(pn playerNote) error {
-		po.logNote(j, pn.Note, time.Time{})
+		po.logHeard(j, pn)
 		return nil
 	})
 	o := ensemble.Options{Name: ms.name, Players: po.players, Tunings: tunings,
@@ -114,7 +114,7 @@ func voicesMeter(ctx context.Context, in timedInput, tunings *session.Tunings, v
 	// Each note is journaled once its chords are known, spelled from them
 	// (heldrows.go).
 	chords := vo.liveChords(tunings, journalChord, func(n voiceNote) error {
-		j.row(n.Event, n.extra(), time.Time{})
+		j.heardRow(n.Event, n.extra(), n.heard)
 		return nil
 	})
 	err = showMeter(ctx, m, func(ctx context.Context) error {

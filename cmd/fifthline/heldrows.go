@@ -2,6 +2,7 @@ package main
 
 import (
 	"slices"
+	"time"
 
 	"fifthline/session"
 	"fifthline/target"
@@ -22,6 +23,10 @@ type heldRows[N any] struct {
 	event func(*N) *session.Event // the note's event, spelled in place
 	who   func(*N) string         // its player's name or voice's number
 	write func(N) error           // writes a row once spelled
+	// heard is when the note's end was heard, set as it is added: its
+	// row may be written much later (the journal's time must not move).
+	heard func(*N) *time.Time
+	now   float64 // the stream's time, its latest frame's
 	// pieces: a member is the note that begins where the chord finder's
 	// note does, not every note of its voice over the chord. The finder
 	// joins a voice's note lost for a moment to the same note found again
@@ -55,7 +60,11 @@ type heldMember struct {
 // sounded.
 func (h *heldRows[N]) add(n N) {
 	r := heldRow[N]{n: n}
-	start := h.event(&n).Start
+	ev := h.event(&r.n)
+	start := ev.Start
+	if h.heard != nil {
+		*h.heard(&r.n) = time.Now().Add(-time.Duration(max(0, h.now-ev.End) * float64(time.Second)))
+	}
 	h.early = slices.DeleteFunc(h.early, func(e earlyMember) bool {
 		if e.who == h.who(&n) && e.from == start {
 			r.ms = append(r.ms, e.m)

@@ -77,6 +77,16 @@ func (j *journalSink) row(ev session.Event, x journal.Extra, start time.Time) {
 	j.warnIfFailed()
 }
 
+// heardRow logs one row of a note heard live whose end was heard at heard,
+// written later (journal.Writer.WriteHeard).
+func (j *journalSink) heardRow(ev session.Event, x journal.Extra, heard time.Time) {
+	if j.w == nil {
+		return
+	}
+	j.w.WriteHeard(ev, x, heard)
+	j.warnIfFailed()
+}
+
 // chord logs a heard chord's memberships, one row per member, as the chord
 // ends (start as for noteAt). who names member i's player and voice.
 func (j *journalSink) chord(source string, tu target.Tuning, from, to float64, c target.HeardChord, who func(i int) (player, voice string), start time.Time) {

@@ -68,6 +68,7 @@ type playerNote struct {
 	ensemble.Note
 	drift float64 // the group's drift at the note, cents
 	known bool
+	heard time.Time // when its end was heard live (heldRows)
 }
 
 func (n playerNote) record(withFile bool) []string {
@@ -299,6 +300,12 @@ func (po *playerOptions) logNote(j *journalSink, n ensemble.Note, start time.Tim
 	j.row(n.Event, journal.Extra{Channel: po.channel(n.Player)}, start)
 }
 
+// logHeard journals a player's note heard live, at its place on the
+// capture's clock however long its row waited for its chords.
+func (po *playerOptions) logHeard(j *journalSink, pn playerNote) {
+	j.heardRow(pn.Event, journal.Extra{Channel: po.channel(pn.Player)}, pn.heard)
+}
+
 // listenPlayers is listen --plain --players: the CSV header, then each
 // player's held note as it ends, flushed at once; with --chords each
 // chord's rows instead, as soon as no note still sounding can change the
@@ -334,7 +341,7 @@ func listenPlayers(ctx context.Context, e *env, src *capture.Input, name string,
 	// from them as analyze spells it; the journal keeps the fixed
 	// reference.
 	chords := po.liveChords(session.NewTunings(tu), chordRows, func(pn playerNote) error {
-		po.logNote(j, pn.Note, time.Time{})
+		po.logHeard(j, pn)
 		if po.chords {
 			return nil
 		}

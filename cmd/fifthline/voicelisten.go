@@ -5,7 +5,6 @@ import (
 	"context"
 	"encoding/csv"
 	"math"
-	"time"
 
 	"fifthline/harmony"
 	"fifthline/session"
@@ -49,7 +48,7 @@ func listenVoices(ctx context.Context, e *env, in timedInput, name string, tu ta
 	// Each note's row once its chords are known, spelled from them as
 	// analyze spells it (heldrows.go).
 	chords := vo.liveChords(session.NewTunings(tu), chordRows, func(n voiceNote) error {
-		j.row(n.Event, n.extra(), time.Time{})
+		j.heardRow(n.Event, n.extra(), n.heard)
 		if vo.chords {
 			return nil
 		}

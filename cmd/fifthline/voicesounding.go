@@ -21,6 +21,8 @@ type openVoice struct {
 	frames         *harmony.Track // its track's frames, as its note will have
 	doubled        bool           // so far (voiceNote.doubled)
 	track          *track
+	settled        float64 // where its reading begins, once settles (pitchdetect's Segmenter.Settles)
+	settles        bool
 }
 
 // moment is, at frame time now, the earliest a note still to come can
@@ -66,7 +68,8 @@ func (tr *tracker) sounding(t *track) (openVoice, bool) {
 			return openVoice{}, false
 		}
 	}
-	return openVoice{tr.voiceAt(t, start, hz), start, through, hz, t.frames, 2*t.doubled > t.count, t}, true
+	settled, settles := t.seg.Settles()
+	return openVoice{tr.voiceAt(t, start, hz), start, through, hz, t.frames, 2*t.doubled > t.count, t, settled, settles}, true
 }
 
 // readPitch sets the note's pitch so far to its frames' (the last seconds'

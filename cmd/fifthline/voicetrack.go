@@ -5,6 +5,7 @@ import (
 	"math"
 	"slices"
 	"strconv"
+	"time"
 
 	"fifthline/harmony"
 	"fifthline/journal"
@@ -22,6 +23,7 @@ type voiceNote struct {
 	voice   int
 	doubled bool
 	frames  *harmony.Track // its track's frames, kept for --chords; else nil
+	heard   time.Time      // when its end was heard live (heldRows)
 }
 
 // voiceColumns follow the held-note columns.
@@ -202,7 +204,7 @@ func (tr *tracker) deliver(t *track, h pitchdetect.Held) {
 	t.delivered = true
 	tr.done = append(slices.DeleteFunc(tr.done, func(d doneNote) bool { return d.End < h.Start-60 }), doneNote{h, t.level()})
 	tu := tr.tuning()
-	tr.give(voiceNote{session.Event{Source: tr.name, Held: h, Reading: tu.Classify(h.Hz), Tuning: tu}, voice, 2*t.doubled > t.count, t.frames})
+	tr.give(voiceNote{session.Event{Source: tr.name, Held: h, Reading: tu.Classify(h.Hz), Tuning: tu}, voice, 2*t.doubled > t.count, t.frames, time.Time{}})
 }
 
 // voiceAt is the number of track t's note beginning at start at pitch hz.
