@@ -302,8 +302,9 @@ func (s *Segmenter) summarise(live bool, next float64) Held {
 	// high eighths read 6.3 ¢ on average from the median pitch they sound
 	// over their length, 3.9 ¢ so; measured.) Margin, where set, replaces
 	// the Window at the note's ends.
-	lo, hi, turning := s.steadyFrom(fr, h) // turning: part of a vibrato's cycle (slurredFrom)
-	quick := hi                            // a quick note with none such: to half a Window before a slur
+	// turning: a quick slurred note holding part of a vibrato's cycle.
+	lo, hi, turning := s.steadyFrom(fr, h)
+	quick := hi // a quick note with none such: to half a Window before a slur
 	if slurred {
 		quick = h.End - s.Window/2
 	}
