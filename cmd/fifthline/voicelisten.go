@@ -8,6 +8,7 @@ import (
 	"time"
 
 	"fifthline/harmony"
+	"fifthline/multipitch"
 	"fifthline/session"
 	"fifthline/target"
 )
@@ -33,7 +34,7 @@ func listenVoices(ctx context.Context, e *env, in timedInput, name string, tu ta
 		return err
 	}
 	defer timing.close()
-	vo.onFrame = timing.voicesFrame
+	vo.onFrame = func(f multipitch.Frame, _ []bool) { timing.voicesFrame(f) }
 	src := timing.withClockOne(in, "voices")
 	var chordRows func(harmony.Chord, []int, []bool, target.Tuning) error
 	if vo.chords {
