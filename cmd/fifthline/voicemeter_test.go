@@ -4,6 +4,7 @@ import (
 	"context"
 	"math"
 	"os/exec"
+	"path/filepath"
 	"slices"
 	"testing"
 
@@ -26,11 +27,7 @@ type meterFrame struct {
 // group meter and gives every frame the meter is handed.
 func meterFrames(t *testing.T, sc scene, n int) []meterFrame {
 	t.Helper()
-	if _, err := exec.LookPath("fluidsynth"); err != nil {
-		t.Fatalf("fluidsynth not found (make test installs it): %v", err)
-	}
-	dir := t.TempDir()
-	mix := noisyMono(t, dir, renderMIDI(t, dir, "all", testsignal.MIDIParts(sc.parts)), sc.snr)
+	mix := sceneMix(t, sc)
 	w, err := capture.OpenWAVChannel(mix, 1)
 	if err != nil {
 		t.Fatal(err)
@@ -44,6 +41,17 @@ func meterFrames(t *testing.T, sc scene, n int) []meterFrame {
 		t.Fatal(err)
 	}
 	return frames
+}
+
+// sceneMix renders a scene's parts together onto one channel, its noise
+// added (as renderScene does, without reading each part alone).
+func sceneMix(t *testing.T, sc scene) string {
+	t.Helper()
+	if _, err := exec.LookPath("fluidsynth"); err != nil {
+		t.Fatalf("fluidsynth not found (make test installs it): %v", err)
+	}
+	dir := t.TempDir()
+	return noisyMono(t, dir, renderMIDI(t, dir, "all", testsignal.MIDIParts(sc.parts)), sc.snr)
 }
 
 // untunedScene is the scene of voices_untuned_test.go so named.
@@ -137,3 +145,27 @@ func TestGroupMeterKeepsAVoiceOffALowerVoicesPartial(t *testing.T) {
 
 // et is the equal-tempered pitch n semitones above A4 = 440 Hz.
 func et(n int) float64 { return 440 * math.Pow(2, float64(n)/12) }
+
+// Live, the same chord through a private one-channel virtual microphone
+// into listen --voices 3's meter: the open voicing's first chord, cut
+// before its release (0 to 2.4 s, faded over its last 0.2 s, then a second
+// of silence, so the meter holds the chord as it sounded last). The chord
+// is named C major with the flute's E5 its third (common practice:
+// C E G); judged frame by frame its last frames, E5's marked ones, left
+// C open fifth on the screen.
+func TestListenVoicesMeterKeepsAVoiceOffALowerVoicesPartial(t *testing.T) {
+	t.Parallel()
+	mix := sceneMix(t, untunedScene(t, "open voicing, common tone held: trombone, horn, flute"))
+	chord := filepath.Join(t.TempDir(), "chord.wav")
+	soxTB(t, mix, "-b", "16", chord, "trim", "0", "2.4", "fade", "0", "2.4", "0.2", "pad", "0.5", "1")
+	_, env, play := privateMicWith(t, "channels=1")
+	m := startTmux(t, 80, 24, env, "listen", "--voices", "3", "--key", "C major")
+	m.waitFor(`no chord yet`, `lost: 0 overflows, 0 dropped`)
+	play(chord)
+	s := m.waitFor(`chord C major`, ` 1 voice 1 +C3 .* root `, ` 2 voice 2 +G4 .* fifth `, ` 3 voice 3 +E5 .* third `)
+	checkFits(t, s, 80, 24)
+	m.tmux("send-keys", "-t", "meter", "q")
+	if rc := m.exitStatus(); rc != "0" {
+		t.Errorf("q: exit status %s, want 0", rc)
+	}
+}
