@@ -1,11 +1,16 @@
 package main
 
 import (
+	"cmp"
 	"context"
+	"encoding/csv"
+	"flag"
 	"math"
+	"os"
 	"os/exec"
 	"path/filepath"
 	"slices"
+	"strconv"
 	"testing"
 
 	"fifthline/capture"
@@ -18,7 +23,7 @@ import (
 // estimator's voices and which of them the tracker takes for a lower
 // voice's partials.
 type meterFrame struct {
-	at       float64
+	at, span float64
 	voices   []multipitch.Voice
 	partials []bool
 }
@@ -35,7 +40,7 @@ func meterFrames(t *testing.T, sc scene, n int) []meterFrame {
 	defer w.Close()
 	var frames []meterFrame
 	vo := voiceOptions{max: n, seventh: target.DefaultSeventh, onFrame: func(f multipitch.Frame, partials []bool) {
-		frames = append(frames, meterFrame{f.Time, slices.Clone(f.Voices), partials})
+		frames = append(frames, meterFrame{f.Time, f.Span, slices.Clone(f.Voices), partials})
 	}}
 	if err := hearVoices(context.Background(), w, mix, fixed(target.Default()), vo, func(float64) {}, func(voiceNote) error { return nil }); err != nil {
 		t.Fatal(err)
@@ -120,6 +125,9 @@ func showing(frames []meterFrame, from, to, hz float64, shown func(meterFrame) [
 func TestGroupMeterKeepsAVoiceOffALowerVoicesPartial(t *testing.T) {
 	t.Parallel()
 	frames := meterFrames(t, untunedScene(t, "open voicing, common tone held: trombone, horn, flute"), 3)
+	if *writeMeterFrames {
+		writeFrames(t, meterFramesFile, frames)
+	}
 	perFrame := func(f meterFrame) []multipitch.Voice {
 		return slices.DeleteFunc(slices.Clone(f.voices), func(v multipitch.Voice) bool { return v.OnPartials })
 	}
@@ -167,5 +175,44 @@ func TestListenVoicesMeterKeepsAVoiceOffALowerVoicesPartial(t *testing.T) {
 	m.tmux("send-keys", "-t", "meter", "q")
 	if rc := m.exitStatus(); rc != "0" {
 		t.Errorf("q: exit status %s, want 0", rc)
+	}
+}
+
+// writeMeterFrames writes the open voicing's frames, as the meter gets
+// them, for ui's tests of the meter's model (go test -run
+// TestGroupMeterKeepsAVoiceOffALowerVoicesPartial -write-meter-frames).
+var writeMeterFrames = flag.Bool("write-meter-frames", false, "write "+meterFramesFile)
+
+const meterFramesFile = "../../ui/testdata/open-voicing-frames.csv"
+
+// writeFrames writes one line a frame: its time and span (seconds:
+// multipitch.Frame.Span), then each voice's pitch
+// (Hz), level (dBFS, as the meter takes it) and marks: m, marked on a
+// lower voice's partials in this frame; mp, and taken for them by the
+// tracker (left off the meter).
+func writeFrames(t *testing.T, path string, frames []meterFrame) {
+	t.Helper()
+	f, err := os.Create(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	w := csv.NewWriter(f)
+	for _, fr := range frames {
+		rec := []string{strconv.FormatFloat(fr.at, 'f', 4, 64), strconv.FormatFloat(fr.span, 'f', 4, 64)}
+		for i, v := range fr.voices {
+			marks := ""
+			if v.OnPartials {
+				marks = "m"
+			}
+			if fr.partials[i] {
+				marks += "p"
+			}
+			rec = append(rec, strconv.FormatFloat(v.Hz, 'f', 3, 64), strconv.FormatFloat(20*math.Log10(v.Amplitude), 'f', 2, 64), marks)
+		}
+		w.Write(rec)
+	}
+	w.Flush()
+	if err := cmp.Or(w.Error(), f.Close()); err != nil {
+		t.Fatal(err)
 	}
 }
