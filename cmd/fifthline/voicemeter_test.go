@@ -28,11 +28,10 @@ type meterFrame struct {
 	partials []bool
 }
 
-// meterFrames reads a scene's mixture as listen --voices n does for the
-// group meter and gives every frame the meter is handed.
-func meterFrames(t *testing.T, sc scene, n int) []meterFrame {
+// meterFrames reads the one-channel file mix as listen --voices n does for
+// the group meter and gives every frame the meter is handed.
+func meterFrames(t *testing.T, mix string, n int) []meterFrame {
 	t.Helper()
-	mix := sceneMix(t, sc)
 	w, err := capture.OpenWAVChannel(mix, 1)
 	if err != nil {
 		t.Fatal(err)
@@ -124,7 +123,7 @@ func showing(frames []meterFrame, from, to, hz float64, shown func(meterFrame) [
 // windows take the bends and the flute's wavering.
 func TestGroupMeterKeepsAVoiceOffALowerVoicesPartial(t *testing.T) {
 	t.Parallel()
-	frames := meterFrames(t, untunedScene(t, "open voicing, common tone held: trombone, horn, flute"), 3)
+	frames := meterFrames(t, sceneMix(t, untunedScene(t, "open voicing, common tone held: trombone, horn, flute")), 3)
 	if *writeMeterFrames {
 		writeFrames(t, meterFramesFile, frames)
 	}

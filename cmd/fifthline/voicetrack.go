@@ -248,14 +248,21 @@ func (t *track) onPartials() bool {
 // frames are, on the partial itself (onPartials). The group meter shows
 // the others, so a voice steadily off a partial, which one frame's tests
 // cannot part from it, stays on the screen as its note stays in the rows.
-// A track too short for a note is judged by its frame alone: a partial
-// read as a voice strays up to 20 ¢ from it in a frame (the open voicing's
-// B4 on its E3's 3rd partial), which a few frames average out.
+// A marked voice is judged by its frame alone unless its track and that of
+// a voice it lies on are both long enough for notes: a partial read as a
+// voice strays up to 20 ¢ from it in a frame (the open voicing's B4 on its
+// E3's 3rd partial), which a few frames average out, and a release read an
+// octave low (a sawtooth C4's as C3) puts a held G4 on its partial for a
+// frame, where the rows' pitches are passing readings anyway.
 func (tr *tracker) partials(vs []multipitch.Voice) []bool {
+	held := func(i int) bool { return tr.fed[i].count >= tr.fed[i].seg.MinFrames }
 	on := make([]bool, len(vs))
 	for i, v := range vs {
-		t := tr.fed[i]
-		on[i] = v.OnPartials && (t.count < t.seg.MinFrames || t.onPartials())
+		under := false
+		for j, lo := range vs[:i] { // lowest first
+			under = under || multipitch.OnPartial(v.Hz, lo.Hz) && held(j)
+		}
+		on[i] = v.OnPartials && (!held(i) || !under || tr.fed[i].onPartials())
 	}
 	return on
 }

@@ -171,3 +171,23 @@ func TestVoiceNoteOctaveAboveAPartialIsAVoice(t *testing.T) {
 		t.Errorf("heard %q, want \"B5 E3\"", got)
 	}
 }
+
+// A voice held long as a voice, marked in one frame as the partial of a
+// voice read there for the first time (a sawtooth chord's release read an
+// octave low: C4 as C3, G4 on its 3rd partial; measured with sox's C4 E4
+// G4 of TestListenVoicesGroupMeterInTmux), is judged by that frame alone:
+// the meter leaves it out of the frame, as it did every marked frame. C4
+// 261.63, C3 130.81, E4 329.63, G4 392.00 Hz (equal temperament, A4 = 440
+// Hz, ISO 16).
+func TestMeterJudgesAVoiceOnAPassingReadingsPartialByItsFrame(t *testing.T) {
+	hop, window := 4096/44100.0, 16384/44100.0
+	tr := newTracker("test", fixed(target.Default()), hop, window, func(voiceNote) {})
+	for i := range 20 {
+		tr.push(multipitch.Frame{Time: float64(i) * hop, Voices: []multipitch.Voice{{Hz: 261.63, Amplitude: 0.1}, {Hz: 329.63, Amplitude: 0.1}, {Hz: 392, Amplitude: 0.1}}})
+	}
+	release := []multipitch.Voice{{Hz: 130.81, Amplitude: 0.05}, {Hz: 329.63, Amplitude: 0.05}, {Hz: 392, Amplitude: 0.05, OnPartials: true}}
+	tr.push(multipitch.Frame{Time: 20 * hop, Voices: release})
+	if got := tr.partials(release); !got[2] || got[0] || got[1] {
+		t.Errorf("the release frame's voices taken for partials: %v, want only G4's", got)
+	}
+}
