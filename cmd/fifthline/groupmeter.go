@@ -83,12 +83,9 @@ func voicesMeter(ctx context.Context, in timedInput, tunings *session.Tunings, v
 	defer j.close()
 	frame := groupFrame{tunings: tunings, seventh: vo.seventh}
 	var sounding []float64
-	vo.onFrame = func(f multipitch.Frame) {
+	vo.onFrame = func(f multipitch.Frame, partials []bool) {
 		timing.voicesFrame(f)
-		// A voice on a lower one's partials is most likely those partials
-		// (its notes are dropped the same way, voicetrack.go); a real
-		// voice there misses a frame now and then.
-		f.Voices = slices.DeleteFunc(slices.Clone(f.Voices), func(v multipitch.Voice) bool { return v.OnPartials })
+		f.Voices = shownVoices(f.Voices, partials)
 		sounding = sounding[:0]
 		for _, v := range f.Voices {
 			sounding = append(sounding, v.Hz)
@@ -122,6 +119,21 @@ func voicesMeter(ctx context.Context, in timedInput, tunings *session.Tunings, v
 	})
 	chords.ready(math.Inf(1), math.Inf(1), nil) // the chords and notes still open when listening stopped
 	return err
+}
+
+// shownVoices are the voices vs of a frame the meter shows: those the
+// tracker takes for a lower voice's partials (partials[i], tracker.partials)
+// are left out, as their notes are. Judged frame by frame instead, a flute's
+// E5 21 ¢ over a trombone's C3's 5th partial, most of whose frames are
+// marked, came and went, and the chord's name with it.
+func shownVoices(vs []multipitch.Voice, partials []bool) []multipitch.Voice {
+	var shown []multipitch.Voice
+	for i, v := range vs {
+		if !partials[i] {
+			shown = append(shown, v)
+		}
+	}
+	return shown
 }
 
 // groupMeter makes the meter with a row per name.

@@ -150,9 +150,16 @@ func near(t *testing.T, what, got string, want, tol float64) {
 // cannot leak into it. play plays a file into it and waits.
 func privateMic(t testing.TB) (sink string, env []string, play func(wav string)) {
 	t.Helper()
+	return privateMicWith(t)
+}
+
+// privateMicWith is privateMic with the null sink's further arguments
+// (channels=1: a one-channel microphone, nothing remixed on the way).
+func privateMicWith(t testing.TB, args ...string) (sink string, env []string, play func(wav string)) {
+	t.Helper()
 	vmic.Ensure(t)
 	sink = fmt.Sprintf("fifthline_test_%d_%d", os.Getpid(), time.Now().UnixNano()%1e6)
-	mod, err := exec.Command("pactl", "load-module", "module-null-sink", "sink_name="+sink, "rate=48000").Output()
+	mod, err := exec.Command("pactl", append([]string{"load-module", "module-null-sink", "sink_name=" + sink, "rate=48000"}, args...)...).Output()
 	if err != nil {
 		t.Fatalf("pactl load-module: %v", err)
 	}

@@ -7,6 +7,7 @@ import (
 	"math"
 
 	"fifthline/harmony"
+	"fifthline/multipitch"
 	"fifthline/session"
 	"fifthline/target"
 )
@@ -32,7 +33,7 @@ func listenVoices(ctx context.Context, e *env, in timedInput, name string, tu ta
 		return err
 	}
 	defer timing.close()
-	vo.onFrame = timing.voicesFrame
+	vo.onFrame = func(f multipitch.Frame, _ []bool) { timing.voicesFrame(f) }
 	src := timing.withClockOne(in, "voices")
 	var chordRows func(harmony.Chord, []int, []bool, target.Tuning) error
 	if vo.chords {

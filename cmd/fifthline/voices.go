@@ -51,7 +51,9 @@ type voiceOptions struct {
 	max     int // most voices at once
 	chords  bool
 	seventh float64
-	onFrame func(multipitch.Frame) // if set, sees every frame (the meter)
+	// onFrame, if set, sees every frame (the meter), with which of its
+	// voices the tracker takes for a lower voice's partials (tracker.partials).
+	onFrame func(f multipitch.Frame, partials []bool)
 	// onMoment, if set, follows every frame: its time, the earliest a
 	// note still to come can start, and the voices' notes still sounding
 	// (for the chords heard live).
@@ -228,7 +230,7 @@ func hearVoices(ctx context.Context, src source.Source, name string, tuning func
 			f.Voices = left.cap(f.Time, keep(f.Voices))
 			tr.push(f)
 			if vo.onFrame != nil {
-				vo.onFrame(f)
+				vo.onFrame(f, tr.partials(f.Voices))
 			}
 			if vo.onMoment != nil {
 				earliest, open := tr.moment(f.Time)

@@ -65,6 +65,7 @@ type tracker struct {
 	emit        func(voiceNote)
 	waiting     []voiceNote // notes given out, waiting for a lost voice's (give)
 	keepFrames  bool        // for reading chords: each track's frames
+	fed         []*track    // the track each voice of the last frame went to
 }
 
 type track struct {
@@ -94,6 +95,7 @@ func newTracker(name string, tuning func() target.Tuning, hop, window float64, e
 // push takes one frame's voices (lowest first).
 func (tr *tracker) push(f multipitch.Frame) {
 	taken := make([]bool, len(f.Voices))
+	tr.fed = make([]*track, len(f.Voices))
 	// Nearest pairs first, so two voices a semitone apart keep their tracks.
 	type pair struct {
 		t, v  int
@@ -114,6 +116,7 @@ func (tr *tracker) push(f multipitch.Frame) {
 			continue
 		}
 		got[p.t], taken[p.v] = true, true
+		tr.fed[p.v] = tr.tracks[p.t]
 		tr.feed(tr.tracks[p.t], f.Time, f.Voices, p.v)
 	}
 	var kept []*track // a new slice: deliver reads tr.tracks meanwhile
@@ -141,6 +144,7 @@ func (tr *tracker) push(f multipitch.Frame) {
 				t.frames = &harmony.Track{}
 			}
 			tr.tracks = append(tr.tracks, t)
+			tr.fed[vi] = t
 			tr.feed(t, f.Time, f.Voices, vi)
 		}
 	}
@@ -238,6 +242,31 @@ type doneNote struct {
 // on the partial itself as their mean (partialNoteCents).
 func (t *track) onPartials() bool {
 	return 2*t.partial > t.count && math.Abs(t.partialCents) < partialNoteCents*float64(t.partial)
+}
+
+// partials says which voices vs of the frame last pushed are a lower voice's
+// partials as their notes will be judged: marked so in this frame
+// (multipitch.Voice.OnPartials) and their track so far most of whose
+// frames are, on the partial itself (onPartials). The group meter shows
+// the others, so a voice steadily off a partial, which one frame's tests
+// cannot part from it, stays on the screen as its note stays in the rows.
+// A marked voice is judged by its frame alone unless its track and that of
+// a voice it lies on are both long enough for notes: a partial read as a
+// voice strays up to 20 ¢ from it in a frame (the open voicing's B4 on its
+// E3's 3rd partial), which a few frames average out, and a release read an
+// octave low (a sawtooth C4's as C3) puts a held G4 on its partial for a
+// frame, where the rows' pitches are passing readings anyway.
+func (tr *tracker) partials(vs []multipitch.Voice) []bool {
+	held := func(i int) bool { return tr.fed[i].count >= tr.fed[i].seg.MinFrames }
+	on := make([]bool, len(vs))
+	for i, v := range vs {
+		under := false
+		for j, lo := range vs[:i] { // lowest first
+			under = under || multipitch.OnPartial(v.Hz, lo.Hz) && held(j)
+		}
+		on[i] = v.OnPartials && (!held(i) || !under || tr.fed[i].onPartials())
+	}
+	return on
 }
 
 // partialNoteCents: a lower voice's partial taken for a voice is read on
