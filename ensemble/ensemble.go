@@ -209,7 +209,8 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 				unweighed := func(d int) bool { return !bleed.weighed(i, d) }
 				if k := owner.phantom(i, v.cur.Hz, fr.read, unweighed); k > 1 && v.cut == 0 {
 					v.cur.Hz *= float64(k)
-				} else if v.cut == 0 && owner.phantomOnPartial(i, v.cur.Hz, fr.read, unweighed, ownDB) {
+				} else if v.cut == 0 && (owner.phantomOnPartial(i, v.cur.Hz, fr.read, unweighed, ownDB) ||
+					phantomHeld(i, v.cur.Hz, recent[i], fr.read, unweighed)) {
 					v.cur = unvoiced(v.cur)
 				}
 				skip := owner.weighedSkip(i, v.cur.Hz, v.cut, fr.read)

@@ -119,3 +119,39 @@ func (o *Owner) phantomOnPartial(c int, hz float64, pitches []float64, unweighed
 	}
 	return false
 }
+
+// A phantom inside a held note: before the bleed is weighed, a chord whose
+// members are all harmonics of a period below the player's note (G major
+// over a bass's G2: B3, D4 and G4 are G1's fifth, sixth and eighth) can
+// make the player's channel repeat at that period for a frame or two while
+// the player holds the note. FluidR3's voice oohs, a choir's G2 entering
+// with the chord, read G1 for two frames 0.18 s in at two of eight phases
+// of the hop, splitting the note (measured; alone it never did). Its odd
+// harmonics did not lie the 20 dB (phantomDB) under its even ones that
+// phantom asks: the voices' vibrato and breath fill them (6.7 dB). What
+// tells it instead is the player's own recent note, k times the pitch
+// read. A real leap down a twelfth or an octave while the neighbours
+// sound that period's harmonics loses its first frames to this, until
+// the bleed is weighed or the leap is a window old.
+
+// phantomHeld tells whether hz read on channel c is the period shared,
+// with the bleed of a neighbour not yet weighed (pitches: the players'
+// readings this frame, by channel; the neighbour's a whole multiple of
+// hz), by the note held (the player's pitch heard within the last
+// window), an octave or a twelfth above.
+func phantomHeld(c int, hz, held float64, pitches []float64, unweighed func(d int) bool) bool {
+	if !(hz > 0) || !(held > 0) {
+		return false
+	}
+	k := math.Round(held / hz)
+	if k < 2 || k > 3 || math.Abs(1200*math.Log2(held/(k*hz))) > partialCents {
+		return false
+	}
+	for d, p := range pitches {
+		m := math.Round(p / hz)
+		if d != c && p > 0 && m >= 2 && unweighed(d) && math.Abs(1200*math.Log2(p/(m*hz))) < partialCents {
+			return true
+		}
+	}
+	return false
+}

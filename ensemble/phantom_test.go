@@ -93,3 +93,32 @@ func TestAPhantomOnANeighboursPartialIsGivenAway(t *testing.T) {
 		}
 	}
 }
+
+// A pitch read an octave or a twelfth under the player's held note, where
+// an unweighed neighbour sounds a whole multiple of it, is the held note's
+// period shared with that bleed. The pitches are those the choir's bass
+// channel read (FluidR3 voice oohs, G major over G2; measured, Hz): G1
+// under the held G2, the tenor's B3 (26.7 ¢ off G1's fifth harmonic in
+// equal temperament, within partialCents), the alto's D4, the soprano's G4.
+func TestAPhantomInAHeldNote(t *testing.T) {
+	chord := []float64{48.855, 248.073, 294.362, 391.364}
+	none := func(int) bool { return false }
+	all := func(int) bool { return true }
+	for _, c := range []struct {
+		name      string
+		held      float64
+		pitches   []float64
+		unweighed func(int) bool
+		want      bool
+	}{
+		{"G1 under a held G2, the chord's bleed unweighed", 97.86, chord, all, true},
+		{"the bleed weighed", 97.86, chord, none, false},
+		{"nothing held", 0, chord, all, false},
+		{"held a fourth above, no octave or twelfth", 65.3, chord, all, false},
+		{"no neighbour on its harmonics", 97.86, []float64{48.855, 0, 270, 0}, all, false},
+	} {
+		if got := phantomHeld(0, c.pitches[0], c.held, c.pitches, c.unweighed); got != c.want {
+			t.Errorf("%s: phantomHeld %v, want %v", c.name, got, c.want)
+		}
+	}
+}
