@@ -218,7 +218,9 @@ func rmsDB(x []float64) float64 {
 }
 
 // Analyze reads the voices of one window of samples (len Window()) and
-// appends them to dst, lowest first.
+// appends them to dst, lowest first. Successive calls are successive frames
+// of one stream: a voice's Doubled mark weighs its partials' phases over
+// the recent frames (lock.go).
 func (e *Estimator) Analyze(x []float64, dst []Voice) []Voice {
 	if len(x) != e.window || rmsDB(x) < silenceDBFS {
 		return dst
