@@ -126,8 +126,11 @@ func lowerMedian(r []float64, least int) float64 {
 }
 
 // doubled reports whether voice v carries an octave double: its even
-// partials stand above its odd partials' envelope (envelopeExcess) and its
-// odd partials sink under its even ones' (not oddsHold), or, where too few
+// partials stand above its odd partials' envelope (envelopeExcess), its
+// odd partials sink under its even ones' (not oddsHold), and over its recent
+// frames its partials do not move together as one instrument's
+// (oneInstrument, lock.go: a bassoon's formant lifts its even partials as a
+// double does, but they keep their phases to its odd ones), or, where too few
 // even partials have two clean neighbours to say so, a candidate an octave
 // above it was dropped in prune as explaining nothing it did not, and one of
 // its even partials stands alone, both odd neighbours silent (loneEven).
@@ -141,7 +144,7 @@ func lowerMedian(r []float64, least int) float64 {
 // its 4th, E3's 8th between silence, is there whatever the phases.
 func (e *Estimator) doubled(v int) bool {
 	if ex := e.envelopeExcess(v); ex > doubleGain {
-		return !e.oddsHold(v, ex)
+		return !e.oddsHold(v, ex) && !e.oneInstrument(v)
 	}
 	folded := slices.ContainsFunc(e.drop, func(hz float64) bool { return OctaveAbove(hz, e.f0[v]) })
 	return folded && e.loneEven(v)
@@ -180,11 +183,10 @@ func (e *Estimator) loneEven(v int) bool {
 // partial (the fit splits such a partial's power between the voices), and
 // whether it stands 15 dB above the noise floor at the kernel's peak, n/2.
 func (e *Estimator) partialPowers(v int) (pow []float64, shared, audible func(k int) bool) {
-	pow = make([]float64, maxPartials+2)
-	for i, a := range e.fitter.amp {
-		if c := e.fitter.cols[i]; c.voice == v && !c.broad {
-			pow[c.k] = real(a)*real(a) + imag(a)*imag(a)
-		}
+	amp := e.partialAmps(v)
+	pow = make([]float64, len(amp))
+	for k, a := range amp {
+		pow[k] = real(a)*real(a) + imag(a)*imag(a)
 	}
 	shared = func(k int) bool {
 		hz := float64(k) * e.f0[v]

@@ -95,6 +95,10 @@ type Estimator struct {
 	onsetAt int     // sample count fed at the last onset
 	full    bool    // a whole window has been read
 	last    float64 // time of the last frame emitted
+
+	// The voices' phase relations over frames: see lock.go.
+	locks  []lockTrack
+	lockOf []int // per voice of the last solve, its track
 }
 
 // New returns an Estimator for the sample rate with window and hop in
@@ -214,7 +218,9 @@ func rmsDB(x []float64) float64 {
 }
 
 // Analyze reads the voices of one window of samples (len Window()) and
-// appends them to dst, lowest first.
+// appends them to dst, lowest first. Successive calls are successive frames
+// of one stream: a voice's Doubled mark weighs its partials' phases over
+// the recent frames (lock.go).
 func (e *Estimator) Analyze(x []float64, dst []Voice) []Voice {
 	if len(x) != e.window || rmsDB(x) < silenceDBFS {
 		return dst
@@ -258,6 +264,7 @@ func (e *Estimator) Analyze(x []float64, dst []Voice) []Voice {
 	}
 	e.drop = e.drop[:0]
 	e.prune()
+	e.followLocks()
 	start := len(dst)
 	dst = e.voices(dst)
 	e.markPartials(dst[start:])
