@@ -22,7 +22,10 @@ import (
 // where the whole sounding chord has the same name (B3 and G♯4 of E3 B3 G♯4
 // are E major without its root, not G♯ minor); otherwise it gets no rows
 // (in a file, and as heard with listen --chords), and a file's warning says
-// why.
+// why. A voice the tracker would take for a lower voice's partials is no
+// voice: it yields its place to one that is, however loud (E3's 3rd
+// partial read as B4 over E3 G4 B5 put out the flute's B5), and is not
+// counted among the voices left out.
 
 // heardVoices is how many voices the estimator hears whatever --voices asks.
 const heardVoices = 4
@@ -41,14 +44,24 @@ type leftOut struct {
 	at     []float64   // times of the frames that left voices out
 	hz     [][]float64 // their voices left out
 	counts map[int]int // frames by the number of voices sounding, octaves apart
+	// judge follows every voice heard, the capped ones too, to say which
+	// are a lower voice's partials as their notes would be judged
+	// (tracker.partialsSoFar): over a track's frames, since a real voice
+	// can be marked so in single frames. Nil: no voice is judged so.
+	judge *tracker
 }
 
 // cap keeps the asked number of the voices vs of the frame at time at, the
-// loudest (a voice reported in the frame before counting keepGain louder),
-// lowest first.
+// loudest (a voice reported in the frame before counting keepGain louder)
+// of those no lower voice's partials, then of those, lowest first.
 func (l *leftOut) cap(at float64, vs []multipitch.Voice) []multipitch.Voice {
 	if l.record {
 		l.frames = append(l.frames, at)
+	}
+	partial := make([]bool, len(vs))
+	if l.judge != nil {
+		l.judge.push(multipitch.Frame{Time: at, Voices: slices.Clone(vs)})
+		partial = l.judge.partialsSoFar()
 	}
 	if len(vs) <= l.asked {
 		l.last = append(l.last[:0], voicesHz(vs)...)
@@ -60,10 +73,30 @@ func (l *leftOut) cap(at float64, vs []multipitch.Voice) []multipitch.Voice {
 		}
 		return v.Amplitude
 	}
-	byWeight := slices.Clone(vs)
-	slices.SortStableFunc(byWeight, func(a, b multipitch.Voice) int { return cmp.Compare(weight(b), weight(a)) })
-	kept, left := byWeight[:l.asked], byWeight[l.asked:]
-	if l.record {
+	order := make([]int, len(vs))
+	for i := range order {
+		order[i] = i
+	}
+	// Voices before partials, each the loudest first.
+	slices.SortStableFunc(order, func(a, b int) int {
+		if partial[a] != partial[b] {
+			if partial[a] {
+				return 1
+			}
+			return -1
+		}
+		return cmp.Compare(weight(vs[b]), weight(vs[a]))
+	})
+	var kept, left []multipitch.Voice
+	for n, i := range order {
+		switch {
+		case n < l.asked:
+			kept = append(kept, vs[i])
+		case !partial[i]:
+			left = append(left, vs[i])
+		}
+	}
+	if l.record && len(left) > 0 {
 		l.left(at, vs, left)
 	}
 	out := vs[:0] // in place, lowest first as they came

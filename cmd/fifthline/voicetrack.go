@@ -269,6 +269,19 @@ func (tr *tracker) partials(vs []multipitch.Voice) []bool {
 	return on
 }
 
+// partialsSoFar says which voices of the frame last pushed continue a track
+// held long enough for a note that, ended now, would be dropped as a lower
+// voice's partials (onPartials): judged over the track's frames, whatever
+// this frame's mark. A track's first frames are not judged, since one
+// frame's mark alone can fall on a real voice (the flute's E5's first).
+func (tr *tracker) partialsSoFar() []bool {
+	on := make([]bool, len(tr.fed))
+	for i, t := range tr.fed {
+		on[i] = t.count >= t.seg.MinFrames && t.onPartials()
+	}
+	return on
+}
+
 // partialNoteCents: a lower voice's partial taken for a voice is read on
 // or near it, its frames a few cents either side as the joint fit shares
 // it; a note whose marked frames lie this far off on average is a voice of
