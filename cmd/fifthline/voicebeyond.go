@@ -22,10 +22,10 @@ import (
 // where the whole sounding chord has the same name (B3 and G♯4 of E3 B3 G♯4
 // are E major without its root, not G♯ minor); otherwise it gets no rows
 // (in a file, and as heard with listen --chords), and a file's warning says
-// why. A voice the tracker would take for a lower voice's partials is no
-// voice: it yields its place to one that is, however loud (E3's 3rd
-// partial read as B4 over E3 G4 B5 put out the flute's B5), and is not
-// counted among the voices left out.
+// why. A voice whose track so far the tracker would drop as a lower
+// voice's partials is no voice: it yields its place to every voice held as
+// one, however quiet (E3's 3rd partial read as B4, louder than the flute's
+// B5 over E3 G4 B5, put B5 out), and is not counted among those left out.
 
 // heardVoices is how many voices the estimator hears whatever --voices asks.
 const heardVoices = 4
@@ -52,41 +52,47 @@ type leftOut struct {
 }
 
 // cap keeps the asked number of the voices vs of the frame at time at, the
-// loudest (a voice reported in the frame before counting keepGain louder)
-// of those no lower voice's partials, then of those, lowest first.
+// loudest (a voice reported in the frame before counting keepGain louder;
+// a lower voice's partials below every voice held as one), lowest first.
 func (l *leftOut) cap(at float64, vs []multipitch.Voice) []multipitch.Voice {
 	if l.record {
 		l.frames = append(l.frames, at)
 	}
-	partial := make([]bool, len(vs))
+	// judged: each voice's track is held long enough for a note, and
+	// whether that note would be a lower voice's partials.
+	held, partial := make([]bool, len(vs)), make([]bool, len(vs))
 	if l.judge != nil {
 		l.judge.push(multipitch.Frame{Time: at, Voices: slices.Clone(vs)})
-		partial = l.judge.partialsSoFar()
+		held, partial = l.judge.heldSoFar()
 	}
 	if len(vs) <= l.asked {
 		l.last = append(l.last[:0], voicesHz(vs)...)
 		return vs
 	}
-	weight := func(v multipitch.Voice) float64 {
+	weight := make([]float64, len(vs))
+	voices := math.Inf(1) // the quietest voice held as one
+	for i, v := range vs {
+		weight[i] = v.Amplitude
 		if slices.ContainsFunc(l.last, func(hz float64) bool { return math.Abs(1200*math.Log2(v.Hz/hz)) < 50 }) {
-			return v.Amplitude * keepGain
+			weight[i] *= keepGain
 		}
-		return v.Amplitude
+		if held[i] && !partial[i] {
+			voices = min(voices, weight[i])
+		}
+	}
+	// A partial yields to every voice held as one, however quiet; against a
+	// reading too new to be judged, loudness decides (a partial read as B4
+	// is likelier the chord's than a passing one, G4's 3rd read as D6).
+	for i := range vs {
+		if partial[i] {
+			weight[i] = min(weight[i], math.Nextafter(voices, 0))
+		}
 	}
 	order := make([]int, len(vs))
 	for i := range order {
 		order[i] = i
 	}
-	// Voices before partials, each the loudest first.
-	slices.SortStableFunc(order, func(a, b int) int {
-		if partial[a] != partial[b] {
-			if partial[a] {
-				return 1
-			}
-			return -1
-		}
-		return cmp.Compare(weight(vs[b]), weight(vs[a]))
-	})
+	slices.SortStableFunc(order, func(a, b int) int { return cmp.Compare(weight[b], weight[a]) })
 	var kept, left []multipitch.Voice
 	for n, i := range order {
 		switch {

@@ -269,17 +269,18 @@ func (tr *tracker) partials(vs []multipitch.Voice) []bool {
 	return on
 }
 
-// partialsSoFar says which voices of the frame last pushed continue a track
-// held long enough for a note that, ended now, would be dropped as a lower
-// voice's partials (onPartials): judged over the track's frames, whatever
-// this frame's mark. A track's first frames are not judged, since one
-// frame's mark alone can fall on a real voice (the flute's E5's first).
-func (tr *tracker) partialsSoFar() []bool {
-	on := make([]bool, len(tr.fed))
+// heldSoFar says which voices of the frame last pushed continue a track
+// held long enough for a note, and which of those notes, ended now, would
+// be dropped as a lower voice's partials (onPartials): judged over the
+// track's frames, whatever this frame's mark. A track's first frames are
+// not judged, since one frame's mark alone can fall on a real voice.
+func (tr *tracker) heldSoFar() (held, partials []bool) {
+	held, partials = make([]bool, len(tr.fed)), make([]bool, len(tr.fed))
 	for i, t := range tr.fed {
-		on[i] = t.count >= t.seg.MinFrames && t.onPartials()
+		held[i] = t.count >= t.seg.MinFrames
+		partials[i] = held[i] && t.onPartials()
 	}
-	return on
+	return held, partials
 }
 
 // partialNoteCents: a lower voice's partial taken for a voice is read on
