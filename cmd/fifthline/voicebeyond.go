@@ -58,9 +58,12 @@ func (l *leftOut) cap(at float64, vs []multipitch.Voice) []multipitch.Voice {
 	if l.record {
 		l.frames = append(l.frames, at)
 	}
-	// judged: each voice's track is held long enough for a note, and
-	// whether that note would be a lower voice's partials.
+	// Each voice's track is held long enough for a note (without a judge,
+	// every one), and that note would be a lower voice's partials.
 	held, partial := make([]bool, len(vs)), make([]bool, len(vs))
+	for i := range held {
+		held[i] = true
+	}
 	if l.judge != nil {
 		l.judge.push(multipitch.Frame{Time: at, Voices: slices.Clone(vs)})
 		held, partial = l.judge.heldSoFar()
@@ -94,16 +97,17 @@ func (l *leftOut) cap(at float64, vs []multipitch.Voice) []multipitch.Voice {
 	}
 	slices.SortStableFunc(order, func(a, b int) int { return cmp.Compare(weight[b], weight[a]) })
 	var kept, left []multipitch.Voice
+	var counted []bool // which of left count as voices sounding
 	for n, i := range order {
 		switch {
 		case n < l.asked:
 			kept = append(kept, vs[i])
 		case !partial[i]:
-			left = append(left, vs[i])
+			left, counted = append(left, vs[i]), append(counted, held[i])
 		}
 	}
 	if l.record && len(left) > 0 {
-		l.left(at, vs, left)
+		l.left(at, vs, left, counted)
 	}
 	out := vs[:0] // in place, lowest first as they came
 	for _, v := range vs {
@@ -115,14 +119,16 @@ func (l *leftOut) cap(at float64, vs []multipitch.Voice) []multipitch.Voice {
 	return out
 }
 
-// left notes the voices left out of the frame at time at, of all vs.
-func (l *leftOut) left(at float64, vs, left []multipitch.Voice) {
+// left notes the voices left out of the frame at time at, of all vs; of
+// them, those counted are voices sounding (the others are passing
+// readings, too new to be judged, which the warning does not count).
+func (l *leftOut) left(at float64, vs, left []multipitch.Voice, counted []bool) {
 	l.at = append(l.at, at)
 	l.hz = append(l.hz, voicesHz(left))
 	// An octave above another voice is that voice doubled, not one more.
 	more := 0
-	for _, v := range left {
-		if !slices.ContainsFunc(vs, func(lo multipitch.Voice) bool { return multipitch.OctaveAbove(v.Hz, lo.Hz) }) {
+	for k, v := range left {
+		if counted[k] && !slices.ContainsFunc(vs, func(lo multipitch.Voice) bool { return multipitch.OctaveAbove(v.Hz, lo.Hz) }) {
 			more++
 		}
 	}
