@@ -132,11 +132,12 @@ const heardRate = 44100.0
 
 // heardFrames reads (or with -write-heard-frames first writes) the open
 // voicing's heard frames. Doubled marks are not kept: none is in the scene.
-func heardFrames(t *testing.T) []meterFrame {
-	t.Helper()
-	if *writeHeardFrames {
+func heardFrames(tb testing.TB) []meterFrame {
+	tb.Helper()
+	if t, ok := tb.(*testing.T); ok && *writeHeardFrames {
 		writeFrames(t, heardFramesFile, meterFrames(t, sceneMix(t, untunedScene(t, "open voicing, common tone held: trombone, horn, flute")), heardVoices))
 	}
+	t := tb
 	f, err := os.Open(heardFramesFile)
 	if err != nil {
 		t.Fatal(err)
@@ -168,4 +169,30 @@ func heardFrames(t *testing.T) []meterFrame {
 		t.Fatalf("%s: %d frames", heardFramesFile, len(frames))
 	}
 	return frames
+}
+
+// BenchmarkVoicesCap is the cap's cost a frame over the open voicing's
+// heard frames, with its tracker judging partials and without (before):
+// beside the estimator's milliseconds a frame.
+func BenchmarkVoicesCap(b *testing.B) {
+	frames := heardFrames(b)
+	est, err := multipitch.New(heardRate, 0, 0, multipitch.Config{MaxVoices: heardVoices})
+	if err != nil {
+		b.Fatal(err)
+	}
+	hop, window := float64(est.Hop())/heardRate, float64(est.Window())/heardRate
+	for _, judged := range []bool{false, true} {
+		b.Run(map[bool]string{false: "alone", true: "judged"}[judged], func(b *testing.B) {
+			for range b.N {
+				l := &leftOut{asked: 3, record: true}
+				if judged {
+					l.judge = newTracker("bench", fixed(target.Default()), hop, window, func(voiceNote) {})
+				}
+				for _, f := range frames {
+					l.cap(f.at, append([]multipitch.Voice(nil), f.voices...))
+				}
+			}
+			b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N*len(frames)), "ns/frame")
+		})
+	}
 }
