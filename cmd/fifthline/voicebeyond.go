@@ -46,7 +46,7 @@ type leftOut struct {
 	counts map[int]int // frames by the number of voices sounding, octaves apart
 	// judge follows every voice heard, the capped ones too, to say which
 	// are a lower voice's partials as their notes would be judged
-	// (tracker.partialsSoFar): over a track's frames, since a real voice
+	// (tracker.heldSoFar): over a track's frames, since a real voice
 	// can be marked so in single frames. Nil: no voice is judged so.
 	judge *tracker
 }
