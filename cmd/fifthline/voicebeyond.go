@@ -22,7 +22,10 @@ import (
 // where the whole sounding chord has the same name (B3 and G♯4 of E3 B3 G♯4
 // are E major without its root, not G♯ minor); otherwise it gets no rows
 // (in a file, and as heard with listen --chords), and a file's warning says
-// why.
+// why. A voice whose track so far the tracker would drop as a lower
+// voice's partials is no voice: it yields its place to every voice held as
+// one, however quiet (E3's 3rd partial read as B4, louder than the flute's
+// B5 over E3 G4 B5, put B5 out), and is not counted among those left out.
 
 // heardVoices is how many voices the estimator hears whatever --voices asks.
 const heardVoices = 4
@@ -41,30 +44,70 @@ type leftOut struct {
 	at     []float64   // times of the frames that left voices out
 	hz     [][]float64 // their voices left out
 	counts map[int]int // frames by the number of voices sounding, octaves apart
+	// judge follows every voice heard, the capped ones too, to say which
+	// are a lower voice's partials as their notes would be judged
+	// (tracker.heldSoFar): over a track's frames, since a real voice
+	// can be marked so in single frames. Nil: no voice is judged so.
+	judge *tracker
 }
 
 // cap keeps the asked number of the voices vs of the frame at time at, the
-// loudest (a voice reported in the frame before counting keepGain louder),
-// lowest first.
+// loudest (a voice reported in the frame before counting keepGain louder;
+// a lower voice's partials below every voice held as one), lowest first.
 func (l *leftOut) cap(at float64, vs []multipitch.Voice) []multipitch.Voice {
 	if l.record {
 		l.frames = append(l.frames, at)
+	}
+	// Each voice's track is held long enough for a note (without a judge,
+	// every one), and that note would be a lower voice's partials.
+	held, partial := make([]bool, len(vs)), make([]bool, len(vs))
+	for i := range held {
+		held[i] = true
+	}
+	if l.judge != nil {
+		l.judge.push(multipitch.Frame{Time: at, Voices: slices.Clone(vs)})
+		held, partial = l.judge.heldSoFar()
 	}
 	if len(vs) <= l.asked {
 		l.last = append(l.last[:0], voicesHz(vs)...)
 		return vs
 	}
-	weight := func(v multipitch.Voice) float64 {
+	weight := make([]float64, len(vs))
+	voices := math.Inf(1) // the quietest voice held as one
+	for i, v := range vs {
+		weight[i] = v.Amplitude
 		if slices.ContainsFunc(l.last, func(hz float64) bool { return math.Abs(1200*math.Log2(v.Hz/hz)) < 50 }) {
-			return v.Amplitude * keepGain
+			weight[i] *= keepGain
 		}
-		return v.Amplitude
+		if held[i] && !partial[i] {
+			voices = min(voices, weight[i])
+		}
 	}
-	byWeight := slices.Clone(vs)
-	slices.SortStableFunc(byWeight, func(a, b multipitch.Voice) int { return cmp.Compare(weight(b), weight(a)) })
-	kept, left := byWeight[:l.asked], byWeight[l.asked:]
-	if l.record {
-		l.left(at, vs, left)
+	// A partial yields to every voice held as one, however quiet; against a
+	// reading too new to be judged, loudness decides (a partial read as B4
+	// is likelier the chord's than a passing one, G4's 3rd read as D6).
+	for i := range vs {
+		if partial[i] {
+			weight[i] = min(weight[i], math.Nextafter(voices, 0))
+		}
+	}
+	order := make([]int, len(vs))
+	for i := range order {
+		order[i] = i
+	}
+	slices.SortStableFunc(order, func(a, b int) int { return cmp.Compare(weight[b], weight[a]) })
+	var kept, left []multipitch.Voice
+	var counted []bool // which of left count as voices sounding
+	for n, i := range order {
+		switch {
+		case n < l.asked:
+			kept = append(kept, vs[i])
+		case !partial[i]:
+			left, counted = append(left, vs[i]), append(counted, held[i])
+		}
+	}
+	if l.record && len(left) > 0 {
+		l.left(at, vs, left, counted)
 	}
 	out := vs[:0] // in place, lowest first as they came
 	for _, v := range vs {
@@ -76,14 +119,16 @@ func (l *leftOut) cap(at float64, vs []multipitch.Voice) []multipitch.Voice {
 	return out
 }
 
-// left notes the voices left out of the frame at time at, of all vs.
-func (l *leftOut) left(at float64, vs, left []multipitch.Voice) {
+// left notes the voices left out of the frame at time at, of all vs; of
+// them, those counted are voices sounding (the others are passing
+// readings, too new to be judged, which the warning does not count).
+func (l *leftOut) left(at float64, vs, left []multipitch.Voice, counted []bool) {
 	l.at = append(l.at, at)
 	l.hz = append(l.hz, voicesHz(left))
 	// An octave above another voice is that voice doubled, not one more.
 	more := 0
-	for _, v := range left {
-		if !slices.ContainsFunc(vs, func(lo multipitch.Voice) bool { return multipitch.OctaveAbove(v.Hz, lo.Hz) }) {
+	for k, v := range left {
+		if counted[k] && !slices.ContainsFunc(vs, func(lo multipitch.Voice) bool { return multipitch.OctaveAbove(v.Hz, lo.Hz) }) {
 			more++
 		}
 	}

@@ -210,9 +210,11 @@ func hearVoices(ctx context.Context, src source.Source, name string, tuning func
 		return err
 	}
 	left := cmp.Or(vo.left, &leftOut{asked: vo.max})
+	hop, window := float64(est.Hop())/rate, float64(est.Window())/rate
+	left.judge = newTracker(name, tuning, hop, window, func(voiceNote) {})
 	keep := reported(tuning)
 	var emitErr error
-	tr := newTracker(name, tuning, float64(est.Hop())/rate, float64(est.Window())/rate, func(n voiceNote) {
+	tr := newTracker(name, tuning, hop, window, func(n voiceNote) {
 		if emitErr == nil {
 			emitErr = emit(n)
 		}

@@ -269,6 +269,20 @@ func (tr *tracker) partials(vs []multipitch.Voice) []bool {
 	return on
 }
 
+// heldSoFar says which voices of the frame last pushed continue a track
+// held long enough for a note, and which of those notes, ended now, would
+// be dropped as a lower voice's partials (onPartials): judged over the
+// track's frames, whatever this frame's mark. A track's first frames are
+// not judged, since one frame's mark alone can fall on a real voice.
+func (tr *tracker) heldSoFar() (held, partials []bool) {
+	held, partials = make([]bool, len(tr.fed)), make([]bool, len(tr.fed))
+	for i, t := range tr.fed {
+		held[i] = t.count >= t.seg.MinFrames
+		partials[i] = held[i] && t.onPartials()
+	}
+	return held, partials
+}
+
 // partialNoteCents: a lower voice's partial taken for a voice is read on
 // or near it, its frames a few cents either side as the joint fit shares
 // it; a note whose marked frames lie this far off on average is a voice of
