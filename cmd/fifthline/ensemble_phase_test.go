@@ -41,14 +41,19 @@ func TestPlayersReadOnceHearWoodwindsAtEveryPhase(t *testing.T) {
 //
 // One player's notes are held to the nearer of two readings of their part
 // alone, after no lead and after the same lead: the brass's horn A3,
-// slurred from G3, scoops 39 ¢, swings to +3 ¢ and back to −16 ¢, and
-// wavers −3 to +7 ¢ over its last 0.3 s. Alone, the one-pitch path finds
-// it settled after a glide at two of the eight phases (220.30 Hz) and at
-// the others not (219.54–219.82 Hz): the glide rule (pitchdetect/glide.go,
-// the rest within a quarter of the movement) is at its edge there, 40 ¢
-// against 10 ¢, and with bleed the note falls on either side of it as
-// alone (measured). The leads in open still miss the bar, as said there;
-// they are read and logged, not held to it.
+// slurred from G3 over a few unvoiced frames, scoops 39 ¢, swings to +3 ¢
+// and back to −16 ¢, and wavers −1 to +9 ¢ (against 220 Hz) over its last
+// 0.3 s. Shorter than two vibrato cycles and turning, it is read whole from
+// its first frame (pitchdetect/glide.go slurredFrom), its scoop in the
+// mean: alone it reads 219.52–219.76 Hz over the eight leads (1.9 ¢), by
+// how many attack frames each phase voices and, at three leads, by the
+// trough of its swing read 14 ¢ sharp for four frames (its partials
+// disagree there: the last pitch's comb takes 220.2 Hz, the NSDF's 218.2;
+// measured). Its frames from 2.99 s, after the swing, average 220.22–220.24
+// Hz at every lead, but no glide rule reaches them yet: with the swing let
+// into a glide, their range is 0.23–0.33 of the movement over the leads,
+// either side of the rule's quarter. The leads in open still miss the bar,
+// as said there; they are read and logged, not held to it.
 func TestPlayersReadOnceHearFreshTakesAtEveryPhase(t *testing.T) {
 	t.Parallel()
 	for _, c := range []struct {
