@@ -123,7 +123,7 @@ func drifts(fr []Estimate) bool {
 // slurredFrom is where the steady part of the note h (frames fr), slurred
 // from the last, may begin: half a Window after the last note's last frame
 // (see summarise); and whether the note is turning: its frames turn back,
-// and it is too short for a vibrato fit's whole cycles. A turning note
+// and it is shorter than turningSeconds. A turning note
 // holds part of a vibrato, and its pitch is the centre of what it holds: it
 // is read from its first frame, and with a steady part by summarise's rule
 // on to its last, with no glide left out (a trough there looks like a glide
@@ -133,11 +133,20 @@ func drifts(fr []Estimate) bool {
 // sound's median over the hop's eight phases, 162 so; the oboe's 202 and
 // 227; measured).
 func (s *Segmenter) slurredFrom(fr []Estimate, h Held) (lo float64, turning bool) {
-	if h.End-h.Start < vibratoMinCycle/vibratoMinRate && turns(fr) {
+	if h.End-h.Start < turningSeconds && turns(fr) {
 		return h.Start, true
 	}
 	return s.from.last + s.Window/2, false
 }
+
+// turningSeconds: a note shorter than two cycles of a vibrato at its usual
+// 5 Hz or more (bowed strings and singers vibrate at about 5–7 Hz: common
+// practice, from memory) holds a part of a cycle it cannot be fitted on. A
+// longer one under two cycles of the slowest vibrato (vibratoMinRate) may
+// be an attack that overshoots and holds: FluidR3's tuba's 0.58 s G2,
+// slurred from F2, 29 ¢ over and back, read as turning 2.9 ¢ from its
+// reading at other phases of the hop in a four-player take (measured).
+const turningSeconds = 0.4
 
 // turnCents: frames that turn back this far either way hold a vibrato's
 // crest or trough (FluidR3's violin swings ±12–25 ¢); no glide, and no
