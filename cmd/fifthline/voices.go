@@ -211,7 +211,9 @@ func hearVoices(ctx context.Context, src source.Source, name string, tuning func
 	}
 	left := cmp.Or(vo.left, &leftOut{asked: vo.max})
 	hop, window := float64(est.Hop())/rate, float64(est.Window())/rate
-	left.judge = newTracker(name, tuning, hop, window, func(voiceNote) {})
+	if left.asked < heardVoices { // only a cap that can leave voices out needs to judge them
+		left.judge = newTracker(name, tuning, hop, window, func(voiceNote) {})
+	}
 	keep := reported(tuning)
 	var emitErr error
 	tr := newTracker(name, tuning, hop, window, func(n voiceNote) {
