@@ -248,10 +248,7 @@ func TestDriftRule(t *testing.T) {
 		{"stepping back 1 ¢ at the end", []float64{-9.5, -8, -6, -4, -2, 0, -1}, false},
 		{"wavering under glideCents", []float64{0, 0.5, 1, 1.5, 2, 2.5}, false},
 	} {
-		fr := make([]Estimate, len(c.track))
-		for i, v := range c.track {
-			fr[i] = Estimate{Time: float64(i) * 512 / 48000, Hz: 440 * math.Exp2(v/1200), Voiced: true}
-		}
+		fr := centsTrack(c.track)
 		if got := drifts(fr); got != c.drifts {
 			t.Errorf("%s: drifts %v, want %v", c.name, got, c.drifts)
 		}
@@ -343,10 +340,7 @@ func TestTurnRule(t *testing.T) {
 		{"a glide to rest", []float64{-12, -8, -4, -1, 0, 0.2, 0}, false},
 		{"a small waver", []float64{0, 4, 8, 4, 0, -1}, false},
 	} {
-		fr := make([]Estimate, len(c.track))
-		for i, v := range c.track {
-			fr[i] = Estimate{Time: float64(i) * 512 / 48000, Hz: 440 * math.Exp2(v/1200), Voiced: true}
-		}
+		fr := centsTrack(c.track)
 		if got := turns(fr); got != c.turns {
 			t.Errorf("%s: turns %v, want %v", c.name, got, c.turns)
 		}
@@ -370,4 +364,14 @@ func TestGlideAfterAWobbleOnTheOtherSide(t *testing.T) {
 	if got := new(Segmenter).glide(track[1:], 8); got != 8 {
 		t.Errorf("without the flat frame: glide of %d frames, want 8", got)
 	}
+}
+
+// centsTrack is the voiced frames of a track in cents from A4, a hop of
+// 512 samples at 48 kHz apart.
+func centsTrack(cents []float64) []Estimate {
+	fr := make([]Estimate, len(cents))
+	for i, c := range cents {
+		fr[i] = Estimate{Time: float64(i) * 512 / 48000, Hz: 440 * math.Exp2(c/1200), Voiced: true}
+	}
+	return fr
 }
