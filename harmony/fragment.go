@@ -74,13 +74,25 @@ func (s span) fragment(prev, next *span) bool { return s.partOf(prev) || s.partO
 // withoutFragments drops the stretches that are pieces of a chord beside
 // them.
 func withoutFragments(runs []Chord, notes []Note) []Chord {
+	return whole(runs, spansOf(runs, notes), nil, nil)
+}
+
+// spansOf is each run's span.
+func spansOf(runs []Chord, notes []Note) []span {
 	spans := make([]span, len(runs))
 	for i, c := range runs {
 		spans[i] = spanOf(c, notes)
 	}
+	return spans
+}
+
+// whole is the runs (spans: theirs) that are no piece of a chord beside
+// them; before and after are the stretches either side of them all (nil:
+// none).
+func whole(runs []Chord, spans []span, before, after *span) []Chord {
 	var out []Chord
 	for i, c := range runs {
-		var prev, next *span
+		prev, next := before, after
 		if i > 0 {
 			prev = &spans[i-1]
 		}

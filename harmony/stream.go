@@ -191,28 +191,13 @@ func mayJoin(o, n Note, reach float64) bool {
 // (nil: none), and while that one may yet grow long enough to make the last
 // a piece of it, the last is held back too.
 func (s *Stream) withoutFragments(runs []Chord, notes []Note, held *span, next, settled float64) ([]Chord, float64, float64) {
-	spans := make([]span, len(runs))
-	for i, c := range runs {
-		spans[i] = spanOf(c, notes)
-	}
+	spans := spansOf(runs, notes)
 	if last := len(runs) - 1; last >= 0 && held != nil && held.open && !held.long() && held.start == spans[last].end &&
 		!spans[last].long() && (contains(held.key, spans[last].key) || contains(spans[last].key, held.key)) {
 		next, settled = runs[last].Start, runs[last].Start
 		runs, spans = runs[:last], spans[:last]
 	}
-	var out []Chord
-	for i, c := range runs {
-		prev, after := s.last, held
-		if i > 0 {
-			prev = &spans[i-1]
-		}
-		if i+1 < len(runs) {
-			after = &spans[i+1]
-		}
-		if !spans[i].fragment(prev, after) {
-			out = append(out, c)
-		}
-	}
+	out := whole(runs, spans, s.last, held)
 	if len(spans) > 0 {
 		s.last = &spans[len(spans)-1]
 	}
