@@ -43,7 +43,12 @@ import (
 // +3.1 ¢: a cluster's strongest line lies up to 17 ¢ from its centroid
 // (F3's and E3's 4th partials +16.5 and +15.3 ¢ against +1.0 and +1.8),
 // and no weighting of partials told the two apart in every scene
-// (voices_mix_test.go's choir: tried, not kept).
+// (voices_mix_test.go's choir: tried, not kept). Nor would their width:
+// the partials whose peaks lie sharpest are narrow, F3's and E3's 4th 2.1
+// and 2.0 bins wide at −6 dB and A3's 2nd 2.3 (a lone line's 2.0), while
+// the wide ones (F3's 2nd 6.1, its 5th 4.2; E3's 2nd, 3rd and 5th 4.2 to
+// 5.7) lie within 3 ¢: weighing partials down by width would leave the
+// sharp lines steering the more.
 //
 // Held: a saw of known pitch reads within 0.1 ¢ at every partial, peak
 // and centroid (measured 0.08 ¢, the fundamental's peak: a parabola
