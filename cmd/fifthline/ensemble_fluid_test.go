@@ -63,11 +63,7 @@ func parseF(s string) float64 {
 // own channel as they read alone.
 func TestAnalyzePlayersReadsRenderedTakes(t *testing.T) {
 	t.Parallel()
-	for _, take := range ensembleTakes {
-		t.Run(take.name, func(t *testing.T) {
-			readTakeOffline(t, renderTake(t, take))
-		})
-	}
+	forEachTake(t, ensembleTakes, func(t *testing.T, r renderedTake) { readTakeOffline(t, r) })
 }
 
 // chordRows groups --chords rows by chord: its name and each member's row
@@ -102,11 +98,7 @@ func readChords(t *testing.T, r renderedTake, path string) []chordRow {
 // reads just within the samples' own tuning, as the parts alone read it.
 func TestAnalyzePlayersChordsOfRenderedTakes(t *testing.T) {
 	t.Parallel()
-	for _, take := range ensembleTakes {
-		t.Run(take.name, func(t *testing.T) {
-			checkTakeChords(t, renderTake(t, take))
-		})
-	}
+	forEachTake(t, ensembleTakes, func(t *testing.T, r renderedTake) { checkTakeChords(t, r) })
 }
 
 // checkTakeChords reads the take's chords with and without bleed and holds
