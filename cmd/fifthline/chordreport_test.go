@@ -155,11 +155,7 @@ func TestListenLogsTheChordsItHeard(t *testing.T) {
 	if code, out, stderr := wait(); code != 0 {
 		t.Fatalf("exit %d, stderr %q\n%s", code, stderr, out)
 	}
-	journal, err := os.ReadFile(log)
-	if err != nil {
-		t.Fatal(err)
-	}
-	_, rows := readCSV(t, string(journal))
+	journal, rows := readCSVFile(t, log)
 	voices, members := 0, 0
 	for _, r := range rows {
 		if r["heard_chord"] == "" && r["voice"] != "" {

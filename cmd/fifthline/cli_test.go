@@ -38,6 +38,18 @@ func readCSV(t testing.TB, text string) (header []string, rows []map[string]stri
 	return recs[0], rows
 }
 
+// readCSVFile reads a CSV file (a journal) into header-keyed rows; it
+// gives the text too, for messages.
+func readCSVFile(t testing.TB, path string) (text string, rows []map[string]string) {
+	t.Helper()
+	data, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, rows = readCSV(t, string(data))
+	return string(data), rows
+}
+
 // sox makes a WAV file from sox arguments (Debian's sox is the reference
 // signal generator; make test installs it).
 func sox(t *testing.T, name string, args ...string) string {

@@ -2,7 +2,6 @@ package main
 
 import (
 	"math"
-	"os"
 	"path/filepath"
 	"strconv"
 	"testing"
@@ -63,11 +62,7 @@ func TestGroupMeterChordsKeepTheirTuning(t *testing.T) {
 // third's just_cents within 1 ¢ of third.
 func checkChordsInTheirTuning(t *testing.T, journal, name string, want []map[string]float64, third float64) {
 	t.Helper()
-	data, err := os.ReadFile(journal)
-	if err != nil {
-		t.Fatal(err)
-	}
-	_, rows := readCSV(t, string(data))
+	data, rows := readCSVFile(t, journal)
 	chord := -1
 	var last string
 	for _, r := range rows {

@@ -3,7 +3,6 @@ package main
 import (
 	"fmt"
 	"math"
-	"os"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -55,11 +54,7 @@ func TestListenPlayersGroupMeterInTmux(t *testing.T) {
 // that chord, its note spelled and its just_cents within 0.5 ¢ of want.
 func checkJournalChord(t *testing.T, journal, chord, member, note string, want float64) {
 	t.Helper()
-	data, err := os.ReadFile(journal)
-	if err != nil {
-		t.Fatal(err)
-	}
-	_, rows := readCSV(t, string(data))
+	data, rows := readCSVFile(t, journal)
 	for _, r := range rows {
 		if r["heard_chord"] == chord && r["member"] == member {
 			if c, err := strconv.ParseFloat(r["just_cents"], 64); r["note"] != note || err != nil || math.Abs(c-want) > 0.5 {

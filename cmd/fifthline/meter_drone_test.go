@@ -2,7 +2,6 @@ package main
 
 import (
 	"math"
-	"os"
 	"os/exec"
 	"path/filepath"
 	"strconv"
@@ -78,11 +77,7 @@ func TestListenDroneKeySoundsTheTargetsAndTheMeterStillReadsTheNote(t *testing.T
 	if rc := m.exitStatus(); rc != "0" {
 		t.Errorf("q: exit status %s, want 0", rc)
 	}
-	data, err := os.ReadFile(journal)
-	if err != nil {
-		t.Fatal(err)
-	}
-	_, rows := readCSV(t, string(data))
+	data, rows := readCSVFile(t, journal)
 	if len(rows) != 1 || rows[0]["note"] != "B3" {
 		t.Fatalf("want the one note played, B3; the journal holds:\n%s", data)
 	}

@@ -141,11 +141,7 @@ func TestAnalyzePlayersReadsEachFromTheirOwnChannel(t *testing.T) {
 		last = start
 	}
 	// The journal has one row per player's note, under the player's name.
-	journal, err := os.ReadFile(log)
-	if err != nil {
-		t.Fatal(err)
-	}
-	_, jrows := readCSV(t, string(journal))
+	_, jrows := readCSVFile(t, log)
 	players := map[string]int{}
 	for _, r := range jrows {
 		players[r["player"]]++
