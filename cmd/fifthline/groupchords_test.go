@@ -46,10 +46,7 @@ func TestGroupMeterChordsKeepTheirTuning(t *testing.T) {
 	m.waitFor(`meantone`)
 	play()
 	m.waitFor(`journal: 8 notes, 2 chords`)
-	m.tmux("send-keys", "-t", "meter", "q")
-	if rc := m.exitStatus(); rc != "0" {
-		t.Errorf("q: exit status %s, want 0", rc)
-	}
+	m.quitCleanly()
 	checkChordsInTheirTuning(t, journal, "C major", []map[string]float64{
 		{"C3": 0, "G3": 0, "E4": 0, "C5": 0},
 		{"C3": -10.265, "G3": -6.843, "E4": 3.422, "C5": -10.265},
@@ -112,10 +109,7 @@ func TestVoicesMeterChordsKeepTheirTuning(t *testing.T) {
 	m.waitFor(`meantone`)
 	play(wav)
 	m.waitFor(`journal: 6 notes, 2 chords`)
-	m.tmux("send-keys", "-t", "meter", "q")
-	if rc := m.exitStatus(); rc != "0" {
-		t.Errorf("q: exit status %s, want 0", rc)
-	}
+	m.quitCleanly()
 	checkChordsInTheirTuning(t, journal, "C major", []map[string]float64{
 		{"C4": 0.03, "E4": -13.66, "G4": 1.99},
 		{"C4": -10.24, "E4": -10.24, "G4": -4.86},

@@ -43,10 +43,7 @@ func TestListenPlayersGroupMeterInTmux(t *testing.T) {
 	checkFits(t, s, 80, 24)
 	m.tmux("send-keys", "-t", "meter", "4")
 	m.waitFor(` 4 vl1 +off — 4 turns it on`, `vl1 off: left out of the chords`)
-	m.tmux("send-keys", "-t", "meter", "q")
-	if rc := m.exitStatus(); rc != "0" {
-		t.Errorf("q: exit status %s, want 0", rc)
-	}
+	m.quitCleanly()
 	checkJournalChord(t, journal, "G major", "third", "B4", 13.7)
 }
 
@@ -87,10 +84,7 @@ func TestGroupDemoMeterInTmux(t *testing.T) {
 	m.waitFor(` 2 tenor +off — 2 turns it on`)
 	m.tmux("send-keys", "-t", "meter", "Up")
 	m.waitFor(`A4 = 416\.0 Hz`, ` 3 alto +B3 +−2\.[0-9] ¢`) // 4.17 ¢ lower against a reference 1 Hz higher
-	m.tmux("send-keys", "-t", "meter", "q")
-	if rc := m.exitStatus(); rc != "0" {
-		t.Errorf("q: exit status %s, want 0", rc)
-	}
+	m.quitCleanly()
 }
 
 // The group meter's own cost with four players: `demo --group` (four
@@ -138,9 +132,6 @@ func TestListenVoicesGroupMeterInTmux(t *testing.T) {
 		` 2 voice 2 +E4 +−13\.[5-9] ¢.* third +`+nearJust,
 		` 3 voice 3 +G4 +\+(1\.[89]|2\.[01]) ¢.* fifth +`+nearJust)
 	checkFits(t, s, 80, 24)
-	m.tmux("send-keys", "-t", "meter", "q")
-	if rc := m.exitStatus(); rc != "0" {
-		t.Errorf("q: exit status %s, want 0", rc)
-	}
+	m.quitCleanly()
 	checkJournalChord(t, journal, "C major", "third", "E4", 0)
 }

@@ -106,8 +106,7 @@ func measureMeter(b *testing.B, withDrone bool) {
 			time.Sleep(time.Second) // past its fade in
 		}
 		reportCost(b, meterPid(b, m), func() { play(wav) })
-		m.tmux("send-keys", "-t", "meter", "q")
-		m.exitStatus()
+		m.quit()
 	}
 }
 

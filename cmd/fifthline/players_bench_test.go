@@ -173,8 +173,7 @@ func startPlayersListener(b *testing.B, meter bool, env []string, args ...string
 		m := startTmux(b, 80, 24, env, args...)
 		m.waitFor(`vc`)
 		return playersListener{meterPid(b, m), func() {
-			m.tmux("send-keys", "-t", "meter", "q")
-			m.exitStatus()
+			m.quit()
 		}}
 	}
 	out := filepath.Join(b.TempDir(), "stdout.csv")

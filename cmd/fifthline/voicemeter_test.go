@@ -168,10 +168,7 @@ func TestListenVoicesMeterKeepsAVoiceOffALowerVoicesPartial(t *testing.T) {
 	play(chord)
 	s := m.waitFor(`chord C major`, ` 1 voice 1 +C3 .* root `, ` 2 voice 2 +G4 .* fifth `, ` 3 voice 3 +E5 .* third `)
 	checkFits(t, s, 80, 24)
-	m.tmux("send-keys", "-t", "meter", "q")
-	if rc := m.exitStatus(); rc != "0" {
-		t.Errorf("q: exit status %s, want 0", rc)
-	}
+	m.quitCleanly()
 }
 
 // writeMeterFrames writes the open voicing's frames, as the meter gets
