@@ -3,7 +3,6 @@ package main
 import (
 	"encoding/json"
 	"math"
-	"os"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -149,12 +148,7 @@ func TestListenLogsTheChordsItHeard(t *testing.T) {
 	log := filepath.Join(t.TempDir(), "live.csv")
 	wait, proc := startPlainProcess(t, env, "--voices", "auto", "--chords", "--log", log, "--duration", "60s")
 	play(wav)
-	if err := proc.Signal(os.Interrupt); err != nil {
-		t.Fatal(err)
-	}
-	if code, out, stderr := wait(); code != 0 {
-		t.Fatalf("exit %d, stderr %q\n%s", code, stderr, out)
-	}
+	stopPlain(t, proc, wait)
 	journal, rows := readCSVFile(t, log)
 	voices, members := 0, 0
 	for _, r := range rows {

@@ -3,7 +3,6 @@ package main
 import (
 	"encoding/json"
 	"math"
-	"os"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -262,14 +261,7 @@ func playQuartetLive(t *testing.T, take string, args ...string) string {
 		t.Fatal(err)
 	}
 	time.Sleep(700 * time.Millisecond) // the last notes' release reaches the input
-	if err := proc.Signal(os.Interrupt); err != nil {
-		t.Fatal(err)
-	}
-	code, out, stderr := wait()
-	if code != 0 {
-		t.Fatalf("exit %d: %s", code, stderr)
-	}
-	return out
+	return stopPlain(t, proc, wait)
 }
 
 // JSON rows are the CSV's columns, typed: numbers as numbers, the player
