@@ -123,25 +123,14 @@ func analyzePlayers(e *env, po playerOptions, files []string, tu target.Tuning, 
 	if opt.frames {
 		return usagef("--frames and --players cannot go together: the frame track is one pitch per moment")
 	}
-	j, err := jf.open(e)
-	if err != nil {
-		return err
-	}
 	withFile := len(files) > 1
 	head := append(session.Header(withFile), playerColumns...)
 	if po.chords {
 		head = playersChordHeader(withFile)
 	}
-	out := newRowWriter(e.stdout, opt.format, head)
-	if opt.format == "table" {
-		out.title = tu.String()
-	}
-	var drifts []string // the table's line per take
-	for i, path := range files {
+	return analyzeGroup(e, files, tu, opt, jf, head, func(path string, out *rowWriter, j *journalSink) (string, bool, error) {
 		notes, chords, err := readPlayers(e, path, tu, po, opt, j)
 		td := takeDrift(notes, tu, po.seventh)
-		drifts = append(drifts, path+": "+td.Words())
-		// What was heard before an interruption is written all the same.
 		if po.chords {
 			for _, c := range chords {
 				for _, row := range chordRecords(c, fileColumn(path, withFile)) {
@@ -153,15 +142,8 @@ func analyzePlayers(e *env, po playerOptions, files []string, tu target.Tuning, 
 				out.write(n.record(withFile), n.json(withFile))
 			}
 		}
-		if err != nil && i == 0 && notes == nil {
-			return errors.Join(err, j.close()) // a file that would not open: no output at all
-		}
-		if err != nil {
-			return errors.Join(err, out.close(), j.close())
-		}
-	}
-	opt.sayTuning()
-	return errors.Join(out.close(), tableLines(e, opt.format, drifts), j.close())
+		return td.Words(), notes == nil, err
+	})
 }
 
 // learnSeconds is how much of a take the learning pass reads: enough for
