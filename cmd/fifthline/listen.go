@@ -127,13 +127,20 @@ func runListen(e *env, args []string) error {
 	return err
 }
 
+// plainCSV writes the header of listen --plain's CSV at once, so a reader
+// has the columns before the first row, and gives the writer for the rows.
+func plainCSV(e *env, head []string) (*csv.Writer, error) {
+	w := csv.NewWriter(e.stdout)
+	w.Write(head)
+	w.Flush()
+	return w, w.Error()
+}
+
 // listenPlain writes the contract's CSV: a header, then each held note as it
 // ends, flushed at once so a reader sees it live and an interruption keeps it.
 func listenPlain(ctx context.Context, e *env, src source.Source, opts session.Options, j *journalSink) error {
-	w := csv.NewWriter(e.stdout)
-	w.Write(session.Header(false))
-	w.Flush()
-	if err := w.Error(); err != nil {
+	w, err := plainCSV(e, session.Header(false))
+	if err != nil {
 		return err
 	}
 	timing, err := openTiming(src.SampleRate())

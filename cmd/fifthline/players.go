@@ -3,7 +3,6 @@ package main
 import (
 	"cmp"
 	"context"
-	"encoding/csv"
 	"encoding/json"
 	"errors"
 	"flag"
@@ -293,14 +292,12 @@ func (po *playerOptions) logHeard(j *journalSink, pn playerNote) {
 // chord's rows instead, as soon as no note still sounding can change the
 // chord. start_s counts from the start of capture.
 func listenPlayers(ctx context.Context, e *env, src *capture.Input, name string, tu target.Tuning, po playerOptions, j *journalSink) error {
-	w := csv.NewWriter(e.stdout)
 	head := append(session.Header(false), playerColumns...)
 	if po.chords {
 		head = playersChordHeader(false)
 	}
-	w.Write(head)
-	w.Flush()
-	if err := w.Error(); err != nil {
+	w, err := plainCSV(e, head)
+	if err != nil {
 		return err
 	}
 	timing, err := openTiming(src.SampleRate())
