@@ -26,13 +26,7 @@ func checkPlayerNotes(t *testing.T, how string, r renderedTake, lone [][]map[str
 	worst := 0.0
 	for i, p := range r.players {
 		got := heard[p]
-		var names, want []string
-		for _, g := range got {
-			names = append(names, g["note"])
-		}
-		for _, l := range lone[i] {
-			want = append(want, l["note"])
-		}
+		names, want := column(got, "note"), column(lone[i], "note")
 		if strings.Join(names, " ") != strings.Join(want, " ") {
 			t.Errorf("%s %s: %s heard %v, alone %v", how, r.name, p, names, want)
 			continue
