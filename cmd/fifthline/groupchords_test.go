@@ -25,12 +25,12 @@ import (
 // −10.27 ¢. Both chords' third sits 13.69 ¢ above just (400 − 386.31 ¢, 5/4:
 // common practice), whatever the temperament.
 func TestGroupMeterChordsKeepTheirTuning(t *testing.T) {
-	mic := vmic.IsolateChannels(t, "front-left", "front-right", "rear-left", "rear-right")
+	mic := vmic.IsolateChannels(t, fourChannels...)
 	take, _ := soxParts(t, [][]soxNote{
 		{{130.8128, 0.2, 1.5, 0.3}}, {{195.9977, 0.2, 1.5, 0.3}}, {{329.6276, 0.2, 1.5, 0.3}}, {{523.2511, 0.2, 1.5, 0.3}},
 	})
 	journal := filepath.Join(t.TempDir(), "rehearsal.csv")
-	m := startTmux(t, 80, 24, []string{"PULSE_SOURCE=" + mic.Source, "PULSE_SINK=" + mic.Sink},
+	m := startTmux(t, 80, 24, mic.Env(),
 		"listen", "--players", "vc,vla,vl2,vl1", "--key", "C major", "--temperament", "equal", "--a4", "440", "--chords", "--log", journal)
 	m.waitFor(`no chord yet`, `lost: 0 overflows, 0 dropped`)
 	play := func() {

@@ -24,10 +24,10 @@ import (
 // each chord's members, as --plain writes them, by the time q has ended
 // the session (TestGroupMeterChordsKeepTheirTuning: as each chord ends).
 func TestListenPlayersGroupMeterInTmux(t *testing.T) {
-	mic := vmic.IsolateChannels(t, "front-left", "front-right", "rear-left", "rear-right")
+	mic := vmic.IsolateChannels(t, fourChannels...)
 	quartet := soxQuartet(t)
 	journal := filepath.Join(t.TempDir(), "rehearsal.csv")
-	m := startTmux(t, 80, 24, []string{"PULSE_SOURCE=" + mic.Source, "PULSE_SINK=" + mic.Sink},
+	m := startTmux(t, 80, 24, mic.Env(),
 		"listen", "--players", "vc,vla,vl2,vl1", "--key", "C major", "--chords", "--log", journal)
 	m.waitFor(`no chord yet`, `lost: 0 overflows, 0 dropped`, ` 4 vl1 +·`)
 	if err := mic.PlayChannels(quartet)(); err != nil {

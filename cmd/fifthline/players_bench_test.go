@@ -208,7 +208,7 @@ func measurePlayersLive(b *testing.B, meter bool) {
 	mic := vmic.IsolateChannels(b, fourChannels...)
 	take := quartetCycleWAV(b, cycles)
 	timing := filepath.Join(b.TempDir(), "timing.csv")
-	l := startPlayersListener(b, meter, []string{"FIFTHLINE_TIMING=" + timing, "PULSE_SOURCE=" + mic.Source, "PULSE_SINK=" + mic.Sink})
+	l := startPlayersListener(b, meter, append(mic.Env(), "FIFTHLINE_TIMING="+timing))
 	// The stream settles: through the ALSA pulse plugin its first second's
 	// converter times run up to 0.6 s early (measured; device.ADCTime).
 	time.Sleep(2 * time.Second)

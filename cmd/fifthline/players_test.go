@@ -255,7 +255,7 @@ func TestListenPlayersOpensTheInterfacesChannels(t *testing.T) {
 // wrote. It leaves the environment alone, so its tests run in parallel.
 func playQuartetLive(t *testing.T, take string, args ...string) string {
 	t.Helper()
-	mic := vmic.PrivateChannels(t, "front-left", "front-right", "rear-left", "rear-right")
+	mic := vmic.PrivateChannels(t, fourChannels...)
 	wait, proc := startPlainProcess(t, mic.Env(), append(args, "--duration", "120s")...)
 	if err := mic.PlayChannels(take)(); err != nil { // returns once the take has played
 		t.Fatal(err)
