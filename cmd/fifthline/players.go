@@ -119,15 +119,9 @@ func playersChordHeader(withFile bool) []string {
 // analyzePlayers reads every file's players and writes their notes (or
 // chord rows) ordered by start.
 func analyzePlayers(e *env, po playerOptions, files []string, tu target.Tuning, opt analyzeOptions, jf *journalFlags) error {
-	if opt.frames {
-		return usagef("--frames and --players cannot go together: the frame track is one pitch per moment")
-	}
 	withFile := len(files) > 1
-	head := append(session.Header(withFile), playerColumns...)
-	if po.chords {
-		head = playersChordHeader(withFile)
-	}
-	return analyzeGroup(e, files, tu, opt, jf, head, func(path string, out *rowWriter, j *journalSink) (string, bool, error) {
+	head := groupHead(withFile, po.chords, playerColumns, playersChordHeader)
+	return analyzeGroup(e, "--players", files, tu, opt, jf, head, func(path string, out *rowWriter, j *journalSink) (string, bool, error) {
 		notes, chords, err := readPlayers(e, path, tu, po, opt, j)
 		td := takeDrift(notes, tu, po.seventh)
 		if po.chords {
@@ -292,15 +286,7 @@ func (po *playerOptions) logHeard(j *journalSink, pn playerNote) {
 // chord's rows instead, as soon as no note still sounding can change the
 // chord. start_s counts from the start of capture.
 func listenPlayers(ctx context.Context, e *env, src *capture.Input, name string, tu target.Tuning, po playerOptions, j *journalSink) error {
-	head := append(session.Header(false), playerColumns...)
-	if po.chords {
-		head = playersChordHeader(false)
-	}
-	w, err := plainCSV(e, head)
-	if err != nil {
-		return err
-	}
-	timing, err := openTiming(src.SampleRate())
+	w, timing, err := beginPlain(e, groupHead(false, po.chords, playerColumns, playersChordHeader), src.SampleRate())
 	if err != nil {
 		return err
 	}

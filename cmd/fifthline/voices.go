@@ -100,15 +100,9 @@ func parseVoices(s string) (int, error) {
 // analyzeVoices reads every file's voices and writes their notes (or chord
 // rows) ordered by start, voice by voice.
 func analyzeVoices(e *env, vo voiceOptions, files []string, tu target.Tuning, opt analyzeOptions, jf *journalFlags) error {
-	if opt.frames {
-		return usagef("--frames and --voices cannot go together: the frame track is one pitch per moment")
-	}
 	withFile := len(files) > 1
-	head := append(session.Header(withFile), voiceColumns...)
-	if vo.chords {
-		head = voiceChordHeader(withFile)
-	}
-	return analyzeGroup(e, files, tu, opt, jf, head, func(path string, out *rowWriter, j *journalSink) (string, bool, error) {
+	head := groupHead(withFile, vo.chords, voiceColumns, voiceChordHeader)
+	return analyzeGroup(e, "--voices", files, tu, opt, jf, head, func(path string, out *rowWriter, j *journalSink) (string, bool, error) {
 		notes, chords, err := readVoices(e, path, tu, vo, opt, j)
 		evs := make([]session.Event, len(notes))
 		for k, n := range notes {
