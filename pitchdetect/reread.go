@@ -19,9 +19,9 @@ import (
 // reaches a neighbour by the partials not on the neighbour's comb.
 
 const (
-	// peakHistory: frames kept, enough for a quick note's whole span and
-	// its slurs when it ends (0.68 s at 48 kHz and the default hop).
-	peakHistory = 64
+	// peakSeconds: the frames kept span a quick note (turningSeconds) and
+	// the slurs either side of it when it ends, at any hop.
+	peakSeconds = 0.7
 	peakKeep    = 24 // strongest peaks kept per frame
 	// rereadPartials: a reading from fewer partials of the comb is no
 	// series (a lone peak between two notes agrees with anything).
@@ -39,9 +39,9 @@ type peakFrame struct {
 // spectra computed) under its time.
 func (d *Detector) keepPeaks(at float64) {
 	if d.peaks == nil {
-		d.peaks = make([]peakFrame, peakHistory)
+		d.peaks = make([]peakFrame, int(math.Ceil(peakSeconds*d.fs/float64(d.hop))))
 	}
-	p := &d.peaks[d.frameNo%peakHistory]
+	p := &d.peaks[d.frameNo%len(d.peaks)]
 	p.time, p.n = at, 0
 	top := int(min(d.ceilHz/d.binHz, float64(len(d.power)-2)))
 	for b := 2; b <= top; b++ {
@@ -65,7 +65,7 @@ func (d *Detector) keepPeaks(at float64) {
 // forgetPeaks records the frame just analysed as holding no peaks.
 func (d *Detector) forgetPeaks(at float64) {
 	if d.peaks != nil {
-		d.peaks[d.frameNo%peakHistory] = peakFrame{time: at}
+		d.peaks[d.frameNo%len(d.peaks)] = peakFrame{time: at}
 	}
 }
 
@@ -75,7 +75,7 @@ func (d *Detector) forgetPeaks(at float64) {
 // which its remaining partials within strayCents of hz's comb agree
 // (consensus's grouping), if at least rereadPartials of them do, and the
 // power of those partials weighted as the grouping weighs them (times k²).
-// Only the last peakHistory frames are known.
+// Only the last peakSeconds of frames are known.
 func (d *Detector) Reread(at, hz, under, over float64) (f, power float64, ok bool) {
 	i := slices.IndexFunc(d.peaks, func(p peakFrame) bool { return math.Abs(p.time-at) < 0.25*float64(d.hop)/d.fs })
 	if i < 0 || hz <= 0 {
