@@ -90,11 +90,12 @@ type Detector struct {
 	floor     float64 // absolute power floor for partial peaks in this frame
 	peak      float64 // strongest bin's power in this frame
 	last      analysis
-	under     float64    // power of the quieter sound the span began with (entry.go)
-	entryRun  int        // frames of an entry so far, this one included (entry.go)
-	newest    []float64  // the last frames' newest-eighth powers, a ring (entry.go)
-	frameNo   int        // frames since Reset
-	ends      [2]float64 // this span's oldest and newest eighths' mean power (entry.go)
+	under     float64     // power of the quieter sound the span began with (entry.go)
+	entryRun  int         // frames of an entry so far, this one included (entry.go)
+	newest    []float64   // the last frames' newest-eighth powers, a ring (entry.go)
+	frameNo   int         // frames since Reset
+	ends      [2]float64  // this span's oldest and newest eighths' mean power (entry.go)
+	peaks     []peakFrame // the last frames' spectral peaks, a ring (reread.go)
 }
 
 // New returns a Detector for the sample rate with the given window and hop
@@ -163,6 +164,7 @@ func (d *Detector) Reset() {
 	d.w, d.fed = 0, 0
 	d.haveB, d.prevHz, d.held = false, 0, heldNote{}
 	d.frameNo = 0
+	clear(d.peaks)
 	d.untilFrame = d.span
 }
 
@@ -218,6 +220,7 @@ func (d *Detector) analyse() Estimate {
 	e.Level = d.levelDB(frameB)
 	if e.Level < silenceDBFS {
 		d.haveB = false
+		d.forgetPeaks(e.Time)
 		return e
 	}
 
@@ -231,6 +234,7 @@ func (d *Detector) analyse() Estimate {
 		d.sinceNSDF++
 		d.nsdfFresh = false
 		d.spectra(frameA, frameB)
+		d.keepPeaks(e.Time)
 		if d.read(&e, d.fs/d.prevHz, d.clarity, true) {
 			return e
 		}
@@ -241,13 +245,15 @@ func (d *Detector) analyse() Estimate {
 	}
 	period, clarity, ok := pickPeriod(d.nsdf(frameB), d.minLag)
 	d.sinceNSDF, d.clarity, d.nsdfFresh = 0, clarity, true
+	if !tracking {
+		// Unvoiced too: a frame under a slur may be read again (reread.go).
+		d.spectra(frameA, frameB)
+		d.keepPeaks(e.Time)
+	}
 	if !ok || clarity < minClarity/2 {
 		e.Confidence = math.Max(clarity, 0)
-		d.haveB, d.prevHz = false, 0
+		d.prevHz = 0
 		return e
-	}
-	if !tracking {
-		d.spectra(frameA, frameB)
 	}
 	d.read(&e, period, clarity, false)
 	return e

@@ -40,3 +40,17 @@ func (s *Segmenter) readLow(first Estimate) bool {
 	}
 	return true
 }
+
+// subharmonic reports whether low is the second, third or fourth
+// subharmonic of high, within the segmenter's notion of one pitch.
+func subharmonic(low, high float64) bool {
+	if low <= 0 || high <= 0 {
+		return false
+	}
+	for k := 2.0; k <= 4; k++ {
+		if math.Abs(1200*math.Log2(high/(k*low))) < 50 {
+			return true
+		}
+	}
+	return false
+}

@@ -46,6 +46,10 @@ type Segmenter struct {
 	// frame lies at the onset and whose window goes on hearing a release
 	// (the multi-pitch estimator's; see the voice tracker in cmd/fifthline).
 	Margin float64
+	// Reread, when set, reads a past frame again as a pitch, the partials
+	// of two others left out (Detector.Reread): a quick slurred note is
+	// read through its slurs (reread.go).
+	Reread func(at, hz, under, over float64) (f, power float64, ok bool)
 
 	frames  []Estimate
 	gap     int      // unvoiced frames since the last voiced one
@@ -62,6 +66,8 @@ type Segmenter struct {
 	vib     vibrato   // the last vibrato fit, made at vibAt frames
 	vibAt   int
 	vibHz   float64
+	nextHz  float64     // the pitch of the note slurred on to, at a finish
+	span    []spanFrame // scratch for throughSlurs
 }
 
 // NewSegmenter returns a Segmenter for estimates hopSeconds apart, with
@@ -128,6 +134,7 @@ func (s *Segmenter) Push(e Estimate) (Held, bool) {
 	}
 	// Two frames agree on a new pitch: the old note ends, a new one starts.
 	first, from, began := s.outlier, s.from, s.frames[0]
+	s.nextHz = first.Hz
 	h, ok := s.finish(first.Time)
 	s.start(first)
 	s.from = from // a blip that is no note leaves the slur to the note before it
@@ -148,20 +155,6 @@ func (s *Segmenter) Push(e Estimate) (Held, bool) {
 		return Held{}, false
 	}
 	return h, ok
-}
-
-// subharmonic reports whether low is the second, third or fourth
-// subharmonic of high, within the segmenter's notion of one pitch.
-func subharmonic(low, high float64) bool {
-	if low <= 0 || high <= 0 {
-		return false
-	}
-	for k := 2.0; k <= 4; k++ {
-		if math.Abs(1200*math.Log2(high/(k*low))) < 50 {
-			return true
-		}
-	}
-	return false
 }
 
 func (s *Segmenter) start(e Estimate) {
@@ -218,6 +211,7 @@ const (
 // its attack fills part of the window, and needs no such allowance.)
 func (s *Segmenter) finish(next float64) (Held, bool) {
 	h := s.summarise(false, next)
+	h.Hz = s.throughSlurs(h, next)
 	length := h.End - h.Start
 	if next > 0 && s.from.hz != 0 { // from the middle of the slur into it
 		length = next - (h.Start+s.from.last)/2

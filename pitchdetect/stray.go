@@ -46,19 +46,10 @@ func (d *Detector) consensus(f0, tolCents float64) float64 {
 		r[n], w[n] = fk/float64(k), d.power[b]*float64(k*k)
 		n++
 	}
-	best, hz := 0.0, f0
-	for i := range n {
-		var sw, swr float64
-		for j := range n {
-			if math.Abs(r[j]-r[i]) <= r[i]*tolCents/centsPerUnit {
-				sw += w[j]
-				swr += w[j] * r[j]
-			}
-		}
-		if sw > best {
-			best, hz = sw, swr/sw
-		}
+	if n == 0 {
+		return f0
 	}
+	hz, _ := agreeing(r[:n], w[:n], tolCents)
 	return hz
 }
 

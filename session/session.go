@@ -80,6 +80,7 @@ func Run(ctx context.Context, src source.Source, opt Options) error {
 		return err
 	}
 	seg := det.NewSegmenter() // it trims by this window, not a default number of hops
+	seg.Reread = det.Reread
 	block := make([]float32, max(opt.BlockSize, 1))
 	if opt.BlockSize == 0 {
 		block = make([]float32, 512)
