@@ -292,7 +292,7 @@ func (f *fieldReader) later(col string) string {
 func notAHeader(header string) error {
 	switch {
 	case strings.HasPrefix(header, "RIFF") || strings.HasPrefix(header, "RF64"):
-		return errors.New("it is a WAV recording, not the journal header: read it with analyze (--log JOURNAL keeps its notes for report)")
+		return errors.New("it is a WAV recording: read it with analyze, whose --log JOURNAL keeps its notes for report")
 	case !utf8.ValidString(header) || strings.ContainsFunc(header, func(r rune) bool { return r < ' ' && r != '\t' }):
 		return errors.New("its first line is not text, so not the journal header (a journal is the CSV that --log writes)")
 	}

@@ -70,7 +70,7 @@ func TestReadRefusesWhatIsNotAJournal(t *testing.T) {
 		{"garbage", write("garbage.csv", "\x00\x01PK\x03\x04 binary\n\xff\xfe"), "its first line is not text, so not the journal header"},
 		// The WAV given instead of its journal: RIFF is the WAV file's first
 		// four bytes (Microsoft RIFF/WAVE; RF64 is its 64-bit form, EBU Tech 3306).
-		{"a recording", write("take.wav", "RIFF\x24\x08\x00\x00WAVEfmt \x10\x00"), "it is a WAV recording, not the journal header: read it with analyze"},
+		{"a recording", write("take.wav", "RIFF\x24\x08\x00\x00WAVEfmt \x10\x00"), "it is a WAV recording: read it with analyze, whose --log JOURNAL"},
 		{"a text file", write("notes.txt", "shopping list\n"), `its first line "shopping list" is not the journal header`},
 		{"unbalanced quote", write("quote.csv", "\"time,session\n"), "first line is not a header"},
 	}
