@@ -33,7 +33,10 @@ func runKeyboard(e *env, args []string) error {
 	// --format alone asks for the table alone: a player checking what the
 	// keys will play before writing the file.
 	tableOnly := *output == "" && *format != ""
-	if !tableOnly && (*output == "" || (ext != ".syx" && ext != ".mid")) {
+	if *output == "" && !tableOnly {
+		return usagef("keyboard needs --output FILE.syx or FILE.mid (or --format table to see the keys' tuning without writing a file)")
+	}
+	if !tableOnly && ext != ".syx" && ext != ".mid" {
 		return usagef("--output %q: name a .syx or .mid file", *output)
 	}
 	tu, err := mf.tuning()

@@ -252,7 +252,9 @@ func TestKeyboardBadInput(t *testing.T) {
 	}{
 		{[]string{"--mts", "sysex", "--output", filepath.Join(dir, "a.syx")}, 2, "--mts"},
 		{[]string{"--output", filepath.Join(dir, "a.wav")}, 2, ".syx or .mid"},
-		{[]string{}, 2, "--output"},
+		// Nothing asked: say both ways out, the file or the table alone
+		// (docs/interface.md, "Additions": keyboard --format without --output).
+		{[]string{}, 2, "keyboard needs --output FILE.syx or FILE.mid (or --format table"},
 		{[]string{"--output", filepath.Join(dir, "a.mid"), "extra.mid"}, 2, "no file arguments"},
 		{[]string{"--format", "json", "--output", filepath.Join(dir, "a.mid")}, 2, "--format"},
 		{[]string{"--key", "H", "--output", filepath.Join(dir, "a.mid")}, 2, "--key"},
