@@ -280,7 +280,9 @@ func TestTuningLineSaysKeyTemperamentA4AndTransposition(t *testing.T) {
 		tu   target.Tuning
 		want string
 	}{
-		{target.Default(), "C major · equal temperament · A4 = 440.0 Hz · F♯ = G♭ · concert pitch"},
+		// Untransposed is "sounding pitch", the pair of written pitch
+		// (common practice); "concert pitch" would read as a reference.
+		{target.Default(), "C major · equal temperament · A4 = 440.0 Hz · F♯ = G♭ · sounding pitch"},
 		{transposed, "C major · 1/4-comma meantone · A4 = 415.0 Hz · written for B♭ instrument"},
 	} {
 		if got := tuningLine(newModel(c.tu, "x")).Text(); got != c.want {

@@ -44,7 +44,7 @@ func runKeyboard(e *env, args []string) error {
 		return err
 	}
 	if !tu.Transpose.IsConcert() {
-		return usagef("--transpose: a keyboard's tuning is at concert pitch; leave --transpose out")
+		return usagef("--transpose: a keyboard's tuning is at sounding pitch; leave --transpose out")
 	}
 	kb := newKeyboard(tu)
 	msgs, err := kb.messages(*form)
