@@ -10,6 +10,7 @@ import (
 	"fmt"
 	"io"
 	"runtime/debug"
+	"slices"
 	"strings"
 	"time"
 
@@ -113,14 +114,14 @@ var valueNames = map[string]string{
 	"transpose": "NOTE", "level": "DBFS", "log": "FILE", "player": "NAME", "device": "ID", "output": "ID",
 	"notes": "NOTE,NOTE", "plot": "FILE.png|FILE.svg", "since": "DATE", "channel": "N", "tolerance": "CENTS",
 	"octave": "N", "duration": "D", "players": "NAMES", "voices": "N|auto", "seventh": "7/4|9/5|16/9", "recorded": "DATE|TIME",
-	"mts": "notes|bulk|octave",
+	"mts": "notes|bulk|octave", "by": "rehearsal",
 }
 
 // valueName is what the flag takes: a choice's words, a name from
 // valueNames, or the kind of value; "" for a switch.
 func valueName(f *flag.Flag) string {
 	if c, ok := f.Value.(*choice); ok {
-		return strings.Join(c.options, "|")
+		return strings.Join(c.words(), "|")
 	}
 	if n, ok := valueNames[f.Name]; ok {
 		return n
@@ -154,7 +155,13 @@ func (c *choice) Set(s string) error {
 			return nil
 		}
 	}
-	return fmt.Errorf("use %s", orList(c.options))
+	return fmt.Errorf("use %s", orList(c.words()))
+}
+
+// words are the options a player can type: an empty first option is "not
+// given", no word.
+func (c *choice) words() []string {
+	return slices.DeleteFunc(slices.Clone(c.options), func(o string) bool { return o == "" })
 }
 
 // choiceFlag defines a choice flag; the first option is the default.

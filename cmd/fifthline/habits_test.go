@@ -75,11 +75,27 @@ func TestOneNamePerIdeaAndTheOldNames(t *testing.T) {
 	}
 }
 
+// Help names what a flag takes as the contract writes it: "--by rehearsal"
+// (report), "--format table|csv" (keyboard, whose --format may be left out).
+func TestHelpNamesWhatFlagsTake(t *testing.T) {
+	for cmd, want := range map[string]string{"report": "\n  --by rehearsal\n", "keyboard": "\n  --format table|csv\n"} {
+		if _, out, _ := runCLI(t, "help", cmd); !strings.Contains(out, want) {
+			t.Errorf("help %s lacks %q:\n%s", cmd, want, out)
+		}
+	}
+}
+
 // A choice flag refuses a word it does not know, listing the ones it does.
 func TestChoiceFlagsListTheirWords(t *testing.T) {
 	code, _, stderr := runCLI(t, "analyze", "--format", "xml", "x.wav")
 	checkError(t, code, 2, stderr)
 	if !strings.Contains(stderr, "--format") || !strings.Contains(stderr, "csv, table or json") {
+		t.Errorf("stderr %q", stderr)
+	}
+	// keyboard's --format may be left out, which is no word to list.
+	code, _, stderr = runCLI(t, "keyboard", "--format", "xml")
+	checkError(t, code, 2, stderr)
+	if !strings.Contains(stderr, "use table or csv") {
 		t.Errorf("stderr %q", stderr)
 	}
 }
