@@ -100,6 +100,14 @@ func TestChoiceFlagsListTheirWords(t *testing.T) {
 	}
 }
 
+// The drone's caution says the level, the cap and the quiet start (hearing
+// safety, the project's rule; the contract's −6 dBFS limit).
+func TestDroneCautionSaysLevelCapAndFade(t *testing.T) {
+	if got, want := droneCaution(-18), "fifthline: caution: "+hearingAdvice+"; peak level -18 dBFS (never above -6), fading in"; got != want {
+		t.Errorf("got  %q\nwant %q", got, want)
+	}
+}
+
 // drone without --notes sounds the tonic in octave 3 and the fifth above:
 // in ¼-comma meantone at A4 = 440 Hz (ISO 16), G major gives G3 = 440/5^(1/2)
 // and D4 = 440/5^(1/4) (every fifth 5^(1/4), by definition), the pair
