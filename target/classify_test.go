@@ -2,6 +2,7 @@ package target
 
 import (
 	"math"
+	"strings"
 	"testing"
 )
 
@@ -188,6 +189,11 @@ func TestTransposingInstruments(t *testing.T) {
 	}
 	if _, err := ParseTransposition("H"); err == nil {
 		t.Error("--transpose H accepted")
+	}
+	// Named as players name it, "clarinet in B♭" (common practice): no
+	// article to agree with the letter ("a B♭", "an F").
+	if got := tu.String(); !strings.HasSuffix(got, " · written for an instrument in Bb") {
+		t.Errorf("transposed tuning %q", got)
 	}
 }
 

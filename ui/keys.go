@@ -138,7 +138,7 @@ func tuningWords(tu target.Tuning) string {
 		// reference; sounding against written pitch is what it means here.
 		return s + " · sounding pitch"
 	}
-	return s + " · written for " + prettyAccidentals(tu.Transpose.Name) + " instrument"
+	return s + " · written for an instrument in " + prettyAccidentals(tu.Transpose.Name)
 }
 
 // prettyAccidentals writes a user's note text ("Bb", "F#") with signs.
