@@ -1,56 +1,24 @@
 package ui
 
 import (
-	"encoding/csv"
 	"math"
-	"os"
 	"slices"
-	"strconv"
-	"strings"
 	"testing"
+
+	"fifthline/internal/voiceframes"
 )
 
-// openVoicingFrame is one frame of testdata/open-voicing-frames.csv: the
+// openVoicingFrames reads testdata/open-voicing-frames.csv: the
 // one-microphone voices' frames of a rendered scene (FluidR3's trombone,
 // horn and flute holding C3 G4 E5 from 0 to 2.5 s, then E3 G4 B5; the
 // open voicing of cmd/fifthline/voices_untuned_test.go), as listen
 // --voices 3 hands them to the meter, written by cmd/fifthline's
 // TestGroupMeterKeepsAVoiceOffALowerVoicesPartial (-write-meter-frames).
-type openVoicingFrame struct {
-	at, span float64
-	hz, db   []float64
-	marked   []bool // marked on a lower voice's partials in this frame
-	partials []bool // and taken for them by the voices' note tracker
-}
-
-func openVoicingFrames(t *testing.T) []openVoicingFrame {
+func openVoicingFrames(t *testing.T) []voiceframes.Frame {
 	t.Helper()
-	f, err := os.Open("testdata/open-voicing-frames.csv")
+	frames, err := voiceframes.Read("testdata/open-voicing-frames.csv")
 	if err != nil {
 		t.Fatal(err)
-	}
-	defer f.Close()
-	r := csv.NewReader(f)
-	r.FieldsPerRecord = -1
-	recs, err := r.ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
-	num := func(s string) float64 {
-		v, err := strconv.ParseFloat(s, 64)
-		if err != nil {
-			t.Fatal(err)
-		}
-		return v
-	}
-	var frames []openVoicingFrame
-	for _, rec := range recs {
-		fr := openVoicingFrame{at: num(rec[0]), span: num(rec[1])}
-		for v := 2; v+2 < len(rec); v += 3 {
-			fr.hz, fr.db = append(fr.hz, num(rec[v])), append(fr.db, num(rec[v+1]))
-			fr.marked, fr.partials = append(fr.marked, strings.Contains(rec[v+2], "m")), append(fr.partials, strings.Contains(rec[v+2], "p"))
-		}
-		frames = append(frames, fr)
 	}
 	return frames
 }
@@ -59,23 +27,23 @@ func openVoicingFrames(t *testing.T) []openVoicingFrame {
 // C major as cmd/fifthline's voicesMeter does, a row per voice shown
 // (hidden says which are left out), lowest first. It gives the chord line
 // after each frame and in how many frames from from a row holds E5.
-func meterOfFrames(t *testing.T, frames []openVoicingFrame, from, until float64, hidden func(openVoicingFrame) []bool) (lines []string, e5 int) {
+func meterOfFrames(t *testing.T, frames []voiceframes.Frame, from, until float64, hidden func(voiceframes.Frame) []bool) (lines []string, e5 int) {
 	g := newGroupModel(newModel(keyOf(t, "C major"), "test tones"), []string{"voice 1", "voice 2", "voice 3"}, 0)
 	for _, fr := range frames {
-		if fr.at > until {
+		if fr.At > until {
 			break
 		}
 		hz, levels := make([]float64, 3), []float64{math.Inf(-1), math.Inf(-1), math.Inf(-1)}
 		row := 0
 		for v, h := range hidden(fr) {
 			if !h && row < 3 {
-				hz[row], levels[row] = fr.hz[v], fr.db[v]
+				hz[row], levels[row] = fr.Hz[v], fr.DB[v]
 				row++
 			}
 		}
-		g.AddFrame(GroupFrame{Time: fr.at, Hz: hz, Levels: levels, Doubled: make([]bool, 3), Level: slices.Max(levels), Span: fr.span})
+		g.AddFrame(GroupFrame{Time: fr.At, Hz: hz, Levels: levels, Doubled: make([]bool, 3), Level: slices.Max(levels), Span: fr.Span})
 		lines = append(lines, chordLine(g).Text())
-		if fr.at >= from && slices.ContainsFunc(g.readings(), func(r rowReading) bool { return r.Holding && r.Note.Pretty() == "E5" }) {
+		if fr.At >= from && slices.ContainsFunc(g.readings(), func(r rowReading) bool { return r.Holding && r.Note.Pretty() == "E5" }) {
 			e5++
 		}
 	}
@@ -107,11 +75,11 @@ func changes(lines []string) int {
 // fifth.
 func TestAVoiceOffALowerVoicesPartialStaysOnTheMeter(t *testing.T) {
 	frames := openVoicingFrames(t)
-	before, e5Before := meterOfFrames(t, frames, 0.5, 2.4, func(fr openVoicingFrame) []bool { return fr.marked })
-	after, e5After := meterOfFrames(t, frames, 0.5, 2.4, func(fr openVoicingFrame) []bool { return fr.partials })
+	before, e5Before := meterOfFrames(t, frames, 0.5, 2.4, func(fr voiceframes.Frame) []bool { return fr.Marked })
+	after, e5After := meterOfFrames(t, frames, 0.5, 2.4, func(fr voiceframes.Frame) []bool { return fr.Partials })
 	steady := 0
 	for _, fr := range frames {
-		if fr.at >= 0.5 && fr.at <= 2.4 {
+		if fr.At >= 0.5 && fr.At <= 2.4 {
 			steady++
 		}
 	}

@@ -92,6 +92,47 @@ func runAnalyze(e *env, args []string) error {
 	return nil
 }
 
+// groupHead is the header of the rows of several notes at once: the note
+// rows' with columns, or with chords the chord rows' (chordHead).
+func groupHead(withFile, chords bool, columns []string, chordHead func(withFile bool) []string) []string {
+	if chords {
+		return chordHead(withFile)
+	}
+	return append(session.Header(withFile), columns...)
+}
+
+// analyzeGroup is analyze of several notes at once (flag: --players,
+// --voices): take reads one file, writes its rows under head and gives
+// the table's drift line for it, whether it heard no note, and why it
+// stopped. What was heard before an interruption or a failure is written
+// all the same; a first file that would not open writes nothing at all.
+func analyzeGroup(e *env, flag string, files []string, tu target.Tuning, opt analyzeOptions, jf *journalFlags, head []string, take func(path string, out *rowWriter, j *journalSink) (drift string, none bool, err error)) error {
+	if opt.frames {
+		return usagef("--frames and %s cannot go together: the frame track is one pitch per moment", flag)
+	}
+	j, err := jf.open(e)
+	if err != nil {
+		return err
+	}
+	out := newRowWriter(e.stdout, opt.format, head)
+	if opt.format == "table" {
+		out.title = tu.String()
+	}
+	var drifts []string // the table's line per take
+	for i, path := range files {
+		drift, none, err := take(path, out, j)
+		drifts = append(drifts, path+": "+drift)
+		if err != nil && i == 0 && none {
+			return errors.Join(err, j.close())
+		}
+		if err != nil {
+			return errors.Join(err, out.close(), j.close())
+		}
+	}
+	opt.sayTuning()
+	return errors.Join(out.close(), tableLines(e, opt.format, drifts), j.close())
+}
+
 func analyzeFile(e *env, path string, tu target.Tuning, opt analyzeOptions, out eventWriter, j *journalSink) error {
 	w, err := capture.OpenRecording(path, opt.channel)
 	if err != nil {

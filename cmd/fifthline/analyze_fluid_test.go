@@ -43,10 +43,8 @@ func TestAnalyzeHearsEachNoteOfRenderedScales(t *testing.T) {
 				t.Fatalf("%s: exit %d: %s", name, code, stderr)
 			}
 			_, rows := readCSV(t, out)
-			var got, want []string
-			for _, r := range rows {
-				got = append(got, r["note"])
-			}
+			got := column(rows, "note")
+			var want []string
 			for i, st := range steps {
 				// MIDI key 60 is C4 (MIDI 1.0 with scientific pitch notation; common practice).
 				want = append(want, fmt.Sprintf("%s%d", scale[i], (in.base+st)/12-1))

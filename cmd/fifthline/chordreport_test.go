@@ -3,7 +3,6 @@ package main
 import (
 	"encoding/json"
 	"math"
-	"os"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -149,17 +148,8 @@ func TestListenLogsTheChordsItHeard(t *testing.T) {
 	log := filepath.Join(t.TempDir(), "live.csv")
 	wait, proc := startPlainProcess(t, env, "--voices", "auto", "--chords", "--log", log, "--duration", "60s")
 	play(wav)
-	if err := proc.Signal(os.Interrupt); err != nil {
-		t.Fatal(err)
-	}
-	if code, out, stderr := wait(); code != 0 {
-		t.Fatalf("exit %d, stderr %q\n%s", code, stderr, out)
-	}
-	journal, err := os.ReadFile(log)
-	if err != nil {
-		t.Fatal(err)
-	}
-	_, rows := readCSV(t, string(journal))
+	stopPlain(t, proc, wait)
+	journal, rows := readCSVFile(t, log)
 	voices, members := 0, 0
 	for _, r := range rows {
 		if r["heard_chord"] == "" && r["voice"] != "" {

@@ -1,7 +1,6 @@
 package main
 
 import (
-	"os"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -46,11 +45,7 @@ func TestNoteRowsSpellChordMembersFromTheRoot(t *testing.T) {
 		if want := "G#4/Ab4,Ab4/G#4"; strings.Join(got, ",") != want {
 			t.Errorf("%s: the third of E major, then alone: %v, want %s\n%s", c.name, got, want, out)
 		}
-		data, err := os.ReadFile(journal)
-		if err != nil {
-			t.Fatal(err)
-		}
-		_, logged := readCSV(t, string(data))
+		data, logged := readCSVFile(t, journal)
 		var notes []string
 		for _, r := range logged {
 			if r["hz"] > "415" && r["hz"] < "416" {

@@ -38,6 +38,27 @@ func readCSV(t testing.TB, text string) (header []string, rows []map[string]stri
 	return recs[0], rows
 }
 
+// column is one column of the rows, in their order.
+func column(rows []map[string]string, name string) []string {
+	var col []string
+	for _, r := range rows {
+		col = append(col, r[name])
+	}
+	return col
+}
+
+// readCSVFile reads a CSV file (a journal) into header-keyed rows; it
+// gives the text too, for messages.
+func readCSVFile(t testing.TB, path string) (text string, rows []map[string]string) {
+	t.Helper()
+	data, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, rows = readCSV(t, string(data))
+	return string(data), rows
+}
+
 // sox makes a WAV file from sox arguments (Debian's sox is the reference
 // signal generator; make test installs it).
 func sox(t *testing.T, name string, args ...string) string {
@@ -104,12 +125,8 @@ func TestTargetsCSV(t *testing.T) {
 	if strings.Join(header[:4], ",") != "note,hz,cents_from_equal,fifths" {
 		t.Errorf("header %v", header)
 	}
-	var names []string
-	for _, r := range rows {
-		names = append(names, r["note"])
-	}
 	// G major's window (contract): Bb … D#.
-	if got := strings.Join(names, " "); got != "Bb4 F4 C4 G4 D4 A4 E4 B4 F#4 C#4 G#4 D#4" {
+	if got := strings.Join(column(rows, "note"), " "); got != "Bb4 F4 C4 G4 D4 A4 E4 B4 F#4 C#4 G#4 D#4" {
 		t.Errorf("notes %s", got)
 	}
 	if rows[5]["hz"] != "415.0000" { // A4 sits exactly at --a4 (contract)

@@ -26,13 +26,7 @@ func checkPlayerNotes(t *testing.T, how string, r renderedTake, lone [][]map[str
 	worst := 0.0
 	for i, p := range r.players {
 		got := heard[p]
-		var names, want []string
-		for _, g := range got {
-			names = append(names, g["note"])
-		}
-		for _, l := range lone[i] {
-			want = append(want, l["note"])
-		}
+		names, want := column(got, "note"), column(lone[i], "note")
 		if strings.Join(names, " ") != strings.Join(want, " ") {
 			t.Errorf("%s %s: %s heard %v, alone %v", how, r.name, p, names, want)
 			continue
@@ -63,11 +57,7 @@ func parseF(s string) float64 {
 // own channel as they read alone.
 func TestAnalyzePlayersReadsRenderedTakes(t *testing.T) {
 	t.Parallel()
-	for _, take := range ensembleTakes {
-		t.Run(take.name, func(t *testing.T) {
-			readTakeOffline(t, renderTake(t, take))
-		})
-	}
+	forEachTake(t, ensembleTakes, func(t *testing.T, r renderedTake) { readTakeOffline(t, r) })
 }
 
 // chordRows groups --chords rows by chord: its name and each member's row
@@ -102,11 +92,7 @@ func readChords(t *testing.T, r renderedTake, path string) []chordRow {
 // reads just within the samples' own tuning, as the parts alone read it.
 func TestAnalyzePlayersChordsOfRenderedTakes(t *testing.T) {
 	t.Parallel()
-	for _, take := range ensembleTakes {
-		t.Run(take.name, func(t *testing.T) {
-			checkTakeChords(t, renderTake(t, take))
-		})
-	}
+	forEachTake(t, ensembleTakes, func(t *testing.T, r renderedTake) { checkTakeChords(t, r) })
 }
 
 // checkTakeChords reads the take's chords with and without bleed and holds

@@ -166,25 +166,22 @@ func checkAgreed(t *testing.T, r renderedTake, lone, truth [][]map[string]string
 // the samples sound it.
 func TestAnalyzePlayersReadsFreshTakes(t *testing.T) {
 	t.Parallel()
-	for _, take := range freshTakes {
-		t.Run(take.name, func(t *testing.T) {
-			r := renderTake(t, take)
-			db, ms := take.bleed()
-			t.Logf("%s: bleed dB %.1f, ms %.2f", take.name, db, ms)
-			lone := r.loneNotes(t)
-			truth, apart := agreedTruth(t, r, lone)
-			_, offs := readTakeAgainst(t, r, lone)
-			abs := checkAgreed(t, r, lone, truth, apart, offs)
-			chords, justs := checkTakeChords(t, r)
-			loneJusts := checkChordsAlone(t, r, chords)
-			var gaps []float64
-			for _, a := range apart {
-				gaps = append(gaps, a...)
-			}
-			t.Logf("%s: notes worst %.3f median %.3f ¢ from the parts alone, worst %.3f median %.3f ¢ from the agreed truth (readers apart: worst %.3f median %.3f ¢); thirds and fifths worst %.3f median %.3f ¢ from without bleed, worst %.3f median %.3f ¢ from the parts alone",
-				take.name, worstAbs(offs), medianAbs(offs), worstAbs(abs), medianAbs(abs), worstAbs(gaps), medianAbs(gaps), worstAbs(justs), medianAbs(justs), worstAbs(loneJusts), medianAbs(loneJusts))
-		})
-	}
+	forEachTake(t, freshTakes, func(t *testing.T, r renderedTake) {
+		db, ms := r.bleed()
+		t.Logf("%s: bleed dB %.1f, ms %.2f", r.name, db, ms)
+		lone := r.loneNotes(t)
+		truth, apart := agreedTruth(t, r, lone)
+		_, offs := readTakeAgainst(t, r, lone)
+		abs := checkAgreed(t, r, lone, truth, apart, offs)
+		chords, justs := checkTakeChords(t, r)
+		loneJusts := checkChordsAlone(t, r, chords)
+		var gaps []float64
+		for _, a := range apart {
+			gaps = append(gaps, a...)
+		}
+		t.Logf("%s: notes worst %.3f median %.3f ¢ from the parts alone, worst %.3f median %.3f ¢ from the agreed truth (readers apart: worst %.3f median %.3f ¢); thirds and fifths worst %.3f median %.3f ¢ from without bleed, worst %.3f median %.3f ¢ from the parts alone",
+			r.name, worstAbs(offs), medianAbs(offs), worstAbs(abs), medianAbs(abs), worstAbs(gaps), medianAbs(gaps), worstAbs(justs), medianAbs(justs), worstAbs(loneJusts), medianAbs(loneJusts))
+	})
 }
 
 // checkChordsAlone holds every third and fifth of the chords read to just
@@ -228,13 +225,10 @@ func checkChordsAlone(t *testing.T, r renderedTake, chords []chordRow) (offs []f
 // such a delay is now judged at the new pitch first (ensemble/period.go).
 func TestPlayersReadOnceHearFreshTakes(t *testing.T) {
 	t.Parallel()
-	for _, take := range freshTakes {
-		t.Run(take.name, func(t *testing.T) {
-			r := renderTake(t, take)
-			offs := checkPlayerNotes(t, "read once", r, r.loneNotes(t), readOnce(t, r), false)
-			t.Logf("%s read once: notes worst %.3f median %.3f ¢ from the parts alone", r.name, worstAbs(offs), medianAbs(offs))
-		})
-	}
+	forEachTake(t, freshTakes, func(t *testing.T, r renderedTake) {
+		offs := checkReadOnce(t, r)
+		t.Logf("%s read once: notes worst %.3f median %.3f ¢ from the parts alone", r.name, worstAbs(offs), medianAbs(offs))
+	})
 }
 
 // The fresh brass and woodwinds played live into a four-channel interface

@@ -77,6 +77,14 @@ func readOnce(t *testing.T, r renderedTake) []map[string]string {
 	return rows
 }
 
+// checkReadOnce reads the take once (readOnce) and holds every player's
+// notes to the parts read alone, in order (checkPlayerNotes); it returns
+// how far each note matched read from its part alone, ¢.
+func checkReadOnce(t *testing.T, r renderedTake) []float64 {
+	t.Helper()
+	return checkPlayerNotes(t, "read once", r, r.loneNotes(t), readOnce(t, r), false)
+}
+
 // Read once, as live, from the file: the same reading as the interface
 // gives, without a sink (a cello's D3 entering under the viola's A3 was
 // heard first as D2, the period the two share, before the bleed was
@@ -84,8 +92,7 @@ func readOnce(t *testing.T, r renderedTake) []map[string]string {
 func TestPlayersReadOnceHearStringsAndVoices(t *testing.T) {
 	t.Parallel()
 	for _, name := range liveFirstTakes {
-		r := renderTake(t, takeNamed(t, name))
-		checkPlayerNotes(t, "read once", r, r.loneNotes(t), readOnce(t, r), false)
+		checkReadOnce(t, renderTake(t, takeNamed(t, name)))
 	}
 }
 

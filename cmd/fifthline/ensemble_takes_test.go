@@ -164,6 +164,15 @@ func renderTake(t *testing.T, take ensembleTake) renderedTake {
 	return r
 }
 
+// forEachTake renders each take and checks it in a subtest named by the
+// take.
+func forEachTake(t *testing.T, takes []ensembleTake, check func(*testing.T, renderedTake)) {
+	t.Helper()
+	for _, take := range takes {
+		t.Run(take.name, func(t *testing.T) { check(t, renderTake(t, take)) })
+	}
+}
+
 func renderTakeIn(t *testing.T, dir string, take ensembleTake) renderedTake {
 	r := renderedTake{ensembleTake: take}
 	for i, p := range take.parts {

@@ -2,7 +2,6 @@ package main
 
 import (
 	"math"
-	"os"
 	"path/filepath"
 	"strconv"
 	"testing"
@@ -26,12 +25,12 @@ import (
 // −10.27 ¢. Both chords' third sits 13.69 ¢ above just (400 − 386.31 ¢, 5/4:
 // common practice), whatever the temperament.
 func TestGroupMeterChordsKeepTheirTuning(t *testing.T) {
-	mic := vmic.IsolateChannels(t, "front-left", "front-right", "rear-left", "rear-right")
+	mic := vmic.IsolateChannels(t, fourChannels...)
 	take, _ := soxParts(t, [][]soxNote{
 		{{130.8128, 0.2, 1.5, 0.3}}, {{195.9977, 0.2, 1.5, 0.3}}, {{329.6276, 0.2, 1.5, 0.3}}, {{523.2511, 0.2, 1.5, 0.3}},
 	})
 	journal := filepath.Join(t.TempDir(), "rehearsal.csv")
-	m := startTmux(t, 80, 24, []string{"PULSE_SOURCE=" + mic.Source, "PULSE_SINK=" + mic.Sink},
+	m := startTmux(t, 80, 24, mic.Env(),
 		"listen", "--players", "vc,vla,vl2,vl1", "--key", "C major", "--temperament", "equal", "--a4", "440", "--chords", "--log", journal)
 	m.waitFor(`no chord yet`, `lost: 0 overflows, 0 dropped`)
 	play := func() {
@@ -47,10 +46,7 @@ func TestGroupMeterChordsKeepTheirTuning(t *testing.T) {
 	m.waitFor(`meantone`)
 	play()
 	m.waitFor(`journal: 8 notes, 2 chords`)
-	m.tmux("send-keys", "-t", "meter", "q")
-	if rc := m.exitStatus(); rc != "0" {
-		t.Errorf("q: exit status %s, want 0", rc)
-	}
+	m.quitCleanly()
 	checkChordsInTheirTuning(t, journal, "C major", []map[string]float64{
 		{"C3": 0, "G3": 0, "E4": 0, "C5": 0},
 		{"C3": -10.265, "G3": -6.843, "E4": 3.422, "C5": -10.265},
@@ -63,11 +59,7 @@ func TestGroupMeterChordsKeepTheirTuning(t *testing.T) {
 // third's just_cents within 1 ¢ of third.
 func checkChordsInTheirTuning(t *testing.T, journal, name string, want []map[string]float64, third float64) {
 	t.Helper()
-	data, err := os.ReadFile(journal)
-	if err != nil {
-		t.Fatal(err)
-	}
-	_, rows := readCSV(t, string(data))
+	data, rows := readCSVFile(t, journal)
 	chord := -1
 	var last string
 	for _, r := range rows {
@@ -117,10 +109,7 @@ func TestVoicesMeterChordsKeepTheirTuning(t *testing.T) {
 	m.waitFor(`meantone`)
 	play(wav)
 	m.waitFor(`journal: 6 notes, 2 chords`)
-	m.tmux("send-keys", "-t", "meter", "q")
-	if rc := m.exitStatus(); rc != "0" {
-		t.Errorf("q: exit status %s, want 0", rc)
-	}
+	m.quitCleanly()
 	checkChordsInTheirTuning(t, journal, "C major", []map[string]float64{
 		{"C4": 0.03, "E4": -13.66, "G4": 1.99},
 		{"C4": -10.24, "E4": -10.24, "G4": -4.86},

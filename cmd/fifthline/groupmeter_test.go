@@ -3,7 +3,6 @@ package main
 import (
 	"fmt"
 	"math"
-	"os"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -25,10 +24,10 @@ import (
 // each chord's members, as --plain writes them, by the time q has ended
 // the session (TestGroupMeterChordsKeepTheirTuning: as each chord ends).
 func TestListenPlayersGroupMeterInTmux(t *testing.T) {
-	mic := vmic.IsolateChannels(t, "front-left", "front-right", "rear-left", "rear-right")
+	mic := vmic.IsolateChannels(t, fourChannels...)
 	quartet := soxQuartet(t)
 	journal := filepath.Join(t.TempDir(), "rehearsal.csv")
-	m := startTmux(t, 80, 24, []string{"PULSE_SOURCE=" + mic.Source, "PULSE_SINK=" + mic.Sink},
+	m := startTmux(t, 80, 24, mic.Env(),
 		"listen", "--players", "vc,vla,vl2,vl1", "--key", "C major", "--chords", "--log", journal)
 	m.waitFor(`no chord yet`, `lost: 0 overflows, 0 dropped`, ` 4 vl1 +·`)
 	if err := mic.PlayChannels(quartet)(); err != nil {
@@ -44,10 +43,7 @@ func TestListenPlayersGroupMeterInTmux(t *testing.T) {
 	checkFits(t, s, 80, 24)
 	m.tmux("send-keys", "-t", "meter", "4")
 	m.waitFor(` 4 vl1 +off — 4 turns it on`, `vl1 off: left out of the chords`)
-	m.tmux("send-keys", "-t", "meter", "q")
-	if rc := m.exitStatus(); rc != "0" {
-		t.Errorf("q: exit status %s, want 0", rc)
-	}
+	m.quitCleanly()
 	checkJournalChord(t, journal, "G major", "third", "B4", 13.7)
 }
 
@@ -55,11 +51,7 @@ func TestListenPlayersGroupMeterInTmux(t *testing.T) {
 // that chord, its note spelled and its just_cents within 0.5 ¢ of want.
 func checkJournalChord(t *testing.T, journal, chord, member, note string, want float64) {
 	t.Helper()
-	data, err := os.ReadFile(journal)
-	if err != nil {
-		t.Fatal(err)
-	}
-	_, rows := readCSV(t, string(data))
+	data, rows := readCSVFile(t, journal)
 	for _, r := range rows {
 		if r["heard_chord"] == chord && r["member"] == member {
 			if c, err := strconv.ParseFloat(r["just_cents"], 64); r["note"] != note || err != nil || math.Abs(c-want) > 0.5 {
@@ -92,10 +84,7 @@ func TestGroupDemoMeterInTmux(t *testing.T) {
 	m.waitFor(` 2 tenor +off — 2 turns it on`)
 	m.tmux("send-keys", "-t", "meter", "Up")
 	m.waitFor(`A4 = 416\.0 Hz`, ` 3 alto +B3 +−2\.[0-9] ¢`) // 4.17 ¢ lower against a reference 1 Hz higher
-	m.tmux("send-keys", "-t", "meter", "q")
-	if rc := m.exitStatus(); rc != "0" {
-		t.Errorf("q: exit status %s, want 0", rc)
-	}
+	m.quitCleanly()
 }
 
 // The group meter's own cost with four players: `demo --group` (four
@@ -143,9 +132,6 @@ func TestListenVoicesGroupMeterInTmux(t *testing.T) {
 		` 2 voice 2 +E4 +−13\.[5-9] ¢.* third +`+nearJust,
 		` 3 voice 3 +G4 +\+(1\.[89]|2\.[01]) ¢.* fifth +`+nearJust)
 	checkFits(t, s, 80, 24)
-	m.tmux("send-keys", "-t", "meter", "q")
-	if rc := m.exitStatus(); rc != "0" {
-		t.Errorf("q: exit status %s, want 0", rc)
-	}
+	m.quitCleanly()
 	checkJournalChord(t, journal, "C major", "third", "E4", 0)
 }

@@ -18,16 +18,7 @@ import (
 // voiced frames and was lost.)
 func TestAnalyzeHearsTheViolinsHighRunAtEveryHopPhase(t *testing.T) {
 	t.Parallel()
-	var high []legatoRun
-	for _, run := range renderLegatoRuns(t) {
-		if strings.HasPrefix(run.name, "violin-high-") {
-			high = append(high, run)
-		}
-	}
-	if len(high) != 2 {
-		t.Fatalf("%d runs of the violin's high sixteenths, want 1", len(high))
-	}
-	for _, run := range high {
+	for _, run := range legatoRunsNamed(t, "violin-high-", 2) {
 		analyzeAtEveryHopPhase(t, run, 0)
 	}
 }
@@ -43,13 +34,9 @@ func TestAnalyzeHearsTheViolinsHighRunAtEveryHopPhase(t *testing.T) {
 // and lost at two.)
 func TestAnalyzeHearsTheViolinsSixteenthsAtEveryHopPhase(t *testing.T) {
 	t.Parallel()
-	for _, run := range renderLegatoRuns(t) {
-		if run.name == "violin-0.15s" {
-			analyzeAtEveryHopPhase(t, run, 8)
-			return
-		}
+	for _, run := range legatoRunsNamed(t, "violin-0.15s", 1) {
+		analyzeAtEveryHopPhase(t, run, 8)
 	}
-	t.Fatal("no run of the violin's sixteenths")
 }
 
 // The flute's eighths at every phase of the hop, as the violin's high runs
@@ -63,13 +50,26 @@ func TestAnalyzeHearsTheViolinsSixteenthsAtEveryHopPhase(t *testing.T) {
 // of the eight phases, and 13 notes were within.)
 func TestAnalyzeReadsTheFlutesEighthsAtEveryHopPhase(t *testing.T) {
 	t.Parallel()
+	for _, run := range legatoRunsNamed(t, "flute-0.3s", 1) {
+		analyzeAtEveryHopPhase(t, run, 14)
+	}
+}
+
+// legatoRunsNamed gives the rendered runs whose names begin with prefix
+// (an instrument's register, or a run at one speed), and fails unless
+// there are n.
+func legatoRunsNamed(t *testing.T, prefix string, n int) []legatoRun {
+	t.Helper()
+	var named []legatoRun
 	for _, run := range renderLegatoRuns(t) {
-		if run.name == "flute-0.3s" {
-			analyzeAtEveryHopPhase(t, run, 14)
-			return
+		if strings.HasPrefix(run.name, prefix) {
+			named = append(named, run)
 		}
 	}
-	t.Fatal("no run of the flute's eighths")
+	if len(named) != n {
+		t.Fatalf("%d runs named %s…, want %d", len(named), prefix, n)
+	}
+	return named
 }
 
 // analyzeAtEveryHopPhase runs analyze on run delayed by 0, 64, … 448

@@ -127,16 +127,25 @@ func runListen(e *env, args []string) error {
 	return err
 }
 
+// beginPlain writes the header of listen --plain's CSV at once, so a
+// reader has the columns before the first row, and opens the
+// FIFTHLINE_TIMING log (timing.go) for a stream at rate; it gives the
+// writer for the rows and the log.
+func beginPlain(e *env, head []string, rate float64) (*csv.Writer, *timingLog, error) {
+	w := csv.NewWriter(e.stdout)
+	w.Write(head)
+	w.Flush()
+	if err := w.Error(); err != nil {
+		return nil, nil, err
+	}
+	timing, err := openTiming(rate)
+	return w, timing, err
+}
+
 // listenPlain writes the contract's CSV: a header, then each held note as it
 // ends, flushed at once so a reader sees it live and an interruption keeps it.
 func listenPlain(ctx context.Context, e *env, src source.Source, opts session.Options, j *journalSink) error {
-	w := csv.NewWriter(e.stdout)
-	w.Write(session.Header(false))
-	w.Flush()
-	if err := w.Error(); err != nil {
-		return err
-	}
-	timing, err := openTiming(src.SampleRate())
+	w, timing, err := beginPlain(e, session.Header(false), src.SampleRate())
 	if err != nil {
 		return err
 	}

@@ -1,7 +1,6 @@
 package main
 
 import (
-	"encoding/csv"
 	"fmt"
 	"math"
 	"os"
@@ -106,24 +105,8 @@ func measureMeter(b *testing.B, withDrone bool) {
 			time.Sleep(time.Second) // past its fade in
 		}
 		reportCost(b, meterPid(b, m), func() { play(wav) })
-		m.tmux("send-keys", "-t", "meter", "q")
-		m.exitStatus()
+		m.quit()
 	}
-}
-
-// timingRows are the FIFTHLINE_TIMING log's frame rows (its two heading
-// lines left out).
-func timingRows(b *testing.B, path string) [][]string {
-	f, err := os.Open(path)
-	if err != nil {
-		b.Fatal(err)
-	}
-	defer f.Close()
-	recs, err := csv.NewReader(f).ReadAll()
-	if err != nil {
-		b.Fatal(err)
-	}
-	return recs[min(2, len(recs)):]
 }
 
 // onsetLatencies reads the timing log and finds, for each tone, the first

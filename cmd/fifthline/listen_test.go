@@ -320,6 +320,20 @@ func TestDevicesMarksTheDefaultInput(t *testing.T) {
 	}
 }
 
+// stopPlain stops `listen --plain` with Ctrl-C (SIGINT), which must end
+// it with exit status 0, and returns its output.
+func stopPlain(t *testing.T, proc *os.Process, wait func() (int, string, string)) string {
+	t.Helper()
+	if err := proc.Signal(os.Interrupt); err != nil {
+		t.Fatal(err)
+	}
+	code, out, stderr := wait()
+	if code != 0 {
+		t.Fatalf("exit %d, stderr %q\n%s", code, stderr, out)
+	}
+	return out
+}
+
 // interruptPlain stops `listen --plain` with Ctrl-C (SIGINT), checks that it
 // ended cleanly, saying nothing but the tuning in force, and returns its
 // output.

@@ -2,7 +2,6 @@ package main
 
 import (
 	"math"
-	"os"
 	"os/exec"
 	"path/filepath"
 	"strconv"
@@ -74,15 +73,8 @@ func TestListenDroneKeySoundsTheTargetsAndTheMeterStillReadsTheNote(t *testing.T
 	// The drone follows the tonic.
 	m.tmux("send-keys", "-t", "meter", "Right")
 	m.waitFor(`drone: D3\+A3 at −18 dBFS`)
-	m.tmux("send-keys", "-t", "meter", "q")
-	if rc := m.exitStatus(); rc != "0" {
-		t.Errorf("q: exit status %s, want 0", rc)
-	}
-	data, err := os.ReadFile(journal)
-	if err != nil {
-		t.Fatal(err)
-	}
-	_, rows := readCSV(t, string(data))
+	m.quitCleanly()
+	data, rows := readCSVFile(t, journal)
 	if len(rows) != 1 || rows[0]["note"] != "B3" {
 		t.Fatalf("want the one note played, B3; the journal holds:\n%s", data)
 	}
@@ -110,10 +102,7 @@ func TestMeterSoundWithoutAnOutputAndAboveTheLimit(t *testing.T) {
 	m.waitFor(heldWords)
 	m.tmux("send-keys", "-t", "meter", "d")
 	m.waitFor(`no sound: no such output device "no-such-output-xyz"`, heldWords)
-	m.tmux("send-keys", "-t", "meter", "q")
-	if rc := m.exitStatus(); rc != "0" {
-		t.Errorf("q: exit status %s, want 0", rc)
-	}
+	m.quitCleanly()
 	for _, args := range [][]string{
 		{"listen", "--drone-level", "-3"},
 		{"demo", "--drone-level", "0"},
@@ -147,8 +136,5 @@ func TestMeterSaysWhenTheDroneOutputIsLost(t *testing.T) {
 	}
 	vmic.Play(t, fadedTone(t, 440, -12))()
 	m.waitFor(`A4`)
-	m.tmux("send-keys", "-t", "meter", "q")
-	if code := m.exitStatus(); code != "0" {
-		t.Errorf("exit status %s", code)
-	}
+	m.quitCleanly()
 }

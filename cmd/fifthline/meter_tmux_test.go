@@ -93,6 +93,21 @@ func (m *tmuxMeter) exitStatus() string {
 	return ""
 }
 
+// quit presses q, waits for the command to end and gives its exit status.
+func (m *tmuxMeter) quit() string {
+	m.t.Helper()
+	m.tmux("send-keys", "-t", "meter", "q")
+	return m.exitStatus()
+}
+
+// quitCleanly presses q, which must end the command with exit status 0.
+func (m *tmuxMeter) quitCleanly() {
+	m.t.Helper()
+	if rc := m.quit(); rc != "0" {
+		m.t.Errorf("q: exit status %s, want 0", rc)
+	}
+}
+
 // The spelled note and its cents, as the words under the large glyphs say them.
 const heldWords = `[A-G][♯♭𝄪𝄫]?[0-9] is (on its target|[0-9]+\.[0-9] ¢ (sharp|flat)(, toward [A-G][♯♭𝄪𝄫]?[0-9])? [▲▼])`
 
@@ -130,10 +145,7 @@ func TestDemoMeterInTmux(t *testing.T) {
 	}
 
 	m.waitFor(`journal: [1-9][0-9]* notes? → .*rehearsal\.csv`)
-	m.tmux("send-keys", "-t", "meter", "q")
-	if rc := m.exitStatus(); rc != "0" {
-		t.Errorf("q: exit status %s, want 0", rc)
-	}
+	m.quitCleanly()
 }
 
 func TestListenMeterInTmuxShowsTheOtherSpellingTheInputAndALostDevice(t *testing.T) {
@@ -178,8 +190,7 @@ func benchMeterInTmux(b *testing.B, ready string, args ...string) {
 		m := startTmux(b, 80, 24, nil, args...)
 		m.waitFor(ready)
 		reportCost(b, meterPid(b, m), func() { time.Sleep(10 * time.Second) })
-		m.tmux("send-keys", "-t", "meter", "q")
-		m.exitStatus()
+		m.quit()
 	}
 }
 

@@ -2,7 +2,6 @@ package main
 
 import (
 	"math"
-	"os"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -70,11 +69,7 @@ func TestListenPlainSpellsNotesFromTheirChordAsAnalyzeDoes(t *testing.T) {
 	if len(third) != 2 || !strings.HasPrefix(third[0], "G#4 ") || !strings.HasPrefix(third[1], "Ab4 ") {
 		t.Errorf("vl2 live: %v, want G#4 (the third of E major) then Ab4 (alone)", third)
 	}
-	data, err := os.ReadFile(journal)
-	if err != nil {
-		t.Fatal(err)
-	}
-	_, logged := readCSV(t, string(data))
+	data, logged := readCSVFile(t, journal)
 	var notes []string
 	for _, r := range logged {
 		if r["player"] == "vl2" {
@@ -177,11 +172,7 @@ func TestListenPlainGivesTheChordsAboveAPedalAsTheyEnd(t *testing.T) {
 	// 0.000 ¢: analyze learns the bleed before reading, listening as it
 	// reads).
 	sameChordRows(t, live, out, []string{"player"}, 16, 0.05)
-	data, err := os.ReadFile(journal)
-	if err != nil {
-		t.Fatal(err)
-	}
-	_, logged := readCSV(t, string(data))
+	data, logged := readCSVFile(t, journal)
 	before := map[string]bool{} // chords (by start) whose memberships came before the pedal's row
 	for _, r := range logged {
 		if r["player"] == "b" && r["heard_chord"] == "" {

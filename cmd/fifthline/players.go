@@ -3,7 +3,6 @@ package main
 import (
 	"cmp"
 	"context"
-	"encoding/csv"
 	"encoding/json"
 	"errors"
 	"flag"
@@ -120,28 +119,11 @@ func playersChordHeader(withFile bool) []string {
 // analyzePlayers reads every file's players and writes their notes (or
 // chord rows) ordered by start.
 func analyzePlayers(e *env, po playerOptions, files []string, tu target.Tuning, opt analyzeOptions, jf *journalFlags) error {
-	if opt.frames {
-		return usagef("--frames and --players cannot go together: the frame track is one pitch per moment")
-	}
-	j, err := jf.open(e)
-	if err != nil {
-		return err
-	}
 	withFile := len(files) > 1
-	head := append(session.Header(withFile), playerColumns...)
-	if po.chords {
-		head = playersChordHeader(withFile)
-	}
-	out := newRowWriter(e.stdout, opt.format, head)
-	if opt.format == "table" {
-		out.title = tu.String()
-	}
-	var drifts []string // the table's line per take
-	for i, path := range files {
+	head := groupHead(withFile, po.chords, playerColumns, playersChordHeader)
+	return analyzeGroup(e, "--players", files, tu, opt, jf, head, func(path string, out *rowWriter, j *journalSink) (string, bool, error) {
 		notes, chords, err := readPlayers(e, path, tu, po, opt, j)
 		td := takeDrift(notes, tu, po.seventh)
-		drifts = append(drifts, path+": "+td.Words())
-		// What was heard before an interruption is written all the same.
 		if po.chords {
 			for _, c := range chords {
 				for _, row := range chordRecords(c, fileColumn(path, withFile)) {
@@ -153,15 +135,8 @@ func analyzePlayers(e *env, po playerOptions, files []string, tu target.Tuning, 
 				out.write(n.record(withFile), n.json(withFile))
 			}
 		}
-		if err != nil && i == 0 && notes == nil {
-			return errors.Join(err, j.close()) // a file that would not open: no output at all
-		}
-		if err != nil {
-			return errors.Join(err, out.close(), j.close())
-		}
-	}
-	opt.sayTuning()
-	return errors.Join(out.close(), tableLines(e, opt.format, drifts), j.close())
+		return td.Words(), notes == nil, err
+	})
 }
 
 // learnSeconds is how much of a take the learning pass reads: enough for
@@ -311,17 +286,7 @@ func (po *playerOptions) logHeard(j *journalSink, pn playerNote) {
 // chord's rows instead, as soon as no note still sounding can change the
 // chord. start_s counts from the start of capture.
 func listenPlayers(ctx context.Context, e *env, src *capture.Input, name string, tu target.Tuning, po playerOptions, j *journalSink) error {
-	w := csv.NewWriter(e.stdout)
-	head := append(session.Header(false), playerColumns...)
-	if po.chords {
-		head = playersChordHeader(false)
-	}
-	w.Write(head)
-	w.Flush()
-	if err := w.Error(); err != nil {
-		return err
-	}
-	timing, err := openTiming(src.SampleRate())
+	w, timing, err := beginPlain(e, groupHead(false, po.chords, playerColumns, playersChordHeader), src.SampleRate())
 	if err != nil {
 		return err
 	}

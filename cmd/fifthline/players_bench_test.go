@@ -173,8 +173,7 @@ func startPlayersListener(b *testing.B, meter bool, env []string, args ...string
 		m := startTmux(b, 80, 24, env, args...)
 		m.waitFor(`vc`)
 		return playersListener{meterPid(b, m), func() {
-			m.tmux("send-keys", "-t", "meter", "q")
-			m.exitStatus()
+			m.quit()
 		}}
 	}
 	out := filepath.Join(b.TempDir(), "stdout.csv")
@@ -209,7 +208,7 @@ func measurePlayersLive(b *testing.B, meter bool) {
 	mic := vmic.IsolateChannels(b, fourChannels...)
 	take := quartetCycleWAV(b, cycles)
 	timing := filepath.Join(b.TempDir(), "timing.csv")
-	l := startPlayersListener(b, meter, []string{"FIFTHLINE_TIMING=" + timing, "PULSE_SOURCE=" + mic.Source, "PULSE_SINK=" + mic.Sink})
+	l := startPlayersListener(b, meter, append(mic.Env(), "FIFTHLINE_TIMING="+timing))
 	// The stream settles: through the ALSA pulse plugin its first second's
 	// converter times run up to 0.6 s early (measured; device.ADCTime).
 	time.Sleep(2 * time.Second)

@@ -3,7 +3,6 @@ package main
 import (
 	"encoding/json"
 	"math"
-	"os"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -141,11 +140,7 @@ func TestAnalyzePlayersReadsEachFromTheirOwnChannel(t *testing.T) {
 		last = start
 	}
 	// The journal has one row per player's note, under the player's name.
-	journal, err := os.ReadFile(log)
-	if err != nil {
-		t.Fatal(err)
-	}
-	_, jrows := readCSV(t, string(journal))
+	_, jrows := readCSVFile(t, log)
 	players := map[string]int{}
 	for _, r := range jrows {
 		players[r["player"]]++
@@ -260,20 +255,13 @@ func TestListenPlayersOpensTheInterfacesChannels(t *testing.T) {
 // wrote. It leaves the environment alone, so its tests run in parallel.
 func playQuartetLive(t *testing.T, take string, args ...string) string {
 	t.Helper()
-	mic := vmic.PrivateChannels(t, "front-left", "front-right", "rear-left", "rear-right")
+	mic := vmic.PrivateChannels(t, fourChannels...)
 	wait, proc := startPlainProcess(t, mic.Env(), append(args, "--duration", "120s")...)
 	if err := mic.PlayChannels(take)(); err != nil { // returns once the take has played
 		t.Fatal(err)
 	}
 	time.Sleep(700 * time.Millisecond) // the last notes' release reaches the input
-	if err := proc.Signal(os.Interrupt); err != nil {
-		t.Fatal(err)
-	}
-	code, out, stderr := wait()
-	if code != 0 {
-		t.Fatalf("exit %d: %s", code, stderr)
-	}
-	return out
+	return stopPlain(t, proc, wait)
 }
 
 // JSON rows are the CSV's columns, typed: numbers as numbers, the player

@@ -23,7 +23,7 @@ func soakPlayers(b *testing.B, length time.Duration, meter bool, args ...string)
 	mic := vmic.IsolateChannels(b, fourChannels...)
 	cycle := quartetCycleWAV(b, 1)
 	journal := filepath.Join(b.TempDir(), "journal.csv")
-	l := startPlayersListener(b, meter, []string{"PULSE_SOURCE=" + mic.Source, "PULSE_SINK=" + mic.Sink},
+	l := startPlayersListener(b, meter, mic.Env(),
 		append(args, "--log", journal, "--duration", (length+5*time.Minute).String())...)
 	time.Sleep(500 * time.Millisecond)
 	src := exec.Command("sox", cycle, "-t", "raw", "-e", "signed-integer", "-b", "16", "-", "repeat", strconv.Itoa(cycles-1))

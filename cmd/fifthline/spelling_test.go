@@ -16,11 +16,7 @@ func TestTargetsOfAMinorKey(t *testing.T) {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
 	_, rows := readCSV(t, out)
-	var names []string
-	for _, r := range rows {
-		names = append(names, r["note"])
-	}
-	if got := strings.Join(names, " "); got != "Ab4 Eb4 Bb4 F4 C4 G4 D4 A4 E4 B4 F#4 C#4" {
+	if got := strings.Join(column(rows, "note"), " "); got != "Ab4 Eb4 Bb4 F4 C4 G4 D4 A4 E4 B4 F#4 C#4" {
 		t.Errorf("G minor's window: %s", got)
 	}
 	// C♯4 in ¼-comma is a pure major third (5/4, the temperament's

@@ -132,11 +132,7 @@ func TestAnalyzeReadsTheFoldersTuning(t *testing.T) {
 		t.Fatalf("exit %d, stderr %q", code, stderr)
 	}
 	_, rows := readCSV(t, out)
-	var notes []string
-	for _, r := range rows {
-		notes = append(notes, r["note"])
-	}
-	if got := strings.Join(notes, " "); got != "G4 A4 B4 C5 D5 E5 F#5 G5" {
+	if got := strings.Join(column(rows, "note"), " "); got != "G4 A4 B4 C5 D5 E5 F#5 G5" {
 		t.Errorf("notes %s", got)
 	}
 }

@@ -120,19 +120,10 @@ func TestTimingLogsVoicesAndTheOneChannelsOnsets(t *testing.T) {
 	tl.voicesFrame(multipitch.Frame{Time: 0.1, Level: -80})
 	tl.voicesFrame(multipitch.Frame{Time: 0.6, Voices: []multipitch.Voice{{Hz: 261.63, Amplitude: 0.1}, {Hz: 392, Amplitude: 0.01}}})
 	tl.close()
-	f, err := os.Open(path)
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	recs, err := csv.NewReader(f).ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
-	// Columns after the heading's two rows: time_s, hz, level_dbfs,
-	// voiced, player, clock_s, onset_adc_s.
+	// Columns: time_s, hz, level_dbfs, voiced, player, clock_s,
+	// onset_adc_s.
 	var got [][]string
-	for _, r := range recs[2:] {
+	for _, r := range timingRows(t, path) {
 		got = append(got, []string{r[1], r[2], r[3], r[4], r[7], r[8], r[9]})
 	}
 	want := [][]string{
@@ -144,4 +135,20 @@ func TestTimingLogsVoicesAndTheOneChannelsOnsets(t *testing.T) {
 	if !slices.EqualFunc(got, want, slices.Equal) {
 		t.Errorf("timing log rows\n%v\nwant\n%v", got, want)
 	}
+}
+
+// timingRows are the FIFTHLINE_TIMING log's frame rows (its two heading
+// lines left out).
+func timingRows(tb testing.TB, path string) [][]string {
+	tb.Helper()
+	f, err := os.Open(path)
+	if err != nil {
+		tb.Fatal(err)
+	}
+	defer f.Close()
+	recs, err := csv.NewReader(f).ReadAll()
+	if err != nil {
+		tb.Fatal(err)
+	}
+	return recs[min(2, len(recs)):]
 }

@@ -3,7 +3,6 @@ package main
 import (
 	"cmp"
 	"context"
-	"encoding/csv"
 	"math"
 
 	"fifthline/harmony"
@@ -18,17 +17,7 @@ import (
 // rows come as soon as no note still sounding can change the chord.
 // FIFTHLINE_TIMING logs the voices read and the input's onsets (timing.go).
 func listenVoices(ctx context.Context, e *env, in timedInput, name string, tu target.Tuning, vo voiceOptions, j *journalSink) error {
-	w := csv.NewWriter(e.stdout)
-	head := append(session.Header(false), voiceColumns...)
-	if vo.chords {
-		head = voiceChordHeader(false)
-	}
-	w.Write(head)
-	w.Flush()
-	if err := w.Error(); err != nil {
-		return err
-	}
-	timing, err := openTiming(in.SampleRate())
+	w, timing, err := beginPlain(e, groupHead(false, vo.chords, voiceColumns, voiceChordHeader), in.SampleRate())
 	if err != nil {
 		return err
 	}

@@ -1,20 +1,17 @@
 package main
 
 import (
-	"cmp"
 	"context"
-	"encoding/csv"
 	"flag"
 	"math"
-	"os"
 	"os/exec"
 	"path/filepath"
 	"slices"
-	"strconv"
 	"testing"
 
 	"fifthline/capture"
 	"fifthline/internal/testsignal"
+	"fifthline/internal/voiceframes"
 	"fifthline/multipitch"
 	"fifthline/target"
 )
@@ -171,10 +168,7 @@ func TestListenVoicesMeterKeepsAVoiceOffALowerVoicesPartial(t *testing.T) {
 	play(chord)
 	s := m.waitFor(`chord C major`, ` 1 voice 1 +C3 .* root `, ` 2 voice 2 +G4 .* fifth `, ` 3 voice 3 +E5 .* third `)
 	checkFits(t, s, 80, 24)
-	m.tmux("send-keys", "-t", "meter", "q")
-	if rc := m.exitStatus(); rc != "0" {
-		t.Errorf("q: exit status %s, want 0", rc)
-	}
+	m.quitCleanly()
 }
 
 // writeMeterFrames writes the open voicing's frames, as the meter gets
@@ -184,34 +178,21 @@ var writeMeterFrames = flag.Bool("write-meter-frames", false, "write "+meterFram
 
 const meterFramesFile = "../../ui/testdata/open-voicing-frames.csv"
 
-// writeFrames writes one line a frame: its time and span (seconds:
-// multipitch.Frame.Span), then each voice's pitch
-// (Hz), level (dBFS, as the meter takes it) and marks: m, marked on a
-// lower voice's partials in this frame; mp, and taken for them by the
-// tracker (left off the meter).
+// writeFrames writes the frames as the fixtures keep them (package
+// voiceframes): each voice's level in dBFS, as the meter takes it, and
+// marked m where the estimator marked it on a lower voice's partials, p
+// where the tracker took it for them (left off the meter).
 func writeFrames(t *testing.T, path string, frames []meterFrame) {
 	t.Helper()
-	f, err := os.Create(path)
-	if err != nil {
-		t.Fatal(err)
-	}
-	w := csv.NewWriter(f)
+	var kept []voiceframes.Frame
 	for _, fr := range frames {
-		rec := []string{strconv.FormatFloat(fr.at, 'f', 4, 64), strconv.FormatFloat(fr.span, 'f', 4, 64)}
-		for i, v := range fr.voices {
-			marks := ""
-			if v.OnPartials {
-				marks = "m"
-			}
-			if fr.partials[i] {
-				marks += "p"
-			}
-			rec = append(rec, strconv.FormatFloat(v.Hz, 'f', 3, 64), strconv.FormatFloat(20*math.Log10(v.Amplitude), 'f', 2, 64), marks)
+		k := voiceframes.Frame{At: fr.at, Span: fr.span, Partials: fr.partials}
+		for _, v := range fr.voices {
+			k.Hz, k.DB, k.Marked = append(k.Hz, v.Hz), append(k.DB, 20*math.Log10(v.Amplitude)), append(k.Marked, v.OnPartials)
 		}
-		w.Write(rec)
+		kept = append(kept, k)
 	}
-	w.Flush()
-	if err := cmp.Or(w.Error(), f.Close()); err != nil {
+	if err := voiceframes.Write(path, kept); err != nil {
 		t.Fatal(err)
 	}
 }

@@ -12,11 +12,7 @@ func TestVoicesPrunedByKeyAndChord(t *testing.T) {
 	t.Parallel()
 	notes := func(out string) string {
 		_, rows := readCSV(t, out)
-		var n []string
-		for _, r := range rows {
-			n = append(n, r["note"])
-		}
-		return strings.Join(n, " ")
+		return strings.Join(column(rows, "note"), " ")
 	}
 	// A4 (440 Hz) over the triad is a fourth voice of C major; declared
 	// as the chord C major, only the chord's members are voices, and A4's

@@ -100,33 +100,14 @@ func parseVoices(s string) (int, error) {
 // analyzeVoices reads every file's voices and writes their notes (or chord
 // rows) ordered by start, voice by voice.
 func analyzeVoices(e *env, vo voiceOptions, files []string, tu target.Tuning, opt analyzeOptions, jf *journalFlags) error {
-	if opt.frames {
-		return usagef("--frames and --voices cannot go together: the frame track is one pitch per moment")
-	}
-	j, err := jf.open(e)
-	if err != nil {
-		return err
-	}
 	withFile := len(files) > 1
-	head := append(session.Header(withFile), voiceColumns...)
-	if vo.chords {
-		head = voiceChordHeader(withFile)
-	}
-	out := newRowWriter(e.stdout, opt.format, head)
-	if opt.format == "table" {
-		out.title = tu.String()
-	}
-	var drifts []string // the table's line per take
-	for i, path := range files {
+	head := groupHead(withFile, vo.chords, voiceColumns, voiceChordHeader)
+	return analyzeGroup(e, "--voices", files, tu, opt, jf, head, func(path string, out *rowWriter, j *journalSink) (string, bool, error) {
 		notes, chords, err := readVoices(e, path, tu, vo, opt, j)
 		evs := make([]session.Event, len(notes))
 		for k, n := range notes {
 			evs[k] = n.Event
 		}
-		// As --players says it: a chord's just thirds are not the take's
-		// drift.
-		drifts = append(drifts, path+": "+eventsDrift(evs, tu, vo.seventh).Words())
-		// What was heard before an interruption is written all the same.
 		if vo.chords {
 			for _, row := range chords {
 				for _, c := range voiceChordRecords(row, fileColumn(path, withFile), notes) {
@@ -138,15 +119,10 @@ func analyzeVoices(e *env, vo voiceOptions, files []string, tu target.Tuning, op
 				out.write(n.record(withFile), n.json(withFile))
 			}
 		}
-		if err != nil && i == 0 && notes == nil {
-			return errors.Join(err, j.close()) // a file that would not open: no output at all
-		}
-		if err != nil {
-			return errors.Join(err, out.close(), j.close())
-		}
-	}
-	opt.sayTuning()
-	return errors.Join(out.close(), tableLines(e, opt.format, drifts), j.close())
+		// As --players says it: a chord's just thirds are not the take's
+		// drift.
+		return eventsDrift(evs, tu, vo.seventh).Words(), notes == nil, err
+	})
 }
 
 // readVoices hears one file's voices, logging each note at the take's start

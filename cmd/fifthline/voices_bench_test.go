@@ -56,8 +56,7 @@ func BenchmarkListenVoicesMeterLive(b *testing.B) {
 		m := startTmux(b, 80, 24, env, "listen", "--voices", "auto", "--key", "C major", "--chords")
 		m.waitFor(`no chord yet`)
 		reportCost(b, meterPid(b, m), func() { play(wav) })
-		m.tmux("send-keys", "-t", "meter", "q")
-		m.exitStatus()
+		m.quit()
 		reportLoad(b)
 	}
 }

@@ -73,8 +73,7 @@ func BenchmarkListenVoicesChordLatency(b *testing.B) {
 				}
 			}
 		}
-		m.tmux("send-keys", "-t", "meter", "q")
-		m.exitStatus()
+		m.quit()
 		var ms []float64
 		for i, at := range seen {
 			if at == 0 {

@@ -164,12 +164,5 @@ func voicesHeardLive(t *testing.T, wav string) string {
 	_, env, play := privateMic(t)
 	wait, proc := startPlainProcess(t, env, "--voices", "auto", "--duration", "60s")
 	play(wav)
-	if err := proc.Signal(os.Interrupt); err != nil {
-		t.Fatal(err)
-	}
-	code, out, stderr := wait()
-	if code != 0 {
-		t.Fatalf("exit %d, stderr %q", code, stderr)
-	}
-	return out
+	return stopPlain(t, proc, wait)
 }

@@ -1,14 +1,12 @@
 package main
 
 import (
-	"encoding/csv"
 	"flag"
 	"math"
-	"os"
-	"strconv"
 	"strings"
 	"testing"
 
+	"fifthline/internal/voiceframes"
 	"fifthline/multipitch"
 	"fifthline/target"
 )
@@ -137,36 +135,20 @@ func heardFrames(tb testing.TB) []meterFrame {
 	if t, ok := tb.(*testing.T); ok && *writeHeardFrames {
 		writeFrames(t, heardFramesFile, meterFrames(t, sceneMix(t, untunedScene(t, "open voicing, common tone held: trombone, horn, flute")), heardVoices))
 	}
-	t := tb
-	f, err := os.Open(heardFramesFile)
+	kept, err := voiceframes.Read(heardFramesFile)
 	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	r := csv.NewReader(f)
-	r.FieldsPerRecord = -1
-	recs, err := r.ReadAll()
-	if err != nil {
-		t.Fatal(err)
+		tb.Fatal(err)
 	}
 	var frames []meterFrame
-	num := func(s string) float64 {
-		x, err := strconv.ParseFloat(s, 64)
-		if err != nil {
-			t.Fatalf("%s: %v", heardFramesFile, err)
-		}
-		return x
-	}
-	for _, rec := range recs {
-		fr := meterFrame{at: num(rec[0]), span: num(rec[1])}
-		for i := 2; i+2 < len(rec); i += 3 {
-			fr.voices = append(fr.voices, multipitch.Voice{Hz: num(rec[i]), Amplitude: math.Pow(10, num(rec[i+1])/20), OnPartials: strings.Contains(rec[i+2], "m")})
-			fr.partials = append(fr.partials, strings.Contains(rec[i+2], "p"))
+	for _, k := range kept {
+		fr := meterFrame{at: k.At, span: k.Span, partials: k.Partials}
+		for v := range k.Hz {
+			fr.voices = append(fr.voices, multipitch.Voice{Hz: k.Hz[v], Amplitude: math.Pow(10, k.DB[v]/20), OnPartials: k.Marked[v]})
 		}
 		frames = append(frames, fr)
 	}
 	if len(frames) < 2 {
-		t.Fatalf("%s: %d frames", heardFramesFile, len(frames))
+		tb.Fatalf("%s: %d frames", heardFramesFile, len(frames))
 	}
 	return frames
 }
