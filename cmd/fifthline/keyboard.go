@@ -73,7 +73,7 @@ func runKeyboard(e *env, args []string) error {
 		fmt.Fprintf(e.stderr, "%d of the 128 keys (%d at the bottom, %d at the top) lie outside the standard's 8.18–13289.73 Hz and sound at its nearest end\n", lo+hi, lo, hi)
 	}
 	if !tableOnly {
-		fmt.Fprintf(e.stderr, "wrote %s: %s\n", *output, describeForm(*form, len(msgs), ext == ".mid"))
+		fmt.Fprintf(e.stderr, "fifthline: wrote %s: %s\n", *output, describeForm(*form, len(msgs), ext == ".mid"))
 	}
 	return nil
 }
