@@ -89,7 +89,7 @@ func printUsage(w io.Writer, fs *flag.FlagSet) {
 		}
 		line := "  --" + f.Name
 		usage := f.Usage
-		if kind := valueName(f); kind != "" {
+		if kind := valueName(fs.Name(), f); kind != "" {
 			line += " " + kind
 		}
 		if old := oldNames[f.Name]; len(old) > 0 {
@@ -117,11 +117,19 @@ var valueNames = map[string]string{
 	"mts": "notes|bulk|octave", "by": "rehearsal",
 }
 
-// valueName is what the flag takes: a choice's words, a name from
-// valueNames, or the kind of value; "" for a switch.
-func valueName(f *flag.Flag) string {
+// commandValueNames are valueNames for one command's flag of a name that
+// takes something else elsewhere (keyboard's --output is a file, the
+// others' a device).
+var commandValueNames = map[string]string{"keyboard output": "FILE.syx|FILE.mid"}
+
+// valueName is what the command's flag takes: a choice's words, a name
+// from valueNames, or the kind of value; "" for a switch.
+func valueName(command string, f *flag.Flag) string {
 	if c, ok := f.Value.(*choice); ok {
 		return strings.Join(c.words(), "|")
+	}
+	if n, ok := commandValueNames[command+" "+f.Name]; ok {
+		return n
 	}
 	if n, ok := valueNames[f.Name]; ok {
 		return n

@@ -78,10 +78,14 @@ func TestOneNamePerIdeaAndTheOldNames(t *testing.T) {
 // Help names what a flag takes as the contract writes it: "--by rehearsal"
 // (report), "--format table|csv" (keyboard, whose --format may be left out).
 func TestHelpNamesWhatFlagsTake(t *testing.T) {
-	for cmd, want := range map[string]string{"report": "\n  --by rehearsal\n", "keyboard": "\n  --format table|csv\n"} {
+	for cmd, want := range map[string]string{"report": "\n  --by rehearsal\n", "keyboard": "\n  --format table|csv\n", "drone": "\n  --output ID   (also --device)\n"} {
 		if _, out, _ := runCLI(t, "help", cmd); !strings.Contains(out, want) {
 			t.Errorf("help %s lacks %q:\n%s", cmd, want, out)
 		}
+	}
+	// keyboard's --output is the contract's FILE.syx|FILE.mid, not a device.
+	if _, out, _ := runCLI(t, "help", "keyboard"); !strings.Contains(out, "\n  --output FILE.syx|FILE.mid\n") {
+		t.Errorf("help keyboard's --output:\n%s", out)
 	}
 }
 
