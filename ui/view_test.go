@@ -157,6 +157,12 @@ func TestInputLineWarnsOfClippingAndLostAudioInWords(t *testing.T) {
 	if got := journalLine(m).Text(); got != m.Journal {
 		t.Errorf("journal line %q", got)
 	}
+	// Once the input has ended (the demo's performance), the line says so
+	// in the shape of "input silent", without "no input: the input".
+	m.Finished, m.Input = true, inputState{}
+	if got := inputLine(m).Text(); got != "input ended ▯▯▯▯▯▯▯▯▯▯" {
+		t.Errorf("ended input line %q", got)
+	}
 }
 
 func TestTracePlacesCentsOnItsScale(t *testing.T) {
