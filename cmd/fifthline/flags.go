@@ -14,6 +14,7 @@ import (
 	"strings"
 	"time"
 
+	"fifthline/internal/typo"
 	"fifthline/target"
 	"fifthline/tuningfile"
 )
@@ -201,6 +202,9 @@ func channelOrPlayers(fs *flag.FlagSet) error {
 // withHint replaces the flag package's bare "parse error" with what the flag
 // takes: "--duration 5" is refused with "give a duration like 12s or 2m".
 func withHint(fs *flag.FlagSet, msg string) string {
+	if name, ok := strings.CutPrefix(msg, "flag provided but not defined: -"); ok {
+		return unknownFlag(fs, name)
+	}
 	rest, ok := strings.CutSuffix(msg, ": parse error")
 	if !ok {
 		return msg
@@ -228,4 +232,16 @@ func withHint(fs *flag.FlagSet, msg string) string {
 		return rest + ": give true or false"
 	}
 	return msg
+}
+
+// unknownFlag says a flag the command lacks in a player's words, with the
+// flag it nearest spells (a slip: --temperment) or where the flags are listed.
+func unknownFlag(fs *flag.FlagSet, name string) string {
+	name = strings.TrimLeft(name, "-")
+	var names []string
+	fs.VisitAll(func(f *flag.Flag) { names = append(names, f.Name) })
+	if near, ok := typo.Nearest(name, names); ok {
+		return fmt.Sprintf("--%s is not one of its flags (did you mean --%s?)", name, near)
+	}
+	return fmt.Sprintf("--%s is not one of its flags ('fifthline help %s' lists them)", name, fs.Name())
 }

@@ -89,6 +89,26 @@ func TestHelpNamesWhatFlagsTake(t *testing.T) {
 	}
 }
 
+// A flag the command lacks is a usage error in one line that names the
+// flag it nearest spells, or where the flags are listed (the contract:
+// one line, exit 2).
+func TestAnUnknownFlagNamesTheNearestOne(t *testing.T) {
+	for _, c := range []struct {
+		args []string
+		says string
+	}{
+		{[]string{"analyze", "--temperment", "just", "x.wav"}, "analyze: --temperment is not one of its flags (did you mean --temperament?)"},
+		{[]string{"drone", "-nots", "G3"}, "drone: --nots is not one of its flags (did you mean --notes?)"},
+		{[]string{"analyze", "--loud", "x.wav"}, "analyze: --loud is not one of its flags ('fifthline help analyze' lists them)"},
+	} {
+		code, _, stderr := runCLI(t, c.args...)
+		checkError(t, code, 2, stderr)
+		if !strings.Contains(stderr, c.says) {
+			t.Errorf("%v: %q does not say %q", c.args, stderr, c.says)
+		}
+	}
+}
+
 // A choice flag refuses a word it does not know, listing the ones it does.
 func TestChoiceFlagsListTheirWords(t *testing.T) {
 	code, _, stderr := runCLI(t, "analyze", "--format", "xml", "x.wav")
