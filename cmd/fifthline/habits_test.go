@@ -109,6 +109,20 @@ func TestAnUnknownFlagNamesTheNearestOne(t *testing.T) {
 	}
 }
 
+// --player with a list is --players missing its s (the contract's --players
+// NAMES is a comma list; --player names the journal's one player): a usage
+// error that says which, before anything is read.
+func TestPlayerWithAListPointsToPlayers(t *testing.T) {
+	for _, args := range [][]string{{"listen"}, {"analyze", "take.wav"}} {
+		cmd := args[0]
+		code, _, stderr := runCLI(t, append(args, "--player", "vc,vla")...)
+		checkError(t, code, 2, stderr)
+		if !strings.Contains(stderr, "one player per channel is --players vc,vla") {
+			t.Errorf("%s: %q", cmd, stderr)
+		}
+	}
+}
+
 // A choice flag refuses a word it does not know, listing the ones it does.
 func TestChoiceFlagsListTheirWords(t *testing.T) {
 	code, _, stderr := runCLI(t, "analyze", "--format", "xml", "x.wav")
