@@ -123,6 +123,16 @@ func TestPlayerWithAListPointsToPlayers(t *testing.T) {
 	}
 }
 
+// fifthline alone is a usage error, one line like every other (the
+// contract), naming the commands and where the overview is.
+func TestNoCommandIsOneLine(t *testing.T) {
+	code, out, stderr := runCLI(t)
+	checkError(t, code, 2, stderr)
+	if out != "" || !strings.Contains(stderr, "targets, listen, demo") || !strings.Contains(stderr, "'fifthline help'") {
+		t.Errorf("stdout %q, stderr %q", out, stderr)
+	}
+}
+
 // A choice flag refuses a word it does not know, listing the ones it does.
 func TestChoiceFlagsListTheirWords(t *testing.T) {
 	code, _, stderr := runCLI(t, "analyze", "--format", "xml", "x.wav")
