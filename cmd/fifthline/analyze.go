@@ -135,6 +135,11 @@ func analyzeGroup(e *env, flag string, files []string, tu target.Tuning, opt ana
 
 func analyzeFile(e *env, path string, tu target.Tuning, opt analyzeOptions, out eventWriter, j *journalSink) error {
 	w, err := capture.OpenRecording(path, opt.channel)
+	if errors.Is(err, capture.ErrNoChannel) {
+		// The same slip as --players naming a channel past the file's: a
+		// usage error (exit 2).
+		return usagef("%v", err)
+	}
 	if err != nil {
 		return err
 	}

@@ -133,6 +133,18 @@ func TestNoCommandIsOneLine(t *testing.T) {
 	}
 }
 
+// A channel past the file's is the asker's slip, a usage error (exit 2) as
+// --players naming one is, in one line saying how many the file has: sox's
+// one-channel A4.
+func TestAChannelPastTheFilesIsAUsageError(t *testing.T) {
+	mono := sox(t, "a4.wav", "-r", "48000", "-b", "16", "synth 0.5 sine 440")
+	code, _, stderr := runCLI(t, "analyze", "--channel", "3", mono)
+	checkError(t, code, 2, stderr)
+	if !strings.Contains(stderr, "channel 3 requested but the file has one channel") {
+		t.Errorf("stderr %q", stderr)
+	}
+}
+
 // A choice flag refuses a word it does not know, listing the ones it does.
 func TestChoiceFlagsListTheirWords(t *testing.T) {
 	code, _, stderr := runCLI(t, "analyze", "--format", "xml", "x.wav")
