@@ -145,6 +145,23 @@ func TestAChannelPastTheFilesIsAUsageError(t *testing.T) {
 	}
 }
 
+// A group's take of more than two channels read without --players or
+// --channel is read on channel 1 (the contract: "mono or the first
+// channel"), and analyze says so, naming the flags that read the others;
+// --channel asked for, nothing is said. sox's three channels of A4.
+func TestAMultichannelTakeReadOnOneChannelSaysSo(t *testing.T) {
+	take := sox(t, "three.wav", "-r", "48000", "-b", "16", "-c", "3", "synth 0.5 sine 440")
+	for _, args := range [][]string{{"analyze", take}, {"analyze", "--voices", "auto", take}} {
+		code, _, stderr := runCLI(t, args...)
+		if code != 0 || !strings.Contains(stderr, take+" has 3 channels; reading channel 1 (--channel N reads another, --players one player per channel)") {
+			t.Errorf("%v: exit %d, stderr %q", args, code, stderr)
+		}
+	}
+	if _, _, stderr := runCLI(t, "analyze", "--channel", "1", take); strings.Contains(stderr, "channels; reading") {
+		t.Errorf("--channel given, still said: %q", stderr)
+	}
+}
+
 // A choice flag refuses a word it does not know, listing the ones it does.
 func TestChoiceFlagsListTheirWords(t *testing.T) {
 	code, _, stderr := runCLI(t, "analyze", "--format", "xml", "x.wav")
