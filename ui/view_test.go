@@ -371,7 +371,7 @@ func TestTheInputLineSaysSilentAndEndedInWords(t *testing.T) {
 		t.Errorf("digital silence: %q", got)
 	}
 	m.Finished = true
-	if got := inputLine(m).Text(); !strings.HasPrefix(got, "no input") {
+	if got := inputLine(m).Text(); !strings.HasPrefix(got, "input ended") {
 		t.Errorf("ended input: %q", got)
 	}
 }
