@@ -169,7 +169,7 @@ func (r *Recording) choose(channel int) error {
 		channel = 1
 	}
 	if channel < 0 || channel > r.channels {
-		return fileErr(r.path, ErrUnsupported, "channel %d requested but the file has %d", channel, r.channels)
+		return fileErr(r.path, ErrNoChannel, "channel %d requested but the file has %s", channel, channelCount(r.channels))
 	}
 	r.channel = channel
 	r.pick = make([][]float32, r.channels)
@@ -200,4 +200,12 @@ func openFile(path string) (*os.File, int64, error) {
 		return nil, 0, err
 	}
 	return f, info.Size(), nil
+}
+
+// channelCount says how many channels in words: "one channel", "4 channels".
+func channelCount(n int) string {
+	if n == 1 {
+		return "one channel"
+	}
+	return fmt.Sprintf("%d channels", n)
 }

@@ -210,7 +210,7 @@ func TestOpenWAVErrors(t *testing.T) {
 		{filepath.Join(dir, "pcm-64-bit.wav"), 1, ErrUnsupported, "64 bits"},
 		{filepath.Join(dir, "float-16-bit.wav"), 1, ErrUnsupported, "float sample size 16"},
 		{filepath.Join(dir, "extensible-cut.wav"), 1, ErrCorrupt, "extensible format chunk too short"},
-		{filepath.Join(dir, "good.wav"), 2, ErrUnsupported, "channel 2 requested but the file has 1"},
+		{filepath.Join(dir, "good.wav"), 2, ErrUnsupported, "channel 2 requested but the file has one channel"},
 		{filepath.Join(dir, "good.wav"), -1, ErrUnsupported, "channel -1"},
 	}
 	for _, c := range cases {

@@ -13,6 +13,9 @@ var (
 	ErrNotAudio    = errors.New("not a recording fifthline reads")
 	ErrCorrupt     = errors.New("corrupt recording")
 	ErrUnsupported = errors.New("unsupported recording format")
+	// ErrNoChannel is a channel asked for that the file does not have: the
+	// asker's slip (a usage error), not the file's fault.
+	ErrNoChannel = fmt.Errorf("%w: no such channel", ErrUnsupported)
 )
 
 // fileError is a one-line error naming the file and the problem.

@@ -8,6 +8,7 @@ import (
 	"io"
 	"io/fs"
 	"os"
+	"path/filepath"
 	"strings"
 	"syscall"
 	"time"
@@ -43,6 +44,10 @@ func Open(path string, m Meta) (*Writer, error) {
 		if degradable(err) {
 			w.tally.fail(fmt.Errorf("cannot open %s: %w", path, unwrapPath(err)))
 			return w, nil
+		}
+		if errors.Is(err, fs.ErrNotExist) {
+			// O_CREATE: only the folder can be missing.
+			return nil, fmt.Errorf("journal %s: its folder %s does not exist (create it, or name a journal in an existing folder)", path, filepath.Dir(path))
 		}
 		return nil, fmt.Errorf("journal %s: %v", path, unwrapPath(err))
 	}

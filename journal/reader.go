@@ -12,6 +12,7 @@ import (
 	"strconv"
 	"strings"
 	"time"
+	"unicode/utf8"
 
 	"fifthline/target"
 )
@@ -169,7 +170,7 @@ func columnIndex(header string) (columns, error) {
 		}
 	}
 	if len(missing) == needed {
-		return columns{}, fmt.Errorf("its first line %.40q is not the journal header", header)
+		return columns{}, notAHeader(header)
 	}
 	if len(missing) > 0 {
 		return columns{}, fmt.Errorf("columns missing: %s", strings.Join(missing, ", "))
@@ -283,4 +284,17 @@ func (f *fieldReader) later(col string) string {
 		return ""
 	}
 	return strings.TrimSpace(f.str(col))
+}
+
+// notAHeader says what the first line is instead of the journal header. A
+// recording or other binary file gets words, not its bytes quoted, since
+// giving report the WAV instead of the journal is the likely slip.
+func notAHeader(header string) error {
+	switch {
+	case strings.HasPrefix(header, "RIFF") || strings.HasPrefix(header, "RF64"):
+		return errors.New("it is a WAV recording: read it with analyze, whose --log JOURNAL keeps its notes for report")
+	case !utf8.ValidString(header) || strings.ContainsFunc(header, func(r rune) bool { return r < ' ' && r != '\t' }):
+		return errors.New("its first line is not text, so not the journal header (a journal is the CSV that --log writes)")
+	}
+	return fmt.Errorf("its first line %.40q is not the journal header", header)
 }

@@ -67,7 +67,11 @@ func TestReadRefusesWhatIsNotAJournal(t *testing.T) {
 		{"empty", write("empty.csv", ""), "is empty"},
 		{"only blank lines", write("blank.csv", "\n \n"), "is empty"},
 		{"analyze output, not a journal", write("analyze.csv", "start_s,end_s,note,hz,target_hz,cents,alt_note,alt_cents\n"), "columns missing: time, session"},
-		{"garbage", write("garbage.csv", "\x00\x01PK\x03\x04 binary\n\xff\xfe"), "is not the journal header"},
+		{"garbage", write("garbage.csv", "\x00\x01PK\x03\x04 binary\n\xff\xfe"), "its first line is not text, so not the journal header"},
+		// The WAV given instead of its journal: RIFF is the WAV file's first
+		// four bytes (Microsoft RIFF/WAVE; RF64 is its 64-bit form, EBU Tech 3306).
+		{"a recording", write("take.wav", "RIFF\x24\x08\x00\x00WAVEfmt \x10\x00"), "it is a WAV recording: read it with analyze, whose --log JOURNAL"},
+		{"a text file", write("notes.txt", "shopping list\n"), `its first line "shopping list" is not the journal header`},
 		{"unbalanced quote", write("quote.csv", "\"time,session\n"), "first line is not a header"},
 	}
 	for _, c := range cases {

@@ -164,6 +164,10 @@ func TestWriterRefusesWhatIsNotItsJournal(t *testing.T) {
 			if strings.Contains(err.Error(), "\n") || !strings.Contains(err.Error(), path) {
 				t.Errorf("error %q: want one line naming the path", err)
 			}
+			// A missing folder is named as such, not as a missing file.
+			if name == "a missing folder" && !strings.Contains(err.Error(), "its folder "+filepath.Dir(path)+" does not exist") {
+				t.Errorf("error %q: want the missing folder named", err)
+			}
 			if after, _ := os.ReadFile(path); string(after) != string(before) {
 				t.Errorf("file changed to %q", after)
 			}

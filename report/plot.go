@@ -162,17 +162,26 @@ func plotTitle(entries []journal.Entry, groups []Group, opt Options) [2]string {
 	if len(groups) == 1 {
 		return [2]string{groups[0].Title(), sub}
 	}
-	players, tunings := map[string]bool{}, map[tuningOf]bool{}
-	who := "voice" // one microphone's voices are not players; any player named makes them players
+	// One microphone's voices are not players: a journal of both counts
+	// each apart (a quartet's takes and a duet read with --voices).
+	players, voices, tunings := map[string]bool{}, map[string]bool{}, map[tuningOf]bool{}
 	for _, g := range groups {
-		players[g.Who()] = true
-		tunings[tuningOf{key: g.Key, temperament: g.Temperament, a4: g.A4, transpose: g.Transpose, chord: g.Chord}] = true
-		if g.Voice == "" || g.Player != "" {
-			who = "player"
+		if g.Voice != "" && g.Player == "" {
+			voices[g.Who()] = true
+		} else {
+			players[g.Who()] = true
 		}
+		tunings[tuningOf{key: g.Key, temperament: g.Temperament, a4: g.A4, transpose: g.Transpose, chord: g.Chord}] = true
+	}
+	who, each := plural(len(players), "player"), "player"
+	switch {
+	case len(players) == 0:
+		who, each = plural(len(voices), "voice"), "voice"
+	case len(voices) > 0:
+		who, each = who+" and "+plural(len(voices), "voice"), "player or voice"
 	}
 	return [2]string{fmt.Sprintf("Rehearsal report: %s, %s (a row for each %s in each tuning)",
-		plural(len(players), who), plural(len(tunings), "tuning"), who), sub}
+		who, plural(len(tunings), "tuning"), each), sub}
 }
 
 // rowTitle is the height of the line naming a row's player and tuning.

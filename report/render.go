@@ -22,7 +22,7 @@ func (g Group) Title() string {
 	}
 	t := fmt.Sprintf("%s · %s · %s · A4 = %s Hz", player, g.Key, g.Name, strconv.FormatFloat(g.A4, 'f', -1, 64))
 	if g.Transpose != "" {
-		t += " · written for " + g.Transpose + " instrument"
+		t += " · written for an instrument in " + g.Transpose
 	}
 	if g.Chord != "" {
 		t += " · tuned to the chord " + g.Chord

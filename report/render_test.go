@@ -250,15 +250,22 @@ func TestPlotRefusesOtherFormats(t *testing.T) {
 }
 
 // One microphone's voices are voices, not players, in the plot's title:
-// "2 voices" for a duet read with --voices; with a player named, players.
+// "2 voices" for a duet read with --voices; a player named with --player
+// on a voice's rows makes it a player's; a journal holding both players'
+// rows and voices' rows counts each apart (8 players for 5 players and 3
+// voices would misread the rehearsal).
 func TestPlotTitleCountsVoicesAsVoices(t *testing.T) {
 	es := []journal.Entry{{Time: time.Date(2026, 11, 24, 19, 30, 0, 0, time.UTC)}}
 	voices := []Group{{Voice: "1", Key: "C major"}, {Voice: "2", Key: "C major"}}
 	if got := plotTitle(es, voices, Options{Tolerance: 5})[0]; got != "Rehearsal report: 2 voices, 1 tuning (a row for each voice in each tuning)" {
 		t.Errorf("voices: %q", got)
 	}
-	players := []Group{{Player: "vc", Key: "C major"}, {Voice: "2", Key: "C major"}}
-	if got := plotTitle(es, players, Options{Tolerance: 5})[0]; got != "Rehearsal report: 2 players, 1 tuning (a row for each player in each tuning)" {
-		t.Errorf("players: %q", got)
+	named := []Group{{Player: "vc", Voice: "1", Key: "C major"}, {Player: "vc", Voice: "2", Key: "C major"}}
+	if got := plotTitle(es, named, Options{Tolerance: 5})[0]; got != "Rehearsal report: 2 players, 1 tuning (a row for each player in each tuning)" {
+		t.Errorf("voices of a named player: %q", got)
+	}
+	both := []Group{{Player: "vc", Key: "C major"}, {Player: "vla", Key: "C major"}, {Voice: "1", Key: "C major"}}
+	if got := plotTitle(es, both, Options{Tolerance: 5})[0]; got != "Rehearsal report: 2 players and 1 voice, 1 tuning (a row for each player or voice in each tuning)" {
+		t.Errorf("players and voices: %q", got)
 	}
 }

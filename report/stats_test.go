@@ -217,7 +217,7 @@ func TestChordTranspositionAndReferenceAreTheirOwnGroups(t *testing.T) {
 	want := []string{
 		"Ann · G major · 1/4-comma meantone · A4 = 415 Hz",
 		"Ann · G major · 1/4-comma meantone · A4 = 415 Hz · tuned to the chord D major",
-		"Ann · G major · 1/4-comma meantone · A4 = 415 Hz · written for Bb instrument",
+		"Ann · G major · 1/4-comma meantone · A4 = 415 Hz · written for an instrument in Bb",
 		"Ann · G major · 1/4-comma meantone · A4 = 440 Hz",
 	}
 	if len(groups) != len(want) {

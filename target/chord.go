@@ -49,6 +49,9 @@ var qualityAliases = map[string]string{
 	"": "major", "maj": "major", "m": "minor", "min": "minor", "dim": "diminished",
 	"aug": "augmented", "+": "augmented", "dom7": "7", "dominant7": "7",
 	"7h": "harmonic7", "h7": "harmonic7", "min7": "m7", "minor7": "m7", "major7": "maj7",
+	// The names analyze and the meter give a heard chord (NameChord), so a
+	// player can declare the chord as it was named.
+	"dominant seventh": "7", "minor seventh": "m7", "major seventh": "maj7",
 }
 
 // Chord is a declared chord: while it sounds, its members are tuned to just
@@ -74,13 +77,13 @@ func ParseChord(s string) (*Chord, error) {
 	if err != nil {
 		return nil, fmt.Errorf("chord %q: %v", s, err)
 	}
-	q := strings.ToLower(strings.TrimSpace(rest))
+	q := strings.Join(strings.Fields(strings.ToLower(rest)), " ")
 	if a, ok := qualityAliases[q]; ok {
 		q = a
 	}
 	qual, ok := qualities[q]
 	if !ok {
-		return nil, fmt.Errorf("chord %q: unknown quality %q (major, minor, diminished, augmented, 7, harmonic7, m7, maj7)", s, rest)
+		return nil, fmt.Errorf("chord %q: unknown quality %q (major, minor, diminished, augmented, 7 or dominant seventh, harmonic7, m7 or minor seventh, maj7 or major seventh)", s, strings.TrimSpace(rest))
 	}
 	return &Chord{Root: root, Quality: qual}, nil
 }

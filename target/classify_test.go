@@ -2,6 +2,7 @@ package target
 
 import (
 	"math"
+	"strings"
 	"testing"
 )
 
@@ -144,6 +145,16 @@ func TestChordTargets(t *testing.T) {
 	if r := tu.Classify(tu.Target(note(t, "Ab4"))); r.Note.String() != "Ab4" {
 		t.Errorf("with chord Ab major, read %s, want Ab4", r.Note)
 	}
+	// The qualities as a heard chord is named (the contract's "dominant
+	// seventh"; "minor seventh", "major seventh": docs/interface.md) are the
+	// declared chords of the same shape.
+	for spoken, symbol := range map[string]string{"G dominant seventh": "G7", "D minor  seventh": "Dm7", "F Major Seventh": "F maj7"} {
+		a, errA := ParseChord(spoken)
+		b, errB := ParseChord(symbol)
+		if errA != nil || errB != nil || a.String() != b.String() {
+			t.Errorf("ParseChord(%q) = %v, %v; want %q's %v", spoken, a, errA, symbol, b)
+		}
+	}
 	for _, bad := range []string{"H major", "D foo", "", "D#b"} {
 		if _, err := ParseChord(bad); err == nil {
 			t.Errorf("ParseChord(%q) accepted", bad)
@@ -178,6 +189,11 @@ func TestTransposingInstruments(t *testing.T) {
 	}
 	if _, err := ParseTransposition("H"); err == nil {
 		t.Error("--transpose H accepted")
+	}
+	// Named as players name it, "clarinet in B♭" (common practice): no
+	// article to agree with the letter ("a B♭", "an F").
+	if got := tu.String(); !strings.HasSuffix(got, " · written for an instrument in Bb") {
+		t.Errorf("transposed tuning %q", got)
 	}
 }
 

@@ -25,6 +25,22 @@ func FuzzParseNote(f *testing.F) {
 	})
 }
 
+func FuzzParseChord(f *testing.F) {
+	for _, s := range []string{"D major", "G7", "G dominant seventh", "Bb  maj7", "B dim", "F#m", "C open fifth", "H7"} {
+		f.Add(s)
+	}
+	f.Fuzz(func(t *testing.T, s string) {
+		c, err := ParseChord(s)
+		if err != nil {
+			return
+		}
+		back, err := ParseChord(c.String())
+		if err != nil || back.String() != c.String() {
+			t.Fatalf("%q → %q → %v, %v", s, c.String(), back, err)
+		}
+	})
+}
+
 func FuzzParseKey(f *testing.F) {
 	for _, s := range []string{"G major", "f# minor", "Bb", "E♭ dorian", "H", "g", "c aeolian", "A# minor"} {
 		f.Add(s)

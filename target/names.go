@@ -7,6 +7,8 @@ import (
 	"regexp"
 	"strconv"
 	"strings"
+
+	"fifthline/internal/typo"
 )
 
 // Builtin lists the named temperaments ParseTemperament knows, in the order a
@@ -143,7 +145,7 @@ func suggest(f string) string {
 	for _, spec := range Builtin {
 		tm, _ := ParseTemperament(spec)
 		for _, form := range []string{fold(spec), fold(strings.ToLower(tm.Name()))} {
-			d := editDistance(f, form)
+			d := typo.Distance(f, form)
 			if len(f) >= 4 && strings.HasPrefix(form, f) {
 				d = 1 // the start of a name: "meantone", "werck"
 			}
@@ -156,25 +158,4 @@ func suggest(f string) string {
 		return "did you mean " + best + "?"
 	}
 	return "try equal, meantone:1/4, edo:31, werckmeister3, just, or a temperament file"
-}
-
-// editDistance is the Levenshtein distance between a and b, by bytes.
-func editDistance(a, b string) int {
-	prev := make([]int, len(b)+1)
-	cur := make([]int, len(b)+1)
-	for j := range prev {
-		prev[j] = j
-	}
-	for i := 1; i <= len(a); i++ {
-		cur[0] = i
-		for j := 1; j <= len(b); j++ {
-			sub := prev[j-1]
-			if a[i-1] != b[j-1] {
-				sub++
-			}
-			cur[j] = min(sub, prev[j]+1, cur[j-1]+1)
-		}
-		prev, cur = cur, prev
-	}
-	return prev[len(b)]
 }

@@ -133,6 +133,10 @@ func parseName(s string) (Note, string, error) {
 		return Note{}, "", fmt.Errorf("empty note name")
 	}
 	i := strings.IndexByte(letterNames, upper(t[0]))
+	if i < 0 && upper(t[0]) == 'H' {
+		// German note names: H is B, and B is B♭. Say so rather than guess.
+		return Note{}, "", fmt.Errorf("note %q: note names here are English, A to G (German H is B, German B is Bb)", s)
+	}
 	if i < 0 {
 		return Note{}, "", fmt.Errorf("note %q does not start with a letter A to G", s)
 	}

@@ -1,6 +1,9 @@
 package target
 
-import "testing"
+import (
+	"strings"
+	"testing"
+)
 
 // The spelled-note syntax is the interface contract's ("Spelled notes").
 func TestParseNoteAcceptsTheContractSyntax(t *testing.T) {
@@ -27,6 +30,18 @@ func TestParseNoteRejectsBadInput(t *testing.T) {
 	for _, in := range []string{"", "H4", "C", "F#", "C#b4", "C###4", "Cbbb4", "C4.5", "Cz4", "C99", "#4"} {
 		if n, err := ParseNote(in); err == nil {
 			t.Errorf("ParseNote(%q) = %v, want an error", in, n)
+		}
+	}
+}
+
+// A player used to German names writes H for B (and B for B♭): the
+// message says so, since H is refused (contract: "--key H" is a usage
+// error). German naming: common practice.
+func TestParseNoteExplainsGermanH(t *testing.T) {
+	for _, in := range []string{"H4", "h3", "H"} {
+		_, err := ParseNote(in)
+		if err == nil || !strings.Contains(err.Error(), "German H is B, German B is Bb") {
+			t.Errorf("ParseNote(%q): %v, want the German-names hint", in, err)
 		}
 	}
 }

@@ -192,7 +192,7 @@ func (t Tuning) String() string {
 		s += " · chord " + t.Chord.String()
 	}
 	if !t.Transpose.IsConcert() {
-		s += " · written for " + t.Transpose.Name + " instrument"
+		s += " · written for an instrument in " + t.Transpose.Name
 	}
 	return s
 }

@@ -85,7 +85,7 @@ func TestAVoiceOffALowerVoicesPartialStaysOnTheMeter(t *testing.T) {
 	}
 	t.Logf("frame by frame: E5 held in %d of %d frames, the chord line changed %d times: %q", e5Before, steady, changes(before), before)
 	t.Logf("as the notes: E5 held in %d of %d frames, the chord line changed %d times: %q", e5After, steady, changes(after), after)
-	named := slices.Index(after, "chord C major over C3")
+	named := slices.Index(after, "chord C major · root C3")
 	if named != 2 {
 		t.Errorf("C major named at frame %d, want the third", named+1)
 	}
@@ -94,7 +94,7 @@ func TestAVoiceOffALowerVoicesPartialStaysOnTheMeter(t *testing.T) {
 		switch line {
 		case "last chord C major":
 			dips++
-		case "chord C major over C3":
+		case "chord C major · root C3":
 		default:
 			t.Errorf("after C major, the chord line reads %q", line)
 		}

@@ -83,7 +83,7 @@ func TestGroupRowsAreSpelledFromTheChordsRootAndReadAgainstJust(t *testing.T) {
 			t.Errorf("row %d: %+.2f ¢ tempered, %+.2f ¢ just; want 0 and %+.2f", i+1, r.Cents, r.Just, w.just)
 		}
 	}
-	if got := chordLine(g).Text(); got != "chord E major over E3" {
+	if got := chordLine(g).Text(); got != "chord E major · root E3" {
 		t.Errorf("chord line %q", got)
 	}
 }
@@ -98,7 +98,7 @@ func TestARowSwitchedOffLeavesTheChord(t *testing.T) {
 		}
 	}
 	g.Toggle(2)
-	if got := chordLine(g).Text(); got != "chord E major over E3" {
+	if got := chordLine(g).Text(); got != "chord E major · root E3" {
 		t.Errorf("switched on again: %q", got)
 	}
 }
@@ -131,7 +131,7 @@ func TestTheLastChordStaysAndTheNextPushesItBefore(t *testing.T) {
 	// tenth of a second before the third comes is no chord of the group's.
 	feedGroup(g, 1.5, 1.6, d3, a3, 0)
 	feedGroup(g, 1.6, 2.5, d3, a3, etFSharp4)
-	if got := chordLine(g).Text(); got != "chord D major over D3" {
+	if got := chordLine(g).Text(); got != "chord D major · root D3" {
 		t.Errorf("next chord: %q", got)
 	}
 	if got := beforeLine(g).Text(); got != "before: E major" {
@@ -180,7 +180,7 @@ func TestGroupLayoutAt80x24And120x36(t *testing.T) {
 				t.Errorf("%dx%d: too wide: %q", size[0], size[1], l)
 			}
 		}
-		for _, want := range []string{"D major · equal", "chord D major over D3", "group drift —",
+		for _, want := range []string{"D major · equal", "chord D major · root D3", "group drift —",
 			" 1 vc   D3", " 2 vla  A3", " 3 vl2  F♯4", " 4 vl1  D5", "third", "+13.7 ¢", "input −20 dBFS"} {
 			if !strings.Contains(s, want) {
 				t.Errorf("%dx%d: no %q:\n%s", size[0], size[1], want, s)

@@ -53,7 +53,7 @@ func TestVoicesOnLongWindowsAreNamedFromTheirSecondFrame(t *testing.T) {
 	if r := g.readings()[0]; !r.Holding || r.Note.Pretty() != "C4" {
 		t.Errorf("after two frames, voice 1: %+v", r)
 	}
-	if got := chordLine(g).Text(); got != "chord C major over C4" {
+	if got := chordLine(g).Text(); got != "chord C major · root C4" {
 		t.Errorf("after two frames: %q", got)
 	}
 }
@@ -61,7 +61,10 @@ func TestVoicesOnLongWindowsAreNamedFromTheirSecondFrame(t *testing.T) {
 // A change of chord is named once two frames in a row name the new chord,
 // not at the first: the long windows of the first frames after a change
 // hold the chord before as well. The screen goes from the one chord to the
-// other and to no third name. C4 A4 E5 make A minor over C4.
+// other and to no third name. C4 A4 E5 make A minor with C4 in the bass:
+// the line names the root its just is measured from, A4, as "root", since
+// "A minor over A4" would read as the bass (slash-chord naming, common
+// practice).
 func TestAChangeOfChordOnLongWindowsIsNamedWhenTwoFramesAgree(t *testing.T) {
 	g := voicesMeter(t)
 	for at := 1.024; at < 1.4; at += 0.085 {
@@ -78,7 +81,7 @@ func TestAChangeOfChordOnLongWindowsIsNamedWhenTwoFramesAgree(t *testing.T) {
 			shown = append(shown, got)
 		}
 	}
-	want := []string{"last chord C major", "chord A minor over A4"}
+	want := []string{"last chord C major", "chord A minor · root A4"}
 	if strings.Join(shown, " | ") != strings.Join(want, " | ") {
 		t.Errorf("the chord line through the change: %q; want %q", shown, want)
 	}
@@ -107,7 +110,7 @@ func TestAVoiceStillAttackingHoldsTheChordsNameBack(t *testing.T) {
 			shown = append(shown, got)
 		}
 	}
-	want := []string{"no chord yet: two or more notes held together make one", "chord C major over C4"}
+	want := []string{"no chord yet: two or more notes held together make one", "chord C major · root C4"}
 	if strings.Join(shown, " | ") != strings.Join(want, " | ") {
 		t.Errorf("the chord line: %q; want %q", shown, want)
 	}

@@ -112,7 +112,9 @@ func chordLine(g *groupModel) screenLine {
 	c, _, ok := g.name(g.chord)
 	switch {
 	case ok && g.sounding:
-		return screenLine{text("chord ", plainRole), text(c.Root.PrettyName()+" "+c.Quality, lit), text(" over "+c.Root.Pretty(), dim)}
+		// "over" would name the bass (a slash chord, common practice); the
+		// root whose octave just is measured from need not be the bass.
+		return screenLine{text("chord ", plainRole), text(c.Root.PrettyName()+" "+c.Quality, lit), text(" · root "+c.Root.Pretty(), dim)}
 	case ok:
 		return screenLine{text("last chord ", dim), text(c.Root.PrettyName()+" "+c.Quality, dim)}
 	}

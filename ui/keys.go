@@ -134,9 +134,11 @@ func tuningWords(tu target.Tuning) string {
 		s += " · chord " + tu.Chord.String()
 	}
 	if tu.Transpose.IsConcert() {
-		return s + " · concert pitch"
+		// "Concert pitch" beside "A4 = 415 Hz" reads as a claim about the
+		// reference; sounding against written pitch is what it means here.
+		return s + " · sounding pitch"
 	}
-	return s + " · written for " + prettyAccidentals(tu.Transpose.Name) + " instrument"
+	return s + " · written for an instrument in " + prettyAccidentals(tu.Transpose.Name)
 }
 
 // prettyAccidentals writes a user's note text ("Bb", "F#") with signs.

@@ -283,7 +283,7 @@ func inputLine(m *model) screenLine {
 	lvl := "input silent " + levelBar(math.Inf(-1))
 	switch {
 	case m.Finished:
-		lvl = "no input: the input has ended"
+		lvl = "input ended " + levelBar(math.Inf(-1)) // said once, beside "the performance has ended"
 	case m.Level > silentDBFS:
 		lvl = fmt.Sprintf("input %s dBFS %s", minus(fmt.Sprintf("%.0f", m.Level)), levelBar(m.Level))
 	}

@@ -157,6 +157,12 @@ func TestInputLineWarnsOfClippingAndLostAudioInWords(t *testing.T) {
 	if got := journalLine(m).Text(); got != m.Journal {
 		t.Errorf("journal line %q", got)
 	}
+	// Once the input has ended (the demo's performance), the line says so
+	// in the shape of "input silent", without "no input: the input".
+	m.Finished, m.Input = true, inputState{}
+	if got := inputLine(m).Text(); got != "input ended ▯▯▯▯▯▯▯▯▯▯" {
+		t.Errorf("ended input line %q", got)
+	}
 }
 
 func TestTracePlacesCentsOnItsScale(t *testing.T) {
@@ -280,8 +286,10 @@ func TestTuningLineSaysKeyTemperamentA4AndTransposition(t *testing.T) {
 		tu   target.Tuning
 		want string
 	}{
-		{target.Default(), "C major · equal temperament · A4 = 440.0 Hz · F♯ = G♭ · concert pitch"},
-		{transposed, "C major · 1/4-comma meantone · A4 = 415.0 Hz · written for B♭ instrument"},
+		// Untransposed is "sounding pitch", the pair of written pitch
+		// (common practice); "concert pitch" would read as a reference.
+		{target.Default(), "C major · equal temperament · A4 = 440.0 Hz · F♯ = G♭ · sounding pitch"},
+		{transposed, "C major · 1/4-comma meantone · A4 = 415.0 Hz · written for an instrument in B♭"},
 	} {
 		if got := tuningLine(newModel(c.tu, "x")).Text(); got != c.want {
 			t.Errorf("got  %q\nwant %q", got, c.want)
@@ -363,7 +371,7 @@ func TestTheInputLineSaysSilentAndEndedInWords(t *testing.T) {
 		t.Errorf("digital silence: %q", got)
 	}
 	m.Finished = true
-	if got := inputLine(m).Text(); !strings.HasPrefix(got, "no input") {
+	if got := inputLine(m).Text(); !strings.HasPrefix(got, "input ended") {
 		t.Errorf("ended input: %q", got)
 	}
 }

@@ -13,11 +13,12 @@ import (
 )
 
 type analyzeOptions struct {
-	format    string
-	frames    bool
-	channel   int
-	recorded  recordedFlag
-	sayTuning func() // once: before a warning, or at the end (an error stays the only line)
+	format       string
+	frames       bool
+	channel      int
+	channelAsked bool // --channel given: no note on which channel is read
+	recorded     recordedFlag
+	sayTuning    func() // once: before a warning, or at the end (an error stays the only line)
 }
 
 // errInterrupted: Ctrl-C or SIGTERM stopped the reading; what was heard
@@ -52,7 +53,7 @@ func runAnalyze(e *env, args []string) error {
 	if err != nil {
 		return err
 	}
-	opt.format = *format
+	opt.format, opt.channelAsked = *format, wasSet(fs, "channel")
 	opt.sayTuning = sync.OnceFunc(func() { mf.say(e.stderr, tu) })
 	if po, ok, err := playersOptions(fs, *players); err != nil {
 		return err
@@ -135,7 +136,7 @@ func analyzeGroup(e *env, flag string, files []string, tu target.Tuning, opt ana
 
 func analyzeFile(e *env, path string, tu target.Tuning, opt analyzeOptions, out eventWriter, j *journalSink) error {
 	w, err := capture.OpenRecording(path, opt.channel)
-	if err != nil {
+	if err = opt.opened(e, path, w, err); err != nil {
 		return err
 	}
 	defer w.Close()
@@ -182,4 +183,21 @@ func (c *countingSource) Read(p []float32) (int, error) {
 	c.read += int64(n)
 	c.progress.At(float64(c.read) / c.SampleRate())
 	return n, err
+}
+
+// opened checks a recording just opened for one channel: a channel past
+// the file's is the same slip as --players naming one, a usage error (exit
+// 2); a group's multichannel take read on its first channel alone is said
+// on stderr, with the flags that read the others.
+func (opt analyzeOptions) opened(e *env, path string, w *capture.Recording, err error) error {
+	if errors.Is(err, capture.ErrNoChannel) {
+		return usagef("%v", err)
+	}
+	if err != nil {
+		return err
+	}
+	if n := w.Channels(); n > 2 && !opt.channelAsked {
+		fmt.Fprintf(e.stderr, "fifthline: %s has %d channels; reading channel 1 (--channel N reads another, --players one player per channel)\n", path, n)
+	}
+	return nil
 }

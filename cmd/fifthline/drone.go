@@ -57,7 +57,7 @@ func runDrone(e *env, args []string) error {
 	// Said before any sound, after the device has opened (silently), so a
 	// device error stays the only line.
 	mf.say(e.stderr, tu)
-	fmt.Fprintf(e.stderr, "fifthline: caution: %s; peak level %g dBFS, fading in\n", hearingAdvice, sf.level)
+	fmt.Fprintln(e.stderr, droneCaution(sf.level))
 	fmt.Fprintf(e.stderr, "fifthline: drone %s (%s) on %q · %s; Ctrl-C stops\n", names, hzList(hz), p.Device().Name, tu)
 	p.SetDrone(hz)
 	var timeout <-chan time.Time
@@ -115,4 +115,10 @@ func hzList(hz []float64) string {
 		s[i] = fmt.Sprintf("%.3f Hz", f)
 	}
 	return strings.Join(s, ", ")
+}
+
+// droneCaution is the hearing caution drone gives before it sounds: the
+// level, the cap no --level can pass, and the quiet start.
+func droneCaution(level float64) string {
+	return fmt.Sprintf("fifthline: caution: %s; peak level %g dBFS (never above %g), fading in", hearingAdvice, level, playback.MaxLevel)
 }

@@ -10,9 +10,11 @@ import (
 	"fmt"
 	"io"
 	"runtime/debug"
+	"slices"
 	"strings"
 	"time"
 
+	"fifthline/internal/typo"
 	"fifthline/target"
 	"fifthline/tuningfile"
 )
@@ -88,7 +90,7 @@ func printUsage(w io.Writer, fs *flag.FlagSet) {
 		}
 		line := "  --" + f.Name
 		usage := f.Usage
-		if kind := valueName(f); kind != "" {
+		if kind := valueName(fs.Name(), f); kind != "" {
 			line += " " + kind
 		}
 		if old := oldNames[f.Name]; len(old) > 0 {
@@ -113,14 +115,22 @@ var valueNames = map[string]string{
 	"transpose": "NOTE", "level": "DBFS", "log": "FILE", "player": "NAME", "device": "ID", "output": "ID",
 	"notes": "NOTE,NOTE", "plot": "FILE.png|FILE.svg", "since": "DATE", "channel": "N", "tolerance": "CENTS",
 	"octave": "N", "duration": "D", "players": "NAMES", "voices": "N|auto", "seventh": "7/4|9/5|16/9", "recorded": "DATE|TIME",
-	"mts": "notes|bulk|octave",
+	"mts": "notes|bulk|octave", "by": "rehearsal",
 }
 
-// valueName is what the flag takes: a choice's words, a name from
-// valueNames, or the kind of value; "" for a switch.
-func valueName(f *flag.Flag) string {
+// commandValueNames are valueNames for one command's flag of a name that
+// takes something else elsewhere (keyboard's --output is a file, the
+// others' a device).
+var commandValueNames = map[string]string{"keyboard output": "FILE.syx|FILE.mid"}
+
+// valueName is what the command's flag takes: a choice's words, a name
+// from valueNames, or the kind of value; "" for a switch.
+func valueName(command string, f *flag.Flag) string {
 	if c, ok := f.Value.(*choice); ok {
-		return strings.Join(c.options, "|")
+		return strings.Join(c.words(), "|")
+	}
+	if n, ok := commandValueNames[command+" "+f.Name]; ok {
+		return n
 	}
 	if n, ok := valueNames[f.Name]; ok {
 		return n
@@ -154,7 +164,13 @@ func (c *choice) Set(s string) error {
 			return nil
 		}
 	}
-	return fmt.Errorf("use %s", orList(c.options))
+	return fmt.Errorf("use %s", orList(c.words()))
+}
+
+// words are the options a player can type: an empty first option is "not
+// given", no word.
+func (c *choice) words() []string {
+	return slices.DeleteFunc(slices.Clone(c.options), func(o string) bool { return o == "" })
 }
 
 // choiceFlag defines a choice flag; the first option is the default.
@@ -186,6 +202,9 @@ func channelOrPlayers(fs *flag.FlagSet) error {
 // withHint replaces the flag package's bare "parse error" with what the flag
 // takes: "--duration 5" is refused with "give a duration like 12s or 2m".
 func withHint(fs *flag.FlagSet, msg string) string {
+	if name, ok := strings.CutPrefix(msg, "flag provided but not defined: -"); ok {
+		return unknownFlag(fs, name)
+	}
 	rest, ok := strings.CutSuffix(msg, ": parse error")
 	if !ok {
 		return msg
@@ -213,4 +232,16 @@ func withHint(fs *flag.FlagSet, msg string) string {
 		return rest + ": give true or false"
 	}
 	return msg
+}
+
+// unknownFlag says a flag the command lacks in a player's words, with the
+// flag it nearest spells (a slip: --temperment) or where the flags are listed.
+func unknownFlag(fs *flag.FlagSet, name string) string {
+	name = strings.TrimLeft(name, "-")
+	var names []string
+	fs.VisitAll(func(f *flag.Flag) { names = append(names, f.Name) })
+	if near, ok := typo.Nearest(name, names); ok {
+		return fmt.Sprintf("--%s is not one of its flags (did you mean --%s?)", name, near)
+	}
+	return fmt.Sprintf("--%s is not one of its flags ('fifthline help %s' lists them)", name, fs.Name())
 }

@@ -75,12 +75,113 @@ func TestOneNamePerIdeaAndTheOldNames(t *testing.T) {
 	}
 }
 
+// Help names what a flag takes as the contract writes it: "--by rehearsal"
+// (report), "--format table|csv" (keyboard, whose --format may be left out).
+func TestHelpNamesWhatFlagsTake(t *testing.T) {
+	for cmd, want := range map[string]string{"report": "\n  --by rehearsal\n", "keyboard": "\n  --format table|csv\n", "drone": "\n  --output ID   (also --device)\n"} {
+		if _, out, _ := runCLI(t, "help", cmd); !strings.Contains(out, want) {
+			t.Errorf("help %s lacks %q:\n%s", cmd, want, out)
+		}
+	}
+	// keyboard's --output is the contract's FILE.syx|FILE.mid, not a device.
+	if _, out, _ := runCLI(t, "help", "keyboard"); !strings.Contains(out, "\n  --output FILE.syx|FILE.mid\n") {
+		t.Errorf("help keyboard's --output:\n%s", out)
+	}
+}
+
+// A flag the command lacks is a usage error in one line that names the
+// flag it nearest spells, or where the flags are listed (the contract:
+// one line, exit 2).
+func TestAnUnknownFlagNamesTheNearestOne(t *testing.T) {
+	for _, c := range []struct {
+		args []string
+		says string
+	}{
+		{[]string{"analyze", "--temperment", "just", "x.wav"}, "analyze: --temperment is not one of its flags (did you mean --temperament?)"},
+		{[]string{"drone", "-nots", "G3"}, "drone: --nots is not one of its flags (did you mean --notes?)"},
+		{[]string{"analyze", "--loud", "x.wav"}, "analyze: --loud is not one of its flags ('fifthline help analyze' lists them)"},
+	} {
+		code, _, stderr := runCLI(t, c.args...)
+		checkError(t, code, 2, stderr)
+		if !strings.Contains(stderr, c.says) {
+			t.Errorf("%v: %q does not say %q", c.args, stderr, c.says)
+		}
+	}
+}
+
+// --player with a list is --players missing its s (the contract's --players
+// NAMES is a comma list; --player names the journal's one player): a usage
+// error that says which, before anything is read.
+func TestPlayerWithAListPointsToPlayers(t *testing.T) {
+	for _, args := range [][]string{{"listen"}, {"analyze", "take.wav"}} {
+		cmd := args[0]
+		code, _, stderr := runCLI(t, append(args, "--player", "vc,vla")...)
+		checkError(t, code, 2, stderr)
+		if !strings.Contains(stderr, "one player per channel is --players vc,vla") {
+			t.Errorf("%s: %q", cmd, stderr)
+		}
+	}
+}
+
+// fifthline alone is a usage error, one line like every other (the
+// contract), naming the commands and where the overview is.
+func TestNoCommandIsOneLine(t *testing.T) {
+	code, out, stderr := runCLI(t)
+	checkError(t, code, 2, stderr)
+	if out != "" || !strings.Contains(stderr, "targets, listen, demo") || !strings.Contains(stderr, "'fifthline help'") {
+		t.Errorf("stdout %q, stderr %q", out, stderr)
+	}
+}
+
+// A channel past the file's is the asker's slip, a usage error (exit 2) as
+// --players naming one is, in one line saying how many the file has: sox's
+// one-channel A4.
+func TestAChannelPastTheFilesIsAUsageError(t *testing.T) {
+	mono := sox(t, "a4.wav", "-r", "48000", "-b", "16", "synth 0.5 sine 440")
+	code, _, stderr := runCLI(t, "analyze", "--channel", "3", mono)
+	checkError(t, code, 2, stderr)
+	if !strings.Contains(stderr, "channel 3 requested but the file has one channel") {
+		t.Errorf("stderr %q", stderr)
+	}
+}
+
+// A group's take of more than two channels read without --players or
+// --channel is read on channel 1 (the contract: "mono or the first
+// channel"), and analyze says so, naming the flags that read the others;
+// --channel asked for, nothing is said. sox's three channels of A4.
+func TestAMultichannelTakeReadOnOneChannelSaysSo(t *testing.T) {
+	take := sox(t, "three.wav", "-r", "48000", "-b", "16", "-c", "3", "synth 0.5 sine 440")
+	for _, args := range [][]string{{"analyze", take}, {"analyze", "--voices", "auto", take}} {
+		code, _, stderr := runCLI(t, args...)
+		if code != 0 || !strings.Contains(stderr, take+" has 3 channels; reading channel 1 (--channel N reads another, --players one player per channel)") {
+			t.Errorf("%v: exit %d, stderr %q", args, code, stderr)
+		}
+	}
+	if _, _, stderr := runCLI(t, "analyze", "--channel", "1", take); strings.Contains(stderr, "channels; reading") {
+		t.Errorf("--channel given, still said: %q", stderr)
+	}
+}
+
 // A choice flag refuses a word it does not know, listing the ones it does.
 func TestChoiceFlagsListTheirWords(t *testing.T) {
 	code, _, stderr := runCLI(t, "analyze", "--format", "xml", "x.wav")
 	checkError(t, code, 2, stderr)
 	if !strings.Contains(stderr, "--format") || !strings.Contains(stderr, "csv, table or json") {
 		t.Errorf("stderr %q", stderr)
+	}
+	// keyboard's --format may be left out, which is no word to list.
+	code, _, stderr = runCLI(t, "keyboard", "--format", "xml")
+	checkError(t, code, 2, stderr)
+	if !strings.Contains(stderr, "use table or csv") {
+		t.Errorf("stderr %q", stderr)
+	}
+}
+
+// The drone's caution says the level, the cap and the quiet start (hearing
+// safety, the project's rule; the contract's −6 dBFS limit).
+func TestDroneCautionSaysLevelCapAndFade(t *testing.T) {
+	if got, want := droneCaution(-18), "fifthline: caution: "+hearingAdvice+"; peak level -18 dBFS (never above -6), fading in"; got != want {
+		t.Errorf("got  %q\nwant %q", got, want)
 	}
 }
 

@@ -33,7 +33,10 @@ func runKeyboard(e *env, args []string) error {
 	// --format alone asks for the table alone: a player checking what the
 	// keys will play before writing the file.
 	tableOnly := *output == "" && *format != ""
-	if !tableOnly && (*output == "" || (ext != ".syx" && ext != ".mid")) {
+	if *output == "" && !tableOnly {
+		return usagef("keyboard needs --output FILE.syx or FILE.mid (or --format table to see the keys' tuning without writing a file)")
+	}
+	if !tableOnly && ext != ".syx" && ext != ".mid" {
 		return usagef("--output %q: name a .syx or .mid file", *output)
 	}
 	tu, err := mf.tuning()
@@ -41,7 +44,7 @@ func runKeyboard(e *env, args []string) error {
 		return err
 	}
 	if !tu.Transpose.IsConcert() {
-		return usagef("--transpose: a keyboard's tuning is at concert pitch; leave --transpose out")
+		return usagef("--transpose: a keyboard's tuning is at sounding pitch; leave --transpose out")
 	}
 	kb := newKeyboard(tu)
 	msgs, err := kb.messages(*form)
@@ -70,7 +73,7 @@ func runKeyboard(e *env, args []string) error {
 		fmt.Fprintf(e.stderr, "%d of the 128 keys (%d at the bottom, %d at the top) lie outside the standard's 8.18–13289.73 Hz and sound at its nearest end\n", lo+hi, lo, hi)
 	}
 	if !tableOnly {
-		fmt.Fprintf(e.stderr, "wrote %s: %s\n", *output, describeForm(*form, len(msgs), ext == ".mid"))
+		fmt.Fprintf(e.stderr, "fifthline: wrote %s: %s\n", *output, describeForm(*form, len(msgs), ext == ".mid"))
 	}
 	return nil
 }

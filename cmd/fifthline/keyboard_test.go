@@ -193,7 +193,9 @@ func TestKeyboardTableGoesToStderrUnlessAsked(t *testing.T) {
 	path := filepath.Join(t.TempDir(), "organ.syx")
 	musical := []string{"--key", "G major", "--temperament", "meantone:1/4", "--a4", "415"}
 	code, out, stderr := runCLI(t, append([]string{"keyboard", "--output", path}, musical...)...)
-	if code != 0 || out != "" || !strings.Contains(stderr, "D#4") || !strings.Contains(stderr, "wrote "+path) {
+	if code != 0 || out != "" || !strings.Contains(stderr, "D#4") || !strings.Contains(stderr, "\nfifthline: wrote "+path) {
+		// The line saying what was written is a message like the others,
+		// so it begins "fifthline: " as they do (as tuning --save's).
 		t.Errorf("exit %d, stdout %q, stderr:\n%s", code, out, stderr)
 	}
 	code, out, stderr = runCLI(t, append([]string{"keyboard", "--format", "table", "--output", path}, musical...)...)
@@ -252,7 +254,9 @@ func TestKeyboardBadInput(t *testing.T) {
 	}{
 		{[]string{"--mts", "sysex", "--output", filepath.Join(dir, "a.syx")}, 2, "--mts"},
 		{[]string{"--output", filepath.Join(dir, "a.wav")}, 2, ".syx or .mid"},
-		{[]string{}, 2, "--output"},
+		// Nothing asked: say both ways out, the file or the table alone
+		// (docs/interface.md, "Additions": keyboard --format without --output).
+		{[]string{}, 2, "keyboard needs --output FILE.syx or FILE.mid (or --format table"},
 		{[]string{"--output", filepath.Join(dir, "a.mid"), "extra.mid"}, 2, "no file arguments"},
 		{[]string{"--format", "json", "--output", filepath.Join(dir, "a.mid")}, 2, "--format"},
 		{[]string{"--key", "H", "--output", filepath.Join(dir, "a.mid")}, 2, "--key"},

@@ -72,7 +72,7 @@ func runListen(e *env, args []string) error {
 			top = max(top, p.Channel+1)
 		}
 		if *inputs < top {
-			return usagef("--input-channels %d: channel %d is read", *inputs, top)
+			return usagef("--input-channels %d opens channels 1 to %d, but channel %d is read: give --input-channels %d or more", *inputs, *inputs, top, top)
 		}
 	}
 	ctx := e.ctx

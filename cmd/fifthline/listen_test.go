@@ -295,6 +295,12 @@ func TestListenUsageErrors(t *testing.T) {
 		code, _, stderr := runCLI(t, args...)
 		checkError(t, code, 2, stderr)
 	}
+	// Too few channels opened: the message says how many to give
+	// (docs/interface.md, "Additions": listen --input-channels).
+	_, _, stderr := runCLI(t, "listen", "--players", "3=vla,1=vc", "--input-channels", "2")
+	if !strings.Contains(stderr, "give --input-channels 3 or more") {
+		t.Errorf("stderr %q does not say what to give", stderr)
+	}
 }
 
 func TestListenOnAMissingDeviceIsAOneLineError(t *testing.T) {

@@ -108,7 +108,9 @@ func run(e *env, args []string) (code int) {
 	}()
 	switch {
 	case len(args) == 0:
-		printHelp(e.stderr)
+		// A usage error like any other: one line (the contract), saying
+		// where the overview is.
+		fmt.Fprintf(e.stderr, "fifthline: say what to do: %s ('fifthline help' says what each does)\n", strings.Join(commandNames(), ", "))
 		return 2
 	case args[0] == "-h" || args[0] == "--help" || args[0] == "-help":
 		printHelp(e.stdout)

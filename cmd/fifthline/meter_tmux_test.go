@@ -115,7 +115,7 @@ func TestDemoMeterInTmux(t *testing.T) {
 	t.Parallel()
 	m := startTmux(t, 80, 24, nil, "demo", "--log", filepath.Join(t.TempDir(), "rehearsal.csv"))
 	// The score's own tuning (G minor, ¼-comma meantone, A4 = 415 Hz).
-	s := m.waitFor(heldWords, `G minor · 1/4-comma meantone · A4 = 415\.0 Hz · concert pitch`, `\[[A-G][♯♭]?\]`)
+	s := m.waitFor(heldWords, `G minor · 1/4-comma meantone · A4 = 415\.0 Hz · sounding pitch`, `\[[A-G][♯♭]?\]`)
 	if !strings.Contains(s, "███") {
 		t.Errorf("no large glyphs:\n%s", s)
 	}

@@ -13,6 +13,7 @@ import (
 	"io"
 	"slices"
 	"strconv"
+	"strings"
 	"text/tabwriter"
 
 	"fifthline/session"
@@ -260,4 +261,37 @@ func (t *tableNotes) Close() error {
 		}
 	}
 	return nil
+}
+
+// tableWords are the CSV's column names as the table heads them: the table
+// is for reading, so in a player's words, the names scripts rely on kept
+// for CSV and JSON.
+var tableWords = map[string]string{
+	"start_s":           "start",
+	"end_s":             "end",
+	"hz":                "Hz",
+	"target_hz":         "target Hz",
+	"cents":             "cents",
+	"alt_note":          "other spelling",
+	"alt_cents":         "its cents",
+	"on_other_spelling": "on it",
+	"same_pitch":        "one pitch",
+	"spread_cents":      "spread ¢",
+	"vibrato_cents":     "vibrato ¢",
+	"vibrato_hz":        "vibrato Hz",
+	"group_drift_cents": "group drift ¢",
+	"just_cents":        "from just ¢",
+}
+
+// tableHead is a header's columns in the table's words.
+func tableHead(head []string) []string {
+	out := make([]string, len(head))
+	for i, h := range head {
+		if w, ok := tableWords[h]; ok {
+			out[i] = w
+		} else {
+			out[i] = strings.ReplaceAll(h, "_", " ")
+		}
+	}
+	return out
 }

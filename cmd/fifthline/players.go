@@ -10,6 +10,7 @@ import (
 	"io"
 	"slices"
 	"strconv"
+	"strings"
 	"time"
 
 	"fifthline/capture"
@@ -49,6 +50,11 @@ type playerOptions struct {
 // playersOptions checks --players and the chord flags; ok is false when
 // --players was not given.
 func playersOptions(fs *flag.FlagSet, value string) (opt playerOptions, ok bool, err error) {
+	// --player vc,vla is --players vc,vla missing its s: one name for the
+	// journal would read only the first channel, as one player.
+	if p := fs.Lookup("player"); p != nil && !wasSet(fs, "players") && strings.Contains(p.Value.String(), ",") {
+		return opt, false, usagef("--player %q names one player, for the journal; one player per channel is --players %s", p.Value.String(), p.Value.String())
+	}
 	if opt.group, err = groupReference(fs, wasSet(fs, "players")); err != nil || !wasSet(fs, "players") {
 		return opt, false, err
 	}

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"regexp"
 	"strings"
 	"testing"
 )
@@ -18,7 +19,15 @@ func TestAnalyzeVoicesTableEndsWithTheGroupsDrift(t *testing.T) {
 	if last := lines[len(lines)-1]; code != 0 || !strings.HasPrefix(last, path+": group drift ") || !strings.Contains(last, "thirds 0.0 ¢") {
 		t.Errorf("exit %d (%s), last line %q, want the group's drift with thirds 0.0 ¢ from just:\n%s", code, stderr, last, out)
 	}
+	// The table heads its columns in words (as the one-voice table does:
+	// "start", "Hz", "other spelling"); the CSV keeps the contract's names.
+	if len(lines) < 2 || !regexp.MustCompile(`^start +end +note +Hz +target Hz +cents +other spelling `).MatchString(lines[1]) || strings.Contains(lines[1], "_") {
+		t.Errorf("the table's head is not in words:\n%s", out)
+	}
 	code, out, _ = runCLI(t, "analyze", "--voices", "auto", "--format", "csv", path)
+	if !strings.HasPrefix(out, "start_s,end_s,note,hz,target_hz,cents,alt_note,alt_cents,") {
+		t.Errorf("the CSV's header is not the contract's:\n%s", out)
+	}
 	if code != 0 || strings.Contains(out, "group drift") {
 		t.Errorf("the CSV carries no such line:\n%s", out)
 	}

@@ -96,7 +96,10 @@ func TestTheTuningInForce(t *testing.T) {
 
 	// 'fifthline tuning' shows each value and where it came from.
 	_, out, _ = inFolder(t, dir, config, "tuning", "--a4", "415")
-	for _, want := range []string{`key\s+G major\s+\./fifthline\.toml`, `a4\s+415\s+flag`, `anchor\s+a4\b.*\sdefault`} {
+	// No transposition reads as sounding pitch (against written pitch,
+	// common practice), not "concert pitch", which beside A4 = 415 Hz
+	// reads as a claim about the reference.
+	for _, want := range []string{`key\s+G major\s+\./fifthline\.toml`, `a4\s+415\s+flag`, `anchor\s+a4\b.*\sdefault`, `transpose\s+none \(sounding pitch\)\s+default`} {
 		if !regexp.MustCompile(`(?m)^` + want + `\s*$`).MatchString(out) {
 			t.Errorf("tuning output lacks a line %s:\n%s", want, out)
 		}

@@ -95,7 +95,7 @@ func printTuning(e *env, mf *musicalFlags, tu target.Tuning) error {
 		v := *mf.field(name)
 		switch {
 		case name == "transpose" && v == "":
-			v = "concert pitch"
+			v = "none (sounding pitch)"
 		case name == "anchor" && v == "":
 			v = "a4 (tonic in just)"
 		}

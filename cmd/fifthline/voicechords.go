@@ -173,7 +173,7 @@ func (rw *rowWriter) write(rec []string, obj any) {
 			if rw.title != "" {
 				fmt.Fprintln(rw.out, rw.title)
 			}
-			fmt.Fprintln(rw.tab, strings.Join(rw.head, "\t"))
+			fmt.Fprintln(rw.tab, strings.Join(tableHead(rw.head), "\t"))
 		}
 		fmt.Fprintln(rw.tab, strings.Join(rec, "\t"))
 	default:

@@ -131,7 +131,7 @@ func analyzeVoices(e *env, vo voiceOptions, files []string, tu target.Tuning, op
 // interrupted).
 func readVoices(e *env, path string, tu target.Tuning, vo voiceOptions, opt analyzeOptions, j *journalSink) ([]voiceNote, []harmony.Chord, error) {
 	w, err := capture.OpenWAVChannel(path, opt.channel)
-	if err != nil {
+	if err = opt.opened(e, path, w, err); err != nil {
 		return nil, nil, err
 	}
 	start := takeStart(opt.recorded, w)
