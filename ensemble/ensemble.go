@@ -206,13 +206,14 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 				fr.read[i] = v.cur.Hz
 			}
 			for i, v := range voices {
-				// A period shared with bleed not yet weighed is the note above
-				// (phantom.go); below the neighbours' partials none is shared.
+				// A period shared with bleed not yet weighed, or in a note's
+				// attack, is the note above (phantom.go); below the
+				// neighbours' partials none is shared.
 				unweighed := func(d int) bool { return !bleed.weighed(i, d) }
 				if k := owner.phantom(i, v.cur.Hz, fr.read, unweighed); k > 1 && v.cut == 0 {
 					v.cur.Hz *= float64(k)
 				} else if v.cut == 0 && (owner.phantomOnPartial(i, v.cur.Hz, fr.read, unweighed, ownDB) ||
-					v.phantomHeld(i, v.cur.Hz, fr.read, unweighed)) {
+					v.sharedPeriod(i, v.cur.Hz, fr.read, unweighed)) {
 					v.cur = unvoiced(v.cur)
 				}
 				skip := owner.weighedSkip(i, v.cur.Hz, v.cut, fr.read)

@@ -169,12 +169,12 @@ func phantomHeld(c int, hz, held float64, attack bool, pitches []float64, unweig
 	return false
 }
 
-// phantomHeld is phantomHeld for the player's own note and attack; in the
+// sharedPeriod is phantomHeld for the player's own note and attack; in the
 // attack a reading within partialCents of the last pitch so given away is
 // that phantom still, its pitch moving with the attacks beneath it (the
 // bass's D2 read 72.05 Hz while the tenor's A3 rose to 220.66, 36 ¢ off
 // its third harmonic; measured).
-func (v *voice) phantomHeld(c int, hz float64, pitches []float64, unweighed func(d int) bool) bool {
+func (v *voice) sharedPeriod(c int, hz float64, pitches []float64, unweighed func(d int) bool) bool {
 	attack := v.inAttack()
 	if phantomHeld(c, hz, v.recent, attack, pitches, unweighed) ||
 		attack && v.ghost > 0 && hz > 0 && math.Abs(1200*math.Log2(hz/v.ghost)) < partialCents {

@@ -158,7 +158,7 @@ func TestAPhantomFollowedThroughAnAttack(t *testing.T) {
 	for _, hz := range []float64{142.19, 142.27, 143.48} { // D3's attack, read flat
 		frame(hz, false)
 	}
-	if !v.phantomHeld(0, 72.70, []float64{72.70, 218.14, 217.61, 377.12}, none) {
+	if !v.sharedPeriod(0, 72.70, []float64{72.70, 218.14, 217.61, 377.12}, none) {
 		t.Fatal("D2 under the attack's 143.48 Hz, the A3s on its third harmonic: not given away")
 	}
 	frame(72.70, true)
@@ -166,13 +166,13 @@ func TestAPhantomFollowedThroughAnAttack(t *testing.T) {
 	if phantomHeld(0, 72.05, v.recent, true, drifted, none) {
 		t.Fatal("72.05 Hz against the tenor's 220.66 Hz: phantomHeld alone should not tell it")
 	}
-	if !v.phantomHeld(0, 72.05, drifted, none) {
+	if !v.sharedPeriod(0, 72.05, drifted, none) {
 		t.Error("72.05 Hz, 15 ¢ from the D2 given away: not followed")
 	}
 	for range det.Span() / det.Hop() {
 		frame(72.05, true)
 	}
-	if v.phantomHeld(0, 72.05, drifted, none) {
+	if v.sharedPeriod(0, 72.05, drifted, none) {
 		t.Error("past the attack's span: still given away")
 	}
 }
