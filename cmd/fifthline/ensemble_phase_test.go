@@ -66,7 +66,8 @@ func TestPlayersReadOnceHearWoodwindsAtEveryPhase(t *testing.T) {
 // and back to −16 ¢, and wavers −1 to +9 ¢ (against 220 Hz) over its last
 // 0.3 s. Shorter than two vibrato cycles and turning, it is read whole from
 // its first frame (pitchdetect/glide.go slurredFrom), its scoop in the
-// mean: alone it reads 219.52–219.76 Hz over the eight leads (1.9 ¢), by
+// mean: alone it reads 219.62–220.30 Hz over the eight leads (5.4 ¢;
+// 219.54–220.31 before a slurred note left out its first frame), by
 // how many attack frames each phase voices and, at three leads, by the
 // trough of its swing read 14 ¢ sharp for four frames (its partials
 // disagree there: the last pitch's comb takes 220.2 Hz, the NSDF's 218.2;
