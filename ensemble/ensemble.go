@@ -76,6 +76,8 @@ type voice struct {
 	recent  float64                // the player's latest pitch heard within a window, 0: none
 	age     int                    // frames since it was heard
 	run     int                    // frames in a row the player has been heard
+	since   int                    // frames since the player's latest note was first heard (onset)
+	ghost   float64                // the pitch last given away as that note's period with the bleed (phantom.go), 0: none
 }
 
 // ownEvery: the channels' spectra for the ownership test and the bleed
@@ -204,13 +206,14 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 				fr.read[i] = v.cur.Hz
 			}
 			for i, v := range voices {
-				// A period shared with bleed not yet weighed is the note above
-				// (phantom.go); below the neighbours' partials none is shared.
+				// A period shared with bleed not yet weighed, or in a note's
+				// attack, is the note above (phantom.go); below the
+				// neighbours' partials none is shared.
 				unweighed := func(d int) bool { return !bleed.weighed(i, d) }
 				if k := owner.phantom(i, v.cur.Hz, fr.read, unweighed); k > 1 && v.cut == 0 {
 					v.cur.Hz *= float64(k)
 				} else if v.cut == 0 && (owner.phantomOnPartial(i, v.cur.Hz, fr.read, unweighed, ownDB) ||
-					phantomHeld(i, v.cur.Hz, recent[i], fr.read, unweighed)) {
+					v.sharedPeriod(i, v.cur.Hz, fr.read, unweighed)) {
 					v.cur = unvoiced(v.cur)
 				}
 				skip := owner.weighedSkip(i, v.cur.Hz, v.cut, fr.read)
@@ -236,6 +239,7 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 				}
 			}
 			for i, v := range voices {
+				v.onset(fr.hz[i], recent[i])
 				recent[i] = v.recentPitch(fr.hz[i])
 				if v.run++; fr.hz[i] == 0 {
 					v.run = 0

@@ -5,6 +5,7 @@ import (
 	"testing"
 
 	"fifthline/internal/testsignal"
+	"fifthline/pitchdetect"
 )
 
 // The period a player's note shares with a neighbour's bleed, read on the
@@ -100,25 +101,78 @@ func TestAPhantomOnANeighboursPartialIsGivenAway(t *testing.T) {
 // channel read (FluidR3 voice oohs, G major over G2; measured, Hz): G1
 // under the held G2, the tenor's B3 (26.7 ¢ off G1's fifth harmonic in
 // equal temperament, within partialCents), the alto's D4, the soprano's G4.
+// In the held note's attack the bleed may be weighed: the same choir's
+// bass entering on D3 under the tenor's and alto's A3 read D2 (measured,
+// Hz: 72.70 after 143.48; the tenor 218.14, the alto 217.61, the soprano's
+// F♯4 377.12).
 func TestAPhantomInAHeldNote(t *testing.T) {
 	chord := []float64{48.855, 248.073, 294.362, 391.364}
+	entry := []float64{72.70, 218.14, 217.61, 377.12}
 	none := func(int) bool { return false }
 	all := func(int) bool { return true }
 	for _, c := range []struct {
 		name      string
 		held      float64
+		attack    bool
 		pitches   []float64
 		unweighed func(int) bool
 		want      bool
 	}{
-		{"G1 under a held G2, the chord's bleed unweighed", 97.86, chord, all, true},
-		{"the bleed weighed", 97.86, chord, none, false},
-		{"nothing held", 0, chord, all, false},
-		{"held a fourth above, no octave or twelfth", 65.3, chord, all, false},
-		{"no neighbour on its harmonics", 97.86, []float64{48.855, 0, 270, 0}, all, false},
+		{"G1 under a held G2, the chord's bleed unweighed", 97.86, false, chord, all, true},
+		{"the bleed weighed", 97.86, false, chord, none, false},
+		{"nothing held", 0, false, chord, all, false},
+		{"held a fourth above, no octave or twelfth", 65.3, false, chord, all, false},
+		{"no neighbour on its harmonics", 97.86, false, []float64{48.855, 0, 270, 0}, all, false},
+		{"D2 in D3's attack, the bleed weighed", 143.48, true, entry, none, true},
+		{"D2 past D3's attack, the bleed weighed: a leap down", 143.48, false, entry, none, false},
+		{"in the attack, no neighbour on its harmonics", 143.48, true, []float64{72.70, 0, 190, 0}, none, false},
 	} {
-		if got := phantomHeld(0, c.pitches[0], c.held, c.pitches, c.unweighed); got != c.want {
+		if got := phantomHeld(0, c.pitches[0], c.held, c.attack, c.pitches, c.unweighed); got != c.want {
 			t.Errorf("%s: phantomHeld %v, want %v", c.name, got, c.want)
 		}
+	}
+}
+
+// In an attack a phantom is followed while its reading stays within
+// partialCents of the last pitch given away, its pitch moving with the
+// attacks beneath it, and no further than the attack's span: the choir's
+// bass D3 entering under the tenor's and alto's A3 (FluidR3 voice oohs,
+// the bleed weighed; the channels' readings measured, Hz) read D2 at
+// 72.70 Hz, then at 72.05 Hz while the tenor rose to 220.66 Hz, 36 ¢ off
+// D2's third harmonic.
+func TestAPhantomFollowedThroughAnAttack(t *testing.T) {
+	det, err := pitchdetect.New(48000, 0, 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	none := func(int) bool { return false }
+	v := &voice{det: det}
+	frame := func(read float64, given bool) {
+		hz := 0.0
+		if !given {
+			hz = read
+		}
+		v.onset(hz, v.recent)
+		v.recentPitch(hz)
+	}
+	for _, hz := range []float64{142.19, 142.27, 143.48} { // D3's attack, read flat
+		frame(hz, false)
+	}
+	if !v.sharedPeriod(0, 72.70, []float64{72.70, 218.14, 217.61, 377.12}, none) {
+		t.Fatal("D2 under the attack's 143.48 Hz, the A3s on its third harmonic: not given away")
+	}
+	frame(72.70, true)
+	drifted := []float64{72.05, 220.66, 220.01, 0}
+	if phantomHeld(0, 72.05, v.recent, true, drifted, none) {
+		t.Fatal("72.05 Hz against the tenor's 220.66 Hz: phantomHeld alone should not tell it")
+	}
+	if !v.sharedPeriod(0, 72.05, drifted, none) {
+		t.Error("72.05 Hz, 15 ¢ from the D2 given away: not followed")
+	}
+	for range det.Span() / det.Hop() {
+		frame(72.05, true)
+	}
+	if v.sharedPeriod(0, 72.05, drifted, none) {
+		t.Error("past the attack's span: still given away")
 	}
 }

@@ -356,7 +356,7 @@ func (s *Segmenter) summarise(live bool, next float64) Held {
 		early := fr[i:][:earlyFrames(fr[i:])]
 		g, settled = s.settlesAt(early, s.wobble(early, h.Start))
 	} else {
-		g = s.glide(s.c, s.wobble(fr[i:j], h.Start))
+		g = s.glideAfter(fr[i:], s.c, s.wobble(fr[i:j], h.Start))
 	}
 	if s.c = s.c[:n]; g >= n || turning {
 		g = 0

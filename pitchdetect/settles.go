@@ -34,7 +34,7 @@ func (s *Segmenter) settlesAt(fr []Estimate, wobble int) (glide int, at float64)
 		s.jt = append(s.jt, e.Time)
 		s.jc = append(s.jc, 1200*math.Log2(e.Hz/fr[0].Hz))
 	}
-	glide = s.glide(s.jc, wobble)
+	glide = s.glideAfter(fr, s.jc, wobble)
 	at = s.jt[glide]
 	if !findVibrato(s.jt, s.jc, s.Window).ok {
 		if v, k := s.lateVibrato(s.jt, s.jc); v.ok {

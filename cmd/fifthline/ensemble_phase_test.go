@@ -37,7 +37,28 @@ func TestPlayersReadOnceHearWoodwindsAtEveryPhase(t *testing.T) {
 // 3.2–3.6 ¢ sharp at two leads (384, 448 samples: a bleed-filled first
 // frame 7 ¢ flat before its 29 ¢ overshoot kept the overshoot in); before
 // ensemble/phantom.go's phantomHeld the choir's bass G2 broke in two at
-// two (64, 128: two frames at G1, the chord's period).
+// two (64, 128: two frames at G1, the chord's period). Before
+// ensemble/phantom.go followed such a period through a note's attack with
+// the bleed weighed, the choir's bass D3, entering under the tenor's and
+// alto's A3, read D2 for 7 frames, a note of its own, at one (192); before
+// pitchdetect/glide.go's glideAfter let a glide begin after a dropout in
+// the attack, the alto's D4 read 1.11 ¢ sharp at one (64: two frames of
+// its consonant, the first in the held range, kept its fall in); and
+// before a slurred note's steady part left out its first frame
+// (pitchdetect/glide.go slurredFrom), the second trumpet's first C4 read
+// 1.04 ¢ flat at one (128: D4's release lost to the bleed for two frames
+// let in the C4's scoop, 25 ¢ flat). That C4 still reads 0.4–0.9 ¢ flat
+// over the leads: at lead 0 the bleed, not yet weighed 0.9 s in, hides the
+// last frame of D4's release, and one frame more of the scoop comes in
+// than alone (the frames themselves read within 0.3 ¢ of those without
+// bleed).
+// At leads 128 and 192 the choir's bass C3 reads 0.96–0.98 ¢ sharp (0.81
+// at 128 while its first frame, flat in its scoop, still came in): the
+// weighed bleed's remains under the tenor's and alto's entries hide its
+// first seven or eight frames, so its reading begins later in its scoop
+// than alone (lowband.go reads such an entry only under bleed not yet
+// weighed; read so here too, it came to 0.74, but analyze's second pass,
+// all its bleed weighed, then moved the brass's F major chord 2.4 ¢).
 //
 // One player's notes are held to the nearer of two readings of their part
 // alone, after no lead and after the same lead: the brass's horn A3,
@@ -45,15 +66,16 @@ func TestPlayersReadOnceHearWoodwindsAtEveryPhase(t *testing.T) {
 // and back to −16 ¢, and wavers −1 to +9 ¢ (against 220 Hz) over its last
 // 0.3 s. Shorter than two vibrato cycles and turning, it is read whole from
 // its first frame (pitchdetect/glide.go slurredFrom), its scoop in the
-// mean: alone it reads 219.52–219.76 Hz over the eight leads (1.9 ¢), by
+// mean: alone it reads 219.62–220.30 Hz over the eight leads (5.4 ¢;
+// 219.54–220.31 before a slurred note left out its first frame), by
 // how many attack frames each phase voices and, at three leads, by the
 // trough of its swing read 14 ¢ sharp for four frames (its partials
 // disagree there: the last pitch's comb takes 220.2 Hz, the NSDF's 218.2;
 // measured). Its frames from 2.99 s, after the swing, average 220.22–220.24
 // Hz at every lead, but no glide rule reaches them yet: with the swing let
 // into a glide, their range is 0.23–0.33 of the movement over the leads,
-// either side of the rule's quarter. The leads in open still miss the bar,
-// as said there; they are read and logged, not held to it.
+// either side of the rule's quarter. Leads in open would be read and
+// logged only, not held to the bar; none is now.
 func TestPlayersReadOnceHearFreshTakesAtEveryPhase(t *testing.T) {
 	t.Parallel()
 	for _, c := range []struct {
@@ -61,10 +83,8 @@ func TestPlayersReadOnceHearFreshTakesAtEveryPhase(t *testing.T) {
 		samePhase string         // a player whose part alone is read at each phase too
 		open      map[int]string // leads (samples) still missing the bar: how
 	}{
-		{freshTakes[0], "hn", map[int]string{128: "tpt2's first C4, rising 23 ¢ from its slur, 1.04 ¢ flat"}},
-		{freshTakes[2], "", map[int]string{
-			64:  "the alto's D4 1.11 ¢ sharp, no vibrato alone",
-			192: "the bass's D3 attack read D2 for 7 frames, a note of its own, the bleed weighed"}},
+		{freshTakes[0], "hn", nil},
+		{freshTakes[2], "", nil},
 		{freshTakes[3], "", nil},
 	} {
 		t.Run(c.take.name, func(t *testing.T) { readAtEveryPhase(t, c.take, c.samePhase, c.open) })
