@@ -99,6 +99,21 @@ type Estimator struct {
 	// The voices' phase relations over frames: see lock.go.
 	locks  []lockTrack
 	lockOf []int // per voice of the last solve, its track
+
+	// The voices followed (follow.go): heard lately (the whole stream's
+	// estimator), the one kept in this frame (0: none); rescued: kept
+	// only by following; added and steady: held to its own partials
+	// (heldOwn); cands: the candidates as the prune began, and without:
+	// the voices it kept without following.
+	recent  []heardVoice
+	follow  []heardVoice
+	kept    float64
+	rescued bool
+	added   bool
+	steady  bool
+	cands   []float64
+	without []float64
+	level   float64 // dBFS: the window read last
 }
 
 // New returns an Estimator for the sample rate with window and hop in
@@ -222,7 +237,7 @@ func rmsDB(x []float64) float64 {
 // of one stream: a voice's Doubled mark weighs its partials' phases over
 // the recent frames (lock.go).
 func (e *Estimator) Analyze(x []float64, dst []Voice) []Voice {
-	if len(x) != e.window || rmsDB(x) < silenceDBFS {
+	if e.level = rmsDB(x); len(x) != e.window || e.level < silenceDBFS {
 		return dst
 	}
 	hannSpectrum(e.spec, e.frame, x, e.win, e.fft)
@@ -262,8 +277,14 @@ func (e *Estimator) Analyze(x []float64, dst []Voice) []Voice {
 	if len(e.f0) == 0 {
 		return dst
 	}
+	follow := e.toFollow()
+	e.cands = append(e.cands[:0], e.f0...)
+	e.kept, e.rescued = 0, false
 	e.drop = e.drop[:0]
 	e.prune()
+	if follow > 0 && !slices.ContainsFunc(e.f0, near(follow)) {
+		e.keep(follow)
+	}
 	e.followLocks()
 	start := len(dst)
 	dst = e.voices(dst)

@@ -46,9 +46,11 @@ func (e *Estimator) onset() bool {
 // on it.
 func (e *Estimator) emitShort(x []float64, emit func(Frame)) {
 	t := (float64(e.fed) - float64(len(x))/2) / e.rate
+	e.following()
 	e.out = e.short.Analyze(x, e.out[:0])
 	e.out = e.avg.average(x, e.out, e.short)
 	e.last = t
+	e.heard(t, e.short.level, e.out, e.short)
 	emit(Frame{Time: t, Span: float64(len(x)) / e.rate, Level: rmsDB(x), Voices: e.out})
 }
 
@@ -57,7 +59,17 @@ func (e *Estimator) emitShort(x []float64, emit func(Frame)) {
 // voice with a wide vibrato (a choir's, a section's) or a wandering pitch
 // is smeared over a whole window until its partials explain too little to
 // pass for a voice, while half the window still holds it nearly steady.
-func (e *Estimator) whole(t float64) Frame {
+// (More voices than the whole window hears without following: a voice
+// followed, follow.go, is kept in either.)
+func (e *Estimator) whole(t float64) (f Frame) {
+	defer func() { // the voices followed hear of the window read
+		by := e
+		if f.Span < float64(e.window)/e.rate {
+			by = e.short
+		}
+		e.heard(t, by.level, f.Voices, by)
+	}()
+	e.following()
 	e.out = e.Analyze(e.buf, e.out[:0])
 	if e.short == nil {
 		e.out = e.avg.average(e.buf, e.out, e)
@@ -66,7 +78,7 @@ func (e *Estimator) whole(t float64) Frame {
 	q := e.window / 4
 	mid := e.buf[q : e.window-q]
 	e.alt = e.short.Analyze(mid, e.alt[:0])
-	if len(e.alt) > len(e.out) {
+	if e.halfHearsMore(e.alt, e.out) {
 		e.out, e.alt = e.alt, e.out
 		e.out = e.avg.average(mid, e.out, e.short)
 		return Frame{Time: t, Span: float64(len(mid)) / e.rate, Level: rmsDB(mid), Voices: e.out}

@@ -105,7 +105,9 @@ func (e *Estimator) dropShort(steps []int, only func(hz float64) bool, share flo
 				base = f.solve()
 			}
 			f.build(e.f0, f.maxK, v)
-			short := f.solve()-base < share*e.needed(cols-f.partials(), noise, total)
+			// (A low voice followed may be held to its own partials
+			// instead: follow.go.)
+			short := f.solve()-base < share*e.needed(cols-f.partials(), noise, total) && !e.heldOwn(e.f0[v])
 			f.judged = -1
 			if short && (worst < 0 || e.f0[v] < e.f0[worst]) {
 				worst = v
@@ -120,6 +122,9 @@ func (e *Estimator) dropShort(steps []int, only func(hz float64) bool, share flo
 			// which takes its energy from the voice's smeared partials —
 			// the rendered choir lost a part and gained a phantom.)
 			worst = len(e.f0) - 1
+			if worst > 0 && e.isKept(e.f0[worst]) {
+				worst-- // not the low voice followed (follow.go)
+			}
 		}
 		if worst < 0 {
 			break

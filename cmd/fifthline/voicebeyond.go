@@ -83,11 +83,14 @@ func (l *leftOut) cap(at float64, vs []multipitch.Voice) []multipitch.Voice {
 			voices = min(voices, weight[i])
 		}
 	}
-	// A partial yields to every voice held as one, however quiet; against a
-	// reading too new to be judged, loudness decides (a partial read as B4
-	// is likelier the chord's than a passing one, G4's 3rd read as D6).
-	for i := range vs {
-		if partial[i] {
+	// A partial yields to every voice held as one, however quiet; so does
+	// a reading too new to be judged that this frame marks as a lower
+	// voice's partials (the open voicing's B4 on E3's 3rd partial, as the
+	// E minor begins, took the held G4's place). Between readings too new
+	// to be judged, loudness decides (a partial read as B4 is likelier the
+	// chord's than a passing one, G4's 3rd read as D6).
+	for i, v := range vs {
+		if partial[i] || !held[i] && v.OnPartials {
 			weight[i] = min(weight[i], math.Nextafter(voices, 0))
 		}
 	}
