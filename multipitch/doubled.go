@@ -32,9 +32,12 @@ const doubleGain = 2.0
 // Lone FluidR3 instruments (clarinet, trombone, bassoon, horn, tuba, cello,
 // violin, flute, oboe, trumpet, choir aahs, alto sax, piano; General MIDI
 // programs 72, 58, 71, 61, 59, 43, 41, 74, 69, 57, 53, 66, 1) on MIDI keys
-// 40 to 72, at 40 dB SNR, measured once, half a window apart: at most
-// 6.1 dB, in one frame of fifteen (cello on G3); the church organ (20),
-// whose stops sound octaves above its note, up to 11.8 dB.
+// 40 to 72, at 40 dB SNR, measured once, half a window apart: over 6 dB
+// in one frame of fifteen only (cello on G3, 6.1 dB; a note is marked where
+// more than half its frames are), and the church organ (20), whose stops
+// sound octaves above its note, up to 11.8 dB. An odd-partial timbre's own
+// 2nd, 6th, … lie far under the envelope, so a clarinet doubled two octaves
+// up is not marked (FluidR3's, on G2: G4 read in 4 frames of 17).
 const quadGain = 4.0
 
 // envelopeExcess is how far voice v's own even partials, 2 to 20, stand
