@@ -23,6 +23,23 @@ import (
 // not reported.
 const doubleGain = 2.0
 
+// quadGain is how far, in power, a voice's partials 4, 8, 12, … must stand
+// out of the envelope through its other partials (quadrupleExcess) to say
+// another voice doubles it two octaves above: 6 dB. A sawtooth doubled so by
+// one of equal level lifts its partial 4j from 1/4j to |1/4j + e^iφ/j|,
+// +9.5 to +14 dB with the phase (+14 dB for sox's sawtooths started in
+// phase: from the definitions; measured the same, doubledtwo_test.go).
+// Lone FluidR3 instruments (clarinet, trombone, bassoon, horn, tuba, cello,
+// violin, flute, oboe, trumpet, choir aahs, alto sax, piano; General MIDI
+// programs 72, 58, 71, 61, 59, 43, 41, 74, 69, 57, 53, 66, 1) on MIDI keys
+// 40 to 72, at 40 dB SNR, measured once, half a window apart: over 6 dB
+// in one frame of fifteen only (cello on G3, 6.1 dB; a note is marked where
+// more than half its frames are), and the church organ (20), whose stops
+// sound octaves above its note, up to 11.8 dB. An odd-partial timbre's own
+// 2nd, 6th, … lie far under the envelope, so a clarinet doubled two octaves
+// up is not marked (FluidR3's, on G2: G4 read in 4 frames of 17).
+const quadGain = 4.0
+
 // envelopeExcess is how far voice v's own even partials, 2 to 20, stand
 // above the envelope through its own odd partials, as a power ratio, from
 // the last solve: the joint fit has handed each voice its share of a partial
@@ -142,9 +159,18 @@ func lowerMedian(r []float64, least int) float64 {
 // envelopeExcess has no partial to weigh and E4 was dropped unmarked. How much
 // E4 adds to E3's 2nd and 4th depends on their phases (it may take away);
 // its 4th, E3's 8th between silence, is there whatever the phases.
+//
+// A voice two octaves above lifts only the lower one's partials 4, 8, 12, …
+// (quadrupleExcess), so the even partials' median may not move and the odd
+// ones sink under an envelope through 2, 6, 10, … as far as they do under
+// a timbre's; it is judged on its own, with the same phase test.
 func (e *Estimator) doubled(v int) bool {
-	if ex := e.envelopeExcess(v); ex > doubleGain {
-		return !e.oddsHold(v, ex) && !e.oneInstrument(v)
+	ex := e.envelopeExcess(v)
+	if ex > doubleGain && !e.oddsHold(v, ex) || e.quadrupleExcess(v) > quadGain {
+		return !e.oneInstrument(v)
+	}
+	if ex > doubleGain {
+		return false
 	}
 	folded := slices.ContainsFunc(e.drop, func(hz float64) bool { return OctaveAbove(hz, e.f0[v]) })
 	return folded && e.loneEven(v)
@@ -200,4 +226,27 @@ func (e *Estimator) partialPowers(v int) (pow []float64, shared, audible func(k 
 	half := float64(e.window) / 2
 	audible = func(k int) bool { return pow[k]*half*half > 30*e.floor }
 	return pow, shared, audible
+}
+
+// quadrupleExcess is how far voice v's own partials 4, 8, 12, … stand
+// above the envelope through its own odd partials (lower median, at least
+// two) beyond the furthest any of its partials 2, 6, 10, … stands (at least
+// one to weigh; none counted under the envelope), or 0. A voice two octaves
+// above lays its partials on the lower one's 4th, 8th, … alone and leaves
+// the 2nd, 6th, … where the lower voice's timbre puts them; a formant lifts
+// even partials of both kinds.
+func (e *Estimator) quadrupleExcess(v int) float64 {
+	var fourBuf, twoBuf [10]float64
+	four, two := fourBuf[:0], twoBuf[:0]
+	for _, r := range e.evenRatios(v) {
+		if r.k%4 == 0 {
+			four = append(four, r.ratio)
+		} else {
+			two = append(two, r.ratio)
+		}
+	}
+	if len(two) == 0 {
+		return 0
+	}
+	return lowerMedian(four, 2) / max(1, slices.Max(two), 1/slices.Min(two))
 }
