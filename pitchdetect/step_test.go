@@ -150,3 +150,36 @@ func BenchmarkPushOnAHeldNote(b *testing.B) {
 		})
 	}
 }
+
+// Any frame track, steps and all, gives notes in order, each within its
+// frames' time and pitch, and never a panic.
+func FuzzSegmenterSteps(f *testing.F) {
+	f.Add([]byte{100, 100, 100, 100, 90, 90, 90, 90})
+	f.Add([]byte{0, 255, 1, 254, 128, 128, 0, 0, 200})
+	f.Fuzz(func(t *testing.T, b []byte) {
+		s := NewSegmenter(0.01)
+		var notes []Held
+		for i, v := range b {
+			for k := range 8 { // each byte a step held 8 frames: 3 ¢ a unit about A♭4
+				e := Estimate{Time: float64(8*i+k) * 0.01, Level: -20, Confidence: 1}
+				if v > 0 {
+					e.Hz, e.Voiced = meantoneGs4*math.Exp2(3*(float64(v)-128)/1200), true
+				}
+				if h, ok := s.Push(e); ok {
+					notes = append(notes, h)
+				}
+			}
+		}
+		if h, ok := s.Flush(); ok {
+			notes = append(notes, h)
+		}
+		lo, hi := meantoneGs4*math.Exp2(-3*128.0/1200), meantoneGs4*math.Exp2(3*127.0/1200)
+		last := -1.0
+		for _, h := range notes {
+			if !(h.Start >= last && h.End >= h.Start && h.Hz >= lo*0.999 && h.Hz <= hi*1.001) {
+				t.Fatalf("note %+v after %.2f s, pitches %.1f–%.1f Hz", h, last, lo, hi)
+			}
+			last = h.End
+		}
+	})
+}
