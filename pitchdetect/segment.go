@@ -35,6 +35,7 @@ type Segmenter struct {
 	Hop        float64 // seconds between estimates
 	Window     float64 // seconds of signal behind each estimate (Detector.Span / rate)
 	JumpCents  float64 // a sustained step larger than this starts a new note
+	StepCents  float64 // and so does a smaller one this large that holds (step.go); 0: none
 	MaxGap     int     // unvoiced frames with a falling level bridged inside a note
 	MaxDropout int     // unvoiced frames at the note's level bridged inside a note
 	MinFrames  int     // shorter notes are dropped as blips
@@ -68,6 +69,7 @@ type Segmenter struct {
 	vibHz   float64
 	nextHz  float64     // the pitch of the note slurred on to, at a finish
 	span    []spanFrame // scratch for throughSlurs
+	tail    []Estimate  // scratch for stepAt
 }
 
 // NewSegmenter returns a Segmenter for estimates hopSeconds apart, with
@@ -77,6 +79,7 @@ func NewSegmenter(hopSeconds float64) *Segmenter {
 		Hop:        hopSeconds,
 		Window:     9 * hopSeconds, // the default span is 9 hops
 		JumpCents:  50,
+		StepCents:  stepCents,
 		MaxGap:     2,
 		MaxDropout: 12,
 		MinFrames:  4,
@@ -120,6 +123,9 @@ func (s *Segmenter) Push(e Estimate) (Held, bool) {
 	if math.Abs(1200*math.Log2(e.Hz/s.recentHz())) <= s.JumpCents {
 		s.hasOut = false
 		s.add(e)
+		if k := s.heldStep(); k > 0 {
+			return s.stepAt(k)
+		}
 		return Held{}, false
 	}
 	if !s.hasOut || math.Abs(1200*math.Log2(e.Hz/s.outlier.Hz)) > s.JumpCents {
@@ -134,13 +140,7 @@ func (s *Segmenter) Push(e Estimate) (Held, bool) {
 	}
 	// Two frames agree on a new pitch: the old note ends, a new one starts.
 	first, from, began := s.outlier, s.from, s.frames[0]
-	s.nextHz = first.Hz
-	h, ok := s.finish(first.Time)
-	s.start(first)
-	s.from = from // a blip that is no note leaves the slur to the note before it
-	if ok {
-		s.from = slurFrom{hz: h.Hz, last: h.End} // it follows the old note without a gap
-	}
+	h, ok := s.slurOn(first, first.Hz)
 	s.add(e)
 	if first.Time-h.Start < s.OnsetBlip && subharmonic(h.Hz, first.Hz) && (!ok || from.hz == 0 || subharmonic(h.Hz, from.hz)) {
 		// The attack was heard an octave or a twelfth low: it was this note
@@ -153,6 +153,20 @@ func (s *Segmenter) Push(e Estimate) (Held, bool) {
 		s.frames[0].Time = began.Time
 		s.from = from
 		return Held{}, false
+	}
+	return h, ok
+}
+
+// slurOn ends the open note where the note slurred on from it begins, at
+// its frame first, and opens that note; nextHz is its pitch.
+func (s *Segmenter) slurOn(first Estimate, nextHz float64) (Held, bool) {
+	from := s.from
+	s.nextHz = nextHz
+	h, ok := s.finish(first.Time)
+	s.start(first)
+	s.from = from // a blip that is no note leaves the slur to the note before it
+	if ok {
+		s.from = slurFrom{hz: h.Hz, last: h.End} // it follows the old note without a gap
 	}
 	return h, ok
 }

@@ -257,6 +257,14 @@ func TestWhatIsAHeldNote(t *testing.T) {
 			[][3]float64{{20, 392, -20}, {9, 196, -20}, {20, 587.33, -20}}, []float64{392, 587.33}},
 		{"a quick note slurred on up an octave, through frames read as neither, is a note",
 			[][3]float64{{20, 659.26, -20}, {3, 0, -20}, {8, 261.63, -20}, {3, 0, -20}, {20, 523.25, -20}}, []float64{659.26, 261.63, 523.25}},
+		// ¼-comma meantone at A4 = 440 Hz (step_test.go): A♭4 421.09 Hz,
+		// G♯4 411.22 Hz, a lesser diesis (41.06 ¢) apart.
+		{"a step under 50 ¢ that holds 0.25 s on both sides is two notes",
+			[][3]float64{{40, 421.09, -20}, {40, 411.22, -20}}, []float64{421.09, 411.22}},
+		// Its steady part holds 62 frames of A♭4 and 15 of G♯4: their mean
+		// in cents, 8.0 ¢ under A♭4.
+		{"a step held 0.15 s is no note of its own",
+			[][3]float64{{40, 421.09, -20}, {15, 411.22, -20}, {40, 421.09, -20}}, []float64{419.15}},
 	} {
 		hz, level := track(tc.parts...)
 		got := pushAll(hz, level)

@@ -36,13 +36,19 @@ func fluidHeld(t *testing.T, program int, keys []int) ([]float32, string) {
 // fluidPhrase renders a phrase as fluidHeld does.
 func fluidPhrase(t *testing.T, program int, phrase []testsignal.MIDINote) ([]float32, string) {
 	t.Helper()
+	return fluidMIDI(t, testsignal.MIDI(program, phrase))
+}
+
+// fluidMIDI renders a Standard MIDI File as fluidHeld does.
+func fluidMIDI(t *testing.T, smf []byte) ([]float32, string) {
+	t.Helper()
 	fluid, err := exec.LookPath("fluidsynth")
 	if err != nil {
 		t.Fatalf("fluidsynth not installed (Debian package fluidsynth): %v", err)
 	}
 	dir := t.TempDir()
 	mid, raw, wav := filepath.Join(dir, "v.mid"), filepath.Join(dir, "v.raw"), filepath.Join(dir, "v.wav")
-	if err := os.WriteFile(mid, testsignal.MIDI(program, phrase), 0o644); err != nil {
+	if err := os.WriteFile(mid, smf, 0o644); err != nil {
 		t.Fatal(err)
 	}
 	if out, err := exec.Command(fluid, "-ni", "-q", "-g", "0.6", "-r", "48000", "-R", "0", "-C", "0",

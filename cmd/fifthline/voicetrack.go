@@ -139,6 +139,11 @@ func (tr *tracker) push(f multipitch.Frame) {
 			// the rendered clarinet's last 0.2 s, which falls 5 ¢, from
 			// its reading but not from its truth's (+0.62 ¢; +0.11 so).
 			s.Margin = tr.window / 2
+			// A held step is judged on a detector's frames a hop of
+			// about 10 ms apart (pitchdetect/step.go); the estimator's,
+			// 85 ms apart and fitted among other voices, were not
+			// measured for it: a track ends on a jump only.
+			s.StepCents = 0
 			t := &track{seg: s, hz: v.Hz, start: f.Time}
 			if tr.keepFrames {
 				t.frames = &harmony.Track{}
