@@ -21,15 +21,17 @@ type chordTone struct {
 
 // Chord members above the root, with the just ratio each is tuned to: pure
 // thirds 5/4 and 6/5 and the pure fifth 3/2 (common practice); the minor
-// seventh as 9/5, a pure minor third above the fifth; the harmonic seventh 7/4
-// on request; diminished and augmented fifths as two stacked thirds.
+// seventh at the ratio --seventh chooses, 16/9 unless it says otherwise (the
+// same for a declared chord as for a heard one: interface contract, --chords);
+// the harmonic seventh 7/4 on request; diminished and augmented fifths as two
+// stacked thirds.
 var (
 	majThird = chordTone{4, 5.0 / 4, "5/4"}
 	minThird = chordTone{-3, 6.0 / 5, "6/5"}
 	fifth    = chordTone{1, 3.0 / 2, "3/2"}
 	dimFifth = chordTone{-6, 36.0 / 25, "36/25"}
 	augFifth = chordTone{8, 25.0 / 16, "25/16"}
-	minSev   = chordTone{-2, 9.0 / 5, "9/5"}
+	minSev   = chordTone{-2, 0, ""} // ratio 0: the chosen seventh (just)
 	harmSev  = chordTone{-2, 7.0 / 4, "7/4"}
 	majSev   = chordTone{5, 15.0 / 8, "15/8"}
 )
@@ -60,6 +62,9 @@ var qualityAliases = map[string]string{
 type Chord struct {
 	Root    Note
 	Quality Quality
+	// Seventh is the just ratio of the minor seventh of qualities 7 and m7
+	// (ParseSeventh); 0 means DefaultSeventh. harmonic7 keeps 7/4.
+	Seventh float64
 }
 
 // ChordMember is one note of a chord with the ratio it sits at above the root.
@@ -71,7 +76,8 @@ type ChordMember struct {
 
 // ParseChord reads a chord: a root and a quality, as "D major", "D", "F#m",
 // "G7", "G harmonic7", "Bb maj7", "B dim", "C aug". Qualities: major, minor,
-// diminished, augmented, 7 (minor seventh 9/5), harmonic7 (7/4), m7, maj7.
+// diminished, augmented, 7 and m7 (minor seventh at the Seventh ratio),
+// harmonic7 (7/4), maj7.
 func ParseChord(s string) (*Chord, error) {
 	root, rest, err := parseName(s)
 	if err != nil {
@@ -97,7 +103,8 @@ func (c Chord) Members() []ChordMember {
 	r.Octave = 4
 	out := []ChordMember{{Note: r, Ratio: 1, Fraction: "1/1"}}
 	for _, t := range c.Quality.members {
-		out = append(out, ChordMember{Note: noteAt(r.Fifths()+t.fifths, 4), Ratio: t.ratio, Fraction: t.fraction})
+		ratio, fraction := t.just(c.Seventh)
+		out = append(out, ChordMember{Note: noteAt(r.Fifths()+t.fifths, 4), Ratio: ratio, Fraction: fraction})
 	}
 	return out
 }
@@ -111,7 +118,7 @@ func (c Chord) rootOf(n Note) (root Note, ratio float64, ok bool) {
 		if i < 0 {
 			return Note{}, 0, false
 		}
-		ratio = c.Quality.members[i].ratio
+		ratio, _ = c.Quality.members[i].just(c.Seventh)
 	}
 	root = c.Root
 	root.Octave = n.Octave

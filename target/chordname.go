@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"strconv"
 	"strings"
 )
 
@@ -30,6 +31,23 @@ var sevenths = map[string]float64{"16/9": 16.0 / 9, "9/5": 9.0 / 5, "7/4": 7.0 /
 // DefaultSeventh is the minor seventh's just ratio unless --seventh says otherwise.
 const DefaultSeventh = 16.0 / 9
 
+// just is the tone's ratio and fraction above the root, with seventh (0:
+// DefaultSeventh) for the minor seventh, whose ratio is chosen.
+func (t chordTone) just(seventh float64) (float64, string) {
+	if t.ratio != 0 {
+		return t.ratio, t.fraction
+	}
+	if seventh == 0 {
+		seventh = DefaultSeventh
+	}
+	for f, r := range sevenths {
+		if r == seventh {
+			return r, f
+		}
+	}
+	return seventh, strconv.FormatFloat(seventh, 'g', 6, 64)
+}
+
 // ParseSeventh reads a --seventh value: 7/4, 9/5 or 16/9.
 func ParseSeventh(s string) (float64, error) {
 	if r, ok := sevenths[strings.TrimSpace(s)]; ok {
@@ -39,8 +57,8 @@ func ParseSeventh(s string) (float64, error) {
 }
 
 // shapeTone is a chord member: its role and its spelled interval and just
-// ratio above the root (chordTone, shared with declared chords). A ratio of 0
-// stands for the minor seventh, whose ratio the caller chooses.
+// ratio above the root (chordTone, shared with declared chords; the minor
+// seventh's ratio is the one the caller chooses).
 type shapeTone struct {
 	role string
 	tone chordTone
@@ -59,7 +77,7 @@ var (
 	hP5   = shapeTone{RoleFifth, fifth}
 	hDim5 = shapeTone{RoleFifth, dimFifth}
 	hAug5 = shapeTone{RoleFifth, augFifth}
-	hMin7 = shapeTone{RoleSeventh, chordTone{-2, 0, ""}}
+	hMin7 = shapeTone{RoleSeventh, minSev}
 	hMaj7 = shapeTone{RoleSeventh, majSev}
 	hDim7 = shapeTone{RoleSeventh, chordTone{-9, 216.0 / 125, "216/125"}} // three pure minor thirds, as dimFifth is two (common practice)
 )
@@ -200,10 +218,7 @@ func (t Tuning) readMembers(sh chordShape, r Note, hz []float64, pcs []int, seve
 			return noteAt(r.Fifths()+st.tone.fifths, 4).PitchClass() == pcs[i]
 		})]
 		n := t.nearestOctave(noteAt(r.Fifths()+st.tone.fifths, 4), f)
-		ratio := st.tone.ratio
-		if ratio == 0 {
-			ratio = seventh
-		}
+		ratio, _ := st.tone.just(seventh)
 		just := Cents(f / (rootHz * ratio))
 		just -= 1200 * math.Round(just/1200)
 		c.Members = append(c.Members, HeardMember{Index: i, Role: st.role, Note: n, Hz: f,
