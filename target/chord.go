@@ -97,6 +97,18 @@ func ParseChord(s string) (*Chord, error) {
 // String formats the chord as "D major".
 func (c Chord) String() string { return c.Root.Name() + " " + c.Quality.Name }
 
+// SeventhFraction is the chord's minor seventh as a fraction ("16/9"), ""
+// when its quality has none whose ratio is chosen (harmonic7's is 7/4).
+func (c Chord) SeventhFraction() string {
+	for _, t := range c.Quality.members {
+		if t.ratio == 0 {
+			_, f := t.just(c.Seventh)
+			return f
+		}
+	}
+	return ""
+}
+
 // Members lists the chord's notes from the root, spelled (octave 4).
 func (c Chord) Members() []ChordMember {
 	r := c.Root

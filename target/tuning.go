@@ -190,6 +190,9 @@ func (t Tuning) String() string {
 	}
 	if t.Chord != nil {
 		s += " · chord " + t.Chord.String()
+		if f := t.Chord.SeventhFraction(); f != "" {
+			s += " (seventh " + f + ")"
+		}
 	}
 	if !t.Transpose.IsConcert() {
 		s += " · written for an instrument in " + t.Transpose.Name

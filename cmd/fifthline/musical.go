@@ -14,7 +14,7 @@ import (
 // musicalFlags are the contract's flags for every command that reads or plays
 // notes, plus our extensions.
 type musicalFlags struct {
-	key, temperament, a4, anchor, chord, transpose string
+	key, temperament, a4, anchor, chord, seventh, transpose string
 
 	fs           *flag.FlagSet     // to tell given flags from defaults (config.go)
 	origin       map[string]string // where each value came from (config.go)
@@ -27,7 +27,8 @@ func addMusicalFlags(fs *flag.FlagSet) *musicalFlags {
 	fs.StringVar(&m.temperament, "temperament", "equal", "equal, pythagorean, meantone:P/Q, fifth:CENTS, edo:N, werckmeister3, kirnberger3, vallotti, young, just, or a temperament file (names as the meter shows them work too: \"Werckmeister III\", \"quarter-comma\", \"31-EDO\")")
 	fs.StringVar(&m.a4, "a4", "440", "reference pitch in Hz (380-480): A4 sits exactly here, except in just, which keeps its tonic where equal temperament puts it")
 	fs.StringVar(&m.anchor, "anchor", "", "which note the reference fixes: a4, or tonic (kept where equal temperament puts it); default a4, tonic in just")
-	fs.StringVar(&m.chord, "chord", "", "a held chord whose members are tuned just above its root, e.g. \"D major\", \"G harmonic7\"")
+	fs.StringVar(&m.chord, "chord", "", "a held chord whose members are tuned just above its root, e.g. \"D major\", \"G harmonic7\"; a 7 or m7 chord's minor seventh at --seventh")
+	addSeventhFlag(fs, &m.seventh)
 	fs.StringVar(&m.transpose, "transpose", "", "show written pitch for a transposing instrument: the note a written C4 sounds, e.g. Bb, A, F, Eb, Eb4, Bb2")
 	return m
 }
@@ -51,15 +52,32 @@ func (m *musicalFlags) tuning() (target.Tuning, error) {
 	if t.Anchor, err = target.ParseAnchor(m.anchor); err != nil {
 		return t, usageError{"--anchor: " + err.Error()}
 	}
+	// One minor seventh for the declared chord and the heard ones: "" (a
+	// tuning set in code) is the default, as the flag's is.
+	seventh := target.DefaultSeventh
+	if m.seventh != "" {
+		if seventh, err = target.ParseSeventh(m.seventh); err != nil {
+			return t, usageError{err.Error()}
+		}
+	}
 	if m.chord != "" {
 		if t.Chord, err = target.ParseChord(m.chord); err != nil {
 			return t, usageError{"--chord: " + err.Error()}
 		}
+		t.Chord.Seventh = seventh
 	}
 	if t.Transpose, err = target.ParseTransposition(m.transpose); err != nil {
 		return t, usageError{err.Error()}
 	}
 	return t, nil
+}
+
+// addSeventhFlag defines --seventh, the minor seventh's just ratio for a
+// declared chord and for the chords heard (--chords), once per flag set.
+func addSeventhFlag(fs *flag.FlagSet, value *string) {
+	if fs.Lookup("seventh") == nil {
+		fs.StringVar(value, "seventh", "16/9", "the just ratio of a chord's minor seventh, declared (--chord) or heard (--chords): 7/4, 9/5 or 16/9")
+	}
 }
 
 // parseTemperament reads a named temperament, or a temperament file when the

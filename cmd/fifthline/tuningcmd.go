@@ -26,6 +26,9 @@ func runTuning(e *env, args []string) error {
 	if mf.chord != "" && *save {
 		return usagef("--chord changes with the music and is not saved; leave it out of tuning --save")
 	}
+	if wasSet(fs, "seventh") && *save {
+		return usagef("--seventh goes with the chords and is not saved; leave it out of tuning --save")
+	}
 	tu, err := mf.tuning()
 	if err != nil {
 		return err
@@ -103,6 +106,13 @@ func printTuning(e *env, mf *musicalFlags, tu target.Tuning) error {
 	}
 	if mf.chord != "" {
 		fmt.Fprintf(tw, "chord\t%s\t%s\t\n", mf.chord, fromFlag)
+		if f := tu.Chord.SeventhFraction(); f != "" {
+			from := fromDefault
+			if wasSet(mf.fs, "seventh") {
+				from = fromFlag
+			}
+			fmt.Fprintf(tw, "seventh\t%s\t%s\t\n", f, from)
+		}
 	}
 	return tw.Flush()
 }

@@ -34,9 +34,7 @@ func addVoiceFlags(fs *flag.FlagSet) *voiceFlags {
 	if fs.Lookup("chords") == nil {
 		fs.Bool("chords", false, "with --voices or --players: one row per member of each held chord instead of notes")
 	}
-	if fs.Lookup("seventh") == nil {
-		fs.String("seventh", "16/9", "the just ratio a chord's minor seventh is read against: 7/4, 9/5 or 16/9")
-	}
+	addSeventhFlag(fs, new(string))
 	return vf
 }
 
