@@ -2,7 +2,11 @@ package main
 
 import (
 	"math"
+	"os"
+	"path/filepath"
+	"regexp"
 	"strconv"
+	"strings"
 	"testing"
 )
 
@@ -84,4 +88,27 @@ func hzOf(t *testing.T, csv, note string) float64 {
 		t.Fatalf("%s's hz: %v\n%s", note, err, csv)
 	}
 	return hz
+}
+
+// --seventh is a musical flag now: a ratio it does not take is a usage
+// error, one line, exit 2 (interface contract, bad values), on every
+// command that has --chord, before anything sounds or is read; the one-line
+// tuning names the seventh a declared chord is tuned to, and tuning --save
+// keeps it out of the folder's file as it keeps --chord.
+func TestChordSeventhFlagEverywhere(t *testing.T) {
+	t.Parallel()
+	for _, cmd := range [][]string{{"targets"}, {"keyboard"}, {"tuning"}, {"drone"}, {"demo"}, {"listen", "--plain"}, {"analyze", "x.wav"}} {
+		code, _, stderr := runCLI(t, append(cmd, "--chord", "G 7", "--seventh", "3/2")...)
+		checkError(t, code, 2, stderr)
+	}
+	code, out, stderr := runCLI(t, "tuning", "--chord", "G dominant seventh", "--seventh", "9/5")
+	if code != 0 || !strings.Contains(out, "chord G 7 (seventh 9/5)") || !regexp.MustCompile(`(?m)^seventh +9/5 +flag`).MatchString(out) {
+		t.Errorf("tuning with a G dominant seventh at 9/5: exit %d, %s\n%s", code, stderr, out)
+	}
+	dir, config := t.TempDir(), t.TempDir()
+	code, _, stderr = inFolder(t, dir, config, "tuning", "--save", "--key", "D major", "--seventh", "9/5")
+	checkError(t, code, 2, stderr)
+	if _, err := os.Stat(filepath.Join(dir, "fifthline.toml")); err == nil {
+		t.Errorf("tuning --save --seventh wrote a tuning file")
+	}
 }

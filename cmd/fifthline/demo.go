@@ -53,7 +53,8 @@ func runDemo(e *env, args []string) error {
 	defer restore()
 	opts := session.Options{Name: "demo", Tunings: session.NewTunings(tu)}
 	if *group {
-		err = playersMeter(e.ctx, newConsort(score), opts.Tunings, consortPlayers(), j, meterSource{name: "the demo consort", journal: jf.log, ascii: *ascii})
+		seventh, _ := mf.seventhRatio() // tuning() has checked it
+		err = playersMeter(e.ctx, newConsort(score), opts.Tunings, consortPlayers(seventh), j, meterSource{name: "the demo consort", journal: jf.log, ascii: *ascii})
 	} else {
 		src := capture.NewPerformance(demoRate, demoScoreTones(score), true)
 		err = runMeter(e.ctx, src, opts, j, meterSource{name: "the demo performance", journal: jf.log, sound: newMeterSound(sf), ascii: *ascii})

@@ -42,10 +42,11 @@ var consortParts = [][]scoreNote{
 	},
 }
 
-// consortPlayers are the consort's players, one a channel.
-func consortPlayers() playerOptions {
+// consortPlayers are the consort's players, one a channel, their chords'
+// sevenths read against seventh (--seventh).
+func consortPlayers(seventh float64) playerOptions {
 	names := []string{"bass", "tenor", "alto", "treble"}
-	po := playerOptions{seventh: target.DefaultSeventh}
+	po := playerOptions{seventh: seventh}
 	for i, n := range names {
 		po.players = append(po.players, ensemble.Player{Name: n, Channel: i})
 	}

@@ -52,13 +52,9 @@ func (m *musicalFlags) tuning() (target.Tuning, error) {
 	if t.Anchor, err = target.ParseAnchor(m.anchor); err != nil {
 		return t, usageError{"--anchor: " + err.Error()}
 	}
-	// One minor seventh for the declared chord and the heard ones: "" (a
-	// tuning set in code) is the default, as the flag's is.
-	seventh := target.DefaultSeventh
-	if m.seventh != "" {
-		if seventh, err = target.ParseSeventh(m.seventh); err != nil {
-			return t, usageError{err.Error()}
-		}
+	seventh, err := m.seventhRatio()
+	if err != nil {
+		return t, err
 	}
 	if m.chord != "" {
 		if t.Chord, err = target.ParseChord(m.chord); err != nil {
@@ -70,6 +66,19 @@ func (m *musicalFlags) tuning() (target.Tuning, error) {
 		return t, usageError{err.Error()}
 	}
 	return t, nil
+}
+
+// seventhRatio is --seventh's ratio, one for the declared chord and the
+// heard ones; "" (flags set in code) is the default, as the flag's is.
+func (m *musicalFlags) seventhRatio() (float64, error) {
+	if m.seventh == "" {
+		return target.DefaultSeventh, nil
+	}
+	r, err := target.ParseSeventh(m.seventh)
+	if err != nil {
+		return 0, usageError{err.Error()}
+	}
+	return r, nil
 }
 
 // addSeventhFlag defines --seventh, the minor seventh's just ratio for a
