@@ -1,6 +1,9 @@
 package target
 
-import "testing"
+import (
+	"strings"
+	"testing"
+)
 
 // One minor seventh: a declared chord of quality 7 or m7 tunes its seventh
 // to the ratio the chords heard are read against (interface contract,
@@ -36,6 +39,15 @@ func TestDeclaredChordSeventhIsTheHeardOne(t *testing.T) {
 			tu.TargetPitch(note(t, tc.at))-tu.TemperedPitch(note(t, tc.root)), tc.cents, tol)
 		if m := c.Members()[3]; m.Fraction != tc.fraction {
 			t.Errorf("%s with seventh %v: member %s at %s, want %s", tc.chord, tc.seventh, m.Note, m.Fraction, tc.fraction)
+		}
+		// The one-line tuning says which seventh, but not for harmonic7,
+		// whose 7/4 its name says.
+		want := " · chord " + c.String() + " (seventh " + tc.fraction + ")"
+		if c.Quality.Name == "harmonic7" {
+			want = " · chord G harmonic7"
+		}
+		if !strings.HasSuffix(tu.String(), want) {
+			t.Errorf("tuning %q, want it to end %q", tu.String(), want)
 		}
 	}
 	// The heard G dominant seventh under the same seventh reads the
