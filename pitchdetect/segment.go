@@ -32,6 +32,7 @@ type Segmenter struct {
 	Window     float64 // seconds of signal behind each estimate (Detector.Span / rate)
 	JumpCents  float64 // a sustained step larger than this starts a new note
 	StepCents  float64 // and so does a smaller one this large that holds (step.go); 0: none
+	StepHold   float64 // seconds each side of such a step holds
 	MaxGap     int     // unvoiced frames with a falling level bridged inside a note
 	MaxDropout int     // unvoiced frames at the note's level bridged inside a note
 	MinFrames  int     // shorter notes are dropped as blips
@@ -76,6 +77,7 @@ func NewSegmenter(hopSeconds float64) *Segmenter {
 		Window:     9 * hopSeconds, // the default span is 9 hops
 		JumpCents:  50,
 		StepCents:  stepCents,
+		StepHold:   stepHoldSeconds,
 		MaxGap:     2,
 		MaxDropout: 12,
 		MinFrames:  4,
