@@ -34,9 +34,9 @@ const (
 	// correction is the same note better tuned — and below the lesser
 	// diesis.
 	stepCents = 25.0
-	// stepHoldSeconds is longer than half the cycle of the slowest
-	// vibrato (vibratoMinRate: 0.17 s), so no crest or trough of one
-	// holds that long, and than the bassoon's attack above (held 0.2 s,
+	// stepHoldSeconds (StepHold by default) is longer than half the
+	// cycle of the slowest vibrato (vibratoMinRate: 0.17 s), so no crest
+	// or trough of one holds that long on frames a few ms apart, and than the bassoon's attack above (held 0.2 s,
 	// its step read 20–22 ¢: measured).
 	stepHoldSeconds = 0.25
 	// stepSteadyCents: within it, the winds' and the voices' held notes
@@ -52,7 +52,7 @@ const (
 // heldStep is the index of the first of the open note's frames that
 // begins a note of its own after a held step, or 0 if its frames end in
 // none. It is asked on every frame, so it judges only a steady stretch just
-// formed: one whose last stepHoldSeconds of frames are steady and whose
+// formed: one whose last StepHold seconds of frames are steady and whose
 // frame before is not part of it (a steady note held on costs a glance at
 // its recent frames).
 func (s *Segmenter) heldStep() int {
@@ -75,20 +75,21 @@ func (s *Segmenter) heldStep() int {
 }
 
 // heldSince finds whether the open note's frames up to its end-th
-// (exclusive) end in a held stretch: those within stepHoldSeconds of the
+// (exclusive) end in a held stretch: those within StepHold seconds of the
 // last, spanning that long, within stepSteadyCents of their median. It
 // returns the first one's index and the median, in cents from ref.
 func (s *Segmenter) heldSince(end int, ref float64) (first int, median float64, ok bool) {
 	fr := s.frames[:end]
 	last := fr[end-1].Time
-	if fr[0].Time > last-stepHoldSeconds {
+	hold := s.StepHold
+	if fr[0].Time > last-hold {
 		return 0, 0, false
 	}
-	i, _ := slices.BinarySearchFunc(fr, last-stepHoldSeconds, func(e Estimate, t float64) int {
+	i, _ := slices.BinarySearchFunc(fr, last-hold, func(e Estimate, t float64) int {
 		return cmp.Compare(e.Time, t)
 	})
 	// Unvoiced frames are not kept: too few left is no stretch held.
-	if float64(end-i)*s.Hop < stepHoldSeconds/2 || end-i < 3 {
+	if float64(end-i)*s.Hop < hold/2 || end-i < 3 {
 		return 0, 0, false
 	}
 	lo, hi := math.Inf(1), math.Inf(-1)
