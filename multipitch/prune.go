@@ -56,6 +56,7 @@ func (e *Estimator) prune() {
 			}
 		}
 	}
+	e.dropHollow()
 }
 
 // settle fits the voices kept afresh from their lowest partials up, with

@@ -1,0 +1,76 @@
+package multipitch
+
+import "math"
+
+// A voice far under another can take what a vibrato smears of the other's
+// partials: a lone violin's D5 swinging ±13 ¢ over the window leaves its
+// trough's partials beside the crest's the fit reads, and a voice a tenth
+// of the trough (B♭1, its 10th, 20th, … partials on them) explains them
+// better than the bar asks, while the twin of the trough would merge with
+// the crest (measured on FluidR3's violin at 48 kHz: 31 % of the window's
+// energy). Its own fundamental and low partials make no peak: nothing of it
+// sounds that a higher voice does not explain. Klapuri's iterative
+// estimation prefers the higher candidate there, since its salience weighs
+// a candidate's partial k by (f+α)/(k·f+β) and the subharmonic's lie at
+// high k (A. Klapuri, "Multiple fundamental frequency estimation by summing
+// harmonic amplitudes", ISMIR 2006, from memory); the joint fit weighs all
+// partials alike, so the prune asks the spectrum instead.
+
+// hollowMin is how many of a voice's partials must lie under the voice
+// above it for their silence to tell: a voice that far under another is
+// judged (a close voice above leaves too little of it its own).
+const hollowMin = 3
+
+// hollowShare is the share of a voice's fitted power its partials under
+// the voice above must hold for it to be a voice: a hundredth (20 dB).
+const hollowShare = 0.01
+
+// hollow reports whether voice v lies hollowMin partials or more under the
+// lowest voice above it and its partials below that voice hold under
+// hollowShare of its fitted power: it sounds nothing a higher voice does
+// not explain. A real low voice sounds its fundamental or its low partials
+// (a bassoon's weak fundamental has its 2nd to 5th partials).
+func (e *Estimator) hollow(v int) bool {
+	hz := e.f0[v]
+	above := math.Inf(1)
+	for _, g := range e.f0 {
+		if g > hz && math.Abs(cents(g, hz)) >= twinCents {
+			above = min(above, g)
+		}
+	}
+	if math.IsInf(above, 1) || above < hollowMin*hz*1.03 {
+		return false
+	}
+	own, all := 0.0, 0.0
+	for k, a := range e.partialAmps(v) {
+		all += power(a)
+		if float64(k)*hz < above/1.03 {
+			own += power(a)
+		}
+	}
+	return own < hollowShare*all
+}
+
+// dropHollow drops the hollow voices, the lowest first and one at a time
+// (the next is judged without it), and fits the rest afresh.
+func (e *Estimator) dropHollow() {
+	dropped := false
+	for {
+		low := -1
+		for v, hz := range e.f0 {
+			if (low < 0 || hz < e.f0[low]) && e.hollow(v) && !e.heldOwn(hz) {
+				low = v
+			}
+		}
+		if low < 0 {
+			break
+		}
+		e.remove(low)
+		dropped = true
+	}
+	if dropped {
+		e.settle()
+		e.fitter.build(e.f0, e.fitter.maxK, -1)
+		e.fitter.solve()
+	}
+}
