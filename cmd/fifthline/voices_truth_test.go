@@ -191,11 +191,17 @@ func monoSum(t *testing.T, wav, mono string) {
 // reverb and chorus off, and returns the WAV's path.
 func renderMIDI(t *testing.T, dir, name string, mid []byte) string {
 	t.Helper()
+	return renderMIDIAt(t, dir, name, mid, 44100)
+}
+
+// renderMIDIAt is renderMIDI at another sample rate (Hz).
+func renderMIDIAt(t *testing.T, dir, name string, mid []byte, rate int) string {
+	t.Helper()
 	midPath, wav := filepath.Join(dir, name+".mid"), filepath.Join(dir, name+".wav")
 	if err := os.WriteFile(midPath, mid, 0o644); err != nil {
 		t.Fatal(err)
 	}
-	if out, err := exec.Command("fluidsynth", "-ni", "-q", "-R", "0", "-C", "0", "-g", "0.5", "-r", "44100", "-F", wav, fluidSoundfont, midPath).CombinedOutput(); err != nil {
+	if out, err := exec.Command("fluidsynth", "-ni", "-q", "-R", "0", "-C", "0", "-g", "0.5", "-r", strconv.Itoa(rate), "-F", wav, fluidSoundfont, midPath).CombinedOutput(); err != nil {
 		t.Fatalf("fluidsynth: %v\n%s", err, out)
 	}
 	return wav
