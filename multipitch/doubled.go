@@ -209,7 +209,12 @@ func (e *Estimator) loneEven(v int) bool {
 // partial (the fit splits such a partial's power between the voices), and
 // whether it stands 15 dB above the noise floor at the kernel's peak, n/2.
 func (e *Estimator) partialPowers(v int) (pow []float64, shared, audible func(k int) bool) {
-	amp := e.partialAmps(v)
+	return e.powersOf(v, e.partialAmps(v))
+}
+
+// powersOf is partialPowers for voice v's partial amplitudes amp, already
+// taken from the last solve (partialAmps).
+func (e *Estimator) powersOf(v int, amp []complex128) (pow []float64, shared, audible func(k int) bool) {
 	pow = make([]float64, len(amp))
 	for k, a := range amp {
 		pow[k] = real(a)*real(a) + imag(a)*imag(a)

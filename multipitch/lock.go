@@ -65,7 +65,7 @@ func (e *Estimator) followLocks() {
 		l.hz, l.seen = hz, true
 		e.lockOf = append(e.lockOf, i)
 		amp := e.partialAmps(v)
-		_, _, audible := e.partialPowers(v)
+		_, _, audible := e.powersOf(v, amp)
 		for k := 2; k <= lockTop && k+2 < len(amp); k++ {
 			l.sum[k] *= lockDecay
 			l.weight[k] *= lockDecay
