@@ -62,6 +62,17 @@ func (d *Detector) keepPeaks(at float64) {
 	}
 }
 
+// mayReread reports whether the frame at time at may yet be read again,
+// so that an unvoiced frame needs its spectra only then. The segmenter
+// reads again only frames after the last frame of a note (a voiced one)
+// and before the first of the note after the quick note slurred from it,
+// which lie under 2·turningSeconds apart (spanHz); a hop is added for
+// the frame times' rounding. Elsewhere (silence with noise, a resting
+// player's channel) a frame the NSDF finds no pitch in costs no FFT.
+func (d *Detector) mayReread(at float64) bool {
+	return at-d.voicedAt < 2*turningSeconds+float64(d.hop)/d.fs
+}
+
 // forgetPeaks records the frame just analysed as holding no peaks.
 func (d *Detector) forgetPeaks(at float64) {
 	if d.peaks != nil {
