@@ -99,6 +99,12 @@ type Estimator struct {
 	// The voices' phase relations over frames: see lock.go.
 	locks  []lockTrack
 	lockOf []int // per voice of the last solve, its track
+	// One voice's partial amplitudes and powers and its partials' ratios
+	// to their envelope (lock.go, doubled.go): scratch, each good until
+	// the next call.
+	amps   []complex128
+	pows   []float64
+	ratios []partialRatio
 
 	// The voices followed (follow.go): heard lately (the whole stream's
 	// estimator), the one kept in this frame (0: none); rescued: kept
