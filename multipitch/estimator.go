@@ -261,12 +261,13 @@ func (e *Estimator) Analyze(x []float64, dst []Voice) []Voice {
 
 	e.f0 = e.f0[:0]
 	e.search.whiten(e.spec)
+	e.search.admit(e.cfg.Accept)
 	first := 0.0
 	// Two candidates more than the voices asked for: a partial of a loud
 	// voice can outweigh a quiet low voice's candidate, and the joint fit
 	// tells them apart.
 	for try := 0; len(e.f0) < e.cfg.MaxVoices+2 && try < 2*e.cfg.MaxVoices+4; try++ {
-		f, s := e.search.next(e.cfg.Accept)
+		f, s := e.search.next()
 		if f == 0 || s < minSalience*first {
 			break
 		}
