@@ -119,7 +119,9 @@ type Estimator struct {
 	steady  bool
 	cands   []float64
 	without []float64
-	level   float64 // dBFS: the window read last
+	dropped []float64 // and what that prune dropped
+	spare   *fitter   // keep's prune fits here, the prune without it kept
+	level   float64   // dBFS: the window read last
 }
 
 // New returns an Estimator for the sample rate with window and hop in

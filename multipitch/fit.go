@@ -75,6 +75,15 @@ func newFitter(n int, binHz, ceilHz float64, maxK int) *fitter {
 	return f
 }
 
+// sibling is a fitter of the same spectrum, kernel and range, with a state
+// of its own.
+func (f *fitter) sibling() *fitter {
+	s := &fitter{kern: f.kern, binHz: f.binHz, ceilHz: f.ceilHz, maxK: f.maxK, judged: -1, spec: f.spec}
+	s.model = make([]complex128, len(f.model))
+	s.mark = make([]int, len(f.mark))
+	return s
+}
+
 // build lays out the columns for the fundamentals f0, partials up to kcap
 // (and the ceiling), voice skip left out of the model but not its bins.
 func (f *fitter) build(f0 []float64, kcap int, skip int) {
