@@ -121,6 +121,7 @@ type Estimator struct {
 	without []float64
 	dropped []float64 // and what that prune dropped
 	spare   *fitter   // keep's prune fits here, the prune without it kept
+	capped  bool      // that prune dropped a voice over the voices cap
 	level   float64   // dBFS: the window read last
 }
 
@@ -288,7 +289,7 @@ func (e *Estimator) Analyze(x []float64, dst []Voice) []Voice {
 	}
 	follow := e.toFollow()
 	e.cands = append(e.cands[:0], e.f0...)
-	e.kept, e.rescued = 0, false
+	e.kept, e.rescued, e.capped = 0, false, false
 	e.drop = e.drop[:0]
 	e.prune()
 	if follow > 0 && !slices.ContainsFunc(e.f0, near(follow)) {

@@ -134,6 +134,13 @@ func (e *Estimator) keep(hz float64) {
 		e.f0 = append(e.f0, hz)
 	}
 	e.kept, e.rescued = hz, true
+	if !e.added && !e.steady && !e.capped {
+		// Held to the bar as the prune without it held it, and no voice
+		// over the cap to weigh it against: that prune would come out
+		// again as it did, without it. It stands.
+		e.f0 = append(e.f0[:0], e.without...)
+		return
+	}
 	e.dropped = append(e.dropped[:0], e.drop...)
 	e.drop = e.drop[:0]
 	e.swapFit()
