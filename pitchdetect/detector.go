@@ -97,6 +97,7 @@ type Detector struct {
 	ends      [2]float64  // this span's oldest and newest eighths' mean power (entry.go)
 	peaks     []peakFrame // the last frames' spectral peaks, a ring (reread.go)
 	voicedAt  float64     // the last voiced frame's time, -Inf before one (reread.go)
+	noReread  bool        // no frame will be read again (NoReread)
 }
 
 // New returns a Detector for the sample rate with the given window and hop

@@ -38,6 +38,9 @@ type peakFrame struct {
 // keepPeaks records the strongest peaks of the frame just analysed (its
 // spectra computed) under its time.
 func (d *Detector) keepPeaks(at float64) {
+	if d.noReread {
+		return
+	}
 	if d.peaks == nil {
 		d.peaks = make([]peakFrame, int(math.Ceil(peakSeconds*d.fs/float64(d.hop))))
 	}
@@ -70,8 +73,13 @@ func (d *Detector) keepPeaks(at float64) {
 // the frame times' rounding. Elsewhere (silence with noise, a resting
 // player's channel) a frame the NSDF finds no pitch in costs no FFT.
 func (d *Detector) mayReread(at float64) bool {
-	return at-d.voicedAt < 2*turningSeconds+float64(d.hop)/d.fs
+	return !d.noReread && at-d.voicedAt < 2*turningSeconds+float64(d.hop)/d.fs
 }
+
+// NoReread tells the detector that none of its frames will be read again
+// (its segmenter has no Reread): it keeps no frame's spectral peaks, and a
+// frame with no pitch takes no spectra. Its estimates are the same.
+func (d *Detector) NoReread() { d.noReread = true }
 
 // forgetPeaks records the frame just analysed as holding no peaks.
 func (d *Detector) forgetPeaks(at float64) {
