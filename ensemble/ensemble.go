@@ -126,6 +126,7 @@ func Run(ctx context.Context, src source.Multi, opt Options) error {
 		if err != nil {
 			return err
 		}
+		det.NoReread() // its segmenter reads no frame again
 		low, err := newLowBand(det)
 		if err != nil {
 			return err

@@ -53,6 +53,7 @@ func newLowBand(det *pitchdetect.Detector) (*lowBand, error) {
 	if err != nil {
 		return nil, err
 	}
+	d.NoReread()
 	n := det.Window() + d.Span()
 	return &lowBand{ring: make([]float64, n), pre: det.Window(), lin: make([]float64, n),
 		x32: make([]float32, d.Span()), det: d}, nil

@@ -1,10 +1,6 @@
 package multipitch
 
-import (
-	"cmp"
-	"math"
-	"slices"
-)
+import "math"
 
 // The fit's normal equations are banded once the columns are taken in the
 // order of their bins: two columns meet only where their 2·support+1 bins
@@ -22,6 +18,7 @@ type bandChol struct {
 	first []int     // per position: the first position its row reaches
 	width int       // the most positions a row reaches below the diagonal
 	l     []float64 // row r, position q ≥ first[r]: l[r*(width+1)+width-(r-q)]
+	merge []int     // scratch for byFirstBin
 }
 
 // order lays the positions out for cols (by first bin) and sizes the factor.
@@ -31,7 +28,7 @@ func (c *bandChol) order(cols []column) {
 	for i := range p {
 		c.ord = append(c.ord, i)
 	}
-	slices.SortStableFunc(c.ord, func(i, j int) int { return cmp.Compare(cols[i].lo, cols[j].lo) })
+	c.byFirstBin(cols)
 	c.first = c.first[:0]
 	c.width = 0
 	q := 0
@@ -43,6 +40,45 @@ func (c *bandChol) order(cols []column) {
 		c.width = max(c.width, r-q)
 	}
 	c.l = grow(c.l, p*(c.width+1))
+}
+
+// byFirstBin orders c.ord (the columns' indices) by the columns' first
+// bins, ties in index order: a stable sort, so the order is the one any
+// stable sort gives. The fit lays each voice's columns out in rising bins,
+// so it merges those runs (a natural merge sort) instead of sorting
+// afresh; a general stable sort took a tenth of a frame.
+func (c *bandChol) byFirstBin(cols []column) {
+	a := c.ord
+	c.merge = grow(c.merge, len(a))
+	b := c.merge
+	for runs := 2; runs > 1; a, b = b, a {
+		runs = 0
+		for i := 0; i < len(a); runs++ {
+			j := i + 1 // the first run is a[i:j], the second a[j:k]
+			for j < len(a) && cols[a[j-1]].lo <= cols[a[j]].lo {
+				j++
+			}
+			k := min(j+1, len(a))
+			for k < len(a) && cols[a[k-1]].lo <= cols[a[k]].lo {
+				k++
+			}
+			out, l, r := i, i, j
+			for ; l < j && r < k; out++ {
+				if cols[a[r]].lo < cols[a[l]].lo {
+					b[out], r = a[r], r+1
+				} else {
+					b[out], l = a[l], l+1
+				}
+			}
+			out += copy(b[out:], a[l:j])
+			copy(b[out:], a[r:k])
+			i = k
+		}
+	}
+	// The last pass (one run) copied it whole into what is now a.
+	if len(a) > 0 && &a[0] != &c.ord[0] {
+		copy(c.ord, a)
+	}
 }
 
 // at is the element of row r at position q (first[r] ≤ q ≤ r).

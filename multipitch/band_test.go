@@ -1,8 +1,10 @@
 package multipitch
 
 import (
+	"cmp"
 	"math"
 	"math/rand/v2"
+	"slices"
 	"testing"
 
 	"gonum.org/v1/gonum/blas"
@@ -75,5 +77,43 @@ func TestBandCholeskyRefusesIndefinite(t *testing.T) {
 	*c.at(0, 0), *c.at(1, 0), *c.at(1, 1) = 1, 2, 1 // eigenvalues 3 and -1
 	if c.factor() {
 		t.Error("factored an indefinite matrix")
+	}
+}
+
+// The columns' order is a stable sort's by first bin (ties in the order
+// build laid them out), whatever runs they come in: voices' runs as build
+// lays them, runs with ties, one column, none, and columns in no order.
+func TestColumnsAreOrderedAsAStableSortOrdersThem(t *testing.T) {
+	rng := rand.New(rand.NewPCG(5, 9))
+	for trial := range 200 {
+		var cols []column
+		switch n := rng.IntN(120); trial % 3 {
+		case 0: // voices' runs rising, with ties (broadened columns share a partial's bins)
+			for range 1 + rng.IntN(5) {
+				lo := rng.IntN(40)
+				for range n / 4 {
+					lo += rng.IntN(12)
+					cols = append(cols, column{lo: lo})
+				}
+			}
+		case 1: // no order at all, many ties
+			for range n {
+				cols = append(cols, column{lo: rng.IntN(30)})
+			}
+		default: // at most one column
+			for range n % 2 {
+				cols = append(cols, column{lo: rng.IntN(30)})
+			}
+		}
+		var c bandChol
+		c.order(cols)
+		want := make([]int, len(cols))
+		for i := range want {
+			want[i] = i
+		}
+		slices.SortStableFunc(want, func(i, j int) int { return cmp.Compare(cols[i].lo, cols[j].lo) })
+		if !slices.Equal(c.ord, want) {
+			t.Fatalf("trial %d: order %v, a stable sort's %v", trial, c.ord, want)
+		}
 	}
 }

@@ -37,6 +37,10 @@ type searcher struct {
 	runMax [][]float64
 	amps   []float64 // partial amplitudes of the voice being cancelled
 	peaks  []int
+	// admitted[i]: grid point i is a fundamental the caller accepts, asked
+	// once a frame (admit), not at every candidate's search: the caller's
+	// test (the key's spelling window) cost a quarter of a frame so.
+	admitted []bool
 }
 
 func newSearcher(bins int, binHz, ceilHz, lo, hi float64) *searcher {
@@ -164,13 +168,22 @@ func (s *searcher) peak(hz float64) (int, float64) {
 	return best, s.resid[best]
 }
 
-// next returns the most salient fundamental the caller accepts (0 when none)
-// and its salience, refined to a tenth of the grid step.
-func (s *searcher) next(accept func(float64) bool) (float64, float64) {
+// admit asks accept (nil: all) which grid points this frame's candidates
+// may lie on.
+func (s *searcher) admit(accept func(float64) bool) {
+	s.admitted = grow(s.admitted, len(s.grid))
+	for i, f := range s.grid {
+		s.admitted[i] = accept == nil || accept(f)
+	}
+}
+
+// next returns the most salient fundamental admitted (0 when none) and its
+// salience, refined to a tenth of the grid step.
+func (s *searcher) next() (float64, float64) {
 	best, bs := 0.0, 0.0
 	s.tabulate()
 	for i, f := range s.grid {
-		if accept != nil && !accept(f) {
+		if !s.admitted[i] {
 			continue
 		}
 		if v := s.gridSalience(i); v > bs {

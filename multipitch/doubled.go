@@ -83,13 +83,15 @@ type partialRatio struct {
 func (e *Estimator) evenRatios(v int) []partialRatio { return e.parityRatios(v, 2) }
 
 // parityRatios gives voice v's partials first, first+2, … up to the 21st
-// against the envelope through their neighbours of the other parity.
+// against the envelope through their neighbours of the other parity, in
+// the estimator's scratch, good until the next call.
 func (e *Estimator) parityRatios(v, first int) []partialRatio {
-	pow, shared, audible := e.partialPowers(v)
-	own := func(k int) bool { return k < len(pow) && !shared(k) && audible(k) }
-	var out []partialRatio
+	p := e.partialPowers(v)
+	pow := p.pow
+	own := func(k int) bool { return k < len(pow) && !p.shared(k) && p.audible(k) }
+	out := e.ratios[:0]
 	for k := first; k <= 21 && k+1 < len(pow); k += 2 {
-		if shared(k) {
+		if p.shared(k) {
 			continue
 		}
 		a, b := k-1, k+1
@@ -109,6 +111,7 @@ func (e *Estimator) parityRatios(v, first int) []partialRatio {
 		t := math.Log(float64(k)/float64(a)) / math.Log(float64(b)/float64(a))
 		out = append(out, partialRatio{k, pow[k] / math.Exp((1-t)*math.Log(pa)+t*math.Log(pow[b]))})
 	}
+	e.ratios = out
 	return out
 }
 
@@ -184,7 +187,8 @@ func (e *Estimator) doubled(v int) bool {
 // over the noise floor and 30 dB under the voice's strongest partial (a
 // synthetic chord's floor lies far below the window's leakage).
 func (e *Estimator) loneEven(v int) bool {
-	pow, shared, _ := e.partialPowers(v)
+	p := e.partialPowers(v)
+	pow := p.pow
 	half := float64(e.window) / 2
 	bar := max(30*e.floor, 1e-3*slices.Max(pow)*half*half) // spectrum power
 	silent := func(k int) bool {
@@ -197,7 +201,7 @@ func (e *Estimator) loneEven(v int) bool {
 		return true
 	}
 	for k := 2; k <= 20 && k+1 < len(pow); k += 2 {
-		if !shared(k) && pow[k]*half*half > doubleGain*bar && silent(k-1) && silent(k+1) {
+		if !p.shared(k) && pow[k]*half*half > doubleGain*bar && silent(k-1) && silent(k+1) {
 			return true
 		}
 	}
@@ -208,29 +212,47 @@ func (e *Estimator) loneEven(v int) bool {
 // (index k), whether partial k lies within 1.5 bins of another voice's
 // partial (the fit splits such a partial's power between the voices), and
 // whether it stands 15 dB above the noise floor at the kernel's peak, n/2.
-func (e *Estimator) partialPowers(v int) (pow []float64, shared, audible func(k int) bool) {
+// The powers are the estimator's scratch (as partialAmps'), good until the
+// next call: this runs for every voice of every frame.
+func (e *Estimator) partialPowers(v int) voicePartials {
 	return e.powersOf(v, e.partialAmps(v))
 }
 
 // powersOf is partialPowers for voice v's partial amplitudes amp, already
 // taken from the last solve (partialAmps).
-func (e *Estimator) powersOf(v int, amp []complex128) (pow []float64, shared, audible func(k int) bool) {
-	pow = make([]float64, len(amp))
+func (e *Estimator) powersOf(v int, amp []complex128) voicePartials {
+	e.pows = grow(e.pows, len(amp))
 	for k, a := range amp {
-		pow[k] = real(a)*real(a) + imag(a)*imag(a)
+		e.pows[k] = real(a)*real(a) + imag(a)*imag(a)
 	}
-	shared = func(k int) bool {
-		hz := float64(k) * e.f0[v]
-		for u, g := range e.f0 {
-			if u != v && math.Abs(hz-g*math.Round(hz/g)) < 1.5*e.fitter.binHz {
-				return true
-			}
+	return voicePartials{e: e, v: v, pow: e.pows}
+}
+
+// voicePartials is one voice's partial powers from the last solve, with
+// what partialPowers tells of each partial (a value, not closures, so that
+// nothing is allocated per call).
+type voicePartials struct {
+	e   *Estimator
+	v   int
+	pow []float64
+}
+
+// shared: partial k lies within 1.5 bins of another voice's partial.
+func (p voicePartials) shared(k int) bool {
+	e := p.e
+	hz := float64(k) * e.f0[p.v]
+	for u, g := range e.f0 {
+		if u != p.v && math.Abs(hz-g*math.Round(hz/g)) < 1.5*e.fitter.binHz {
+			return true
 		}
-		return false
 	}
-	half := float64(e.window) / 2
-	audible = func(k int) bool { return pow[k]*half*half > 30*e.floor }
-	return pow, shared, audible
+	return false
+}
+
+// audible: partial k stands 15 dB above the noise floor.
+func (p voicePartials) audible(k int) bool {
+	half := float64(p.e.window) / 2
+	return p.pow[k]*half*half > 30*p.e.floor
 }
 
 // quadrupleExcess is how far voice v's own partials 4, 8, 12, … stand

@@ -99,6 +99,12 @@ type Estimator struct {
 	// The voices' phase relations over frames: see lock.go.
 	locks  []lockTrack
 	lockOf []int // per voice of the last solve, its track
+	// One voice's partial amplitudes and powers and its partials' ratios
+	// to their envelope (lock.go, doubled.go): scratch, each good until
+	// the next call.
+	amps   []complex128
+	pows   []float64
+	ratios []partialRatio
 
 	// The voices followed (follow.go): heard lately (the whole stream's
 	// estimator), the one kept in this frame (0: none); rescued: kept
@@ -113,7 +119,10 @@ type Estimator struct {
 	steady  bool
 	cands   []float64
 	without []float64
-	level   float64 // dBFS: the window read last
+	dropped []float64 // and what that prune dropped
+	spare   *fitter   // keep's prune fits here, the prune without it kept
+	capped  bool      // that prune dropped a voice over the voices cap
+	level   float64   // dBFS: the window read last
 }
 
 // New returns an Estimator for the sample rate with window and hop in
@@ -255,12 +264,13 @@ func (e *Estimator) Analyze(x []float64, dst []Voice) []Voice {
 
 	e.f0 = e.f0[:0]
 	e.search.whiten(e.spec)
+	e.search.admit(e.cfg.Accept)
 	first := 0.0
 	// Two candidates more than the voices asked for: a partial of a loud
 	// voice can outweigh a quiet low voice's candidate, and the joint fit
 	// tells them apart.
 	for try := 0; len(e.f0) < e.cfg.MaxVoices+2 && try < 2*e.cfg.MaxVoices+4; try++ {
-		f, s := e.search.next(e.cfg.Accept)
+		f, s := e.search.next()
 		if f == 0 || s < minSalience*first {
 			break
 		}
@@ -279,7 +289,7 @@ func (e *Estimator) Analyze(x []float64, dst []Voice) []Voice {
 	}
 	follow := e.toFollow()
 	e.cands = append(e.cands[:0], e.f0...)
-	e.kept, e.rescued = 0, false
+	e.kept, e.rescued, e.capped = 0, false, false
 	e.drop = e.drop[:0]
 	e.prune()
 	if follow > 0 && !slices.ContainsFunc(e.f0, near(follow)) {

@@ -63,6 +63,9 @@ type fitter struct {
 	gen   int
 	used  []int
 	jac   [][]complex128 // per voice, per bin
+	// The step's normal equations, nv × nv and nv: kept, as every fit of
+	// every frame takes several steps.
+	normal, grad []float64
 }
 
 func newFitter(n int, binHz, ceilHz float64, maxK int) *fitter {
@@ -70,6 +73,15 @@ func newFitter(n int, binHz, ceilHz float64, maxK int) *fitter {
 	f.model = make([]complex128, n/2+1)
 	f.mark = make([]int, n/2+1)
 	return f
+}
+
+// sibling is a fitter of the same spectrum, kernel and range, with a state
+// of its own.
+func (f *fitter) sibling() *fitter {
+	s := &fitter{kern: f.kern, binHz: f.binHz, ceilHz: f.ceilHz, maxK: f.maxK, judged: -1, spec: f.spec}
+	s.model = make([]complex128, len(f.model))
+	s.mark = make([]int, len(f.mark))
+	return s
 }
 
 // build lays out the columns for the fundamentals f0, partials up to kcap
@@ -316,7 +328,10 @@ func (f *fitter) step(f0 []float64, maxStep float64) {
 	}
 	// The normal equations of the step, nv × nv.
 	// (One pass over the bins, each sum still taken in the bins' order.)
-	h, g := make([]float64, nv*nv), make([]float64, nv)
+	f.normal, f.grad = grow(f.normal, nv*nv), grow(f.grad, nv)
+	h, g := f.normal, f.grad
+	clear(h)
+	clear(g)
 	for _, b := range f.used {
 		r := f.spec[b] - f.model[b]
 		for u := range nv {

@@ -134,18 +134,38 @@ func (e *Estimator) keep(hz float64) {
 		e.f0 = append(e.f0, hz)
 	}
 	e.kept, e.rescued = hz, true
+	if !e.added && !e.steady && !e.capped {
+		// Held to the bar as the prune without it held it, and no voice
+		// over the cap to weigh it against: that prune would come out
+		// again as it did, without it. It stands.
+		e.f0 = append(e.f0[:0], e.without...)
+		return
+	}
+	e.dropped = append(e.dropped[:0], e.drop...)
 	e.drop = e.drop[:0]
+	e.swapFit()
 	e.prune()
 	for _, g := range e.without {
 		k := math.Round(g / hz)
 		if !slices.ContainsFunc(e.f0, near(g)) && (k < 2 || math.Abs(cents(g, k*hz)) >= harmonicCents) {
-			e.f0 = append(e.f0[:0], e.cands...)
+			// The prune without it stands, as it came out: its voices,
+			// what it dropped, and its fit (pruning again gave the same).
+			e.f0 = append(e.f0[:0], e.without...)
+			e.drop = append(e.drop[:0], e.dropped...)
+			e.swapFit()
 			e.kept, e.rescued = 0, false
-			e.drop = e.drop[:0]
-			e.prune()
 			return
 		}
 	}
+}
+
+// swapFit exchanges the estimator's fit for a second one, so that keep's
+// prune leaves the fit of the prune without the voice followed as it was.
+func (e *Estimator) swapFit() {
+	if e.spare == nil {
+		e.spare = e.fitter.sibling()
+	}
+	e.fitter, e.spare = e.spare, e.fitter
 }
 
 // heldOwn: the voice at hz is the one followed, held to its own partials

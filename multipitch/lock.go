@@ -65,12 +65,12 @@ func (e *Estimator) followLocks() {
 		l.hz, l.seen = hz, true
 		e.lockOf = append(e.lockOf, i)
 		amp := e.partialAmps(v)
-		_, _, audible := e.powersOf(v, amp)
+		ps := e.powersOf(v, amp)
 		for k := 2; k <= lockTop && k+2 < len(amp); k++ {
 			l.sum[k] *= lockDecay
 			l.weight[k] *= lockDecay
 			d := 1 + k%2
-			if k-d < 1 || !audible(k) || !audible(k-d) || !audible(k+d) {
+			if k-d < 1 || !ps.audible(k) || !ps.audible(k-d) || !ps.audible(k+d) {
 				continue
 			}
 			p := amp[k] * amp[k] * cmplx.Conj(amp[k-d]) * cmplx.Conj(amp[k+d])
@@ -99,9 +99,11 @@ func (e *Estimator) followLocks() {
 }
 
 // partialAmps gives voice v's fitted complex amplitudes from the last
-// solve (index k).
+// solve (index k), in the estimator's scratch, good until the next call.
 func (e *Estimator) partialAmps(v int) []complex128 {
-	amp := make([]complex128, maxPartials+2)
+	amp := grow(e.amps, maxPartials+2)
+	clear(amp)
+	e.amps = amp
 	for i, a := range e.fitter.amp {
 		if c := e.fitter.cols[i]; c.voice == v && !c.broad {
 			amp[c.k] = a

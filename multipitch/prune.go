@@ -123,6 +123,7 @@ func (e *Estimator) dropShort(steps []int, only func(hz float64) bool, share flo
 			// which takes its energy from the voice's smeared partials —
 			// the rendered choir lost a part and gained a phantom.)
 			worst = len(e.f0) - 1
+			e.capped = true
 			if worst > 0 && e.isKept(e.f0[worst]) {
 				worst-- // not the low voice followed (follow.go)
 			}

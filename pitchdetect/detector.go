@@ -96,6 +96,8 @@ type Detector struct {
 	frameNo   int         // frames since Reset
 	ends      [2]float64  // this span's oldest and newest eighths' mean power (entry.go)
 	peaks     []peakFrame // the last frames' spectral peaks, a ring (reread.go)
+	voicedAt  float64     // the last voiced frame's time, -Inf before one (reread.go)
+	noReread  bool        // no frame will be read again (NoReread)
 }
 
 // New returns a Detector for the sample rate with the given window and hop
@@ -165,6 +167,7 @@ func (d *Detector) Reset() {
 	d.haveB, d.prevHz, d.held = false, 0, heldNote{}
 	d.frameNo = 0
 	clear(d.peaks)
+	d.voicedAt = math.Inf(-1)
 	d.untilFrame = d.span
 }
 
@@ -207,6 +210,9 @@ func (d *Detector) Feed(block []float32, out []Estimate) []Estimate {
 func (d *Detector) frame() Estimate {
 	e := d.analyse()
 	d.remember(e.Hz) // 0 unless voiced
+	if e.Voiced {
+		d.voicedAt = e.Time
+	}
 	return e
 }
 
@@ -245,12 +251,18 @@ func (d *Detector) analyse() Estimate {
 	}
 	period, clarity, ok := pickPeriod(d.nsdf(frameB), d.minLag)
 	d.sinceNSDF, d.clarity, d.nsdfFresh = 0, clarity, true
-	if !tracking {
+	voiceless := !ok || clarity < minClarity/2
+	switch {
+	case tracking:
+	case !voiceless || d.mayReread(e.Time):
 		// Unvoiced too: a frame under a slur may be read again (reread.go).
 		d.spectra(frameA, frameB)
 		d.keepPeaks(e.Time)
+	default:
+		d.haveB = false
+		d.forgetPeaks(e.Time)
 	}
-	if !ok || clarity < minClarity/2 {
+	if voiceless {
 		e.Confidence = math.Max(clarity, 0)
 		d.prevHz = 0
 		return e

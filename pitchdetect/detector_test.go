@@ -153,7 +153,24 @@ func TestEstimateTimeIsWindowCentre(t *testing.T) {
 
 func BenchmarkFeed(b *testing.B) {
 	rate := 48000.0
-	x := testsignal.Float32(testsignal.Tone(rate, int(rate), testsignal.Saw, 0.5, testsignal.Steady(220)))
+	benchFeed(b, rate, testsignal.Tone(rate, int(rate), testsignal.Saw, 0.5, testsignal.Steady(220)))
+}
+
+// BenchmarkFeedUnvoiced feeds white noise at -40 dBFS RMS: over the
+// silence gate (silenceDBFS), with no pitch, as a resting player's channel
+// or the room between notes.
+func BenchmarkFeedUnvoiced(b *testing.B) {
+	rate := 48000.0
+	x := testsignal.White(rand.New(rand.NewPCG(1, 2)), int(rate))
+	for i := range x {
+		x[i] *= 0.01
+	}
+	benchFeed(b, rate, x)
+}
+
+// benchFeed feeds x hop by hop, over and over; x must be longer than the span.
+func benchFeed(b *testing.B, rate float64, signal []float64) {
+	x := testsignal.Float32(signal)
 	d, _ := New(rate, 0, 0)
 	out := make([]Estimate, 0, 16)
 	hop := d.Hop()

@@ -38,6 +38,9 @@ type peakFrame struct {
 // keepPeaks records the strongest peaks of the frame just analysed (its
 // spectra computed) under its time.
 func (d *Detector) keepPeaks(at float64) {
+	if d.noReread {
+		return
+	}
 	if d.peaks == nil {
 		d.peaks = make([]peakFrame, int(math.Ceil(peakSeconds*d.fs/float64(d.hop))))
 	}
@@ -61,6 +64,22 @@ func (d *Detector) keepPeaks(at float64) {
 		p.hz[i], p.pow[i] = d.advanceHz(b, float64(b)*d.binHz), pb
 	}
 }
+
+// mayReread reports whether the frame at time at may yet be read again,
+// so that an unvoiced frame needs its spectra only then. The segmenter
+// reads again only frames after the last frame of a note (a voiced one)
+// and before the first of the note after the quick note slurred from it,
+// which lie under 2·turningSeconds apart (spanHz); a hop is added for
+// the frame times' rounding. Elsewhere (silence with noise, a resting
+// player's channel) a frame the NSDF finds no pitch in costs no FFT.
+func (d *Detector) mayReread(at float64) bool {
+	return !d.noReread && at-d.voicedAt < 2*turningSeconds+float64(d.hop)/d.fs
+}
+
+// NoReread tells the detector that none of its frames will be read again
+// (its segmenter has no Reread): it keeps no frame's spectral peaks, and a
+// frame with no pitch takes no spectra. Its estimates are the same.
+func (d *Detector) NoReread() { d.noReread = true }
 
 // forgetPeaks records the frame just analysed as holding no peaks.
 func (d *Detector) forgetPeaks(at float64) {

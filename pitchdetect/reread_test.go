@@ -2,6 +2,7 @@ package pitchdetect
 
 import (
 	"math"
+	"math/rand/v2"
 	"testing"
 
 	"fifthline/internal/testsignal"
@@ -140,5 +141,61 @@ func TestQuickSlurredNoteReadsMidwayThroughItsSlurs(t *testing.T) {
 		if through[i].Hz != plain[i].Hz {
 			t.Errorf("note %d (not slurred between two) reads %.3f Hz through slurs, %.3f without", i, through[i].Hz, plain[i].Hz)
 		}
+	}
+}
+
+// An unvoiced frame's spectra are taken only while it may be read again
+// (mayReread): every frame the segmenter reads again lies within
+// 2·turningSeconds (and a hop) after a voiced frame. The signal, our own:
+// two legato phrases of sawtooths, G4 held, A4 and B4 quick (0.12 s,
+// slurred between two others), C5 held (equal temperament, A4 = 440 Hz;
+// common practice), with noise 40 dB under them between the phrases.
+func TestFramesReadAgainLieNearAVoicedFrame(t *testing.T) {
+	const rate = 48000.0
+	et := func(semis float64) float64 { return 440 * math.Exp2(semis/12) }
+	var x []float64
+	phrase := func() {
+		for _, n := range []struct{ hz, s float64 }{{et(-2), 0.4}, {et(0), 0.12}, {et(2), 0.12}, {et(3), 0.4}} {
+			x = append(x, testsignal.Tone(rate, int(n.s*rate), testsignal.Saw, 0.5, testsignal.Steady(n.hz))...)
+		}
+	}
+	phrase()
+	noise := testsignal.White(rand.New(rand.NewPCG(3, 4)), int(1.2*rate))
+	for i := range noise {
+		noise[i] *= 0.005
+	}
+	x = append(x, noise...)
+	phrase()
+	x = append(x, noise...)
+
+	d, err := New(rate, 0, 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	seg := d.NewSegmenter()
+	var voiced []float64
+	asked := 0
+	seg.Reread = func(at, hz, under, over float64) (float64, float64, bool) {
+		asked++
+		last := math.Inf(-1)
+		for _, v := range voiced {
+			if v < at {
+				last = v
+			}
+		}
+		if bound := 2*turningSeconds + float64(d.Hop())/rate; at-last >= bound {
+			t.Errorf("frame at %.3f s read again %.3f s after the last voiced frame (bound %.3f s)", at, at-last, bound)
+		}
+		return d.Reread(at, hz, under, over)
+	}
+	for _, e := range d.Feed(testsignal.Float32(x), nil) {
+		if e.Voiced {
+			voiced = append(voiced, e.Time)
+		}
+		seg.Push(e)
+	}
+	seg.Flush()
+	if asked == 0 {
+		t.Fatal("no frame was read again: the signal holds no quick slurred note")
 	}
 }
