@@ -99,11 +99,13 @@ type scene struct {
 	vibrato bool // its parts carry vibrato: 3 ¢
 	parts   []testsignal.MIDIPart
 	short   *figures
-	// key and temperament are analyze's --key and --temperament ("": C
-	// major, equal); names spells the keys that are not naturals.
-	key, temperament string
-	names            map[int]string
-	chords           []heldChord // the chords named as they sound, when checked
+	// key, temperament, a4 and seventh are analyze's --key, --temperament,
+	// --a4 and --seventh ("" or 0: C major, equal, 440 Hz, 16/9); names
+	// spells the keys that are not naturals.
+	key, temperament, seventh string
+	a4                        float64
+	names                     map[int]string
+	chords                    []heldChord // the chords named as they sound, when checked
 }
 
 // chords of keys, one row a chord, one column a part; a row lasts 2.5 s

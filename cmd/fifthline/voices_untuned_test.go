@@ -3,6 +3,7 @@ package main
 import (
 	"fmt"
 	"os/exec"
+	"strconv"
 	"testing"
 
 	"fifthline/internal/testsignal"
@@ -21,8 +22,15 @@ func TestVoicesOfUntunedScenes(t *testing.T) {
 	if _, err := exec.LookPath("fluidsynth"); err != nil {
 		t.Fatalf("fluidsynth not found (make test installs it): %v", err)
 	}
+	holdScenes(t, untunedScenes())
+}
+
+// holdScenes holds each scene in a subtest of its own (one after another:
+// each already keeps the cores busy) and logs their table.
+func holdScenes(t *testing.T, scenes []scene) {
+	t.Helper()
 	table := "scene | missed | median ¢ | worst ¢ | just ¢ | phantoms | misnamed\n"
-	for _, sc := range untunedScenes() {
+	for _, sc := range scenes {
 		t.Run(sc.name, func(t *testing.T) {
 			_, got := holdScene(t, sc)
 			table += fmt.Sprintf("%s | %d of %d | %.2f | %.2f | %.2f | %d of %d | %d of %d\n",
@@ -138,6 +146,12 @@ func (sc scene) musical() []string {
 	}
 	if sc.temperament != "" {
 		f = append(f, "--temperament", sc.temperament)
+	}
+	if sc.a4 != 0 {
+		f = append(f, "--a4", strconv.FormatFloat(sc.a4, 'f', -1, 64))
+	}
+	if sc.seventh != "" {
+		f = append(f, "--seventh", sc.seventh)
 	}
 	return f
 }
