@@ -278,7 +278,7 @@ func levelBar(db float64) string {
 }
 
 // inputLine is the status line's second part: input level with a clipping
-// warning and the capture's lost-audio counts.
+// warning and, only once some sound was lost, how often.
 func inputLine(m *model) screenLine {
 	lvl := "input silent " + levelBar(math.Inf(-1))
 	switch {
@@ -291,12 +291,8 @@ func inputLine(m *model) screenLine {
 	if m.Input.Clipping {
 		l = append(l, text(" CLIPPING — turn the input down", warn))
 	}
-	if m.Input.Known {
-		role := dim
-		if m.Input.Overflows+m.Input.Dropped > 0 {
-			role = warn
-		}
-		l = append(l, text(fmt.Sprintf(" · lost: %d overflows, %d dropped", m.Input.Overflows, m.Input.Dropped), role))
+	if gaps := m.Input.Overflows + m.Input.Dropped; m.Input.Known && gaps > 0 {
+		l = append(l, text(" · "+GapWords(gaps), warn))
 	}
 	if m.Dropped > 0 {
 		l = append(l, text(fmt.Sprintf(" · screen skipped %d frames", m.Dropped), dim))
@@ -343,4 +339,14 @@ func helpLines() []screenLine {
 		dimLine("The trace: the last 4 s, time left to right, sharp up, flat down."),
 	)
 	return out
+}
+
+// GapWords says in a player's words how often the input lost sound: blocks
+// the driver lost before we read them and blocks we threw away, behind,
+// are alike to a player, a gap in what was heard.
+func GapWords(gaps uint64) string {
+	if gaps == 1 {
+		return "1 gap in the sound (computer too busy)"
+	}
+	return fmt.Sprintf("%d gaps in the sound (computer too busy)", gaps)
 }
