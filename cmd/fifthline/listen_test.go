@@ -216,7 +216,7 @@ func TestListenDurationStopsCleanlyWithTheHeaderWritten(t *testing.T) {
 	code, out, stderr := startPlain(t, env, "--duration", "1s")()
 	// stderr holds only the tuning in force, said since no flag set it
 	// (and, if the loaded machine lost sound, a line saying so).
-	stderr = regexp.MustCompile(`(?m)^fifthline: [0-9]+ gaps? in the sound .*\n`).ReplaceAllString(stderr, "")
+	stderr = endWords.ReplaceAllString(stderr, "")
 	if code != 0 || strings.Count(stderr, "\n") != 1 || !strings.HasPrefix(stderr, "fifthline: tuning C major · equal temperament · A4 = 440 Hz") ||
 		!strings.HasSuffix(stderr, "(key, temperament, a4 by default)\n") ||
 		!strings.HasPrefix(out, "start_s,end_s,note,hz,target_hz,cents,alt_note,alt_cents") {
@@ -340,19 +340,24 @@ func stopPlain(t *testing.T, proc *os.Process, wait func() (int, string, string)
 }
 
 // interruptPlain stops `listen --plain` with Ctrl-C (SIGINT), checks that it
-// ended cleanly, saying nothing but the tuning in force, and returns its
-// output.
+// ended cleanly, saying nothing but the tuning in force and, as it ends,
+// the journal's tally and any gaps in the sound (sayHeard), and returns
+// its output.
 func interruptPlain(t *testing.T, proc *os.Process, wait func() (int, string, string)) string {
 	t.Helper()
 	if err := proc.Signal(os.Interrupt); err != nil {
 		t.Fatal(err)
 	}
 	code, out, stderr := wait()
+	stderr = endWords.ReplaceAllString(stderr, "")
 	if code != 0 || (stderr != "" && (strings.Count(stderr, "\n") != 1 || !strings.HasPrefix(stderr, "fifthline: tuning "))) {
 		t.Errorf("exit %d, stderr %q", code, stderr)
 	}
 	return out
 }
+
+// endWords are the lines listen ends with (sayHeard).
+var endWords = regexp.MustCompile(`(?m)^fifthline: (journal: .* → .*|[0-9]+ gaps? in the sound .*)\n`)
 
 // As listening ends the screen is gone: a journal's tally and any sound
 // lost are said on stderr, the gaps only when there were some (a player
