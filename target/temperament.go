@@ -79,7 +79,7 @@ func NewRegular(fifth float64) (Regular, error) {
 		return Regular{}, fmt.Errorf("a fifth of %g cents puts the spellings out of order (B♭ reaches A at 720, C♯ reaches C at 685.714); fifths between %.3f and %.0f cents work", fifth, MinFifth, MaxFifth)
 	}
 	s := strconv.FormatFloat(fifth, 'f', -1, 64)
-	return Regular{Fifth: fifth, spec: "fifth:" + s, name: "regular, fifth " + s + "¢"}, nil
+	return Regular{Fifth: fifth, spec: "fifth:" + s, name: "regular, fifth " + s + " ¢"}, nil
 }
 
 // Equal is twelve-tone equal temperament.

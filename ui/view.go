@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"strings"
+	"unicode/utf8"
 
 	"github.com/mattn/go-runewidth"
 
@@ -194,7 +195,12 @@ func fifthsRows(m *model, w int) [3]screenLine {
 	leftName, leftMark, rightName, rightMark := "", "", "", ""
 	altRole := dim
 	if ok && r.HasAlt && !r.SamePitch {
-		alt, altCents := r.AltWritten.Pretty(), cents(r.AltDeviation)+"¢"
+		// Cents on the screen are "+41.1 ¢", as on the words line; a side
+		// zone too narrow for the space keeps the sign alone.
+		alt, altCents := r.AltWritten.Pretty(), cents(r.AltDeviation)+" ¢"
+		if utf8.RuneCountInString(altCents) > side {
+			altCents = strings.Replace(altCents, " ", "", 1)
+		}
 		if r.OnOther {
 			alt, altRole = "["+alt+"]", other
 		}

@@ -103,7 +103,7 @@ func TestFifthsRowsLayTheWindowAlongTheLineOfFifths(t *testing.T) {
 	if got := rows[0].Text(); !strings.HasPrefix(got, "◂ [G♭4]") {
 		t.Errorf("the other spelling does not open the row: %q", got)
 	}
-	if got := strings.Fields(rows[1].Text()); strings.Join(got, " ") != "0.0¢ +41.1" {
+	if got := strings.Fields(rows[1].Text()); strings.Join(got, " ") != "0.0 ¢ +41.1" {
 		t.Errorf("marks row %q", rows[1].Text())
 	}
 	// ¼-comma meantone's offsets from equal: each fifth is 3.42 ¢ narrow, so
