@@ -127,7 +127,7 @@ func run(e *env, args []string) (code int) {
 	}
 	cmd, ok := lookupCommand(args[0])
 	if !ok {
-		fmt.Fprintf(e.stderr, "fifthline: unknown command %q (try: %s)\n", args[0], strings.Join(commandNames(), ", "))
+		fmt.Fprintln(e.stderr, "fifthline: "+unknownCommand(args[0]))
 		return 2
 	}
 	err := cmd.run(e, args[1:])
