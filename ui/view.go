@@ -301,7 +301,9 @@ func inputLine(m *model) screenLine {
 		l = append(l, text(" · "+GapWords(gaps), warn))
 	}
 	if m.Dropped > 0 {
-		l = append(l, text(fmt.Sprintf(" · screen skipped %d frames", m.Dropped), dim))
+		// Readings the screen could not keep up with: the notes and the
+		// journal have them all, only the trace has holes.
+		l = append(l, text(fmt.Sprintf(" · screen behind: %s not drawn", howManyReadings(m.Dropped)), dim))
 	}
 	return l
 }
@@ -345,6 +347,14 @@ func helpLines() []screenLine {
 		dimLine("The trace: the last 4 s, time left to right, sharp up, flat down."),
 	)
 	return out
+}
+
+// howManyReadings is n readings in words, "1 reading" for one.
+func howManyReadings(n uint64) string {
+	if n == 1 {
+		return "1 reading"
+	}
+	return fmt.Sprintf("%d readings", n)
 }
 
 // GapWords says in a player's words how often the input lost sound: blocks

@@ -156,6 +156,13 @@ func TestInputLineWarnsOfClippingAndGapsInTheSoundInWords(t *testing.T) {
 			t.Errorf("%q lacks %q", got, want)
 		}
 	}
+	// A screen that fell behind says so in the same words: readings not
+	// drawn (the notes and the journal have them).
+	m.Dropped = 4
+	if got := inputLine(m).Text(); !strings.Contains(got, "screen behind: 4 readings not drawn") {
+		t.Errorf("%q does not say the screen fell behind", got)
+	}
+	m.Dropped = 0
 	m.Input = inputState{Known: true}
 	if got := inputLine(m).Text(); strings.Contains(got, "gap") || strings.Contains(got, "lost") {
 		t.Errorf("nothing lost, yet the input line says %q", got)
