@@ -81,7 +81,7 @@ func TestReportReadsWhatLogWrites(t *testing.T) {
 	// cents survive Hz → CSV → report to the journal's 0.01 ¢.
 	f := row("Ann", "note", "F#4")
 	for col, want := range map[string]string{"count": "3", "mean_cents": "6.00", "median_cents": "6.00",
-		"scatter_cents": "1.63", "within": "1", "key": "G major", "temperament": "meantone:1/4", "tendency": "sits 6 ¢ high"} {
+		"scatter_cents": "1.63", "within": "1", "key": "G major", "temperament": "meantone:1/4", "tendency": "sits 6 ¢ sharp"} {
 		if f[col] != want {
 			t.Errorf("F#4 %s = %q, want %q", col, f[col], want)
 		}
