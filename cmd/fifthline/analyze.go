@@ -22,6 +22,7 @@ type analyzeOptions struct {
 	recorded     recordedFlag
 	sayTuning    func() // once: before a warning, or at the end (an error stays the only line)
 	seventh      string // --seventh as given ("16/9" by default), for the chord table's title
+	keyGiven     bool   // --key or a tuning file set the key: the fit keeps it (tuningWarning)
 }
 
 // errInterrupted: Ctrl-C or SIGTERM stopped the reading; what was heard
@@ -57,6 +58,7 @@ func runAnalyze(e *env, args []string) error {
 		return err
 	}
 	opt.format, opt.channelAsked, opt.seventh = *format, wasSet(fs, "channel"), strings.TrimSpace(mf.seventh)
+	opt.keyGiven = mf.origin["key"] != fromDefault
 	opt.sayTuning = sync.OnceFunc(func() { mf.say(e.stderr, tu) })
 	if po, ok, err := playersOptions(fs, *players); err != nil {
 		return err
@@ -171,7 +173,7 @@ func analyzeFile(e *env, path string, tu target.Tuning, opt analyzeOptions, out 
 	if w.Truncated() {
 		fmt.Fprintf(e.stderr, "fifthline: warning: %s is shorter than its header says; read what was there\n", path)
 	}
-	if msg := tuningWarning(path, tu, heard); msg != "" {
+	if msg := tuningWarning(path, tu, heard, opt.keyGiven); msg != "" {
 		opt.sayTuning()
 		fmt.Fprintf(e.stderr, "fifthline: %s\n", msg)
 	}
