@@ -274,3 +274,17 @@ func TestKilledRehearsal(t *testing.T) {
 		}
 	}
 }
+
+// --player naming nobody in the journals is an error (exit 1) that names
+// the players there, so a misspelt name can be put right.
+func TestReportForAPlayerNotThereNamesThoseThere(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "rehearsal.csv")
+	tu := quarterCommaG(t)
+	logNotes(t, path, "Ann", heldNote(tu, "F#4", 4, 0))
+	logNotes(t, path, "Ben", heldNote(tu, "B4", 1, 0))
+	code, _, stderr := runCLI(t, "report", "--player", "Anne", path)
+	checkError(t, code, 1, stderr)
+	if !strings.Contains(stderr, "no held notes in "+path+" by Anne (players there: Ann, Ben)") {
+		t.Errorf("stderr %q", stderr)
+	}
+}
