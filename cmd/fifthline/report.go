@@ -10,6 +10,7 @@ import (
 
 	"fifthline/journal"
 	"fifthline/report"
+	"fifthline/target"
 )
 
 func runReport(e *env, args []string) error {
@@ -34,6 +35,13 @@ func runReport(e *env, args []string) error {
 	}
 	if !(*tolerance > 0 && *tolerance <= 100) {
 		return usagef("--tolerance %g: give cents above 0, at most 100", *tolerance)
+	}
+	if f.Key != "" {
+		// Read as every command reads --key (a lone g, a German H get their
+		// hints), not matched as text that no journal holds.
+		if _, err := target.ParseKey(f.Key); err != nil {
+			return usagef("--key: %v", err)
+		}
 	}
 	if ext := strings.ToLower(filepath.Ext(*plotPath)); *plotPath != "" && ext != ".png" && ext != ".svg" {
 		return usagef("--plot %q: the file must end in .png or .svg", *plotPath)

@@ -288,3 +288,21 @@ func TestReportForAPlayerNotThereNamesThoseThere(t *testing.T) {
 		t.Errorf("stderr %q", stderr)
 	}
 }
+
+// report's --key is read as every command reads it (interface contract:
+// `--key H` is a usage error, exit 2; a lone lower-case letter gets its
+// hint), not matched as text that no journal holds.
+func TestReportKeyIsReadAsEveryCommandReadsIt(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "rehearsal.csv")
+	logNotes(t, path, "Ann", heldNote(quarterCommaG(t), "F#4", 4, 0))
+	for key, says := range map[string]string{"H": "German H is B", "g": `say "G major" or "G minor"`} {
+		code, _, stderr := runCLI(t, "report", "--key", key, path)
+		checkError(t, code, 2, stderr)
+		if !strings.Contains(stderr, says) {
+			t.Errorf("--key %s: %q, want it to say %q", key, stderr, says)
+		}
+	}
+	if code, out, stderr := runCLI(t, "report", "--key", "g major", path); code != 0 || !strings.Contains(out, "Ann · G major") {
+		t.Errorf("--key \"g major\": exit %d, %q\n%s", code, stderr, out)
+	}
+}
