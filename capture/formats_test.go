@@ -173,6 +173,17 @@ func TestFFmpegRefusesWhatIsNotSound(t *testing.T) {
 	}
 }
 
+// A rehearsal journal given to analyze instead of the take is named, with
+// the command that reads it (as report names a WAV given it).
+func TestAJournalIsNoRecording(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "rehearsal.csv")
+	os.WriteFile(path, []byte("time,session,source,player,key\n"), 0o644)
+	_, err := OpenRecording(path, 1)
+	if err == nil || !errors.Is(err, ErrNotAudio) || err.Error() != path+": it is a rehearsal journal, not a recording: read it with report" {
+		t.Errorf("got %v", err)
+	}
+}
+
 // Our MP3 reading lines up with ffmpeg's decoding of the same file (which
 // drops the codec's delay and padding from the LAME tag): the same number
 // of samples, starting at the same one, differing only by the 16-bit

@@ -32,6 +32,11 @@ func OpenRecording(path string, channel int) (*Recording, error) {
 		first := make([]byte, 512) // the first frame's header and LAME tag
 		n, _ := f.ReadAt(first, at)
 		rec, err = newMP3(path, io.NewSectionReader(f, 0, size), first[:n], channel)
+	case journalKind:
+		// Giving analyze the journal instead of the take is the likely slip,
+		// as report names a WAV given it.
+		f.Close()
+		return nil, fileErr(path, ErrNotAudio, "it is a rehearsal journal, not a recording: read it with report")
 	default:
 		f.Close()
 		return openFFmpeg(path, channel, kind)
@@ -43,6 +48,9 @@ func OpenRecording(path string, channel int) (*Recording, error) {
 	rec.closer = f
 	return rec, nil
 }
+
+// journalKind is what sniff calls a rehearsal journal (--log's CSV).
+const journalKind = "journal"
 
 // sniff names a file's format from its first bytes: "WAV", "FLAC", "MP3",
 // a name for ffmpeg's message ("M4A/AAC", "Ogg"…), or "" when unknown, and
@@ -80,6 +88,8 @@ func sniff(r io.ReaderAt) (kind string, at int64) {
 		return "AIFF", at
 	case n >= 4 && head[:4] == "caff":
 		return "CAF", at
+	case strings.HasPrefix(head, "time,session,"):
+		return journalKind, at // a --log journal's header (package journal)
 	}
 	return "", at
 }

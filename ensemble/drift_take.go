@@ -122,8 +122,11 @@ func (td TakeDrift) Words() string {
 	if span < 90 {
 		over = fmt.Sprintf("%.0f s", span)
 	}
-	s := fmt.Sprintf("group drift %s → %s over %s (moved %s)", flatSharp(first.Cents), flatSharp(last.Cents),
-		over, flatSharp(last.Cents-first.Cents))
+	// The move is between the ends as written, to the tenth: 1.95 → 0.04
+	// reads "2.0 ¢ sharp → 0.0 ¢", and a move of 1.9 beside it reads wrong.
+	tenth := func(c float64) float64 { return math.Round(c*10) / 10 }
+	from, to := tenth(first.Cents), tenth(last.Cents)
+	s := fmt.Sprintf("group drift %s → %s over %s (moved %s)", flatSharp(from), flatSharp(to), over, flatSharp(to-from))
 	var inside []string
 	if in := td.Inside; in.NThirds > 0 {
 		inside = append(inside, fmt.Sprintf("thirds %.1f ¢", in.Thirds))

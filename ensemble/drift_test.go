@@ -2,6 +2,7 @@ package ensemble
 
 import (
 	"math"
+	"strings"
 	"testing"
 
 	"fifthline/pitchdetect"
@@ -160,4 +161,15 @@ func FuzzDriftOver(f *testing.F) {
 			}
 		}
 	})
+}
+
+// The drift line's move is the difference of its ends as they are written:
+// a reader subtracts the two numbers printed, so 1.95 → 0.04 (written 2.0 ¢
+// sharp → 0.0 ¢) moved 2.0 ¢ flat, not the unrounded 1.9.
+func TestDriftWordsMoveByTheEndsAsWritten(t *testing.T) {
+	td := TakeDrift{Points: []DriftPoint{{0, 1.95}, {5, 0.04}}}
+	want := "group drift 2.0 ¢ sharp → 0.0 ¢ over 5 s (moved 2.0 ¢ flat)"
+	if got := td.Words(); !strings.HasPrefix(got, want) {
+		t.Errorf("%q, want it to begin %q", got, want)
+	}
 }

@@ -57,7 +57,8 @@ func CheckChannels(players []Player, channels int, what string) error {
 	}
 	for _, p := range players {
 		if p.Channel >= channels {
-			return fmt.Errorf("%s has %d channels; %s is on channel %d", what, channels, p.Name, p.Channel+1)
+			return fmt.Errorf("%s has %d channels; %s would be on channel %d: name at most %d players, or pick their channels (2=%s)",
+				what, channels, p.Name, p.Channel+1, channels, p.Name)
 		}
 	}
 	return nil

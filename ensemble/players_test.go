@@ -32,7 +32,10 @@ func TestPlayersAreNamedAsTheContractSays(t *testing.T) {
 
 func TestMorePlayersThanChannelsSaysHowMany(t *testing.T) {
 	ps, _ := ParsePlayers("a,b,c")
-	if err := CheckChannels(ps, 2, "duo.wav"); err == nil || !strings.Contains(err.Error(), "duo.wav has 2 channels") {
+	// The message says what to do: fewer names, or channels picked (the
+	// contract's 3=vla,1=vc form).
+	if err := CheckChannels(ps, 2, "duo.wav"); err == nil || !strings.Contains(err.Error(), "duo.wav has 2 channels") ||
+		!strings.Contains(err.Error(), "name at most 2 players, or pick their channels") {
 		t.Errorf("got %v", err)
 	}
 	if err := CheckChannels(ps, 1, "solo.wav"); err == nil || !strings.Contains(err.Error(), "one channel") {

@@ -10,8 +10,9 @@ var Leading = []string{"time", "session", "source", "player", "key", "temperamen
 
 // Trailing are the columns after the held-note ones: a note's voice (with
 // --voices), on a chord membership row the chord heard, the member's role
-// in it and its cents from just, and a player's channel (see Extra).
-var Trailing = []string{"voice", "heard_chord", "member", "just_cents", "channel"}
+// in it, its cents from just, a player's channel, and on a membership row
+// the just ratio above the root it was judged against (see Extra).
+var Trailing = []string{"voice", "heard_chord", "member", "just_cents", "channel", "just_ratio"}
 
 // Header is the journal's full header: Leading, session.Columns, Trailing.
 func Header() []string {
@@ -21,7 +22,7 @@ func Header() []string {
 // Later are the columns added after the first journals were written: older
 // journals lack them, and are still read and appended to (under a fresh
 // header line).
-var Later = map[string]bool{"on_other_spelling": true, "voice": true, "heard_chord": true, "member": true, "just_cents": true, "channel": true}
+var Later = map[string]bool{"on_other_spelling": true, "voice": true, "heard_chord": true, "member": true, "just_cents": true, "channel": true, "just_ratio": true}
 
 // TimeLayout is how the time column is written: RFC 3339 (ISO 8601) with
 // milliseconds and the zone offset, which spreadsheets read as a date-time.

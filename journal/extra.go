@@ -22,6 +22,10 @@ type Extra struct {
 	HeardChord string
 	Member     string
 	JustCents  float64
+	// JustRatio is the just ratio above the root the member was judged
+	// against ("5/4", and for a seventh the --seventh in force: "16/9"),
+	// so report can say which sevenths were judged.
+	JustRatio string
 	// Reference marks the lowest sounding root, the pitch the others'
 	// JustCents are measured from: its just_cents is left empty, since it
 	// is no reading against just.
@@ -41,7 +45,7 @@ func Membership(source, player string, tu target.Tuning, start, end float64, c t
 		TargetHz: m.Hz / math.Exp2(m.Cents/1200)}
 	lowest := slices.IndexFunc(c.Members, func(o target.HeardMember) bool { return o.Role == "root" })
 	ref := lowest >= 0 && c.Members[lowest].Index == m.Index
-	return ev, Extra{HeardChord: c.Name(), Member: m.Role, JustCents: m.JustCents, Reference: ref}
+	return ev, Extra{HeardChord: c.Name(), Member: m.Role, JustCents: m.JustCents, JustRatio: m.Just, Reference: ref}
 }
 
 // WriteExtra appends a row with its Extra: a note of a recording that began
@@ -68,5 +72,9 @@ func (x Extra) record() []string {
 	if x.Channel > 0 {
 		channel = strconv.Itoa(x.Channel)
 	}
-	return []string{x.Voice, x.HeardChord, x.Member, just, channel}
+	ratio := ""
+	if x.HeardChord != "" {
+		ratio = x.JustRatio
+	}
+	return []string{x.Voice, x.HeardChord, x.Member, just, channel, ratio}
 }

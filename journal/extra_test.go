@@ -3,6 +3,7 @@ package journal
 import (
 	"math"
 	"path/filepath"
+	"strings"
 	"testing"
 
 	"fifthline/target"
@@ -83,5 +84,51 @@ func TestAPlayersChannelInTheJournal(t *testing.T) {
 	}
 	if es[0].Player != "vla" || es[0].Channel != 2 || es[1].Channel != 0 {
 		t.Errorf("channels read back as %d (%s) and %d, want 2 (vla) and 0", es[0].Channel, es[0].Player, es[1].Channel)
+	}
+}
+
+// Each membership row says the just ratio its member was judged against,
+// so a later report can tell which sevenths were judged: a G dominant
+// seventh read with --seventh 7/4 (the harmonic seventh) writes 7/4 on its
+// seventh, 5/4 on its third, 3/2 on its fifth and 1/1 on its root (just
+// ratios: common practice). A stray ratio is refused.
+func TestAMembershipRowNamesItsJustRatio(t *testing.T) {
+	tu := target.Default()
+	g3 := 440 * math.Exp2(-14.0/12) // ISO 16 equal temperament at A4 = 440 Hz
+	hz := []float64{g3, g3 * 5 / 4, g3 * 3 / 2, g3 * 7 / 4}
+	hc, ok := tu.NameChord(hz, 7.0/4)
+	if !ok || hc.Name() != "G dominant seventh" {
+		t.Fatalf("G B D F named %q, %v", hc.Name(), ok)
+	}
+	path := filepath.Join(t.TempDir(), "j.csv")
+	w, err := Open(path, Meta{Session: "s1", Now: (&clock{opening}).now})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, m := range hc.Members {
+		ev, x := Membership("take.wav", "", tu, 0.6, 2.4, hc, m)
+		if err := w.WriteExtra(ev, x, opening); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if err := w.Close(); err != nil {
+		t.Fatal(err)
+	}
+	es, warns, err := ReadFile(path)
+	if err != nil || len(warns) != 0 || len(es) != 4 {
+		t.Fatalf("%d entries, %q, %v", len(es), warns, err)
+	}
+	want := map[string]string{"root": "1/1", "third": "5/4", "fifth": "3/2", "seventh": "7/4"}
+	for _, e := range es {
+		if e.JustRatio != want[e.Member] {
+			t.Errorf("%s judged against %q, want %q", e.Member, e.JustRatio, want[e.Member])
+		}
+		if e.Member == "seventh" && math.Abs(e.JustCents) > 0.01 {
+			t.Errorf("a 7/4 seventh read %.2f ¢ from 7/4", e.JustCents)
+		}
+	}
+	_, warns, _ = Read(strings.NewReader(headerLine()+strings.TrimSuffix(sampleLine, ",")+",9:8\n"), "j")
+	if len(warns) != 1 || !strings.Contains(warns[0], `just_ratio "9:8"`) {
+		t.Errorf("a stray ratio on a note row: %q", warns)
 	}
 }

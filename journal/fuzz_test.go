@@ -14,8 +14,8 @@ func FuzzRead(f *testing.F) {
 	f.Add(strings.TrimSuffix(headerLine(), "\n") + ",on_other_spelling\n" + strings.Replace(sampleLine, "Db5,40.00", ",", 1) + ",true\n")
 	f.Add("time,session\n1,2\n")
 	f.Add(olderHeaderLine() + olderSampleLine() + "\n" + headerLine() + sampleLine + "\n")
-	f.Add(headerLine() + strings.TrimSuffix(sampleLine, ",,,,") + ",2,E major,third,+6.00\n")
-	f.Add(headerLine() + strings.TrimSuffix(sampleLine, ",,,,") + ",,E major,,x\n")
+	f.Add(headerLine() + strings.TrimSuffix(sampleLine, ",,,,,,") + ",2,E major,third,+6.00,,5/4\n")
+	f.Add(headerLine() + strings.TrimSuffix(sampleLine, ",,,,,,") + ",,E major,,x,,16/0\n")
 	f.Add("\"\n\"")
 	f.Add("")
 	f.Fuzz(func(t *testing.T, body string) {
@@ -34,6 +34,9 @@ func FuzzRead(f *testing.F) {
 		for _, e := range entries {
 			if e.SatOnOther() && (!e.HasAlt || e.SamePitch && !e.OnOtherKnown) {
 				t.Fatalf("on the other spelling without one: %+v", e)
+			}
+			if e.JustRatio != "" && (e.HeardChord == "" || !isRatio(e.JustRatio)) {
+				t.Fatalf("a just ratio %q off a chord's row: %+v", e.JustRatio, e)
 			}
 			if e.HeardChord != "" && e.Member == "" || e.Reference && e.Member != "root" {
 				t.Fatalf("a chord membership without its member: %+v", e)

@@ -38,6 +38,9 @@ type Entry struct {
 	// (HeardChord not empty) is not a note of its own: see Extra.
 	Voice, HeardChord, Member string
 	JustCents                 float64
+	// JustRatio is the just ratio the member was judged against ("16/9");
+	// empty in journals older than the just_ratio column.
+	JustRatio string
 	// Reference: the lowest sounding root, which JustCents of the chord's
 	// other members are measured from (its own just_cents is empty).
 	Reference bool
@@ -268,6 +271,15 @@ func (c columns) parse(line string) (Entry, error) {
 			f.err = fmt.Errorf("%s of %s without its just_cents", e.Member, e.HeardChord)
 		}
 	}
+	if r := f.later("just_ratio"); r != "" {
+		if e.HeardChord == "" || !isRatio(r) {
+			if f.err == nil {
+				f.err = fmt.Errorf("just_ratio %q: a ratio like 16/9, on a chord membership row", r)
+			}
+		} else {
+			e.JustRatio = r
+		}
+	}
 	if ch := f.later("channel"); ch != "" {
 		if n, err := strconv.Atoi(ch); err == nil && n > 0 {
 			e.Channel = n
@@ -276,6 +288,15 @@ func (c columns) parse(line string) (Entry, error) {
 		}
 	}
 	return e, f.err
+}
+
+// isRatio reports whether s is a ratio of two positive whole numbers, as
+// just_ratio is written ("3/2", "16/9").
+func isRatio(s string) bool {
+	p, q, ok := strings.Cut(s, "/")
+	n, perr := strconv.Atoi(p)
+	d, qerr := strconv.Atoi(q)
+	return ok && perr == nil && qerr == nil && n > 0 && d > 0
 }
 
 // later is a Later column's text, empty where the journal lacks it.

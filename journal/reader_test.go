@@ -7,7 +7,7 @@ import (
 	"testing"
 )
 
-const sampleLine = `2026-03-14T19:30:01.750+01:00,s1,mic,Ann,D minor,meantone:1/4,415,,,1.250,2.500,C#5,527.0000,527.5000,-1.64,Db5,40.00,false,false,1.50,22.0,5.50,,,,,`
+const sampleLine = `2026-03-14T19:30:01.750+01:00,s1,mic,Ann,D minor,meantone:1/4,415,,,1.250,2.500,C#5,527.0000,527.5000,-1.64,Db5,40.00,false,false,1.50,22.0,5.50,,,,,,`
 
 func TestReadParsesEveryColumn(t *testing.T) {
 	entries, warns, err := Read(strings.NewReader(headerLine()+sampleLine+"\n"), "j")

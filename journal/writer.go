@@ -189,6 +189,12 @@ func (w *Writer) line(ev session.Event, x Extra, at time.Time) []byte {
 	chord, temperament := "", ""
 	if tu.Chord != nil {
 		chord = tu.Chord.String()
+		// A declared 7 or m7 tunes its seventh at --seventh: notes read
+		// against 16/9 and 7/4 are different tunings, and report keeps
+		// them apart by this column.
+		if f := tu.Chord.SeventhFraction(); f != "" {
+			chord += " (seventh " + f + ")"
+		}
 	}
 	if tu.Temperament != nil {
 		temperament = tu.Temperament.Spec()

@@ -8,6 +8,8 @@ import (
 	"syscall"
 	"testing"
 	"time"
+
+	"fifthline/target"
 )
 
 func TestWriterCreatesWithHeaderAndWritesEachNoteAsItEnds(t *testing.T) {
@@ -29,7 +31,7 @@ func TestWriterCreatesWithHeaderAndWritesEachNoteAsItEnds(t *testing.T) {
 	// Its start lands 0.5 s later than opening+1.25 s: it ended 2.5 s into the
 	// capture but 3 s after opening, so the capture began 0.5 s after opening.
 	want := headerLine() +
-		`2026-03-14T19:30:01.750+01:00,s1,default input,"Ann, viola",C major,equal,440,,,1.250,2.500,A4,442.5489,440.0000,10.00,,,false,false,1.50,0.0,0.00,,,,,` + "\n"
+		`2026-03-14T19:30:01.750+01:00,s1,default input,"Ann, viola",C major,equal,440,,,1.250,2.500,A4,442.5489,440.0000,10.00,,,false,false,1.50,0.0,0.00,,,,,,` + "\n"
 	if string(got) != want {
 		t.Errorf("journal is\n%s\nwant\n%s", got, want)
 	}
@@ -288,5 +290,42 @@ func TestWriterPlacesANoteWrittenLateAtItsTime(t *testing.T) {
 	}
 	if want := []float64{1, 31}; !equalFloats(offsets, want) {
 		t.Errorf("seconds after opening %v, want %v", offsets, want)
+	}
+}
+
+// A declared 7 or m7 chord's seventh is tuned at --seventh, so the chord
+// column says which (as the one-line tuning does): notes read against 16/9
+// and against 7/4 (common practice) are different tunings to report. A
+// triad's chord column is the chord alone.
+func TestTheChordColumnSaysADeclaredChordsSeventh(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "j.csv")
+	w, err := Open(path, Meta{Session: "s1", Now: (&clock{opening}).now})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct {
+		chord   string
+		seventh float64
+	}{{"G 7", 7.0 / 4}, {"G 7", 0}, {"D major", 0}} {
+		ev := heldAt(0, 1, 2, "take.wav")
+		if ev.Tuning.Chord, err = target.ParseChord(c.chord); err != nil {
+			t.Fatal(err)
+		}
+		ev.Tuning.Chord.Seventh = c.seventh
+		if err := w.Write(ev); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if err := w.Close(); err != nil {
+		t.Fatal(err)
+	}
+	es, warns, err := ReadFile(path)
+	if err != nil || len(warns) != 0 || len(es) != 3 {
+		t.Fatalf("%d entries, %q, %v", len(es), warns, err)
+	}
+	for i, want := range []string{"G 7 (seventh 7/4)", "G 7 (seventh 16/9)", "D major"} {
+		if es[i].Chord != want {
+			t.Errorf("row %d: chord %q, want %q", i+1, es[i].Chord, want)
+		}
 	}
 }

@@ -134,16 +134,17 @@ func Median(xs []float64) float64 {
 //
 //	mean within ±tol, more than half the notes within:  "in tune"
 //	mean within ±tol, half or fewer within:             "scattered about the target",
-//	                                                    or "scattered, 4 ¢ high on average" past ±tol/2
-//	mean beyond, half or fewer within:                  "sits 7 ¢ high" / "sits 7 ¢ low"
-//	mean beyond, more than half within:                 "mostly in tune, a few far high"
+//	                                                    or "scattered, 4 ¢ sharp on average" past ±tol/2
+//	mean beyond, half or fewer within:                  "sits 7 ¢ sharp" / "sits 7 ¢ flat"
+//	mean beyond, more than half within:                 "mostly in tune, a few far sharp"
 //
-// No notes: "".
+// Sharp and flat, as the meter, the drift and the chord roles say it. No
+// notes: "".
 func Tendency(mean, share float64, count int, tol float64) string {
 	most := share > 0.5
-	way := "high"
+	way := "sharp"
 	if mean < 0 {
-		way = "low"
+		way = "flat"
 	}
 	switch {
 	case count == 0:

@@ -73,9 +73,19 @@ func GroupDrifts(entries []journal.Entry) []GroupDrift {
 }
 
 func groupDrift(k take, es []journal.Entry) (GroupDrift, bool) {
-	g := GroupDrift{Source: k.source, Session: k.session, Key: k.key, Temperament: k.temperament, A4: k.a4, Notes: len(es)}
+	g := GroupDrift{Source: k.source, Session: k.session, Key: k.key, Temperament: k.temperament, A4: k.a4}
 	sounding := make([]ensemble.Sounding, 0, len(es))
+	seventh := target.DefaultSeventh
 	for _, e := range es {
+		if e.HeardChord != "" {
+			// A membership row is a note already counted, read again within
+			// its chord; its seventh says what the chords were read with.
+			if r, err := target.ParseSeventh(e.JustRatio); e.Member == "seventh" && err == nil {
+				seventh = r
+			}
+			continue
+		}
+		g.Notes++
 		if !slices.Contains(g.Players, e.Player) {
 			g.Players = append(g.Players, e.Player)
 		}
@@ -92,7 +102,7 @@ func groupDrift(k take, es []journal.Entry) (GroupDrift, bool) {
 	if err != nil {
 		return g, false // a journal's tuning it cannot read again says nothing of drift
 	}
-	td := ensemble.DriftOver(sounding, tu, target.DefaultSeventh)
+	td := ensemble.DriftOver(sounding, tu, seventh)
 	g.Words = td.Words()
 	first, last, ok := td.Ends()
 	if ok {

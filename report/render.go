@@ -162,7 +162,7 @@ func textRow(w io.Writer, s Stats, opt Options) {
 var csvHeader = []string{"player", "key", "temperament", "a4", "transpose", "chord", "level", "note", "fifths", "count",
 	"mean_cents", "median_cents", "scatter_cents", "spread_cents", "vibrato_cents", "vibrato_notes", "within",
 	"share_within", "tendency", "on_other_spelling", "other_spelling", "other_spelling_mean_cents",
-	"slope_cents_per_min", "drift_cents", "span_min", "trend", "voice", "chord_quality", "member"}
+	"slope_cents_per_min", "drift_cents", "span_min", "trend", "voice", "chord_quality", "member", "just_ratio"}
 
 // CSVHeader is the CSV report's header for these options.
 func CSVHeader(opt Options) []string {
@@ -198,7 +198,7 @@ func WriteCSV(w io.Writer, groups []Group, opt Options) error {
 				known = 1
 			}
 			r = append(r, ifAny(known, target.Decimal(s.Trend.SlopePerMinute, 4), target.Decimal(s.Trend.Drift, 2))...)
-			r = append(r, target.Decimal(s.Trend.Minutes, 2), s.Trend.Words, g.Voice, "", "")
+			r = append(r, target.Decimal(s.Trend.Minutes, 2), s.Trend.Words, g.Voice, "", "", "")
 			cw.Write(r)
 		}
 		for _, s := range g.Notes {

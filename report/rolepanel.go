@@ -32,5 +32,8 @@ func roleLabel(r Role) string {
 	if name == "root" {
 		name = "doubled root" // an octave of the lowest
 	}
+	if name == "seventh" && r.Ratio != "" {
+		name += " " + r.Ratio
+	}
 	return strings.ReplaceAll(name+"\n"+r.Quality, " ", "\n") + "\n" + plural(r.Count, "chord")
 }

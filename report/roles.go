@@ -24,8 +24,13 @@ const RoleChords = 3
 // sounding root (the journal's just_cents), over Count chords. The lowest
 // root itself is that reference, 0 by definition, and is not counted.
 type Role struct {
-	Quality string  `json:"chord_quality"` // "major", "dominant seventh"
-	Member  string  `json:"member"`        // root (an octave of the lowest), third, fifth, seventh
+	Quality string `json:"chord_quality"` // "major", "dominant seventh"
+	Member  string `json:"member"`        // root (an octave of the lowest), third, fifth, seventh
+	// Ratio is the just ratio the member was judged against ("5/4",
+	// "16/9": a seventh's is the --seventh in force); empty from journals
+	// older than the just_ratio column. Sevenths judged against different
+	// ratios are different roles, never averaged together.
+	Ratio   string  `json:"just_ratio,omitempty"`
 	Count   int     `json:"count"`
 	Mean    float64 `json:"mean_just_cents"`
 	Median  float64 `json:"median_just_cents"`
@@ -37,16 +42,16 @@ type Role struct {
 var memberOrder = []string{"root", "third", "fifth", "seventh"}
 
 // roles describes the chord memberships per chord quality (in order of
-// first appearance) and member.
+// first appearance), member and just ratio.
 func roles(members []journal.Entry) []Role {
-	type key struct{ quality, member string }
+	type key struct{ quality, member, ratio string }
 	var order []key
 	just := map[key][]float64{}
 	for _, e := range members {
 		if e.Reference {
 			continue // the lowest root: no reading against just
 		}
-		k := key{Quality(e.HeardChord), e.Member}
+		k := key{Quality(e.HeardChord), e.Member, e.JustRatio}
 		if _, ok := just[k]; !ok {
 			order = append(order, k)
 		}
@@ -62,11 +67,14 @@ func roles(members []journal.Entry) []Role {
 		if a.quality != b.quality {
 			return slices.Index(qualities, a.quality) - slices.Index(qualities, b.quality)
 		}
-		return memberRank(a.member) - memberRank(b.member)
+		if a.member != b.member {
+			return memberRank(a.member) - memberRank(b.member)
+		}
+		return strings.Compare(a.ratio, b.ratio)
 	})
 	out := make([]Role, 0, len(order))
 	for _, k := range order {
-		r := Role{Quality: k.quality, Member: k.member, Count: len(just[k]), Median: Median(just[k])}
+		r := Role{Quality: k.quality, Member: k.member, Ratio: k.ratio, Count: len(just[k]), Median: Median(just[k])}
 		r.Mean, r.Scatter = MeanDeviation(just[k])
 		if r.Count >= RoleChords {
 			r.Words = r.Sits()
@@ -131,6 +139,9 @@ func (g Group) RoleWords() string {
 		if r.Member == "root" {
 			p = "doubled roots" // octaves of the lowest
 		}
+		if r.Member == "seventh" && r.Ratio != "" {
+			p += " against " + r.Ratio // which seventh is "just" is a choice
+		}
 		if r.Quality != quality {
 			p += " in " + r.Quality + " chords"
 			quality = r.Quality
@@ -173,13 +184,13 @@ func writeRoles(w io.Writer, g Group) error {
 	}
 	fmt.Fprintf(w, "\nchord roles (cents from just above the lowest sounding root; in words from %d chords on):\n", RoleChords)
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
-	fmt.Fprintln(tw, "chord\tmember\tchords\tmean ¢\tmedian ¢\tscatter ¢\tsits")
+	fmt.Fprintln(tw, "chord\tmember\tjust\tchords\tmean ¢\tmedian ¢\tscatter ¢\tsits")
 	for _, r := range g.Roles {
 		scatter := "—"
 		if r.Count > 1 {
 			scatter = target.Decimal(r.Scatter, 1)
 		}
-		fmt.Fprintf(tw, "%s\t%s\t%d\t%s\t%s\t%s\t%s\n", r.Quality, r.Member, r.Count, target.Signed(r.Mean, 1),
+		fmt.Fprintf(tw, "%s\t%s\t%s\t%d\t%s\t%s\t%s\t%s\n", r.Quality, r.Member, cmp.Or(r.Ratio, "—"), r.Count, target.Signed(r.Mean, 1),
 			target.Signed(r.Median, 1), scatter, cmp.Or(r.Words, "—"))
 	}
 	if err := tw.Flush(); err != nil {
@@ -194,8 +205,8 @@ func writeRoles(w io.Writer, g Group) error {
 
 // roleRecord is a chord role's CSV row: level chord_role, the group's
 // columns, the role's count and its cents from just where the notes' rows
-// have cents from target, its words as the tendency, and its chord quality
-// and member last.
+// have cents from target, its words as the tendency, and its chord quality,
+// member and just ratio last.
 func roleRecord(g Group, r Role, opt Options) []string {
 	rec := make([]string, len(CSVHeader(opt)))
 	set := func(col, v string) { rec[slices.Index(CSVHeader(opt), col)] = v }
@@ -216,5 +227,6 @@ func roleRecord(g Group, r Role, opt Options) []string {
 	set("voice", g.Voice)
 	set("chord_quality", r.Quality)
 	set("member", r.Member)
+	set("just_ratio", r.Ratio)
 	return rec
 }

@@ -65,10 +65,10 @@ func TestChordRoles(t *testing.T) {
 		}
 	}
 	wantRows := []string{
-		"vla,C major,equal,440,,,chord_role,,,3,6.00,6.00,0.82,,,,,,6.0 ¢ above just (sharp),,,,,,,,,major,third",
-		"vla,C major,equal,440,,,chord_role,,,3,-1.00,-1.00,0.41,,,,,,1.0 ¢ narrow,,,,,,,,,major,fifth",
-		"vla,C major,equal,440,,,chord_role,,,2,-3.00,-3.00,0.00,,,,,,,,,,,,,,,minor,third",
-		"vl1,C major,equal,440,,,chord_role,,,3,1.50,1.50,0.41,,,,,,1.5 ¢ wide,,,,,,,,,major,fifth",
+		"vla,C major,equal,440,,,chord_role,,,3,6.00,6.00,0.82,,,,,,6.0 ¢ above just (sharp),,,,,,,,,major,third,",
+		"vla,C major,equal,440,,,chord_role,,,3,-1.00,-1.00,0.41,,,,,,1.0 ¢ narrow,,,,,,,,,major,fifth,",
+		"vla,C major,equal,440,,,chord_role,,,2,-3.00,-3.00,0.00,,,,,,,,,,,,,,,minor,third,",
+		"vl1,C major,equal,440,,,chord_role,,,3,1.50,1.50,0.41,,,,,,1.5 ¢ wide,,,,,,,,,major,fifth,",
 	}
 	if strings.Join(rows, "\n") != strings.Join(wantRows, "\n") {
 		t.Errorf("chord role rows\n%s\nwant\n%s", strings.Join(rows, "\n"), strings.Join(wantRows, "\n"))
@@ -116,5 +116,50 @@ func TestRoleLabelsAWordALine(t *testing.T) {
 		if got := roleLabel(c.r); got != c.want {
 			t.Errorf("%+v: %q, want %q", c.r, got, c.want)
 		}
+	}
+}
+
+// Which seventh is just is a choice (--seventh: 16/9 by default, 9/5, or
+// 7/4, the harmonic seventh; common practice): the journal says which
+// ratio each seventh was judged against, and report keeps sevenths judged
+// against different ratios apart, naming the ratio in the table, the
+// words and the CSV. Journals older than the just_ratio column give no
+// ratio (—).
+func TestSeventhsAreReportedWithTheRatioTheyWereJudgedAgainst(t *testing.T) {
+	var es []journal.Entry
+	for _, j := range []float64{3.5, 4, 4.5} {
+		e := member("vl1", "G dominant seventh", "seventh", j, false)
+		e.JustRatio = "16/9"
+		es = append(es, e)
+	}
+	e := member("vl1", "G dominant seventh", "seventh", -27, false)
+	e.JustRatio = "7/4"
+	es = append(es, e, member("vl1", "C major", "third", 2, false))
+	groups := Summarize(es, Options{Tolerance: 5})
+	if len(groups) != 1 || len(groups[0].Roles) != 3 {
+		t.Fatalf("groups %+v", groups)
+	}
+	g := groups[0]
+	if w := g.RoleWords(); w != "sevenths against 16/9 in dominant seventh chords sit 4.0 ¢ above just (sharp) (3 chords)" {
+		t.Errorf("words %q", w)
+	}
+	var b bytes.Buffer
+	if err := writeRoles(&b, g); err != nil {
+		t.Fatal(err)
+	}
+	for _, want := range []string{"dominant seventh  seventh  16/9", "dominant seventh  seventh  7/4 ", "major             third    —"} {
+		if !strings.Contains(b.String(), want) {
+			t.Errorf("roles table lacks %q:\n%s", want, b.String())
+		}
+	}
+	b.Reset()
+	if err := WriteCSV(&b, groups, Options{Tolerance: 5}); err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(b.String(), ",dominant seventh,seventh,7/4\n") || !strings.Contains(b.String(), ",major,third,\n") {
+		t.Errorf("CSV:\n%s", b.String())
+	}
+	if got := roleLabel(g.Roles[0]); got != "seventh\n16/9\ndominant\nseventh\n3 chords" {
+		t.Errorf("plot label %q", got)
 	}
 }

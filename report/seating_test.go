@@ -61,3 +61,39 @@ func TestReportSeatsPlayersInTheirChannelOrder(t *testing.T) {
 		}
 	}
 }
+
+// The group's drift line counts notes, not a chord's membership rows (the
+// same notes read again within their chords), and reads the chords'
+// sevenths as the journal says they were read: a G dominant seventh in
+// equal temperament (ISO 16, A4 = 440 Hz) samples its members' cents from
+// just, 0, +13.7, −2.0 and the seventh's +3.9 against 16/9 or +31.2
+// against 7/4 (common practice), whose median is the drift: 2.0 or 6.8 ¢.
+func TestGroupDriftCountsNotesAndReadsSeventhsAsTheJournalSays(t *testing.T) {
+	tu := target.Default()
+	began := time.Date(2026, 11, 20, 19, 0, 0, 0, time.UTC)
+	notes := map[string]string{"b": "G3", "t": "B3", "a": "D4", "s": "F4"}
+	var hz []float64
+	var es []journal.Entry
+	for _, p := range []string{"b", "t", "a", "s"} {
+		n, _ := target.ParseNote(notes[p])
+		hz = append(hz, tu.Target(n))
+		es = append(es, journal.Entry{Time: began, Session: "s1", Source: "take.wav", Player: p, Key: "C major",
+			Temperament: "equal", A4: 440, Start: 0, End: 5, Note: n, Hz: tu.Target(n), TargetHz: tu.Target(n)})
+	}
+	for _, c := range []struct {
+		seventh float64
+		words   string
+	}{{16.0 / 9, "group drift 2.0 ¢ sharp"}, {7.0 / 4, "group drift 6.8 ¢ sharp"}} {
+		hc, _ := tu.NameChord(hz, c.seventh)
+		all := append([]journal.Entry(nil), es...)
+		for _, m := range hc.Members {
+			e := es[m.Index]
+			e.HeardChord, e.Member, e.JustCents, e.JustRatio, e.Reference = hc.Name(), m.Role, m.JustCents, m.Just, m.Role == "root"
+			all = append(all, e)
+		}
+		d := GroupDrifts(all)
+		if len(d) != 1 || d[0].Notes != 4 || !strings.HasPrefix(d[0].Words, c.words) {
+			t.Errorf("seventh %.4f: %+v, want 4 notes and %q", c.seventh, d, c.words)
+		}
+	}
+}

@@ -56,7 +56,8 @@ func TestSlope(t *testing.T) {
 }
 
 // The tendency and the share within the tolerance are judged by the same
-// tolerance, so the words never contradict the count beside them.
+// tolerance, so the words never contradict the count beside them; they say
+// sharp and flat (common practice), as the meter and the drift lines do.
 func TestTendencyAgreesWithTheShareWithin(t *testing.T) {
 	cases := []struct {
 		mean, share float64
@@ -67,10 +68,10 @@ func TestTendencyAgreesWithTheShareWithin(t *testing.T) {
 		{-5, 0.6, 5, "in tune"},
 		{0.5, 0.4, 5, "scattered about the target"},
 		{1, 0.5, 2, "scattered about the target"}, // half is not most
-		{-4.2, 0.2, 5, "scattered, 4 ¢ low on average"},
-		{6.2, 0.2, 5, "sits 6 ¢ high"},
-		{-7.5, 0, 2, "sits 8 ¢ low"},
-		{9.2, 0.8, 5, "mostly in tune, a few far high"}, // 3, 3, 3, 3, 34: one far note pulls the mean
+		{-4.2, 0.2, 5, "scattered, 4 ¢ flat on average"},
+		{6.2, 0.2, 5, "sits 6 ¢ sharp"},
+		{-7.5, 0, 2, "sits 8 ¢ flat"},
+		{9.2, 0.8, 5, "mostly in tune, a few far sharp"}, // 3, 3, 3, 3, 34: one far note pulls the mean
 		{0, 0, 0, ""},
 	}
 	for _, c := range cases {
@@ -150,11 +151,11 @@ func TestSummarize(t *testing.T) {
 		t.Errorf("note order %q", got)
 	}
 	// F♯4 at 4, 6, 8 ¢: mean 6, median 6, scatter √((4+0+4)/3) = 1.633,
-	// one of three within ±5 ¢, most beyond: sits 6 ¢ high; three notes are
+	// one of three within ±5 ¢, most beyond: sits 6 ¢ sharp; three notes are
 	// too few for a trend (hand-computed).
 	fs := ann.Notes[1]
 	if fs.Count != 3 || !near(fs.Mean, 6) || !near(fs.Median, 6) || !near(fs.Scatter, math.Sqrt(8.0/3)) || fs.Within != 1 ||
-		!near(fs.Share, 1.0/3) || fs.Tendency != "sits 6 ¢ high" || fs.Other.Count != 0 || fs.Trend.Known || fs.Trend.Words != "" ||
+		!near(fs.Share, 1.0/3) || fs.Tendency != "sits 6 ¢ sharp" || fs.Other.Count != 0 || fs.Trend.Known || fs.Trend.Words != "" ||
 		!near(fs.Spread, 2) {
 		t.Errorf("F#4 %+v", fs)
 	}

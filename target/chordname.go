@@ -123,6 +123,9 @@ type HeardMember struct {
 	// root's measured pitch, k the member's octave above it.
 	JustCents float64
 	Ratio     float64
+	// Just is Ratio as a fraction ("5/4", "16/9"), so a reader later can
+	// say which just a member was judged against (--seventh chooses).
+	Just string
 }
 
 // NameChord names the chord the pitches (hertz, in any order) make, with
@@ -218,11 +221,11 @@ func (t Tuning) readMembers(sh chordShape, r Note, hz []float64, pcs []int, seve
 			return noteAt(r.Fifths()+st.tone.fifths, 4).PitchClass() == pcs[i]
 		})]
 		n := t.nearestOctave(noteAt(r.Fifths()+st.tone.fifths, 4), f)
-		ratio, _ := st.tone.just(seventh)
+		ratio, frac := st.tone.just(seventh)
 		just := Cents(f / (rootHz * ratio))
 		just -= 1200 * math.Round(just/1200)
 		c.Members = append(c.Members, HeardMember{Index: i, Role: st.role, Note: n, Hz: f,
-			Cents: Cents(f / t.Target(n)), JustCents: just, Ratio: ratio})
+			Cents: Cents(f / t.Target(n)), JustCents: just, Ratio: ratio, Just: frac})
 		if f == rootHz {
 			c.Root.Octave = n.Octave
 		}

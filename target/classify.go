@@ -202,11 +202,6 @@ func abs(x int) int {
 }
 
 // FormatCents writes a signed number of cents with the given decimals and the
-// cent sign ("+3.2¢", "-0.4¢"), never "-0.0¢".
-func FormatCents(c float64, decimals int) string {
-	s := Decimal(c, decimals)
-	if s[0] != '-' {
-		s = "+" + s
-	}
-	return s + "¢"
-}
+// cent sign after a space, as every line of text writes cents ("+3.2 ¢",
+// "-0.4 ¢"), and "0.0 ¢" for what rounds to nothing, never "-0.0 ¢".
+func FormatCents(c float64, decimals int) string { return Signed(c, decimals) + " ¢" }

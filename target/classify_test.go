@@ -211,12 +211,16 @@ func TestParseA4(t *testing.T) {
 	}
 }
 
+// Cents in a line of text are one style everywhere: the sign, the number,
+// a space and the cent sign, as a measure and its unit are written (SI
+// Brochure, 9th edition, 5.4.3, from memory: a space between the number
+// and the unit); what rounds to nothing has no sign.
 func TestFormatCents(t *testing.T) {
 	for _, tc := range []struct {
 		c    float64
 		d    int
 		want string
-	}{{3.24, 1, "+3.2¢"}, {-0.04, 1, "+0.0¢"}, {-0.4, 1, "-0.4¢"}, {0, 2, "+0.00¢"}, {41.059, 0, "+41¢"}} {
+	}{{3.24, 1, "+3.2 ¢"}, {-0.04, 1, "0.0 ¢"}, {-0.4, 1, "-0.4 ¢"}, {0, 2, "0.00 ¢"}, {41.059, 0, "+41 ¢"}} {
 		if got := FormatCents(tc.c, tc.d); got != tc.want {
 			t.Errorf("FormatCents(%g, %d) = %q, want %q", tc.c, tc.d, got, tc.want)
 		}

@@ -43,6 +43,13 @@ type TakeCheck struct {
 	Fits       int     // notes that fit the declared tuning (in scale, within FitCents)
 	Best       Tuning  // the key and reference that fit most notes
 	BestFits   int
+	// AtA4 is the key that fits as many notes as Best at the declared
+	// reference (within 20 ¢ of it), where Best moved the reference: a take
+	// in A♭ major at 440 fits C major at 466 as well, and a player who
+	// left --key out more likely forgot the key than the pitch. HasAtA4 is
+	// false when none does.
+	AtA4    Tuning
+	HasAtA4 bool
 }
 
 // SteadyCents is how close to their common offset notes must sit for the
@@ -83,10 +90,17 @@ func (t Tuning) CheckTake(hz []float64) TakeCheck {
 			if !(cand.A4 >= MinA4 && cand.A4 <= MaxA4) {
 				continue
 			}
-			if n := cand.fits(hz); n > c.BestFits || n == c.BestFits && c.Best.likelier(cand, t) {
+			n := cand.fits(hz)
+			if n > c.BestFits || n == c.BestFits && c.Best.likelier(cand, t) {
 				c.Best, c.BestFits = cand, n
 			}
+			if math.Abs(Cents(cand.A4/t.A4)) <= 20 && (!c.HasAtA4 || n > c.AtA4.fits(hz) || n == c.AtA4.fits(hz) && c.AtA4.likelier(cand, t)) {
+				c.AtA4, c.HasAtA4 = cand, true
+			}
 		}
+	}
+	if c.HasAtA4 && (c.AtA4.fits(hz) < c.BestFits || math.Abs(Cents(c.Best.A4/t.A4)) <= 20) {
+		c.AtA4, c.HasAtA4 = Tuning{}, false // not as good, or Best itself keeps the reference
 	}
 	return c
 }

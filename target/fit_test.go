@@ -45,6 +45,29 @@ func TestWithNothingDeclaredTheSimplerKeyIsNamed(t *testing.T) {
 	}
 }
 
+// Where the fit named moves the reference, the key that fits as many notes
+// at the declared reference is named beside it: A♭ major's notes at 440 Hz
+// (equal temperament by definition) fit G major at 466 Hz (a semitone up,
+// one accidental against four) as well, and a player who left --key out
+// more likely forgot the key. The G major scale at 415 Hz fits F♯ (or G♭)
+// major near 440. A fit that keeps the reference has no second.
+func TestTheKeyThatKeepsTheReferenceIsNamedToo(t *testing.T) {
+	aFlat := []int{-1, 1, 3, 4, 6, 8, 10, 11} // A♭4 B♭4 C5 D♭5 E♭5 F5 G5 A♭5
+	c := Default().CheckTake(equalHz(440, aFlat...))
+	if c.Best.Key.String() != "G major" || math.Abs(c.Best.A4-466.16) > 0.01 || !c.HasAtA4 ||
+		c.AtA4.Key.String() != "Ab major" || math.Abs(c.AtA4.A4-440) > 0.01 || c.AtA4.fits(equalHz(440, aFlat...)) != 8 {
+		t.Errorf("best %v, at the reference %v (%v)", c.Best, c.AtA4, c.HasAtA4)
+	}
+	c = Default().CheckTake(equalHz(415, gMajorScale...))
+	if k := c.AtA4.Key.String(); !c.HasAtA4 || k != "F# major" && k != "Gb major" || math.Abs(c.AtA4.A4-440) > 0.5 {
+		t.Errorf("G major at 415: at the reference %v (%v), want F# or Gb major", c.AtA4, c.HasAtA4)
+	}
+	declared := tuning(t, "G major", "equal", 440)
+	if c := declared.CheckTake(equalHz(440, 10, 12, 14, 15)); c.HasAtA4 {
+		t.Errorf("a take in tune: a second fit %v", c.AtA4)
+	}
+}
+
 // Notes a steady 20 ¢ sharp at A4 = 440 (so at A4 = 445.1 Hz: 440·2^(20/1200))
 // are in the key but off their targets by the same amount.
 func TestASteadyOffsetIsMeasured(t *testing.T) {

@@ -21,7 +21,7 @@ func TestTemperamentNamesAsMusiciansWriteThem(t *testing.T) {
 		"Quarter-comma meantone": "meantone:1/4", "⅙-comma": "meantone:1/6", "sixth-comma meantone": "meantone:1/6",
 		"2/7-comma meantone": "meantone:2/7", "third-comma": "meantone:1/3", "meantone 1/5": "meantone:1/5",
 		"edo31": "edo:31", "31-EDO": "edo:31", "19-tet": "edo:19", "EDO 53": "edo:53",
-		"regular, fifth 696.5¢": "fifth:696.5", "Meantone:1/4": "meantone:1/4",
+		"regular, fifth 696.5 ¢": "fifth:696.5", "regular, fifth 696.5¢": "fifth:696.5", "Meantone:1/4": "meantone:1/4",
 		"meantone quarter-comma": "meantone:1/4", "meantone": "meantone:1/4", "Meantone": "meantone:1/4", " Meantone : 1/6 ": "meantone:1/6", "Two-sevenths comma": "meantone:2/7",
 	} {
 		tm, err := ParseTemperament(in)

@@ -61,12 +61,12 @@ func TestAnExpressiveLeadingToneIsNotTheOtherSpelling(t *testing.T) {
 		on      bool
 		verdict string
 	}{
-		{"meantone:1/6", +11, false, "F#4 +11.0¢, toward Gb4"},
-		{"pythagorean", -12, false, "F#4 -12.0¢, toward Gb4"},
-		{"meantone:1/4", +3, false, "F#4 +3.0¢ (Gb4 would be -38.1¢)"},
-		{"meantone:1/4", +41.059, true, "F#4 +41.1¢, sits on Gb4 (+0.0¢)"},
+		{"meantone:1/6", +11, false, "F#4 +11.0 ¢, toward Gb4"},
+		{"pythagorean", -12, false, "F#4 -12.0 ¢, toward Gb4"},
+		{"meantone:1/4", +3, false, "F#4 +3.0 ¢ (Gb4 would be -38.1 ¢)"},
+		{"meantone:1/4", +41.059, true, "F#4 +41.1 ¢, sits on Gb4 (0.0 ¢)"},
 		// Past G♭ (19.6 ¢ above F♯ in ⅙-comma) it no longer leans toward it.
-		{"meantone:1/6", +40, false, "F#4 +40.0¢ (Gb4 would be +20.4¢)"},
+		{"meantone:1/6", +40, false, "F#4 +40.0 ¢ (Gb4 would be +20.4 ¢)"},
 	} {
 		tu := tuning(t, "G major", tc.spec, 440)
 		r := tu.Classify(tu.Target(note(t, "F#4")) * math.Exp2(tc.cents/1200))

@@ -76,10 +76,10 @@ func fifthWorks(f float64) bool { return f > MinFifth+1e-9 && f < MaxFifth-1e-9 
 // NewRegular makes a regular temperament with the given fifth in cents.
 func NewRegular(fifth float64) (Regular, error) {
 	if !fifthWorks(fifth) {
-		return Regular{}, fmt.Errorf("a fifth of %g cents puts the spellings out of order (B♭ reaches A at 720, C♯ reaches C at 685.714); fifths between %.3f and %.0f cents work", fifth, MinFifth, MaxFifth)
+		return Regular{}, fmt.Errorf("a fifth of %g ¢ puts the spellings out of order (B♭ reaches A at 720 ¢, C♯ reaches C at 685.714 ¢); fifths between %.3f and %.0f ¢ work", fifth, MinFifth, MaxFifth)
 	}
 	s := strconv.FormatFloat(fifth, 'f', -1, 64)
-	return Regular{Fifth: fifth, spec: "fifth:" + s, name: "regular, fifth " + s + "¢"}, nil
+	return Regular{Fifth: fifth, spec: "fifth:" + s, name: "regular, fifth " + s + " ¢"}, nil
 }
 
 // Equal is twelve-tone equal temperament.
@@ -116,7 +116,7 @@ func EDO(n int) (Regular, error) {
 	}
 	r, err := NewRegular(edoFifth(n))
 	if err != nil {
-		return Regular{}, fmt.Errorf("edo:%d: its best fifth, %.3f¢, puts the spellings out of order; divisions that work: %s", n, edoFifth(n), workingEDOs())
+		return Regular{}, fmt.Errorf("edo:%d: its best fifth, %.3f ¢, puts the spellings out of order; divisions that work: %s", n, edoFifth(n), workingEDOs())
 	}
 	if n == 12 {
 		r.Fifth = 700 // exactly, so F♯ and G♭ compare equal

@@ -296,3 +296,32 @@ func TestADoubledVoiceIsMarkedOnItsRow(t *testing.T) {
 		}
 	}
 }
+
+// A chord with a seventh names the just its seventh is read against, since
+// which seventh is just is a choice (--seventh: 16/9 unless chosen, 7/4 the
+// harmonic seventh; common practice): G B D F in equal temperament (ISO 16,
+// A4 = 440 Hz) reads its F +3.9 ¢ against 16/9 and +31.2 ¢ against 7/4
+// (996.1 and 968.8 ¢ against 1000: common practice).
+func TestAChordsSeventhSaysWhichJustItIsReadAgainst(t *testing.T) {
+	et := func(semis float64) float64 { return 440 * math.Exp2(semis/12) }
+	g3, b3, d4, f4 := et(-14), et(-10), et(-7), et(-4)
+	for _, c := range []struct {
+		seventh float64
+		line    string
+		cents   float64
+	}{{0, "chord G dominant seventh · root G3 · seventh against 16/9", 3.9}, {7.0 / 4, "chord G dominant seventh · root G3 · seventh against 7/4", 31.2}} {
+		g := newGroupModel(newModel(target.Default(), "test tones"), []string{"b", "t", "a", "s"}, c.seventh)
+		feedGroup(g, 0, 1, g3, b3, d4, f4)
+		if got := chordLine(g).Text(); got != c.line {
+			t.Errorf("chord line %q, want %q", got, c.line)
+		}
+		if r := g.readings()[3]; r.Role != "seventh" || math.Abs(r.Just-c.cents) > 0.05 {
+			t.Errorf("the seventh's row: %+v, want %+.1f ¢ from just", r, c.cents)
+		}
+	}
+	// A triad has no seventh to name.
+	g := groupHolding(target.Default(), trio, et(-14), et(-10), et(-7))
+	if got := chordLine(g).Text(); got != "chord G major · root G3" {
+		t.Errorf("triad: %q", got)
+	}
+}

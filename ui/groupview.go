@@ -114,11 +114,23 @@ func chordLine(g *groupModel) screenLine {
 	case ok && g.sounding:
 		// "over" would name the bass (a slash chord, common practice); the
 		// root whose octave just is measured from need not be the bass.
-		return screenLine{text("chord ", plainRole), text(c.Root.PrettyName()+" "+c.Quality, lit), text(" · root "+c.Root.Pretty(), dim)}
+		return screenLine{text("chord ", plainRole), text(c.Root.PrettyName()+" "+c.Quality, lit), text(" · root "+c.Root.Pretty()+seventhWords(c), dim)}
 	case ok:
 		return screenLine{text("last chord ", dim), text(c.Root.PrettyName()+" "+c.Quality, dim)}
 	}
 	return dimLine("no chord yet: two or more notes held together make one")
+}
+
+// seventhWords names the just a chord's seventh is read against (" ·
+// seventh against 7/4"), empty without one: which seventh is just is a
+// choice (--seventh), and its row's cents mean nothing without it.
+func seventhWords(c target.HeardChord) string {
+	for _, m := range c.Members {
+		if m.Role == "seventh" && m.Just != "" {
+			return " · seventh against " + m.Just
+		}
+	}
+	return ""
 }
 
 // driftLine is the group's drift from the reference.

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"strings"
+	"unicode/utf8"
 
 	"github.com/mattn/go-runewidth"
 
@@ -194,7 +195,12 @@ func fifthsRows(m *model, w int) [3]screenLine {
 	leftName, leftMark, rightName, rightMark := "", "", "", ""
 	altRole := dim
 	if ok && r.HasAlt && !r.SamePitch {
-		alt, altCents := r.AltWritten.Pretty(), cents(r.AltDeviation)+"¢"
+		// Cents on the screen are "+41.1 ¢", as on the words line; a side
+		// zone too narrow for the space keeps the sign alone.
+		alt, altCents := r.AltWritten.Pretty(), cents(r.AltDeviation)+" ¢"
+		if utf8.RuneCountInString(altCents) > side {
+			altCents = strings.Replace(altCents, " ", "", 1)
+		}
 		if r.OnOther {
 			alt, altRole = "["+alt+"]", other
 		}
@@ -278,7 +284,7 @@ func levelBar(db float64) string {
 }
 
 // inputLine is the status line's second part: input level with a clipping
-// warning and the capture's lost-audio counts.
+// warning and, only once some sound was lost, how often.
 func inputLine(m *model) screenLine {
 	lvl := "input silent " + levelBar(math.Inf(-1))
 	switch {
@@ -291,15 +297,13 @@ func inputLine(m *model) screenLine {
 	if m.Input.Clipping {
 		l = append(l, text(" CLIPPING — turn the input down", warn))
 	}
-	if m.Input.Known {
-		role := dim
-		if m.Input.Overflows+m.Input.Dropped > 0 {
-			role = warn
-		}
-		l = append(l, text(fmt.Sprintf(" · lost: %d overflows, %d dropped", m.Input.Overflows, m.Input.Dropped), role))
+	if gaps := m.Input.Overflows + m.Input.Dropped; m.Input.Known && gaps > 0 {
+		l = append(l, text(" · "+GapWords(gaps), warn))
 	}
 	if m.Dropped > 0 {
-		l = append(l, text(fmt.Sprintf(" · screen skipped %d frames", m.Dropped), dim))
+		// Readings the screen could not keep up with: the notes and the
+		// journal have them all, only the trace has holes.
+		l = append(l, text(fmt.Sprintf(" · screen behind: %s not drawn", howManyReadings(m.Dropped)), dim))
 	}
 	return l
 }
@@ -343,4 +347,22 @@ func helpLines() []screenLine {
 		dimLine("The trace: the last 4 s, time left to right, sharp up, flat down."),
 	)
 	return out
+}
+
+// howManyReadings is n readings in words, "1 reading" for one.
+func howManyReadings(n uint64) string {
+	if n == 1 {
+		return "1 reading"
+	}
+	return fmt.Sprintf("%d readings", n)
+}
+
+// GapWords says in a player's words how often the input lost sound: blocks
+// the driver lost before we read them and blocks we threw away, behind,
+// are alike to a player, a gap in what was heard.
+func GapWords(gaps uint64) string {
+	if gaps == 1 {
+		return "1 gap in the sound (computer too busy)"
+	}
+	return fmt.Sprintf("%d gaps in the sound (computer too busy)", gaps)
 }

@@ -103,7 +103,7 @@ func TestFifthsRowsLayTheWindowAlongTheLineOfFifths(t *testing.T) {
 	if got := rows[0].Text(); !strings.HasPrefix(got, "◂ [G♭4]") {
 		t.Errorf("the other spelling does not open the row: %q", got)
 	}
-	if got := strings.Fields(rows[1].Text()); strings.Join(got, " ") != "0.0¢ +41.1" {
+	if got := strings.Fields(rows[1].Text()); strings.Join(got, " ") != "0.0 ¢ +41.1" {
 		t.Errorf("marks row %q", rows[1].Text())
 	}
 	// ¼-comma meantone's offsets from equal: each fifth is 3.42 ¢ narrow, so
@@ -144,15 +144,31 @@ func TestHeldLineGivesSpreadAndVibratoOnceANoteIsHeld(t *testing.T) {
 	}
 }
 
-func TestInputLineWarnsOfClippingAndLostAudioInWords(t *testing.T) {
+func TestInputLineWarnsOfClippingAndGapsInTheSoundInWords(t *testing.T) {
 	m := holding(target.Default(), 440)
 	m.Journal = "journal: 3 notes → rehearsal.csv"
 	m.Input = inputState{Known: true, Clipping: true, Overflows: 2, Dropped: 1}
 	got := inputLine(m).Text()
-	for _, want := range []string{"input −20 dBFS ▮▮▮▮▮▮▮▯▯▯", "CLIPPING", "2 overflows, 1 dropped"} {
+	// Blocks the driver lost and blocks dropped behind are one thing to a
+	// player: gaps in what was heard, said only once there are some.
+	for _, want := range []string{"input −20 dBFS ▮▮▮▮▮▮▮▯▯▯", "CLIPPING", "3 gaps in the sound (computer too busy)"} {
 		if !strings.Contains(got, want) {
 			t.Errorf("%q lacks %q", got, want)
 		}
+	}
+	// A screen that fell behind says so in the same words: readings not
+	// drawn (the notes and the journal have them).
+	m.Dropped = 4
+	if got := inputLine(m).Text(); !strings.Contains(got, "screen behind: 4 readings not drawn") {
+		t.Errorf("%q does not say the screen fell behind", got)
+	}
+	m.Dropped = 0
+	m.Input = inputState{Known: true}
+	if got := inputLine(m).Text(); strings.Contains(got, "gap") || strings.Contains(got, "lost") {
+		t.Errorf("nothing lost, yet the input line says %q", got)
+	}
+	if got := GapWords(1); got != "1 gap in the sound (computer too busy)" {
+		t.Errorf("one gap: %q", got)
 	}
 	if got := journalLine(m).Text(); got != m.Journal {
 		t.Errorf("journal line %q", got)

@@ -4,6 +4,8 @@ import (
 	"context"
 	"errors"
 	"fmt"
+	"slices"
+	"strings"
 	"sync"
 
 	"fifthline/capture"
@@ -19,6 +21,8 @@ type analyzeOptions struct {
 	channelAsked bool // --channel given: no note on which channel is read
 	recorded     recordedFlag
 	sayTuning    func() // once: before a warning, or at the end (an error stays the only line)
+	seventh      string // --seventh as given ("16/9" by default), for the chord table's title
+	keyGiven     bool   // --key or a tuning file set the key: the fit keeps it (tuningWarning)
 }
 
 // errInterrupted: Ctrl-C or SIGTERM stopped the reading; what was heard
@@ -53,7 +57,8 @@ func runAnalyze(e *env, args []string) error {
 	if err != nil {
 		return err
 	}
-	opt.format, opt.channelAsked = *format, wasSet(fs, "channel")
+	opt.format, opt.channelAsked, opt.seventh = *format, wasSet(fs, "channel"), strings.TrimSpace(mf.seventh)
+	opt.keyGiven = mf.origin["key"] != fromDefault
 	opt.sayTuning = sync.OnceFunc(func() { mf.say(e.stderr, tu) })
 	if po, ok, err := playersOptions(fs, *players); err != nil {
 		return err
@@ -118,6 +123,10 @@ func analyzeGroup(e *env, flag string, files []string, tu target.Tuning, opt ana
 	out := newRowWriter(e.stdout, opt.format, head)
 	if opt.format == "table" {
 		out.title = tu.String()
+		if slices.Contains(head, "just_cents") {
+			// The seventh's from-just cents mean nothing without its just.
+			out.title += " · sevenths against " + opt.seventh
+		}
 	}
 	var drifts []string // the table's line per take
 	for i, path := range files {
@@ -164,7 +173,7 @@ func analyzeFile(e *env, path string, tu target.Tuning, opt analyzeOptions, out 
 	if w.Truncated() {
 		fmt.Fprintf(e.stderr, "fifthline: warning: %s is shorter than its header says; read what was there\n", path)
 	}
-	if msg := tuningWarning(path, tu, heard); msg != "" {
+	if msg := tuningWarning(path, tu, heard, opt.keyGiven); msg != "" {
 		opt.sayTuning()
 		fmt.Fprintf(e.stderr, "fifthline: %s\n", msg)
 	}

@@ -112,3 +112,27 @@ func TestChordSeventhFlagEverywhere(t *testing.T) {
 		t.Errorf("tuning --save --seventh wrote a tuning file")
 	}
 }
+
+// The chord table says which just its sevenths are read against, since the
+// seventh's cents from just mean nothing without it (--seventh: 16/9
+// unless chosen; common practice): a G dominant seventh of sox sawtooths
+// at equal temperament's G3 B3 D4 F4 (ISO 16, A4 = 440 Hz), one a channel.
+func TestTheChordTableNamesTheSeventhsJust(t *testing.T) {
+	multi, _ := soxParts(t, [][]soxNote{
+		{{195.9977, 0.1, 1.5, 0.1}}, {{246.9417, 0.1, 1.5, 0.1}}, {{293.6648, 0.1, 1.5, 0.1}}, {{349.2282, 0.1, 1.5, 0.1}},
+	})
+	for _, c := range []struct {
+		args  []string
+		title string
+	}{
+		{nil, "sevenths against 16/9"},
+		{[]string{"--seventh", "7/4"}, "sevenths against 7/4"},
+	} {
+		args := append([]string{"analyze", "--players", "b,t,a,s", "--chords", "--format", "table"}, c.args...)
+		code, out, stderr := runCLI(t, append(args, multi)...)
+		title, _, _ := strings.Cut(out, "\n")
+		if code != 0 || !strings.HasSuffix(title, " · "+c.title) || !strings.Contains(out, "G dominant seventh  seventh") {
+			t.Errorf("%v: exit %d, stderr %q, out:\n%s", c.args, code, stderr, out)
+		}
+	}
+}

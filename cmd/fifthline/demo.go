@@ -6,6 +6,7 @@ import (
 
 	"fifthline/capture"
 	"fifthline/session"
+	"fifthline/source"
 	"fifthline/target"
 )
 
@@ -60,7 +61,8 @@ func runDemo(e *env, args []string) error {
 		err = runMeter(e.ctx, src, opts, j, meterSource{name: "the demo performance", journal: jf.log, sound: newMeterSound(sf), ascii: *ascii})
 	}
 	if err = errors.Join(stopped(err), j.close()); err == nil {
-		mf.say(e.stderr, tu) // the screen showed it; this keeps it in the terminal
+		mf.say(e.stderr, tu)                       // the screen showed it; this keeps it in the terminal
+		sayHeard(e.stderr, source.InputStats{}, j) // a performance loses no sound
 	}
 	return err
 }

@@ -25,3 +25,21 @@ func TestBadFlagValuesSayWhatTheFlagTakes(t *testing.T) {
 		}
 	}
 }
+
+// A command's name mistyped is a usage error (exit 2, interface contract)
+// that names the command meant, as a mistyped flag does; a word near none
+// lists the commands.
+func TestAMistypedCommandNamesTheOneMeant(t *testing.T) {
+	for _, c := range []struct{ name, says string }{
+		{"anlyze", `unknown command "anlyze" (did you mean analyze?)`},
+		{"lisen", `unknown command "lisen" (did you mean listen?)`},
+		{"tune", `unknown command "tune" (`},
+		{"xyzzy", `unknown command "xyzzy" (try: targets, listen,`},
+	} {
+		code, out, stderr := runCLI(t, c.name)
+		checkError(t, code, 2, stderr)
+		if !strings.Contains(stderr, c.says) || out != "" {
+			t.Errorf("%s: %q, want it to say %q", c.name, stderr, c.says)
+		}
+	}
+}

@@ -234,6 +234,15 @@ func withHint(fs *flag.FlagSet, msg string) string {
 	return msg
 }
 
+// unknownCommand names the command nearest a slip (anlyze), as unknownFlag
+// does for flags, else lists them all.
+func unknownCommand(name string) string {
+	if near, ok := typo.Nearest(name, commandNames()); ok {
+		return fmt.Sprintf("unknown command %q (did you mean %s?)", name, near)
+	}
+	return fmt.Sprintf("unknown command %q (try: %s)", name, strings.Join(commandNames(), ", "))
+}
+
 // unknownFlag says a flag the command lacks in a player's words, with the
 // flag it nearest spells (a slip: --temperment) or where the flags are listed.
 func unknownFlag(fs *flag.FlagSet, name string) string {

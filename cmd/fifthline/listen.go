@@ -6,6 +6,7 @@ import (
 	"errors"
 	"flag"
 	"fmt"
+	"io"
 	"os"
 	"path/filepath"
 	"strings"
@@ -120,11 +121,27 @@ func runListen(e *env, args []string) error {
 	// Close before reporting, the journal first: it is complete even if a
 	// vanished device will not close.
 	jerr := j.close()
+	heard := in.Stats()
 	err = errors.Join(stopped(err), in.Close(), jerr)
 	if err == nil && !*plain {
 		mf.say(e.stderr, tu) // the screen showed it; this keeps it in the terminal
 	}
+	if err == nil {
+		sayHeard(e.stderr, heard, j)
+	}
 	return err
+}
+
+// sayHeard tells, as listening ends, where the notes went and whether any
+// sound was lost: the screen that said so is gone, and --plain's rows
+// alone cannot tell a gap.
+func sayHeard(w io.Writer, st source.InputStats, j *journalSink) {
+	if s := j.status(); s != "" {
+		fmt.Fprintln(w, "fifthline: "+s)
+	}
+	if gaps := st.Overflows + st.DroppedBlocks; gaps > 0 {
+		fmt.Fprintf(w, "fifthline: %s: notes across a gap may read wrong\n", ui.GapWords(gaps))
+	}
 }
 
 // beginPlain writes the header of listen --plain's CSV at once, so a

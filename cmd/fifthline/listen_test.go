@@ -4,10 +4,12 @@ import (
 	"bufio"
 	"bytes"
 	"fmt"
+	"io"
 	"math"
 	"os"
 	"os/exec"
 	"path/filepath"
+	"regexp"
 	"strconv"
 	"strings"
 	"sync"
@@ -15,6 +17,7 @@ import (
 	"time"
 
 	"fifthline/internal/vmic"
+	"fifthline/source"
 )
 
 // The built command, for tests that run it as a user would (in tmux, on the
@@ -211,7 +214,9 @@ func TestListenDurationStopsCleanlyWithTheHeaderWritten(t *testing.T) {
 	_, env, _ := privateMic(t)
 	start := time.Now()
 	code, out, stderr := startPlain(t, env, "--duration", "1s")()
-	// stderr holds only the tuning in force, said since no flag set it.
+	// stderr holds only the tuning in force, said since no flag set it
+	// (and, if the loaded machine lost sound, a line saying so).
+	stderr = endWords.ReplaceAllString(stderr, "")
 	if code != 0 || strings.Count(stderr, "\n") != 1 || !strings.HasPrefix(stderr, "fifthline: tuning C major · equal temperament · A4 = 440 Hz") ||
 		!strings.HasSuffix(stderr, "(key, temperament, a4 by default)\n") ||
 		!strings.HasPrefix(out, "start_s,end_s,note,hz,target_hz,cents,alt_note,alt_cents") {
@@ -335,16 +340,45 @@ func stopPlain(t *testing.T, proc *os.Process, wait func() (int, string, string)
 }
 
 // interruptPlain stops `listen --plain` with Ctrl-C (SIGINT), checks that it
-// ended cleanly, saying nothing but the tuning in force, and returns its
-// output.
+// ended cleanly, saying nothing but the tuning in force and, as it ends,
+// the journal's tally and any gaps in the sound (sayHeard), and returns
+// its output.
 func interruptPlain(t *testing.T, proc *os.Process, wait func() (int, string, string)) string {
 	t.Helper()
 	if err := proc.Signal(os.Interrupt); err != nil {
 		t.Fatal(err)
 	}
 	code, out, stderr := wait()
+	stderr = endWords.ReplaceAllString(stderr, "")
 	if code != 0 || (stderr != "" && (strings.Count(stderr, "\n") != 1 || !strings.HasPrefix(stderr, "fifthline: tuning "))) {
 		t.Errorf("exit %d, stderr %q", code, stderr)
 	}
 	return out
+}
+
+// endWords are the lines listen ends with (sayHeard).
+var endWords = regexp.MustCompile(`(?m)^fifthline: (journal: .* → .*|[0-9]+ gaps? in the sound .*)\n`)
+
+// As listening ends the screen is gone: a journal's tally and any sound
+// lost are said on stderr, the gaps only when there were some (a player
+// needs no count of nothing).
+func TestListenEndsSayingWhereTheNotesWentAndAnyGap(t *testing.T) {
+	var b strings.Builder
+	sayHeard(&b, source.InputStats{Blocks: 900}, &journalSink{})
+	if b.String() != "" {
+		t.Errorf("no journal, nothing lost, yet: %q", b.String())
+	}
+	path := filepath.Join(t.TempDir(), "rehearsal.csv")
+	jf := &journalFlags{log: path}
+	j, err := jf.open(&env{stderr: io.Discard})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer j.close()
+	sayHeard(&b, source.InputStats{Blocks: 900, Overflows: 1, DroppedBlocks: 2}, j)
+	want := "fifthline: journal: 0 notes → " + path + "\n" +
+		"fifthline: 3 gaps in the sound (computer too busy): notes across a gap may read wrong\n"
+	if b.String() != want {
+		t.Errorf("said %q, want %q", b.String(), want)
+	}
 }

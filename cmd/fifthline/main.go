@@ -127,7 +127,7 @@ func run(e *env, args []string) (code int) {
 	}
 	cmd, ok := lookupCommand(args[0])
 	if !ok {
-		fmt.Fprintf(e.stderr, "fifthline: unknown command %q (try: %s)\n", args[0], strings.Join(commandNames(), ", "))
+		fmt.Fprintln(e.stderr, "fifthline: "+unknownCommand(args[0]))
 		return 2
 	}
 	err := cmd.run(e, args[1:])
@@ -161,7 +161,7 @@ func printHelp(w io.Writer) {
 		fmt.Fprintf(w, "  %-9s %s\n", c.name, c.summary)
 	}
 	fmt.Fprintln(w, "\nmusical flags: --key \"G major\" --temperament equal|meantone:1/4|edo:31|… --a4 440")
-	fmt.Fprintln(w, "               --anchor a4|tonic --chord \"D major\" --transpose Bb")
+	fmt.Fprintln(w, "               --anchor a4|tonic --chord \"D major\" --seventh 16/9 --transpose Bb")
 	fmt.Fprintln(w, "               (absent ones come from ./fifthline.toml, see 'fifthline help tuning')")
 	fmt.Fprintln(w, "'fifthline help COMMAND' lists a command's flags; 'fifthline --version' says which fifthline this is.")
 }

@@ -85,7 +85,7 @@ func (m *musicalFlags) seventhRatio() (float64, error) {
 // declared chord and for the chords heard (--chords), once per flag set.
 func addSeventhFlag(fs *flag.FlagSet, value *string) {
 	if fs.Lookup("seventh") == nil {
-		fs.StringVar(value, "seventh", "16/9", "the just ratio of a chord's minor seventh, declared (--chord) or heard (--chords): 7/4, 9/5 or 16/9")
+		fs.StringVar(value, "seventh", "16/9", "the just ratio of a chord's minor seventh, declared (--chord) or heard (--players, --voices, demo --group; the journal keeps it): 7/4, 9/5 or 16/9")
 	}
 }
 

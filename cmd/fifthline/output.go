@@ -283,6 +283,27 @@ var tableWords = map[string]string{
 	"just_cents":        "from just ¢",
 }
 
+// tableCells are a record's values as the table writes them: a reading's
+// cents as the one-voice table writes them ("+7.9 ¢"), cents under a head
+// that names the unit signed to a tenth ("+13.7"), and every other value
+// as the CSV has it (seconds, hertz, names).
+func tableCells(head, rec []string) []string {
+	out := slices.Clone(rec)
+	for i, h := range head {
+		x, err := strconv.ParseFloat(rec[i], 64)
+		switch {
+		case err != nil:
+		case h == "cents" || h == "alt_cents":
+			out[i] = target.FormatCents(x, 1)
+		case h == "just_cents" || h == "group_drift_cents":
+			out[i] = target.Signed(x, 1)
+		case h == "spread_cents" || h == "vibrato_cents":
+			out[i] = target.Decimal(x, 1)
+		}
+	}
+	return out
+}
+
 // tableHead is a header's columns in the table's words.
 func tableHead(head []string) []string {
 	out := make([]string, len(head))

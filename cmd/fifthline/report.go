@@ -4,11 +4,13 @@ import (
 	"errors"
 	"fmt"
 	"path/filepath"
+	"slices"
 	"strings"
 	"time"
 
 	"fifthline/journal"
 	"fifthline/report"
+	"fifthline/target"
 )
 
 func runReport(e *env, args []string) error {
@@ -34,6 +36,13 @@ func runReport(e *env, args []string) error {
 	if !(*tolerance > 0 && *tolerance <= 100) {
 		return usagef("--tolerance %g: give cents above 0, at most 100", *tolerance)
 	}
+	if f.Key != "" {
+		// Read as every command reads --key (a lone g, a German H get their
+		// hints), not matched as text that no journal holds.
+		if _, err := target.ParseKey(f.Key); err != nil {
+			return usagef("--key: %v", err)
+		}
+	}
 	if ext := strings.ToLower(filepath.Ext(*plotPath)); *plotPath != "" && ext != ".png" && ext != ".svg" {
 		return usagef("--plot %q: the file must end in .png or .svg", *plotPath)
 	}
@@ -53,9 +62,10 @@ func runReport(e *env, args []string) error {
 		}
 		entries = append(entries, es...)
 	}
+	all := entries
 	entries = f.Apply(entries)
 	if len(entries) == 0 {
-		return fmt.Errorf("no held notes in %s%s", strings.Join(paths, ", "), filterWords(f, *since))
+		return fmt.Errorf("no held notes in %s%s%s", strings.Join(paths, ", "), filterWords(f, *since), whoIsThere(all, f))
 	}
 	opt := report.Options{Tolerance: *tolerance, ByRehearsal: *by == "rehearsal"}
 	groups := report.Summarize(entries, opt)
@@ -79,6 +89,24 @@ func runReport(e *env, args []string) error {
 }
 
 // filterWords says which filters left nothing: " by Ann, in G major, since 2026-03-14".
+// whoIsThere names, when --player kept nobody, the players and voices the
+// journals do hold, so a misspelt or forgotten name can be put right.
+func whoIsThere(es []journal.Entry, f report.Filter) string {
+	if f.Player == "" || len(es) == 0 {
+		return ""
+	}
+	var names []string
+	for _, e := range es {
+		if e.Player != "" && !slices.Contains(names, e.Player) {
+			names = append(names, e.Player)
+		}
+	}
+	if len(names) == 0 {
+		return " (its notes name no player)"
+	}
+	return " (players there: " + strings.Join(names, ", ") + ")"
+}
+
 func filterWords(f report.Filter, since string) string {
 	var w []string
 	if f.Player != "" {

@@ -84,7 +84,7 @@ func TestReportByRehearsalOfSoxTones(t *testing.T) {
 	// within ±5 ¢; the G♭4 counted apart at its own +1 ¢, not averaged in
 	// as +42 ¢. Week 2 (1 + 3)/2 = 2 ¢, both within.
 	wants := map[string]want{
-		"2026-03-10": {"2", "1", "7", "1", "sits 7 ¢ high", "0"},
+		"2026-03-10": {"2", "1", "7", "1", "sits 7 ¢ sharp", "0"},
 		"2026-03-17": {"2", "0", "2", "", "in tune", "2"},
 	}
 	seen := 0

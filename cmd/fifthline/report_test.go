@@ -81,7 +81,7 @@ func TestReportReadsWhatLogWrites(t *testing.T) {
 	// cents survive Hz → CSV → report to the journal's 0.01 ¢.
 	f := row("Ann", "note", "F#4")
 	for col, want := range map[string]string{"count": "3", "mean_cents": "6.00", "median_cents": "6.00",
-		"scatter_cents": "1.63", "within": "1", "key": "G major", "temperament": "meantone:1/4", "tendency": "sits 6 ¢ high"} {
+		"scatter_cents": "1.63", "within": "1", "key": "G major", "temperament": "meantone:1/4", "tendency": "sits 6 ¢ sharp"} {
 		if f[col] != want {
 			t.Errorf("F#4 %s = %q, want %q", col, f[col], want)
 		}
@@ -272,5 +272,37 @@ func TestKilledRehearsal(t *testing.T) {
 		if e.Start != float64(i) || e.Player != "Dana" {
 			t.Errorf("entry %d: start %v player %q", i, e.Start, e.Player)
 		}
+	}
+}
+
+// --player naming nobody in the journals is an error (exit 1) that names
+// the players there, so a misspelt name can be put right.
+func TestReportForAPlayerNotThereNamesThoseThere(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "rehearsal.csv")
+	tu := quarterCommaG(t)
+	logNotes(t, path, "Ann", heldNote(tu, "F#4", 4, 0))
+	logNotes(t, path, "Ben", heldNote(tu, "B4", 1, 0))
+	code, _, stderr := runCLI(t, "report", "--player", "Anne", path)
+	checkError(t, code, 1, stderr)
+	if !strings.Contains(stderr, "no held notes in "+path+" by Anne (players there: Ann, Ben)") {
+		t.Errorf("stderr %q", stderr)
+	}
+}
+
+// report's --key is read as every command reads it (interface contract:
+// `--key H` is a usage error, exit 2; a lone lower-case letter gets its
+// hint), not matched as text that no journal holds.
+func TestReportKeyIsReadAsEveryCommandReadsIt(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "rehearsal.csv")
+	logNotes(t, path, "Ann", heldNote(quarterCommaG(t), "F#4", 4, 0))
+	for key, says := range map[string]string{"H": "German H is B", "g": `say "G major" or "G minor"`} {
+		code, _, stderr := runCLI(t, "report", "--key", key, path)
+		checkError(t, code, 2, stderr)
+		if !strings.Contains(stderr, says) {
+			t.Errorf("--key %s: %q, want it to say %q", key, stderr, says)
+		}
+	}
+	if code, out, stderr := runCLI(t, "report", "--key", "g major", path); code != 0 || !strings.Contains(out, "Ann · G major") {
+		t.Errorf("--key \"g major\": exit %d, %q\n%s", code, stderr, out)
 	}
 }

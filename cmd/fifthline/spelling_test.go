@@ -77,7 +77,7 @@ func TestKeyAndTemperamentWords(t *testing.T) {
 		{[]string{"--temperament", "organ/chapel.tmp"}, `temperament file "organ/chapel.tmp": no such file`},
 		{[]string{"--temperament", "chapel.txt"}, "no such file"},
 		{[]string{"--temperament", "edo:7"}, "divisions that work: 12, 17, 19, 22"},
-		{[]string{"--temperament", "fifth:720"}, "fifths between 685.714 and 720 cents work"},
+		{[]string{"--temperament", "fifth:720"}, "fifths between 685.714 and 720 ¢ work"},
 		{[]string{"--anchor", "middle"}, "use a4 or tonic"},
 	} {
 		code, _, stderr := runCLI(t, append([]string{"targets"}, tc.args...)...)

@@ -48,3 +48,22 @@ func TestAnalyzeTableHasALineForEveryTake(t *testing.T) {
 		t.Errorf("silence alone: exit %d:\n%s", code, out)
 	}
 }
+
+// The --players and --voices tables write a reading's cents as the
+// one-voice table does ("+7.9 ¢", the unit after a space: FormatCents),
+// cents under a head naming the unit signed to a tenth, and the CSV keeps
+// its numbers: an equal-tempered G dominant seventh of sox sawtooths (ISO
+// 16, A4 = 440 Hz) reads its third 13.7 ¢ above 5/4 (common practice).
+func TestTheGroupTablesWriteCentsAsTheOneVoiceTable(t *testing.T) {
+	multi, _ := soxParts(t, [][]soxNote{
+		{{195.9977, 0.1, 1.5, 0.1}}, {{246.9417, 0.1, 1.5, 0.1}}, {{293.6648, 0.1, 1.5, 0.1}}, {{349.2282, 0.1, 1.5, 0.1}},
+	})
+	code, out, stderr := runCLI(t, "analyze", "--players", "b,t,a,s", "--chords", "--format", "table", multi)
+	if code != 0 || !regexp.MustCompile(`(?m)^\S+ +\S+ +G dominant seventh +third +B3 +[0-9.]+ +(0\.0|[−+-]0\.[0-9]) ¢ +\+13\.7 +t$`).MatchString(out) {
+		t.Errorf("exit %d (%s), table:\n%s", code, stderr, out)
+	}
+	_, out, _ = runCLI(t, "analyze", "--players", "b,t,a,s", "--chords", "--format", "csv", multi)
+	if strings.Contains(out, "¢") || !strings.Contains(out, ",third,B3,") {
+		t.Errorf("the CSV:\n%s", out)
+	}
+}

@@ -169,3 +169,25 @@ func TestAForgottenReferenceIsNoticedOnARenderedViolin(t *testing.T) {
 	}
 	t.Log(strings.TrimSpace(stderr))
 }
+
+// An A♭ major scale at A4 = 440 Hz (equal temperament by definition)
+// analysed with no key given reads mostly outside C major; it fits G major
+// a semitone up (A4 ≈ 466.2 Hz) and A♭ major at 440 alike, and since no
+// key was given the one that keeps the reference is named too. With --key
+// given the key is kept, and only the first is named.
+func TestAForgottenKeyIsNamedBesideAMovedReference(t *testing.T) {
+	t.Parallel()
+	var hz []float64
+	for _, s := range []int{-1, 1, 3, 4, 6, 8, 10, 11} {
+		hz = append(hz, 440*math.Exp2(float64(s)/12))
+	}
+	take := toneWAV(t, hz...)
+	_, _, stderr := runCLI(t, "analyze", take)
+	if !strings.Contains(stderr, "these notes fit G major at A4 ≈ 466.2 Hz, or Ab major at A4 ≈ 440.0 Hz") {
+		t.Errorf("no key given: %q", stderr)
+	}
+	_, _, stderr = runCLI(t, "analyze", "--key", "G major", take)
+	if !strings.Contains(stderr, "these notes fit G major at A4 ≈ 466.2 Hz (") {
+		t.Errorf("--key G major: %q", stderr)
+	}
+}

@@ -88,7 +88,10 @@ const (
 
 // tuningWarning says, in one line, when a take's notes do not fit the
 // declared tuning and which key and reference fit them; "" when they fit.
-func tuningWarning(name string, tu target.Tuning, evs []session.Event) string {
+// Where no key was given (keyGiven false) and the fit moved the reference,
+// the key that fits as well at the reference in force is named too: the
+// key is the likelier thing forgotten.
+func tuningWarning(name string, tu target.Tuning, evs []session.Event, keyGiven bool) string {
 	hz := make([]float64, len(evs))
 	for i, ev := range evs {
 		hz[i] = ev.Reading.Hz
@@ -113,6 +116,9 @@ func tuningWarning(name string, tu target.Tuning, evs []session.Event) string {
 	fit := "no other key or reference fits them better"
 	if c.BestFits > c.Fits && float64(c.BestFits) >= fitShareNeed*float64(c.Notes) {
 		fit = fmt.Sprintf("these notes fit %s at A4 ≈ %.1f Hz", c.Best.Key, c.Best.A4)
+		if c.HasAtA4 && !keyGiven {
+			fit += fmt.Sprintf(", or %s at A4 ≈ %.1f Hz", c.AtA4.Key, c.AtA4.A4)
+		}
 	}
 	return fmt.Sprintf("warning: %s: %s; %s (is the tuning right? see fifthline help tuning)", name, what, fit)
 }

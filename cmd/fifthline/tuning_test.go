@@ -104,6 +104,13 @@ func TestTheTuningInForce(t *testing.T) {
 			t.Errorf("tuning output lacks a line %s:\n%s", want, out)
 		}
 	}
+	// Without --anchor the anchor row says the one in force: just keeps its
+	// tonic where equal temperament puts it (interface contract, --a4), so
+	// there it reads tonic, not "a4 (tonic in just)".
+	_, out, _ = inFolder(t, dir, config, "tuning", "--temperament", "just")
+	if !regexp.MustCompile(`(?m)^anchor\s+tonic \(just keeps its tonic\)\s+default\s*$`).MatchString(out) {
+		t.Errorf("just's anchor row:\n%s", out)
+	}
 }
 
 // --save writes only the flags given, over what the folder's file holds.

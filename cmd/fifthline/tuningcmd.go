@@ -99,8 +99,10 @@ func printTuning(e *env, mf *musicalFlags, tu target.Tuning) error {
 		switch {
 		case name == "transpose" && v == "":
 			v = "none (sounding pitch)"
+		case name == "anchor" && v == "" && tu.Anchored() == target.AnchorTonic:
+			v = "tonic (just keeps its tonic)" // the one in force, not the rule
 		case name == "anchor" && v == "":
-			v = "a4 (tonic in just)"
+			v = "a4"
 		}
 		fmt.Fprintf(tw, "%s\t%s\t%s\t\n", name, v, mf.origin[name])
 	}

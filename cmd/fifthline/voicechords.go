@@ -175,7 +175,7 @@ func (rw *rowWriter) write(rec []string, obj any) {
 			}
 			fmt.Fprintln(rw.tab, strings.Join(tableHead(rw.head), "\t"))
 		}
-		fmt.Fprintln(rw.tab, strings.Join(rec, "\t"))
+		fmt.Fprintln(rw.tab, strings.Join(tableCells(rw.head, rec), "\t"))
 	default:
 		if rw.rows == 0 {
 			rw.csv.Write(rw.head)
