@@ -19,16 +19,7 @@ import (
 // tone, a ring modulation; measured.)
 func TestAVibratoStepIsTwoNotes(t *testing.T) {
 	const rate, side = 48000.0, 0.6
-	for _, c := range []struct {
-		name   string
-		centre [2]float64
-		notes  int
-	}{
-		{"A♭4 to G♯4", [2]float64{meantoneAb4, meantoneGs4}, 2},
-		{"G♯4 to A♭4", [2]float64{meantoneGs4, meantoneAb4}, 2},
-		{"A♭4 held", [2]float64{meantoneAb4, meantoneAb4}, 1},
-		{"G♯4 held", [2]float64{meantoneGs4, meantoneGs4}, 1},
-	} {
+	for _, c := range diesisCases(meantoneAb4, meantoneGs4) {
 		hz := func(t float64) float64 {
 			return testsignal.Vibrato(c.centre[min(int(t/side), 1)], 30, 5.5)(t)
 		}
@@ -75,23 +66,9 @@ func TestAPortamentoIsOneNote(t *testing.T) {
 // centre (as TestFluidR3DiesisStepsAreTwoNotes: the attack's settling
 // pulls a little). About either alone, it is one note.
 func TestAFluidR3VibratoStepIsTwoNotes(t *testing.T) {
-	const rate = 48000.0
-	for _, c := range []struct {
-		name   string
-		centre [2]float64
-		notes  int
-	}{
-		{"A♭4 to G♯4", [2]float64{24.03, -17.03}, 2},
-		{"G♯4 to A♭4", [2]float64{-17.03, 24.03}, 2},
-		{"A♭4 held", [2]float64{24.03, 24.03}, 1},
-		{"G♯4 held", [2]float64{-17.03, -17.03}, 1},
-	} {
+	for _, c := range diesisCases(24.03, -17.03) {
 		x, _ := fluidMIDI(t, bentVibrato(71, 68, c.centre, 0.6, 15, 5.5))
-		d, err := New(rate, 0, 0)
-		if err != nil {
-			t.Fatal(err)
-		}
-		notes := segment(d.Feed(x, nil), rate)
+		notes := segment(run(t, 48000, float64s(x)), 48000)
 		if len(notes) != c.notes {
 			t.Errorf("%s: %d notes, want %d: %+v", c.name, len(notes), c.notes, notes)
 			continue
@@ -104,6 +81,25 @@ func TestAFluidR3VibratoStepIsTwoNotes(t *testing.T) {
 				t.Logf("%s: note %d %.3f–%.3f s, %+.2f ¢ from its centre", c.name, i, n.Start, n.End, off)
 			}
 		}
+	}
+}
+
+// diesisCase is a vibrato about centre[0] then centre[1], which is notes
+// notes.
+type diesisCase struct {
+	name   string
+	centre [2]float64
+	notes  int
+}
+
+// diesisCases are a step from A♭4 (ab) to G♯4 (gs) and back, two notes,
+// and either held, one.
+func diesisCases(ab, gs float64) []diesisCase {
+	return []diesisCase{
+		{"A♭4 to G♯4", [2]float64{ab, gs}, 2},
+		{"G♯4 to A♭4", [2]float64{gs, ab}, 2},
+		{"A♭4 held", [2]float64{ab, ab}, 1},
+		{"G♯4 held", [2]float64{gs, gs}, 1},
 	}
 }
 
@@ -139,14 +135,9 @@ func bentVibrato(program, key int, centre [2]float64, seconds, width, rate float
 // of the same instrument holding its pitch alone for as long (measured:
 // the violin within 1 ¢, the viola 2.9).
 func TestFluidR3VibratoDiesisStepsAreTwoNotes(t *testing.T) {
-	const rate = 48000.0
 	read := func(program int, notes []testsignal.TimedNote) []Held {
 		x, _ := fluidMIDI(t, testsignal.MIDIParts([]testsignal.MIDIPart{{Program: program, Notes: notes}}))
-		d, err := New(rate, 0, 0)
-		if err != nil {
-			t.Fatal(err)
-		}
-		return segment(d.Feed(x, nil), rate)
+		return segment(run(t, 48000, float64s(x)), 48000)
 	}
 	for _, p := range []struct {
 		name    string
