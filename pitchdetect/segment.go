@@ -67,6 +67,7 @@ type Segmenter struct {
 	nextHz  float64     // the pitch of the note slurred on to, at a finish
 	span    []spanFrame // scratch for throughSlurs
 	tail    []Estimate  // scratch for stepAt
+	sides   sides       // what each frame's side holds (step.go)
 }
 
 // NewSegmenter returns a Segmenter for estimates hopSeconds apart, with
@@ -121,7 +122,11 @@ func (s *Segmenter) Push(e Estimate) (Held, bool) {
 	if math.Abs(1200*math.Log2(e.Hz/s.recentHz())) <= s.JumpCents {
 		s.hasOut = false
 		s.add(e)
-		if k := s.heldStep(); k > 0 {
+		k := s.heldStep()
+		if k == 0 && s.StepCents > 0 {
+			k = s.vibratoStep()
+		}
+		if k > 0 {
 			return s.stepAt(k)
 		}
 		return Held{}, false

@@ -129,18 +129,24 @@ func TestFluidR3DiesisStepsAreTwoNotes(t *testing.T) {
 
 // Push's cost per frame on a held note, steady within a cent (the case
 // where heldStep looks furthest: its recent frames hold, every frame), with
-// held steps judged and without (StepCents 0).
+// held steps judged and without (StepCents 0), and with a vibrato of ±15 ¢
+// at 5.5 Hz (each frame's side fitted: vibratoStep).
 func BenchmarkPushOnAHeldNote(b *testing.B) {
 	for _, c := range []struct {
-		name  string
-		cents float64
-	}{{"steps", stepCents}, {"jumps only", 0}} {
+		name    string
+		cents   float64
+		vibrato bool
+	}{{"steps", stepCents, false}, {"jumps only", 0, false}, {"steps, vibrato", stepCents, true}} {
 		b.Run(c.name, func(b *testing.B) {
 			s := NewSegmenter(0.01)
 			s.StepCents = c.cents
 			i := 0
 			for b.Loop() {
-				s.Push(Estimate{Time: float64(i) * 0.01, Hz: 440 * math.Exp2(math.Sin(float64(i)*0.35)/1200), Voiced: true, Confidence: 1, Level: -20})
+				cents := math.Sin(float64(i) * 0.35)
+				if c.vibrato {
+					cents = 15 * math.Sin(2*math.Pi*5.5*float64(i)*0.01)
+				}
+				s.Push(Estimate{Time: float64(i) * 0.01, Hz: 440 * math.Exp2(cents/1200), Voiced: true, Confidence: 1, Level: -20})
 				i++
 				if i == 30000 { // a five-minute note, then the next
 					s.Flush()

@@ -36,6 +36,23 @@ func findVibrato(t, c []float64, window float64) vibrato {
 	if sd == 0 || dur*vibratoMaxRate < vibratoMinCycle {
 		return vibrato{}
 	}
+	best := vibratoRate(t, c, mean)
+	if dur*best < vibratoMinCycle {
+		return vibrato{}
+	}
+	a, b, m, fit := fitSinusoid(t, c, best)
+	_ = m
+	width := 2 * math.Hypot(a, b) / windowGain(best, window)
+	if width < vibratoMinWidth || fit < vibratoMinFit {
+		return vibrato{}
+	}
+	return vibrato{rate: best, width: width, centre: wholeCycleMean(t, c, best), ok: true}
+}
+
+// vibratoRate is the peak over vibratoMinRate–vibratoMaxRate of the
+// periodogram of the track c (cents, its mean given) at times t: a coarse
+// scan, then a fine one around its best, then a parabola.
+func vibratoRate(t, c []float64, mean float64) float64 {
 	power := func(r float64) float64 {
 		var re, im float64
 		var ph phasor
@@ -46,7 +63,6 @@ func findVibrato(t, c []float64, window float64) vibrato {
 		}
 		return re*re + im*im
 	}
-	// A coarse scan, then a fine one around its best, then a parabola.
 	best, bestP := 0.0, -1.0
 	for r := vibratoMinRate; r <= vibratoMaxRate+1e-9; r += vibratoCoarse {
 		if p := power(r); p > bestP {
@@ -63,16 +79,7 @@ func findVibrato(t, c []float64, window float64) vibrato {
 	if den := prevP - 2*bestP + nextP; den < 0 {
 		best += vibratoStep * 0.5 * (prevP - nextP) / den
 	}
-	if dur*best < vibratoMinCycle {
-		return vibrato{}
-	}
-	a, b, m, fit := fitSinusoid(t, c, best)
-	_ = m
-	width := 2 * math.Hypot(a, b) / windowGain(best, window)
-	if width < vibratoMinWidth || fit < vibratoMinFit {
-		return vibrato{}
-	}
-	return vibrato{rate: best, width: width, centre: wholeCycleMean(t, c, best), ok: true}
+	return best
 }
 
 // vibratoLate is how long after a steady part's start its vibrato may
@@ -178,7 +185,12 @@ func wholeCycleMean(t, c []float64, r float64) float64 {
 	dur := t[len(t)-1] - t[0]
 	span := math.Floor(dur*r) / r
 	t0 := t[0] + (dur-span)/2
-	t1 := t0 + span
+	return spanMean(t, c, t0, t0+span)
+}
+
+// spanMean is the time average of the linearly interpolated track over
+// [t0, t1], which lies within it.
+func spanMean(t, c []float64, t0, t1 float64) float64 {
 	at := func(x float64) float64 { // linear interpolation
 		i := 1
 		for i < len(t)-1 && t[i] < x {
@@ -199,7 +211,7 @@ func wholeCycleMean(t, c []float64, r float64) float64 {
 		prevT, prevC = ti, c[i]
 	}
 	sum += 0.5 * (prevC + at(t1)) * (t1 - prevT)
-	return sum / span
+	return sum / (t1 - t0)
 }
 
 // windowGain is the response at rate r of the detector's smoothing of the
