@@ -76,12 +76,12 @@ func (s *Segmenter) glideAfter(fr []Estimate, c []float64, wobble int) int {
 		}
 	}
 	if p == 0 {
-		return scoop(fr, c)
+		return s.scoop(fr, c)
 	}
 	if g := s.glide(c[p:], wobble-p); g > 0 {
 		return p + g
 	}
-	return scoop(fr, c)
+	return s.scoop(fr, c)
 }
 
 // glideFrom is glide's test of a glide starting at c[k] after the wobble

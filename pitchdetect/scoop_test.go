@@ -94,7 +94,7 @@ func TestWhatIsNoScoop(t *testing.T) {
 		{"one misread frame", misread},
 		{"a held part under a vibrato's cycle", hornA3Phase1[:34]},
 	} {
-		if g := scoop(hopFrames(c.track, 0, 220), c.track); g != 0 {
+		if g := new(Segmenter).scoop(hopFrames(c.track, 0, 220), c.track); g != 0 {
 			t.Errorf("%s: a scoop of %d frames, want none", c.name, g)
 		}
 	}
