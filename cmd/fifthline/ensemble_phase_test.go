@@ -74,12 +74,16 @@ func TestPlayersReadOnceHearWoodwindsAtEveryPhase(t *testing.T) {
 // 64–192; against 1.5 and 1.2 ms drawn): each direction of a pair has a
 // delay of its own in these takes, and the other direction chose among
 // the near-ties (delay.go). Their C4 and E4, entering with the C3, are
-// then likely subtracted out of phase, unjudged while the C3 itself is
-// not yet read (period.go); not confirmed. Reading such an entry under
-// the weighed bleed from the band below the others (lowband.go) came to
-// 0.74, but analyze's second pass, all its bleed weighed, then moved the
-// brass's F major chord 2.4 ¢. Leads in open would be read and logged
-// only, not held to the bar; none is now.
+// then likely subtracted out of phase: period.go judges such a delay only
+// once the neighbour has held its new pitch steadyFrames, and no frame
+// between 1.81 and 1.96 s judged either pair (measured). Holding such a
+// delay back while the neighbour's pitch is new and the channel's own
+// attack unread brought the C3 to 0.41 ¢ at lead 128, but the bass's D3
+// to 1.5–1.6 ¢ at three leads and its C3 to 1.26 ¢ at one. Reading such
+// an entry under the weighed bleed from the band below the others
+// (lowband.go) came to 0.74, but analyze's second pass, all its bleed
+// weighed, then moved the brass's F major chord 2.4 ¢. Leads in open
+// would be read and logged only, not held to the bar; none is now.
 func TestPlayersReadOnceHearFreshTakesAtEveryPhase(t *testing.T) {
 	t.Parallel()
 	for _, c := range []struct {
