@@ -63,7 +63,8 @@ func (s *Segmenter) glide(c []float64, wobble int) int {
 // fell from 300.6 Hz to the 293.6 Hz it held; with those two frames read
 // (at one phase of the hop in eight), the first, lying in the held range,
 // left the fall in the note, 1.1 ¢ sharp of the part read at the others
-// (measured).
+// (measured). Where neither finds a glide, an attack may still scoop or
+// swing into the note (scoop.go).
 func (s *Segmenter) glideAfter(fr []Estimate, c []float64, wobble int) int {
 	if g := s.glide(c, wobble); g > 0 {
 		return g
@@ -75,12 +76,12 @@ func (s *Segmenter) glideAfter(fr []Estimate, c []float64, wobble int) int {
 		}
 	}
 	if p == 0 {
-		return 0
+		return s.scoop(fr, c)
 	}
 	if g := s.glide(c[p:], wobble-p); g > 0 {
 		return p + g
 	}
-	return 0
+	return s.scoop(fr, c)
 }
 
 // glideFrom is glide's test of a glide starting at c[k] after the wobble
