@@ -100,3 +100,35 @@ func TestALowVoiceFollowedEndsWithItsOwnPartials(t *testing.T) {
 		t.Errorf("A2 heard in %d of %d frames after its release, want none", heard, frames)
 	}
 }
+
+// The half window stands for a frame where it hears more voices than the
+// whole window does without following; not where it hears only the whole
+// window's voices, the low voice followed among them (the woodwind
+// quartet's G2 under D4 B4 G5: the whole window's bins, twice as fine, part
+// G2's 3rd partial from D4, 2.8 Hz over it, where the half window's do not).
+// Nor where it loses the voice followed. Pitches: the quartet's, in Hz.
+func TestHalfWindowHearsMoreThanTheWholeOnly(t *testing.T) {
+	vs := func(hz ...float64) []Voice {
+		var out []Voice
+		for _, h := range hz {
+			out = append(out, Voice{Hz: h})
+		}
+		return out
+	}
+	e := &Estimator{kept: 97.1, rescued: true, short: &Estimator{}}
+	heard := vs(97.1, 294.1, 492.2, 790.3) // G2 kept only by following
+	for _, tc := range []struct {
+		name        string
+		whole, half []Voice
+		want        bool
+	}{
+		{"the same four voices, G2 heard unfollowed", heard, vs(97.7, 294.2, 491.3, 789.2), false},
+		{"one voice more", heard, vs(97.7, 294.2, 394.1, 491.3, 789.2), true},
+		{"G5 where the whole window reads it an octave low", vs(97.1, 294.1, 394.1, 492.2), vs(97.7, 294.2, 491.3, 789.2), true},
+		{"without G2", heard, vs(294.2, 491.3, 789.2), false},
+	} {
+		if got := e.halfHearsMore(tc.half, tc.whole); got != tc.want {
+			t.Errorf("%s: the half window stands %v, want %v", tc.name, got, tc.want)
+		}
+	}
+}

@@ -70,6 +70,12 @@ const timeAvgCents = 80.0
 // coarser bins part close partials less well).
 const movingCents = 2.0
 
+// pulledCents: a steady voice read on the half window whose sub-windows
+// agree within movingCents but whose mean lies further than this from the
+// half window's reading was pulled there by a neighbour's partial, and
+// reads as their mean (pulled).
+const pulledCents = 4.0
+
 // timeAverager reads the voices of a frame on sub-windows; one serves both
 // the whole and the half windows of an Estimator.
 type timeAverager struct {
@@ -201,7 +207,7 @@ func (ta *timeAverager) average(x []float64, voices []Voice, long *Estimator) []
 		}
 	}
 	for v := range voices {
-		if ta.count[v] > 0 && ta.hi[v]-ta.lo[v] > movingCents && !ta.held[v] {
+		if ta.count[v] > 0 && (ta.hi[v]-ta.lo[v] > movingCents || ta.pulled(v, voices[v].Hz, long)) && !ta.held[v] {
 			voices[v].Hz *= math.Exp2(ta.sum[v] / float64(ta.count[v]) / 1200)
 		}
 	}
@@ -238,4 +244,21 @@ func (ta *timeAverager) takeLong(long *Estimator, voices []Voice) {
 		}
 	}
 	ta.fitter.long = ta.long
+}
+
+// pulled reports whether voice v at hz, steady on the sub-windows, was
+// pulled off their mean by a neighbour's partial in long, the half window.
+// Its bins (5.4 Hz at 44.1 kHz) part a low voice's partial from an upper
+// voice's beside it no better than the sub-windows', which leave such a
+// partial out of the steering (apartBins): a woodwind quartet's bassoon G2
+// has the clarinet's D4 2.8 Hz over its 3rd partial, the oboe's B4 6.6 Hz
+// over its 5th and the flute's G5 13.5 Hz over its 8th, and the half window
+// read it 11 ¢ sharp where its sub-windows agreed within 0.4 ¢ 5.5 ¢
+// lower (voices_untuned_test.go's render, at 1.86 s). Only a voice whose
+// own partials make sharp peaks (ownSteady): a chorused voice's
+// sub-windows agree so by chance, and the whole window reads it better
+// than their mean (the rendered choir's bass F3 read 3.7 → 4.1 ¢ sharp so).
+func (ta *timeAverager) pulled(v int, hz float64, long *Estimator) bool {
+	mean := ta.sum[v] / float64(ta.count[v])
+	return long.avg == nil && math.Abs(mean) > pulledCents && long.ownSteady(hz)
 }

@@ -49,6 +49,8 @@ type leftOut struct {
 	// (tracker.heldSoFar): over a track's frames, since a real voice
 	// can be marked so in single frames. Nil: no voice is judged so.
 	judge *tracker
+	// aside: the voices left out of the frame last capped (voicelost.go).
+	aside []float64
 }
 
 // cap keeps the asked number of the voices vs of the frame at time at, the
@@ -68,6 +70,7 @@ func (l *leftOut) cap(at float64, vs []multipitch.Voice) []multipitch.Voice {
 		l.judge.push(multipitch.Frame{Time: at, Voices: slices.Clone(vs)})
 		held, partial = l.judge.heldSoFar()
 	}
+	l.aside = l.aside[:0]
 	if len(vs) <= l.asked {
 		l.last = append(l.last[:0], voicesHz(vs)...)
 		return vs
@@ -107,6 +110,7 @@ func (l *leftOut) cap(at float64, vs []multipitch.Voice) []multipitch.Voice {
 			kept = append(kept, vs[i])
 		case !partial[i]:
 			left, counted = append(left, vs[i]), append(counted, held[i])
+			l.aside = append(l.aside, vs[i].Hz)
 		}
 	}
 	if l.record && len(left) > 0 {

@@ -75,6 +75,9 @@ func (tr *tracker) stillLost(t *track, at float64, got []bool) bool {
 	if !ok {
 		return false
 	}
+	if slices.ContainsFunc(tr.aside, func(lo float64) bool { return lo < h.Hz && harmonicPair(lo, h.Hz) }) {
+		return false // as below: a voice left out by --voices N still sounds
+	}
 	l := &lostVoice{last: h.End, times: []float64{at}, hz: h.Hz, with: map[*track]int{}}
 	for oi, o := range tr.tracks {
 		if !got[oi] || o == t {

@@ -206,6 +206,7 @@ func hearVoices(ctx context.Context, src source.Source, name string, tuning func
 		at(float64(read) / rate)
 		est.Feed(block[:n], func(f multipitch.Frame) {
 			f.Voices = left.cap(f.Time, keep(f.Voices))
+			tr.aside = left.aside
 			tr.push(f)
 			if vo.onFrame != nil {
 				vo.onFrame(f, tr.partials(f.Voices))

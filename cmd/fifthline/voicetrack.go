@@ -66,6 +66,7 @@ type tracker struct {
 	waiting     []voiceNote // notes given out, waiting for a lost voice's (give)
 	keepFrames  bool        // for reading chords: each track's frames
 	fed         []*track    // the track each voice of the last frame went to
+	aside       []float64   // the voices --voices N left out of the frame pushed (voicelost.go)
 }
 
 type track struct {
