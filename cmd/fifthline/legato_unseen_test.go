@@ -2,7 +2,6 @@ package main
 
 import (
 	"fmt"
-	"path/filepath"
 	"strconv"
 	"strings"
 	"testing"
@@ -143,22 +142,12 @@ func countLegato(run legatoRun, rows []map[string]string) (c legatoCount, off []
 	return c, off
 }
 
-// analyzeCount runs analyze on wav and counts what it reads of run.
-func analyzeCount(t *testing.T, run legatoRun, wav string) (legatoCount, []string) {
-	t.Helper()
-	code, out, stderr := runLong(t, "analyze", wav)
-	if code != 0 {
-		t.Fatalf("%s: exit %d: %s", run.name, code, stderr)
-	}
-	_, rows := readCSV(t, out)
-	return countLegato(run, rows)
-}
-
 func TestAnalyzeHearsUnseenQuickLegatoRuns(t *testing.T) {
 	t.Parallel()
+	dir := t.TempDir()
 	var total legatoCount
 	for _, run := range renderUnseenLegatoRuns(t) {
-		c, off := analyzeCount(t, run, run.wav)
+		c, off := countLegato(run, analyzeDelayed(t, dir, run, 0))
 		total.add(c)
 		t.Logf("%s: %s; %s", run.name, c, strings.Join(off, ", "))
 		if c.found < c.notes || c.near < run.nearMedian {
@@ -180,10 +169,8 @@ func TestAnalyzeHearsUnseenQuickLegatoRunsAtEveryHopPhase(t *testing.T) {
 		}
 		var sum legatoCount
 		var offs []string
-		for delay := 0; delay < 512; delay += 64 {
-			wav := filepath.Join(dir, fmt.Sprintf("%s-delayed-%d.wav", run.name, delay))
-			soxTB(t, run.wav, wav, "pad", fmt.Sprintf("%ds", delay))
-			c, off := analyzeCount(t, run, wav)
+		for delay := 0; delay < 512; delay += hopPhaseStep {
+			c, off := countLegato(run, analyzeDelayed(t, dir, run, delay))
 			sum.add(c)
 			if len(off) > 0 {
 				offs = append(offs, fmt.Sprintf("%d: %s", delay, strings.Join(off, ", ")))
