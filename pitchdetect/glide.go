@@ -25,11 +25,7 @@ const (
 // of its movement for that long; a note that holds a pitch and then moves
 // on has already settled, and what it eases into at its end is no pitch
 // it settled on after an attack (a quick flute C6 rising through its whole
-// length had its last three frames so read, 8 ¢ from its median pitch),
-// and so does one that held still in the wobble before it (a flute's
-// F4 eighth at ♩ = 120, slurred from A4, held 85 ms, then rose 10 ¢ into
-// its release: read as settled there, 7.3 ¢ above its sound's median,
-// 4.2 ¢ without; FluidR3, measured).
+// length had its last three frames so read, 8 ¢ from its median pitch).
 // The glide may start after a wobble of up to wobble frames (k > 0), none
 // of them within the range the settled rest spans: the frames of a slurred
 // note's steady part begin sooner than those of a note after a rest, and
@@ -51,9 +47,6 @@ func (s *Segmenter) glide(c []float64, wobble int) int {
 		lo[i], hi[i] = min(c[i], lo[i+1]), max(c[i], hi[i+1])
 	}
 	for k := 0; k <= wobble && k < n; k++ {
-		if k+1 >= glideRest && paused(c[k+1-glideRest:k+1]) {
-			break // held still before it: see glideFrom
-		}
 		if g := glideFrom(c, k, lo, hi); g > 0 {
 			return g
 		}
@@ -112,7 +105,7 @@ func glideFrom(c []float64, k int, lo, hi []float64) int {
 		// Frame g is the glide's for any later end. Once the note has held
 		// still for glideRest frames, what moves after is the note
 		// drifting on, not an attack settling.
-		if g+1 >= glideRest && paused(c[g+1-glideRest:g+1]) {
+		if g+1-k >= glideRest && paused(c[g+1-glideRest:g+1]) {
 			return 0
 		}
 	}
