@@ -28,8 +28,9 @@ import (
 //     read within 1 ¢ of those.
 //   - flute: the first C4, after silence, reads 6.5 ¢ under aubio's frames
 //     on the run (the detector's longer window over its wavering attack);
-//     the F4, E♭4 and E4 eighths rise 5–10 ¢ into their release and read
-//     4–6 ¢ above their sound's median.
+//     the F4, E♭4 and E4 eighths hold, then rise 5–10 ¢ into their
+//     release, and read 5–7 ¢ above their sound's median (the rise taken
+//     for an attack's glide, as a held clarinet's is rightly).
 //   - oboe: the C5 sixteenth 2.0 ¢ flat; the last C4, 4.8 ¢ flat.
 //   - violin: its vibrato (±12–25 ¢ from a note's first cycle) leaves a
 //     quick note part of a cycle: 2–3.6 ¢ either way (the old runs' too).
