@@ -240,7 +240,7 @@ func (s *Segmenter) finish(next float64) (Held, bool) {
 		// measured): its length from slur to slur says it is a note.
 		minFrames--
 	}
-	ok := len(s.frames) >= minFrames && length >= s.MinSeconds
+	ok := len(s.frames) >= minFrames && length >= s.MinSeconds || next > 0 && s.slurredNote(h, length)
 	first, peak := s.frames[0].Level, s.frames[0].Level
 	for _, e := range s.frames {
 		peak = max(peak, e.Level)

@@ -65,6 +65,9 @@ func (s *Segmenter) summarise(live bool, next float64) Held {
 	// slur, is pulled toward the next note: one drifting away from it turns
 	// back there and is read as before.
 	moves := drifts(fr)
+	if !slurred && !live {
+		moves = drifts(s.beforeRelease(fr))
+	}
 	drifting := slurred && moves
 	for drifting && j < len(fr) && fr[j].Time <= next-s.Window/2 {
 		j++

@@ -6,7 +6,6 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
-	"slices"
 	"strconv"
 	"strings"
 	"testing"
@@ -21,24 +20,19 @@ import (
 // octaves; the clarinet's G4 slurred to D5 is the twelfth whose shared
 // frames repeat at G3; the violin's high run (G5–D6, mostly C6–D6) carries
 // a vibrato ±25 ¢ wide from each note's first cycle.
-var legatoRuns = []struct {
-	name    string
-	program int   // General MIDI program, 0-based
-	keys    []int // MIDI keys, 60 = C4
-	// nearMedian: how many notes (sixteenths, eighths) analyze reads within
-	// legatoCents of their sound's median (checkLegato); measured, a floor.
-	// (The violin's high sixteenths were 3: read whole, a turning note's
-	// last frames, after a slur, cost one here and two over the hop's eight
-	// phases, while its eighths gained 11 there; pitchdetect/glide.go's
-	// slurredFrom. Read through its slurs as well as by its middle,
-	// pitchdetect/slurspan.go, a quick note slurred between two others
-	// raised these from 144 to 155 of 192: the flute's sixteenths 12 -> 15,
-	// the oboe's 13 -> 14, the violin's eighths 10 -> 11, its high
-	// sixteenths 2 -> 4 and eighths 6 -> 10; over the hop's eight phases
-	// 1148 -> 1251 of 1536, the clarinet's sixteenths alone losing, 128 ->
-	// 122, an A3 read 2.1–2.5 ¢ flat at seven phases.)
-	nearMedian [2]int
-}{
+//
+// The floors (nearMedian, sixteenths and eighths) were measured.
+// (The violin's high sixteenths were 3: read whole, a turning note's
+// last frames, after a slur, cost one here and two over the hop's eight
+// phases, while its eighths gained 11 there; pitchdetect/glide.go's
+// slurredFrom. Read through its slurs as well as by its middle,
+// pitchdetect/slurspan.go, a quick note slurred between two others
+// raised these from 144 to 155 of 192: the flute's sixteenths 12 -> 15,
+// the oboe's 13 -> 14, the violin's eighths 10 -> 11, its high
+// sixteenths 2 -> 4 and eighths 6 -> 10; over the hop's eight phases
+// 1148 -> 1251 of 1536, the clarinet's sixteenths alone losing, 128 ->
+// 122, an A3 read 2.1–2.5 ¢ flat at seven phases.)
+var legatoRuns = []legatoPhrase{
 	{"clarinet", 71, []int{55, 57, 59, 60, 62, 67, 74, 72, 71, 69, 67, 64, 62, 59, 62, 67}, [2]int{16, 16}},
 	{"flute", 73, []int{74, 76, 78, 79, 81, 83, 86, 84, 81, 79, 76, 74, 72, 76, 79, 84}, [2]int{15, 15}},
 	{"oboe", 68, []int{62, 64, 66, 67, 69, 71, 73, 74, 69, 66, 62, 67, 71, 74, 76, 74}, [2]int{14, 16}},
@@ -47,8 +41,19 @@ var legatoRuns = []struct {
 	{"trumpet", 56, []int{58, 60, 62, 63, 65, 67, 69, 70, 65, 62, 58, 65, 70, 74, 72, 70}, [2]int{13, 16}},
 }
 
+// legatoPhrase is a run of keys on one instrument, played slurred at two
+// speeds.
+type legatoPhrase struct {
+	name    string
+	program int   // General MIDI program, 0-based
+	keys    []int // MIDI keys, 60 = C4
+	// nearMedian: how many notes (at each speed) analyze reads within
+	// legatoCents of their sound's median (checkLegato); measured, a floor.
+	nearMedian [2]int
+}
+
 // legatoSeconds: sixteenths at ♩ = 100 last 60/100/4 = 0.15 s, eighths 0.3 s.
-var legatoSeconds = []float64{0.15, 0.3}
+var legatoSeconds = [2]float64{0.15, 0.3}
 
 // legatoCents is how far from the truth (see checkLegato) a quick note may
 // be read.
@@ -96,159 +101,6 @@ func spelledInC(key int) string {
 	return fmt.Sprintf("%s%d", names[key%12], key/12-1)
 }
 
-// soundedPitch is what the render of one key sounds, Hz: the pitch it
-// settles on when held, and the pitch the same sound has over a quick
-// note's span.
-type soundedPitch struct {
-	settled, span float64
-	q             [5]float64 // the span's 10th, 25th, 50th (span), 75th and 90th percentiles
-	rings         [5]float64 // the same for a last note, which rings on after its release
-}
-
-// Settled pitch: each key rendered alone (2 s, then 0.5 s of silence), the mean
-// of its frames from settleFrom to settleTo seconds after the onset — its
-// steady part, the vibrato centre over several cycles — as aubio's yin
-// (Debian aubio-tools) reads it, so the truth does not come from the
-// detector under test.
-const (
-	settleFrom = 0.5
-	settleTo   = 1.7
-)
-
-// aubioWindow is the window aubioYin reads with, seconds.
-const aubioWindow = 2048.0 / 48000
-
-// renderedPitch measures, for each key, what fluidsynth renders: its settled
-// pitch, and for each of legatoSeconds the pitch of the same key rendered
-// alone for that long (then 1 s of silence): the percentiles of aubio's yin
-// frames whose window starts within the note's span, onset to release —
-// the note sounds on a little while the next one's attack rises (a
-// violin's takes some 30 ms), and a frame begun inside the note reads
-// mostly the note — and for a run's last note, which rings on after its
-// release, until it dies away. A slurred note's own sound is that:
-// fluidsynth starts each note's sample afresh at its note-on, and the note
-// before it only fades under it.
-// FluidR3's samples do not start on their settled pitch. Measured (frames of
-// each key held alone, cents from its settled pitch over the first 0.15 s):
-// the trumpet's attack rises 25–45 ¢ and settles after 0.11–0.15 s (G4, A4,
-// B♭4 after 0.17–0.2 s; D5 and C5 overshoot by 7–8 ¢); the violin's vibrato
-// (about 5–6 Hz, ±12–25 ¢) starts at once; the flute sits 5–13 ¢ off (B5 and
-// C6 13 ¢ flat; D6 starts 17 ¢ sharp); the oboe glides down 10–17 ¢ (D4,
-// E4, C♯5, D5) or falls 11 ¢ below (A4, B4); the clarinet's G4, E4 and C5
-// start 8–15 ¢ flat; the violin's A5 and B5 start 27 ¢ below where they
-// settle.
-func renderedPitch(t *testing.T, dir string, program int, keys []int) map[float64]map[int]soundedPitch {
-	t.Helper()
-	var distinct []int
-	seen := map[int]bool{}
-	for _, k := range keys {
-		if !seen[k] {
-			seen[k] = true
-			distinct = append(distinct, k)
-		}
-	}
-	alone := func(seconds, rest float64) []pitchFrame {
-		var phrase []testsignal.MIDINote
-		for _, k := range distinct {
-			phrase = append(phrase, testsignal.MIDINote{Key: k, Seconds: seconds, Rest: rest})
-		}
-		return aubioYin(t, fluidRender(t, dir, fmt.Sprintf("alone-%d-%gs", program, seconds), program, phrase, false))
-	}
-	held := alone(2, 0.5)
-	truth := map[float64]map[int]soundedPitch{}
-	for _, seconds := range legatoSeconds {
-		truth[seconds] = map[int]soundedPitch{}
-		quick := alone(seconds, 1)
-		for i, k := range distinct {
-			et := 440 * math.Exp2(float64(k-69)/12) // ISO 16 and equal temperament
-			on := leadIn + 2.5*float64(i)
-			settled, ok := meanNear(held, on+settleFrom, on+settleTo, et)
-			if !ok {
-				t.Fatalf("program %d key %d: aubio's yin finds no settled pitch", program, k)
-			}
-			on = leadIn + (seconds+1)*float64(i)
-			q, ok := percentilesNear(quick, on+aubioWindow, on+seconds+aubioWindow, settled)
-			if !ok {
-				t.Fatalf("program %d key %d: aubio's yin reads nothing over a %g s note", program, k, seconds)
-			}
-			rings, _ := percentilesNear(quick, on+aubioWindow, on+seconds+1, settled)
-			truth[seconds][k] = soundedPitch{settled: settled, span: q[2], q: q, rings: rings}
-		}
-	}
-	return truth
-}
-
-// pitchFrame is one frame of a pitch track; hz is 0 where unvoiced.
-type pitchFrame struct{ at, hz float64 }
-
-// meanNear is the mean pitch of the frames from..to within 50 ¢ of near.
-func meanNear(track []pitchFrame, from, to, near float64) (float64, bool) {
-	sum, n := 0.0, 0
-	for _, f := range track {
-		if f.at >= from && f.at <= to && f.hz > 0 && math.Abs(testsignal.Cents(f.hz, near)) <= 50 {
-			sum += testsignal.Cents(f.hz, near)
-			n++
-		}
-	}
-	return near * math.Exp2(sum/float64(max(n, 1))/1200), n > 0
-}
-
-// percentilesNear is the 10th, 25th, 50th (median), 75th and 90th
-// percentiles of the pitch of the frames from..to within a semitone (100 ¢)
-// of near: a quick note's attack may lie 45 ¢ from where it settles, and a
-// misread frame an octave off is no part of it.
-func percentilesNear(track []pitchFrame, from, to, near float64) ([5]float64, bool) {
-	var hz []float64
-	for _, f := range track {
-		if f.at >= from && f.at <= to && f.hz > 0 && math.Abs(testsignal.Cents(f.hz, near)) <= 100 {
-			hz = append(hz, f.hz)
-		}
-	}
-	if len(hz) == 0 {
-		return [5]float64{}, false
-	}
-	slices.Sort(hz)
-	at := func(q float64) float64 { // linear between order statistics
-		x := q * float64(len(hz)-1)
-		i := int(x)
-		if i+1 >= len(hz) {
-			return hz[i]
-		}
-		return hz[i] + (x-float64(i))*(hz[i+1]-hz[i])
-	}
-	return [5]float64{at(0.1), at(0.25), at(0.5), at(0.75), at(0.9)}, true
-}
-
-// aubioYin is aubio's yin pitch track of a file's first channel, the one
-// analyze reads (Debian aubio-tools; sox takes the channel out, as aubio
-// would mix both). A frame's time is the end of its window (sox sines
-// changing from 440 to 660 Hz at 0.8 s read 440 Hz until 0.811 s and 660 Hz
-// from 0.837 s: measured).
-func aubioYin(t *testing.T, wav string) []pitchFrame { return aubioTrack(t, wav, "yin") }
-
-// aubioTrack is aubio's pitch track by method (yin, yinfft) of a file's
-// first channel, as aubioYin.
-func aubioTrack(t *testing.T, wav, method string) []pitchFrame {
-	t.Helper()
-	first := strings.TrimSuffix(wav, ".wav") + ".ch1.wav"
-	if out, err := exec.Command("sox", wav, first, "remix", "1").CombinedOutput(); err != nil {
-		t.Fatalf("sox: %v\n%s", err, out)
-	}
-	out, err := exec.Command("aubiopitch", "-i", first, "-p", method, "-B", "2048", "-H", "256").Output()
-	if err != nil {
-		t.Fatalf("aubiopitch (make test installs aubio-tools): %v", err)
-	}
-	var track []pitchFrame
-	for _, line := range strings.Split(string(out), "\n") {
-		if f := strings.Fields(line); len(f) == 2 {
-			at, _ := strconv.ParseFloat(f[0], 64)
-			hz, _ := strconv.ParseFloat(f[1], 64)
-			track = append(track, pitchFrame{at, hz})
-		}
-	}
-	return track
-}
-
 // legatoRun is one rendered run with what it must be heard as.
 type legatoRun struct {
 	name, wav  string
@@ -261,14 +113,18 @@ type legatoRun struct {
 // for the tests that read them (sharedOnce).
 func renderLegatoRuns(t *testing.T) []legatoRun {
 	t.Helper()
-	return sharedOnce(t, "legato runs", func(dir string) []legatoRun { return renderLegatoRunsIn(t, dir) })
+	return sharedOnce(t, "legato runs", func(dir string) []legatoRun {
+		return renderLegatoRunsIn(t, dir, legatoRuns, legatoSeconds)
+	})
 }
 
-func renderLegatoRunsIn(t *testing.T, dir string) []legatoRun {
+// renderLegatoRunsIn renders each phrase slurred at each of the two
+// speeds (seconds a note) into dir, with its truth (renderedPitch).
+func renderLegatoRunsIn(t *testing.T, dir string, phrases []legatoPhrase, seconds [2]float64) []legatoRun {
 	var runs []legatoRun
-	for _, in := range legatoRuns {
-		truth := renderedPitch(t, dir, in.program, in.keys)
-		for speed, sec := range legatoSeconds {
+	for _, in := range phrases {
+		truth := renderedPitch(t, dir, in.program, in.keys, seconds[:])
+		for speed, sec := range seconds {
 			var phrase []testsignal.MIDINote
 			for _, k := range in.keys {
 				phrase = append(phrase, testsignal.MIDINote{Key: k, Seconds: sec})

@@ -82,17 +82,28 @@ func legatoRunsNamed(t *testing.T, prefix string, n int) []legatoRun {
 func analyzeAtEveryHopPhase(t *testing.T, run legatoRun, nearMedian int) {
 	t.Helper()
 	dir := t.TempDir()
-	for delay := 0; delay < 512; delay += 64 {
-		wav := filepath.Join(dir, fmt.Sprintf("%s-delayed-%d.wav", run.name, delay))
-		soxTB(t, run.wav, wav, "pad", fmt.Sprintf("%ds", delay))
-		code, out, stderr := runLong(t, "analyze", wav)
-		if code != 0 {
-			t.Fatalf("%s delayed %d samples: exit %d: %s", run.name, delay, code, stderr)
-		}
-		_, rows := readCSV(t, out)
+	for delay := 0; delay < 512; delay += hopPhaseStep {
+		rows := analyzeDelayed(t, dir, run, delay)
 		how := fmt.Sprintf("analyze delayed %d samples", delay)
 		if near := checkLegato(t, how, []legatoRun{run}, rows); len(near) == 1 && near[0] < nearMedian {
 			t.Errorf("%s %s: %d notes read within %g ¢ of their sound's median pitch, want at least %d", how, run.name, near[0], legatoCents, nearMedian)
 		}
 	}
+}
+
+// hopPhaseStep is the delay, in samples, between the hop phases tried.
+const hopPhaseStep = 64
+
+// analyzeDelayed is analyze's held-note rows of run delayed by delay
+// samples (sox's pad), the file written in dir.
+func analyzeDelayed(t *testing.T, dir string, run legatoRun, delay int) []map[string]string {
+	t.Helper()
+	wav := filepath.Join(dir, fmt.Sprintf("%s-delayed-%d.wav", run.name, delay))
+	soxTB(t, run.wav, wav, "pad", fmt.Sprintf("%ds", delay))
+	code, out, stderr := runLong(t, "analyze", wav)
+	if code != 0 {
+		t.Fatalf("%s delayed %d samples: exit %d: %s", run.name, delay, code, stderr)
+	}
+	_, rows := readCSV(t, out)
+	return rows
 }
