@@ -20,6 +20,11 @@ type Voice struct {
 	// which do not stand out of that voice's envelope: likely those
 	// partials, not a voice (smoothness.go).
 	OnPartials bool
+	// Unjudged: it lies on a lower voice's partials, but their envelope
+	// could not be read (fewer than two of them clear of the other voices'
+	// partials and heard beside neighbours): its frame says nothing either
+	// way, OnPartials false for want of evidence.
+	Unjudged bool
 }
 
 // Frame is the estimator's reading for one hop.

@@ -187,13 +187,23 @@ func (e *Estimator) needed(cols int, noise, total float64) float64 {
 // that adds explain enough that no voice did: a fundamental weaker than its
 // 2nd partial (bassoon, low brass, a voice's low register) is otherwise
 // heard an octave high, since the other voices often cover its odd partials
-// too.
+// too. Where the lower octave's own fundamental, on no voice's partial,
+// stands fundamentalGain over the noise floor in what the voices leave,
+// the partials added need only explain more than they would of noise by
+// chance (the bar less κ): a FluidR3 bassoon's D3 under a cello's A3 and a
+// horn's F4 in 31-EDO, its 3rd, 6th, 9th … partials on A3's, was read as
+// D4 beside A3 through most of the chord, its fundamental standing 25 to
+// 35 dB over the floor unexplained while its 17 odd partials, most of them
+// faint or A3's, explained 0.1 to 0.6 of the bar (a pitch that wanders
+// fills the noise the bar is reckoned from); a wrong lowering's fundamental
+// (that A3's to A2) stood 8 to 15 dB over it (measured).
 func (e *Estimator) lower(v int) bool {
 	f := e.fitter
 	down := e.f0[v] / 2
 	if down < e.cfg.MinHz || (e.cfg.Accept != nil && !e.cfg.Accept(down)) || !e.oddEvidence(down) {
 		return false
 	}
+	heard := down < slices.Min(e.f0) && e.overtoneOf(3*down) && !e.shared(down) && e.unexplained(down) > fundamentalGain
 	defer func() { // leave the fit of the voices kept in place
 		f.build(e.f0, f.maxK, -1)
 		f.solve()
@@ -211,12 +221,20 @@ func (e *Estimator) lower(v int) bool {
 		// Lowered beside another voice, it is that voice (unison.go).
 		twin = twin || (u != v && math.Abs(cents(hz, e.trial[v])) < unisonCents)
 	}
-	if twin || resid-after < e.needed(f.partials()-cols, noise, total) {
+	bar := e.needed(f.partials()-cols, noise, total)
+	if heard {
+		bar /= kappa
+	}
+	if twin || resid-after < bar {
 		return false
 	}
 	copy(e.f0, e.trial)
 	return true
 }
+
+// fundamentalGain (power): 25 dB over the noise floor, where a lower
+// octave's own fundamental is heard (lower).
+const fundamentalGain = 316.0
 
 // twins finds two voices the fit has put within twinCents of each other.
 func (e *Estimator) twins() (int, int, bool) { return e.within(twinCents) }
@@ -264,27 +282,47 @@ func (e *Estimator) voices(dst []Voice) []Voice {
 // 3rd, 5th or 7th partial of f where no voice has a partial? When every one
 // of them is shared, only the fits can tell.
 func (e *Estimator) oddEvidence(f float64) bool {
-	f0, bin := e.f0, e.fitter.binHz
 	tested := false
 	for k := 1.0; k <= 7; k += 2 {
 		hz := k * f
-		shared := slices.ContainsFunc(f0, func(g float64) bool {
-			return math.Abs(hz-g*math.Round(hz/g)) < 3*bin && math.Round(hz/g) >= 1
-		})
-		b := int(math.Round(hz / bin))
-		if shared || b+1 >= len(e.spec) {
+		if e.shared(hz) || int(math.Round(hz/e.fitter.binHz))+1 >= len(e.spec) {
 			continue
 		}
 		tested = true
-		for j := b - 1; j <= b+1; j++ {
-			r := e.spec[j]
-			if e.fitter.mark[j] == e.fitter.gen {
-				r -= e.fitter.model[j]
-			}
-			if real(r)*real(r)+imag(r)*imag(r) > 30*e.floor {
-				return true
-			}
+		if e.unexplained(hz) > 30 {
+			return true
 		}
 	}
 	return !tested
+}
+
+// shared reports whether hz lies within 3 bins of a voice's partial.
+func (e *Estimator) shared(hz float64) bool {
+	bin := e.fitter.binHz
+	return slices.ContainsFunc(e.f0, func(g float64) bool {
+		return math.Abs(hz-g*math.Round(hz/g)) < 3*bin && math.Round(hz/g) >= 1
+	})
+}
+
+// overtoneOf reports whether hz lies within 3 bins of a voice's partial 2
+// or higher.
+func (e *Estimator) overtoneOf(hz float64) bool {
+	bin := e.fitter.binHz
+	return slices.ContainsFunc(e.f0, func(g float64) bool {
+		return math.Abs(hz-g*math.Round(hz/g)) < 3*bin && math.Round(hz/g) >= 2
+	})
+}
+
+// unexplained is the most power the fit of the voices leaves in the bins
+// at hz and beside it, over the noise floor.
+func (e *Estimator) unexplained(hz float64) float64 {
+	b, most := int(math.Round(hz/e.fitter.binHz)), 0.0
+	for j := max(b-1, 0); j <= b+1 && j < len(e.spec); j++ {
+		r := e.spec[j]
+		if e.fitter.mark[j] == e.fitter.gen {
+			r -= e.fitter.model[j]
+		}
+		most = math.Max(most, real(r)*real(r)+imag(r)*imag(r))
+	}
+	return most / e.floor
 }

@@ -61,18 +61,23 @@ func PartialCents(hz, lo float64) (float64, bool) {
 // markPartials marks each voice of vs (one frame's, read on e.spec) that
 // lies on partial s of a voice below it (s in partialSteps) whose partials
 // sk stand less than partialGain out of its envelope.
+// A voice on partials no envelope could be read for is marked Unjudged.
 func (e *Estimator) markPartials(vs []Voice) {
 	for i := range vs {
+		on, judged := false, false
 		for _, lo := range vs {
 			for _, s := range partialSteps {
-				if lo.Hz < vs[i].Hz && math.Abs(cents(vs[i].Hz, s*lo.Hz)) < octaveCents && e.partialsExcess(lo.Hz, s, vs) < partialGain {
-					n := e.ownPeaks(vs[i].Hz, lo.Hz, s, vs)
-					if n < ownPeakMin {
-						vs[i].OnPartials = true
-					}
+				if lo.Hz >= vs[i].Hz || math.Abs(cents(vs[i].Hz, s*lo.Hz)) >= octaveCents {
+					continue
+				}
+				x := e.partialsExcess(lo.Hz, s, vs)
+				on, judged = true, judged || !math.IsInf(x, 1)
+				if x < partialGain && e.ownPeaks(vs[i].Hz, lo.Hz, s, vs) < ownPeakMin {
+					vs[i].OnPartials = true
 				}
 			}
 		}
+		vs[i].Unjudged = on && !judged
 	}
 }
 

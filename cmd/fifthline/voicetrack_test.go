@@ -191,3 +191,27 @@ func TestMeterJudgesAVoiceOnAPassingReadingsPartialByItsFrame(t *testing.T) {
 		t.Errorf("the release frame's voices taken for partials: %v, want only G4's", got)
 	}
 }
+
+// A note is a lower voice's partial when most of the frames whose envelope
+// could be read were marked so; frames that could not be read count
+// neither way (the counts are those measured on voices_untuned_test.go's
+// three quick chords for the oboe's B4's 3rd partial read as F#6: 13
+// frames, 6 marked, 7 unjudged, its marked frames 2.4 ¢ off the partial on
+// average).
+func TestNoteOnPartialsJudgedOnFramesThatCouldBeRead(t *testing.T) {
+	for _, tc := range []struct {
+		name                     string
+		count, partial, unjudged int
+		want                     bool
+	}{
+		{"marked in every frame judged", 13, 6, 7, true},
+		{"marked in half the frames, all judged", 13, 6, 0, false},
+		{"marked in most frames, all judged", 13, 7, 0, true},
+		{"no frame judged", 13, 0, 13, false},
+	} {
+		tr := &track{count: tc.count, partial: tc.partial, unjudged: tc.unjudged, partialCents: 2.4 * float64(tc.partial)}
+		if got := tr.onPartials(); got != tc.want {
+			t.Errorf("%s: onPartials %v, want %v", tc.name, got, tc.want)
+		}
+	}
+}
