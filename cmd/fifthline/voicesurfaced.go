@@ -28,7 +28,7 @@ func (tr *tracker) surfaced(t *track, h pitchdetect.Held) bool {
 		}
 	}
 	for _, o := range tr.tracks {
-		if o != t && (!o.delivered || o.stepped) && multipitch.OnPartial(h.Hz, o.hz) && o.level() > t.level() && o.from < h.Start-together {
+		if o != t && o.holding() && multipitch.OnPartial(h.Hz, o.hz) && o.level() > t.level() && o.from < h.Start-together {
 			return true
 		}
 	}
@@ -56,3 +56,9 @@ func (tr *tracker) heldFrom(hz, at float64) float64 {
 	}
 	return at
 }
+
+// holding reports whether the track sounds a note not yet given out: its
+// first, or the next past a step its voice held through. A held note split
+// by a step is one instrument's, and so are its partials and octave
+// through the step (surfaced, foldOctave).
+func (t *track) holding() bool { return !t.delivered || t.stepped }

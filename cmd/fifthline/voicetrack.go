@@ -374,7 +374,7 @@ func (tr *tracker) foldOctave(t *track, h pitchdetect.Held) bool {
 		}
 	}
 	for _, o := range tr.tracks {
-		if o != t && !o.delivered && !o.onPartials() && multipitch.OctaveAbove(h.Hz, o.hz) && o.level() > t.level() && h.End-max(o.start, h.Start) >= half {
+		if o != t && o.holding() && !o.onPartials() && multipitch.OctaveAbove(h.Hz, o.hz) && o.level() > t.level() && h.End-max(o.start, h.Start) >= half {
 			return true
 		}
 	}
