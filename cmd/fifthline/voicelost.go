@@ -140,11 +140,11 @@ func (tr *tracker) missing(t *track, at ...float64) bool {
 	for _, a := range at {
 		t.missed++
 		if h, ok := t.seg.Push(pitchdetect.Estimate{Time: a, Level: -120}); ok {
-			tr.deliver(t, h)
+			tr.deliver(t, h, false)
 		}
 		if t.missed > t.seg.MaxGap {
 			if h, ok := t.seg.Flush(); ok {
-				tr.deliver(t, h)
+				tr.deliver(t, h, false)
 			}
 			t.gone = true
 			return false

@@ -1,6 +1,8 @@
 package main
 
 import (
+	"math"
+
 	"fifthline/multipitch"
 	"fifthline/pitchdetect"
 )
@@ -21,14 +23,42 @@ import (
 func (tr *tracker) surfaced(t *track, h pitchdetect.Held) bool {
 	together := tr.window / 2
 	for _, d := range tr.done {
-		if multipitch.OnPartial(h.Hz, d.Hz) && d.power > t.level() && d.Start < h.Start-together && d.End >= h.End-together {
+		if multipitch.OnPartial(h.Hz, d.Hz) && d.power > t.level() && d.from < h.Start-together && d.End >= h.End-together {
 			return true
 		}
 	}
 	for _, o := range tr.tracks {
-		if o != t && !o.delivered && multipitch.OnPartial(h.Hz, o.hz) && o.level() > t.level() && o.start < h.Start-together {
+		if o != t && o.holding() && multipitch.OnPartial(h.Hz, o.hz) && o.level() > t.level() && o.from < h.Start-together {
 			return true
 		}
 	}
 	return false
 }
+
+// heldOnCents: a voice entering within this of a track sounding in this
+// frame or the last takes over that track's held note, which stepped
+// further than the tracker follows (JumpCents): FluidR3's voice oohs
+// holding A♭4 then G♯4 in ¼-comma meantone, a lesser diesis (41 ¢) apart,
+// were read 423.6 then 410.5 Hz (53 ¢; measured), the new track entering a
+// frame before the old one fell silent. Under a semitone (100 ¢ by
+// definition), as a step held through is.
+const heldOnCents = 100
+
+// heldFrom is where the held note a voice entering at hz at time at sounds
+// began: that of a track within heldOnCents of it sounding lately, else at.
+// It serves surfaced only: one microphone hears a single instrument's step
+// as another voice entering, and its partials as surfacing at that entry.
+func (tr *tracker) heldFrom(hz, at float64) float64 {
+	for _, o := range tr.tracks {
+		if o.missed <= 1 && math.Abs(1200*math.Log2(hz/o.hz)) < heldOnCents {
+			return min(at, o.from)
+		}
+	}
+	return at
+}
+
+// holding reports whether the track sounds a note not yet given out: its
+// first, or the next past a step its voice held through. A held note split
+// by a step is one instrument's, and so are its partials and octave
+// through the step (surfaced, foldOctave).
+func (t *track) holding() bool { return !t.delivered || t.stepped }

@@ -87,9 +87,15 @@ type track struct {
 	ended        float64 // its last note's end: its next note starts after it
 	// delivered: its note is among tr.done (then it is not counted twice)
 	delivered bool
-	notes     int        // notes delivered
-	gone      bool       // ended: no longer among tr.tracks
-	lost      *lostVoice // its voice missing under a chord that holds; else nil
+	// stepped: its last note ended at a step its voice held through
+	// (pitchdetect/step.go), so the voice sounds on in its next note;
+	// from: where the held note it sounds began (heldFrom), or +Inf
+	// after a note it did not hold through: its next frame's time
+	stepped bool
+	from    float64
+	notes   int        // notes delivered
+	gone    bool       // ended: no longer among tr.tracks
+	lost    *lostVoice // its voice missing under a chord that holds; else nil
 }
 
 func newTracker(name string, tuning func() target.Tuning, hop, window float64, emit func(voiceNote)) *tracker {
@@ -155,7 +161,7 @@ func (tr *tracker) push(f multipitch.Frame) {
 			// 20 ¢ step and a ±40 ¢ vibrato at 5.5 Hz one, the violin's D5
 			// one at four shifts of the frame grid and at 48 kHz.
 			s.StepHold = 3.5 * tr.hop
-			t := &track{seg: s, hz: v.Hz, start: f.Time}
+			t := &track{seg: s, hz: v.Hz, start: f.Time, from: tr.heldFrom(v.Hz, f.Time)}
 			if tr.keepFrames {
 				t.frames = &harmony.Track{}
 			}
@@ -170,6 +176,7 @@ func (tr *tracker) push(f multipitch.Frame) {
 // feed gives track t voice i of a frame's voices vs.
 func (tr *tracker) feed(t *track, at float64, vs []multipitch.Voice, i int) {
 	v := vs[i]
+	t.from = min(t.from, at)
 	t.hz, t.missed, t.lost = v.Hz, 0, nil
 	t.count++
 	t.power += v.Amplitude * v.Amplitude
@@ -188,7 +195,7 @@ func (tr *tracker) feed(t *track, at float64, vs []multipitch.Voice, i int) {
 	}
 	e := pitchdetect.Estimate{Time: at, Hz: v.Hz, Confidence: 1, Voiced: true, Level: 20 * math.Log10(v.Amplitude+1e-12)}
 	if h, ok := t.seg.Push(e); ok {
-		tr.deliver(t, h)
+		tr.deliver(t, h, true) // a voiced frame ended it: the voice holds on
 	}
 }
 
@@ -199,14 +206,16 @@ func (tr *tracker) flush() {
 			continue
 		}
 		if h, ok := t.seg.Flush(); ok {
-			tr.deliver(t, h)
+			tr.deliver(t, h, false)
 		}
 	}
 	tr.tracks = nil
 	tr.release()
 }
 
-func (tr *tracker) deliver(t *track, h pitchdetect.Held) {
+// deliver gives out note h of track t, stepped where its voice holds on
+// past a step into its next note.
+func (tr *tracker) deliver(t *track, h pitchdetect.Held, stepped bool) {
 	if h.VibratoRate*tr.window > 1 {
 		// A vibrato faster than one cycle a window is mostly averaged away
 		// inside each frame; scaling what is left back up (the segmenter
@@ -214,6 +223,10 @@ func (tr *tracker) deliver(t *track, h pitchdetect.Held) {
 		h.VibratoWidth, h.VibratoRate = 0, 0
 	}
 	t.ended, t.notes = h.End, t.notes+1
+	from := t.from
+	if t.stepped = stepped; !stepped {
+		t.from = math.Inf(1)
+	}
 	// A note most of whose frames lie on a lower voice's partials, which
 	// stand no higher than that voice's envelope allows, is those partials
 	// (multipitch.Voice.OnPartials): no voice either; so is a quieter
@@ -225,7 +238,7 @@ func (tr *tracker) deliver(t *track, h pitchdetect.Held) {
 	}
 	voice := tr.voiceAt(t, h.Start, h.Hz)
 	t.delivered = true
-	tr.done = append(slices.DeleteFunc(tr.done, func(d doneNote) bool { return d.End < h.Start-60 }), doneNote{h, t.level()})
+	tr.done = append(slices.DeleteFunc(tr.done, func(d doneNote) bool { return d.End < h.Start-60 }), doneNote{h, t.level(), from})
 	tu := tr.tuning()
 	tr.give(voiceNote{session.Event{Source: tr.name, Held: h, Reading: tu.Classify(h.Hz), Tuning: tu}, voice, 2*t.doubled > t.count, t.frames, time.Time{}})
 }
@@ -251,10 +264,11 @@ func (tr *tracker) voiceAt(t *track, start, hz float64) int {
 	return voice
 }
 
-// doneNote is a note given out, with its track's mean power.
+// doneNote is a note given out, with its track's mean power and where
+// the held note it belongs to began (track.from).
 type doneNote struct {
 	pitchdetect.Held
-	power float64
+	power, from float64
 }
 
 // onPartials: most of the track's frames judged lie on a lower voice's
@@ -360,7 +374,7 @@ func (tr *tracker) foldOctave(t *track, h pitchdetect.Held) bool {
 		}
 	}
 	for _, o := range tr.tracks {
-		if o != t && !o.delivered && !o.onPartials() && multipitch.OctaveAbove(h.Hz, o.hz) && o.level() > t.level() && h.End-max(o.start, h.Start) >= half {
+		if o != t && o.holding() && !o.onPartials() && multipitch.OctaveAbove(h.Hz, o.hz) && o.level() > t.level() && h.End-max(o.start, h.Start) >= half {
 			return true
 		}
 	}
