@@ -203,18 +203,28 @@ func startPlayersListener(b *testing.B, meter bool, env []string, args ...string
 	}}
 }
 
+// playersLeadIn is the silence played before the take.
+const playersLeadIn = 1500 * time.Millisecond
+
 func measurePlayersLive(b *testing.B, meter bool) {
 	const cycles = 5
 	mic := vmic.IsolateChannels(b, fourChannels...)
 	take := quartetCycleWAV(b, cycles)
+	// The take is played after playersLeadIn of silence: for about a second
+	// after playback into the sink starts, the converter times run up to
+	// 0.7 s early (measured: the first cycle's first notes in 7 of 19 runs
+	// without it, while paplay's start → reading stayed ≤ 100 ms; in none
+	// of 8 with it).
+	played := filepath.Join(b.TempDir(), "played.wav")
+	soxTB(b, take, played, "pad", strconv.FormatFloat(playersLeadIn.Seconds(), 'f', 3, 64))
 	timing := filepath.Join(b.TempDir(), "timing.csv")
 	l := startPlayersListener(b, meter, append(mic.Env(), "FIFTHLINE_TIMING="+timing))
 	// The stream settles: through the ALSA pulse plugin its first second's
 	// converter times run up to 0.6 s early (measured; device.ADCTime).
 	time.Sleep(2 * time.Second)
-	started := time.Now()
+	started := time.Now().Add(playersLeadIn)
 	reportCost(b, l.pid, func() {
-		if err := mic.PlayChannels(take)(); err != nil {
+		if err := mic.PlayChannels(played)(); err != nil {
 			b.Fatal(err)
 		}
 	})
@@ -227,15 +237,19 @@ func measurePlayersLive(b *testing.B, meter bool) {
 	b.Logf("onset at the input→reading per note, ms: %.0f", lat.input)
 	b.Logf("paplay's start→reading (upper bound) per note, ms: %.0f", lat.played)
 	b.Logf("of which detection (first loud frame → first reading), ms: %.0f", lat.detection)
-	// The first cycle's converter times can run early by up to 0.4 s, the
-	// more so the sooner its notes come after playback into the sink starts,
-	// while the same notes' played→reading is ordinary (measured): the ALSA
-	// pulse plugin's delay settling, not the pipeline. Its notes are
-	// reported apart.
+	// The first cycle is reported apart: the listener's first notes, and
+	// where the converter times ran early before playersLeadIn.
 	settled := lat.input[len(quartetCycle):]
 	b.ReportMetric(median(settled), "onset→reading_ms")
 	b.ReportMetric(slices.Max(settled), "onset→reading_max_ms")
 	b.ReportMetric(slices.Max(lat.input[:len(quartetCycle)]), "onset→reading_cycle1_max_ms")
+	// The first cycle, where the converter times may run early, timed
+	// without them: from paplay's start (an upper bound, playback's
+	// start-up included), and fifthline's own part, from finding the
+	// onset in its input.
+	b.ReportMetric(slices.Max(lat.played[:len(quartetCycle)]), "played→reading_cycle1_max_ms")
+	b.ReportMetric(slices.Max(lat.own[:len(quartetCycle)]), "found→reading_cycle1_max_ms")
+	b.ReportMetric(slices.Max(lat.own), "found→reading_max_ms")
 	b.ReportMetric(slices.Min(lat.windowEnd[len(quartetCycle):]), "window_end→reading_min_ms")
 	b.ReportMetric(median(lat.played), "played→reading_ms")
 	b.ReportMetric(slices.Max(lat.played), "played→reading_max_ms")
@@ -269,6 +283,10 @@ type noteLatencies struct {
 	// the converter, on the same clock: no reading comes before its last
 	// sample, so a negative figure says the converter times run late.
 	windowEnd []float64
+	// own is from when fifthline found the onset in the samples it read
+	// to the reading, on the wall clock: the part of input that is its
+	// own, whatever the converter times say.
+	own []float64
 }
 
 // halfWindow is how far past its frame's time (the window's centre) a
@@ -290,7 +308,10 @@ func playerLatencies(b *testing.B, path string, played time.Time, cycles int) no
 		voiced       bool
 		clock        float64 // PortAudio's stream clock when written (voiced frames)
 	}
-	type onset struct{ t, adc float64 } // stream time; on PortAudio's clock
+	type onset struct {
+		t, adc float64   // stream time; on PortAudio's clock
+		found  time.Time // when fifthline found it in the samples it read
+	}
 	names := strings.Split(cyclePlayers, ",")
 	frames := make([][]frame, len(names))
 	onsets := make([][]onset, len(names))
@@ -300,7 +321,8 @@ func playerLatencies(b *testing.B, path string, played time.Time, cycles int) no
 			continue
 		}
 		if r[9] != "" {
-			onsets[p] = append(onsets[p], onset{parseNum(r[1]), parseNum(r[9])})
+			ns, _ := strconv.ParseInt(r[0], 10, 64)
+			onsets[p] = append(onsets[p], onset{parseNum(r[1]), parseNum(r[9]), time.Unix(0, ns)})
 			continue
 		}
 		ns, _ := strconv.ParseInt(r[0], 10, 64)
@@ -352,13 +374,19 @@ func playerLatencies(b *testing.B, path string, played time.Time, cycles int) no
 			lat.windowEnd = append(lat.windowEnd, 1000*(fs[i].clock-(at.adc+fs[i].t+halfWindow-at.t)))
 			lat.played = append(lat.played, ms(fs[i].wall.Sub(start)))
 			lat.detection = append(lat.detection, ms(fs[i].wall.Sub(fs[loud].wall)))
+			// onset→reading split where fifthline found the onset in
+			// the samples it read: before, the wait the converter time
+			// claims (the input's buffering); after, fifthline's own.
+			own := ms(fs[i].wall.Sub(at.found))
+			lat.own = append(lat.own, own)
 			// Per note: voiced is stream time from the onset found in the
 			// samples to the first frame read at the pitch; held how much
 			// later than the quickest frame of the take that frame left the
 			// pipeline (held back at an onset, attack.go, or waiting for
 			// another player's).
-			b.Logf("cycle %d %s %s: onset at the input→reading %.0f ms (paplay→reading %.0f ms), onset→voiced frame %.0f ms, held %.0f ms",
-				k+1, names[n.player], n.note, lat.input[len(lat.input)-1], lat.played[len(lat.played)-1], 1000*(fs[i].t-at.t), ms(lag(fs[i])-quickest))
+			b.Logf("cycle %d %s %s: onset at the input→reading %.0f ms (paplay→reading %.0f ms; converter→found %.0f ms, found→reading %.0f ms), onset→voiced frame %.0f ms, held %.0f ms",
+				k+1, names[n.player], n.note, lat.input[len(lat.input)-1], lat.played[len(lat.played)-1],
+				lat.input[len(lat.input)-1]-own, own, 1000*(fs[i].t-at.t), ms(lag(fs[i])-quickest))
 		}
 	}
 	return lat
