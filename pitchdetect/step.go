@@ -45,8 +45,9 @@ const (
 	stepCents = 25.0
 	// stepHoldSeconds (StepHold by default) is longer than half the
 	// cycle of the slowest vibrato (vibratoMinRate: 0.17 s), so no crest
-	// or trough of one holds that long on frames a few ms apart, and than the bassoon's attack above (held 0.2 s,
-	// its step read 20–22 ¢: measured).
+	// or trough of one holds that long on frames a few ms apart, and
+	// longer than the bassoon's attack above (held 0.2 s, its step read
+	// 20–22 ¢: measured).
 	stepHoldSeconds = 0.25
 	// stepSteadyCents: within it, the winds' and the voices' held notes
 	// above, whose frames waver a few cents (a trumpet's ±2 ¢, a clarinet's
@@ -75,8 +76,20 @@ func (s *Segmenter) heldStep() int {
 	if !ok || a == 0 || math.Abs(s.cents(fr[a-1], ref)-after) <= stepSteadyCents {
 		return 0
 	}
+	return s.stepBefore(a, func(j int) bool {
+		_, before, ok := s.heldSince(j+1, ref)
+		return ok && math.Abs(before-after) >= s.StepCents
+	})
+}
+
+// stepBefore is the index after the latest frame j before the a-th, no
+// further back than the frames whose window holds both sides (a Window
+// and a Hop) and the new note's glide into its pitch, where held(j) says
+// the frames up to j hold a side a step from the one from a on; 0 if none.
+func (s *Segmenter) stepBefore(a int, held func(j int) bool) int {
+	fr := s.frames
 	for j := a - 1; j > 0 && fr[a].Time-fr[j].Time <= s.Window+s.Hop+stepGlideSeconds; j-- {
-		if _, before, ok := s.heldSince(j+1, ref); ok && math.Abs(before-after) >= s.StepCents {
+		if held(j) {
 			return j + 1
 		}
 	}
@@ -208,13 +221,10 @@ func (s *Segmenter) vibratoStep() int {
 	if !after.held {
 		return 0
 	}
-	a := after.first
-	for j := a - 1; j > 0 && fr[a].Time-fr[j].Time <= s.Window+s.Hop+stepGlideSeconds; j-- {
-		if b := c.at[j]; b.held && math.Abs(b.centre-after.centre) >= s.StepCents {
-			return j + 1
-		}
-	}
-	return 0
+	return s.stepBefore(after.first, func(j int) bool {
+		b := c.at[j]
+		return b.held && math.Abs(b.centre-after.centre) >= s.StepCents
+	})
 }
 
 // sideAt judges the sideSeconds of the open note's frames ending at its
