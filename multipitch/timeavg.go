@@ -73,7 +73,9 @@ const movingCents = 2.0
 // pulledCents: a steady voice read on the half window whose sub-windows
 // agree within movingCents but whose mean lies further than this from the
 // half window's reading was pulled there by a neighbour's partial, and
-// reads as their mean (pulled).
+// reads as their mean (pulled). Chosen between the pull measured on the
+// woodwind quartet's bassoon G2 (5.5 ¢, pulled below) and the 2 ¢ its
+// sub-windows may spread (movingCents); not tuned further.
 const pulledCents = 4.0
 
 // timeAverager reads the voices of a frame on sub-windows; one serves both

@@ -40,8 +40,7 @@ func findVibrato(t, c []float64, window float64) vibrato {
 	if dur*best < vibratoMinCycle {
 		return vibrato{}
 	}
-	a, b, m, fit := fitSinusoid(t, c, best)
-	_ = m
+	a, b, _, fit := fitSinusoid(t, c, best)
 	width := 2 * math.Hypot(a, b) / windowGain(best, window)
 	if width < vibratoMinWidth || fit < vibratoMinFit {
 		return vibrato{}
