@@ -297,19 +297,18 @@ func (e *Estimator) oddEvidence(f float64) bool {
 }
 
 // shared reports whether hz lies within 3 bins of a voice's partial.
-func (e *Estimator) shared(hz float64) bool {
-	bin := e.fitter.binHz
-	return slices.ContainsFunc(e.f0, func(g float64) bool {
-		return math.Abs(hz-g*math.Round(hz/g)) < 3*bin && math.Round(hz/g) >= 1
-	})
-}
+func (e *Estimator) shared(hz float64) bool { return e.onPartialFrom(hz, 1) }
 
 // overtoneOf reports whether hz lies within 3 bins of a voice's partial 2
 // or higher.
-func (e *Estimator) overtoneOf(hz float64) bool {
+func (e *Estimator) overtoneOf(hz float64) bool { return e.onPartialFrom(hz, 2) }
+
+// onPartialFrom reports whether hz lies within 3 bins of a voice's k-th
+// partial for some k ≥ lowest.
+func (e *Estimator) onPartialFrom(hz, lowest float64) bool {
 	bin := e.fitter.binHz
 	return slices.ContainsFunc(e.f0, func(g float64) bool {
-		return math.Abs(hz-g*math.Round(hz/g)) < 3*bin && math.Round(hz/g) >= 2
+		return math.Abs(hz-g*math.Round(hz/g)) < 3*bin && math.Round(hz/g) >= lowest
 	})
 }
 
