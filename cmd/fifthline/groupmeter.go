@@ -38,7 +38,7 @@ func playersMeter(ctx context.Context, src source.Multi, tunings *session.Tuning
 	var journalChord func(ensemble.Chord, target.Tuning) error
 	if po.chords {
 		journalChord = func(c ensemble.Chord, tu target.Tuning) error {
-			logChords(j, ms.name, tu, []ensemble.Chord{c}, time.Time{})
+			po.logChords(j, ms.name, tu, []ensemble.Chord{c}, time.Time{})
 			return nil
 		}
 	}

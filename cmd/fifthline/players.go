@@ -109,10 +109,13 @@ func chordRecords(c ensemble.Chord, path string) []chordJSON {
 	return out
 }
 
-// logChords writes the chords' memberships to the journal.
-func logChords(j *journalSink, source string, tu target.Tuning, chords []ensemble.Chord, start time.Time) {
+// logChords writes the chords' memberships to the journal, each under its
+// player's name and channel, as the player's note rows are.
+func (po *playerOptions) logChords(j *journalSink, source string, tu target.Tuning, chords []ensemble.Chord, start time.Time) {
 	for _, c := range chords {
-		j.chord(source, tu, c.Start, c.End, c.HeardChord, func(i int) (string, string) { return c.Players[i].Name, "" }, start)
+		j.chord(source, tu, c.Start, c.End, c.HeardChord, func(i int) (string, journal.Extra) {
+			return c.Players[i].Name, journal.Extra{Channel: po.channel(c.Players[i])}
+		}, start)
 	}
 }
 
@@ -208,7 +211,7 @@ func readPlayers(e *env, path string, tu target.Tuning, po playerOptions, opt an
 	if !po.chords {
 		chords = nil
 	}
-	logChords(j, path, tu, chords, start)
+	po.logChords(j, path, tu, chords, start)
 	switch {
 	case errors.Is(runErr, context.Canceled):
 		return notes, chords, fmt.Errorf("%s: interrupted; the notes before it are written", path)
@@ -300,7 +303,7 @@ func listenPlayers(ctx context.Context, e *env, src *capture.Input, name string,
 	var chordRows func(ensemble.Chord, target.Tuning) error
 	if po.chords {
 		chordRows = func(c ensemble.Chord, tu target.Tuning) error {
-			logChords(j, name, tu, []ensemble.Chord{c}, time.Time{})
+			po.logChords(j, name, tu, []ensemble.Chord{c}, time.Time{})
 			for _, row := range chordRecords(c, "") {
 				w.Write(row.record(false))
 			}

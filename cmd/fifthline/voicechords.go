@@ -12,6 +12,7 @@ import (
 	"time"
 
 	"fifthline/harmony"
+	"fifthline/journal"
 	"fifthline/target"
 )
 
@@ -119,8 +120,8 @@ func mergedFrames(a, b *harmony.Track) *harmony.Track {
 // its voice (start: the take's, or zero when heard now).
 func logVoiceChords(j *journalSink, source string, tu target.Tuning, chords []harmony.Chord, notes []voiceNote, start time.Time) {
 	for _, c := range chords {
-		j.chord(source, tu, c.Start, c.End, c.HeardChord, func(i int) (string, string) {
-			return "", strconv.Itoa(notes[c.Notes[i]].voice)
+		j.chord(source, tu, c.Start, c.End, c.HeardChord, func(i int) (string, journal.Extra) {
+			return "", journal.Extra{Voice: strconv.Itoa(notes[c.Notes[i]].voice)}
 		}, start)
 	}
 }
