@@ -55,9 +55,14 @@ const (
 	MaxA4 = 480.0
 )
 
-// ParseA4 reads an --a4 value in hertz.
+// ParseA4 reads an --a4 value in hertz; the unit may follow the number
+// ("415Hz", "415 Hz"), as players write a reference pitch.
 func ParseA4(s string) (float64, error) {
-	f, err := strconv.ParseFloat(strings.TrimSpace(s), 64)
+	num := strings.TrimSpace(s)
+	if n := len(num) - len("hz"); n > 0 && strings.EqualFold(num[n:], "hz") {
+		num = strings.TrimSpace(num[:n])
+	}
+	f, err := strconv.ParseFloat(num, 64)
 	if err != nil {
 		return 0, fmt.Errorf("--a4 %q is not a number of hertz", s)
 	}
