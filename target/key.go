@@ -2,6 +2,7 @@ package target
 
 import (
 	"fmt"
+	"regexp"
 	"strings"
 )
 
@@ -47,7 +48,7 @@ type Key struct {
 // ("g") is refused with a hint, since it means minor in many hands.
 // Otherwise everything is case-insensitive.
 func ParseKey(s string) (Key, error) {
-	fields := strings.Fields(s)
+	fields := strings.Fields(signAccidental(s))
 	if len(fields) == 0 || len(fields) > 2 {
 		return Key{}, fmt.Errorf("key %q: write a tonic and a mode, like \"G major\"", s)
 	}
@@ -84,6 +85,24 @@ func ParseKey(s string) (Key, error) {
 		return Key{}, fmt.Errorf("key %q would need %d %s; key signatures stop at seven (try its enharmonic)", s, abs(sig), map[bool]string{true: "sharps", false: "flats"}[sig > 0])
 	}
 	return k, nil
+}
+
+// wordAccidental is a tonic's accidental said in words, as English speakers
+// name keys ("E flat major", "F-sharp minor").
+var wordAccidental = regexp.MustCompile(`^\s*([A-Ga-g])[\s-]*((?i)flat|sharp)\b`)
+
+// signAccidental writes a tonic's accidental in words as its sign ("Eb
+// major"), keeping the letter's case for ParseKey's small-letter rule.
+func signAccidental(s string) string {
+	m := wordAccidental.FindStringSubmatchIndex(s)
+	if m == nil {
+		return s
+	}
+	sign := "#"
+	if strings.EqualFold(s[m[4]:m[5]], "flat") {
+		sign = "b"
+	}
+	return s[m[2]:m[3]] + sign + s[m[1]:]
 }
 
 // String formats the key as "F# minor".
