@@ -43,6 +43,9 @@ type Options struct {
 	SoundLevel float64
 	// Caution is the hearing caution shown while Sound plays.
 	Caution string
+	// Drone starts the meter with the drone of the tonic and fifth
+	// sounding on Sound, as if d had been pressed twice.
+	Drone bool
 	// ASCII writes ## and bb for accidentals and ASCII marks, for
 	// terminals whose locale is not UTF-8 (ASCIILocale) or on request.
 	ASCII bool
@@ -191,6 +194,9 @@ func (m *Meter) Run(ctx context.Context) error {
 		if m.drawn != nil {
 			m.drawn(screen)
 		}
+	}
+	if m.opt.Drone {
+		m.model.StartDrone(m.opt.Sound) // before tview's goroutine reads the model
 	}
 	app.SetRoot(root, true)
 	app.SetInputCapture(func(ev *tcell.EventKey) *tcell.EventKey { return m.key(app, ev) })

@@ -3,6 +3,7 @@ package main
 import (
 	"flag"
 	"fmt"
+	"io"
 	"sync"
 	"sync/atomic"
 	"time"
@@ -30,6 +31,7 @@ func checkLevelFlag(flag string, dbfs float64) error {
 type soundFlags struct {
 	level  float64
 	output string
+	drone  bool // --drone: the meter starts with its drone on
 }
 
 func addSoundFlags(fs *flag.FlagSet) *soundFlags {
@@ -40,6 +42,26 @@ func addSoundFlags(fs *flag.FlagSet) *soundFlags {
 }
 
 func (f *soundFlags) check() error { return checkLevelFlag("--level", f.level) }
+
+// addDroneFlag adds the meter's --drone (listen, demo; the drone command
+// sounds anyway).
+func (f *soundFlags) addDroneFlag(fs *flag.FlagSet) {
+	fs.BoolVar(&f.drone, "drone", false, "start the meter with the drone on the tonic and fifth (d cycles it), fading in at --level")
+}
+
+// droneOnMeter checks --drone against what the command shows: only the
+// one-player meter sounds (the group meter plays nothing, --plain has no
+// keys to stop it with). It gives the hearing caution before any sound.
+func (f *soundFlags) droneOnMeter(w io.Writer, without string) error {
+	switch {
+	case !f.drone:
+		return nil
+	case without != "":
+		return usagef("--drone sounds with the meter of one player, not with %s ('fifthline drone' plays beside anything)", without)
+	}
+	fmt.Fprintln(w, droneCaution(f.level))
+	return nil
+}
 
 // meterSound is the meter's drone and reference tones on an output device
 // opened at the first key press that asks for sound, so a machine without
@@ -52,12 +74,13 @@ type meterSound struct {
 	// The last reference tone's time, wall clock in Unix nanoseconds, with
 	// referenceSettle after it.
 	refFrom, refTo atomic.Int64
+	startDrone     bool // the meter starts with the drone on (--drone)
 }
 
 func newMeterSound(f *soundFlags) *meterSound {
 	// The drone and the reference share the level, so that both together
 	// reach it and the limiter never has to act.
-	return &meterSound{opt: playback.Options{Device: f.output, Level: f.level, Timbre: drone.Reed, ShareWithReference: true}}
+	return &meterSound{opt: playback.Options{Device: f.output, Level: f.level, Timbre: drone.Reed, ShareWithReference: true}, startDrone: f.drone}
 }
 
 // get opens the player if it is not open yet. A failure is returned and
