@@ -170,13 +170,14 @@ func (rw *rowWriter) write(rec []string, obj any) {
 	case "json":
 		rw.json = append(rw.json, obj)
 	case "table":
+		head, rec := otherInWords(rw.head, rec)
 		if rw.rows == 0 {
 			if rw.title != "" {
 				fmt.Fprintln(rw.out, rw.title)
 			}
-			fmt.Fprintln(rw.tab, strings.Join(tableHead(rw.head), "\t"))
+			fmt.Fprintln(rw.tab, strings.Join(tableHead(head), "\t"))
 		}
-		fmt.Fprintln(rw.tab, strings.Join(tableCells(rw.head, rec), "\t"))
+		fmt.Fprintln(rw.tab, strings.Join(tableCells(head, rec), "\t"))
 	default:
 		if rw.rows == 0 {
 			rw.csv.Write(rw.head)
