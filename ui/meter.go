@@ -52,6 +52,10 @@ type Options struct {
 	// Group, when set, makes the meter a group meter with one row per
 	// name (at most MaxRows), fed by OnGroupFrame.
 	Group []string
+	// Doubles: the group's rows may be marked doubled (voices on one
+	// microphone), so the strips leave room for the mark from the start
+	// rather than narrowing whenever a voice is doubled.
+	Doubles bool
 	// Seventh is the just ratio a chord's minor seventh is read against;
 	// 0 means target.DefaultSeventh.
 	Seventh float64
@@ -95,6 +99,7 @@ func New(opt Options) *Meter {
 	}
 	if opt.Group != nil {
 		m.group = newGroupModel(model, opt.Group[:min(len(opt.Group), MaxRows)], opt.Seventh)
+		m.group.Doubles = opt.Doubles
 		m.groupFr = make(chan GroupFrame, frameBuffer)
 		m.nudge = make(chan struct{}, 1)
 	}
