@@ -269,3 +269,24 @@ func TestPlotTitleCountsVoicesAsVoices(t *testing.T) {
 		t.Errorf("players and voices: %q", got)
 	}
 }
+
+// The notes panel calls its notes written pitch only where an instrument
+// transposes (--transpose), since otherwise written and sounding pitch are
+// one; a B♭ clarinet's written E4 sounds D4 (common practice).
+func TestPlotSaysWrittenPitchOnlyForATransposingInstrument(t *testing.T) {
+	clarinet := entry("Cl", "E4", 3, 1, 1, "Fb4")
+	clarinet.Transpose = "Bb"
+	for _, c := range []struct {
+		es      []journal.Entry
+		written bool
+	}{{sampleEntries(), false}, {append(sampleEntries(), clarinet), true}} {
+		opt := Options{Tolerance: 5}
+		var b bytes.Buffer
+		if err := Plot(&b, "svg", c.es, Summarize(c.es, opt), opt); err != nil {
+			t.Fatal(err)
+		}
+		if got := strings.Contains(b.String(), xmlText("(written pitch)")); got != c.written {
+			t.Errorf("a transposing instrument %v: says written pitch %v", c.written, got)
+		}
+	}
+}
