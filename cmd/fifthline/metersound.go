@@ -1,9 +1,13 @@
 package main
 
 import (
+	"errors"
 	"flag"
 	"fmt"
 	"io"
+	"math"
+	"strconv"
+	"strings"
 	"sync"
 	"sync/atomic"
 	"time"
@@ -36,9 +40,34 @@ type soundFlags struct {
 
 func addSoundFlags(fs *flag.FlagSet) *soundFlags {
 	f := &soundFlags{}
-	fs.Float64Var(&f.level, "level", playback.DefaultLevel, fmt.Sprintf("peak of everything fifthline sounds together (drone, reference tone), in dBFS, at most %g", playback.MaxLevel))
+	f.level = playback.DefaultLevel
+	fs.Var((*dbfs)(&f.level), "level", fmt.Sprintf("peak of everything fifthline sounds together (drone, reference tone), in dBFS, at most %g", playback.MaxLevel))
 	fs.StringVar(&f.output, "output", "", "output device for the sound: index or part of the name as 'fifthline devices' lists it (default: the system's default output)")
 	return f
+}
+
+// dbfs is a level flag in dBFS. The unit may follow the number ("-20dB",
+// "-20 dBFS"), as a level is written on a mixer, and the minus sign may be
+// the typeset one (−20).
+type dbfs float64
+
+func (d *dbfs) String() string { return strconv.FormatFloat(float64(*d), 'g', -1, 64) }
+func (d *dbfs) Get() any       { return float64(*d) }
+
+func (d *dbfs) Set(s string) error {
+	s = strings.ReplaceAll(strings.TrimSpace(s), "−", "-")
+	for _, unit := range []string{"dbfs", "db"} {
+		if n := len(s) - len(unit); n > 0 && strings.EqualFold(s[n:], unit) {
+			s = strings.TrimSpace(s[:n])
+			break
+		}
+	}
+	x, err := strconv.ParseFloat(s, 64)
+	if err != nil || math.IsNaN(x) {
+		return errors.New("parse error") // withHint says what the flag takes
+	}
+	*d = dbfs(x)
+	return nil
 }
 
 func (f *soundFlags) check() error { return checkLevelFlag("--level", f.level) }
