@@ -210,7 +210,7 @@ func groupLayout(g *groupModel, w, h int) []screenLine {
 			rows = append(rows, groupRowLine(i, r, cols))
 		}
 		return []section{
-			{[]screenLine{tuningLine(g.model)}, 10, false},
+			{[]screenLine{tuningLine(g.model, bw)}, 10, false},
 			gap(2),
 			{[]screenLine{chordLine(g)}, 9, false},
 			{[]screenLine{driftLine(g)}, 8, false},
