@@ -175,11 +175,18 @@ func analyzeFile(e *env, path string, tu target.Tuning, opt analyzeOptions, out 
 	if w.Truncated() {
 		fmt.Fprintf(e.stderr, "fifthline: warning: %s is shorter than its header says; read what was there\n", path)
 	}
+	opt.warnTuning(e, path, tu, heard)
+	return nil
+}
+
+// warnTuning says on stderr, after the tuning line, when a take's notes do
+// not fit the tuning (tuningWarning): one player's take and a group's alike,
+// since a forgotten --a4 415 reads a whole consort a semitone off.
+func (opt analyzeOptions) warnTuning(e *env, path string, tu target.Tuning, heard []session.Event) {
 	if msg := tuningWarning(path, tu, heard, opt.keyGiven); msg != "" {
 		opt.sayTuning()
 		fmt.Fprintf(e.stderr, "fifthline: %s\n", msg)
 	}
-	return nil
 }
 
 // countingSource reports how far through a file the reading is.

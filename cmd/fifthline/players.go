@@ -132,6 +132,13 @@ func analyzePlayers(e *env, po playerOptions, files []string, tu target.Tuning, 
 	head := groupHead(withFile, po.chords, playerColumns, playersChordHeader)
 	return analyzeGroup(e, "--players", files, tu, opt, jf, head, func(path string, out *rowWriter, j *journalSink) (string, bool, error) {
 		notes, chords, err := readPlayers(e, path, tu, po, opt, j)
+		if err == nil {
+			evs := make([]session.Event, len(notes))
+			for k, n := range notes {
+				evs[k] = n.Event
+			}
+			opt.warnTuning(e, path, tu, evs)
+		}
 		td := takeDrift(notes, tu, po.seventh)
 		if po.chords {
 			for _, c := range chords {

@@ -56,3 +56,22 @@ func TestTheGroupTablesTitleSaysWhereTheTuningCameFrom(t *testing.T) {
 		}
 	}
 }
+
+// A group's take read at the wrong reference warns as one player's does
+// (docs/interface.md, "Additions": analyze names a key and reference that
+// fit): soxQuartet's chords, tuned at A4 = 440 Hz (ISO 16), read with a
+// forgotten --a4 415 lie a semitone off C major.
+func TestAGroupsTakeInAnotherTuningWarns(t *testing.T) {
+	t.Parallel()
+	take := soxQuartet(t)
+	for _, how := range [][]string{{"--players", "vc,vla,vl2,vl1"}, {"--players", "vc,vla,vl2,vl1", "--chords"}} {
+		code, _, stderr := runCLI(t, append(append([]string{"analyze", "--key", "C major", "--a4", "415"}, how...), take)...)
+		if code != 0 || !strings.Contains(stderr, "warning: "+take+": ") || !strings.Contains(stderr, "fit C major at A4 ≈ 440.0 Hz") {
+			t.Errorf("%v: exit %d, stderr %q", how, code, stderr)
+		}
+		code, _, stderr = runCLI(t, append(append([]string{"analyze", "--key", "C major"}, how...), take)...)
+		if code != 0 || strings.Contains(stderr, "warning") {
+			t.Errorf("%v at the take's own A4 = 440 Hz: exit %d, stderr %q", how, code, stderr)
+		}
+	}
+}

@@ -106,6 +106,9 @@ func analyzeVoices(e *env, vo voiceOptions, files []string, tu target.Tuning, op
 		for k, n := range notes {
 			evs[k] = n.Event
 		}
+		if err == nil {
+			opt.warnTuning(e, path, tu, evs)
+		}
 		if vo.chords {
 			for _, row := range chords {
 				for _, c := range voiceChordRecords(row, fileColumn(path, withFile), notes) {
