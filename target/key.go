@@ -48,6 +48,9 @@ type Key struct {
 // ("g") is refused with a hint, since it means minor in many hands.
 // Otherwise everything is case-insensitive.
 func ParseKey(s string) (Key, error) {
+	if english, ok := germanKey(s); ok {
+		return Key{}, fmt.Errorf("key %q: key names here are English: say %q", s, english)
+	}
 	fields := strings.Fields(signAccidental(s))
 	if len(fields) == 0 || len(fields) > 2 {
 		return Key{}, fmt.Errorf("key %q: write a tonic and a mode, like \"G major\"", s)
@@ -103,6 +106,37 @@ func signAccidental(s string) string {
 		sign = "b"
 	}
 	return s[m[2]:m[3]] + sign + s[m[1]:]
+}
+
+// germanKeyName is a key named in German, "Es-Dur", "fis-moll", "B dur".
+var germanKeyName = regexp.MustCompile(`^\s*([A-Ha-h](?:is|es|s)?)[\s-]*((?i)dur|moll)\s*$`)
+
+// germanKey is the English name of a key written in German ("Es-Dur" is
+// "Eb major", "B-Dur" "Bb major", "h-moll" "B minor"), and whether s is
+// one: refused with it, not guessed, as a German note name is.
+func germanKey(s string) (string, bool) {
+	m := germanKeyName.FindStringSubmatch(s)
+	if m == nil {
+		return "", false
+	}
+	name := strings.ToLower(m[1])
+	letter := strings.ToUpper(name[:1])
+	acc := ""
+	switch {
+	case name == "h":
+		letter = "B"
+	case name == "b":
+		acc = "b"
+	case strings.HasSuffix(name, "is"):
+		acc = "#"
+	case strings.HasSuffix(name, "s"): // es, as, and Es alone for E flat
+		acc = "b"
+	}
+	mode := "major"
+	if strings.EqualFold(m[2], "moll") {
+		mode = "minor"
+	}
+	return letter + acc + " " + mode, true
 }
 
 // String formats the key as "F# minor".

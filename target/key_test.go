@@ -152,6 +152,20 @@ func TestAKeysAccidentalInWordsIsItsSign(t *testing.T) {
 	}
 }
 
+// A key named in German ("Es-Dur", "fis-moll"; German B is B♭ and H is B:
+// common practice) is refused with its English name, not guessed at.
+func TestAKeyInGermanIsNamedInEnglish(t *testing.T) {
+	for in, english := range map[string]string{
+		"Es-Dur": "Eb major", "es-dur": "Eb major", "fis-moll": "F# minor", "B-Dur": "Bb major", "h-moll": "B minor",
+		"As Dur": "Ab major", "cis-moll": "C# minor", "D-Dur": "D major", "g moll": "G minor",
+	} {
+		_, err := ParseKey(in)
+		if err == nil || !strings.Contains(err.Error(), `say "`+english+`"`) {
+			t.Errorf("ParseKey(%q): %v, want it to say %q", in, err, english)
+		}
+	}
+}
+
 func TestParseKeyRejectsBadKeys(t *testing.T) {
 	// "--key H" is the contract's own example of a usage error.
 	for _, in := range []string{"H", "", "C major minor", "C foo", "C## major", "G# major", "Fb major", "C4 major"} {
