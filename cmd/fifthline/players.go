@@ -58,6 +58,11 @@ func playersOptions(fs *flag.FlagSet, value string) (opt playerOptions, ok bool,
 	if opt.group, err = groupReference(fs, wasSet(fs, "players")); err != nil || !wasSet(fs, "players") {
 		return opt, false, err
 	}
+	// "vc vla vl2 vl1" or "vc;vla" is a list with the wrong separator, not
+	// one player of that name: names are parted by commas.
+	if words := strings.FieldsFunc(value, func(r rune) bool { return r == ';' || r == ' ' }); !strings.ContainsAny(value, ",=") && len(words) > 1 {
+		return opt, false, usagef("--players %q: part the names with commas, one per channel: --players %s", value, strings.Join(words, ","))
+	}
 	if opt.players, err = ensemble.ParsePlayers(value); err != nil {
 		return opt, false, usagef("%v", err)
 	}
