@@ -285,8 +285,9 @@ var tableWords = map[string]string{
 
 // tableCells are a record's values as the table writes them: a reading's
 // cents as the one-voice table writes them ("+7.9 ¢"), cents under a head
-// that names the unit signed to a tenth ("+13.7"), and every other value
-// as the CSV has it (seconds, hertz, names).
+// that names the unit signed to a tenth ("+13.7"), seconds and hertz to a
+// hundredth as that table has them, and every other value as the CSV has
+// it (names, counts).
 func tableCells(head, rec []string) []string {
 	out := slices.Clone(rec)
 	for i, h := range head {
@@ -299,6 +300,8 @@ func tableCells(head, rec []string) []string {
 			out[i] = target.Signed(x, 1)
 		case h == "spread_cents" || h == "vibrato_cents":
 			out[i] = target.Decimal(x, 1)
+		case h == "start_s" || h == "end_s" || h == "hz" || h == "target_hz":
+			out[i] = target.Decimal(x, 2)
 		}
 	}
 	return out

@@ -2,6 +2,7 @@ package main
 
 import (
 	"math"
+	"regexp"
 	"strings"
 	"testing"
 
@@ -44,7 +45,9 @@ func TestTheGroupTablesSayTheOtherSpellingInWords(t *testing.T) {
 
 // The group tables' first line says where the tuning came from, as the
 // one-voice table's does: here no flag or file set it (the defaults, C
-// major, equal temperament, A4 = 440 Hz).
+// major, equal temperament, A4 = 440 Hz); their seconds and hertz are
+// written to a hundredth, as that table writes them (the CSV keeps its
+// places).
 func TestTheGroupTablesTitleSaysWhereTheTuningCameFrom(t *testing.T) {
 	t.Parallel()
 	take := soxQuartet(t)
@@ -53,6 +56,9 @@ func TestTheGroupTablesTitleSaysWhereTheTuningCameFrom(t *testing.T) {
 		title, _, _ := strings.Cut(out, "\n")
 		if code != 0 || !strings.HasSuffix(title, "   (key, temperament, a4 by default)") {
 			t.Errorf("%v: exit %d (%s), title %q", how, code, stderr, title)
+		}
+		if rows := strings.Split(out, "\n"); len(rows) < 3 || !regexp.MustCompile(`^\d+\.\d\d +\d+\.\d\d `).MatchString(rows[2]) || regexp.MustCompile(`\.\d{3}`).MatchString(rows[2]) {
+			t.Errorf("%v: the first row does not write seconds and hertz to a hundredth:\n%s", how, out)
 		}
 	}
 }
