@@ -134,9 +134,11 @@ func analyzeGroup(e *env, flag string, files []string, tu target.Tuning, opt ana
 	for i, path := range files {
 		drift, none, err := take(path, out, j)
 		drifts = append(drifts, path+": "+drift)
-		if err != nil && i == 0 && none {
+		if err != nil && i == 0 && none && !errors.Is(err, errInterrupted) {
 			return errors.Join(err, j.close())
 		}
+		// Interrupted, even before a note (a group's take is read twice,
+		// its first minute learnt first): the CSV still gives its header.
 		if err != nil {
 			return errors.Join(err, out.close(), j.close())
 		}

@@ -226,7 +226,7 @@ func readPlayers(e *env, path string, tu target.Tuning, po playerOptions, opt an
 	po.logChords(j, path, tu, chords, start)
 	switch {
 	case errors.Is(runErr, context.Canceled):
-		return notes, chords, fmt.Errorf("%s: interrupted; the notes before it are written", path)
+		return notes, chords, fmt.Errorf("%s: %w", path, errInterrupted)
 	case runErr != nil:
 		return notes, chords, fmt.Errorf("%s: %w", path, runErr)
 	}

@@ -159,7 +159,7 @@ func readVoices(e *env, path string, tu target.Tuning, vo voiceOptions, opt anal
 	logVoiceChords(j, path, tu, chords, notes, start)
 	switch {
 	case errors.Is(err, context.Canceled):
-		return notes, chords, fmt.Errorf("%s: interrupted; the notes before it are written", path)
+		return notes, chords, fmt.Errorf("%s: %w", path, errInterrupted)
 	case err != nil:
 		return notes, chords, fmt.Errorf("%s: %w", path, err)
 	}
