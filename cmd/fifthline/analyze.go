@@ -134,11 +134,12 @@ func analyzeGroup(e *env, flag string, files []string, tu target.Tuning, opt ana
 	for i, path := range files {
 		drift, none, err := take(path, out, j)
 		drifts = append(drifts, path+": "+drift)
+		// A first take that would not open writes nothing; one interrupted,
+		// even before a note (a group's take is read twice, its first
+		// minute learnt first), still gives the CSV header.
 		if err != nil && i == 0 && none && !errors.Is(err, errInterrupted) {
 			return errors.Join(err, j.close())
 		}
-		// Interrupted, even before a note (a group's take is read twice,
-		// its first minute learnt first): the CSV still gives its header.
 		if err != nil {
 			return errors.Join(err, out.close(), j.close())
 		}
