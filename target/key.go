@@ -121,10 +121,11 @@ func germanKey(s string) (string, bool) {
 	}
 	name := strings.ToLower(m[1])
 	letter := strings.ToUpper(name[:1])
+	if letter == "H" {
+		letter = "B"
+	}
 	acc := ""
 	switch {
-	case name == "h":
-		letter = "B"
 	case name == "b":
 		acc = "b"
 	case strings.HasSuffix(name, "is"):

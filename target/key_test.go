@@ -157,7 +157,7 @@ func TestAKeysAccidentalInWordsIsItsSign(t *testing.T) {
 func TestAKeyInGermanIsNamedInEnglish(t *testing.T) {
 	for in, english := range map[string]string{
 		"Es-Dur": "Eb major", "es-dur": "Eb major", "fis-moll": "F# minor", "B-Dur": "Bb major", "h-moll": "B minor",
-		"As Dur": "Ab major", "cis-moll": "C# minor", "D-Dur": "D major", "g moll": "G minor",
+		"As Dur": "Ab major", "cis-moll": "C# minor", "his-moll": "B# minor", "D-Dur": "D major", "g moll": "G minor",
 	} {
 		_, err := ParseKey(in)
 		if err == nil || !strings.Contains(err.Error(), `say "`+english+`"`) {
