@@ -100,18 +100,7 @@ func TestInterruptedTablePrintsTheNotesSoFar(t *testing.T) {
 	if out, err := exec.Command("sox", "-n", "-r", "8000", "-b", "16", long, "synth", "600", "sine", "440", "gain", "-6").CombinedOutput(); err != nil {
 		t.Fatalf("sox: %v\n%s", err, out)
 	}
-	cmd := exec.Command(fifthlineBinary(t), "analyze", "--format", "table", long)
-	var out, errb bytes.Buffer
-	cmd.Stdout, cmd.Stderr = &out, &errb
-	if err := cmd.Start(); err != nil {
-		t.Fatal(err)
-	}
-	time.Sleep(time.Second)
-	cmd.Process.Signal(syscall.SIGINT)
-	err := cmd.Wait()
-	if ee, ok := err.(*exec.ExitError); !ok || ee.ExitCode() != 1 {
-		t.Fatalf("exit %v, want 1 (interrupted); stderr %q", err, errb.String())
-	}
+	out, errb := interruptAnalyze(t, time.Second, "--format", "table", long)
 	if !strings.Contains(out.String(), "A4") || !strings.Contains(out.String(), long+": 1 of 1 note within ±5 ¢") {
 		t.Errorf("no notes so far on stdout:\n%s", out.String())
 	}
@@ -205,22 +194,31 @@ func TestInterruptedGroupAnalysisStillGivesTheHeader(t *testing.T) {
 		"sawtooth", "220", "sawtooth", "277.1826", "sawtooth", "329.6276", "sawtooth", "440", "gain", "-12").CombinedOutput(); err != nil {
 		t.Fatalf("sox: %v\n%s", err, out)
 	}
-	cmd := exec.Command(fifthlineBinary(t), "analyze", "--players", "vc,vla,vl2,vl1", long)
-	var out, errb bytes.Buffer
-	cmd.Stdout, cmd.Stderr = &out, &errb
-	if err := cmd.Start(); err != nil {
-		t.Fatal(err)
-	}
-	time.Sleep(2 * time.Second)
-	cmd.Process.Signal(syscall.SIGINT)
-	err := cmd.Wait()
-	if ee, ok := err.(*exec.ExitError); !ok || ee.ExitCode() != 1 {
-		t.Fatalf("exit %v, want 1 (interrupted); stderr %q", err, errb.String())
-	}
+	out, errb := interruptAnalyze(t, 2*time.Second, "--players", "vc,vla,vl2,vl1", long)
 	if !strings.HasPrefix(out.String(), "start_s,end_s,note,hz,target_hz,cents,alt_note,alt_cents,") {
 		t.Errorf("stdout does not begin with the CSV header:\n%s", out.String())
 	}
 	if !strings.Contains(errb.String(), long+": interrupted") {
 		t.Errorf("stderr %q", errb.String())
 	}
+}
+
+// interruptAnalyze runs analyze with args, sends it Ctrl-C's SIGINT after
+// the wait, and gives its stdout and stderr once it has exited 1, as an
+// interrupted reading does.
+func interruptAnalyze(t *testing.T, wait time.Duration, args ...string) (stdout, stderr *bytes.Buffer) {
+	t.Helper()
+	cmd := exec.Command(fifthlineBinary(t), append([]string{"analyze"}, args...)...)
+	var out, errb bytes.Buffer
+	cmd.Stdout, cmd.Stderr = &out, &errb
+	if err := cmd.Start(); err != nil {
+		t.Fatal(err)
+	}
+	time.Sleep(wait)
+	cmd.Process.Signal(syscall.SIGINT)
+	err := cmd.Wait()
+	if ee, ok := err.(*exec.ExitError); !ok || ee.ExitCode() != 1 {
+		t.Fatalf("exit %v, want 1 (interrupted); stderr %q", err, errb.String())
+	}
+	return &out, &errb
 }
