@@ -311,18 +311,6 @@ func TestTuningLineSaysKeyTemperamentA4AndTransposition(t *testing.T) {
 			t.Errorf("got  %q\nwant %q", got, c.want)
 		}
 	}
-	// Where the line is too wide it loses whole parts from its end, never
-	// half a word: E♭ major in just intonation at A4 = 442 Hz, the tonic
-	// anchored (the contract's just), in 80 columns.
-	just, err := target.ParseTemperament("just")
-	if err != nil {
-		t.Fatal(err)
-	}
-	choir := keyOf(t, "Eb major")
-	choir.Temperament, choir.A4 = just, 442
-	if got, want := tuningLine(newModel(choir, "x"), 80).Text(), "E♭ major · 5-limit just from the tonic · A4 = 442.0 Hz (tonic anchored)"; got != want {
-		t.Errorf("in 80 columns: got %q, want %q", got, want)
-	}
 	// A B♭ instrument reads concert F♯4 as G♯4 (a major second up; common
 	// practice), on the screen as in the CSV.
 	m := holding(transposed, fSharp4)
