@@ -11,7 +11,7 @@ import (
 
 // Filter keeps the entries a report asks for; zero fields keep everything.
 type Filter struct {
-	Player string    // case-insensitive
+	Player string    // case-insensitive; a voice as the report heads it, "voice 2", too
 	Key    string    // as --key takes it: "g major" matches "G major", "G" too
 	Since  time.Time // notes at or after
 }
@@ -21,7 +21,7 @@ func (f Filter) Apply(es []journal.Entry) []journal.Entry {
 	want, keyErr := target.ParseKey(f.Key)
 	var out []journal.Entry
 	for _, e := range es {
-		if f.Player != "" && !strings.EqualFold(e.Player, f.Player) {
+		if f.Player != "" && !strings.EqualFold(e.Player, f.Player) && !strings.EqualFold(Who(e.Player, e.Voice), strings.Join(strings.Fields(f.Player), " ")) {
 			continue
 		}
 		if f.Key != "" && !sameKey(e.Key, f.Key, want, keyErr) {

@@ -125,7 +125,11 @@ func (m meanScatter) YError(i int) (float64, float64) { return m.err[i], m.err[i
 // (es, whatever the rehearsal), its count and any notes on the other
 // spelling written under its name, so no label sits on the data.
 func notesPanel(es []journal.Entry, opt Options) (*plot.Plot, error) {
-	p := newPanel("Mean ± scatter per spelled note", "spelled note (written pitch), along the line of fifths", "cents from target")
+	axis := "spelled note, along the line of fifths"
+	if slices.ContainsFunc(es, func(e journal.Entry) bool { return e.Transpose != "" }) {
+		axis = "spelled note (written pitch), along the line of fifths" // a transposing instrument's
+	}
+	p := newPanel("Mean ± scatter per spelled note", axis, "cents from target")
 	var m meanScatter
 	var labels []string
 	for _, s := range byLabel(es, Options{Tolerance: opt.Tolerance}, target.Note.String, target.Note.String) {

@@ -14,13 +14,14 @@ import (
 )
 
 // Title describes a group in one line: "Ann · G major · 1/4-comma meantone ·
-// A4 = 415 Hz", then any transposition and declared chord.
+// A4 = 415 Hz", then any transposition and declared chord; a player who
+// gave no name (practising alone, without --player) is left out rather
+// than named as missing.
 func (g Group) Title() string {
-	player := g.Who()
-	if player == "" {
-		player = "(no player named)"
+	t := fmt.Sprintf("%s · %s · A4 = %s Hz", g.Key, g.Name, strconv.FormatFloat(g.A4, 'f', -1, 64))
+	if who := g.Who(); who != "" {
+		t = who + " · " + t
 	}
-	t := fmt.Sprintf("%s · %s · %s · A4 = %s Hz", player, g.Key, g.Name, strconv.FormatFloat(g.A4, 'f', -1, 64))
 	if g.Transpose != "" {
 		t += " · written for an instrument in " + g.Transpose
 	}

@@ -33,7 +33,7 @@ func TestTextTable(t *testing.T) {
 		"Ann · G major · 1/4-comma meantone · A4 = 415 Hz\n6 held notes (1 on the other spelling)\n",
 		"within ±5 ¢",
 		"\nall octaves\n",
-		"(no player named)",
+		"\nG major · 1/4-comma meantone · A4 = 415 Hz\n1 held note\n", // Ben's C4 with no player named: no name, no placeholder
 		"vibrato: full width",
 	} {
 		if !strings.Contains(out, want) {
@@ -206,7 +206,7 @@ func TestPlotSVGSaysWhatItShows(t *testing.T) {
 		"Rehearsal report: 2 players, 2 tunings",
 		"Ann · G major · 1/4-comma meantone · A4 = 415 Hz — 6 held notes (1 on the other spelling)",
 		"Ann · G major · 1/4-comma meantone · A4 = 415 Hz · tuned to the chord D major — 1 held note",
-		"(no player named) · G major",
+		"G major · 1/4-comma meantone · A4 = 415 Hz — 1 held note",
 		"1 more on Gb5",
 	} {
 		if !strings.Contains(svg, xmlText(want)) {
@@ -267,5 +267,26 @@ func TestPlotTitleCountsVoicesAsVoices(t *testing.T) {
 	both := []Group{{Player: "vc", Key: "C major"}, {Player: "vla", Key: "C major"}, {Voice: "1", Key: "C major"}}
 	if got := plotTitle(es, both, Options{Tolerance: 5})[0]; got != "Rehearsal report: 2 players and 1 voice, 1 tuning (a row for each player or voice in each tuning)" {
 		t.Errorf("players and voices: %q", got)
+	}
+}
+
+// The notes panel calls its notes written pitch only where an instrument
+// transposes (--transpose), since otherwise written and sounding pitch are
+// one; a B♭ clarinet's written E4 sounds D4 (common practice).
+func TestPlotSaysWrittenPitchOnlyForATransposingInstrument(t *testing.T) {
+	clarinet := entry("Cl", "E4", 3, 1, 1, "Fb4")
+	clarinet.Transpose = "Bb"
+	for _, c := range []struct {
+		es      []journal.Entry
+		written bool
+	}{{sampleEntries(), false}, {append(sampleEntries(), clarinet), true}} {
+		opt := Options{Tolerance: 5}
+		var b bytes.Buffer
+		if err := Plot(&b, "svg", c.es, Summarize(c.es, opt), opt); err != nil {
+			t.Fatal(err)
+		}
+		if got := strings.Contains(b.String(), xmlText("(written pitch)")); got != c.written {
+			t.Errorf("a transposing instrument %v: says written pitch %v", c.written, got)
+		}
 	}
 }

@@ -155,14 +155,18 @@ func (g Group) RoleWords() string {
 }
 
 // Who is the group's player, or its voice: "vla", "voice 2", "Ann (voice 2)".
-func (g Group) Who() string {
+func (g Group) Who() string { return Who(g.Player, g.Voice) }
+
+// Who names a player, or a --voices voice as the report heads it ("voice
+// 2"; "Ann (voice 2)" where --player named the microphone too).
+func Who(player, voice string) string {
 	switch {
-	case g.Voice == "":
-		return g.Player
-	case g.Player == "":
-		return "voice " + g.Voice
+	case voice == "":
+		return player
+	case player == "":
+		return "voice " + voice
 	}
-	return g.Player + " (voice " + g.Voice + ")"
+	return player + " (voice " + voice + ")"
 }
 
 // countNotes counts the entries that are notes, not chord memberships.

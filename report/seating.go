@@ -3,6 +3,7 @@ package report
 import (
 	"cmp"
 	"slices"
+	"strconv"
 
 	"fifthline/journal"
 )
@@ -48,8 +49,17 @@ func seatPlayers(names []string, channel map[string]int) {
 }
 
 // seatGroups orders the groups of players on channels by channel within
-// each tuning, the tunings in the order they first appear.
+// each tuning, the tunings in the order they first appear; a --voices
+// group's voices likewise by number, voice 1 (the lowest) first, whichever
+// voice's note happened to end first.
 func seatGroups(groups []Group, channel map[string]int) {
+	place := func(g Group) int {
+		if c := channel[g.Player]; c > 0 {
+			return c
+		}
+		n, _ := strconv.Atoi(g.Voice) // 0, not seated, without a voice
+		return n
+	}
 	var tunings []tuningOf
 	rank := func(g Group) int {
 		k := tuningOf{"", "", g.Key, g.Temperament, g.A4, g.Transpose, g.Chord}
@@ -62,7 +72,7 @@ func seatGroups(groups []Group, channel map[string]int) {
 	for _, g := range groups {
 		rank(g)
 	}
-	seat(groups, func(g Group) bool { return channel[g.Player] > 0 }, func(a, b Group) int {
-		return cmp.Or(cmp.Compare(rank(a), rank(b)), cmp.Compare(channel[a.Player], channel[b.Player]))
+	seat(groups, func(g Group) bool { return place(g) > 0 }, func(a, b Group) int {
+		return cmp.Or(cmp.Compare(rank(a), rank(b)), cmp.Compare(place(a), place(b)))
 	})
 }

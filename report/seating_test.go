@@ -97,3 +97,21 @@ func TestGroupDriftCountsNotesAndReadsSeventhsAsTheJournalSays(t *testing.T) {
 		}
 	}
 }
+
+// A --voices journal's voices are listed by number, voice 1 (the lowest)
+// first, as the group meter's rows and analyze's voice column count them,
+// not in the order their first notes ended (here voice 3's first: our own
+// take, C major's C3 G3 E4 as voices 1–3, the E4 released first).
+func TestReportListsVoicesLowestFirst(t *testing.T) {
+	es := quartetTake(false)[:3] // vl1 C5, vl2 E4, vla G3: ended in that order
+	for i, v := range []string{"3", "2", "1"} {
+		es[i].Player, es[i].Voice = "", v
+	}
+	var got []string
+	for _, g := range Summarize(es, Options{Tolerance: 5}) {
+		got = append(got, g.Voice)
+	}
+	if strings.Join(got, " ") != "1 2 3" {
+		t.Errorf("voices listed %q, want 1 2 3", got)
+	}
+}

@@ -288,8 +288,11 @@ func join(ss []string) string {
 }
 
 func TestFilter(t *testing.T) {
-	es := []journal.Entry{entry("Ann", "C4", 0, 0, 0, "B#3"), entry("ben", "C4", 30, 0, 0, "B#3")}
+	// The third and fourth are --voices notes, one microphone's voice 2
+	// (the report heads it "voice 2") and Ann's.
+	es := []journal.Entry{entry("Ann", "C4", 0, 0, 0, "B#3"), entry("ben", "C4", 30, 0, 0, "B#3"), entry("", "E4", 0, 0, 0, "Fb4"), entry("Ann", "G4", 0, 0, 0, "")}
 	es[1].Key = "D minor"
+	es[2].Voice, es[3].Voice = "2", "3"
 	since, err := ParseSince("2026-03-14T18:10:00Z", time.UTC)
 	if err != nil {
 		t.Fatal(err)
@@ -299,12 +302,15 @@ func TestFilter(t *testing.T) {
 		f    Filter
 		want int
 	}{
-		{"nothing asked", Filter{}, 2},
+		{"nothing asked", Filter{}, 4},
 		{"player, any case", Filter{Player: "BEN"}, 1},
-		{"key as --key takes it", Filter{Key: "G"}, 1},
+		{"key as --key takes it", Filter{Key: "G"}, 3},
 		{"key spelled out", Filter{Key: "d minor"}, 1},
 		{"since", Filter{Since: since}, 1},
 		{"nobody", Filter{Player: "Cleo"}, 0},
+		{"a voice as the report heads it", Filter{Player: "Voice  2"}, 1},
+		{"a named voice", Filter{Player: "ann (voice 3)"}, 1},
+		{"a player's voices with their notes", Filter{Player: "Ann"}, 2},
 	}
 	for _, c := range cases {
 		if got := len(c.f.Apply(es)); got != c.want {

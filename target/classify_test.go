@@ -198,13 +198,15 @@ func TestTransposingInstruments(t *testing.T) {
 }
 
 func TestParseA4(t *testing.T) {
-	for _, ok := range []string{"440", "415", "392", "466.0", "380", "480"} {
+	// The unit after the number, as a player writes a reference ("A4 =
+	// 415 Hz"), is the same value.
+	for _, ok := range []string{"440", "415", "392", "466.0", "380", "480", "415Hz", "415 Hz", "442hz", " 430.5 HZ ", "A4 = 415 Hz", "a=442", "A4=415"} {
 		if _, err := ParseA4(ok); err != nil {
 			t.Errorf("ParseA4(%q): %v", ok, err)
 		}
 	}
 	// "--a4 -440" and "--a4 abc" are the contract's and the issue's examples.
-	for _, bad := range []string{"-440", "abc", "0", "NaN", "Inf", "379.9", "1e9", ""} {
+	for _, bad := range []string{"-440", "abc", "0", "NaN", "Inf", "379.9", "1e9", "", "Hz", " hz", "415 kHz", "415Hzz", "A4 =", "B4 = 415", "A4 = A4 = 415"} {
 		if _, err := ParseA4(bad); err == nil {
 			t.Errorf("ParseA4(%q) accepted", bad)
 		}

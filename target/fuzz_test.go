@@ -132,3 +132,17 @@ func checkOrder(t *testing.T, r Regular) {
 		}
 	}
 }
+
+// An accepted reference is a number of hertz within the bounds, with or
+// without its unit.
+func FuzzParseA4(f *testing.F) {
+	for _, s := range []string{"440", "415Hz", "415 Hz", "442hz", "hz", "-440", "1e9", "NaN"} {
+		f.Add(s)
+	}
+	f.Fuzz(func(t *testing.T, s string) {
+		hz, err := ParseA4(s)
+		if err == nil && !(hz >= MinA4 && hz <= MaxA4) {
+			t.Fatalf("%q → %g Hz, outside %g to %g", s, hz, MinA4, MaxA4)
+		}
+	})
+}

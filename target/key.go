@@ -2,6 +2,7 @@ package target
 
 import (
 	"fmt"
+	"regexp"
 	"strings"
 )
 
@@ -47,7 +48,10 @@ type Key struct {
 // ("g") is refused with a hint, since it means minor in many hands.
 // Otherwise everything is case-insensitive.
 func ParseKey(s string) (Key, error) {
-	fields := strings.Fields(s)
+	if english, ok := germanKey(s); ok {
+		return Key{}, fmt.Errorf("key %q: key names here are English: say %q", s, english)
+	}
+	fields := strings.Fields(signAccidental(s))
 	if len(fields) == 0 || len(fields) > 2 {
 		return Key{}, fmt.Errorf("key %q: write a tonic and a mode, like \"G major\"", s)
 	}
@@ -84,6 +88,56 @@ func ParseKey(s string) (Key, error) {
 		return Key{}, fmt.Errorf("key %q would need %d %s; key signatures stop at seven (try its enharmonic)", s, abs(sig), map[bool]string{true: "sharps", false: "flats"}[sig > 0])
 	}
 	return k, nil
+}
+
+// wordAccidental is a tonic's accidental said in words, as English speakers
+// name keys ("E flat major", "F-sharp minor").
+var wordAccidental = regexp.MustCompile(`^\s*([A-Ga-g])[\s-]*((?i)flat|sharp)\b`)
+
+// signAccidental writes a tonic's accidental in words as its sign ("Eb
+// major"), keeping the letter's case for ParseKey's small-letter rule.
+func signAccidental(s string) string {
+	m := wordAccidental.FindStringSubmatchIndex(s)
+	if m == nil {
+		return s
+	}
+	sign := "#"
+	if strings.EqualFold(s[m[4]:m[5]], "flat") {
+		sign = "b"
+	}
+	return s[m[2]:m[3]] + sign + s[m[1]:]
+}
+
+// germanKeyName is a key named in German, "Es-Dur", "fis-moll", "B dur".
+var germanKeyName = regexp.MustCompile(`^\s*([A-Ha-h](?:is|es|s)?)[\s-]*((?i)dur|moll)\s*$`)
+
+// germanKey is the English name of a key written in German ("Es-Dur" is
+// "Eb major", "B-Dur" "Bb major", "h-moll" "B minor"), and whether s is
+// one: refused with it, not guessed, as a German note name is.
+func germanKey(s string) (string, bool) {
+	m := germanKeyName.FindStringSubmatch(s)
+	if m == nil {
+		return "", false
+	}
+	name := strings.ToLower(m[1])
+	letter := strings.ToUpper(name[:1])
+	if letter == "H" {
+		letter = "B"
+	}
+	acc := ""
+	switch {
+	case name == "b":
+		acc = "b"
+	case strings.HasSuffix(name, "is"):
+		acc = "#"
+	case strings.HasSuffix(name, "s"): // es, as, and Es alone for E flat
+		acc = "b"
+	}
+	mode := "major"
+	if strings.EqualFold(m[2], "moll") {
+		mode = "minor"
+	}
+	return letter + acc + " " + mode, true
 }
 
 // String formats the key as "F# minor".

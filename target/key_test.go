@@ -130,6 +130,42 @@ func TestParseKeyIsCaseInsensitiveAndDefaultsToMajor(t *testing.T) {
 	}
 }
 
+// English names a key's accidental in words, "E flat major", "F-sharp
+// minor" (common practice): the same key as the sign. A small letter alone
+// still asks which mode it means.
+func TestAKeysAccidentalInWordsIsItsSign(t *testing.T) {
+	for in, want := range map[string]string{
+		"E flat major": "Eb major", "E-flat major": "Eb major", "F sharp minor": "F# minor", "B Flat": "Bb major",
+		"Bflat major": "Bb major", "c-SHARP minor": "C# minor",
+	} {
+		if k, err := ParseKey(in); err != nil || k.String() != want {
+			t.Errorf("ParseKey(%q) = %v, %v; want %s", in, k, err, want)
+		}
+	}
+	if _, err := ParseKey("e flat"); err == nil || !strings.Contains(err.Error(), `say "Eb major" or "Eb minor"`) {
+		t.Errorf(`ParseKey("e flat"): %v, want the small letter's hint`, err)
+	}
+	for _, in := range []string{"E flatly major", "E flat flat major", "flat major"} {
+		if k, err := ParseKey(in); err == nil {
+			t.Errorf("ParseKey(%q) = %v, want an error", in, k)
+		}
+	}
+}
+
+// A key named in German ("Es-Dur", "fis-moll"; German B is B♭ and H is B:
+// common practice) is refused with its English name, not guessed at.
+func TestAKeyInGermanIsNamedInEnglish(t *testing.T) {
+	for in, english := range map[string]string{
+		"Es-Dur": "Eb major", "es-dur": "Eb major", "fis-moll": "F# minor", "B-Dur": "Bb major", "h-moll": "B minor",
+		"As Dur": "Ab major", "cis-moll": "C# minor", "his-moll": "B# minor", "D-Dur": "D major", "g moll": "G minor",
+	} {
+		_, err := ParseKey(in)
+		if err == nil || !strings.Contains(err.Error(), `say "`+english+`"`) {
+			t.Errorf("ParseKey(%q): %v, want it to say %q", in, err, english)
+		}
+	}
+}
+
 func TestParseKeyRejectsBadKeys(t *testing.T) {
 	// "--key H" is the contract's own example of a usage error.
 	for _, in := range []string{"H", "", "C major minor", "C foo", "C## major", "G# major", "Fb major", "C4 major"} {

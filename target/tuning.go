@@ -3,6 +3,7 @@ package target
 import (
 	"fmt"
 	"math"
+	"regexp"
 	"strconv"
 	"strings"
 )
@@ -55,9 +56,20 @@ const (
 	MaxA4 = 480.0
 )
 
-// ParseA4 reads an --a4 value in hertz.
+// a4Name is the note before a reference written as the screens write it,
+// "A4 = 415 Hz".
+var a4Name = regexp.MustCompile(`^(?i)a4?\s*=\s*`)
+
+// ParseA4 reads an --a4 value in hertz; the unit may follow the number
+// ("415Hz", "415 Hz") and the note precede it ("A4 = 415 Hz"), as players
+// write a reference pitch.
 func ParseA4(s string) (float64, error) {
-	f, err := strconv.ParseFloat(strings.TrimSpace(s), 64)
+	num := strings.TrimSpace(s)
+	num = a4Name.ReplaceAllString(num, "") // "A4 = 415 Hz", as the screens write it
+	if n := len(num) - len("hz"); n > 0 && strings.EqualFold(num[n:], "hz") {
+		num = strings.TrimSpace(num[:n])
+	}
+	f, err := strconv.ParseFloat(num, 64)
 	if err != nil {
 		return 0, fmt.Errorf("--a4 %q is not a number of hertz", s)
 	}

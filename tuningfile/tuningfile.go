@@ -166,7 +166,7 @@ func Encode(v Values) []byte {
 		}
 		var val any = s
 		if f == "a4" {
-			if hz, err := strconv.ParseFloat(s, 64); err == nil {
+			if hz, err := target.ParseA4(s); err == nil { // "415 Hz" is saved as 415
 				val = hz
 			}
 		}

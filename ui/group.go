@@ -99,6 +99,8 @@ type groupModel struct {
 	// nextFresh: next was first heard out of silence, no chord sounding.
 	nextFresh bool
 	span      float64 // the latest frame's GroupFrame.Span
+	// Doubles: rows may be marked doubled (Options.Doubles).
+	Doubles bool
 	// silentAt is the time of the latest frame in which no row was voiced.
 	silentAt float64
 }

@@ -297,6 +297,24 @@ func TestADoubledVoiceIsMarkedOnItsRow(t *testing.T) {
 	}
 }
 
+// On one microphone's voices (Options.Doubles) the strips keep their width
+// whether or not a voice is doubled at the moment: the screen does not jump
+// as a voice's octave comes and goes (the same E major chord as above).
+func TestTheVoicesStripsKeepTheirWidthAsAVoiceIsDoubled(t *testing.T) {
+	widths := map[int]bool{}
+	for _, doubled := range []bool{false, true, false} {
+		g := newGroupModel(newModel(keyOf(t, "E major"), "test tones"), []string{"voice 1", "voice 2", "voice 3"}, 0)
+		g.Doubles = true
+		for at := 0.0; at < 1; at += 0.01 {
+			g.AddFrame(GroupFrame{Time: at, Hz: []float64{e3, b3, gSharp4}, Doubled: []bool{doubled, false, false}, Level: -20})
+		}
+		widths[columnsFor(g, 80).strip] = true
+	}
+	if len(widths) != 1 {
+		t.Errorf("strip widths %v, want one width with a voice doubled or not", widths)
+	}
+}
+
 // A chord with a seventh names the just its seventh is read against, since
 // which seventh is just is a choice (--seventh: 16/9 unless chosen, 7/4 the
 // harmonic seventh; common practice): G B D F in equal temperament (ISO 16,

@@ -53,7 +53,7 @@ func columnsFor(g *groupModel, bw int) groupColumns {
 	name = min(name, 8)
 	// number, name, note, cents, role, just cents and the gaps between
 	fixed := 2 + 1 + name + 1 + 5 + 1 + 8 + 1 + 2 + 7 + 1 + 8 + 1
-	if slices.ContainsFunc(g.rows, func(r groupRow) bool { return r.Doubled }) {
+	if g.Doubles || slices.ContainsFunc(g.rows, func(r groupRow) bool { return r.Doubled }) {
 		fixed += 2 + len(doubledMark) // the strips give way to the mark
 	}
 	s := min(21, max(5, (bw-fixed)/2))
@@ -210,7 +210,7 @@ func groupLayout(g *groupModel, w, h int) []screenLine {
 			rows = append(rows, groupRowLine(i, r, cols))
 		}
 		return []section{
-			{[]screenLine{tuningLine(g.model)}, 10, false},
+			{[]screenLine{tuningLine(g.model, bw)}, 10, false},
 			gap(2),
 			{[]screenLine{chordLine(g)}, 9, false},
 			{[]screenLine{driftLine(g)}, 8, false},

@@ -122,23 +122,28 @@ func nudgeA4(tu target.Tuning, delta float64) (target.Tuning, string) {
 }
 
 // tuningWords is the tuning in the status line's words.
-func tuningWords(tu target.Tuning) string {
-	s := fmt.Sprintf("%s · %s · A4 = %.1f Hz", tu.Key.Pretty(), tu.Temperament.Name(), tu.A4)
+func tuningWords(tu target.Tuning) string { return strings.Join(tuningParts(tu), " · ") }
+
+// tuningParts are tuningWords' parts, the ones a narrow screen can spare
+// last: key, temperament, reference, then what more there is.
+func tuningParts(tu target.Tuning) []string {
+	a4 := fmt.Sprintf("A4 = %.1f Hz", tu.A4)
 	if tu.Anchored() == target.AnchorTonic {
-		s += " (tonic anchored)"
+		a4 += " (tonic anchored)"
 	}
+	parts := []string{tu.Key.Pretty(), tu.Temperament.Name(), a4}
 	if tu.SharesPitches() {
-		s += " · F♯ = G♭" // enharmonic spellings share one pitch: said once, not on every note
+		parts = append(parts, "F♯ = G♭") // enharmonic spellings share one pitch: said once, not on every note
 	}
 	if tu.Chord != nil {
-		s += " · chord " + tu.Chord.String()
+		parts = append(parts, "chord "+tu.Chord.String())
 	}
 	if tu.Transpose.IsConcert() {
 		// "Concert pitch" beside "A4 = 415 Hz" reads as a claim about the
 		// reference; sounding against written pitch is what it means here.
-		return s + " · sounding pitch"
+		return append(parts, "sounding pitch")
 	}
-	return s + " · written for an instrument in " + prettyAccidentals(tu.Transpose.Name)
+	return append(parts, "written for an instrument in "+prettyAccidentals(tu.Transpose.Name))
 }
 
 // prettyAccidentals writes a user's note text ("Bb", "F#") with signs.

@@ -81,3 +81,18 @@ func TestEveryBindingIsInTheHelp(t *testing.T) {
 		}
 	}
 }
+
+// A tuning line too wide for the screen loses whole parts from its end,
+// never half a word ("soundi"): E♭ major in just intonation at A4 = 442 Hz,
+// the tonic anchored (the contract's just), in 80 columns.
+func TestATooWideTuningLineLosesWholeParts(t *testing.T) {
+	just, err := target.ParseTemperament("just")
+	if err != nil {
+		t.Fatal(err)
+	}
+	choir := keyOf(t, "Eb major")
+	choir.Temperament, choir.A4 = just, 442
+	if got, want := tuningLine(newModel(choir, "x"), 80).Text(), "E♭ major · 5-limit just from the tonic · A4 = 442.0 Hz (tonic anchored)"; got != want {
+		t.Errorf("in 80 columns: got %q, want %q", got, want)
+	}
+}

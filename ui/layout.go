@@ -41,7 +41,7 @@ func layout(m *model, w, h int) []screenLine {
 	return compose(w, h, m.ASCII, help, func(bw int) []section {
 		fifths := fifthsRows(m, bw)
 		return []section{
-			{[]screenLine{tuningLine(m)}, 10, false},
+			{[]screenLine{tuningLine(m, bw)}, 10, false},
 			gap(2),
 			{bigLines(m, bw, bigScale(h)), 5, false},
 			{[]screenLine{words(m)}, 9, false},

@@ -43,12 +43,19 @@ type Options struct {
 	SoundLevel float64
 	// Caution is the hearing caution shown while Sound plays.
 	Caution string
+	// Drone starts the meter with the drone of the tonic and fifth
+	// sounding on Sound, as if d had been pressed twice.
+	Drone bool
 	// ASCII writes ## and bb for accidentals and ASCII marks, for
 	// terminals whose locale is not UTF-8 (ASCIILocale) or on request.
 	ASCII bool
 	// Group, when set, makes the meter a group meter with one row per
 	// name (at most MaxRows), fed by OnGroupFrame.
 	Group []string
+	// Doubles: the group's rows may be marked doubled (voices on one
+	// microphone), so the strips leave room for the mark from the start
+	// rather than narrowing whenever a voice is doubled.
+	Doubles bool
 	// Seventh is the just ratio a chord's minor seventh is read against;
 	// 0 means target.DefaultSeventh.
 	Seventh float64
@@ -92,6 +99,7 @@ func New(opt Options) *Meter {
 	}
 	if opt.Group != nil {
 		m.group = newGroupModel(model, opt.Group[:min(len(opt.Group), MaxRows)], opt.Seventh)
+		m.group.Doubles = opt.Doubles
 		m.groupFr = make(chan GroupFrame, frameBuffer)
 		m.nudge = make(chan struct{}, 1)
 	}
@@ -191,6 +199,9 @@ func (m *Meter) Run(ctx context.Context) error {
 		if m.drawn != nil {
 			m.drawn(screen)
 		}
+	}
+	if m.opt.Drone {
+		m.model.StartDrone(m.opt.Sound) // before tview's goroutine reads the model
 	}
 	app.SetRoot(root, true)
 	app.SetInputCapture(func(ev *tcell.EventKey) *tcell.EventKey { return m.key(app, ev) })

@@ -109,6 +109,10 @@ func (m *model) sounding() bool {
 	return m.Drone != droneOff || m.Now < m.refUntil || len(m.Sounding) > 0
 }
 
+// StartDrone sounds the tonic and fifth on s, as the drone key's second
+// press does: the meter started with its drone on (listen --drone).
+func (m *model) StartDrone(s Sound) { m.setDrone(s, droneTonicFifth, true) }
+
 // CycleDrone moves the drone to its next state on s and says what it did.
 func (m *model) CycleDrone(s Sound) { m.setDrone(s, m.Drone.Next(), true) }
 

@@ -105,6 +105,34 @@ func TestSoundKeysDriveTheDroneAndTheReference(t *testing.T) {
 	}
 }
 
+// A meter started with its drone on (listen --drone) sounds the tonic and
+// fifth at once, at its level, with the caution on the screen, as two
+// presses of d would (the pitches as above, from ¼-comma's definition);
+// the next d turns it off.
+func TestTheMeterCanStartWithTheDrone(t *testing.T) {
+	s := openSound(t)
+	c3 := 415 / math.Pow(fifthQC, 3)
+	m := holding(quarterComma(t), fSharp4)
+	m.HasSound, m.SoundLevel, m.Caution = true, -18, "caution: keep the volume low"
+	m.StartDrone(s)
+	m.Sounding = s.Partials()
+	if got := soundLine(m).Text(); got != "drone: C3+G3 at −18 dBFS" {
+		t.Errorf("sound line %q", got)
+	}
+	for _, f := range []float64{c3, c3 * fifthQC} {
+		if !slices.ContainsFunc(m.Sounding, func(p float64) bool { return math.Abs(p-f) < 1e-9 }) {
+			t.Errorf("%.4f Hz not among the player's partials %.4f", f, m.Sounding)
+		}
+	}
+	if len(cautionLines(m, 80)) == 0 {
+		t.Error("no caution on the screen while the drone sounds")
+	}
+	m.CycleDrone(s)
+	if got := soundLine(m).Text(); got != "drone: off" {
+		t.Errorf("after d: sound line %q, want the drone off", got)
+	}
+}
+
 func TestSoundKeysSayWhyNothingPlays(t *testing.T) {
 	none := missingOutput(t)
 	m := newModel(quarterComma(t), "x")

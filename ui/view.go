@@ -85,7 +85,16 @@ func minus(s string) string {
 
 // tuningLine is the status line's first part: key, temperament, A4 and
 // transposition.
-func tuningLine(m *model) screenLine { return plain(tuningWords(m.Tuning)) }
+func tuningLine(m *model, w int) screenLine {
+	// Whole parts go from the end where the line is too wide, the key,
+	// temperament and reference last: a word cut in half ("soundi") reads
+	// as a fault.
+	parts := tuningParts(m.Tuning)
+	for len(parts) > 3 && runewidth.StringWidth(strings.Join(parts, " · ")) > w {
+		parts = parts[:len(parts)-1]
+	}
+	return plain(strings.Join(parts, " · "))
+}
 
 // bigLines are the held note and its cents in large glyphs, centred in w
 // columns: "F♯4 +41¢", in whole cents (the tenths are on the words line),

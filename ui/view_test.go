@@ -307,7 +307,7 @@ func TestTuningLineSaysKeyTemperamentA4AndTransposition(t *testing.T) {
 		{target.Default(), "C major · equal temperament · A4 = 440.0 Hz · F♯ = G♭ · sounding pitch"},
 		{transposed, "C major · 1/4-comma meantone · A4 = 415.0 Hz · written for an instrument in B♭"},
 	} {
-		if got := tuningLine(newModel(c.tu, "x")).Text(); got != c.want {
+		if got := tuningLine(newModel(c.tu, "x"), 96).Text(); got != c.want {
 			t.Errorf("got  %q\nwant %q", got, c.want)
 		}
 	}

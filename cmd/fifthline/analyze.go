@@ -22,6 +22,7 @@ type analyzeOptions struct {
 	recorded     recordedFlag
 	sayTuning    func() // once: before a warning, or at the end (an error stays the only line)
 	seventh      string // --seventh as given ("16/9" by default), for the chord table's title
+	whence       string // where the tuning came from, for a table's title (musicalFlags.whence)
 	keyGiven     bool   // --key or a tuning file set the key: the fit keeps it (tuningWarning)
 }
 
@@ -58,7 +59,7 @@ func runAnalyze(e *env, args []string) error {
 		return err
 	}
 	opt.format, opt.channelAsked, opt.seventh = *format, wasSet(fs, "channel"), strings.TrimSpace(mf.seventh)
-	opt.keyGiven = mf.origin["key"] != fromDefault
+	opt.keyGiven, opt.whence = mf.origin["key"] != fromDefault, mf.whence()
 	opt.sayTuning = sync.OnceFunc(func() { mf.say(e.stderr, tu) })
 	if po, ok, err := playersOptions(fs, *players); err != nil {
 		return err
@@ -72,9 +73,9 @@ func runAnalyze(e *env, args []string) error {
 	}
 	var out eventWriter
 	if opt.frames {
-		out = newFrameWriter(e.stdout, opt.format, len(files) > 1, tableTitle(tu, mf.whence()))
+		out = newFrameWriter(e.stdout, opt.format, len(files) > 1, tableTitle(tu.String(), opt.whence))
 	} else {
-		out = newNoteWriter(e.stdout, opt.format, len(files) > 1, mf.whence())
+		out = newNoteWriter(e.stdout, opt.format, len(files) > 1, opt.whence)
 	}
 	j, err := jf.open(e)
 	if err != nil {
@@ -122,17 +123,21 @@ func analyzeGroup(e *env, flag string, files []string, tu target.Tuning, opt ana
 	}
 	out := newRowWriter(e.stdout, opt.format, head)
 	if opt.format == "table" {
-		out.title = tu.String()
+		title := tu.String()
 		if slices.Contains(head, "just_cents") {
 			// The seventh's from-just cents mean nothing without its just.
-			out.title += " · sevenths against " + opt.seventh
+			title += " · sevenths against " + opt.seventh
 		}
+		out.title = tableTitle(title, opt.whence) // as the one-voice table's
 	}
 	var drifts []string // the table's line per take
 	for i, path := range files {
 		drift, none, err := take(path, out, j)
 		drifts = append(drifts, path+": "+drift)
-		if err != nil && i == 0 && none {
+		// A first take that would not open writes nothing; one interrupted,
+		// even before a note (a group's take is read twice, its first
+		// minute learnt first), still gives the CSV header.
+		if err != nil && i == 0 && none && !errors.Is(err, errInterrupted) {
 			return errors.Join(err, j.close())
 		}
 		if err != nil {
@@ -173,11 +178,18 @@ func analyzeFile(e *env, path string, tu target.Tuning, opt analyzeOptions, out 
 	if w.Truncated() {
 		fmt.Fprintf(e.stderr, "fifthline: warning: %s is shorter than its header says; read what was there\n", path)
 	}
+	opt.warnTuning(e, path, tu, heard)
+	return nil
+}
+
+// warnTuning says on stderr, after the tuning line, when a take's notes do
+// not fit the tuning (tuningWarning): one player's take and a group's alike,
+// since a forgotten --a4 415 reads a whole consort a semitone off.
+func (opt analyzeOptions) warnTuning(e *env, path string, tu target.Tuning, heard []session.Event) {
 	if msg := tuningWarning(path, tu, heard, opt.keyGiven); msg != "" {
 		opt.sayTuning()
 		fmt.Fprintf(e.stderr, "fifthline: %s\n", msg)
 	}
-	return nil
 }
 
 // countingSource reports how far through a file the reading is.

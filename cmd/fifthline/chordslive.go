@@ -9,6 +9,7 @@ import (
 
 	"fifthline/ensemble"
 	"fifthline/harmony"
+	"fifthline/journal"
 	"fifthline/pitchdetect"
 	"fifthline/session"
 	"fifthline/target"
@@ -332,7 +333,7 @@ func (v *voiceChords) ready(at, earliest float64, open []openVoice) error {
 
 // journalVoiceChord writes a voices' chord's memberships to the journal.
 func journalVoiceChord(j *journalSink, source string, tu target.Tuning, c harmony.Chord, voices []int) {
-	j.chord(source, tu, c.Start, c.End, c.HeardChord, func(i int) (string, string) { return "", strconv.Itoa(voices[i]) }, time.Time{})
+	j.chord(source, tu, c.Start, c.End, c.HeardChord, func(i int) (string, journal.Extra) { return "", journal.Extra{Voice: strconv.Itoa(voices[i])} }, time.Time{})
 }
 
 // voiceChordRows are a voices' chord's rows, one per member, lowest first.

@@ -184,11 +184,11 @@ func (m *musicalFlags) whence() string {
 	return strings.Join(parts, "; ")
 }
 
-// tableTitle is a table's first line: the tuning, and where it came from
-// when no flag set it.
-func tableTitle(tu target.Tuning, whence string) string {
+// tableTitle is a table's first line: the tuning (with what more the table
+// is read against), and where it came from when no flag set it.
+func tableTitle(tuning, whence string) string {
 	if whence == "" {
-		return tu.String()
+		return tuning
 	}
-	return fmt.Sprintf("%s   (%s)", tu, whence)
+	return fmt.Sprintf("%s   (%s)", tuning, whence)
 }

@@ -26,6 +26,7 @@ func runDemo(e *env, args []string) error {
 	mf.defaultsFrom = "the demo's score"
 	jf := addJournalFlags(fs)
 	sf := addSoundFlags(fs)
+	sf.addDroneFlag(fs)
 	oldName(fs, "drone-level", "level")
 	ascii := addScreenFlags(fs)
 	group := fs.Bool("group", false, "the group meter, fed by a consort of four players on four channels")
@@ -41,6 +42,9 @@ func runDemo(e *env, args []string) error {
 	}
 	tu, err := mf.tuning()
 	if err != nil {
+		return err
+	}
+	if err := sf.droneOnMeter(e.stderr, map[bool]string{true: "--group"}[*group]); err != nil {
 		return err
 	}
 	score, err := demoTuning()

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"strings"
 	"time"
+	"unicode"
 
 	"fifthline/drone"
 	"fifthline/playback"
@@ -14,7 +15,7 @@ import (
 func runDrone(e *env, args []string) error {
 	fs := newFlags("drone")
 	mf := addMusicalFlags(fs)
-	notes := fs.String("notes", "", "spelled notes to sound, comma-separated, e.g. G3,D4 (default: the key's tonic in octave 3 and the fifth above)")
+	notes := fs.String("notes", "", "spelled notes to sound, comma-separated (or space-separated), e.g. G3,D4 (default: the key's tonic in octave 3 and the fifth above)")
 	duration := fs.Duration("duration", 0, "stop after this long, e.g. 30s (default: until Ctrl-C)")
 	sf := addSoundFlags(fs)
 	oldName(fs, "device", "output")
@@ -92,10 +93,8 @@ func droneTargets(tu target.Tuning, list *string) (hz []float64, names string, e
 		list = &both
 	}
 	var spelled []string
-	for _, s := range strings.Split(*list, ",") {
-		if s = strings.TrimSpace(s); s == "" {
-			continue
-		}
+	// Commas or spaces: "G3 D4" is as plain a list to a player as "G3,D4".
+	for _, s := range strings.FieldsFunc(*list, func(r rune) bool { return r == ',' || unicode.IsSpace(r) }) {
 		n, err := target.ParseNote(s)
 		if err != nil {
 			return nil, "", usagef("--notes: %v", err)

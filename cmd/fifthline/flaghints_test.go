@@ -1,6 +1,7 @@
 package main
 
 import (
+	"math"
 	"strings"
 	"testing"
 )
@@ -42,4 +43,34 @@ func TestAMistypedCommandNamesTheOneMeant(t *testing.T) {
 			t.Errorf("%s: %q, want it to say %q", c.name, stderr, c.says)
 		}
 	}
+}
+
+// --level takes a level as a mixer writes it, the unit after the number and
+// the minus sign typeset or not; what is no number is refused.
+func TestALevelMayCarryItsUnit(t *testing.T) {
+	for in, want := range map[string]float64{"-20": -20, "-20dB": -20, "-20 dBFS": -20, "−12 dbfs": -12, " -18.5DB ": -18.5} {
+		var d dbfs
+		if err := d.Set(in); err != nil || float64(d) != want {
+			t.Errorf("--level %q: %v, %v; want %g", in, float64(d), err, want)
+		}
+	}
+	for _, in := range []string{"loud", "dB", "", "NaN", "-20 dB FS"} {
+		var d dbfs
+		if err := d.Set(in); err == nil {
+			t.Errorf("--level %q accepted as %g", in, float64(d))
+		}
+	}
+}
+
+// A level that parses is a number, whatever was typed around it.
+func FuzzLevelFlag(f *testing.F) {
+	for _, s := range []string{"-18", "-20dB", "−6 dBFS", "dB", "1e309"} {
+		f.Add(s)
+	}
+	f.Fuzz(func(t *testing.T, s string) {
+		var d dbfs
+		if err := d.Set(s); err == nil && math.IsNaN(float64(d)) {
+			t.Fatalf("%q → NaN", s)
+		}
+	})
 }

@@ -32,13 +32,13 @@ func playersMeter(ctx context.Context, src source.Multi, tunings *session.Tuning
 	for i, p := range po.players {
 		names[i] = p.Name
 	}
-	m := groupMeter(names, tunings, po.seventh, j, ms)
+	m := groupMeter(names, tunings, po.seventh, false, j, ms)
 	defer j.close() // complete before the device is stopped
 	frame := groupFrame{tunings: tunings, seventh: po.seventh}
 	var journalChord func(ensemble.Chord, target.Tuning) error
 	if po.chords {
 		journalChord = func(c ensemble.Chord, tu target.Tuning) error {
-			logChords(j, ms.name, tu, []ensemble.Chord{c}, time.Time{})
+			po.logChords(j, ms.name, tu, []ensemble.Chord{c}, time.Time{})
 			return nil
 		}
 	}
@@ -79,7 +79,7 @@ func voicesMeter(ctx context.Context, in timedInput, tunings *session.Tunings, v
 	}
 	defer timing.close()
 	src := timing.withClockOne(in, "voices")
-	m := groupMeter(names, tunings, vo.seventh, j, ms)
+	m := groupMeter(names, tunings, vo.seventh, true, j, ms) // one microphone: doubled voices
 	defer j.close()
 	frame := groupFrame{tunings: tunings, seventh: vo.seventh}
 	var sounding []float64
@@ -137,9 +137,9 @@ func shownVoices(vs []multipitch.Voice, partials []bool) []multipitch.Voice {
 }
 
 // groupMeter makes the meter with a row per name.
-func groupMeter(names []string, tunings *session.Tunings, seventh float64, j *journalSink, ms meterSource) *ui.Meter {
+func groupMeter(names []string, tunings *session.Tunings, seventh float64, doubles bool, j *journalSink, ms meterSource) *ui.Meter {
 	opt := screenOptions(tunings, j, ms)
-	opt.Group, opt.Seventh = names, seventh
+	opt.Group, opt.Seventh, opt.Doubles = names, seventh, doubles
 	return ui.New(opt)
 }
 

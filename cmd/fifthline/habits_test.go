@@ -5,6 +5,8 @@ import (
 	"regexp"
 	"strings"
 	"testing"
+
+	"fifthline/target"
 )
 
 // help COMMAND is COMMAND -h: a usage line that shows the arguments, then
@@ -190,15 +192,7 @@ func TestDroneCautionSaysLevelCapAndFade(t *testing.T) {
 // and D4 = 440/5^(1/4) (every fifth 5^(1/4), by definition), the pair
 // TestDroneSoundsTheTargetsAtTheLevel hears.
 func TestDroneWithoutNotesSoundsTonicAndFifth(t *testing.T) {
-	fs := newFlags("drone")
-	mf := addMusicalFlags(fs)
-	if err := fs.Parse([]string{"--key", "G major", "--temperament", "meantone:1/4"}); err != nil {
-		t.Fatal(err)
-	}
-	tu, err := mf.tuning()
-	if err != nil {
-		t.Fatal(err)
-	}
+	tu := gMajorQuarterComma(t)
 	hz, names, err := droneTargets(tu, nil)
 	if err != nil || names != "G3 D4" || len(hz) != 2 {
 		t.Fatalf("%v %q %v", hz, names, err)
@@ -208,4 +202,38 @@ func TestDroneWithoutNotesSoundsTonicAndFifth(t *testing.T) {
 			t.Errorf("%s: %.6f Hz, want %.6f", strings.Fields(names)[i], hz[i], want)
 		}
 	}
+}
+
+// --notes takes the notes a player lists with spaces as with commas: "G3
+// D4" in ¼-comma meantone at A4 = 440 Hz is the same G3 and D4 (the
+// pair above, by the temperament's definition).
+func TestDroneNotesBySpacesOrCommas(t *testing.T) {
+	tu := gMajorQuarterComma(t)
+	for _, list := range []string{"G3 D4", "G3, D4", " G3,D4 "} {
+		hz, names, err := droneTargets(tu, &list)
+		if err != nil || names != "G3 D4" || len(hz) != 2 || math.Abs(hz[1]-440/math.Pow(5, 0.25)) > 1e-9 {
+			t.Errorf("--notes %q: %v %q %v", list, hz, names, err)
+		}
+	}
+	for _, list := range []string{"", " , ", "G3 H4"} {
+		if _, _, err := droneTargets(tu, &list); err == nil {
+			t.Errorf("--notes %q accepted", list)
+		}
+	}
+}
+
+// gMajorQuarterComma is the drone's tuning as its flags give it: G major,
+// ¼-comma meantone, A4 = 440 Hz.
+func gMajorQuarterComma(t *testing.T) target.Tuning {
+	t.Helper()
+	fs := newFlags("drone")
+	mf := addMusicalFlags(fs)
+	if err := fs.Parse([]string{"--key", "G major", "--temperament", "meantone:1/4"}); err != nil {
+		t.Fatal(err)
+	}
+	tu, err := mf.tuning()
+	if err != nil {
+		t.Fatal(err)
+	}
+	return tu
 }

@@ -89,11 +89,11 @@ func (j *journalSink) heardRow(ev session.Event, x journal.Extra, heard time.Tim
 
 // chord logs a heard chord's memberships, one row per member, as the chord
 // ends (start as for noteAt). who names member i's player and voice.
-func (j *journalSink) chord(source string, tu target.Tuning, from, to float64, c target.HeardChord, who func(i int) (player, voice string), start time.Time) {
+func (j *journalSink) chord(source string, tu target.Tuning, from, to float64, c target.HeardChord, who func(i int) (player string, at journal.Extra), start time.Time) {
 	for i, m := range c.Members {
-		player, voice := who(i)
+		player, at := who(i)
 		ev, x := journal.Membership(source, player, tu, from, to, c, m)
-		x.Voice = voice
+		x.Voice, x.Channel = at.Voice, at.Channel
 		j.row(ev, x, start)
 	}
 }

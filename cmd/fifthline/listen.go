@@ -34,6 +34,7 @@ func runListen(e *env, args []string) error {
 	plain := fs.Bool("plain", false, "no screen: a CSV header, then one line per held note as it ends")
 	duration := fs.Duration("duration", 0, "stop cleanly after this long (e.g. 12s, 2m); 0 listens until interrupted")
 	sf := addSoundFlags(fs)
+	sf.addDroneFlag(fs)
 	oldName(fs, "drone-level", "level")
 	ascii := addScreenFlags(fs)
 	pos, err := parseFlags(e, fs, args)
@@ -66,6 +67,9 @@ func runListen(e *env, args []string) error {
 	}
 	po, group, err := playersOptions(fs, *players)
 	if err != nil {
+		return err
+	}
+	if err := sf.droneOnMeter(e.stderr, withoutDrone(*plain, group, voices)); err != nil {
 		return err
 	}
 	if top := *channel; *inputs > 0 {
@@ -130,6 +134,20 @@ func runListen(e *env, args []string) error {
 		sayHeard(e.stderr, heard, j)
 	}
 	return err
+}
+
+// withoutDrone names the listen flag that shows no one-player meter, for
+// --drone's usage error; "" where the meter sounds.
+func withoutDrone(plain, players, voices bool) string {
+	switch {
+	case players:
+		return "--players"
+	case voices:
+		return "--voices"
+	case plain:
+		return "--plain"
+	}
+	return ""
 }
 
 // sayHeard tells, as listening ends, where the notes went and whether any
@@ -198,6 +216,7 @@ func addScreenFlags(fs *flag.FlagSet) *bool {
 func runMeter(ctx context.Context, src source.Source, opts session.Options, j *journalSink, ms meterSource) error {
 	uo := screenOptions(opts.Tunings, j, ms)
 	uo.Sound, uo.SoundLevel, uo.Caution = ms.sound, ms.sound.opt.Level, "caution: "+hearingAdvice
+	uo.Drone = ms.sound.startDrone
 	m := ui.New(uo)
 	defer ms.sound.Close() // fades out; the meter has stopped asking
 	// Runs before the sound's close: the journal is complete (closing it

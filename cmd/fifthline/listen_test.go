@@ -296,6 +296,13 @@ func TestListenUsageErrors(t *testing.T) {
 		{"demo", "--temperament", "edo:0"},
 		{"demo", "extra"},
 		{"devices", "extra"},
+		// --drone sounds with the one-player meter only (docs/interface.md,
+		// "Additions": the group meter plays nothing, --plain has no keys).
+		{"listen", "--drone", "--plain"},
+		{"listen", "--drone", "--players", "vc,vla"},
+		{"listen", "--drone", "--voices", "auto"},
+		{"demo", "--drone", "--group"},
+		{"listen", "--drone", "--level", "-3"},
 	} {
 		code, _, stderr := runCLI(t, args...)
 		checkError(t, code, 2, stderr)

@@ -94,6 +94,20 @@ func fadedTone(t *testing.T, hz, gain float64) string {
 	return wav
 }
 
+// demo --drone (as listen --drone) starts the meter with the tonic and
+// fifth sounding, at the default −18 dBFS with the caution on the screen,
+// as two presses of d would (docs/interface.md, "Additions"): the demo's
+// G minor gives G3 and D4. Its output is a null sink of the test's own.
+func TestDemoDroneStartsWithTheDroneSounding(t *testing.T) {
+	t.Parallel()
+	sink, _, _ := privateMic(t)
+	m := startTmux(t, 80, 24, []string{"PULSE_SINK=" + sink}, "demo", "--drone")
+	m.waitFor(`drone: G3\+D4 at −18 dBFS`, `caution: keep your headphone`)
+	m.tmux("send-keys", "-t", "meter", "d")
+	m.waitFor(`drone: off`)
+	m.quitCleanly()
+}
+
 // Without an output device the meter still runs and says so; too loud a
 // drone is refused before anything starts.
 func TestMeterSoundWithoutAnOutputAndAboveTheLimit(t *testing.T) {

@@ -1,8 +1,13 @@
 package main
 
 import (
+	"errors"
 	"flag"
 	"fmt"
+	"io"
+	"math"
+	"strconv"
+	"strings"
 	"sync"
 	"sync/atomic"
 	"time"
@@ -30,16 +35,62 @@ func checkLevelFlag(flag string, dbfs float64) error {
 type soundFlags struct {
 	level  float64
 	output string
+	drone  bool // --drone: the meter starts with its drone on
 }
 
 func addSoundFlags(fs *flag.FlagSet) *soundFlags {
 	f := &soundFlags{}
-	fs.Float64Var(&f.level, "level", playback.DefaultLevel, fmt.Sprintf("peak of everything fifthline sounds together (drone, reference tone), in dBFS, at most %g", playback.MaxLevel))
+	f.level = playback.DefaultLevel
+	fs.Var((*dbfs)(&f.level), "level", fmt.Sprintf("peak of everything fifthline sounds together (drone, reference tone), in dBFS, at most %g", playback.MaxLevel))
 	fs.StringVar(&f.output, "output", "", "output device for the sound: index or part of the name as 'fifthline devices' lists it (default: the system's default output)")
 	return f
 }
 
+// dbfs is a level flag in dBFS. The unit may follow the number ("-20dB",
+// "-20 dBFS"), as a level is written on a mixer, and the minus sign may be
+// the typeset one (−20).
+type dbfs float64
+
+func (d *dbfs) String() string { return strconv.FormatFloat(float64(*d), 'g', -1, 64) }
+func (d *dbfs) Get() any       { return float64(*d) }
+
+func (d *dbfs) Set(s string) error {
+	s = strings.ReplaceAll(strings.TrimSpace(s), "−", "-")
+	for _, unit := range []string{"dbfs", "db"} {
+		if n := len(s) - len(unit); n > 0 && strings.EqualFold(s[n:], unit) {
+			s = strings.TrimSpace(s[:n])
+			break
+		}
+	}
+	x, err := strconv.ParseFloat(s, 64)
+	if err != nil || math.IsNaN(x) {
+		return errors.New("parse error") // withHint says what the flag takes
+	}
+	*d = dbfs(x)
+	return nil
+}
+
 func (f *soundFlags) check() error { return checkLevelFlag("--level", f.level) }
+
+// addDroneFlag adds the meter's --drone (listen, demo; the drone command
+// sounds anyway).
+func (f *soundFlags) addDroneFlag(fs *flag.FlagSet) {
+	fs.BoolVar(&f.drone, "drone", false, "start the meter with the drone on the tonic and fifth (d cycles it), fading in at --level")
+}
+
+// droneOnMeter checks --drone against what the command shows: only the
+// one-player meter sounds (the group meter plays nothing, --plain has no
+// keys to stop it with). It gives the hearing caution before any sound.
+func (f *soundFlags) droneOnMeter(w io.Writer, without string) error {
+	switch {
+	case !f.drone:
+		return nil
+	case without != "":
+		return usagef("--drone sounds with the meter of one player, not with %s ('fifthline drone' plays beside anything)", without)
+	}
+	fmt.Fprintln(w, droneCaution(f.level))
+	return nil
+}
 
 // meterSound is the meter's drone and reference tones on an output device
 // opened at the first key press that asks for sound, so a machine without
@@ -52,12 +103,13 @@ type meterSound struct {
 	// The last reference tone's time, wall clock in Unix nanoseconds, with
 	// referenceSettle after it.
 	refFrom, refTo atomic.Int64
+	startDrone     bool // the meter starts with the drone on (--drone)
 }
 
 func newMeterSound(f *soundFlags) *meterSound {
 	// The drone and the reference share the level, so that both together
 	// reach it and the limiter never has to act.
-	return &meterSound{opt: playback.Options{Device: f.output, Level: f.level, Timbre: drone.Reed, ShareWithReference: true}}
+	return &meterSound{opt: playback.Options{Device: f.output, Level: f.level, Timbre: drone.Reed, ShareWithReference: true}, startDrone: f.drone}
 }
 
 // get opens the player if it is not open yet. A failure is returned and

@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"regexp"
 	"strings"
 
 	"fifthline/target"
@@ -107,11 +108,17 @@ func parseTemperament(spec string) (target.Temperament, error) {
 		return target.ParseCustom(spec, data)
 	case statErr == nil && info.IsDir():
 		return nil, fmt.Errorf("temperament file %q is a folder", spec)
+	case errors.Is(err, target.ErrUnknownTemperament) && commaFraction.MatchString(spec):
+		// "1/4" alone is the comma's fraction of a meantone, not a path.
+		return nil, fmt.Errorf("unknown temperament %q (a meantone by that part of the comma is meantone:%s)", spec, strings.TrimSpace(spec))
 	case errors.Is(err, target.ErrUnknownTemperament) && looksLikePath(spec):
 		return nil, fmt.Errorf("temperament file %q: no such file", spec)
 	}
 	return nil, err
 }
+
+// commaFraction is a part of the comma written alone, "1/4", "2/7".
+var commaFraction = regexp.MustCompile(`^\s*[0-9]+/[0-9]+\s*$`)
 
 // looksLikePath tells a file meant as a temperament from a mistyped name.
 func looksLikePath(s string) bool {

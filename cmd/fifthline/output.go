@@ -217,7 +217,7 @@ type tableNotes struct {
 
 func (t *tableNotes) Note(ev session.Event) error {
 	if t.notes == nil {
-		fmt.Fprintln(t.out, tableTitle(ev.Tuning, t.whence))
+		fmt.Fprintln(t.out, tableTitle(ev.Tuning.String(), t.whence))
 		head := "start\tend\tnote\tHz\tcents\tother spelling\t"
 		if t.withFile {
 			head = "file\t" + head
@@ -285,8 +285,9 @@ var tableWords = map[string]string{
 
 // tableCells are a record's values as the table writes them: a reading's
 // cents as the one-voice table writes them ("+7.9 ¢"), cents under a head
-// that names the unit signed to a tenth ("+13.7"), and every other value
-// as the CSV has it (seconds, hertz, names).
+// that names the unit signed to a tenth ("+13.7"), seconds and hertz to a
+// hundredth as that table has them, and every other value as the CSV has
+// it (names, counts).
 func tableCells(head, rec []string) []string {
 	out := slices.Clone(rec)
 	for i, h := range head {
@@ -299,9 +300,44 @@ func tableCells(head, rec []string) []string {
 			out[i] = target.Signed(x, 1)
 		case h == "spread_cents" || h == "vibrato_cents":
 			out[i] = target.Decimal(x, 1)
+		case h == "start_s" || h == "end_s" || h == "hz" || h == "target_hz":
+			out[i] = target.Decimal(x, 2)
 		}
 	}
 	return out
+}
+
+// otherColumns are the CSV's columns on the other spelling, which the
+// table says in words in one column, as the one-voice table does.
+var otherColumns = []string{"alt_note", "alt_cents", "on_other_spelling", "same_pitch"}
+
+// otherInWords folds a note record's other-spelling columns into the
+// alt_note column as Reading.OtherWords says them ("sits on Gb4 (−2.9 ¢)",
+// "Gb4 would be +38.1 ¢", nothing where both spellings are one pitch); a
+// record without them (a chord row) is left as it is.
+func otherInWords(head, rec []string) ([]string, []string) {
+	at := make([]int, len(otherColumns))
+	for i, c := range otherColumns {
+		if at[i] = slices.Index(head, c); at[i] < 0 {
+			return head, rec
+		}
+	}
+	cents := slices.Index(head, "cents")
+	r := target.Reading{SamePitch: rec[at[3]] == "true", OnOther: rec[at[2]] == "true"}
+	r.Deviation, _ = strconv.ParseFloat(rec[cents], 64)
+	r.AltDeviation, _ = strconv.ParseFloat(rec[at[1]], 64)
+	alt, err := target.ParseNote(rec[at[0]])
+	r.HasAlt, r.AltWritten = err == nil, alt
+	var h, out []string
+	for i := range head {
+		switch {
+		case i == at[0]:
+			h, out = append(h, head[i]), append(out, r.OtherWords())
+		case !slices.Contains(at, i):
+			h, out = append(h, head[i]), append(out, rec[i])
+		}
+	}
+	return h, out
 }
 
 // tableHead is a header's columns in the table's words.

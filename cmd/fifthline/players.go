@@ -58,6 +58,11 @@ func playersOptions(fs *flag.FlagSet, value string) (opt playerOptions, ok bool,
 	if opt.group, err = groupReference(fs, wasSet(fs, "players")); err != nil || !wasSet(fs, "players") {
 		return opt, false, err
 	}
+	// "vc vla vl2 vl1" or "vc;vla" is a list with the wrong separator, not
+	// one player of that name: names are parted by commas.
+	if words := strings.FieldsFunc(value, func(r rune) bool { return r == ';' || r == ' ' }); !strings.ContainsAny(value, ",=") && len(words) > 1 {
+		return opt, false, usagef("--players %q: part the names with commas, one per channel: --players %s", value, strings.Join(words, ","))
+	}
 	if opt.players, err = ensemble.ParsePlayers(value); err != nil {
 		return opt, false, usagef("%v", err)
 	}
@@ -109,10 +114,13 @@ func chordRecords(c ensemble.Chord, path string) []chordJSON {
 	return out
 }
 
-// logChords writes the chords' memberships to the journal.
-func logChords(j *journalSink, source string, tu target.Tuning, chords []ensemble.Chord, start time.Time) {
+// logChords writes the chords' memberships to the journal, each under its
+// player's name and channel, as the player's note rows are.
+func (po *playerOptions) logChords(j *journalSink, source string, tu target.Tuning, chords []ensemble.Chord, start time.Time) {
 	for _, c := range chords {
-		j.chord(source, tu, c.Start, c.End, c.HeardChord, func(i int) (string, string) { return c.Players[i].Name, "" }, start)
+		j.chord(source, tu, c.Start, c.End, c.HeardChord, func(i int) (string, journal.Extra) {
+			return c.Players[i].Name, journal.Extra{Channel: po.channel(c.Players[i])}
+		}, start)
 	}
 }
 
@@ -129,6 +137,13 @@ func analyzePlayers(e *env, po playerOptions, files []string, tu target.Tuning, 
 	head := groupHead(withFile, po.chords, playerColumns, playersChordHeader)
 	return analyzeGroup(e, "--players", files, tu, opt, jf, head, func(path string, out *rowWriter, j *journalSink) (string, bool, error) {
 		notes, chords, err := readPlayers(e, path, tu, po, opt, j)
+		if err == nil {
+			evs := make([]session.Event, len(notes))
+			for k, n := range notes {
+				evs[k] = n.Event
+			}
+			opt.warnTuning(e, path, tu, evs)
+		}
 		td := takeDrift(notes, tu, po.seventh)
 		if po.chords {
 			for _, c := range chords {
@@ -208,10 +223,10 @@ func readPlayers(e *env, path string, tu target.Tuning, po playerOptions, opt an
 	if !po.chords {
 		chords = nil
 	}
-	logChords(j, path, tu, chords, start)
+	po.logChords(j, path, tu, chords, start)
 	switch {
 	case errors.Is(runErr, context.Canceled):
-		return notes, chords, fmt.Errorf("%s: interrupted; the notes before it are written", path)
+		return notes, chords, fmt.Errorf("%s: %w", path, errInterrupted)
 	case runErr != nil:
 		return notes, chords, fmt.Errorf("%s: %w", path, runErr)
 	}
@@ -300,7 +315,7 @@ func listenPlayers(ctx context.Context, e *env, src *capture.Input, name string,
 	var chordRows func(ensemble.Chord, target.Tuning) error
 	if po.chords {
 		chordRows = func(c ensemble.Chord, tu target.Tuning) error {
-			logChords(j, name, tu, []ensemble.Chord{c}, time.Time{})
+			po.logChords(j, name, tu, []ensemble.Chord{c}, time.Time{})
 			for _, row := range chordRecords(c, "") {
 				w.Write(row.record(false))
 			}

@@ -192,6 +192,9 @@ func TestAnalyzePlayersUsageErrors(t *testing.T) {
 		{[]string{"--players", "vc,vla", mono}, "one channel"},
 		{[]string{"--players", "vc,vla", "--voices", "2", quartet}, "cannot go together"},
 		{[]string{"--players", "vc,vla", "--frames", quartet}, "cannot go together"},
+		// Names parted by spaces or semicolons are a list, not one name.
+		{[]string{"--players", "vc vla vl2 vl1", quartet}, "--players vc,vla,vl2,vl1"},
+		{[]string{"--players", "vc;vla", quartet}, "--players vc,vla"},
 	} {
 		code, out, stderr := runCLI(t, append([]string{"analyze"}, c.args...)...)
 		checkError(t, code, 2, stderr)

@@ -20,7 +20,7 @@ func runReport(e *env, args []string) error {
 	tolerance := fs.Float64("tolerance", inTuneCents, "cents either side of the target that count as in tune")
 	by := fs.String("by", "", "rehearsal: a row per note per rehearsal (recording date), to see progress")
 	var f report.Filter
-	fs.StringVar(&f.Player, "player", "", "only this player's notes")
+	fs.StringVar(&f.Player, "player", "", "only this player's notes (or this voice's, as the report heads it: \"voice 2\")")
 	fs.StringVar(&f.Key, "key", "", "only notes played in this key, e.g. \"G major\"")
 	since := fs.String("since", "", "only notes from this date (2026-03-14) or RFC 3339 time on")
 	paths, err := parseFlags(e, fs, args)
@@ -97,8 +97,8 @@ func whoIsThere(es []journal.Entry, f report.Filter) string {
 	}
 	var names []string
 	for _, e := range es {
-		if e.Player != "" && !slices.Contains(names, e.Player) {
-			names = append(names, e.Player)
+		if who := report.Who(e.Player, e.Voice); who != "" && !slices.Contains(names, who) {
+			names = append(names, who)
 		}
 	}
 	if len(names) == 0 {

@@ -76,6 +76,9 @@ func TestKeyAndTemperamentWords(t *testing.T) {
 		{[]string{"--temperament", "wobbly"}, "try equal, meantone:1/4"},
 		{[]string{"--temperament", "organ/chapel.tmp"}, `temperament file "organ/chapel.tmp": no such file`},
 		{[]string{"--temperament", "chapel.txt"}, "no such file"},
+		// The comma's part alone is a meantone's, not a file's name.
+		{[]string{"--temperament", "1/4"}, "meantone:1/4"},
+		{[]string{"--key", "E flat mjr"}, `unknown mode "mjr"`},
 		{[]string{"--temperament", "edo:7"}, "divisions that work: 12, 17, 19, 22"},
 		{[]string{"--temperament", "fifth:720"}, "fifths between 685.714 and 720 ¢ work"},
 		{[]string{"--anchor", "middle"}, "use a4 or tonic"},

@@ -100,7 +100,7 @@ func writeTargetsCSV(e *env, tu target.Tuning, rows []targetRow) error {
 }
 
 func writeTargetsTable(e *env, tu target.Tuning, whence string, rows []targetRow) error {
-	fmt.Fprintln(e.stdout, tableTitle(tu, whence))
+	fmt.Fprintln(e.stdout, tableTitle(tu.String(), whence))
 	shared := tu.SharesPitches()
 	tw := tabwriter.NewWriter(e.stdout, 0, 0, 2, ' ', tabwriter.AlignRight)
 	head := "note\tHz\tfrom equal\tfifths\tother spelling\t"

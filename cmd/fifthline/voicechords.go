@@ -12,6 +12,7 @@ import (
 	"time"
 
 	"fifthline/harmony"
+	"fifthline/journal"
 	"fifthline/target"
 )
 
@@ -119,8 +120,8 @@ func mergedFrames(a, b *harmony.Track) *harmony.Track {
 // its voice (start: the take's, or zero when heard now).
 func logVoiceChords(j *journalSink, source string, tu target.Tuning, chords []harmony.Chord, notes []voiceNote, start time.Time) {
 	for _, c := range chords {
-		j.chord(source, tu, c.Start, c.End, c.HeardChord, func(i int) (string, string) {
-			return "", strconv.Itoa(notes[c.Notes[i]].voice)
+		j.chord(source, tu, c.Start, c.End, c.HeardChord, func(i int) (string, journal.Extra) {
+			return "", journal.Extra{Voice: strconv.Itoa(notes[c.Notes[i]].voice)}
 		}, start)
 	}
 }
@@ -169,13 +170,14 @@ func (rw *rowWriter) write(rec []string, obj any) {
 	case "json":
 		rw.json = append(rw.json, obj)
 	case "table":
+		head, rec := otherInWords(rw.head, rec)
 		if rw.rows == 0 {
 			if rw.title != "" {
 				fmt.Fprintln(rw.out, rw.title)
 			}
-			fmt.Fprintln(rw.tab, strings.Join(tableHead(rw.head), "\t"))
+			fmt.Fprintln(rw.tab, strings.Join(tableHead(head), "\t"))
 		}
-		fmt.Fprintln(rw.tab, strings.Join(tableCells(rw.head, rec), "\t"))
+		fmt.Fprintln(rw.tab, strings.Join(tableCells(head, rec), "\t"))
 	default:
 		if rw.rows == 0 {
 			rw.csv.Write(rw.head)

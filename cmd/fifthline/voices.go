@@ -106,6 +106,9 @@ func analyzeVoices(e *env, vo voiceOptions, files []string, tu target.Tuning, op
 		for k, n := range notes {
 			evs[k] = n.Event
 		}
+		if err == nil {
+			opt.warnTuning(e, path, tu, evs)
+		}
 		if vo.chords {
 			for _, row := range chords {
 				for _, c := range voiceChordRecords(row, fileColumn(path, withFile), notes) {
@@ -156,7 +159,7 @@ func readVoices(e *env, path string, tu target.Tuning, vo voiceOptions, opt anal
 	logVoiceChords(j, path, tu, chords, notes, start)
 	switch {
 	case errors.Is(err, context.Canceled):
-		return notes, chords, fmt.Errorf("%s: interrupted; the notes before it are written", path)
+		return notes, chords, fmt.Errorf("%s: %w", path, errInterrupted)
 	case err != nil:
 		return notes, chords, fmt.Errorf("%s: %w", path, err)
 	}
