@@ -78,6 +78,12 @@ func readChords(t *testing.T, r renderedTake, path string) []chordRow {
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
+	return chordRows(t, out)
+}
+
+// chordRows groups --chords CSV rows by chord.
+func chordRows(t *testing.T, out string) []chordRow {
+	t.Helper()
 	_, rows := readCSV(t, out)
 	var chords []chordRow
 	for _, row := range rows {
@@ -118,7 +124,16 @@ func checkTakeChords(t *testing.T, r renderedTake) (wet []chordRow, offs []float
 // far their thirds and fifths read from their readings without, ¢.
 func chordsAsWithoutBleed(t *testing.T, r renderedTake) (wet []chordRow, offs []float64) {
 	t.Helper()
-	wet, dry := readChords(t, r, r.wet), readChords(t, r, r.dry)
+	wet = readChords(t, r, r.wet)
+	return wet, chordsAsDry(t, r, wet)
+}
+
+// chordsAsDry holds chords read with bleed to the take read without, as
+// chordsAsWithoutBleed says, and returns how far their thirds and fifths
+// read from their readings without, ¢.
+func chordsAsDry(t *testing.T, r renderedTake, wet []chordRow) (offs []float64) {
+	t.Helper()
+	dry := readChords(t, r, r.dry)
 	names := func(cs []chordRow) string {
 		var s []string
 		for _, c := range cs {
@@ -150,7 +165,7 @@ func chordsAsWithoutBleed(t *testing.T, r renderedTake) (wet []chordRow, offs []
 		}
 	}
 	t.Logf("%s: chords %s; thirds and fifths within %.3f ¢ of their readings without bleed", r.name, names(wet), worst)
-	return wet, offs
+	return offs
 }
 
 // checkJustChord holds the last chord, written just, to just as the

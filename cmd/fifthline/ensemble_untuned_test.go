@@ -202,17 +202,23 @@ func TestPlayersReadTakesNoRuleWasTunedOn(t *testing.T) {
 
 // The same takes played live into a four-channel interface (a PulseAudio
 // null sink of this test's own, its monitor the input) and heard by
-// listen --plain --players, held to the issue's bar.
+// listen --plain --players, held to the issue's bar; then again with
+// --chords, every chord named as written and its thirds and fifths
+// within 1.5 ¢ of the file read without bleed (chordsAsDry).
 func TestListenPlayersHearsTakesNoRuleWasTunedOn(t *testing.T) {
 	t.Parallel()
 	forEachTake(t, untunedTakes(t), func(t *testing.T, r renderedTake) {
 		lone := r.loneNotes(t)
-		out := playQuartetLive(t, r.wet, append(r.musical(), "--players", strings.Join(r.players, ","))...)
+		args := append(r.musical(), "--players", strings.Join(r.players, ","))
+		out := playQuartetLive(t, r.wet, args...)
 		_, rows := readCSV(t, out)
 		logTally(t, "live", r, lone, rows)
 		checkIssueBar(t, "listen", r, lone, rows)
 		if t.Failed() {
 			t.Log(out)
 		}
+		out = playQuartetLive(t, r.wet, append(args, "--chords")...)
+		justs := chordsAsDry(t, r, chordRows(t, out))
+		t.Logf("TABLE %-16s live      thirds and fifths worst %.3f ¢ from the file without bleed", r.name, worstAbs(justs))
 	})
 }
