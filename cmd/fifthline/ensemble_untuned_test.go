@@ -222,3 +222,69 @@ func TestListenPlayersHearsTakesNoRuleWasTunedOn(t *testing.T) {
 		t.Logf("TABLE %-16s live      thirds and fifths worst %.3f ¢ from the file without bleed", r.name, worstAbs(justs))
 	})
 }
+
+// The sagging choir's drift: the group sinks 6 ¢ from its first chord to
+// its last, both E♭ major on the same keys, so the samples' own tuning
+// is alike in both and the sag is what the take's bends wrote (MIDI 1.0,
+// to 0.0122 ¢). Read with bleed, every note's group_drift_cents lies
+// within 0.5 ¢ of the take's without; the table line's drift moves
+// 6 ¢ flat within 1 ¢ (a median over 4 s, so its ends lie inside the
+// take's); each voice's last note reads 6 ¢ below its first within 1 ¢
+// against the fixed reference, and within 1.5 ¢ of its first with
+// --reference group, which takes the group's drift out (the altos' first
+// E♭4, held into the A♭ major chord as the others sink 2 ¢, reads the
+// drift over both).
+func TestGroupDriftOfTheSaggingChoir(t *testing.T) {
+	t.Parallel()
+	r := renderTake(t, withFlats(saggingChoir))
+	analyze := func(path string, more ...string) string {
+		code, out, stderr := runLong(t, append(append(append([]string{"analyze"}, r.musical()...), "--players", strings.Join(r.players, ",")), append(more, path)...)...)
+		if code != 0 {
+			t.Fatalf("exit %d: %s", code, stderr)
+		}
+		return out
+	}
+	read := func(path string, more ...string) []map[string]string {
+		_, rows := readCSV(t, analyze(path, more...))
+		return rows
+	}
+	wet, dry := read(r.wet, "--reference", "group"), read(r.dry, "--reference", "group")
+	if len(wet) != len(dry) {
+		t.Fatalf("%d notes with bleed, %d without", len(wet), len(dry))
+	}
+	for i := range wet {
+		if d := num(wet[i], driftColumn) - num(dry[i], driftColumn); math.Abs(d) > 0.5 {
+			t.Errorf("%s's %s at %s s: group drift %s ¢, without bleed %s ¢", wet[i]["player"], wet[i]["note"], wet[i]["start_s"], wet[i][driftColumn], dry[i][driftColumn])
+		}
+	}
+	var moved float64
+	table := analyze(r.wet, "--format", "table")
+	if _, err := fmt.Sscanf(table[strings.Index(table, "(moved ")+len("(moved "):], "%f", &moved); err != nil || !strings.Contains(table, "¢ flat);") {
+		t.Fatalf("no flat drift in the table's last line (%v):\n%s", err, table)
+	}
+	t.Logf("TABLE %-16s drift     moved %.1f ¢ flat, written 6 ¢", r.name, moved)
+	if math.Abs(moved-6) > 1 {
+		t.Errorf("the group drift moved %.1f ¢ flat; the take sinks 6 ¢", moved)
+	}
+	fixed := read(r.wet)
+	for _, p := range r.players {
+		ends := func(rows []map[string]string) (first, last float64) {
+			var mine []map[string]string
+			for _, row := range rows {
+				if row["player"] == p {
+					mine = append(mine, row)
+				}
+			}
+			return num(mine[0], "cents"), num(mine[len(mine)-1], "cents")
+		}
+		first, last := ends(fixed)
+		gFirst, gLast := ends(wet)
+		t.Logf("%s: last note %+.2f ¢ from the first against A4, %+.2f ¢ against the group", p, last-first, gLast-gFirst)
+		if math.Abs(last-first+6) > 1 {
+			t.Errorf("%s's last note reads %+.2f ¢ from its first against the fixed reference; written −6 ¢", p, last-first)
+		}
+		if math.Abs(gLast-gFirst) > 1.5 {
+			t.Errorf("%s's last note reads %+.2f ¢ from its first against the group's reference; the sag is the group's", p, gLast-gFirst)
+		}
+	}
+}
