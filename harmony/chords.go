@@ -116,6 +116,12 @@ func stretches(notes []Note, cuts []float64) []Chord {
 	return out
 }
 
+// entersOn says whether c is the first chord note n sounds in: it began
+// with the chord or less than MinSeconds before, too soon for a chord
+// before (players entering together are heard some 0.1 s apart, a
+// recorder's or a violin's attack sooner than a bass's).
+func entersOn(n Note, c Chord) bool { return n.Start > c.Start-MinSeconds }
+
 // name reads the stretch's members and names their chord, ordering Notes
 // like the members (lowest first); oneChannel names it, where its notes name
 // none, without a note on another's harmonic (nameLeavingPartial).
@@ -130,7 +136,7 @@ func name(c Chord, notes []Note, tu target.Tuning, seventh float64, oneChannel b
 			from, to := c.Start+Edge, c.End-Edge
 			// A note entering on the chord, from where it settled: its
 			// attack's glide is not its tuning (as for the note alone).
-			if n.Start >= c.Start && n.Settled > from && n.Settled < to {
+			if entersOn(n, c) && n.Settled > from && n.Settled < to {
 				from = n.Settled
 			}
 			hz[i] = n.Frames.Mean(from, to)

@@ -116,7 +116,7 @@ func (s *Stream) Ready(horizon float64, tuning func(at float64) target.Tuning) (
 	// (chords come in time order).
 	for i, c := range runs {
 		if slices.ContainsFunc(c.Notes, func(k int) bool {
-			return math.IsInf(notes[k].End, 1) && notes[k].Start >= c.Start && !notes[k].Settles
+			return math.IsInf(notes[k].End, 1) && entersOn(notes[k], c) && !notes[k].Settles
 		}) {
 			sp := spanOf(c, notes)
 			held = &sp

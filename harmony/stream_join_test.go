@@ -14,7 +14,8 @@ import (
 // (the join below: the same voice's same note again within Reach); once it
 // ends as E4, the chord is one, 0.2–2.5 s, as Find gives it from the
 // joined notes. A semitone higher (F4) it is another note, and the first
-// chord is given at once. Equal temperament at A4 = 440 Hz (ISO 16:
+// chord is given at once. (The held C3's attack has settled by then, as
+// pitchdetect's Settles says of a note 1.5 s long.) Equal temperament at A4 = 440 Hz (ISO 16:
 // 440·2^(n/12)); our own scenario.
 func TestStreamHoldsTheChordsASoundingNoteMayJoin(t *testing.T) {
 	tu := target.Default()
@@ -40,13 +41,13 @@ func TestStreamHoldsTheChordsASoundingNoteMayJoin(t *testing.T) {
 		s := Stream{Seventh: target.DefaultSeventh, Join: join, Reach: reach}
 		at := func(float64) target.Tuning { return tu }
 		s.Add(Note{Start: 0.2, End: 1.0, Who: "2", Note: parse("E4"), Hz: e4})
-		s.Sound([]Note{{Start: 0, Who: "1", Hz: 130.8128}, {Start: 1.5, Who: "2", Hz: again.hz}})
+		s.Sound([]Note{{Start: 0, Who: "1", Hz: 130.8128, Settles: true}, {Start: 1.5, Who: "2", Hz: again.hz}})
 		early, _ := s.Ready(3, at)
 		if again.held != (len(early) == 0) {
 			t.Errorf("%s heard again from 1.5 s: %d chords given at 3 s, want the first held back: %v", again.name, len(early), again.held)
 		}
 		s.Add(Note{Start: 1.5, End: 2.5, Who: "2", Note: parse(again.name), Hz: again.hz})
-		s.Sound([]Note{{Start: 0, Who: "1", Hz: 130.8128}})
+		s.Sound([]Note{{Start: 0, Who: "1", Hz: 130.8128, Settles: true}})
 		late, _ := s.Ready(4, at)
 		got := append(early, late...)
 		all := join([]Note{{Start: 0.2, End: 1.0, Who: "2", Note: parse("E4"), Hz: e4}, {Start: 1.5, End: 2.5, Who: "2", Note: parse(again.name), Hz: again.hz}})

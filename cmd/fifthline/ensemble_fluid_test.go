@@ -2,13 +2,18 @@ package main
 
 import (
 	"cmp"
+	"context"
 	"math"
 	"strconv"
 	"strings"
 	"testing"
 
+	"fifthline/capture"
 	"fifthline/harmony"
 	"fifthline/internal/testsignal"
+	"fifthline/pitchdetect"
+	"fifthline/session"
+	"fifthline/target"
 )
 
 // checkPlayerNotes holds note rows of the players against each part read
@@ -73,6 +78,12 @@ func readChords(t *testing.T, r renderedTake, path string) []chordRow {
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
+	return chordRows(t, out)
+}
+
+// chordRows groups --chords CSV rows by chord.
+func chordRows(t *testing.T, out string) []chordRow {
+	t.Helper()
 	_, rows := readCSV(t, out)
 	var chords []chordRow
 	for _, row := range rows {
@@ -101,7 +112,28 @@ func TestAnalyzePlayersChordsOfRenderedTakes(t *testing.T) {
 // their readings without, ¢.
 func checkTakeChords(t *testing.T, r renderedTake) (wet []chordRow, offs []float64) {
 	t.Helper()
-	wet, dry := readChords(t, r, r.wet), readChords(t, r, r.dry)
+	wet, offs = chordsAsWithoutBleed(t, r)
+	checkJustChord(t, r, wet[len(wet)-1])
+	return wet, offs
+}
+
+// chordsAsWithoutBleed reads the take's chords with and without bleed:
+// the written chords named both ways, every member alike, and its thirds
+// and fifths within the take's chordCents (1.5 ¢ unless it says) of their
+// readings without bleed. It returns the chords read with bleed and how
+// far their thirds and fifths read from their readings without, ¢.
+func chordsAsWithoutBleed(t *testing.T, r renderedTake) (wet []chordRow, offs []float64) {
+	t.Helper()
+	wet = readChords(t, r, r.wet)
+	return wet, chordsAsDry(t, r, wet)
+}
+
+// chordsAsDry holds chords read with bleed to the take read without, as
+// chordsAsWithoutBleed says, and returns how far their thirds and fifths
+// read from their readings without, ¢.
+func chordsAsDry(t *testing.T, r renderedTake, wet []chordRow) (offs []float64) {
+	t.Helper()
+	dry := readChords(t, r, r.dry)
 	names := func(cs []chordRow) string {
 		var s []string
 		for _, c := range cs {
@@ -133,21 +165,20 @@ func checkTakeChords(t *testing.T, r renderedTake) (wet []chordRow, offs []float
 		}
 	}
 	t.Logf("%s: chords %s; thirds and fifths within %.3f ¢ of their readings without bleed", r.name, names(wet), worst)
-	checkJustChord(t, r, wet[len(wet)-1])
-	return wet, offs
+	return offs
 }
 
 // checkJustChord holds the last chord, written just, to just as the
 // renders sound it: each part's sample sits some cents from the pitch it
 // was asked for (what the part alone reads over the chord's stretch, less
-// its edges as the chord reading leaves them out), so a third or fifth is
-// just less the root's offset plus its own, within 1.5 ¢ (the held-out
-// check's figure).
+// its edges and a member's attack as the chord reading leaves them out:
+// memberFrom), so a third or fifth is just less the root's offset plus
+// its own, within 1.5 ¢ (the held-out check's figure).
 func checkJustChord(t *testing.T, r renderedTake, chord chordRow) {
 	t.Helper()
 	offset := func(i int) float64 {
 		m := chord.members[r.players[i]]
-		return testsignal.Cents(r.loneOver(t, i, parseF(m["start_s"])+harmony.Edge, parseF(m["end_s"])-harmony.Edge), r.asked(i, len(r.parts[i].Notes)-1))
+		return testsignal.Cents(r.loneOver(t, i, r.memberFrom(t, i, parseF(m["start_s"])), parseF(m["end_s"])-harmony.Edge), r.asked(i, len(r.parts[i].Notes)-1))
 	}
 	for i, p := range r.players {
 		m, ok := chord.members[p]
@@ -166,6 +197,57 @@ func checkJustChord(t *testing.T, r renderedTake, chord chordRow) {
 // geometric mean of its frames there (read once per part).
 func (r renderedTake) loneOver(t *testing.T, i int, from, to float64) float64 {
 	t.Helper()
+	sum, n := 0.0, 0
+	for _, f := range r.loneFrames(t, i) {
+		if at := parseF(f["time_s"]); at >= from && at <= to && parseF(f["hz"]) > 0 {
+			sum += math.Log2(parseF(f["hz"]))
+			n++
+		}
+	}
+	return math.Exp2(sum / float64(max(n, 1)))
+}
+
+// memberFrom is where a chord starting at start reads part i from, as the
+// chord reader reads a member (harmony's name): Edge in, or where the
+// part's note settled from its attack, read alone by the one-pitch path
+// (pitchdetect's Held.Settled), if that is later and the note enters on
+// the chord, beginning with it or less than MinSeconds before.
+func (r renderedTake) memberFrom(t *testing.T, i int, start float64) float64 {
+	t.Helper()
+	from := start + harmony.Edge
+	held, ok := r.held[i]
+	if !ok {
+		held = heldAlone(t, r.lone[i])
+		r.held[i] = held
+	}
+	for _, h := range held {
+		if h.Start <= from && from <= h.End && h.Start > start-harmony.MinSeconds {
+			return max(from, h.Settled)
+		}
+	}
+	return from
+}
+
+// heldAlone is every note the one-pitch path holds in a mono file.
+func heldAlone(t *testing.T, path string) []pitchdetect.Held {
+	t.Helper()
+	rec, err := capture.OpenRecording(path, 1)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer rec.Close()
+	var held []pitchdetect.Held
+	err = session.Run(context.Background(), rec, session.Options{Name: path, Tunings: session.NewTunings(target.Default()),
+		OnNote: func(ev session.Event) error { held = append(held, ev.Held); return nil }})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return held
+}
+
+// loneFrames is part i alone, frame by frame (read once per part).
+func (r renderedTake) loneFrames(t *testing.T, i int) []map[string]string {
+	t.Helper()
 	rows, ok := r.frames[i]
 	if !ok {
 		code, out, stderr := runLong(t, append(append([]string{"analyze"}, r.musical()...), "--frames", r.lone[i])...)
@@ -175,14 +257,7 @@ func (r renderedTake) loneOver(t *testing.T, i int, from, to float64) float64 {
 		_, rows = readCSV(t, out)
 		r.frames[i] = rows
 	}
-	sum, n := 0.0, 0
-	for _, f := range rows {
-		if at := parseF(f["time_s"]); at >= from && at <= to && parseF(f["hz"]) > 0 {
-			sum += math.Log2(parseF(f["hz"]))
-			n++
-		}
-	}
-	return math.Exp2(sum / float64(max(n, 1)))
+	return rows
 }
 
 // The wind quartet played live into a four-channel interface (a

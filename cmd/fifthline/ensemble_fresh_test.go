@@ -186,7 +186,8 @@ func TestAnalyzePlayersReadsFreshTakes(t *testing.T) {
 
 // checkChordsAlone holds every third and fifth of the chords read to just
 // as the parts alone sound it over the same stretch (loneOver, less the
-// chord's edges as its reading leaves them out), within 1.5 ¢ (the
+// chord's edges and a member's attack as its reading leaves them out:
+// memberFrom), within 1.5 ¢ (the
 // held-out check's figure): a chord's stretch may begin where a resting
 // player's release is last heard, which the bleed moves by tens of
 // milliseconds, and over a stretch of 0.4 s a vibrato's mean moves with
@@ -195,11 +196,14 @@ func TestAnalyzePlayersReadsFreshTakes(t *testing.T) {
 func checkChordsAlone(t *testing.T, r renderedTake, chords []chordRow) (offs []float64) {
 	t.Helper()
 	for _, c := range chords {
-		from, to := math.Inf(-1), math.Inf(1)
+		start, to := math.Inf(-1), math.Inf(1)
 		for _, m := range c.members {
-			from, to = max(from, parseF(m["start_s"])+harmony.Edge), min(to, parseF(m["end_s"])-harmony.Edge)
+			start, to = max(start, parseF(m["start_s"])), min(to, parseF(m["end_s"])-harmony.Edge)
 		}
-		alone := func(p string) float64 { return r.loneOver(t, slices.Index(r.players, p), from, to) }
+		alone := func(p string) float64 {
+			i := slices.Index(r.players, p)
+			return r.loneOver(t, i, r.memberFrom(t, i, start), to)
+		}
 		for p, m := range c.members {
 			if m["member"] != "third" && m["member"] != "fifth" {
 				continue

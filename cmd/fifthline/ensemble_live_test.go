@@ -44,10 +44,17 @@ func takeNamed(t *testing.T, name string) ensembleTake {
 // come back as CSV rows, in the order they end.
 func readOnce(t *testing.T, r renderedTake) []map[string]string {
 	t.Helper()
-	if len(r.flags) > 0 {
-		t.Fatalf("%s: readOnce reads a take in equal temperament at A4 = 440 only", r.name)
-	}
 	m := musicalFlags{key: r.key, temperament: "equal", a4: "440"}
+	for i := 0; i < len(r.flags); i += 2 {
+		switch f := r.flags[i]; {
+		case f == "--temperament" && i+1 < len(r.flags):
+			m.temperament = r.flags[i+1]
+		case f == "--a4" && i+1 < len(r.flags):
+			m.a4 = r.flags[i+1]
+		default:
+			t.Fatalf("%s: readOnce reads --temperament and --a4 only, not %v", r.name, r.flags)
+		}
+	}
 	tu, err := m.tuning()
 	if err != nil {
 		t.Fatal(err)

@@ -10,6 +10,7 @@ import (
 	"testing"
 
 	"fifthline/internal/testsignal"
+	"fifthline/pitchdetect"
 )
 
 // Multitrack takes of our own four-part writing, each part rendered alone
@@ -149,6 +150,7 @@ type renderedTake struct {
 	wet, dry string
 	lone     []string
 	frames   map[int][]map[string]string // each part alone, frame by frame, once read
+	held     map[int][]pitchdetect.Held  // each part's notes alone, once read
 }
 
 // renderTake renders each part alone (fluidsynth), pads it with leadIn
@@ -160,7 +162,7 @@ func renderTake(t *testing.T, take ensembleTake) renderedTake {
 	// (sharedOnce; a part's tuning counts by its address, so the same
 	// written take); the frames read from them are each test's own.
 	r := sharedOnce(t, fmt.Sprintf("ensemble take %#v", take), func(dir string) renderedTake { return renderTakeIn(t, dir, take) })
-	r.frames = map[int][]map[string]string{}
+	r.frames, r.held = map[int][]map[string]string{}, map[int][]pitchdetect.Held{}
 	return r
 }
 

@@ -87,7 +87,7 @@ func checkTemperedChords(t *testing.T, tt temperedTake, r renderedTake, pub [][]
 		// published pitch of the note written there.
 		own := func(p string) (written string, cents float64) {
 			i, m := indexOf(r.players, p), chord.members[p]
-			from, to := parseF(m["start_s"])+harmony.Edge, parseF(m["end_s"])-harmony.Edge
+			from, to := r.memberFrom(t, i, parseF(m["start_s"])), parseF(m["end_s"])-harmony.Edge
 			mid := (from+to)/2 - leadIn
 			for j, n := range tt.notes[i] {
 				if n.start <= mid && mid <= n.start+n.seconds {
