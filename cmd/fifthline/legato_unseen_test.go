@@ -45,6 +45,22 @@ import (
 // beforeRelease) the trumpet's last C♯4 and C4 read 7.3 and 9.1 ¢ sharp
 // and the oboe's last C4 eighth 2.0 ¢ flat: 182 -> 184 of 224 within
 // legatoCents, 222 -> 224 found.
+//
+// Which misses are the detector's: over both sets of runs (these and
+// legatoRuns), both speeds and the hop's eight phases, 654 of 3326 notes
+// found read over legatoCents from their truth: the violin's 398, the
+// trumpet's 128, the flute's 56, the oboe's 39, the clarinet's 33. Aubio's
+// yin over the run itself (the same span of each note) reads within
+// legatoCents of that truth for only 463 of the violin's 1023 notes (the
+// detector 625): slurred, a quick violin note's first 60–80 ms, part of
+// its vibrato's cycle, lie under the note before, where no reader of one
+// pitch hears them, so most of its misses are the truth's (the key alone).
+// The trumpet's are the detector's: aubio on the run 735 of 767, the
+// detector 639; its attack rises some 0.2 ¢ a millisecond, so a span read
+// 10 ms off is 2 ¢ off. Reading a slurred rising note at the middle of
+// its span (a line through its frames there) gained 21 notes in all (the
+// trumpet's 639 -> 663) but lost others, at phase 0 too (the low
+// trumpet's G4s then read 2–3 ¢ sharp), and was left out (measured).
 var unseenLegatoRuns = []legatoPhrase{
 	{"clarinet-break", 71, []int{65, 67, 69, 70, 71, 72, 74, 72, 70, 67, 76, 72, 64, 57, 53, 60}, [2]int{15, 13}},
 	{"flute-low", 73, []int{60, 64, 67, 72, 69, 65, 62, 71, 67, 63, 61, 62, 70, 66, 64, 60}, [2]int{14, 13}},
@@ -60,18 +76,18 @@ var unseenLegatoRuns = []legatoPhrase{
 // legatoCents of their sound's median: measured, floors. At one phase in
 // eight the violin's A5 (its attack 27 ¢ under where it settles) slurred
 // from D5, and the trumpet's G5 slurred up an octave from G4, keep 8
-// frames straight on from the note before and are lost as blips under
-// MinSeconds (pitchdetect/slurnote.go leaves frames that follow a note
-// straight on to it). Before: 1783 of 1792 found (both speeds), 1413
-// within legatoCents; after: 1790, 1421.
+// frames straight on from the note before and were lost as blips under
+// MinSeconds until such a run of twice MinFrames frames was held a note
+// (pitchdetect/slurnote.go): 1790 -> 1792 of 1792 found (both speeds),
+// 1423 within legatoCents (before: 1783, 1413; then 1790, 1421).
 var unseenAtEveryPhase = map[string][2]int{
 	"clarinet-break-0.15s":  {128, 124},
 	"flute-low-0.15s":       {128, 110},
 	"oboe-chromatic-0.15s":  {128, 100},
 	"violin-g-string-0.15s": {128, 81},
-	"violin-leaps-0.15s":    {127, 81},
+	"violin-leaps-0.15s":    {128, 81},
 	"trumpet-low-0.15s":     {128, 98},
-	"trumpet-leaps-0.15s":   {127, 69},
+	"trumpet-leaps-0.15s":   {128, 69},
 }
 
 // unseenSeconds: sixteenths at ♩ = 100 and eighths at ♩ = 120.
@@ -186,12 +202,12 @@ func TestAnalyzeHearsUnseenQuickLegatoRunsAtEveryHopPhase(t *testing.T) {
 
 // The unseen runs played live, one after another, into a private virtual
 // microphone and heard by `listen --plain`, as
-// TestListenHearsEveryNoteOfQuickLegatoRuns: every note found (measured:
-// all 224, 174 within legatoCents of their sound's median; the readings
-// depend on where the stream's hops fall, so only finding is held), save
-// the two notes unseenAtEveryPhase loses at one hop phase in eight: live
-// the hops fall where they fall, and the suite's run lost the trumpet's
-// G5 once (223 of 224, measured under load).
+// TestListenHearsEveryNoteOfQuickLegatoRuns: every note found (the
+// readings depend on where the stream's hops fall, so only finding is
+// held). Before a slurred note read straight on from the note before was
+// held a note (unseenAtEveryPhase) the trumpet's G5 and the violin's A5
+// could be lost live: the suite's run lost the G5 once (223 of 224,
+// measured under load).
 func TestListenHearsUnseenQuickLegatoRuns(t *testing.T) {
 	t.Parallel()
 	_, env, play := privateMic(t)
@@ -208,20 +224,7 @@ func TestListenHearsUnseenQuickLegatoRuns(t *testing.T) {
 	}
 	c, off := countLegato(whole, rows)
 	t.Logf("listen: %s; %s", c, strings.Join(off, ", "))
-	for _, o := range off {
-		if name, ok := strings.CutSuffix(o, " lost"); ok && !phaseLost(name) {
-			t.Errorf("listen: %s lost, want every note found but the two lost at one hop phase in eight", name)
-		}
+	if c.found < c.notes {
+		t.Errorf("listen: %s, want every note found", c)
 	}
-	if c.found < c.notes-2 {
-		t.Errorf("listen: %s, want all found but at most the two lost at one hop phase in eight", c)
-	}
-}
-
-// phaseLost reports whether a note written as countLegato writes it
-// ("G5#205") is the trumpet's G5 or the violin's A5, the two notes of the
-// unseen runs lost at one hop phase in eight.
-func phaseLost(name string) bool {
-	n, _, _ := strings.Cut(name, "#")
-	return n == "G5" || n == "A5"
 }
