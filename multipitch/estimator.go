@@ -89,7 +89,6 @@ type Estimator struct {
 	f0     []float64
 	drop   []float64
 	trial  []float64
-	usedA  []int     // the bins of the candidates' own fit (order.go)
 	floor  float64   // the spectrum's median power, no less than quietest of its mean: its noise floor
 	sorted []float64 // scratch for it
 	out    []Voice

@@ -26,9 +26,6 @@ import (
 func (e *Estimator) prune() {
 	f := e.fitter
 	e.dropShort(coldSteps, nil, 1)
-	if e.reseat() { // a voice dropped beside another's partial: order.go
-		e.dropShort(warmSteps, nil, 1)
-	}
 	e.mergeUnisons()
 	e.trial = append(e.trial[:0], e.f0...) // as judged
 	e.settle()
