@@ -1,9 +1,6 @@
 package multipitch
 
-import (
-	"math"
-	"slices"
-)
+import "math"
 
 // carryCents: a voice read within this of a lower voice's 2nd or 4th
 // partial may be its doubling rather than a voice one
@@ -17,9 +14,13 @@ const carryCents = 6.0
 // of m stand out of the envelope through its other partials once the
 // voice on its m-th partial is taken as its own: 10 dB. One instrument's
 // partial read as a voice leaves, so taken back, that instrument's own
-// profile, and lone timbres' even partials stand up to 8.9 dB over their
-// odd ones (doubleGain); measured on FluidR3 (carried_test.go): a horn's
-// B♭3 with a trumpet's B♭4 on it 15 to 18 dB, alone −6.5 to +8.9 dB.
+// profile. Measured once on FluidR3 (carried_test.go's chord, windows a
+// quarter window apart): the horn's B♭3 with the trumpet's B♭4 read on its
+// 2nd partial 15.3 to 24.5 dB in 7 frames of 8 (3.5 dB in one); its even
+// partials' envelopeExcess without B♭4 −11.5 to +12.0 dB, median −2 dB,
+// and lone timbres' up to 8.9 dB (doubleGain). Two octaves up, the
+// trumpet's G4 over the tuba's G2 (1.7 ¢ apart, a beat of 2.6 s) swung
+// G2's 4th partial from −8 to +7 dB, and is not marked so.
 const carryGain = 10.0
 
 // carriesVoice reports whether a voice of the frame lies on voice v's 2nd
@@ -34,8 +35,9 @@ const carryGain = 10.0
 // horn's B♭3's 27 frames, which then showed no doubling in 23. A twelfth
 // (m = 3) is not judged so: a lone clarinet's own 3rd partial stands far
 // out of its weak 2nd and 4th (FluidR3's on C5, read as a voice, marked its
-// note in 10 of 15 frames), and the horn's C4 on the tuba's F2 stood only
-// 3 to 10 dB out of F2's envelope (measured once, carried_test.go).
+// note in 10 of 15 frames: doubled_real_test.go), and the horn's C4 on the
+// tuba's F2 stood only 3 to 10 dB out of F2's envelope (the brass
+// quartet's F major rendered alone, measured once).
 func (e *Estimator) carriesVoice(v int) bool {
 	for u, hz := range e.f0 {
 		m := math.Round(hz / e.f0[v])
@@ -52,9 +54,9 @@ func (e *Estimator) carriesVoice(v int) bool {
 // carriedExcess is the lower median (at least two to weigh) of voice v's
 // partials m, 2m, … up to the 21st, each with voice u's partial on it
 // added, over the envelope through v's nearest own audible partials either
-// side that are not multiples of m (within 5; straight in log power over
-// log k, as parityRatios), or 0. Partials within 1.5 bins of a voice other
-// than u are left out, as partialPowers' shared ones.
+// side that are not multiples of m (within 5; overEnvelope), or 0.
+// Partials within 1.5 bins of a voice other than u are left out, as
+// partialPowers' shared ones.
 func (e *Estimator) carriedExcess(v, u, m int) float64 {
 	const top = 21
 	var amp [top + 2]complex128
@@ -69,15 +71,7 @@ func (e *Estimator) carriedExcess(v, u, m int) float64 {
 		pow[k] = real(a)*real(a) + imag(a)*imag(a)
 	}
 	half := float64(e.window) / 2
-	other := func(k int) bool { // on a voice's partial other than u's
-		hz := float64(k) * e.f0[v]
-		for w, g := range e.f0 {
-			if w != v && w != u && math.Abs(hz-g*math.Round(hz/g)) < 1.5*e.fitter.binHz {
-				return true
-			}
-		}
-		return false
-	}
+	other := func(k int) bool { return e.sharedBesides(v, k, u) }
 	own := func(k int) bool {
 		return k%m != 0 && k < len(pow) && !other(k) && pow[k]*half*half > 30*e.floor
 	}
@@ -97,16 +91,7 @@ func (e *Estimator) carriedExcess(v, u, m int) float64 {
 		if a < max(k-5, 1) || b > min(k+5, top+1) {
 			continue
 		}
-		pa := pow[a]
-		if a == 1 {
-			pa = max(pa, pow[b]) // the fundamental counts as no weaker than the partial above it (envelopeExcess)
-		}
-		t := math.Log(float64(k)/float64(a)) / math.Log(float64(b)/float64(a))
-		r = append(r, pow[k]/math.Exp((1-t)*math.Log(pa)+t*math.Log(pow[b])))
+		r = append(r, overEnvelope(pow[:], k, a, b))
 	}
-	if len(r) < 2 {
-		return 0
-	}
-	slices.Sort(r)
-	return r[(len(r)-1)/2]
+	return lowerMedian(r, 2)
 }

@@ -104,15 +104,23 @@ func (e *Estimator) parityRatios(v, first int) []partialRatio {
 		if a < max(k-5, 1) || b > k+5 {
 			continue
 		}
-		pa := pow[a]
-		if a == 1 {
-			pa = max(pa, pow[b])
-		}
-		t := math.Log(float64(k)/float64(a)) / math.Log(float64(b)/float64(a))
-		out = append(out, partialRatio{k, pow[k] / math.Exp((1-t)*math.Log(pa)+t*math.Log(pow[b]))})
+		out = append(out, partialRatio{k, overEnvelope(pow, k, a, b)})
 	}
 	e.ratios = out
 	return out
+}
+
+// overEnvelope is partial k's power over the envelope through partials a
+// and b either side of it, straight in log power over log k; the
+// fundamental counts as no weaker than b, since one far below the partials
+// above it (bassoon, low brass) is the timbre, not a double.
+func overEnvelope(pow []float64, k, a, b int) float64 {
+	pa := pow[a]
+	if a == 1 {
+		pa = max(pa, pow[b])
+	}
+	t := math.Log(float64(k)/float64(a)) / math.Log(float64(b)/float64(a))
+	return pow[k] / math.Exp((1-t)*math.Log(pa)+t*math.Log(pow[b]))
 }
 
 // oddsHold reports whether voice v's own odd partials, 3 to 21, sink
@@ -259,11 +267,14 @@ type voicePartials struct {
 }
 
 // shared: partial k lies within 1.5 bins of another voice's partial.
-func (p voicePartials) shared(k int) bool {
-	e := p.e
-	hz := float64(k) * e.f0[p.v]
-	for u, g := range e.f0 {
-		if u != p.v && math.Abs(hz-g*math.Round(hz/g)) < 1.5*e.fitter.binHz {
+func (p voicePartials) shared(k int) bool { return p.e.sharedBesides(p.v, k, p.v) }
+
+// sharedBesides reports whether voice v's partial k lies within 1.5 bins
+// of a partial of a voice other than v and u.
+func (e *Estimator) sharedBesides(v, k, u int) bool {
+	hz := float64(k) * e.f0[v]
+	for w, g := range e.f0 {
+		if w != v && w != u && math.Abs(hz-g*math.Round(hz/g)) < 1.5*e.fitter.binHz {
 			return true
 		}
 	}
