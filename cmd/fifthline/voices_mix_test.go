@@ -316,21 +316,6 @@ func matchNote(rows []map[string]string, used []bool, at, hz float64) int {
 	return best
 }
 
-// doubledUnder is a row marked doubled sounding at time at an octave or
-// two under hz, within 50 ¢, or -1: a doubling the contract reports once,
-// on the lower note ("doubled": another voice an octave or two above, which
-// one microphone cannot part from it; docs/interface.md).
-func doubledUnder(rows []map[string]string, at, hz float64) int {
-	for j, r := range rows {
-		for _, m := range []float64{2, 4} {
-			if r["doubled"] == "true" && num(r, "start_s") <= at && at <= num(r, "end_s") && math.Abs(testsignal.Cents(m*num(r, "hz"), hz)) < 50 {
-				return j
-			}
-		}
-	}
-	return -1
-}
-
 // partNear finds the part note a row's pitch belongs to, within 50 ¢,
 // sounding during the row or ringing on after its release (half a second):
 // part and note index, or -1.
