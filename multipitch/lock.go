@@ -162,3 +162,10 @@ func (e *Estimator) oneInstrument(v int) bool {
 	even, odd, ok := e.lockedTo(v)
 	return ok && odd < periodicLock && even >= odd+lockMargin
 }
+
+// phasesWeighed reports whether enough of voice v's partials, of each
+// parity, have been followed to weigh their locks (lockedTo).
+func (e *Estimator) phasesWeighed(v int) bool {
+	_, _, ok := e.lockedTo(v)
+	return ok
+}

@@ -7,6 +7,7 @@ import (
 	"testing"
 
 	"fifthline/harmony"
+	"fifthline/internal/testsignal"
 	"fifthline/multipitch"
 	"fifthline/pitchdetect"
 	"fifthline/session"
@@ -171,4 +172,19 @@ func TestLiveChordsOfFewerVoicesThanSound(t *testing.T) {
 			t.Errorf("%s: chords %q, want %q", tc.name, got, tc.want)
 		}
 	}
+}
+
+// doubledUnder is a row marked doubled sounding at time at an octave or
+// two under hz, within 50 ¢, or -1: a doubling the contract reports once,
+// on the lower note ("doubled": another voice an octave or two above, which
+// one microphone cannot part from it; docs/interface.md).
+func doubledUnder(rows []map[string]string, at, hz float64) int {
+	for j, r := range rows {
+		for _, m := range []float64{2, 4} {
+			if r["doubled"] == "true" && num(r, "start_s") <= at && at <= num(r, "end_s") && math.Abs(testsignal.Cents(m*num(r, "hz"), hz)) < 50 {
+				return j
+			}
+		}
+	}
+	return -1
 }
