@@ -296,6 +296,9 @@ type rowReading struct {
 	Role    string  // root, third, fifth, seventh
 	Just    float64 // cents against just above the sounding root
 	Doubled bool    // another voice an octave above it (groupRow.Doubled)
+	// Unheard: a voice on one microphone that holds no pitch while other
+	// voices do (unheardNow): the row says so rather than a note.
+	Unheard bool
 }
 
 // readings reads every row in the current tuning: members of the chord
@@ -308,8 +311,14 @@ func (g *groupModel) readings() []rowReading {
 			members[rows[m.Index]] = m
 		}
 	}
+	unheard := g.unheardNow()
 	for i, r := range g.rows {
 		rr := rowReading{Name: g.Names[i], On: !g.Off[i], Holding: r.Hz > 0, Heard: r.Last > 0, Doubled: r.Doubled}
+		if rr.Unheard = unheard && rr.On && rr.Heard && !rr.Holding; rr.Unheard {
+			rr.Doubled = false
+			out[i] = rr
+			continue
+		}
 		// After the chord: a row still reads in it until it plays on.
 		m, member := members[i]
 		member = member && rr.On && (g.sounding || !rr.Holding && !g.left[i])
@@ -322,6 +331,25 @@ func (g *groupModel) readings() []rowReading {
 		out[i] = rr
 	}
 	return out
+}
+
+// unheardNow says whether a row holding nothing is a voice not heard now:
+// on one microphone (long windows, GroupFrame.Span) a row is a place in
+// the chord, lowest first, not a player, so while other rows hold the
+// sounding chord its last pitch may be another chord's note (a previous
+// chord's E4 was shown under an F major whose F4 was hidden in its bass's
+// partials). A player's row keeps its last note: the player is still that
+// row; so do the voices' rows once the whole group stops (the last chord).
+func (g *groupModel) unheardNow() bool {
+	if g.span == 0 {
+		return false
+	}
+	for i, r := range g.rows {
+		if r.Hz > 0 && !g.Off[i] {
+			return true
+		}
+	}
+	return false
 }
 
 // Toggle switches row i (from 0) off or on and says so.

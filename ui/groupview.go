@@ -78,6 +78,8 @@ func groupRowLine(i int, r rowReading, cols groupColumns) screenLine {
 		return screenLine{text(head, dim), text(fmt.Sprintf("off — %d turns it on", i+1), dim)}
 	case !r.Heard:
 		return screenLine{text(head, plainRole), text("·", dim)}
+	case r.Unheard:
+		return screenLine{text(head, plainRole), text(unheardWords, dim)}
 	}
 	role := lit
 	if !r.Holding {
@@ -103,6 +105,9 @@ func groupRowLine(i int, r rowReading, cols groupColumns) screenLine {
 	}
 	return l
 }
+
+// unheardWords fill the row of a voice not heard while others sound.
+const unheardWords = "not heard"
 
 // doubledMark ends the row of a voice with another an octave above it.
 const doubledMark = "doubled"

@@ -199,6 +199,7 @@ func hearVoices(ctx context.Context, src source.Source, name string, tuning func
 		}
 	})
 	tr.keepFrames = vo.chords
+	tr.most = vo.max
 	block := make([]float32, 1024)
 	for read := 0; emitErr == nil; {
 		if err = ctx.Err(); err != nil {

@@ -65,6 +65,7 @@ type tracker struct {
 	emit        func(voiceNote)
 	waiting     []voiceNote // notes given out, waiting for a lost voice's (give)
 	keepFrames  bool        // for reading chords: each track's frames
+	most        int         // the most voices numbered (--voices N); 0: heardVoices
 	fed         []*track    // the track each voice of the last frame went to
 	aside       []float64   // the voices --voices N left out of the frame pushed (voicelost.go)
 }
@@ -250,18 +251,18 @@ func (tr *tracker) deliver(t *track, h pitchdetect.Held, stepped bool) {
 // apart; within half a window they count as sounding at the note's start.
 func (tr *tracker) voiceAt(t *track, start, hz float64) int {
 	together := tr.window / 2
-	voice := 1
+	var below []span
 	for _, d := range tr.done {
 		if d.Start <= start+together && d.End >= start && d.Hz < hz {
-			voice++
+			below = append(below, span{d.Start, d.End})
 		}
 	}
 	for _, o := range tr.tracks {
 		if o != t && !o.delivered && o.start <= start+together && o.count >= o.seg.MinFrames && o.hz < hz && !o.onPartials() {
-			voice++
+			below = append(below, span{o.start, math.Inf(1)})
 		}
 	}
-	return voice
+	return tr.numbered(below, start, together)
 }
 
 // doneNote is a note given out, with its track's mean power and where
