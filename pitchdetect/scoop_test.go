@@ -52,8 +52,8 @@ func TestAScoopIsLeftOutAtEveryPhase(t *testing.T) {
 		{"horn's A3", hornA3Phase0, hornA3Phase1, -0.0107, 0.5},
 		{"trumpet's C4", trumpetC4, trumpetC4[1:], -0.0107, 0.1},
 	} {
-		ga := s.glideAfter(hopFrames(c.a, c.t0a, 220), c.a, wobble)
-		gb := s.glideAfter(hopFrames(c.b, 0, 220), c.b, wobble-1)
+		ga, _ := s.glideAfter(hopFrames(c.a, c.t0a, 220), c.a, wobble)
+		gb, _ := s.glideAfter(hopFrames(c.b, 0, 220), c.b, wobble-1)
 		ta, tb := c.t0a+float64(ga)*512/48000, float64(gb)*512/48000
 		if ga == 0 || gb == 0 || math.Abs(ta-tb) > 1.01*512/48000 {
 			t.Errorf("%s: held from %.3f s and %.3f s (frames %d, %d); want both, within a hop", c.name, ta, tb, ga, gb)
@@ -94,7 +94,7 @@ func TestWhatIsNoScoop(t *testing.T) {
 		{"one misread frame", misread},
 		{"a held part under a vibrato's cycle", hornA3Phase1[:34]},
 	} {
-		if g := new(Segmenter).scoop(hopFrames(c.track, 0, 220), c.track); g != 0 {
+		if g, _ := new(Segmenter).scoop(hopFrames(c.track, 0, 220), c.track); g != 0 {
 			t.Errorf("%s: a scoop of %d frames, want none", c.name, g)
 		}
 	}
