@@ -13,12 +13,12 @@ import (
 // within the ensemble issue's bar of itself (1 ¢, 1.5 ¢ with vibrato).
 // The part is a viola's of our own (FluidR3, General MIDI 41, fluidsynth,
 // bent 2 ¢ sharp): C4 for 2.9 s, D4 and G3 (with vibrato). FluidR3's D4 holds 15 ¢ sharp of
-// where it then wavers for its first 0.3 s, and its attack reaches about
-// as far beyond the range its later half spans as the scoop rule's line
-// (1.42–1.53 of that range's width over the eight leads): left out whole
-// or not at all, it read +2.2 ¢ after leads of 0–2 eighths of a hop and
-// −2.0 ¢ after 3–7, 4.2 ¢ apart (measured); weighed in part between a
-// drift's reach and a scoop's, 0.7 ¢ apart.
+// where it then wavers for its first 0.3 s: left out whole or not at all
+// as its reach beyond the range its later half spans fell either side of
+// the scoop rule's line, it read +2.2 ¢ after leads of 0–2 eighths of a
+// hop and −2.0 ¢ after 3–7, 4.27 ¢ apart; its reach measured in the held
+// part's standard deviations and the attack left out in part between a
+// drift's reach and a scoop's, 0.24 ¢ apart (measured).
 func TestAHeldNoteReadsAlikeAtEveryPhaseOfTheHop(t *testing.T) {
 	if testing.Short() {
 		t.Skip("renders with fluidsynth")
