@@ -31,14 +31,18 @@ const (
 	// frames, where the range's ends are single frames that the hop's
 	// phase moves). A steady drift's first half reaches 3.6 of its later
 	// half's (a straight one of the fewest frames scoopSeconds lets
-	// through, 40); the trumpet's scoop reached 6.4, the horn's 8.1–11.7
-	// (measured). Between the two the attack is left out in part, in
-	// proportion: a rule that left it out whole or not at all read the
-	// same note apart by the hop's phase wherever a note's reach fell near
-	// the rule's line (FluidR3's viola's D4, 15 ¢ sharp for 0.3 s, read
-	// +2.2 or −2.0 ¢ over eight phases; measured).
+	// through, 40); a scoop, from 5.3 on: the trumpet's reached 6.4, the
+	// horn's 8.1–11.7, a recorder's E5 that comes down 30 ¢ over 0.8 s
+	// and holds 5.3–6.6, its D5s 5.5–5.8 over the hop's eight phases,
+	// each left out whole at most phases when the reach was measured in
+	// the held range's widths (FluidR3, measured). Between the two the
+	// attack is left out in part, in proportion: a rule that left it out
+	// whole or not at all read the same note apart by the hop's phase
+	// wherever a note's reach fell near the rule's line (FluidR3's viola's
+	// D4, 15 ¢ sharp for 0.3 s and reaching 4.5–4.6, read +2.2 or −2.0 ¢
+	// over eight phases; measured).
 	driftReach = 4.0
-	scoopReach = 6.3
+	scoopReach = 5.3
 )
 
 // scoop returns how many of the first frames fr (their pitches c, cents)
