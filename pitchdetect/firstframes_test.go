@@ -31,10 +31,10 @@ func TestGlideAfterAnAttackPartedByADropout(t *testing.T) {
 	if got := s.glide(c, wobble); got != 0 {
 		t.Errorf("glide: %d frames, want none (the first frame lies in the held range)", got)
 	}
-	if got := s.glideAfter(fr, c, wobble); got != 7 {
+	if got, _ := s.glideAfter(fr, c, wobble); got != 7 {
 		t.Errorf("glideAfter: %d frames, want 7 (the two before the dropout and the fall after it)", got)
 	}
-	if got := s.glideAfter(fr[2:], c[2:], wobble-2); got != 5 {
+	if got, _ := s.glideAfter(fr[2:], c[2:], wobble-2); got != 5 {
 		t.Errorf("without the two frames: %d, want 5", got)
 	}
 }

@@ -64,10 +64,11 @@ func (s *Segmenter) glide(c []float64, wobble int) int {
 // (at one phase of the hop in eight), the first, lying in the held range,
 // left the fall in the note, 1.1 ¢ sharp of the part read at the others
 // (measured). Where neither finds a glide, an attack may still scoop or
-// swing into the note (scoop.go).
-func (s *Segmenter) glideAfter(fr []Estimate, c []float64, wobble int) int {
+// swing into the note (scoop.go). out is how much of the g frames a
+// reading leaves out: a glide's all, a scoop's as scoop says.
+func (s *Segmenter) glideAfter(fr []Estimate, c []float64, wobble int) (g int, out float64) {
 	if g := s.glide(c, wobble); g > 0 {
-		return g
+		return g, 1
 	}
 	p := 0 // the first frame after the wobble's last dropout
 	for b := min(wobble, len(fr)-1); b > 0 && p == 0; b-- {
@@ -79,7 +80,7 @@ func (s *Segmenter) glideAfter(fr []Estimate, c []float64, wobble int) int {
 		return s.scoop(fr, c)
 	}
 	if g := s.glide(c[p:], wobble-p); g > 0 {
-		return p + g
+		return p + g, 1
 	}
 	return s.scoop(fr, c)
 }

@@ -26,12 +26,23 @@ const (
 	// an onset misread, and what it moves the mean is the detector's to
 	// answer for, not a rule about attacks.
 	scoopFrames = 2
-	// scoopReach: how far beyond the held range, in its widths, the
-	// attack reaches. A steady drift's first half lies about one width
-	// beyond its later half (1.0–1.2 with the range's extremes left out);
-	// the trumpet's scoop reached 1.8–2.9, the horn's 2.5–3.9 over the
-	// hop's eight phases, with bleed and without (measured).
-	scoopReach = 1.5
+	// driftReach and scoopReach: how far beyond the held range the attack
+	// reaches, in the held part's standard deviations (a mean over all its
+	// frames, where the range's ends are single frames that the hop's
+	// phase moves). A steady drift's first half reaches 3.6 of its later
+	// half's (a straight one of the fewest frames scoopSeconds lets
+	// through, 40); a scoop, from 5.3 on: the trumpet's reached 6.4, the
+	// horn's 8.1–11.7, a recorder's E5 that comes down 30 ¢ over 0.8 s
+	// and holds 5.3–6.6, its D5s 5.5–5.8 over the hop's eight phases,
+	// each left out whole at most phases when the reach was measured in
+	// the held range's widths (FluidR3, measured). Between the two the
+	// attack is left out in part, in proportion: a rule that left it out
+	// whole or not at all read the same note apart by the hop's phase
+	// wherever a note's reach fell near the rule's line (FluidR3's viola's
+	// D4, 15 ¢ sharp for 0.3 s and reaching 4.5–4.6, read +2.2 or −2.0 ¢
+	// over eight phases; measured).
+	driftReach = 4.0
+	scoopReach = 5.3
 )
 
 // scoop returns how many of the first frames fr (their pitches c, cents)
@@ -39,18 +50,19 @@ const (
 // spans (heldRange): those up to the last frame of the first half beyond
 // that range on the side the attack comes from (its farthest frame's).
 // At least scoopFrames of them lie beyond it by more than its width (and
-// glideCents), one scoopReach widths, and the held part after them lasts
-// scoopSeconds and at least half as long as they do. On the other side
-// the held note may waver past its later half's range (the trumpet's C4
-// holds at +1 ¢ before its dip). It returns 0 when there is no such
+// glideCents), one further than driftReach, and the held part after them
+// lasts scoopSeconds and at least half as long as they do. out is how much
+// of them a reading leaves out: all from scoopReach on, less toward
+// driftReach. On the other side the held note may waver past its later
+// half's range (the trumpet's C4 holds at +1 ¢ before its dip). It returns 0 when there is no such
 // attack, and for a voice read out of a chord (Margin set: cmd's voice
 // tracker), whose frames scatter too widely for its later half's range to
 // say where an attack ends (a chorused voice's by 7 to 10 ¢; the rule
 // moved a four-part choir's G4 8 ¢ from its truth; measured).
-func (s *Segmenter) scoop(fr []Estimate, c []float64) int {
+func (s *Segmenter) scoop(fr []Estimate, c []float64) (g int, out float64) {
 	n := len(c)
 	if n < 2*glideRest || len(fr) < n || s.Margin > 0 {
-		return 0
+		return 0, 0
 	}
 	lo, hi := heldRange(c[n/2:])
 	side := attackSide(c[:n/2], lo, hi)
@@ -60,7 +72,7 @@ func (s *Segmenter) scoop(fr []Estimate, c []float64) int {
 		}
 		return x - hi
 	}
-	g := 0 // after the last frame of the first half beyond lo..hi
+	// g: after the last frame of the first half beyond lo..hi
 	for i, x := range c[:n/2] {
 		if beyondBy(x) > glideSlack {
 			g = i + 1
@@ -73,10 +85,12 @@ func (s *Segmenter) scoop(fr []Estimate, c []float64) int {
 		}
 		reach = max(reach, beyondBy(x))
 	}
-	if beyond < scoopFrames || reach < scoopReach*wide || n-g < (g+1)/2 || fr[n-1].Time-fr[g].Time < scoopSeconds {
-		return 0
+	_, sd := meanStd(c[n/2:])
+	out = min((reach/max(sd, glideSlack)-driftReach)/(scoopReach-driftReach), 1)
+	if beyond < scoopFrames || out <= 0 || n-g < (g+1)/2 || fr[n-1].Time-fr[g].Time < scoopSeconds {
+		return 0, 0
 	}
-	return g
+	return g, out
 }
 
 // attackSide is −1 if the farthest of the frames c from lo..hi lies below

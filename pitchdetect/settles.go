@@ -26,22 +26,24 @@ func judgedEarly(first, hi, until float64) bool {
 
 // settlesAt is Settled for a note judged early: fr are its steady part's
 // frames within settleSeconds of the first, of which the first wobble may
-// precede a glide (glide), and how many of them are that glide. It reads them in cents from the first frame, so
-// an open note and the note it ends as read them alike.
-func (s *Segmenter) settlesAt(fr []Estimate, wobble int) (glide int, at float64) {
+// precede a glide (glide), and how many of them are that glide, and how
+// much of it a reading leaves out (glideAfter). It reads them in cents
+// from the first frame, so an open note and the note it ends as read them
+// alike.
+func (s *Segmenter) settlesAt(fr []Estimate, wobble int) (glide int, out, at float64) {
 	s.jt, s.jc = s.jt[:0], s.jc[:0]
 	for _, e := range fr {
 		s.jt = append(s.jt, e.Time)
 		s.jc = append(s.jc, 1200*math.Log2(e.Hz/fr[0].Hz))
 	}
-	glide = s.glideAfter(fr, s.jc, wobble)
+	glide, out = s.glideAfter(fr, s.jc, wobble)
 	at = s.jt[glide]
 	if !findVibrato(s.jt, s.jc, s.Window).ok {
 		if v, k := s.lateVibrato(s.jt, s.jc); v.ok {
 			at = max(at, s.jt[k])
 		}
 	}
-	return glide, at
+	return glide, out, at
 }
 
 // earlyFrames is how many of fr, from the first, lie within settleSeconds
@@ -73,7 +75,7 @@ func (s *Segmenter) Settles() (at float64, ok bool) {
 		return 0, false
 	}
 	early := fr[i:][:earlyFrames(fr[i:])]
-	_, at = s.settlesAt(early, s.wobble(early, h.Start))
+	_, _, at = s.settlesAt(early, s.wobble(early, h.Start))
 	s.settles = settles{start: h.Start, at: at, known: true}
 	return at, true
 }

@@ -100,16 +100,21 @@ func (s *Segmenter) summarise(live bool, next float64) Held {
 	// A long note's is judged on its first settleSeconds alone (settles.go).
 	settled, judged := 0.0, n > 0 && judgedEarly(s.t[0], hi, until)
 	var g int
+	out := 1.0 // how much of the glide the mean leaves out (glideAfter)
 	if judged {
 		early := fr[i:][:earlyFrames(fr[i:])]
-		g, settled = s.settlesAt(early, s.wobble(early, h.Start))
+		g, out, settled = s.settlesAt(early, s.wobble(early, h.Start))
 	} else {
-		g = s.glideAfter(fr[i:], s.c, s.wobble(fr[i:j], h.Start))
+		g, out = s.glideAfter(fr[i:], s.c, s.wobble(fr[i:j], h.Start))
 	}
 	if s.c = s.c[:n]; g >= n || turning {
 		g = 0
 	}
 	mean, sd := meanStd(s.c[g:])
+	if g > 0 && out < 1 {
+		whole, _ := meanStd(s.c)
+		mean = out*mean + (1-out)*whole
+	}
 	// A slurred note that moves one way and holds only for its last frames,
 	// fewer than its glide's, spent most of its sound on the way: a
 	// listener's pitch for it is the median of its frames, not the pitch it

@@ -39,8 +39,21 @@ func fluidPhrase(t *testing.T, program int, phrase []testsignal.MIDINote) ([]flo
 	return fluidMIDI(t, testsignal.MIDI(program, phrase))
 }
 
-// fluidMIDI renders a Standard MIDI File as fluidHeld does.
+// fluidMIDI renders a Standard MIDI File as fluidHeld does: its left
+// channel.
 func fluidMIDI(t *testing.T, smf []byte) ([]float32, string) {
+	t.Helper()
+	lr, wav := fluidMIDIStereo(t, smf)
+	x := make([]float32, len(lr)/2)
+	for i := range x {
+		x[i] = lr[2*i]
+	}
+	return x, wav
+}
+
+// fluidMIDIStereo is fluidMIDI's render, both channels interleaved (a
+// sample may differ between them), and the left channel as a WAV file.
+func fluidMIDIStereo(t *testing.T, smf []byte) ([]float32, string) {
 	t.Helper()
 	fluid, err := exec.LookPath("fluidsynth")
 	if err != nil {
@@ -63,9 +76,9 @@ func fluidMIDI(t *testing.T, smf []byte) ([]float32, string) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	x := make([]float32, len(b)/8)
+	x := make([]float32, len(b)/4)
 	for i := range x {
-		x[i] = math.Float32frombits(binary.LittleEndian.Uint32(b[8*i:]))
+		x[i] = math.Float32frombits(binary.LittleEndian.Uint32(b[4*i:]))
 	}
 	return x, wav
 }
