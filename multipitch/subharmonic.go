@@ -1,6 +1,9 @@
 package multipitch
 
-import "math"
+import (
+	"math"
+	"slices"
+)
 
 // A voice far under another can take what a vibrato smears of the other's
 // partials: a lone violin's D5 swinging ±13 ¢ over the window leaves its
@@ -82,5 +85,75 @@ func (e *Estimator) dropHollow() {
 		e.settle()
 		e.fitter.build(e.f0, e.fitter.maxK, -1)
 		e.fitter.solve()
+	}
+}
+
+// A lone voice can be read an octave low on a sample whose waveform
+// repeats only every second period: FluidR3's tuba (General MIDI program
+// 59, 0-based 58) sounds faint lines at the odd multiples of half its
+// fundamental, sharp peaks 23 to 44 dB over the noise floor, which make
+// its octave below a voice to the search and to the follow (follow.go)
+// once an onset's half window has read it so. Those odd partials lie 37
+// to 47 dB under the even ones beside them (its own partials; measured on
+// B♭2, D3 and F3): the voice is its octave's, nothing of its own sounds. A
+// real low voice's odd partials carry a share of its power (a bassoon's
+// 3rd and 5th partials are among its strongest, and where another voice
+// covers them, its fundamental or 5th and 7th still sound).
+
+// subOctaveShare is the share of a voice's fitted power its own odd
+// partials, those on no other voice's, must hold for it to be a voice and
+// not its octave's subharmonic: a thousandth (30 dB), some 10 dB over the
+// tuba's subharmonic lines at their most.
+const subOctaveShare = 0.001
+
+// subOctaveMin is how many of the voice's odd partials must be its own
+// for their silence to tell.
+const subOctaveMin = 2
+
+// subOctave reports whether voice v, on no other voice's partial and with
+// no voice an octave above it, holds under subOctaveShare of its fitted
+// power in its own odd partials. A voice on another's partial is that
+// partial's question (smoothness.go): a G4 on a C3's 3rd partial has all
+// its odd partials on C3's but may still be a voice.
+func (e *Estimator) subOctave(v int) bool {
+	hz := e.f0[v]
+	if e.sharedByOther(hz, v) || slices.ContainsFunc(e.f0, near(2*hz)) {
+		return false
+	}
+	own, all, odd := 0.0, 0.0, 0
+	for k, a := range e.partialAmps(v) {
+		all += power(a)
+		if k%2 == 1 && a != 0 && !e.sharedByOther(float64(k)*hz, v) {
+			own += power(a)
+			odd++
+		}
+	}
+	return odd >= subOctaveMin && own < subOctaveShare*all
+}
+
+// sharedByOther reports whether hz lies within 3 bins of a partial of a
+// voice other than v.
+func (e *Estimator) sharedByOther(hz float64, v int) bool {
+	bin := e.fitter.binHz
+	for u, g := range e.f0 {
+		if u != v && math.Round(hz/g) >= 1 && math.Abs(hz-g*math.Round(hz/g)) < 3*bin {
+			return true
+		}
+	}
+	return false
+}
+
+// raiseSubOctaves moves each voice heard an octave under its own (subOctave)
+// up to it, and fits the voices afresh.
+func (e *Estimator) raiseSubOctaves() {
+	raised := false
+	for v := range e.f0 {
+		if e.subOctave(v) {
+			e.f0[v] *= 2
+			raised = true
+		}
+	}
+	if raised {
+		e.settle()
 	}
 }
