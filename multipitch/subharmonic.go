@@ -93,16 +93,17 @@ func (e *Estimator) dropHollow() {
 // 59, 0-based 58) sounds faint lines at the odd multiples of half its
 // fundamental, sharp peaks 23 to 44 dB over the noise floor, which make
 // its octave below a voice to the search and to the follow (follow.go)
-// once an onset's half window has read it so. Those odd partials lie 37
-// to 47 dB under the even ones beside them (its own partials; measured on
-// B♭2, D3 and F3): the voice is its octave's, nothing of its own sounds. A
+// once an onset's half window has read it so. Together those odd partials
+// hold 36 to 43 dB less power than the even ones, the tuba's own partials
+// (the first eight, measured on B♭2, D3 and F3): the voice is its
+// octave's, nothing of its own sounds. A
 // real low voice's odd partials carry a share of its power (a bassoon's
 // 3rd and 5th partials are among its strongest, and where another voice
 // covers them, its fundamental or 5th and 7th still sound).
 
 // subOctaveShare is the share of a voice's fitted power its own odd
 // partials, those on no other voice's, must hold for it to be a voice and
-// not its octave's subharmonic: a thousandth (30 dB), some 10 dB over the
+// not its octave's subharmonic: a thousandth (30 dB), 6 dB over the
 // tuba's subharmonic lines at their most.
 const subOctaveShare = 0.001
 
