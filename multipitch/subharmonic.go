@@ -96,10 +96,9 @@ func (e *Estimator) dropHollow() {
 // once an onset's half window has read it so. Together those odd partials
 // hold 36 to 43 dB less power than the even ones, the tuba's own partials
 // (the first eight, measured on B♭2, D3 and F3): the voice is its
-// octave's, nothing of its own sounds. A
-// real low voice's odd partials carry a share of its power (a bassoon's
-// 3rd and 5th partials are among its strongest, and where another voice
-// covers them, its fundamental or 5th and 7th still sound).
+// octave's, nothing of its own sounds. A real low voice's odd partials
+// carry a share of its power (a bassoon's 3rd and 5th partials are among
+// its strongest).
 
 // subOctaveShare is the share of a voice's fitted power its own odd
 // partials, those on no other voice's, must hold for it to be a voice and
@@ -127,7 +126,7 @@ func (e *Estimator) subOctave(v int) bool {
 	own, all := 0.0, 0.0
 	for k, a := range e.partialAmps(v) {
 		all += power(a)
-		shared := k%2 == 0 || e.sharedByOther(float64(k)*hz, v)
+		shared := k%2 == 0 || e.sharedPartial(float64(k)*hz, hz) // follow.go
 		if k%2 == 1 && k < 2*subOctaveOdd && (a == 0 || shared) {
 			return false
 		}
@@ -136,18 +135,6 @@ func (e *Estimator) subOctave(v int) bool {
 		}
 	}
 	return own < subOctaveShare*all
-}
-
-// sharedByOther reports whether hz lies within 3 bins of a partial of a
-// voice other than v.
-func (e *Estimator) sharedByOther(hz float64, v int) bool {
-	bin := e.fitter.binHz
-	for u, g := range e.f0 {
-		if u != v && math.Round(hz/g) >= 1 && math.Abs(hz-g*math.Round(hz/g)) < 3*bin {
-			return true
-		}
-	}
-	return false
 }
 
 // raiseSubOctaves moves each voice heard an octave under its own (subOctave)

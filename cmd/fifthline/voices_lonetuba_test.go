@@ -13,8 +13,8 @@ import (
 // an octave low, not marked doubled, nothing read an octave under it.
 // FluidR3's tuba (General MIDI program 59, 0-based 58: common practice)
 // plays two takes: F1 B♭1 D2 F2 B♭2 D3 F3 across its range, 2 s each, and
-// the brass quartet's part (F2, D3 a just third over B♭, G2 a just ninth
-// under A: voices_unseen2_test.go) in F major. The truth of each note is
+// the brass quartet's part (F2, D3 a just third under B♭, G2 two just
+// fifths over F: voices_unseen2_test.go) in F major. The truth of each note is
 // the median of the one-voice detector and aubio's yin and yinfft on the
 // same render (loneTruth). Its samples sound faint lines at the odd
 // multiples of half the fundamental, together 36 to 43 dB under its own
