@@ -57,6 +57,7 @@ func (e *Estimator) prune() {
 		}
 	}
 	e.dropHollow()
+	e.raiseSubOctaves()
 }
 
 // settle fits the voices kept afresh from their lowest partials up, with

@@ -1,6 +1,9 @@
 package multipitch
 
-import "math"
+import (
+	"math"
+	"slices"
+)
 
 // A voice far under another can take what a vibrato smears of the other's
 // partials: a lone violin's D5 swinging ±13 ¢ over the window leaves its
@@ -82,5 +85,69 @@ func (e *Estimator) dropHollow() {
 		e.settle()
 		e.fitter.build(e.f0, e.fitter.maxK, -1)
 		e.fitter.solve()
+	}
+}
+
+// A lone voice can be read an octave low on a sample whose waveform
+// repeats only every second period: FluidR3's tuba (General MIDI program
+// 59, 0-based 58) sounds faint lines at the odd multiples of half its
+// fundamental, sharp peaks 23 to 44 dB over the noise floor, which make
+// its octave below a voice to the search and to the follow (follow.go)
+// once an onset's half window has read it so. Together those odd partials
+// hold 36 to 43 dB less power than the even ones, the tuba's own partials
+// (the first eight, measured on B♭2, D3 and F3): the voice is its
+// octave's, nothing of its own sounds. A real low voice's odd partials
+// carry a share of its power (a bassoon's 3rd and 5th partials are among
+// its strongest).
+
+// subOctaveShare is the share of a voice's fitted power its own odd
+// partials, those on no other voice's, must hold for it to be a voice and
+// not its octave's subharmonic: a thousandth (30 dB), 6 dB over the
+// tuba's subharmonic lines at their most.
+const subOctaveShare = 0.001
+
+// subOctaveOdd is how many of the lowest voice's first odd partials (1,
+// 3, 5, 7) must be its own, on no other voice's, for their silence to
+// tell: in a chord the other voices take a real low voice's odd partials
+// (a cello's G2 under D3, a bassoon's under its formant's voice), and what
+// it keeps of its own then is its faint high partials (raised so, the
+// rendered trio lost a note and the string quartet's median rose from 0.69
+// to 1.06 ¢: measured).
+const subOctaveOdd = 4
+
+// subOctave reports whether voice v, the lowest, its first subOctaveOdd
+// odd partials its own and no voice an octave above it, holds under
+// subOctaveShare of its fitted power in its own odd partials.
+func (e *Estimator) subOctave(v int) bool {
+	hz := e.f0[v]
+	if hz > slices.Min(e.f0) || slices.ContainsFunc(e.f0, near(2*hz)) {
+		return false
+	}
+	own, all := 0.0, 0.0
+	for k, a := range e.partialAmps(v) {
+		all += power(a)
+		shared := k%2 == 0 || e.sharedPartial(float64(k)*hz, hz) // follow.go
+		if k%2 == 1 && k < 2*subOctaveOdd && (a == 0 || shared) {
+			return false
+		}
+		if !shared {
+			own += power(a)
+		}
+	}
+	return own < subOctaveShare*all
+}
+
+// raiseSubOctaves moves each voice heard an octave under its own (subOctave)
+// up to it, and fits the voices afresh.
+func (e *Estimator) raiseSubOctaves() {
+	raised := false
+	for v := range e.f0 {
+		if e.subOctave(v) {
+			e.f0[v] *= 2
+			raised = true
+		}
+	}
+	if raised {
+		e.settle()
 	}
 }
