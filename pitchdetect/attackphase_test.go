@@ -84,14 +84,5 @@ func readAsAnalyzeDoes(t *testing.T, x []float32) []Held {
 	}
 	s := d.NewSegmenter()
 	s.Reread = d.Reread
-	var notes []Held
-	for _, e := range d.Feed(x, nil) {
-		if h, ok := s.Push(e); ok {
-			notes = append(notes, h)
-		}
-	}
-	if h, ok := s.Flush(); ok {
-		notes = append(notes, h)
-	}
-	return notes
+	return segmentWith(s, d.Feed(x, nil))
 }

@@ -53,7 +53,11 @@ func measure(est []Estimate, hz float64) errorStats {
 // segment runs the estimates through a Segmenter matched to the detector.
 func segment(est []Estimate, rate float64) []Held {
 	d, _ := New(rate, 0, 0)
-	s := d.NewSegmenter()
+	return segmentWith(d.NewSegmenter(), est)
+}
+
+// segmentWith runs the estimates through s, its last note flushed.
+func segmentWith(s *Segmenter, est []Estimate) []Held {
 	var notes []Held
 	for _, e := range est {
 		if h, ok := s.Push(e); ok {

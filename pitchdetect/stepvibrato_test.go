@@ -190,15 +190,7 @@ func TestFluidR3VibratoNotesHoldNoStep(t *testing.T) {
 		}
 		s := d.NewSegmenter()
 		s.StepCents = 20
-		var notes []Held
-		for _, e := range d.Feed(x, nil) {
-			if h, ok := s.Push(e); ok {
-				notes = append(notes, h)
-			}
-		}
-		if h, ok := s.Flush(); ok {
-			notes = append(notes, h)
-		}
+		notes := segmentWith(s, d.Feed(x, nil))
 		if len(notes) != len(p.keys) {
 			t.Errorf("%s: %d notes for %d keys: %+v", p.name, len(notes), len(p.keys), notes)
 		}
