@@ -127,7 +127,7 @@ func TestAMembershipRowNamesItsJustRatio(t *testing.T) {
 			t.Errorf("a 7/4 seventh read %.2f ¢ from 7/4", e.JustCents)
 		}
 	}
-	_, warns, _ = Read(strings.NewReader(headerLine()+strings.TrimSuffix(sampleLine, ",")+",9:8\n"), "j")
+	_, warns, _ = Read(strings.NewReader(headerLine()+strings.TrimSuffix(sampleLine, ",,tonic")+",9:8,tonic\n"), "j")
 	if len(warns) != 1 || !strings.Contains(warns[0], `just_ratio "9:8"`) {
 		t.Errorf("a stray ratio on a note row: %q", warns)
 	}
