@@ -98,7 +98,7 @@ func describe(list, name string) (description string, channels int) {
 		case "Sample Specification":
 			if mine {
 				for _, w := range strings.Fields(v) {
-					if n, err := strconv.Atoi(strings.TrimSuffix(w, "ch")); err == nil && strings.HasSuffix(w, "ch") {
+					if n, err := strconv.Atoi(strings.TrimSuffix(w, "ch")); err == nil && n > 0 && strings.HasSuffix(w, "ch") {
 						channels = n
 					}
 				}
