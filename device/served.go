@@ -20,6 +20,7 @@ type Served struct {
 	Name        string // the server's name for it: "alsa_input.usb-…", "mic.monitor"
 	Description string // the server's words for it, as its volume control shows them
 	Channels    int    // 0 where the server did not say
+	ByEnv       bool   // PULSE_SOURCE named it, not the server's default
 }
 
 // servedNames are the ALSA devices that a sound server's plugin stands
@@ -28,6 +29,10 @@ var servedNames = map[string]bool{"default": true, "pulse": true, "pipewire": tr
 
 // pactlWait is how long pactl may take before the name is given up on.
 const pactlWait = 2 * time.Second
+
+// ServedSource is the sound server's source behind an input device; ok is
+// false where no server serves it or none answers.
+func ServedSource(dev Info) (Served, bool) { return servedSource(dev) }
 
 // servedSource asks the sound server, through pactl, which source the
 // device reaches: PULSE_SOURCE where the environment sets it, else the
@@ -46,7 +51,9 @@ func servedSource(dev Info) (s Served, ok bool) {
 	if strings.Contains(field(info, "Server Name"), "PipeWire") {
 		s.Server = "PipeWire"
 	}
-	if s.Name = os.Getenv("PULSE_SOURCE"); s.Name == "" {
+	if s.Name = os.Getenv("PULSE_SOURCE"); s.Name != "" {
+		s.ByEnv = true
+	} else {
 		s.Name = field(info, "Default Source")
 	}
 	if s.Name == "" {
@@ -108,6 +115,14 @@ func describe(list, name string) (description string, channels int) {
 	return description, channels
 }
 
+// Words are the source for a musician: its description, else its name.
+func (s Served) Words() string {
+	if s.Description != "" {
+		return s.Description
+	}
+	return s.Name
+}
+
 // Heard names what a device reaches for a musician: its PortAudio name, and
 // where a sound server serves it the source behind it ("default
 // (PulseAudio: Scarlett 2i2 USB Analog Stereo)").
@@ -115,9 +130,5 @@ func (s Served) heard(device string) string {
 	if s.Name == "" {
 		return device
 	}
-	what := s.Description
-	if what == "" {
-		what = s.Name
-	}
-	return fmt.Sprintf("%s (%s: %s)", device, s.Server, what)
+	return fmt.Sprintf("%s (%s: %s)", device, s.Server, s.Words())
 }

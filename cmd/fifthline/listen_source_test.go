@@ -3,6 +3,7 @@ package main
 import (
 	"os/exec"
 	"path/filepath"
+	"regexp"
 	"strings"
 	"testing"
 
@@ -40,7 +41,8 @@ func TestGroupMeterNamesItsSourceAndTheNotesStillToCome(t *testing.T) {
 // fifth out of the four without a word, so listen refuses, saying how
 // many channels the source has, as analyze does for a file (a usage error,
 // exit 2); likewise two players on a one-channel microphone, a channel
-// past the last, and a stream of more channels than the source has.
+// past the last, and a stream of more channels than the source has. And
+// devices names that source beside PortAudio's devices.
 func TestListenRefusesChannelsTheSourceHasNot(t *testing.T) {
 	t.Parallel()
 	four := vmic.PrivateChannels(t, fourChannels...)
@@ -68,5 +70,11 @@ func TestListenRefusesChannelsTheSourceHasNot(t *testing.T) {
 	// As many as it has: heard, no complaint.
 	if code, _, stderr := runBinary(t, "", four.Env(), "listen", "--plain", "--duration", "1s", "--players", "a,b,c,d"); code != 0 {
 		t.Errorf("four players on four channels: exit %d, %q", code, stderr)
+	}
+	// devices says what its 32 channels of "default" reach.
+	code, out, stderr := runBinary(t, "", four.Env(), "devices")
+	says := regexp.MustCompile(`default: input from PulseAudio's source "Monitor of [^"]+", 4 channels, as PULSE_SOURCE names it\n$`)
+	if code != 0 || !says.MatchString(out) {
+		t.Errorf("devices: exit %d, stderr %q:\n%s", code, stderr, out)
 	}
 }
