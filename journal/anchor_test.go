@@ -2,7 +2,6 @@ package journal
 
 import (
 	"math"
-	"path/filepath"
 	"strings"
 	"testing"
 
@@ -21,31 +20,22 @@ import (
 // than the anchor column reads as the temperament's own then (tonic in
 // just, a4 otherwise).
 func TestTheJournalSaysWhichAnchorEachNoteWasReadWith(t *testing.T) {
-	path := filepath.Join(t.TempDir(), "just.csv")
-	w, err := Open(path, Meta{Player: "Ann", Now: (&clock{opening}).now})
-	if err != nil {
-		t.Fatal(err)
-	}
 	just, err := target.ParseTemperament("just")
 	if err != nil {
 		t.Fatal(err)
 	}
 	hz := 440 * math.Exp2(-200.0/1200) // G4 in equal temperament (ISO 16)
-	for _, anchor := range []target.Anchor{target.AnchorDefault, target.AnchorA4} {
-		tu := target.Default()
-		tu.Temperament, tu.Anchor = just, anchor
-		ev := session.Event{Source: "mic", Held: pitchdetect.Held{Start: 1, End: 2, Hz: hz, Frames: 40}, Reading: tu.Classify(hz), Tuning: tu}
-		if err := w.Write(ev); err != nil {
-			t.Fatal(err)
+	es := written(t, Meta{Player: "Ann", Now: (&clock{opening}).now}, 2, func(w *Writer) error {
+		for _, anchor := range []target.Anchor{target.AnchorDefault, target.AnchorA4} {
+			tu := target.Default()
+			tu.Temperament, tu.Anchor = just, anchor
+			ev := session.Event{Source: "mic", Held: pitchdetect.Held{Start: 1, End: 2, Hz: hz, Frames: 40}, Reading: tu.Classify(hz), Tuning: tu}
+			if err := w.Write(ev); err != nil {
+				return err
+			}
 		}
-	}
-	if err := w.Close(); err != nil {
-		t.Fatal(err)
-	}
-	es, warns, err := ReadFile(path)
-	if err != nil || len(warns) != 0 || len(es) != 2 {
-		t.Fatalf("%d entries, %q, %v", len(es), warns, err)
-	}
+		return nil
+	})
 	if es[0].Anchor != "tonic" || es[1].Anchor != "a4" {
 		t.Errorf("anchors %q and %q, want tonic (just's own) and a4 (--anchor a4)", es[0].Anchor, es[1].Anchor)
 	}
@@ -54,7 +44,7 @@ func TestTheJournalSaysWhichAnchorEachNoteWasReadWith(t *testing.T) {
 	}
 	old := olderHeaderLine() + olderSampleLine() + "\n" +
 		olderHeaderLine() + strings.Replace(olderSampleLine(), "meantone:1/4", "just", 1) + "\n"
-	es, warns, err = Read(strings.NewReader(old), "old.csv")
+	es, warns, err := Read(strings.NewReader(old), "old.csv")
 	if err != nil || len(warns) != 0 || len(es) != 2 {
 		t.Fatalf("old journal: %d entries, %q, %v", len(es), warns, err)
 	}
