@@ -50,12 +50,33 @@ type InputOptions struct {
 	StallTimeout time.Duration
 }
 
+// ChannelsError is an input asked for more channels than it has (counted
+// as its sound server's source has them, where one serves it).
+type ChannelsError struct {
+	Input   string // what is listened to (Input.Heard)
+	Has     int
+	Channel int // the channel asked for beyond them, or
+	Stream  int // the stream's channel count asked for
+}
+
+func (e *ChannelsError) Error() string {
+	has := fmt.Sprintf("%d channels", e.Has)
+	if e.Has == 1 {
+		has = "one channel"
+	}
+	if e.Stream > 0 {
+		return fmt.Sprintf("input %s has %s; a stream of %d requested", e.Input, has, e.Stream)
+	}
+	return fmt.Sprintf("input %s has %s; channel %d requested", e.Input, has, e.Channel)
+}
+
 // Input is a live PortAudio input stream carrying one or more channels in
 // step. It is a source.Multi, and a source.Source when it carries one
 // channel. One goroutine reads; Stats and Close may be called from any.
 type Input struct {
 	*stream
 	channels []int // carried, counted from 1
+	served   Served
 	stall    time.Duration
 	one      [1][]float32 // Read's single destination, kept to spare an allocation
 	done     chan struct{}
@@ -81,13 +102,23 @@ func OpenInput(opt InputOptions) (*Input, error) {
 	st, err := open(streamSpec{
 		dir: input, device: opt.Device, rate: opt.SampleRate,
 		channels: func(dev *portaudio.DeviceInfo) (int, error) {
-			opened := opt.StreamChannels
-			if opened > dev.MaxInputChannels {
-				return 0, fmt.Errorf("input %q has %d channel(s); a stream of %d requested", dev.Name, dev.MaxInputChannels, opened)
+			// A sound server would remix a stream of more channels than
+			// its source has out of the ones it has, without a word.
+			in.served, _ = servedSource(deviceInfo(dev, nil, nil))
+			has := dev.MaxInputChannels
+			if in.served.Channels > 0 {
+				has = min(has, in.served.Channels)
 			}
+			short := &ChannelsError{Input: in.served.heard(dev.Name), Has: has}
+			if opened := opt.StreamChannels; opened > has {
+				short.Stream = opened
+				return 0, short
+			}
+			opened := opt.StreamChannels
 			for i, c := range in.channels {
-				if c < 1 || c > dev.MaxInputChannels {
-					return 0, fmt.Errorf("input %q has %d channel(s); channel %d requested", dev.Name, dev.MaxInputChannels, c)
+				if c < 1 || c > has {
+					short.Channel = c
+					return 0, short
 				}
 				pick[i], opened = c-1, max(opened, c)
 			}
@@ -196,6 +227,14 @@ func (in *Input) Carried() []int { return slices.Clone(in.channels) }
 
 // Device describes the device being read.
 func (in *Input) Device() Info { return in.info }
+
+// Served is the sound server's source behind the device; its Name is ""
+// where no server serves it or none could be asked.
+func (in *Input) Served() Served { return in.served }
+
+// Heard names what is listened to for a musician: the device's name and,
+// where a sound server serves it, the source behind it.
+func (in *Input) Heard() string { return in.served.heard(in.info.Name) }
 
 // Backlog is how much audio has arrived and waits to be read: near zero
 // while the reader keeps up.

@@ -100,24 +100,15 @@ func TestAMembershipRowNamesItsJustRatio(t *testing.T) {
 	if !ok || hc.Name() != "G dominant seventh" {
 		t.Fatalf("G B D F named %q, %v", hc.Name(), ok)
 	}
-	path := filepath.Join(t.TempDir(), "j.csv")
-	w, err := Open(path, Meta{Session: "s1", Now: (&clock{opening}).now})
-	if err != nil {
-		t.Fatal(err)
-	}
-	for _, m := range hc.Members {
-		ev, x := Membership("take.wav", "", tu, 0.6, 2.4, hc, m)
-		if err := w.WriteExtra(ev, x, opening); err != nil {
-			t.Fatal(err)
+	es := written(t, Meta{Session: "s1", Now: (&clock{opening}).now}, 4, func(w *Writer) error {
+		for _, m := range hc.Members {
+			ev, x := Membership("take.wav", "", tu, 0.6, 2.4, hc, m)
+			if err := w.WriteExtra(ev, x, opening); err != nil {
+				return err
+			}
 		}
-	}
-	if err := w.Close(); err != nil {
-		t.Fatal(err)
-	}
-	es, warns, err := ReadFile(path)
-	if err != nil || len(warns) != 0 || len(es) != 4 {
-		t.Fatalf("%d entries, %q, %v", len(es), warns, err)
-	}
+		return nil
+	})
 	want := map[string]string{"root": "1/1", "third": "5/4", "fifth": "3/2", "seventh": "7/4"}
 	for _, e := range es {
 		if e.JustRatio != want[e.Member] {
@@ -127,7 +118,7 @@ func TestAMembershipRowNamesItsJustRatio(t *testing.T) {
 			t.Errorf("a 7/4 seventh read %.2f ¢ from 7/4", e.JustCents)
 		}
 	}
-	_, warns, _ = Read(strings.NewReader(headerLine()+strings.TrimSuffix(sampleLine, ",")+",9:8\n"), "j")
+	_, warns, _ := Read(strings.NewReader(headerLine()+strings.TrimSuffix(sampleLine, ",,tonic")+",9:8,tonic\n"), "j")
 	if len(warns) != 1 || !strings.Contains(warns[0], `just_ratio "9:8"`) {
 		t.Errorf("a stray ratio on a note row: %q", warns)
 	}

@@ -14,8 +14,8 @@ func FuzzRead(f *testing.F) {
 	f.Add(strings.TrimSuffix(headerLine(), "\n") + ",on_other_spelling\n" + strings.Replace(sampleLine, "Db5,40.00", ",", 1) + ",true\n")
 	f.Add("time,session\n1,2\n")
 	f.Add(olderHeaderLine() + olderSampleLine() + "\n" + headerLine() + sampleLine + "\n")
-	f.Add(headerLine() + strings.TrimSuffix(sampleLine, ",,,,,,") + ",2,E major,third,+6.00,,5/4\n")
-	f.Add(headerLine() + strings.TrimSuffix(sampleLine, ",,,,,,") + ",,E major,,x,,16/0\n")
+	f.Add(headerLine() + strings.TrimSuffix(sampleLine, ",,,,,,,tonic") + ",2,E major,third,+6.00,,5/4,a4\n")
+	f.Add(headerLine() + strings.TrimSuffix(sampleLine, ",,,,,,,tonic") + ",,E major,,x,,16/0,A4\n")
 	f.Add("\"\n\"")
 	f.Add("")
 	f.Fuzz(func(t *testing.T, body string) {

@@ -2,6 +2,8 @@ package journal
 
 import (
 	"math"
+	"path/filepath"
+	"testing"
 	"time"
 
 	"fifthline/pitchdetect"
@@ -15,6 +17,28 @@ type clock struct{ t time.Time }
 func (c *clock) now() time.Time { return c.t }
 
 var opening = time.Date(2026, 3, 14, 19, 30, 0, 0, time.FixedZone("CET", 3600))
+
+// written opens a journal at a fresh path, hands it to write, closes it
+// and reads back want entries, failing on any warning.
+func written(t *testing.T, meta Meta, want int, write func(*Writer) error) []Entry {
+	t.Helper()
+	path := filepath.Join(t.TempDir(), "j.csv")
+	w, err := Open(path, meta)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := write(w); err != nil {
+		t.Fatal(err)
+	}
+	if err := w.Close(); err != nil {
+		t.Fatal(err)
+	}
+	es, warns, err := ReadFile(path)
+	if err != nil || len(warns) != 0 || len(es) != want {
+		t.Fatalf("%d entries, %q, %v", len(es), warns, err)
+	}
+	return es
+}
 
 // heldAt makes a held note at a pitch given in cents from A4 = 440 Hz (ISO 16),
 // read in C major, equal temperament.

@@ -16,7 +16,7 @@ func olderHeaderLine() string {
 // olderSampleLine is sampleLine as a journal before the Later columns held
 // it.
 func olderSampleLine() string {
-	return strings.TrimSuffix(strings.Replace(sampleLine, ",false,false,", ",false,", 1), ",,,,,,")
+	return strings.TrimSuffix(strings.Replace(sampleLine, ",false,false,", ",false,", 1), ",,,,,,,tonic")
 }
 
 // A journal written before the on_other_spelling column is still read (the

@@ -47,6 +47,10 @@ type Entry struct {
 	// Channel is the player's channel with --players, counted from 1; 0
 	// where the journal does not say (older journals, one player).
 	Channel int
+	// Anchor is the note the reference placed: "a4" or "tonic"; in
+	// journals older than the anchor column, the temperament's own (tonic
+	// in just, a4 otherwise), as it was then.
+	Anchor string
 }
 
 // NearerAlt reports whether the note sat nearer its other spelling's target
@@ -285,6 +289,19 @@ func (c columns) parse(line string) (Entry, error) {
 			e.Channel = n
 		} else if f.err == nil {
 			f.err = fmt.Errorf("channel %q is not a channel number", ch)
+		}
+	}
+	e.Anchor = f.later("anchor")
+	switch e.Anchor {
+	case "":
+		e.Anchor = target.AnchorA4.String()
+		if e.Temperament == (target.Just{}).Spec() {
+			e.Anchor = target.AnchorTonic.String()
+		}
+	case target.AnchorA4.String(), target.AnchorTonic.String():
+	default:
+		if f.err == nil {
+			f.err = fmt.Errorf("anchor %q: a4 or tonic", e.Anchor)
 		}
 	}
 	return e, f.err

@@ -7,7 +7,7 @@ import (
 	"testing"
 )
 
-const sampleLine = `2026-03-14T19:30:01.750+01:00,s1,mic,Ann,D minor,meantone:1/4,415,,,1.250,2.500,C#5,527.0000,527.5000,-1.64,Db5,40.00,false,false,1.50,22.0,5.50,,,,,,`
+const sampleLine = `2026-03-14T19:30:01.750+01:00,s1,mic,Ann,D minor,meantone:1/4,415,,,1.250,2.500,C#5,527.0000,527.5000,-1.64,Db5,40.00,false,false,1.50,22.0,5.50,,,,,,,tonic`
 
 func TestReadParsesEveryColumn(t *testing.T) {
 	entries, warns, err := Read(strings.NewReader(headerLine()+sampleLine+"\n"), "j")
@@ -19,7 +19,7 @@ func TestReadParsesEveryColumn(t *testing.T) {
 		e.Player != "Ann" || e.Key != "D minor" || e.Temperament != "meantone:1/4" || e.A4 != 415 ||
 		e.Start != 1.25 || e.End != 2.5 || e.Note.String() != "C#5" || e.Alt.String() != "Db5" ||
 		e.Hz != 527 || e.TargetHz != 527.5 || e.Cents != -1.64 || e.AltCents != 40 || e.SamePitch ||
-		e.Spread != 1.5 || e.VibratoWidth != 22 || e.VibratoRate != 5.5 {
+		e.Spread != 1.5 || e.VibratoWidth != 22 || e.VibratoRate != 5.5 || e.Anchor != "tonic" {
 		t.Errorf("entry %+v", e)
 	}
 }

@@ -208,7 +208,7 @@ func (w *Writer) line(ev session.Event, x Extra, at time.Time) []byte {
 		w.meta.Session, ev.Source, player, tu.Key.String(), temperament,
 		strconv.FormatFloat(tu.A4, 'f', -1, 64), tu.Transpose.Name, chord,
 	}, ev.Record(false)...)
-	rec = append(rec, x.record()...)
+	rec = append(append(rec, x.record()...), tu.Anchored().String())
 	for i, f := range rec { // one physical line per note, whatever a name holds
 		rec[i] = oneLine.Replace(f)
 	}

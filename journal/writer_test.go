@@ -31,7 +31,7 @@ func TestWriterCreatesWithHeaderAndWritesEachNoteAsItEnds(t *testing.T) {
 	// Its start lands 0.5 s later than opening+1.25 s: it ended 2.5 s into the
 	// capture but 3 s after opening, so the capture began 0.5 s after opening.
 	want := headerLine() +
-		`2026-03-14T19:30:01.750+01:00,s1,default input,"Ann, viola",C major,equal,440,,,1.250,2.500,A4,442.5489,440.0000,10.00,,,false,false,1.50,0.0,0.00,,,,,,` + "\n"
+		`2026-03-14T19:30:01.750+01:00,s1,default input,"Ann, viola",C major,equal,440,,,1.250,2.500,A4,442.5489,440.0000,10.00,,,false,false,1.50,0.0,0.00,,,,,,,a4` + "\n"
 	if string(got) != want {
 		t.Errorf("journal is\n%s\nwant\n%s", got, want)
 	}

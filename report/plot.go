@@ -171,7 +171,7 @@ func plotTitle(entries []journal.Entry, groups []Group, opt Options) [2]string {
 		} else {
 			players[g.Who()] = true
 		}
-		tunings[tuningOf{key: g.Key, temperament: g.Temperament, a4: g.A4, transpose: g.Transpose, chord: g.Chord}] = true
+		tunings[g.tuning()] = true
 	}
 	who, each := plural(len(players), "player"), "player"
 	switch {

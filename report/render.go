@@ -19,6 +19,9 @@ import (
 // than named as missing.
 func (g Group) Title() string {
 	t := fmt.Sprintf("%s · %s · A4 = %s Hz", g.Key, g.Name, strconv.FormatFloat(g.A4, 'f', -1, 64))
+	if g.Anchor == target.AnchorTonic.String() {
+		t += " (tonic anchored)" // as the tuning line says it (target.Tuning.String)
+	}
 	if who := g.Who(); who != "" {
 		t = who + " · " + t
 	}
@@ -163,7 +166,7 @@ func textRow(w io.Writer, s Stats, opt Options) {
 var csvHeader = []string{"player", "key", "temperament", "a4", "transpose", "chord", "level", "note", "fifths", "count",
 	"mean_cents", "median_cents", "scatter_cents", "spread_cents", "vibrato_cents", "vibrato_notes", "within",
 	"share_within", "tendency", "on_other_spelling", "other_spelling", "other_spelling_mean_cents",
-	"slope_cents_per_min", "drift_cents", "span_min", "trend", "voice", "chord_quality", "member", "just_ratio"}
+	"slope_cents_per_min", "drift_cents", "span_min", "trend", "voice", "chord_quality", "member", "just_ratio", "anchor"}
 
 // CSVHeader is the CSV report's header for these options.
 func CSVHeader(opt Options) []string {
@@ -199,7 +202,7 @@ func WriteCSV(w io.Writer, groups []Group, opt Options) error {
 				known = 1
 			}
 			r = append(r, ifAny(known, target.Decimal(s.Trend.SlopePerMinute, 4), target.Decimal(s.Trend.Drift, 2))...)
-			r = append(r, target.Decimal(s.Trend.Minutes, 2), s.Trend.Words, g.Voice, "", "", "")
+			r = append(r, target.Decimal(s.Trend.Minutes, 2), s.Trend.Words, g.Voice, "", "", "", g.Anchor)
 			cw.Write(r)
 		}
 		for _, s := range g.Notes {

@@ -87,8 +87,8 @@ func TestCSV(t *testing.T) {
 	}
 	// F♯4 as in TestSummarize; no vibrato, no trend: empty, not 0.
 	want := []string{
-		"Ann,G major,meantone:1/4,415,,,note,F#4,6,3,6.00,6.00,1.63,2.00,,0,1,0.333,sits 6 ¢ sharp,0,,,,,20.00,,,,,", // voice, chord_quality, member, just_ratio: empty for a player's notes
-		"Ann,G major,meantone:1/4,415,,,note,F#5,6,1,2.00,2.00,,2.00,,0,1,1.000,in tune,1,Gb5,-0.06,,,0.00,,,,,",
+		"Ann,G major,meantone:1/4,415,,,note,F#4,6,3,6.00,6.00,1.63,2.00,,0,1,0.333,sits 6 ¢ sharp,0,,,,,20.00,,,,,,", // voice, chord_quality, member, just_ratio: empty for a player's notes; anchor: none in these entries
+		"Ann,G major,meantone:1/4,415,,,note,F#5,6,1,2.00,2.00,,2.00,,0,1,1.000,in tune,1,Gb5,-0.06,,,0.00,,,,,,",
 	}
 	for _, w := range want {
 		found := false

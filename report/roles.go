@@ -232,5 +232,6 @@ func roleRecord(g Group, r Role, opt Options) []string {
 	set("chord_quality", r.Quality)
 	set("member", r.Member)
 	set("just_ratio", r.Ratio)
+	set("anchor", g.Anchor)
 	return rec
 }

@@ -62,7 +62,7 @@ func seatGroups(groups []Group, channel map[string]int) {
 	}
 	var tunings []tuningOf
 	rank := func(g Group) int {
-		k := tuningOf{"", "", g.Key, g.Temperament, g.A4, g.Transpose, g.Chord}
+		k := g.tuning()
 		if i := slices.Index(tunings, k); i >= 0 {
 			return i
 		}

@@ -27,6 +27,7 @@ type Group struct {
 	Voice       string   `json:"voice,omitempty"` // with --voices: the voice's number
 	Key         string   `json:"key"`
 	Temperament string   `json:"temperament"`         // the spec, e.g. meantone:1/4
+	Anchor      string   `json:"anchor"`              // the note the reference placed: a4 or tonic
 	Transpose   string   `json:"transpose,omitempty"` // the instrument's --transpose; notes are then written pitch
 	Chord       string   `json:"chord,omitempty"`     // the declared --chord, if any
 	Name        string   `json:"temperament_name"`
@@ -44,13 +45,18 @@ type Group struct {
 
 // tuningOf is what keeps groups apart.
 type tuningOf struct {
-	player, voice, key, temperament string
-	a4                              float64
-	transpose, chord                string
+	player, voice, key, temperament, anchor string
+	a4                                      float64
+	transpose, chord                        string
 }
 
 func groupKey(e journal.Entry) tuningOf {
-	return tuningOf{e.Player, e.Voice, e.Key, e.Temperament, e.A4, e.Transpose, e.Chord}
+	return tuningOf{e.Player, e.Voice, e.Key, e.Temperament, e.Anchor, e.A4, e.Transpose, e.Chord}
+}
+
+// tuning is the group's tuning, its player and voice left out.
+func (g Group) tuning() tuningOf {
+	return tuningOf{"", "", g.Key, g.Temperament, g.Anchor, g.A4, g.Transpose, g.Chord}
 }
 
 // Summarize groups the entries by player (or voice) and tuning (in order of
@@ -76,7 +82,7 @@ func Summarize(entries []journal.Entry, opt Options) []Group {
 	groups := make([]Group, 0, len(order))
 	for _, k := range order {
 		es := members[k]
-		g := Group{Player: k.player, Voice: k.voice, Roles: roles(chords[k]), Key: k.key, Temperament: k.temperament, A4: k.a4, Transpose: k.transpose, Chord: k.chord,
+		g := Group{Player: k.player, Voice: k.voice, Roles: roles(chords[k]), Key: k.key, Temperament: k.temperament, Anchor: k.anchor, A4: k.a4, Transpose: k.transpose, Chord: k.chord,
 			Name: temperamentName(k.temperament)}
 		for _, e := range es {
 			g.Dates = append(g.Dates, Rehearsal(e))
@@ -101,7 +107,9 @@ func Summarize(entries []journal.Entry, opt Options) []Group {
 // Holds reports whether the entry is one of the group's notes (a chord
 // membership is not a note: see Roles).
 func (g Group) Holds(e journal.Entry) bool {
-	return e.HeardChord == "" && groupKey(e) == tuningOf{g.Player, g.Voice, g.Key, g.Temperament, g.A4, g.Transpose, g.Chord}
+	k := g.tuning()
+	k.player, k.voice = g.Player, g.Voice
+	return e.HeardChord == "" && groupKey(e) == k
 }
 
 // Rehearsal is the day a note was played, YYYY-MM-DD, in the time zone it

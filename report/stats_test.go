@@ -206,20 +206,25 @@ func TestTrendWithinRehearsals(t *testing.T) {
 }
 
 // A chord declared with --chord tunes its members just: those readings are
-// their own group, as are a transposing part's and another reference
-// pitch's.
+// their own group, as are a transposing part's, another reference pitch's
+// and another anchor's (the contract's --a4 row: with --anchor tonic, G4
+// rather than A4 sits where equal temperament puts it, which moves every
+// target of ¼-comma meantone in G major).
 func TestChordTranspositionAndReferenceAreTheirOwnGroups(t *testing.T) {
 	plain, chord, clarinet := entry("Ann", "D4", 0, 1, 1, "C##4"), entry("Ann", "D4", 1, 3, 3, "C##4"), entry("Ann", "E4", 2, 2, 2, "Fb4")
 	chord.Chord = "D major"
 	clarinet.Transpose = "Bb" // written E4 sounds D4 on a B♭ clarinet
 	at440 := entry("Ann", "D4", 3, 0, 0, "C##4")
 	at440.A4 = 440
-	groups := Summarize([]journal.Entry{plain, chord, clarinet, at440}, Options{Tolerance: 5})
+	tonic := entry("Ann", "D4", 4, 0, 0, "C##4")
+	plain.Anchor, tonic.Anchor = "a4", "tonic"
+	groups := Summarize([]journal.Entry{plain, chord, clarinet, at440, tonic}, Options{Tolerance: 5})
 	want := []string{
 		"Ann · G major · 1/4-comma meantone · A4 = 415 Hz",
 		"Ann · G major · 1/4-comma meantone · A4 = 415 Hz · tuned to the chord D major",
 		"Ann · G major · 1/4-comma meantone · A4 = 415 Hz · written for an instrument in Bb",
 		"Ann · G major · 1/4-comma meantone · A4 = 440 Hz",
+		"Ann · G major · 1/4-comma meantone · A4 = 415 Hz (tonic anchored)",
 	}
 	if len(groups) != len(want) {
 		t.Fatalf("%d groups", len(groups))

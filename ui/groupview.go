@@ -227,11 +227,22 @@ func groupLayout(g *groupModel, w, h int) []screenLine {
 			gap(2),
 			{[]screenLine{beforeLine(g)}, 4, false},
 			{[]screenLine{nil}, 1, true}, // takes the rows left over: the status stands at the foot
-			{[]screenLine{inputLine(g.model)}, 9, false},
+			{[]screenLine{groupInputLine(g.model)}, 9, false},
 			{[]screenLine{journalLine(g.model)}, 7, false},
 			{[]screenLine{groupHint(g)}, 6, false},
 		}
 	}, func(_, spare int) []screenLine { return make([]screenLine, 1+spare) })
+}
+
+// groupInputLine is the input's level and state followed by what is heard
+// (the one-player meter names it while no note is held; the group's rows
+// leave no room for that).
+func groupInputLine(m *model) screenLine {
+	l := inputLine(m)
+	if m.Source != "" {
+		l = append(l, text(" · "+m.Source, dim))
+	}
+	return l
 }
 
 // chordAxis lays the chord's members on one line by their cents against

@@ -171,6 +171,7 @@ func (h *playerChords) note(pn playerNote) error {
 func (h *playerChords) ready(end bool) error {
 	horizon := math.Inf(1)
 	var sounding []harmony.Note
+	defer func() { h.rows.tell(len(sounding)) }()
 	if !end {
 		// A player whose note sounds starts no other before its last
 		// frame: the chords above it come without waiting for its end.
@@ -282,6 +283,7 @@ func (v *voiceChords) note(n voiceNote) error {
 func (v *voiceChords) ready(at, earliest float64, open []openVoice) error {
 	v.tunings.moment(at)
 	v.rows.now = at
+	defer v.rows.tell(len(open))
 	if !math.IsInf(earliest, 1) && earliest < v.asked+readyEvery {
 		return v.err
 	}

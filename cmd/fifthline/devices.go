@@ -31,7 +31,36 @@ func runDevices(e *env, args []string) error {
 		fmt.Fprintf(tw, "%d\t%s\t%s\t%d\t%d\t%g\t%s\n", d.Index, d.Name, d.HostAPI,
 			d.InputChannels, d.OutputChannels, d.DefaultRate, defaultMarks(d))
 	}
-	return tw.Flush()
+	if err := tw.Flush(); err != nil {
+		return err
+	}
+	return sayServed(e, devs)
+}
+
+// sayServed names the sound server's source behind the inputs it serves:
+// PortAudio's 32 channels of "default" say nothing of the microphone.
+func sayServed(e *env, devs []device.Info) error {
+	var names []string
+	var src device.Served
+	for _, d := range devs {
+		if s, ok := device.ServedSource(d); ok && d.InputChannels > 0 {
+			names, src = append(names, d.Name), s
+		}
+	}
+	if len(names) == 0 {
+		return nil
+	}
+	has := ""
+	if src.Channels > 0 {
+		has = fmt.Sprintf(", %d channels", src.Channels)
+	}
+	chosen := "the server's default source"
+	if src.ByEnv {
+		chosen = "as PULSE_SOURCE names it"
+	}
+	_, err := fmt.Fprintf(e.stdout, "\n%s: input from %s's source %q%s, %s\n",
+		strings.Join(names, ", "), src.Server, src.Words(), has, chosen)
+	return err
 }
 
 // defaultMarks says in words which system defaults a device is.

@@ -48,6 +48,7 @@ func playersMeter(ctx context.Context, src source.Multi, tunings *session.Tuning
 		po.logHeard(j, pn)
 		return nil
 	})
+	chords.rows.told = j.holding
 	o := ensemble.Options{Name: ms.name, Players: po.players, Tunings: tunings,
 		OnNote: func(n ensemble.Note) error { return chords.note(playerNote{Note: n}) },
 		// Run hands every player's frame of a moment in player order.
@@ -114,6 +115,7 @@ func voicesMeter(ctx context.Context, in timedInput, tunings *session.Tunings, v
 		j.heardRow(n.Event, n.extra(), n.heard)
 		return nil
 	})
+	chords.rows.told = j.holding
 	err = showMeter(ctx, m, func(ctx context.Context) error {
 		return hearVoices(ctx, src, ms.name, tunings.Get, vo, func(float64) {}, chords.note)
 	})

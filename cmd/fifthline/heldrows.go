@@ -33,6 +33,10 @@ type heldRows[N any] struct {
 	// (bridgeLost), and the file analysis spells its first piece.
 	pieces bool
 	early  []earlyMember
+	// told, if set, hears how many notes are not yet written: those held
+	// here and those still sounding (the meter says so beside the
+	// journal's count, which otherwise reads 0 through a held chord).
+	told func(n int)
 }
 
 // earlyMember is a membership of a note not yet ended (a pedal under the
@@ -109,4 +113,12 @@ func (h *heldRows[N]) release(settled float64) error {
 	}
 	h.rows = h.rows[done:]
 	return nil
+}
+
+// tell hands told the notes not yet written, sounding of them still
+// sounding.
+func (h *heldRows[N]) tell(sounding int) {
+	if h.told != nil {
+		h.told(len(h.rows) + sounding)
+	}
 }

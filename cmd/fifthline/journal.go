@@ -21,7 +21,10 @@ package main
 import (
 	"flag"
 	"fmt"
+	"path/filepath"
+	"strings"
 	"sync"
+	"sync/atomic"
 	"time"
 
 	"fifthline/journal"
@@ -44,6 +47,7 @@ type journalSink struct {
 	e      *env
 	quiet  bool // do not print the first failure (a screen shows status)
 	warned sync.Once
+	held   atomic.Int64 // notes heard, not yet written (holding)
 }
 
 func (jf *journalFlags) open(e *env) (*journalSink, error) {
@@ -110,6 +114,25 @@ func (j *journalSink) status() string {
 		return ""
 	}
 	return j.w.Status()
+}
+
+// holding says how many notes heard are not yet written: a group's note is
+// written once the chords it sounds in are known (heldrows.go).
+func (j *journalSink) holding(n int) { j.held.Store(int64(n)) }
+
+// screenStatus is status for a screen: the file's base name (the screen
+// is narrow), and the notes heard but not yet written, which a count of
+// written notes alone would hide.
+func (j *journalSink) screenStatus(path string) string {
+	s := j.status()
+	if s == "" {
+		return "journal: off"
+	}
+	s = strings.Replace(s, path, filepath.Base(path), 1)
+	if n := j.held.Load(); n > 0 {
+		s += fmt.Sprintf(" · %d more to come", n)
+	}
+	return s
 }
 
 // close saves the journal and reports any notes it could not log.

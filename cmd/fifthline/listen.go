@@ -8,8 +8,7 @@ import (
 	"fmt"
 	"io"
 	"os"
-	"path/filepath"
-	"strings"
+	"slices"
 	"time"
 
 	"golang.org/x/sys/unix"
@@ -17,6 +16,7 @@ import (
 	"fifthline/capture"
 	"fifthline/device"
 	"fifthline/drone"
+	"fifthline/ensemble"
 	"fifthline/session"
 	"fifthline/source"
 	"fifthline/ui"
@@ -97,10 +97,10 @@ func runListen(e *env, args []string) error {
 	}
 	in, err := capture.OpenInput(inOpts)
 	if err != nil {
-		return errors.Join(err, j.close())
+		return errors.Join(tooFewChannels(err, po), j.close())
 	}
-	opts := session.Options{Name: in.Device().Name, Tunings: session.NewTunings(tu)}
-	ms := meterSource{name: in.Device().Name, stats: in.Stats, journal: jf.log, ascii: *ascii}
+	opts := session.Options{Name: in.Heard(), Tunings: session.NewTunings(tu)}
+	ms := meterSource{name: in.Heard(), stats: in.Stats, journal: jf.log, ascii: *ascii}
 	if group && !*plain {
 		err = playersMeter(ctx, in, opts.Tunings, po, j, ms)
 	} else if voices && !*plain {
@@ -134,6 +134,26 @@ func runListen(e *env, args []string) error {
 		sayHeard(e.stderr, heard, j)
 	}
 	return err
+}
+
+// tooFewChannels makes an input opened for more channels than it has (its
+// sound server's source, where one serves it, counted) the usage error it
+// is, in the words a file with too few channels gets; other errors pass.
+func tooFewChannels(err error, po playerOptions) error {
+	var short *device.ChannelsError
+	switch {
+	case !errors.As(err, &short):
+		return err
+	case short.Stream > 0:
+		return usagef("%v: give --input-channels %d or fewer", err, short.Has)
+	case len(po.players) > 0:
+		on := slices.Clone(po.players) // on the interface's channels, as given
+		for i, p := range on {
+			on[i].Channel = po.channel(p) - 1
+		}
+		return usagef("%v", ensemble.CheckChannels(on, short.Has, short.Input))
+	}
+	return usagef("%v: --channel counts from 1 to %d", err, short.Has)
 }
 
 // withoutDrone names the listen flag that shows no one-player meter, for
@@ -242,12 +262,8 @@ func runMeter(ctx context.Context, src source.Source, opts session.Options, j *j
 // from j on the screen (and so not on stderr).
 func screenOptions(tunings *session.Tunings, j *journalSink, ms meterSource) ui.Options {
 	j.quiet = true // the screen shows the journal's state instead
-	return ui.Options{Tunings: tunings, Source: ms.name, Stats: ms.stats, Journal: func() string {
-		if s := j.status(); s != "" {
-			return strings.Replace(s, ms.journal, filepath.Base(ms.journal), 1) // the screen is narrow
-		}
-		return "journal: off"
-	}, ASCII: ms.ascii || ui.ASCIILocale()}
+	return ui.Options{Tunings: tunings, Source: ms.name, Stats: ms.stats, Journal: func() string { return j.screenStatus(ms.journal) },
+		ASCII: ms.ascii || ui.ASCIILocale()}
 }
 
 // showMeter runs hear (which feeds m) while m is on the screen, until q,

@@ -290,6 +290,7 @@ func TestListenUsageErrors(t *testing.T) {
 		{"listen", "--input-channels", "-1"},
 		{"listen", "--channel", "3", "--input-channels", "2"},
 		{"listen", "--players", "3=vla,1=vc", "--input-channels", "2"},
+		{"listen", "--players", "first violin"},
 		{"listen", "--duration", "soon"},
 		{"listen", "take.wav"},
 		{"listen", "--key", "H"},

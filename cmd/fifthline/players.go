@@ -12,6 +12,7 @@ import (
 	"strconv"
 	"strings"
 	"time"
+	"unicode"
 
 	"fifthline/capture"
 	"fifthline/ensemble"
@@ -58,10 +59,8 @@ func playersOptions(fs *flag.FlagSet, value string) (opt playerOptions, ok bool,
 	if opt.group, err = groupReference(fs, wasSet(fs, "players")); err != nil || !wasSet(fs, "players") {
 		return opt, false, err
 	}
-	// "vc vla vl2 vl1" or "vc;vla" is a list with the wrong separator, not
-	// one player of that name: names are parted by commas.
-	if words := strings.FieldsFunc(value, func(r rune) bool { return r == ';' || r == ' ' }); !strings.ContainsAny(value, ",=") && len(words) > 1 {
-		return opt, false, usagef("--players %q: part the names with commas, one per channel: --players %s", value, strings.Join(words, ","))
+	if err := spacedPlayers(value); err != nil {
+		return opt, false, err
 	}
 	if opt.players, err = ensemble.ParsePlayers(value); err != nil {
 		return opt, false, usagef("%v", err)
@@ -71,6 +70,29 @@ func playersOptions(fs *flag.FlagSet, value string) (opt playerOptions, ok bool,
 		return opt, false, usagef("%v", err)
 	}
 	return opt, true, nil
+}
+
+// spacedPlayers refuses a --players value that may be a list parted by
+// spaces or semicolons, as no comma or = parts it. "vc;vla" is one: no name
+// holds a semicolon. "vc vla vl2 vl1" may be four players or one player of
+// that name ("first violin"); read as one, a list would hear one channel
+// and name no chord, so the error gives both ways to say it (one player is
+// --player's). A name with a space beside another name ("first
+// violin,viola") or a channel ("3=first violin") is a name, as the
+// contract parts names by commas.
+func spacedPlayers(value string) error {
+	if strings.ContainsAny(value, ",=") {
+		return nil
+	}
+	words := strings.FieldsFunc(value, func(r rune) bool { return r == ';' || unicode.IsSpace(r) })
+	switch {
+	case len(words) < 2:
+		return nil
+	case strings.Contains(value, ";"):
+		return usagef("--players %q: part the names with commas, one per channel: --players %s", value, strings.Join(words, ","))
+	}
+	return usagef("--players %q: names are parted by commas; for %d players, --players %s; for one player, --player %q (--channel N picks the channel)",
+		value, len(words), strings.Join(words, ","), strings.Join(words, " "))
 }
 
 // playerNote is one player's note with the columns --players adds.

@@ -195,6 +195,9 @@ func TestAnalyzePlayersUsageErrors(t *testing.T) {
 		// Names parted by spaces or semicolons are a list, not one name.
 		{[]string{"--players", "vc vla vl2 vl1", quartet}, "--players vc,vla,vl2,vl1"},
 		{[]string{"--players", "vc;vla", quartet}, "--players vc,vla"},
+		// A lone name with a space may be one player or a list: the error
+		// says both (one player is --player's).
+		{[]string{"--players", "first violin", quartet}, `for 2 players, --players first,violin; for one player, --player "first violin"`},
 	} {
 		code, out, stderr := runCLI(t, append([]string{"analyze"}, c.args...)...)
 		checkError(t, code, 2, stderr)

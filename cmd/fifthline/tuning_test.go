@@ -18,9 +18,16 @@ import (
 // rehearsal folder, with config as the user's configuration folder.
 func inFolder(t *testing.T, dir, config string, args ...string) (code int, stdout, stderr string) {
 	t.Helper()
+	return runBinary(t, dir, []string{"XDG_CONFIG_HOME=" + config}, args...)
+}
+
+// runBinary runs the built command in dir ("": here) with env added to its
+// environment.
+func runBinary(t *testing.T, dir string, env []string, args ...string) (code int, stdout, stderr string) {
+	t.Helper()
 	cmd := exec.Command(fifthlineBinary(t), args...)
 	cmd.Dir = dir
-	cmd.Env = append(os.Environ(), "XDG_CONFIG_HOME="+config)
+	cmd.Env = append(os.Environ(), env...)
 	var out, errb bytes.Buffer
 	cmd.Stdout, cmd.Stderr = &out, &errb
 	err := cmd.Run()
