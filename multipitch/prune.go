@@ -169,6 +169,22 @@ func (e *Estimator) movedUnderOctave(judged []float64) bool {
 // that left resid, and total the energy of the bins fitted. A voice with
 // vibrato leaves a residual no harmonic model removes; a candidate fitting
 // that must not pass for a voice, so the bar rises with it.
+//
+// It rises with every voice dropped too, whose partials then count as
+// noise: in the rendered choir (voices_mix_test.go) the whole window's
+// prune drops every voice of the chord in 9 frames while it sounds (at
+// 0.56 s A4 explains 1.11 of the bar among six candidates, 0.54 among
+// two). Tried,
+// not kept (own grid, median/worst/just ¢; choir 1.96/3.72/6.47, the oohs
+// and aahs 2.97/12.18/11.83): the bar's noise held at the fullest fit's
+// (choir 1.30/4.83/6.15, oohs 3.34/12.62/11.49), or only where the prune
+// empties a window as loud as the chord (choir 3.06/4.93/14.19); the noise
+// read in the bins over 2 bins from every candidate's partials (choir
+// 1.92/5.17/5.27, oohs 2.22/10.85/8.98); a voice heard lately with two of
+// its own partials unexplained judged at half the bar (1.52/5.18/7.00,
+// 2.72/12.47/11.49). All but the second put phantoms in the meantone and
+// 31-EDO scenes and the woodwind quartet, and each moved the bassoon and
+// clarinet duet's median 0.13 → 0.21 ¢ or more.
 func (e *Estimator) noise(resid float64) (noise, total float64) {
 	f := e.fitter
 	for _, b := range f.used {
