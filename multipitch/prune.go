@@ -171,20 +171,11 @@ func (e *Estimator) movedUnderOctave(judged []float64) bool {
 // that must not pass for a voice, so the bar rises with it.
 //
 // It rises with every voice dropped too, whose partials then count as
-// noise: in the rendered choir (voices_mix_test.go) the whole window's
-// prune drops every voice of the chord in 9 frames while it sounds (at
-// 0.56 s A4 explains 1.11 of the bar among six candidates, 0.54 among
-// two). Tried,
-// not kept (own grid, median/worst/just ¢; choir 1.96/3.72/6.47, the oohs
-// and aahs 2.97/12.18/11.83): the bar's noise held at the fullest fit's
-// (choir 1.30/4.83/6.15, oohs 3.34/12.62/11.49), or only where the prune
-// empties a window as loud as the chord (choir 3.06/4.93/14.19); the noise
-// read in the bins over 2 bins from every candidate's partials (choir
-// 1.92/5.17/5.27, oohs 2.22/10.85/8.98); a voice heard lately with two of
-// its own partials unexplained judged at half the bar (1.52/5.18/7.00,
-// 2.72/12.47/11.49). All but the second put phantoms in the meantone and
-// 31-EDO scenes and the woodwind quartet, and each moved the bassoon and
-// clarinet duet's median 0.13 → 0.21 ¢ or more.
+// noise: the rendered choir's prune empties whole windows of its chord
+// (voices_mix_test.go). Holding the bar down (at the fullest fit's noise,
+// from bins away from every partial, half a bar for a voice heard lately)
+// eased the choir but let octave and 3rd-partial phantoms through in the
+// meantone, 31-EDO and woodwind quartet scenes (measured; not kept).
 func (e *Estimator) noise(resid float64) (noise, total float64) {
 	f := e.fitter
 	for _, b := range f.used {
