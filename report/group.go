@@ -28,6 +28,7 @@ type GroupDrift struct {
 	Players     []string  `json:"players"` // in the order they sit (seating.go)
 	Key         string    `json:"key"`
 	Temperament string    `json:"temperament"`
+	Anchor      string    `json:"anchor"` // a4 or tonic, as the notes' rows say
 	A4          float64   `json:"a4"`
 	Began       time.Time `json:"began"`
 	Notes       int       `json:"notes"`
@@ -46,8 +47,8 @@ func (g GroupDrift) Drift() float64 { return g.EndCents - g.StartCents }
 
 // take is what keeps one take's notes together.
 type take struct {
-	session, source, key, temperament string
-	a4                                float64
+	session, source, key, temperament, anchor string
+	a4                                        float64
 }
 
 // GroupDrifts reads the group's drift over every take with two or more
@@ -57,7 +58,7 @@ func GroupDrifts(entries []journal.Entry) []GroupDrift {
 	var order []take
 	notes := map[take][]journal.Entry{}
 	for _, e := range entries {
-		k := take{e.Session, e.Source, e.Key, e.Temperament, e.A4}
+		k := take{e.Session, e.Source, e.Key, e.Temperament, e.Anchor, e.A4}
 		if _, ok := notes[k]; !ok {
 			order = append(order, k)
 		}
@@ -73,7 +74,7 @@ func GroupDrifts(entries []journal.Entry) []GroupDrift {
 }
 
 func groupDrift(k take, es []journal.Entry) (GroupDrift, bool) {
-	g := GroupDrift{Source: k.source, Session: k.session, Key: k.key, Temperament: k.temperament, A4: k.a4}
+	g := GroupDrift{Source: k.source, Session: k.session, Key: k.key, Temperament: k.temperament, Anchor: k.anchor, A4: k.a4}
 	sounding := make([]ensemble.Sounding, 0, len(es))
 	seventh := target.DefaultSeventh
 	for _, e := range es {
@@ -160,6 +161,7 @@ func WriteGroupCSV(w io.Writer, drifts []GroupDrift, opt Options) error {
 		set("key", g.Key)
 		set("temperament", g.Temperament)
 		set("a4", strconv.FormatFloat(g.A4, 'f', -1, 64))
+		set("anchor", g.Anchor)
 		set("level", GroupLevel)
 		set("count", strconv.Itoa(g.Notes))
 		if opt.ByRehearsal {

@@ -157,7 +157,8 @@ func TestGroupDriftFollowsTheSagApartFromTheChords(t *testing.T) {
 // analyses wrote (two takes, as two sessions), apart from the per-note
 // tables: a group_drift row per take in the CSV, under the report's own
 // header, its drift_cents the sag between the first and the last chords'
-// middles within 0.5 ¢, and a line per take in the text.
+// middles within 0.5 ¢, its anchor the notes' own (a4: read in the
+// default temperament), and a line per take in the text.
 func reportedDrift(t *testing.T, log string) {
 	t.Helper()
 	held := driftChordSeconds - driftGap
@@ -177,7 +178,7 @@ func reportedDrift(t *testing.T, log string) {
 		}
 		takes++
 		d, err := strconv.ParseFloat(r["drift_cents"], 64)
-		if err != nil || math.Abs(d-want) > 0.5 || r["player"] != "vc+vla+vl2+vl1" || r["count"] != "32" {
+		if err != nil || math.Abs(d-want) > 0.5 || r["player"] != "vc+vla+vl2+vl1" || r["count"] != "32" || r["anchor"] != "a4" {
 			t.Errorf("group row %v: want drift %+.2f ¢ over 32 notes", r, want)
 		}
 	}
