@@ -112,10 +112,13 @@ func DriftWords(drift, minutes, tolerance float64) string {
 	return fmt.Sprintf("drifted %.0f ¢ flat %s", math.Round(-drift), over)
 }
 
-// Span formats a duration the way rehearsals are timed: "45 s", "40 min",
-// "1.5 h", "14 days".
+// Span formats a duration the way rehearsals are timed: "2.5 s" (a held
+// chord: whole seconds would say 2 for 2.5), "45 s", "40 min", "1.5 h",
+// "14 days".
 func Span(d time.Duration) string {
 	switch {
+	case d < 10*time.Second:
+		return strings.TrimSuffix(fmt.Sprintf("%.1f", d.Seconds()), ".0") + " s"
 	case d < time.Minute:
 		return fmt.Sprintf("%.0f s", d.Seconds())
 	case d < 90*time.Minute:
