@@ -286,13 +286,16 @@ var tableWords = map[string]string{
 // tableCells are a record's values as the table writes them: a reading's
 // cents as the one-voice table writes them ("+7.9 ¢"), cents under a head
 // that names the unit signed to a tenth ("+13.7"), seconds and hertz to a
-// hundredth as that table has them, and every other value as the CSV has
-// it (names, counts).
+// hundredth as that table has them, a doubling as "yes" or nothing (a
+// column of "false" reads as a fault), and every other value as the CSV
+// has it (names, counts).
 func tableCells(head, rec []string) []string {
 	out := slices.Clone(rec)
 	for i, h := range head {
 		x, err := strconv.ParseFloat(rec[i], 64)
 		switch {
+		case h == "doubled":
+			out[i] = map[string]string{"true": "yes", "false": ""}[rec[i]]
 		case err != nil:
 		case h == "cents" || h == "alt_cents":
 			out[i] = target.FormatCents(x, 1)

@@ -53,14 +53,19 @@ func TestAnalyzeTableHasALineForEveryTake(t *testing.T) {
 // one-voice table does ("+7.9 ¢", the unit after a space: FormatCents),
 // cents under a head naming the unit signed to a tenth, and the CSV keeps
 // its numbers: an equal-tempered G dominant seventh of sox sawtooths (ISO
-// 16, A4 = 440 Hz) reads its third 13.7 ¢ above 5/4 (common practice).
+// 16, A4 = 440 Hz) reads its third 13.7 ¢ above 5/4 (common practice). A
+// voice's doubling is "yes" or nothing in the table, true/false in the CSV.
 func TestTheGroupTablesWriteCentsAsTheOneVoiceTable(t *testing.T) {
-	multi, _ := soxParts(t, [][]soxNote{
+	multi, one := soxParts(t, [][]soxNote{
 		{{195.9977, 0.1, 1.5, 0.1}}, {{246.9417, 0.1, 1.5, 0.1}}, {{293.6648, 0.1, 1.5, 0.1}}, {{349.2282, 0.1, 1.5, 0.1}},
 	})
 	code, out, stderr := runCLI(t, "analyze", "--players", "b,t,a,s", "--chords", "--format", "table", multi)
 	if code != 0 || !regexp.MustCompile(`(?m)^\S+ +\S+ +G dominant seventh +third +B3 +[0-9.]+ +(0\.0|[−+-]0\.[0-9]) ¢ +\+13\.7 +t$`).MatchString(out) {
 		t.Errorf("exit %d (%s), table:\n%s", code, stderr, out)
+	}
+	code, out, stderr = runCLI(t, "analyze", "--voices", "auto", "--chords", "--format", "table", one)
+	if code != 0 || !strings.Contains(out, " doubled") || strings.Contains(out, "false") {
+		t.Errorf("--voices table: exit %d (%s):\n%s", code, stderr, out)
 	}
 	_, out, _ = runCLI(t, "analyze", "--players", "b,t,a,s", "--chords", "--format", "csv", multi)
 	if strings.Contains(out, "¢") || !strings.Contains(out, ",third,B3,") {
