@@ -6,6 +6,7 @@ import (
 	"math"
 	"slices"
 	"strings"
+	"time"
 
 	"fifthline/harmony"
 	"fifthline/target"
@@ -117,11 +118,7 @@ func (td TakeDrift) Words() string {
 	if !ok {
 		return "group drift: not known (too little sounded)"
 	}
-	span := last.Time - first.Time
-	over := fmt.Sprintf("%.1f min", span/60)
-	if span < 90 {
-		over = fmt.Sprintf("%.0f s", span)
-	}
+	over := target.Span(time.Duration((last.Time - first.Time) * float64(time.Second)))
 	// The move is between the ends as written, to the tenth: 1.95 → 0.04
 	// reads "2.0 ¢ sharp → 0.0 ¢", and a move of 1.9 beside it reads wrong.
 	tenth := func(c float64) float64 { return math.Round(c*10) / 10 }

@@ -86,10 +86,6 @@ func TestWords(t *testing.T) {
 		{DriftWords(-4.2, 40, 5), "drifted 4 ¢ flat over 40 min"},
 		{DriftWords(7, 90, 5), "drifted 7 ¢ sharp over 1.5 h"},
 		{DriftWords(1, 0.5, 5), "steady over 30 s"},
-		{Span(2500 * time.Millisecond), "2.5 s"},
-		{Span(5 * time.Second), "5 s"},
-		{Span(2 * time.Hour), "2 h"},
-		{Span(14 * 24 * time.Hour), "14 days"},
 		{TooFewForATrend, "a trend needs 6 notes or more, over 1 min or more"},
 	}
 	for _, c := range cases {

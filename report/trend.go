@@ -4,10 +4,10 @@ import (
 	"fmt"
 	"math"
 	"slices"
-	"strings"
 	"time"
 
 	"fifthline/journal"
+	"fifthline/target"
 )
 
 // A trend needs this many notes, at least this far apart from first to
@@ -28,7 +28,7 @@ type Trend struct {
 }
 
 // TooFewForATrend says once, for a whole table, why a trend is missing.
-var TooFewForATrend = fmt.Sprintf("a trend needs %d notes or more, over %s or more", TrendNotes, Span(TrendSpan))
+var TooFewForATrend = fmt.Sprintf("a trend needs %d notes or more, over %s or more", TrendNotes, target.Span(TrendSpan))
 
 // trendOf fits cents against time within a rehearsal. With several
 // rehearsals, the slope is their common one (each rehearsal about its own
@@ -102,7 +102,7 @@ func moments(xs, ys []float64) (sxy, sxx float64) {
 // (under half the tolerance), "drifted 4 ¢ flat over 40 min", "drifted 7 ¢
 // sharp over 1.5 h".
 func DriftWords(drift, minutes, tolerance float64) string {
-	over := "over " + Span(time.Duration(minutes*float64(time.Minute)))
+	over := "over " + target.Span(time.Duration(minutes*float64(time.Minute)))
 	switch {
 	case math.Abs(drift) < tolerance/2:
 		return "steady " + over
@@ -110,21 +110,4 @@ func DriftWords(drift, minutes, tolerance float64) string {
 		return fmt.Sprintf("drifted %.0f ¢ sharp %s", math.Round(drift), over)
 	}
 	return fmt.Sprintf("drifted %.0f ¢ flat %s", math.Round(-drift), over)
-}
-
-// Span formats a duration the way rehearsals are timed: "2.5 s" (a held
-// chord: whole seconds would say 2 for 2.5), "45 s", "40 min", "1.5 h",
-// "14 days".
-func Span(d time.Duration) string {
-	switch {
-	case d < 10*time.Second:
-		return strings.TrimSuffix(fmt.Sprintf("%.1f", d.Seconds()), ".0") + " s"
-	case d < time.Minute:
-		return fmt.Sprintf("%.0f s", d.Seconds())
-	case d < 90*time.Minute:
-		return fmt.Sprintf("%.0f min", d.Minutes())
-	case d < 48*time.Hour:
-		return strings.TrimSuffix(fmt.Sprintf("%.1f", d.Hours()), ".0") + " h"
-	}
-	return fmt.Sprintf("%.0f days", d.Hours()/24)
 }

@@ -1,6 +1,10 @@
 package target
 
-import "strconv"
+import (
+	"strconv"
+	"strings"
+	"time"
+)
 
 // Decimal formats x with the given decimals, never as "-0.0": a reading
 // that rounds to nothing has no sign. It is the one formatter of numbers
@@ -25,4 +29,21 @@ func Signed(x float64, decimals int) string {
 		}
 	}
 	return s
+}
+
+// Span formats a duration the way takes and rehearsals are timed: "2.5 s"
+// (a held chord: whole seconds would say 2 for 2.5), "45 s", "80 s",
+// "1 min", "40 min", "1.5 h", "14 days".
+func Span(d time.Duration) string {
+	switch {
+	case d < 10*time.Second:
+		return strings.TrimSuffix(Decimal(d.Seconds(), 1), ".0") + " s"
+	case d < 90*time.Second && d%time.Minute != 0:
+		return Decimal(d.Seconds(), 0) + " s"
+	case d < 90*time.Minute:
+		return Decimal(d.Minutes(), 0) + " min"
+	case d < 48*time.Hour:
+		return strings.TrimSuffix(Decimal(d.Hours(), 1), ".0") + " h"
+	}
+	return Decimal(d.Hours()/24, 0) + " days"
 }
