@@ -65,7 +65,13 @@ func TestPlayersReadOnceHearWoodwindsAtEveryPhase(t *testing.T) {
 // to its part alone after no lead, and its readings at the eight leads to
 // within alikeCents of each other.
 //
-// At leads 128 and 192 the choir's bass C3 reads 0.96–0.98 ¢ sharp: on
+// At leads 128 and 192 the choir's bass C3 reads 0.96–0.98 ¢ sharp, 0.02
+// and 0.04 ¢ inside the bar. 0.57 ¢ of it is the part's own: alone, after
+// 128–256 samples, it reads 0.57–0.58 ¢ over its reading after none (its
+// first frame, 26 ¢ flat, falls out of the note, and its voice's wobble
+// reads a few cents otherwise at some frames); read with the bleed weighed
+// from a first pass (as analyze reads), it reads as its part alone there
+// (+0.578 ¢; measured). The other 0.4 ¢ is the bleed not yet weighed: on
 // its channel cleaned of the others the detector voices none of its first
 // seven frames (confidence 0.07–0.19; 0.2–0.8 at lead 0), so its reading
 // begins later in its flat onset than alone. What the bass's microphone
