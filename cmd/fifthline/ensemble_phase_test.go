@@ -65,7 +65,13 @@ func TestPlayersReadOnceHearWoodwindsAtEveryPhase(t *testing.T) {
 // to its part alone after no lead, and its readings at the eight leads to
 // within alikeCents of each other.
 //
-// At leads 128 and 192 the choir's bass C3 reads 0.96–0.98 ¢ sharp: on
+// At leads 128 and 192 the choir's bass C3 reads 0.96–0.98 ¢ sharp, 0.02
+// and 0.04 ¢ inside the bar. 0.57 ¢ of it is the part's own: alone, after
+// 128–256 samples, it reads 0.57–0.58 ¢ over its reading after none (its
+// first frame, 26 ¢ flat, falls out of the note, and its voice's wobble
+// reads a few cents otherwise at some frames); read with the bleed weighed
+// from a first pass (as analyze reads), it reads as its part alone there
+// (+0.578 ¢; measured). The other 0.4 ¢ is the bleed not yet weighed: on
 // its channel cleaned of the others the detector voices none of its first
 // seven frames (confidence 0.07–0.19; 0.2–0.8 at lead 0), so its reading
 // begins later in its flat onset than alone. What the bass's microphone
@@ -88,8 +94,8 @@ func TestPlayersReadOnceHearFreshTakesAtEveryPhase(t *testing.T) {
 	t.Parallel()
 	for _, c := range []struct {
 		take  ensembleTake
-		alike [2]string      // a player's note that reads alike at every lead
-		open  map[int]string // leads (samples) still missing the bar: how
+		alike [2]string        // a player's note that reads alike at every lead
+		open  map[int]openLead // leads (samples) still missing the bar: how
 	}{
 		{freshTakes[0], [2]string{"hn", "A3"}, nil},
 		{freshTakes[2], [2]string{}, nil},
@@ -99,6 +105,12 @@ func TestPlayersReadOnceHearFreshTakesAtEveryPhase(t *testing.T) {
 	}
 }
 
+// openLead is a lead at which a take is not yet held whole to the bar:
+// why, and the player whose part alone reads apart there, whose notes are
+// then left out while the others' are held; with none, the lead is read
+// and logged only.
+type openLead struct{ why, apart string }
+
 // alikeCents: how far apart one note may read over the hop's phases when
 // what it sounds does not change with them (the horn's A3: 0.45 ¢ now,
 // 5.4 ¢ before pitchdetect/scoop.go).
@@ -107,9 +119,9 @@ const alikeCents = 0.5
 // readAtEveryPhase reads the take once after each of eight leads of
 // silence an eighth of a hop apart, each held to the issue's bar against
 // its parts alone, and the player alike[0]'s notes alike[1] to within
-// alikeCents of themselves over the leads. The leads in open are read and
-// logged only.
-func readAtEveryPhase(t *testing.T, take ensembleTake, alike [2]string, open map[int]string) {
+// alikeCents of themselves over the leads. At the leads in open the
+// player apart is left out, or the lead only logged.
+func readAtEveryPhase(t *testing.T, take ensembleTake, alike [2]string, open map[int]openLead) {
 	t.Helper()
 	r := renderTake(t, take)
 	lone := r.loneNotes(t)
@@ -119,11 +131,16 @@ func readAtEveryPhase(t *testing.T, take ensembleTake, alike [2]string, open map
 		r.wet = filepath.Join(t.TempDir(), "lead.wav")
 		soxTB(t, wet, r.wet, "pad", strconv.Itoa(lead)+"s")
 		rows := readOnce(t, r)
-		if why, ok := open[lead]; ok {
-			t.Logf("%s lead %d samples: not yet held to the bar (%s); %d notes read", r.name, lead, why, len(rows))
-			continue
+		held, heldLone := r, lone
+		if o, ok := open[lead]; ok {
+			if o.apart == "" {
+				t.Logf("%s lead %d samples: not yet held to the bar (%s); %d notes read", r.name, lead, o.why, len(rows))
+				continue
+			}
+			t.Logf("%s lead %d samples: %s left out (%s)", r.name, lead, o.apart, o.why)
+			held, heldLone = withoutPlayer(r, lone, o.apart)
 		}
-		offs := checkIssueBar(t, "read once after "+strconv.Itoa(lead)+" samples", r, lone, rows)
+		offs := checkIssueBar(t, "read once after "+strconv.Itoa(lead)+" samples", held, heldLone, rows)
 		t.Logf("%s lead %d samples: notes worst %.3f median %.3f ¢ from the parts alone", r.name, lead, worstAbs(offs), medianAbs(offs))
 		var hz []float64
 		for _, row := range rows {
@@ -152,6 +169,14 @@ func readAtEveryPhase(t *testing.T, take ensembleTake, alike [2]string, open map
 			t.Errorf("%s %s %s reads %.4f–%.4f Hz over the leads, %.2f ¢ apart; allowed %.1f ¢", r.name, alike[0], l["note"], lo, hi, spread, alikeCents)
 		}
 	}
+}
+
+// withoutPlayer is the take and its parts alone without player p's, whose
+// notes are then not checked.
+func withoutPlayer(r renderedTake, lone [][]map[string]string, p string) (renderedTake, [][]map[string]string) {
+	i := slices.Index(r.players, p)
+	r.players = slices.Delete(slices.Clone(r.players), i, i+1)
+	return r, slices.Delete(slices.Clone(lone), i, i+1)
 }
 
 // checkIssueBar is checkPlayerNotes at the ensemble issue's bar: every
