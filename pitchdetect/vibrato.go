@@ -22,6 +22,7 @@ const (
 	vibratoMinFit   = 0.5  // share of the track's variance the sinusoid explains
 	vibratoMinCycle = 2.0  // whole cycles needed
 	vibratoWide     = 20.0 // cents peak to peak, a vibrato fitted robustly (fitRobust)
+	robustPerCycle  = 8.0  // and the frames a cycle it needs
 )
 
 type vibrato struct {
@@ -54,7 +55,14 @@ func findVibrato(t, c []float64, window float64) vibrato {
 		return vibrato{rate: best, width: width, centre: wholeCycleMean(t, c, best), ok: true}
 	}
 	// A wide vibrato whose frames partly follow another group of partials
-	// (fitRobust) is fitted without them.
+	// (fitRobust) is fitted without them, where the frames are dense
+	// enough to tell which lie off its cycle: the voices of one
+	// microphone, read 85–93 ms apart (two frames a cycle), fitted so read
+	// an absurd width and their notes 0.5 ¢ further from their truths (a
+	// cello's A3 in 31-EDO: measured).
+	if float64(n-1) < robustPerCycle*dur*best {
+		return vibrato{}
+	}
 	a, b, m, fit := fitRobust(t, c, best)
 	if width = 2 * math.Hypot(a, b) / windowGain(best, window); width < vibratoWide || fit < vibratoMinFit {
 		return vibrato{}
