@@ -51,8 +51,10 @@ type fitter struct {
 	// per partial).
 	loose []bool
 	long  [][]complex128
-	steer []bool
-	spec  []complex128 // the frame's spectrum, bins 0..n/2
+	// longBinHz is the bin of the window long was fitted on.
+	longBinHz float64
+	steer     []bool
+	spec      []complex128 // the frame's spectrum, bins 0..n/2
 
 	cols  []column
 	chol  bandChol     // the columns' Gram matrix, then its Cholesky factor

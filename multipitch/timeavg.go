@@ -33,7 +33,17 @@ import (
 // vibrato within the sub-window) puts into a partial's position grows with
 // the neighbour's share of the power, so only the partials where the voice
 // has the larger share steer it, and only where they hold most of its
-// power (ownShare); otherwise it keeps the long reading.
+// power (ownShare); otherwise it keeps the long reading. So is a voice
+// whose fundamental alone lies on a lower voice's partial 3 or 4 so near
+// that the long window cannot part them either (onLowPartial), its upper
+// partials parting from that voice's but weak: a flute's G4 14 ¢ over a
+// bowed cello's C3's 3rd partial, steered by those alone, read its
+// vibrato's troughs, which lie on the partial, 8 to 14 ¢ sharp
+// (cmd/fifthline voices_unseen2_test.go's render, measured). A steady
+// voice so read lies a few tenths of a cent further from its truth: the
+// trio's clarinet D4 over the bassoon's G2's 3rd partial +0.41 ¢ for
+// +0.05, the open voicing's horn G4 under the trombone's C3's −0.62 for
+// −0.39 (voices_mix_test.go, voices_untuned_test.go; measured).
 
 // A voice whose fundamental lies that near a lower voice's partial 3 to 6
 // but far enough from it for the long window's main lobes to part them
@@ -168,8 +178,9 @@ func (ta *timeAverager) average(x []float64, voices []Voice, long *Estimator) []
 		ta.f0 = append(ta.f0, v.Hz)
 		ta.longHz = append(ta.longHz, v.Hz)
 	}
+	ta.fitter.longBinHz = long.fitter.binHz
 	for v := range voices {
-		ta.loose = append(ta.loose, ta.fitter.onHarmonic(ta.f0, v))
+		ta.loose = append(ta.loose, ta.fitter.onHarmonic(ta.f0, v) || ta.fitter.onLowPartial(ta.f0, v))
 		anyLoose = anyLoose || ta.loose[v]
 	}
 	ta.takeLong(long, voices)
