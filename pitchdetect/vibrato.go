@@ -170,8 +170,7 @@ func (p *phasor) at(t []float64, i int, r float64) (cos, sin float64) {
 // fitSinusoid fits c ≈ m + a·cos + b·sin at rate r by least squares and
 // returns the share of variance explained.
 func fitSinusoid(t, c []float64, r float64) (a, b, m, explained float64) {
-	var f sinusoidFit
-	f.basis(t, r)
+	f := sinusoidFit{t: t, r: r} // cos and sin on the fly: no allocation per frame
 	return f.fit(c, nil)
 }
 
@@ -196,8 +195,8 @@ const robustTuning = 6.0
 // it found narrow ones (a flute's, a bassoon's waver) where none is
 // (measured).
 func fitRobust(t, c []float64, r float64) (a, b, m, explained float64) {
-	var f sinusoidFit
-	f.basis(t, r)
+	f := sinusoidFit{t: t, r: r}
+	f.basis()
 	w := make([]float64, len(t))
 	dev := make([]float64, len(t))
 	for i := range w {
@@ -206,7 +205,8 @@ func fitRobust(t, c []float64, r float64) (a, b, m, explained float64) {
 	for range 10 {
 		a, b, m, explained = f.fit(c, w)
 		for i := range c {
-			dev[i] = c[i] - (m + a*f.co[i] + b*f.sn[i])
+			co, sn := f.at(i)
+			dev[i] = c[i] - (m + a*co + b*sn)
 		}
 		sigma := 1.4826 * medianAbsDev(dev)
 		if sigma == 0 {
@@ -220,14 +220,29 @@ func fitRobust(t, c []float64, r float64) (a, b, m, explained float64) {
 	return a, b, m, explained
 }
 
-// sinusoidFit holds cos and sin of 2πr(t−t[0]) along a track.
-type sinusoidFit struct{ co, sn []float64 }
+// sinusoidFit is a sinusoid at rate r along a track's times t: cos and
+// sin of 2πr(t−t[0]), worked out at each use, or once (basis) where a fit
+// is repeated (fitRobust).
+type sinusoidFit struct {
+	t      []float64
+	r      float64
+	co, sn []float64
+}
 
-func (f *sinusoidFit) basis(t []float64, r float64) {
-	f.co, f.sn = make([]float64, len(t)), make([]float64, len(t))
-	for i, ti := range t {
-		f.sn[i], f.co[i] = math.Sincos(2 * math.Pi * r * (ti - t[0]))
+func (f *sinusoidFit) basis() {
+	co, sn := make([]float64, len(f.t)), make([]float64, len(f.t))
+	for i := range f.t {
+		co[i], sn[i] = f.at(i)
 	}
+	f.co, f.sn = co, sn
+}
+
+func (f *sinusoidFit) at(i int) (co, sn float64) {
+	if f.co != nil {
+		return f.co[i], f.sn[i]
+	}
+	sn, co = math.Sincos(2 * math.Pi * f.r * (f.t[i] - f.t[0]))
+	return co, sn
 }
 
 // fit solves c ≈ m + a·cos + b·sin by least squares, each point weighed
@@ -243,7 +258,8 @@ func (f *sinusoidFit) fit(c, w []float64) (a, b, m, explained float64) {
 	// Normal equations for [m a b], 3×3, solved by Cramer's rule.
 	var s1, sc, ss, scc, sss, ssc, y, yc, ys float64
 	for i, ci := range c {
-		wi, co, sn := weight(i), f.co[i], f.sn[i]
+		wi := weight(i)
+		co, sn := f.at(i)
 		s1 += wi
 		sc += wi * co
 		ss += wi * sn
@@ -267,23 +283,23 @@ func (f *sinusoidFit) fit(c, w []float64) (a, b, m, explained float64) {
 	var res, tot float64
 	mean := y / s1
 	for i, ci := range c {
-		e := ci - (m + a*f.co[i] + b*f.sn[i])
+		co, sn := f.at(i)
+		e := ci - (m + a*co + b*sn)
 		res += weight(i) * e * e
 		tot += weight(i) * (ci - mean) * (ci - mean)
 	}
 	return a, b, m, 1 - res/tot
 }
 
-// medianAbsDev is the median of |x − median(x)|.
+// medianAbsDev is the median of |x − median(x)| (median's, the upper of
+// two middles).
 func medianAbsDev(x []float64) float64 {
 	y := slices.Clone(x)
-	slices.Sort(y)
-	med := y[len(y)/2]
+	med := median(y)
 	for i, v := range x {
 		y[i] = math.Abs(v - med)
 	}
-	slices.Sort(y)
-	return y[len(y)/2]
+	return median(y)
 }
 
 // wholeCycleMean is the time average of the linearly interpolated track over
