@@ -30,6 +30,10 @@ var servedNames = map[string]bool{"default": true, "pulse": true, "pipewire": tr
 // pactlWait is how long pactl may take before the name is given up on.
 const pactlWait = 2 * time.Second
 
+// Serves reports whether a sound server may stand behind the device (one
+// of ALSA's names for its plugin), without asking the server.
+func Serves(dev Info) bool { return dev.HostAPI == "ALSA" && servedNames[dev.Name] }
+
 // ServedSource is the sound server's source behind an input device; ok is
 // false where no server serves it or none answers.
 func ServedSource(dev Info) (Served, bool) { return servedSource(dev) }
@@ -40,7 +44,7 @@ func ServedSource(dev Info) (Served, bool) { return servedSource(dev) }
 // or pactl is missing or gets no answer: the device's own name then says
 // all that is known.
 func servedSource(dev Info) (s Served, ok bool) {
-	if dev.HostAPI != "ALSA" || !servedNames[dev.Name] {
+	if !Serves(dev) {
 		return s, false
 	}
 	info, err := pactl("info")

@@ -38,16 +38,20 @@ func runDevices(e *env, args []string) error {
 }
 
 // sayServed names the sound server's source behind the inputs it serves:
-// PortAudio's 32 channels of "default" say nothing of the microphone.
+// PortAudio's 32 channels of "default" say nothing of the microphone. The
+// server is asked once: every such input reaches the same source.
 func sayServed(e *env, devs []device.Info) error {
 	var names []string
-	var src device.Served
+	var first device.Info
 	for _, d := range devs {
-		if s, ok := device.ServedSource(d); ok && d.InputChannels > 0 {
-			names, src = append(names, d.Name), s
+		if device.Serves(d) && d.InputChannels > 0 {
+			if names = append(names, d.Name); len(names) == 1 {
+				first = d
+			}
 		}
 	}
-	if len(names) == 0 {
+	src, ok := device.ServedSource(first)
+	if len(names) == 0 || !ok {
 		return nil
 	}
 	has := ""
